@@ -1,0 +1,262 @@
+r"""Air columns: speed of sound, end corrections, and resonance lengths of open and closed tubes.
+
+A tube open at both ends resonates at :math:`f_n = n c / (2 (L + 2 \delta))`; a tube closed at
+one end at :math:`f_n = (2n - 1) c / (4 (L + \delta))`, n = 1, 2, ... (odd harmonics only),
+where :math:`\delta` is the end correction of each open end [m] and c the speed of sound [m/s].
+
+Temperatures are in kelvin, pressures in Pa, humidity as relative humidity in percent.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+SPEED_OF_SOUND_20C = 343.2
+"""Speed of sound in dry air at 20 C and 101.325 kPa [m/s]. ISO 9613-1:1993, Formula A.5."""
+
+STANDARD_PRESSURE = 101325.0
+"""Standard atmosphere [Pa]. ISO 9613-1:1993 reference pressure."""
+
+CO2_MOLE_FRACTION = 400e-6
+"""CO2 mole fraction of outdoor air assumed by default [-] (about 400 ppm; common practice)."""
+
+END_CORRECTION_UNFLANGED = 0.6133
+"""Low-frequency end correction of an unflanged thin-walled circular pipe, per unit inner radius
+[-]. Levine, H. and Schwinger, J., "On the radiation of sound from an unflanged circular pipe",
+Phys. Rev. 73(4) 383-406, 1948."""
+
+END_CORRECTION_FLANGED = 0.8216
+"""Low-frequency end correction of a circular pipe in an infinite flange, per unit inner radius
+[-]. Norris, A. N. and Sheng, I. C., "Acoustic radiation from a circular pipe with an infinite
+flange", J. Sound Vib. 135, 85-93, 1989."""
+
+_CRAMER_1993 = (
+    331.5024, 0.603055, -0.000528, 51.471935, 0.1495874, -0.000782,
+    -1.82e-7, 3.73e-8, -2.93e-10, -85.20931, -0.228525, 5.91e-5,
+    -2.835149, -2.15e-13, 29.179762, 0.000486,
+)
+"""Coefficients a0..a15 of Cramer, O., "The variation of the specific heat ratio and the speed
+of sound in air with temperature, pressure, humidity, and CO2 concentration", J. Acoust. Soc.
+Am. 93(5) 2510-2516, 1993, Eq. 15 and Table III (t in C, p in Pa, mole fractions)."""
+
+
+def _plain(out):
+    """A float for a scalar result, the array otherwise."""
+    out = np.asarray(out)
+    return float(out) if out.ndim == 0 else out
+
+
+def speed_of_sound_iso9613(temperature):
+    r"""Speed of sound in dry air [m/s]: :math:`c = 343.2 \sqrt{T / 293.15}`.
+
+    Parameters
+    ----------
+    temperature : float or array
+        Air temperature T [K].
+
+    Examples
+    --------
+    >>> round(speed_of_sound_iso9613(293.15), 2)
+    343.2
+
+    References
+    ----------
+    .. [1] ISO 9613-1:1993, Acoustics - Attenuation of sound during propagation outdoors -
+       Part 1, Formula A.5.
+    """
+    return _plain(SPEED_OF_SOUND_20C * np.sqrt(np.asarray(temperature, dtype=float) / 293.15))
+
+
+def saturation_vapour_pressure_davis_1992(temperature):
+    """Saturation vapour pressure of water over a flat surface [Pa].
+
+    Parameters
+    ----------
+    temperature : float
+        T [K].
+
+    References
+    ----------
+    .. [1] Davis, R. S., "Equation for the determination of the density of moist air
+       (1981/91)", Metrologia 29, 67-70, 1992 (CIPM-81/91).
+    """
+    t = temperature
+    return math.exp(1.2378847e-5 * t * t - 1.9121316e-2 * t + 33.93711047 - 6.3431645e3 / t)
+
+
+def water_mole_fraction(temperature, humidity, pressure=STANDARD_PRESSURE):
+    """Mole fraction of water vapour in air [-] from relative humidity [%] (Davis 1992).
+
+    Parameters
+    ----------
+    temperature : float
+        T [K].
+    humidity : float
+        Relative humidity, 0..100 [%].
+    pressure : float
+        Atmospheric pressure [Pa].
+    """
+    t_c = temperature - 273.15
+    enhancement = 1.00062 + 3.14e-8 * pressure + 5.6e-7 * t_c * t_c
+    return humidity / 100.0 * enhancement * saturation_vapour_pressure_davis_1992(temperature) / pressure
+
+
+def speed_of_sound_cramer_1993(temperature, humidity=0.0, pressure=STANDARD_PRESSURE,
+                               co2=CO2_MOLE_FRACTION):
+    """Speed of sound in humid air [m/s] from Cramer's (1993) interpolating equation.
+
+    Valid for 0..30 C, 75..102 kPa and water mole fraction up to 0.06; stated uncertainty
+    under 300 ppm.
+
+    Parameters
+    ----------
+    temperature : float
+        T [K].
+    humidity : float
+        Relative humidity, 0..100 [%].
+    pressure : float
+        Atmospheric pressure [Pa].
+    co2 : float
+        CO2 mole fraction [-].
+
+    Examples
+    --------
+    >>> round(speed_of_sound_cramer_1993(293.15, 0.0), 3)
+    343.359
+    >>> round(speed_of_sound_cramer_1993(293.15, 50.0), 3)
+    343.987
+
+    References
+    ----------
+    .. [1] Cramer 1993, Eq. 15 and Table III (see ``_CRAMER_1993``).
+    """
+    a = _CRAMER_1993
+    t = temperature - 273.15
+    p = pressure
+    xw = water_mole_fraction(temperature, humidity, pressure)
+    xc = co2
+    return (
+        a[0] + a[1] * t + a[2] * t * t
+        + (a[3] + a[4] * t + a[5] * t * t) * xw
+        + (a[6] + a[7] * t + a[8] * t * t) * p
+        + (a[9] + a[10] * t + a[11] * t * t) * xc
+        + a[12] * xw * xw + a[13] * p * p + a[14] * xc * xc + a[15] * xw * p * xc
+    )
+
+
+def speed_of_sound(temperature, humidity=None, pressure=STANDARD_PRESSURE):
+    """Speed of sound [m/s]: Cramer 1993 when a humidity is given, else ISO 9613-1 (dry air)."""
+    if humidity is None:
+        return speed_of_sound_iso9613(temperature)
+    return speed_of_sound_cramer_1993(temperature, humidity, pressure)
+
+
+def end_correction(radius, kind="unflanged"):
+    """End correction of one open end [m].
+
+    Parameters
+    ----------
+    radius : float
+        Inner radius a [m].
+    kind : str or float
+        "unflanged" (0.6133 a), "flanged" (0.8216 a), "none" (0), or a factor times a.
+
+    Examples
+    --------
+    >>> round(end_correction(0.0125), 6)
+    0.007666
+    """
+    if isinstance(kind, (int, float)) and not isinstance(kind, bool):
+        return float(kind) * radius
+    factors = {"unflanged": END_CORRECTION_UNFLANGED, "flanged": END_CORRECTION_FLANGED, "none": 0.0}
+    if kind not in factors:
+        raise ValueError(f"end correction {kind!r}: use unflanged, flanged, none or a number")
+    return factors[kind] * radius
+
+
+def open_open_length(frequency, radius, speed, harmonic=1, correction="unflanged"):
+    r"""Length [m] of a tube open at both ends whose n-th resonance is ``frequency``.
+
+    .. math:: L = n c / (2 f) - 2 \delta
+
+    Parameters
+    ----------
+    frequency : float or array
+        f [Hz].
+    radius : float
+        Inner radius a [m].
+    speed : float
+        Speed of sound c [m/s].
+    harmonic : int
+        n [-].
+    correction : str or float
+        End correction of each end (see :func:`end_correction`).
+
+    Examples
+    --------
+    A4 = 440 Hz, c = 343.2 m/s, a = 12.5 mm: 0.390 m minus two end corrections.
+
+    >>> round(open_open_length(440.0, 0.0125, 343.2), 5)
+    0.37467
+    """
+    f = np.asarray(frequency, dtype=float)
+    return _plain(harmonic * speed / (2.0 * f) - 2.0 * end_correction(radius, correction))
+
+
+def closed_open_length(frequency, radius, speed, harmonic=1, correction="unflanged"):
+    r"""Length [m] of a tube closed at one end whose n-th resonance (odd: 2n-1) is ``frequency``.
+
+    .. math:: L = (2n - 1) c / (4 f) - \delta
+
+    Examples
+    --------
+    >>> round(closed_open_length(440.0, 0.0125, 343.2), 5)
+    0.1873
+    """
+    f = np.asarray(frequency, dtype=float)
+    return _plain((2 * harmonic - 1) * speed / (4.0 * f) - end_correction(radius, correction))
+
+
+def open_open_frequency(length, radius, speed, harmonic=1, correction="unflanged"):
+    """Resonance [Hz] of the n-th mode of a tube open at both ends: n c / (2 (L + 2 delta))."""
+    length = np.asarray(length, dtype=float)
+    return _plain(harmonic * speed / (2.0 * (length + 2.0 * end_correction(radius, correction))))
+
+
+def closed_open_frequency(length, radius, speed, harmonic=1, correction="unflanged"):
+    """Resonance [Hz] of the n-th mode of a tube closed at one end: (2n-1) c / (4 (L + delta))."""
+    length = np.asarray(length, dtype=float)
+    return _plain((2 * harmonic - 1) * speed / (4.0 * (length + end_correction(radius, correction))))
+
+
+def two_resonance(frequency, first_length, second_length):
+    """Speed of sound [m/s] and end correction [m] from the first two resonance lengths of a
+    closed tube sounded at one frequency (the classic resonance-tube method).
+
+    L2 - L1 = lambda / 2, so c = 2 f (L2 - L1); and L1 + delta = lambda / 4, so
+    delta = (L2 - 3 L1) / 2.
+
+    Examples
+    --------
+    >>> c, d = two_resonance(512.0, 0.160, 0.495)
+    >>> round(c, 1), round(d * 1000, 1)
+    (343.0, 7.5)
+    """
+    if not 0 < first_length < second_length:
+        raise ValueError("need 0 < first resonance length < second resonance length")
+    speed = 2.0 * frequency * (second_length - first_length)
+    correction = (second_length - 3.0 * first_length) / 2.0
+    return speed, correction
+
+
+def speed_from_resonance(frequency, length, correction=0.0):
+    """Speed of sound [m/s] from one closed-tube resonance: c = 4 (L + delta) f.
+
+    Examples
+    --------
+    >>> round(speed_from_resonance(426.7, 0.190), 1)
+    324.3
+    """
+    return 4.0 * (length + correction) * frequency

@@ -1,0 +1,151 @@
+r"""Finite-element Timoshenko beam with free ends, for uniform and non-uniform pieces.
+
+Deflection w and section rotation psi are interpolated independently with Lagrange
+polynomials of order ``order`` on each element, and the element matrices
+
+.. math::
+    K = \int EI\, \psi'^2 + \kappa G A\, (w' - \psi)^2 \, dx, \qquad
+    M = \int \mu\, w^2 + \rho I\, \psi^2 \, dx
+
+are integrated with Gauss-Legendre quadrature at ``order + 1`` points.  Section properties may
+vary along the length (arched bars, plugged tubes): they are given as functions of x.  The
+generalised symmetric eigenproblem K v = omega^2 M v is solved with scipy.linalg.eigh; the two
+rigid-body modes of a free-free piece come first and are skipped.
+
+Higher-order elements keep shear locking small; the convergence table is in
+``bench/bench_beam_fe.py``.  The exact transfer-matrix solution in :mod:`timoshenko` is the
+reference this solver is tested against.
+
+References
+----------
+.. [1] Reddy, J. N., An Introduction to the Finite Element Method, 3rd ed., McGraw-Hill, 2006,
+   ch. 5 (Timoshenko beam elements; from memory for the chapter).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.linalg import eigh
+
+
+@dataclass(frozen=True)
+class BeamModes:
+    """Natural frequencies [Hz], node coordinates [m] and deflection shapes (one row per mode)."""
+
+    frequencies: np.ndarray
+    x: np.ndarray
+    deflection: np.ndarray
+
+
+def _lagrange(order):
+    """Shape functions and derivatives of equally spaced Lagrange elements at Gauss points."""
+    nodes = np.linspace(-1.0, 1.0, order + 1)
+    gauss, weights = np.polynomial.legendre.leggauss(order + 1)
+    n = np.ones((order + 1, gauss.size))
+    dn = np.zeros((order + 1, gauss.size))
+    for i, xi in enumerate(nodes):
+        others = np.delete(nodes, i)
+        denom = np.prod(xi - others)
+        n[i] = np.prod(gauss[None, :] - others[:, None], axis=0) / denom
+        total = np.zeros(gauss.size)
+        for j in range(others.size):
+            rest = np.delete(others, j)
+            total += np.prod(gauss[None, :] - rest[:, None], axis=0) if rest.size else 1.0
+        dn[i] = total / denom
+    return nodes, gauss, weights, n, dn
+
+
+def free_free_modes(
+    length,
+    flexural_rigidity,
+    shear_rigidity,
+    mass_per_length,
+    rotary_inertia,
+    modes=6,
+    elements=40,
+    order=3,
+):
+    """Free-free flexural modes of a (possibly non-uniform) Timoshenko beam.
+
+    Parameters
+    ----------
+    length : float
+        L [m].
+    flexural_rigidity : callable or float
+        EI(x) [N*m^2], x in m from the reference end.
+    shear_rigidity : callable or float
+        kappa G A(x) [N].
+    mass_per_length : callable or float
+        mu(x) [kg/m].
+    rotary_inertia : callable or float
+        rho I(x) [kg*m].
+    modes : int
+        Number of flexural modes returned [-].
+    elements : int
+        Number of elements [-].
+    order : int
+        Polynomial order of each element, 1..6 [-].
+
+    Returns
+    -------
+    BeamModes
+        Frequencies [Hz] of the first ``modes`` flexural modes, and their deflection shapes
+        at the mesh nodes.
+
+    Examples
+    --------
+    The 300 x 25 x 10 mm aluminium bar (E = 69 GPa, G = 26 GPa, kappa = 0.85): shear and
+    rotary inertia put mode 1 a little under the slender 577.4 Hz.
+
+    >>> E, G, b, t = 69e9, 26e9, 0.025, 0.010
+    >>> fe = free_free_modes(0.3, E * b * t**3 / 12, 0.85 * G * b * t, 2700 * b * t,
+    ...                      2700 * b * t**3 / 12, modes=1)
+    >>> round(float(fe.frequencies[0]), 1)
+    575.0
+    """
+    def as_function(value):
+        return value if callable(value) else (lambda x, v=float(value): np.full_like(x, v))
+
+    ei, kga, mu, ri = (as_function(v) for v in (flexural_rigidity, shear_rigidity,
+                                                mass_per_length, rotary_inertia))
+    local, gauss, weights, n, dn = _lagrange(order)
+    count = elements * order + 1
+    size = 2 * count
+    stiff = np.zeros((size, size))
+    mass = np.zeros((size, size))
+    h = length / elements
+    for e in range(elements):
+        x0 = e * h
+        xg = x0 + (gauss + 1.0) * h / 2.0
+        jac = h / 2.0
+        dndx = dn / jac
+        w_ei, w_kga = weights * ei(xg) * jac, weights * kga(xg) * jac
+        w_mu, w_ri = weights * mu(xg) * jac, weights * ri(xg) * jac
+        # blocks over (w, psi) of this element's nodes
+        k_ww = (dndx * w_kga) @ dndx.T
+        k_wp = -(dndx * w_kga) @ n.T
+        k_pp = (dndx * w_ei) @ dndx.T + (n * w_kga) @ n.T
+        m_ww = (n * w_mu) @ n.T
+        m_pp = (n * w_ri) @ n.T
+        idx = e * order + np.arange(order + 1)
+        wi, pi = 2 * idx, 2 * idx + 1
+        stiff[np.ix_(wi, wi)] += k_ww
+        stiff[np.ix_(wi, pi)] += k_wp
+        stiff[np.ix_(pi, wi)] += k_wp.T
+        stiff[np.ix_(pi, pi)] += k_pp
+        mass[np.ix_(wi, wi)] += m_ww
+        mass[np.ix_(pi, pi)] += m_pp
+    values, vectors = eigh(stiff, mass, subset_by_index=[0, modes + 1])
+    omega2 = np.clip(values[2:], 0.0, None)
+    x = np.linspace(0.0, length, count)
+    return BeamModes(np.sqrt(omega2) / (2 * np.pi), x, vectors[0::2, 2:].T)
+
+
+def node_positions(modes, mode=1):
+    """Zero crossings of a mode's deflection [m], interpolated linearly between mesh nodes."""
+    w = modes.deflection[mode - 1]
+    x = modes.x
+    idx = np.nonzero(np.sign(w[:-1]) * np.sign(w[1:]) < 0)[0]
+    return [float(x[i] - w[i] * (x[i + 1] - x[i]) / (w[i + 1] - w[i])) for i in idx]
