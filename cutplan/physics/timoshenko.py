@@ -232,6 +232,38 @@ def fundamental_frequencies(lengths, flexural_rigidity, mass_per_length, shear_r
     return x / (2 * np.pi * lengths**2) * np.sqrt(flexural_rigidity / mass_per_length)
 
 
+def fundamental_lengths(frequency, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia,
+                        tolerance=1e-12):
+    """Lengths [m] whose mode 1 sounds each of many target frequencies [Hz] (vectorised).
+
+    Starts from the slender lengths and runs a secant iteration on log f against log L (f is
+    nearly proportional to 1/L^2, so two or three steps suffice); stops when every relative
+    frequency error is below ``tolerance``.
+    """
+    from cutplan.physics.beam import free_free_length
+
+    target = np.atleast_1d(np.asarray(frequency, dtype=float))
+    log_target = np.log(target)
+
+    def log_f(length):
+        return np.log(fundamental_frequencies(length, flexural_rigidity, mass_per_length,
+                                              shear_rigidity, rotary_inertia))
+
+    x0 = np.log(np.atleast_1d(free_free_length(target, flexural_rigidity, mass_per_length)))
+    y0 = log_f(np.exp(x0))
+    x1 = x0 + (y0 - log_target) / 2.0
+    for _ in range(30):
+        y1 = log_f(np.exp(x1))
+        miss = y1 - log_target
+        if np.all(np.abs(miss) < tolerance):
+            break
+        slope = np.where(np.abs(x1 - x0) > 1e-15, (y1 - y0) / np.where(x1 == x0, 1.0, x1 - x0), -2.0)
+        slope = np.clip(slope, -4.0, -1.0)
+        x0, y0 = x1, y1
+        x1 = x1 - miss / slope
+    return np.exp(x1)
+
+
 def fundamental_length(frequency, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia):
     """Length [m] of a uniform Timoshenko free-free piece whose mode 1 sounds ``frequency`` [Hz].
 

@@ -1,0 +1,355 @@
+"""The ``cutplan`` command line: parse arguments, call one function, render. Nothing else.
+
+Heavy modules (numpy, scipy, reportlab) are imported inside the commands that use them so
+that ``cutplan --help`` starts fast.
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+import tempfile
+from pathlib import Path
+
+import click
+
+from cutplan import __version__
+
+EXIT_BAD_INPUT = 2
+"""Exit code for bad input, the code click's UsageError uses."""
+
+
+def fail(lines):
+    """Print one line per problem to stderr and exit with code 2 (no traceback)."""
+    for line in lines if isinstance(lines, (list, tuple)) else [lines]:
+        click.echo(f"error: {line}", err=True)
+    sys.exit(EXIT_BAD_INPUT)
+
+
+def write_file(path, data):
+    """Write text or bytes to ``path`` completely or not at all (temporary file + rename)."""
+    path = Path(path)
+    path.parent.mkdir(parents=True, exist_ok=True)
+    payload = data.encode("utf-8") if isinstance(data, str) else data
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.parent)
+    try:
+        with os.fdopen(fd, "wb") as fh:
+            fh.write(payload)
+        os.replace(tmp, path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
+
+
+def _library_loader(extra):
+    from cutplan.materials import load_library
+
+    def load(design_dirs):
+        return load_library(list(extra) + list(design_dirs))
+
+    return load
+
+
+def _load(design_path, materials_dirs=()):
+    """Design and library, or a clean exit 2 with one line per problem."""
+    from cutplan.design import DesignErrors, load_design
+    from cutplan.materials import MaterialError
+
+    try:
+        return load_design(design_path, _library_loader(materials_dirs))
+    except DesignErrors as exc:
+        fail([str(e) for e in exc.errors])
+    except MaterialError as exc:
+        fail(str(exc))
+
+
+def _plan(design):
+    from cutplan.design import DesignErrors
+    from cutplan.planner import plan
+
+    try:
+        return plan(design)
+    except DesignErrors as exc:
+        fail([str(e) for e in exc.errors])
+
+
+def _check_output_dir(output, force):
+    out = Path(output)
+    if out.exists() and not out.is_dir():
+        fail(f"{out}: -o/--output must be a folder, and this is a file")
+    if out.is_dir() and any(out.iterdir()) and not force:
+        fail(f"{out}: the folder is not empty; use --force to overwrite the files cutplan writes there")
+    return out
+
+
+MATERIALS_OPTION = click.option(
+    "--materials", "materials_dirs", multiple=True, type=click.Path(file_okay=False),
+    help="Extra folder of material/stock TOML tables (may be repeated).",
+)
+
+
+@click.group(context_settings={"help_option_names": ["-h", "--help"]})
+@click.version_option(__version__, prog_name="cutplan")
+def cli():
+    """Cut plans for hand-built tuned percussion: chimes, bars, air columns, resonators.
+
+    \b
+    Start with a design file:
+      cutplan new chime porch.toml
+      cutplan plan porch.toml -o porch-packet
+    """
+
+
+@cli.command("plan")
+@click.argument("design", type=click.Path(dir_okay=False))
+@click.option("-o", "--output", type=click.Path(), help="Folder to write plan.csv, plan.json and the shop packet.")
+@click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
+@click.option("--format", "fmt", type=click.Choice(["table", "csv", "json"]), default="table",
+              show_default=True, help="What to print.")
+@click.option("--paper", type=click.Choice(["letter", "a4"]), help="Paper size of the PDF (default: the design's).")
+@click.option("--force", is_flag=True, help="Overwrite files in a non-empty output folder.")
+@MATERIALS_OPTION
+def plan_command(design, output, units, fmt, paper, force, materials_dirs):
+    """Plan every piece of DESIGN: lengths, cut lengths, nodes, partials.
+
+    \b
+    Example:
+      cutplan plan examples/porch-chimes.toml
+      cutplan plan examples/porch-chimes.toml --format json
+      cutplan plan examples/porch-chimes.toml -o porch-packet
+    """
+    out = _check_output_dir(output, force) if output else None
+    des, _lib = _load(design, materials_dirs)
+    the_plan = _plan(des)
+    the_plan = _with_stock(the_plan, des)
+    from cutplan.render.table import render_csv, render_json
+    from cutplan.render.terminal import render_table
+
+    if fmt == "json":
+        click.echo(render_json(the_plan), nl=False)
+    elif fmt == "csv":
+        click.echo(render_csv(the_plan), nl=False)
+    else:
+        click.echo(render_table(the_plan, units), nl=False)
+    if out is not None:
+        files = {"plan.csv": render_csv(the_plan), "plan.json": render_json(the_plan)}
+        files.update(_packet_files(the_plan, paper))
+        for name, data in files.items():
+            write_file(out / name, data)
+        click.echo(f"wrote {len(files)} files to {out}", err=True)
+
+
+def _with_stock(the_plan, des):
+    """Attach the stock layout when the design gives stock lengths."""
+    try:
+        from cutplan import stock
+    except ImportError:  # the optimiser is an optional module while it is being built
+        return the_plan
+    return stock.attach_layout(the_plan, des)
+
+
+def _packet_files(the_plan, paper):
+    """PDF packet and SVG templates, when the renderers are present."""
+    try:
+        from cutplan.render import packet
+    except ImportError:
+        return {}
+    return packet.packet_files(the_plan, paper)
+
+
+@cli.command("scale")
+@click.argument("spec")
+@click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
+@click.option("--temperament", default="equal", show_default=True,
+              help='"equal", "equal-N", "just" or "pythagorean" (just/pythagorean relative to the root).')
+def scale_command(spec, a4, temperament):
+    """List the notes and frequencies of a scale.
+
+    \b
+    SPEC is "ROOT SCALE [COUNT]" or "LOW..HIGH [SCALE]". Examples:
+      cutplan scale "D5 major-pentatonic 5"
+      cutplan scale "C4..C5 major" --temperament just
+    """
+    from cutplan import pitch
+
+    if not 400 <= a4 <= 480:
+        fail(f"--a4: {a4} must be between 400 and 480 Hz")
+    try:
+        targets = pitch.spec_targets(spec, temperament, a4)
+    except pitch.PitchError as exc:
+        fail(f"scale: {exc.text!r} is not {exc.accepted}")
+    click.echo(f"{'note':6} {'Hz':>10} {'cents from ET':>14}")
+    for t in targets:
+        name, off = pitch.nearest_note(t.frequency, a4)
+        click.echo(f"{t.name:6} {t.frequency:10.3f} {off:+14.2f}")
+
+
+@cli.command("materials")
+@click.argument("name", required=False)
+@MATERIALS_OPTION
+def materials_command(name, materials_dirs):
+    """List materials and stock sizes with their sources, or show one.
+
+    \b
+    Examples:
+      cutplan materials
+      cutplan materials maple-sugar
+      cutplan materials pvc-sch40-2
+    """
+    from cutplan.materials import MaterialError, load_library
+
+    try:
+        lib = load_library(materials_dirs)
+    except MaterialError as exc:
+        fail(str(exc))
+    if name is None:
+        click.echo("Materials (E, density, source):")
+        for key, m in sorted(lib.materials.items()):
+            src = dict(m.provenance).get("modulus")
+            click.echo(f"  {key:22} {m.modulus / 1e9:7.2f} GPa {m.density:7.0f} kg/m3  "
+                       f"[{src.kind}] {m.description}")
+        click.echo("\nStock sizes (outside diameter x wall):")
+        for key, s in sorted(lib.stock.items()):
+            sec = s.section
+            click.echo(f"  {key:18} {sec.outer / 0.0254:6.3f} x {sec.wall / 0.0254:5.3f} in "
+                       f"({sec.outer * 1000:6.2f} x {sec.wall * 1000:4.2f} mm)  {s.standard}")
+        return
+    if name in lib.materials:
+        m = lib.materials[name]
+        click.echo(f"{name}: {m.description}")
+        click.echo(f"  modulus        {m.modulus / 1e9:.3f} GPa ({m.modulus_basis}), spread {m.modulus_spread * 100:.0f} %")
+        click.echo(f"  density        {m.density:.0f} kg/m3, spread {m.density_spread * 100:.1f} %")
+        click.echo(f"  Poisson        {m.poisson:.3f}")
+        click.echo(f"  shear modulus  {m.shear_modulus_for('timoshenko') / 1e9:.3f} GPa (as used by the shear-corrected model)")
+        for prop, prov in m.provenance:
+            cite = lib.sources.get(prov.source, {}).get("citation", prov.source)
+            click.echo(f"  source of {prop}: [{prov.kind}] {cite}; {prov.where}")
+        return
+    if name in lib.stock:
+        s = lib.stock[name]
+        sec = s.section
+        click.echo(f"{name}: {s.description} ({s.standard})")
+        click.echo(f"  outside diameter {sec.outer * 1000:.2f} mm ({sec.outer / 0.0254:.3f} in) +/- {s.outer_tolerance * 1000:.3f} mm")
+        click.echo(f"  wall             {sec.wall * 1000:.2f} mm ({sec.wall / 0.0254:.3f} in) +/- {s.wall_tolerance * 100:.0f} %")
+        click.echo(f"  bore for air     {sec.air_radius * 2000:.2f} mm ({sec.air_radius * 2 / 0.0254:.3f} in)")
+        click.echo(f"  default material {s.material}")
+        cite = lib.sources.get(s.provenance.source, {}).get("citation", s.provenance.source)
+        click.echo(f"  source: [{s.provenance.kind}] {cite}")
+        return
+    fail(f"materials: {name!r} is not a material or stock size; run `cutplan materials` to list them")
+
+
+@cli.command("length")
+@click.option("--kind", type=click.Choice(["chime", "bar", "air-column"]), default="chime", show_default=True,
+              help="What the piece is.")
+@click.option("--note", help='Target note, e.g. "D5".')
+@click.option("--frequency", type=float, help="Target frequency in Hz (instead of --note).")
+@click.option("--material", help="Material name (chime/bar), from `cutplan materials`.")
+@click.option("--stock", "stock_name", help='Named stock size, e.g. "al-1.000x0.065" or "pvc-sch40-1".')
+@click.option("--tube", help='Tube "OUTER x WALL", e.g. "1 in x 0.065 in".')
+@click.option("--rod", help='Rod diameter, e.g. "12 mm".')
+@click.option("--bar", "bar_size", help='Bar "WIDTH x THICKNESS", e.g. "38 mm x 19 mm".')
+@click.option("--ends", type=click.Choice(["open-open", "closed-open"]), default="open-open", show_default=True,
+              help="Air column ends.")
+@click.option("--temperature", default="20 C", show_default=True, help="Air temperature for air columns.")
+@click.option("--model", type=click.Choice(["timoshenko", "slender"]), default="timoshenko", show_default=True,
+              help="Beam model for chimes and bars.")
+@click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
+def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_size, ends, temperature, model, a4):
+    """Length and hang point of one piece, without a design file.
+
+    \b
+    Examples:
+      cutplan length --note D5 --stock al-1.000x0.065
+      cutplan length --kind bar --note C5 --material maple-sugar --bar "40 mm x 20 mm"
+      cutplan length --kind air-column --note A4 --stock pvc-sch40-1 --ends closed-open
+    """
+    import tomllib
+
+    from cutplan.design import DesignErrors, load_design
+
+    if (note is None) == (frequency is None):
+        fail("length: give exactly one of --note or --frequency")
+    shapes = [s for s in (stock_name, tube, rod, bar_size) if s]
+    if len(shapes) != 1:
+        fail("length: give exactly one of --stock, --tube, --rod or --bar")
+
+    def q(s):
+        return '"' + str(s).replace("\\", "\\\\").replace('"', '\\"') + '"'
+
+    if stock_name:
+        section = f"{{ stock = {q(stock_name)} }}"
+    elif tube:
+        parts = tube.lower().split("x")
+        if len(parts) != 2:
+            fail(f'--tube: {tube!r} must be "OUTER x WALL", e.g. "1 in x 0.065 in"')
+        section = f'{{ shape = "tube", outer = {q(parts[0].strip())}, wall = {q(parts[1].strip())} }}'
+    elif rod:
+        section = f'{{ shape = "rod", diameter = {q(rod)} }}'
+    else:
+        parts = bar_size.lower().split("x")
+        if len(parts) != 2:
+            fail(f'--bar: {bar_size!r} must be "WIDTH x THICKNESS", e.g. "38 mm x 19 mm"')
+        section = f'{{ shape = "bar", width = {q(parts[0].strip())}, thickness = {q(parts[1].strip())} }}'
+    lines = ['title = "one piece"', "[tuning]", f"a4 = {a4}", "[[set]]", 'name = "piece"', f"kind = {q(kind)}"]
+    lines.append(f"notes = [{q(note)}]" if note else f"frequencies = [{frequency}]")
+    lines.append(f"section = {section}")
+    if material:
+        lines.append(f"material = {q(material)}")
+    if kind == "air-column":
+        lines += [f"ends = {q(ends)}", f"temperature = {q(temperature)}"]
+    else:
+        lines.append(f"model = {q(model)}")
+    text = "\n".join(lines) + "\n"
+    try:
+        tomllib.loads(text)
+    except tomllib.TOMLDecodeError:
+        fail("length: the options could not be combined; check for stray quotes")
+    with tempfile.TemporaryDirectory() as tmp:
+        path = Path(tmp) / "length-options.toml"
+        path.write_text(text, encoding="utf-8")
+        try:
+            des, _ = load_design(path, _library_loader(()))
+        except DesignErrors as exc:
+            fail([str(e).replace(str(path), "length") for e in exc.errors])
+    the_plan = _plan(des)
+    from cutplan.units import format_length
+
+    p = the_plan.pieces[0]
+    click.echo(f"{p.note}: {p.target_hz:.2f} Hz, {the_plan.sets[0].section}, {p.model}")
+    click.echo(f"  length      {format_length(p.length)}")
+    for i, x in enumerate(p.nodes, start=1):
+        what = "hang hole" if kind == "chime" else "support"
+        click.echo(f"  {what} {i}  {format_length(x)} from the end")
+    click.echo(f"  trimming    {p.cents_per_mm:.2f} cents per mm")
+    if kind != "air-column":
+        click.echo(f"  shear correction {p.shear_correction_cents:+.1f} cents against the slender model")
+    for w in p.warnings:
+        click.echo(f"  ! {w}")
+
+
+@cli.command("new")
+@click.argument("kind", type=click.Choice(["chime", "bar", "air-column"]))
+@click.argument("file", required=False, type=click.Path(dir_okay=False))
+@click.option("--force", is_flag=True, help="Overwrite FILE if it exists.")
+def new_command(kind, file, force):
+    """Write a commented starter design file for KIND (to FILE or the screen).
+
+    \b
+    Example:
+      cutplan new chime porch.toml
+    """
+    from cutplan.starters import STARTERS
+
+    text = STARTERS[kind]
+    if file is None:
+        click.echo(text, nl=False)
+        return
+    if Path(file).exists() and not force:
+        fail(f"{file}: already exists; use --force to overwrite it")
+    write_file(file, text)
+    click.echo(f"wrote {file}; next: cutplan plan {file}", err=True)
+
+
+def main():  # pragma: no cover - console entry point
+    cli()

@@ -1,0 +1,281 @@
+"""Material and stock-size tables: ``materials/*.toml`` (shipped) plus any folders a user adds.
+
+A material file holds one table per material; each property is
+``{ value = "68.9 GPa", source = "<key>", where = "<table>", kind = "handbook", spread = "2 %" }``.
+A stock file holds a ``[table]`` header (standard, source, shape, default material, bore rule)
+and ``[sizes."<name>"]`` rows.  ``sources.toml`` maps source keys to full citations.
+
+Nothing is read at import time; :func:`load_library` is given the folders to read.
+"""
+
+from __future__ import annotations
+
+import math
+import tomllib
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from cutplan import units
+from cutplan.sections import Section, tube
+
+SOURCE_KINDS = (
+    "handbook", "standard", "paper", "datasheet", "measured", "derived", "common practice",
+    "from memory",
+)
+
+WOOD_BENDING_TO_TRUE_MODULUS = 1.10
+"""Factor from a static-bending MOE (which includes shear deflection) to the true along-grain
+modulus E_L [-]. USDA FPL Wood Handbook, FPL-GTR-190, 2010, Table 5-3a footnote (from memory:
+"increase by about 10 %")."""
+
+_MATERIAL_KEYS = {"description", "modulus", "density", "poisson", "shear_modulus", "shear_ratio"}
+_VALUE_KEYS = {"value", "source", "where", "kind", "spread", "basis"}
+_STOCK_HEADER_KEYS = {"standard", "source", "where", "kind", "shape", "material", "bore", "wall_factor"}
+_STOCK_KEYS = {"description", "outer", "wall", "inner", "outer_tolerance", "wall_tolerance", "material"}
+
+
+class MaterialError(ValueError):
+    """A table could not be read: names the file, the key, the value and what is allowed."""
+
+    def __init__(self, path, key, value, allowed):
+        self.path, self.key, self.value, self.allowed = str(path), key, value, allowed
+        super().__init__(f"{path}: {key}: {value!r} {allowed}")
+
+
+@dataclass(frozen=True)
+class Provenance:
+    """Where a value comes from: a source key, the table or page, and the kind of source."""
+
+    source: str
+    where: str
+    kind: str
+
+
+@dataclass(frozen=True)
+class Material:
+    """An isotropic (or along-grain) material, SI units.
+
+    ``modulus_basis`` is "dynamic" for values that are true elastic moduli, "static-bending"
+    for wood MOE from a bending test (see :data:`WOOD_BENDING_TO_TRUE_MODULUS`).
+    ``modulus_spread`` and ``density_spread`` are one standard deviation as fractions.
+    """
+
+    name: str
+    modulus: float
+    density: float
+    poisson: float = 0.33
+    description: str = ""
+    shear_modulus: float | None = None
+    shear_ratio: float | None = None
+    modulus_basis: str = "dynamic"
+    modulus_spread: float = 0.03
+    density_spread: float = 0.01
+    provenance: tuple = field(default=(), compare=False)
+
+    def modulus_for(self, model):
+        """E [Pa] to use with ``model`` ("timoshenko" or "slender"); see the woods.toml header."""
+        if self.modulus_basis == "static-bending" and model == "timoshenko":
+            return self.modulus * WOOD_BENDING_TO_TRUE_MODULUS
+        return self.modulus
+
+    def shear_modulus_for(self, model):
+        """G [Pa]: tabled, or shear_ratio x E, or E / 2(1 + nu) for isotropic materials."""
+        if self.shear_modulus:
+            return self.shear_modulus
+        e = self.modulus_for(model)
+        if self.shear_ratio:
+            return self.shear_ratio * e
+        return e / (2 * (1 + self.poisson))
+
+    @property
+    def sound_speed(self):
+        """sqrt(E / rho) [m/s], the stiffness-to-density constant that sets bar pitch."""
+        return math.sqrt(self.modulus / self.density)
+
+
+@dataclass(frozen=True)
+class StockSize:
+    """A named stock section from a published table."""
+
+    name: str
+    section: Section
+    description: str
+    standard: str
+    material: str
+    outer_tolerance: float
+    wall_tolerance: float
+    provenance: Provenance
+
+
+@dataclass(frozen=True)
+class Library:
+    """Everything loaded from the material folders."""
+
+    materials: dict
+    stock: dict
+    sources: dict
+    files: tuple = ()
+
+    def material(self, name):
+        """A material by name, or a MaterialError listing the names there are."""
+        if name not in self.materials:
+            raise KeyError(name)
+        return self.materials[name]
+
+
+def packaged_dir():
+    """The shipped tables: inside the wheel, or ``materials/`` of a source checkout."""
+    here = Path(__file__).resolve().parent
+    for candidate in (here / "_materials", here.parent / "materials"):
+        if candidate.is_dir():
+            return candidate
+    raise FileNotFoundError("cutplan's material tables are missing from this installation")
+
+
+def _read_toml(path):
+    try:
+        with open(path, "rb") as fh:
+            return tomllib.load(fh)
+    except tomllib.TOMLDecodeError as exc:
+        raise MaterialError(path, "(file)", "", f"is not valid TOML: {exc}") from None
+    except UnicodeDecodeError:
+        raise MaterialError(path, "(file)", "", "is not UTF-8 text") from None
+
+
+def _value(path, key, entry, parse, sources, spread_default=None):
+    """Parse one property entry: a table with value/source/where/kind[/spread], or a bare value."""
+    if isinstance(entry, dict):
+        unknown = set(entry) - _VALUE_KEYS
+        if unknown:
+            raise MaterialError(path, f"{key}.{sorted(unknown)[0]}", "", f"is not a known key; use {sorted(_VALUE_KEYS)}")
+        if "value" not in entry:
+            raise MaterialError(path, f"{key}.value", "", "is missing")
+        raw = entry["value"]
+        kind = entry.get("kind", "from memory")
+        if kind not in SOURCE_KINDS:
+            raise MaterialError(path, f"{key}.kind", kind, f"must be one of {', '.join(SOURCE_KINDS)}")
+        source = entry.get("source", "")
+        if sources is not None and source and source not in sources:
+            raise MaterialError(path, f"{key}.source", source, "is not a key in sources.toml")
+        prov = Provenance(source, entry.get("where", ""), kind)
+        spread = spread_default
+        if "spread" in entry:
+            try:
+                spread = units.parse_percent(entry["spread"])
+            except units.UnitError as exc:
+                raise MaterialError(path, f"{key}.spread", entry["spread"], exc.accepted) from None
+    else:
+        raw, prov, spread = entry, Provenance("", "", "from memory"), spread_default
+    try:
+        value = parse(raw)
+    except units.UnitError as exc:
+        raise MaterialError(path, f"{key}.value", raw, f"is not {exc.accepted}") from None
+    if not value > 0:
+        raise MaterialError(path, f"{key}.value", raw, "must be positive")
+    return value, prov, spread, entry.get("basis") if isinstance(entry, dict) else None
+
+
+def _plain_number(value):
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        raise units.UnitError(repr(value), "a plain number")
+    return float(value)
+
+
+def material_from_table(name, table, path="(inline)", sources=None):
+    """Build a Material from one TOML table (a file entry or an inline design value)."""
+    unknown = set(table) - _MATERIAL_KEYS
+    if unknown:
+        key = sorted(unknown)[0]
+        raise MaterialError(path, f"{name}.{key}", table[key], f"is not a known key; use {', '.join(sorted(_MATERIAL_KEYS))}")
+    for required in ("modulus", "density"):
+        if required not in table:
+            raise MaterialError(path, f"{name}.{required}", "", "is missing")
+    modulus, p_mod, s_mod, basis = _value(path, f"{name}.modulus", table["modulus"], units.parse_modulus, sources, 0.03)
+    density, p_den, s_den, _ = _value(path, f"{name}.density", table["density"], units.parse_density, sources, 0.01)
+    poisson, p_nu = 0.33, Provenance("", "default 0.33", "from memory")
+    if "poisson" in table:
+        poisson, p_nu, _, _ = _value(path, f"{name}.poisson", table["poisson"], _plain_number, sources)
+        if not poisson < 0.5:
+            raise MaterialError(path, f"{name}.poisson", poisson, "must be between 0 and 0.5")
+    shear, shear_ratio, provs = None, None, [("modulus", p_mod), ("density", p_den), ("poisson", p_nu)]
+    if "shear_modulus" in table:
+        shear, p_g, _, _ = _value(path, f"{name}.shear_modulus", table["shear_modulus"], units.parse_modulus, sources)
+        provs.append(("shear_modulus", p_g))
+    if "shear_ratio" in table:
+        shear_ratio, p_r, _, _ = _value(path, f"{name}.shear_ratio", table["shear_ratio"], _plain_number, sources)
+        provs.append(("shear_ratio", p_r))
+    basis = basis or "dynamic"
+    if basis not in ("dynamic", "static-bending"):
+        raise MaterialError(path, f"{name}.modulus.basis", basis, "must be dynamic or static-bending")
+    return Material(
+        name=name, modulus=modulus, density=density, poisson=poisson,
+        description=str(table.get("description", "")), shear_modulus=shear, shear_ratio=shear_ratio,
+        modulus_basis=basis, modulus_spread=s_mod, density_spread=s_den, provenance=tuple(provs),
+    )
+
+
+def _stock_file(path, data, sources, stock):
+    header = data.get("table", {})
+    unknown = set(header) - _STOCK_HEADER_KEYS
+    if unknown:
+        raise MaterialError(path, f"table.{sorted(unknown)[0]}", "", f"is not a known key; use {sorted(_STOCK_HEADER_KEYS)}")
+    if header.get("shape", "tube") != "tube":
+        raise MaterialError(path, "table.shape", header.get("shape"), "must be tube (bars are given by width and thickness)")
+    source = header.get("source", "")
+    if sources is not None and source and source not in sources:
+        raise MaterialError(path, "table.source", source, "is not a key in sources.toml")
+    prov = Provenance(source, header.get("where", ""), header.get("kind", "standard"))
+    wall_factor = float(header.get("wall_factor", 1.0))
+    sizes = data.get("sizes", {})
+    if not isinstance(sizes, dict) or not sizes:
+        raise MaterialError(path, "sizes", "", "must hold at least one [sizes.\"name\"] table")
+    for name, row in sizes.items():
+        unknown = set(row) - _STOCK_KEYS
+        if unknown:
+            raise MaterialError(path, f"sizes.{name}.{sorted(unknown)[0]}", "", f"is not a known key; use {sorted(_STOCK_KEYS)}")
+        try:
+            outer = units.parse_length(row["outer"])
+            wall = units.parse_length(row["wall"])
+            outer_tol = units.parse_length(row.get("outer_tolerance", "0 mm"))
+            wall_tol = units.parse_percent(row.get("wall_tolerance", "10 %"))
+        except KeyError as exc:
+            raise MaterialError(path, f"sizes.{name}.{exc.args[0]}", "", "is missing") from None
+        except units.UnitError as exc:
+            raise MaterialError(path, f"sizes.{name}", exc.text, f"is not {exc.accepted}") from None
+        if not (outer > 0 and 0 < wall < outer / 2):
+            raise MaterialError(path, f"sizes.{name}.wall", row["wall"], "must be positive and under half the outside diameter")
+        bore = outer - 2 * wall * wall_factor
+        if "inner" in row:
+            bore = units.parse_length(row["inner"])
+        stock[name] = StockSize(
+            name=name, section=tube(outer, wall, name=name, bore=bore),
+            description=str(row.get("description", name)), standard=str(header.get("standard", "")),
+            material=str(row.get("material", header.get("material", ""))),
+            outer_tolerance=outer_tol, wall_tolerance=abs(wall_tol), provenance=prov,
+        )
+
+
+def load_library(extra_dirs=(), include_packaged=True):
+    """Read the shipped tables and any user folders; later folders override earlier names."""
+    dirs = ([packaged_dir()] if include_packaged else []) + [Path(d) for d in extra_dirs]
+    sources, materials, stock, files = {}, {}, {}, []
+    for folder in dirs:
+        if not folder.is_dir():
+            raise MaterialError(folder, "(folder)", str(folder), "is not a folder of .toml tables")
+        src = folder / "sources.toml"
+        if src.is_file():
+            sources.update(_read_toml(src))
+    for folder in dirs:
+        for path in sorted(folder.glob("*.toml")):
+            if path.name == "sources.toml":
+                continue
+            files.append(path)
+            data = _read_toml(path)
+            if "sizes" in data or "table" in data:
+                _stock_file(path, data, sources, stock)
+                continue
+            for name, table in data.items():
+                if not isinstance(table, dict):
+                    raise MaterialError(path, name, table, "must be a table of properties")
+                materials[name] = material_from_table(name, table, path, sources)
+    return Library(materials=materials, stock=stock, sources=sources, files=tuple(files))

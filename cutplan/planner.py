@@ -1,0 +1,316 @@
+"""Design -> Plan: every piece's length, cut length, nodes, partials, mass and trim data.
+
+``plan(design)`` is a pure function of the validated design: no printing, no files.  Lengths
+are solved with the set's model (shear-corrected Timoshenko by default, slender
+Euler-Bernoulli on request) for chimes and bars, and with the air-column formulas, the speed of
+sound at the set's temperature and the end corrections for air columns and resonators.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from cutplan import pitch
+from cutplan.design import Design, DesignError, DesignErrors, SetSpec
+from cutplan.physics import air_column, beam, timoshenko
+
+PARTIAL_COUNT = 4
+"""Partials reported per piece [-]."""
+COMMON_STOCK_LENGTH = 3.66
+"""Longest stick commonly sold [m] (12 ft; common practice): longer pieces get a warning."""
+STUBBY_RATIO = 8.0
+"""Length-to-depth ratio under which a beam model is flagged as approximate [-] (common practice)."""
+STRIKE_NOTE_MODE = 4
+"""Mode whose half sets the strike note of a tubular bell: the strike pitch is about an octave
+below mode 4 (Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed. 1998, ch. 19, via
+the Wikipedia "Tubular bells" article; Rossing, Science of Percussion Instruments, 2000)."""
+
+
+@dataclass(frozen=True)
+class Piece:
+    """One piece to cut. Lengths in m, frequencies in Hz, mass in kg (SI; renderers convert)."""
+
+    set: str
+    kind: str
+    label: str
+    note: str
+    target_hz: float
+    predicted_hz: float
+    length: float
+    cut_length: float
+    nodes: tuple
+    mass: float | None
+    partials_hz: tuple
+    partial_notes: tuple
+    cents_per_mm: float
+    model: str
+    shear_correction_cents: float
+    warnings: tuple = ()
+    fundamental_hz: float = 0.0
+    bore: float = 0.0
+
+
+@dataclass(frozen=True)
+class SetPlan:
+    """The pieces of one set with the facts they depend on."""
+
+    name: str
+    kind: str
+    material: str
+    section: str
+    model: str
+    pieces: tuple
+    assumptions: tuple = ()
+    shape: str = ""
+    outer: float = 0.0
+    width: float = 0.0
+
+
+@dataclass(frozen=True)
+class Plan:
+    """Everything a renderer needs; plain data, SI units."""
+
+    title: str
+    units: str
+    paper: str
+    a4: float
+    temperament: str
+    sets: tuple
+    design_path: str = ""
+    stock: object = None
+    warnings: tuple = field(default=())
+
+    @property
+    def pieces(self):
+        """All pieces, set by set."""
+        return tuple(p for s in self.sets for p in s.pieces)
+
+
+def _partial_notes(freqs, a4):
+    return tuple(pitch.nearest_note(float(f), a4) for f in freqs)
+
+
+def _cents_per_mm(frequency_at, length):
+    """Cents the pitch rises per millimetre removed (central difference over +/- 0.5 mm)."""
+    step = 0.5e-3
+    hi, lo = frequency_at(length - step), frequency_at(length + step)
+    return pitch.cents(hi, lo)
+
+
+def _beam_constants(spec: SetSpec, model):
+    mat, sec = spec.material, spec.section
+    e = mat.modulus_for(model)
+    g = mat.shear_modulus_for(model)
+    ei = e * sec.second_moment
+    mu = mat.density * sec.area
+    kga = sec.shear_coefficient(mat.poisson) * g * sec.area
+    rho_i = mat.density * sec.second_moment
+    return ei, mu, kga, rho_i
+
+
+def _mode_length(frequency, mode, ei, mu, kga, rho_i):
+    """Timoshenko length whose mode ``mode`` sounds ``frequency``: scalar root find."""
+    from scipy.optimize import brentq
+
+    slender = float(beam.free_free_length(frequency, ei, mu, mode=mode))
+
+    def miss(length):
+        return float(np.log(timoshenko.frequencies(length, ei, mu, kga, rho_i, modes=mode)[mode - 1] / frequency))
+
+    return brentq(miss, 0.4 * slender, slender, xtol=1e-12, rtol=1e-12)
+
+
+def _plan_beam_set(spec: SetSpec, design: Design, allowance, allowance_length):
+    model = spec.model
+    ei, mu, kga, rho_i = _beam_constants(spec, model)
+    targets = np.array([t.frequency for t in spec.targets])
+    strike = spec.target_mode == "strike-note"
+    if strike:
+        # the mode-4 frequency is twice the strike note
+        if model == "slender":
+            lengths = np.atleast_1d(beam.free_free_length(2 * targets, ei, mu, mode=STRIKE_NOTE_MODE))
+        else:
+            lengths = np.array([_mode_length(2 * f, STRIKE_NOTE_MODE, ei, mu, kga, rho_i) for f in targets])
+    elif model == "slender":
+        lengths = np.atleast_1d(beam.free_free_length(targets, ei, mu))
+    else:
+        lengths = timoshenko.fundamental_lengths(targets, ei, mu, kga, rho_i)
+    pieces = []
+    depth = spec.section.depth
+    for i, (t, length) in enumerate(zip(spec.targets, lengths, strict=True), start=1):
+        length = float(length)
+        modes = max(PARTIAL_COUNT, STRIKE_NOTE_MODE) if strike else PARTIAL_COUNT
+        timo = timoshenko.frequencies(length, ei, mu, kga, rho_i, modes=modes)
+        slender = np.array([beam.free_free_frequency(n, length, ei, mu) for n in range(1, modes + 1)])
+        if model == "slender":
+            partials = slender
+            nodes = tuple(x * length for x in beam.node_positions(1))
+
+            def f_at(x, n=(STRIKE_NOTE_MODE if strike else 1)):
+                return beam.free_free_frequency(n, x, ei, mu)
+        else:
+            partials = timo
+            g, s2 = timoshenko.uniform_parameters(length, ei, mu, kga, rho_i)
+            omega1 = timo[0] * 2 * np.pi * length**2 / np.sqrt(ei / mu)
+            nodes = tuple(x * length for x in timoshenko.node_positions(float(omega1), float(g), float(s2)))
+
+            def f_at(x, n=(STRIKE_NOTE_MODE if strike else 1)):
+                return float(timoshenko.frequencies(x, ei, mu, kga, rho_i, modes=n)[n - 1])
+        predicted = partials[STRIKE_NOTE_MODE - 1] / 2 if strike else partials[0]
+        scale = 0.5 if strike else 1.0
+        warnings = []
+        if length / depth < STUBBY_RATIO:
+            warnings.append(
+                f"stubby piece: length is {length / depth:.1f} x its depth; beam models are "
+                "approximate here, so cut a test piece and calibrate"
+            )
+        shear_cents = pitch.cents(timo[0], slender[0])
+        if model == "slender" and abs(shear_cents) > 5:
+            warnings.append(
+                f"slender model: shear and rotary inertia would lower this piece by "
+                f"{-shear_cents:.0f} cents; the default timoshenko model includes them"
+            )
+        cut = length * (1 + allowance) + allowance_length
+        if cut > COMMON_STOCK_LENGTH and not (design.stock and design.stock.lengths):
+            warnings.append(f"longer than common stock ({COMMON_STOCK_LENGTH:.2f} m / 12 ft)")
+        pieces.append(
+            Piece(
+                set=spec.name, kind=spec.kind, label=f"{spec.name}-{i}", note=t.name,
+                target_hz=t.frequency, predicted_hz=float(predicted), length=length, cut_length=cut,
+                nodes=nodes, mass=spec.material.density * spec.section.area * length,
+                partials_hz=tuple(float(f) for f in partials[:PARTIAL_COUNT]),
+                partial_notes=_partial_notes(partials[:PARTIAL_COUNT], design.a4),
+                cents_per_mm=_cents_per_mm(lambda x, f=f_at, k=scale: k * f(x), length), model=model,
+                shear_correction_cents=float(shear_cents), warnings=tuple(warnings),
+                fundamental_hz=float(partials[0]),
+            )
+        )
+    return pieces
+
+
+def _plan_air_set(spec: SetSpec, design: Design, targets, allowance, allowance_length):
+    temperature = spec.temperature
+    speed = air_column.speed_of_sound(temperature, spec.humidity)
+    radius = spec.section.air_radius
+    closed = spec.ends == "closed-open"
+    length_of = air_column.closed_open_length if closed else air_column.open_open_length
+    freq_of = air_column.closed_open_frequency if closed else air_column.open_open_frequency
+    pieces, errors = [], []
+    for i, t in enumerate(targets, start=1):
+        length = length_of(t.frequency, radius, speed, correction=spec.end_correction)
+        label = f"{spec.name}-{i}"
+        if length <= 2 * radius:
+            errors.append(DesignError(design.path, f"set[{spec.index}]", t.name,
+                                      f"is too high for a {radius * 2000:.1f} mm bore: the column would be "
+                                      f"{length * 1000:.0f} mm long ({label}); use a narrower tube"))
+            continue
+        harmonics = [2 * n - 1 for n in range(1, PARTIAL_COUNT + 1)] if closed else list(range(1, PARTIAL_COUNT + 1))
+        f1 = float(freq_of(length, radius, speed, correction=spec.end_correction))
+        partials = [f1 * h for h in harmonics]
+        warnings = []
+        if length < 2 * radius * 2:
+            warnings.append("short column: under two bores long, the end correction dominates; cut long and trim")
+        if spec.kind == "resonator" and length > spec.max_length:
+            warnings.append(f"resonator {length * 1000:.0f} mm is longer than the limit "
+                            f"{spec.max_length * 1000:.0f} mm; use a folded tube or a wider bore")
+        ka = 2 * np.pi * t.frequency / speed * radius
+        if ka > 0.5:
+            warnings.append(f"wide bore for this pitch (ka = {ka:.2f}): the end correction shrinks at high "
+                            "frequency, so the column may sound flat; trim to tune")
+        mass = spec.material.density * spec.section.area * length if spec.material is not None else None
+        pieces.append(
+            Piece(
+                set=spec.name, kind=spec.kind, label=label, note=t.name, target_hz=t.frequency,
+                predicted_hz=f1, length=length, cut_length=length * (1 + allowance) + allowance_length,
+                nodes=(), mass=mass, partials_hz=tuple(partials),
+                partial_notes=_partial_notes(partials, design.a4),
+                cents_per_mm=_cents_per_mm(
+                    lambda x: float(freq_of(x, radius, speed, correction=spec.end_correction)), length),
+                model=spec.ends, shear_correction_cents=0.0, warnings=tuple(warnings),
+                fundamental_hz=f1, bore=2 * radius,
+            )
+        )
+    return pieces, errors
+
+
+def _set_summary(spec: SetSpec):
+    assumptions = []
+    if spec.kind in ("air-column", "resonator"):
+        speed = air_column.speed_of_sound(spec.temperature, spec.humidity)
+        hum = "dry air (ISO 9613-1)" if spec.humidity is None else f"{spec.humidity:.0f} % RH (Cramer 1993)"
+        assumptions.append(f"air at {spec.temperature - 273.15:.1f} C, {hum}: speed of sound {speed:.2f} m/s")
+        corr = spec.end_correction
+        corr_text = f"{corr} x inner radius" if isinstance(corr, (int, float)) else corr
+        assumptions.append(f"{spec.ends} column, end correction {corr_text} per open end, "
+                           f"bore {spec.section.air_radius * 2000:.2f} mm")
+        model = spec.ends
+    else:
+        mat = spec.material
+        model = spec.model
+        e = mat.modulus_for(model)
+        assumptions.append(
+            f"E = {e / 1e9:.2f} GPa, G = {mat.shear_modulus_for(model) / 1e9:.2f} GPa, "
+            f"density {mat.density:.0f} kg/m3, Poisson {mat.poisson:.2f}"
+        )
+        if mat.modulus_basis == "static-bending":
+            assumptions.append("wood: table modulus is a static-bending value"
+                               + ("; raised 10 % to the true E for the shear-corrected model" if model == "timoshenko" else ""))
+        assumptions.append("shear-corrected (Timoshenko) free-free beam, Cowper shear coefficient"
+                           if model == "timoshenko" else "slender (Euler-Bernoulli) free-free beam")
+        if spec.target_mode == "strike-note":
+            assumptions.append("tuned to the strike note: half the mode-4 frequency")
+    material = spec.material.name if spec.material is not None else "(not given)"
+    if material == "inline" and spec.material is not None:
+        material = f"inline: E {spec.material.modulus / 1e9:.2f} GPa, {spec.material.density:.0f} kg/m3"
+    sec = spec.section
+    return SetPlan(name=spec.name, kind=spec.kind, material=material,
+                   section=(sec.name + " " if sec.name else "") + sec.describe(), model=model, pieces=(),
+                   assumptions=tuple(assumptions), shape=sec.shape, outer=sec.outer, width=sec.width)
+
+
+def plan(design: Design) -> Plan:
+    """Plan every set of a validated design. Raises DesignErrors for pieces that cannot be made."""
+    sets, errors, by_name = [], [], {}
+    ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
+    for spec in ordered:
+        stock = spec.stock or design.stock
+        allowance = stock.allowance if stock else 0.005
+        allowance_length = stock.allowance_length if stock else 0.0
+        summary = _set_summary(spec)
+        if spec.kind in ("chime", "bar"):
+            try:
+                pieces = _plan_beam_set(spec, design, allowance, allowance_length)
+            except ValueError as exc:
+                errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}"))
+                continue
+        else:
+            if spec.kind == "resonator":
+                served = by_name.get(spec.serves)
+                if served is None:
+                    errors.append(DesignError(design.path, f"set[{spec.index}].serves", spec.serves, "could not be planned"))
+                    continue
+                targets = [pitch.Target(p.note, p.fundamental_hz) for p in served.pieces]
+            else:
+                targets = list(spec.targets)
+            pieces, errs = _plan_air_set(spec, design, targets, allowance, allowance_length)
+            errors.extend(errs)
+        if stock and stock.lengths:
+            longest = max(s.length for s in stock.lengths)
+            for p in pieces:
+                need = p.cut_length + stock.end_trim
+                if need > longest:
+                    errors.append(DesignError(
+                        design.path, f"set[{spec.index}]", p.note,
+                        f"needs {p.label} cut at {need * 1000:.0f} mm with end trim, longer than the "
+                        f"longest stock ({longest * 1000:.0f} mm); add longer stock or raise the note"))
+        done = SetPlan(**{**summary.__dict__, "pieces": tuple(pieces)})
+        by_name[spec.name] = done
+        sets.append(done)
+    if errors:
+        raise DesignErrors(errors)
+    order = {s.name: i for i, s in enumerate(design.sets)}
+    sets.sort(key=lambda s: order[s.name])
+    return Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
+                temperament=design.temperament, sets=tuple(sets), design_path=design.path)

@@ -1,0 +1,95 @@
+"""Plan -> JSON (contract ``cutplan-plan/1``, shared/DESIGN.md) and CSV text. No physics here."""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+
+from cutplan.units import INCH, MM, format_inches
+
+PLAN_FORMAT = "cutplan-plan/1"
+
+
+def _r(x, nd):
+    return None if x is None else round(float(x), nd)
+
+
+def piece_dict(p):
+    """One piece in the JSON contract's shape (mm, g, Hz)."""
+    return {
+        "set": p.set,
+        "kind": p.kind,
+        "label": p.label,
+        "note": p.note,
+        "target_hz": _r(p.target_hz, 3),
+        "predicted_hz": _r(p.predicted_hz, 3),
+        "length_mm": _r(p.length / MM, 2),
+        "cut_length_mm": _r(p.cut_length / MM, 2),
+        "nodes_mm": [_r(x / MM, 2) for x in p.nodes],
+        "mass_g": _r(None if p.mass is None else p.mass * 1000, 1),
+        "partials_hz": [_r(f, 2) for f in p.partials_hz],
+        "partial_notes": [{"note": n, "cents": c} for n, c in p.partial_notes],
+        "cents_per_mm": _r(p.cents_per_mm, 3),
+        "model": p.model,
+        "shear_correction_cents": _r(p.shear_correction_cents, 2),
+        "warnings": list(p.warnings),
+    }
+
+
+def plan_dict(plan):
+    """The whole plan as JSON-ready data."""
+    out = {
+        "format": PLAN_FORMAT,
+        "title": plan.title,
+        "a4_hz": float(plan.a4),
+        "temperament": plan.temperament,
+        "sets": [
+            {"name": s.name, "kind": s.kind, "material": s.material, "section": s.section,
+             "model": s.model, "assumptions": list(s.assumptions)}
+            for s in plan.sets
+        ],
+        "pieces": [piece_dict(p) for p in plan.pieces],
+    }
+    if plan.stock is not None:
+        out["stock"] = plan.stock
+    return out
+
+
+def render_json(plan):
+    """Plan as indented JSON text."""
+    return json.dumps(plan_dict(plan), indent=2, ensure_ascii=False) + "\n"
+
+
+CSV_COLUMNS = (
+    "set", "label", "note", "target_hz", "predicted_hz", "length_mm", "length_in", "cut_length_mm",
+    "cut_length_in", "node_1_mm", "node_2_mm", "node_1_in", "node_2_in", "mass_g", "cents_per_mm",
+    "partial_2_hz", "partial_3_hz", "partial_4_hz", "model", "shear_correction_cents", "warnings",
+)
+
+
+def render_csv(plan):
+    """One row per piece, lengths in both mm and fractional inches (to 1/32)."""
+    buf = io.StringIO()
+    writer = csv.writer(buf, lineterminator="\n")
+    writer.writerow(CSV_COLUMNS)
+    for p in plan.pieces:
+        nodes = list(p.nodes) + [None, None]
+        writer.writerow([
+            p.set, p.label, p.note, f"{p.target_hz:.3f}", f"{p.predicted_hz:.3f}",
+            f"{p.length / MM:.1f}", format_inches(p.length, 32, show_error=False),
+            f"{p.cut_length / MM:.1f}", format_inches(p.cut_length, 32, show_error=False),
+            "" if nodes[0] is None else f"{nodes[0] / MM:.1f}",
+            "" if nodes[1] is None else f"{nodes[1] / MM:.1f}",
+            "" if nodes[0] is None else format_inches(nodes[0], 32, show_error=False),
+            "" if nodes[1] is None else format_inches(nodes[1], 32, show_error=False),
+            "" if p.mass is None else f"{p.mass * 1000:.1f}", f"{p.cents_per_mm:.2f}",
+            *[f"{f:.1f}" for f in p.partials_hz[1:4]], p.model, f"{p.shear_correction_cents:.2f}",
+            "; ".join(p.warnings),
+        ])
+    return buf.getvalue()
+
+
+def inches(metres):
+    """Decimal inches (for renderers that need a number)."""
+    return metres / INCH

@@ -1,0 +1,74 @@
+"""Plan -> plain-text tables for the terminal. No physics here, only formatting."""
+
+from __future__ import annotations
+
+from cutplan.units import MM, format_inches
+
+SAFETY_LINE = (
+    "Safety: wear eye and hearing protection when cutting and striking; deburr cut tube; never "
+    "heat or burn PVC and vacuum its dust; hang anything overhead from rated hardware with a "
+    "safety factor, as local codes require."
+)
+
+
+def _length(metres, units):
+    mm = f"{metres / MM:.1f}"
+    inch = format_inches(metres, 32, show_error=False).replace(" in", "")
+    return (f"{inch} in ({mm})" if units == "in" else f"{mm} ({inch} in)")
+
+
+def _table(headers, rows):
+    widths = [max(len(str(h)), *(len(str(r[i])) for r in rows)) if rows else len(h) for i, h in enumerate(headers)]
+    line = "  ".join(str(h).ljust(w) for h, w in zip(headers, widths, strict=True))
+    out = [line, "  ".join("-" * w for w in widths)]
+    for r in rows:
+        out.append("  ".join(str(c).rjust(w) if i >= 2 else str(c).ljust(w)
+                             for i, (c, w) in enumerate(zip(r, widths, strict=True))))
+    return out
+
+
+def render_table(plan, units=None):
+    """Readable plan: one block per set, lengths in mm and fractional inches."""
+    units = units or plan.units
+    unit_head = "in (mm)" if units == "in" else "mm (in)"
+    out = [plan.title, "=" * len(plan.title), f"A4 = {plan.a4:g} Hz, {plan.temperament} temperament", ""]
+    for s in plan.sets:
+        out.append(f"{s.name}: {len(s.pieces)} x {s.kind}, {s.material}, {s.section}")
+        for a in s.assumptions:
+            out.append(f"  {a}")
+        node_head = "hang hole from top" if s.kind == "chime" else "supports from end" if s.kind == "bar" else ""
+        headers = ["label", "note", "target Hz", f"length {unit_head}", f"cut {unit_head}"]
+        if node_head:
+            headers.append(f"{node_head} {unit_head}")
+        headers += ["c/mm", "partials Hz (2-4)", "shear c"]
+        rows = []
+        for p in s.pieces:
+            row = [p.label, p.note, f"{p.target_hz:.2f}", _length(p.length, units), _length(p.cut_length, units)]
+            if node_head:
+                row.append(_length(p.nodes[0], units) if p.nodes else "")
+            row += [f"{p.cents_per_mm:.2f}", " ".join(f"{f:.0f}" for f in p.partials_hz[1:]),
+                    f"{p.shear_correction_cents:+.1f}" if s.kind in ("chime", "bar") else "-"]
+            rows.append(row)
+        out.extend(_table(headers, rows))
+        for p in s.pieces:
+            for w in p.warnings:
+                out.append(f"  ! {p.label}: {w}")
+        out.append("")
+    if plan.stock is not None:
+        out.extend(render_stock(plan.stock, units))
+        out.append("")
+    out.append(SAFETY_LINE)
+    return "\n".join(out) + "\n"
+
+
+def render_stock(stock, units="mm"):
+    """The cut list on stock: one line per stick with the marks from its end."""
+    out = ["Cut list on stock" + ("" if stock.get("proven_optimal") else " (best found; not proven optimal)")]
+    for i, stick in enumerate(stock["sticks"], start=1):
+        length = stick["stock_length_mm"] * MM
+        marks = ", ".join(
+            f"{c['label']} at {_length(c['start_mm'] * MM, units)}" for c in stick["cuts"]
+        )
+        out.append(f"  stick {i} ({_length(length, units)}): {marks}; offcut {_length(stick['offcut_mm'] * MM, units)}")
+    out.append(f"  sticks used {len(stock['sticks'])}, lower bound {stock['lower_bound']}")
+    return out
