@@ -1,0 +1,91 @@
+"""Notes, temperaments and scales."""
+
+import pytest
+
+from cutplan import pitch
+
+
+def test_middle_c_at_standard_pitch():
+    # ISO 16:1975: A4 = 440 Hz; 12-TET C4 = 440 * 2^(-9/12) = 261.6256 Hz (REFERENCES sec. 9)
+    assert pitch.note_frequency("C4") == pytest.approx(261.625565, abs=1e-6)
+
+
+def test_piano_range_ends():
+    # REFERENCES sec. 9 (12-TET, computed): A0 = 27.5, C8 = 4186.009
+    assert pitch.note_frequency("A0") == pytest.approx(27.5)
+    assert pitch.note_frequency("C8") == pytest.approx(4186.009, abs=1e-3)
+
+
+@pytest.mark.parametrize(("name", "midi"), [("C4", 60), ("A4", 69), ("C#4", 61), ("Db4", 61), ("C♯4", 61),
+                                             ("D♭4", 61), ("B3", 59), ("Cb4", 59), ("E#4", 65), ("C-1", 0)])
+def test_note_names(name, midi):
+    assert pitch.parse_note(name) == midi
+
+
+@pytest.mark.parametrize("bad", ["H4", "C", "4C", "C##", "Cx4", "", "C10", 60])
+def test_unknown_notes_raise_with_accepted_forms(bad):
+    with pytest.raises(pitch.PitchError) as info:
+        pitch.parse_note(bad)
+    assert "C4" in info.value.accepted
+
+
+def test_adjustable_reference_pitch():
+    assert pitch.note_frequency("A4", a4=442) == 442
+    assert pitch.note_frequency("A5", a4=415) == 830
+
+
+def test_just_major_scale_cents():
+    # 5-limit just major scale: 0, 203.910, 386.314, 498.045, 701.955, 884.359, 1088.269, 1200
+    # cents (REFERENCES sec. 9; ratios 1, 9/8, 5/4, 4/3, 3/2, 5/3, 15/8, 2)
+    targets = pitch.scale_targets("C4", "major", 8, "just")
+    got = [pitch.cents(t.frequency, targets[0].frequency) for t in targets]
+    assert got == pytest.approx([0, 203.910, 386.314, 498.045, 701.955, 884.359, 1088.269, 1200], abs=1e-3)
+
+
+def test_pythagorean_third_is_a_ditone():
+    # Pythagorean major third 81/64 = 407.82 cents (standard)
+    f = pitch.degree_frequency(60, 4, "pythagorean")
+    assert pitch.cents(f, pitch.note_frequency("C4")) == pytest.approx(407.820, abs=1e-3)
+
+
+def test_equal_19_maps_degrees_to_nearest_step():
+    # 19-EDO: a major third (4 semitones) is 6 steps of 1200/19 cents = 378.95 cents
+    f = pitch.degree_frequency(60, 4, "equal-19")
+    assert pitch.cents(f, pitch.note_frequency("C4")) == pytest.approx(6 * 1200 / 19)
+
+
+@pytest.mark.parametrize(
+    ("scale", "names"),
+    [
+        ("major-pentatonic", ["D5", "E5", "F#5", "A5", "B5"]),
+        ("minor-pentatonic", ["D5", "F5", "G5", "A5", "C6"]),
+        ("blues", ["D5", "F5", "G5", "G#5", "A5", "C6"]),
+        ("dorian", ["D5", "E5", "F5", "G5", "A5", "B5", "C6"]),
+        ("whole-tone", ["D5", "E5", "F#5", "G#5", "A#5", "C6"]),
+    ],
+)
+def test_named_scales(scale, names):
+    assert [t.name for t in pitch.scale_targets("D5", scale, len(names))] == names
+
+
+def test_range_with_scale_filter():
+    names = [t.name for t in pitch.range_targets("C4", "C6", "major")]
+    assert len(names) == 15 and names[0] == "C4" and names[-1] == "C6"
+
+
+def test_nearest_note_with_cents():
+    assert pitch.nearest_note(440.0) == ("A4", 0.0)
+    name, off = pitch.nearest_note(583.1)
+    assert name == "D5" and off == pytest.approx(-12.51, abs=0.01)
+
+
+def test_ratios():
+    assert pitch.parse_ratio("9/8") == 1.125
+    with pytest.raises(pitch.PitchError):
+        pitch.parse_ratio("9/0")
+
+
+def test_scale_spec():
+    assert [t.name for t in pitch.spec_targets("D5 major-pentatonic 5")] == ["D5", "E5", "F#5", "A5", "B5"]
+    with pytest.raises(pitch.PitchError):
+        pitch.spec_targets("D5 lydianish 5")
