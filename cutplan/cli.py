@@ -139,13 +139,14 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
         click.echo(f"wrote {len(files)} files to {out}", err=True)
 
 
-def _with_stock(the_plan, des):
-    """Attach the stock layout when the design gives stock lengths."""
+def _with_stock(the_plan, des, override=None):
+    """Attach the stock layout when the design gives stock lengths (exit 2 when stock runs out)."""
+    from cutplan import stock
+
     try:
-        from cutplan import stock
-    except ImportError:  # the optimiser is an optional module while it is being built
-        return the_plan
-    return stock.attach_layout(the_plan, des)
+        return stock.attach_layout(the_plan, des, override=override)
+    except stock.StockError as exc:
+        fail(f"{des.path}: stock: {exc}")
 
 
 def _packet_files(the_plan, paper):
@@ -155,6 +156,69 @@ def _packet_files(the_plan, paper):
     except ImportError:
         return {}
     return packet.packet_files(the_plan, paper)
+
+
+def _parse_stock_option(values, kerf, end_trim):
+    """StockSpec from --stock "10 ft x 3 @ 14.50" options (count and price optional)."""
+    import re
+
+    from cutplan.design import StockLength, StockSpec
+    from cutplan.units import UnitError, parse_length
+
+    lengths = []
+    for text in values:
+        match = re.fullmatch(r"\s*(.+?)\s*(?:[x*]\s*(\d+))?\s*(?:@\s*(\d+(?:\.\d+)?))?\s*", text)
+        try:
+            length = parse_length(match.group(1)) if match else None
+        except UnitError as exc:
+            fail(f'--stock: {text!r} is not "LENGTH [x COUNT] [@ PRICE]"; the length must be {exc.accepted}')
+        if match is None or not length or length <= 0:
+            fail(f'--stock: {text!r} is not "LENGTH [x COUNT] [@ PRICE]", e.g. "10 ft x 3" or "3 m x 2 @ 12.50"')
+        count = int(match.group(2)) if match.group(2) else None
+        if count is not None and count < 1:
+            fail(f"--stock: {text!r}: the count must be at least 1")
+        price = float(match.group(3)) if match.group(3) else None
+        lengths.append(StockLength(length, count, price))
+    try:
+        kerf_m = parse_length(kerf)
+        trim_m = parse_length(end_trim)
+    except UnitError as exc:
+        fail(f"--kerf/--end-trim: {exc.text!r} is not {exc.accepted}")
+    return StockSpec(tuple(lengths), kerf_m, trim_m)
+
+
+@cli.command("cutlist")
+@click.argument("design", type=click.Path(dir_okay=False))
+@click.option("--stock", "stock_texts", multiple=True,
+              help='What-if stock instead of the design\'s: "LENGTH [x COUNT] [@ PRICE]", e.g. "10 ft x 3" (repeatable).')
+@click.option("--kerf", default="1/16 in", show_default=True, help="Saw kerf, with --stock.")
+@click.option("--end-trim", default="1/8 in", show_default=True, help="Squaring cut at the factory end, with --stock.")
+@click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
+@click.option("--format", "fmt", type=click.Choice(["table", "json"]), default="table", show_default=True,
+              help="What to print.")
+@MATERIALS_OPTION
+def cutlist_command(design, stock_texts, kerf, end_trim, units, fmt, materials_dirs):
+    """Lay the pieces of DESIGN out on stock: marks from each stick's end, offcuts, totals.
+
+    \b
+    Examples:
+      cutplan cutlist examples/porch-chimes.toml
+      cutplan cutlist examples/porch-chimes.toml --stock "6 ft x 4" --stock "10 ft @ 14.5"
+    """
+    import json
+
+    des, _lib = _load(design, materials_dirs)
+    the_plan = _plan(des)
+    override = _parse_stock_option(stock_texts, kerf, end_trim) if stock_texts else None
+    the_plan = _with_stock(the_plan, des, override)
+    if the_plan.stock is None:
+        fail(f"{design}: stock: the design has no [stock] lengths; add them or use --stock \"8 ft x 2\"")
+    if fmt == "json":
+        click.echo(json.dumps(the_plan.stock, indent=2))
+        return
+    from cutplan.render.terminal import render_stock
+
+    click.echo("\n".join(render_stock(the_plan.stock, units or the_plan.units)))
 
 
 @cli.command("scale")

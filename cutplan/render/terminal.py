@@ -62,13 +62,23 @@ def render_table(plan, units=None):
 
 
 def render_stock(stock, units="mm"):
-    """The cut list on stock: one line per stick with the marks from its end."""
-    out = ["Cut list on stock" + ("" if stock.get("proven_optimal") else " (best found; not proven optimal)")]
+    """The cut list on stock: one block per stick with the marks measured from its end."""
+    status = "proven optimal" if stock.get("proven_optimal") else "best found, not proven optimal"
+    out = [f"Cut list on stock ({status}; marks measured from the stick's factory end)"]
+    group = None
     for i, stick in enumerate(stock["sticks"], start=1):
-        length = stick["stock_length_mm"] * MM
-        marks = ", ".join(
-            f"{c['label']} at {_length(c['start_mm'] * MM, units)}" for c in stick["cuts"]
-        )
-        out.append(f"  stick {i} ({_length(length, units)}): {marks}; offcut {_length(stick['offcut_mm'] * MM, units)}")
-    out.append(f"  sticks used {len(stock['sticks'])}, lower bound {stock['lower_bound']}")
+        if stick.get("group") != group:
+            group = stick.get("group")
+            out.append(f"  {group}:")
+        out.append(f"    stick {i}, {_length(stick['stock_length_mm'] * MM, units)}:")
+        for c in stick["cuts"]:
+            end = (c["start_mm"] + c["length_mm"]) * MM
+            out.append(f"      {c['label']:<12} from {_length(c['start_mm'] * MM, units):>22} "
+                       f"to {_length(end, units):>22}  ({_length(c['length_mm'] * MM, units)})")
+        out.append(f"      offcut {_length(stick['offcut_mm'] * MM, units)}")
+    by_length = ", ".join(f"{x['count']} x {_length(x['stock_length_mm'] * MM, units)}"
+                          for x in stock.get("sticks_by_length", []))
+    out.append(f"  sticks: {by_length}; lower bound {stock['lower_bound']}; "
+               f"utilisation {stock.get('utilisation_percent', 0):.1f} %"
+               + (f"; cost {stock['cost']:.2f}" if stock.get("cost") is not None else ""))
     return out

@@ -1,0 +1,62 @@
+"""Benchmark: cut-list optimisation over a fixed, seeded set of instances.
+
+Run: python bench/bench_stock.py
+Prints one row per instance: pieces, sticks used, lower bound, proven optimal, method, seconds.
+Target (issue 5): every instance up to 60 pieces proven optimal within 2 s on a 2-core machine.
+"""
+
+import random
+import time
+
+from cutplan.stock import Item, StockType, layout
+
+INCH = 0.0254
+
+
+def instances():
+    """24 instances, 10 to 80 pieces; piece lengths like chime and bar sets (seeded)."""
+    out = []
+    sizes = [10, 15, 20, 25, 30, 35, 40, 45, 50, 55, 60, 60, 60, 60, 65, 70, 75, 80, 80, 80, 30, 40, 50, 60]
+    for k, n in enumerate(sizes):
+        rng = random.Random(1000 + k)
+        kind = k % 4
+        if kind == 0:  # chime tubes on 8 ft sticks
+            lengths = [rng.uniform(0.15, 0.9) for _ in range(n)]
+            stock = [StockType(96 * INCH)]
+        elif kind == 1:  # long conduit chimes on 10 ft sticks
+            lengths = [rng.uniform(0.4, 1.6) for _ in range(n)]
+            stock = [StockType(120 * INCH)]
+        elif kind == 2:  # bars on 2.4 m and 3 m boards
+            lengths = [rng.uniform(0.2, 0.7) for _ in range(n)]
+            stock = [StockType(2.4), StockType(3.0)]
+        else:  # priced mix
+            lengths = [rng.uniform(0.15, 1.0) for _ in range(n)]
+            stock = [StockType(96 * INCH, price=12.0), StockType(120 * INCH, price=14.0)]
+        items = [Item(f"p{i}", round(x, 4)) for i, x in enumerate(lengths)]
+        out.append((f"#{k + 1:02d} kind{kind}", items, stock))
+    return out
+
+
+def main():
+    import scipy.optimize  # noqa: F401  (import once, outside the timings)
+
+    print(f"{'instance':14} {'pieces':>6} {'sticks':>6} {'bound':>5} {'gap':>4} {'proven':>6} {'cost':>7} {'cost_lb':>7} {'seconds':>8}  method")
+    worst_60 = 0.0
+    for name, items, stock in instances():
+        start = time.perf_counter()
+        result = layout(items, stock, kerf=1.6e-3, end_trim=3.2e-3, time_limit=10.0)
+        dt = time.perf_counter() - start
+        if len(items) <= 60:
+            worst_60 = max(worst_60, dt)
+        cost = f"{result.cost:7.2f}" if result.cost is not None else "      -"
+        if result.cost_lower_bound is not None:
+            cost += f" {result.cost_lower_bound:7.2f}"
+        else:
+            cost += "       -"
+        print(f"{name:14} {len(items):6d} {len(result.sticks):6d} {result.lower_bound:5d} {result.gap:4d} "
+              f"{'yes' if result.proven_optimal else 'no':>6} {cost} {dt:8.3f}  {result.method}")
+    print(f"slowest instance with <= 60 pieces: {worst_60:.3f} s")
+
+
+if __name__ == "__main__":
+    main()

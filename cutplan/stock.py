@@ -1,0 +1,516 @@
+"""Cut-list optimisation: lay the pieces out on stock sticks with the fewest sticks (or least cost).
+
+Kerf accounting.  A stick of length S first loses ``end_trim`` (squaring the factory end,
+the cut included).  Each piece then takes its cut length plus one kerf, except that the last
+piece needs no cut when it ends exactly at the far end.  So pieces l_1..l_n fit on a stick when
+
+    sum(l_i) + kerf * (n - 1) <= S - end_trim,
+
+which is ordinary bin packing with item sizes ``l_i + kerf`` and capacity
+``S - end_trim + kerf``.  Marks are measured from the stick's factory end: piece i starts at
+``end_trim + sum_{j<i} (l_j + kerf)``.  The offcut is what is left after the last piece and its
+separating cut.
+
+Method.  A first-fit-decreasing heuristic with an improvement pass gives a layout at once; the
+Martello-Toth L2 bound says how good it is.  When they differ (or prices are given), an exact
+assignment model is solved with scipy.optimize.milp (HiGHS) under a time limit; if that does not
+finish, the best layout found is reported with the bound and the gap.  Everything is ordered
+deterministically, so the same design gives the same layout.
+
+References
+----------
+.. [1] Martello, S. and Toth, P., Knapsack Problems: Algorithms and Computer Implementations,
+   Wiley, 1990, ch. 8 (bin packing; lower bound L2).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+FIT_TOLERANCE = 1e-9
+"""Slack allowed when checking that pieces fit [m] (a nanometre: float rounding only)."""
+DEFAULT_TIME_LIMIT = 2.0
+"""Seconds the exact search may take per group of pieces [s]."""
+
+
+class StockError(ValueError):
+    """The stock on hand cannot hold the pieces (names what is missing)."""
+
+
+@dataclass(frozen=True)
+class Item:
+    """A piece to cut: label, cut length [m]."""
+
+    label: str
+    length: float
+
+
+@dataclass(frozen=True)
+class StockType:
+    """Sticks of one length [m]; ``count`` None means as many as needed; optional price."""
+
+    length: float
+    count: int | None = None
+    price: float | None = None
+
+
+@dataclass(frozen=True)
+class Stick:
+    """One stick of stock with its cuts ((label, start [m], length [m]), ...) and offcut [m]."""
+
+    stock_length: float
+    cuts: tuple
+    offcut: float
+    price: float | None = None
+
+
+@dataclass(frozen=True)
+class Layout:
+    """A cut list for one group of pieces of the same section."""
+
+    sticks: tuple
+    lower_bound: int
+    proven_optimal: bool
+    method: str
+    cost: float | None = None
+    cost_lower_bound: float | None = None
+    notes: tuple = field(default=())
+
+    @property
+    def gap(self):
+        """Sticks above the lower bound."""
+        return len(self.sticks) - self.lower_bound
+
+
+def lower_bound_l2(sizes, capacity):
+    """Martello-Toth L2 lower bound on the number of bins of ``capacity`` for ``sizes``.
+
+    Examples
+    --------
+    Three items just over half a bin need three bins, although their total fits in two:
+
+    >>> lower_bound_l2([0.6, 0.6, 0.6], 1.0)
+    3
+    """
+    sizes = sorted((float(s) for s in sizes), reverse=True)
+    if not sizes:
+        return 0
+    half = capacity / 2
+    best = 0
+    for k in [0.0] + sorted({s for s in sizes if s <= half + FIT_TOLERANCE}):
+        j1 = [s for s in sizes if s > capacity - k + FIT_TOLERANCE]
+        j2 = [s for s in sizes if capacity - k + FIT_TOLERANCE >= s > half + FIT_TOLERANCE]
+        j3 = [s for s in sizes if half + FIT_TOLERANCE >= s >= k - FIT_TOLERANCE]
+        spare = len(j2) * capacity - sum(j2)
+        extra = max(0, math.ceil((sum(j3) - spare) / capacity - 1e-9))
+        best = max(best, len(j1) + len(j2) + extra)
+    return best
+
+
+def _capacity(stock_length, kerf, end_trim):
+    return stock_length - end_trim + kerf
+
+
+def _fits(load, size, capacity):
+    return load + size <= capacity + FIT_TOLERANCE
+
+
+def _ordered(items):
+    return sorted(range(len(items)), key=lambda i: (-items[i].length, items[i].label))
+
+
+def _heuristic(items, types, kerf, end_trim, by_cost):
+    """First fit decreasing, then downsize each stick and try to empty the emptiest ones.
+
+    Returns a list of (type index, [item indices]) or None when the stock on hand runs out.
+    """
+    sizes = [it.length + kerf for it in items]
+    caps = [_capacity(t.length, kerf, end_trim) for t in types]
+    left = [t.count if t.count is not None else math.inf for t in types]
+
+    def open_order():
+        if by_cost:
+            return sorted(range(len(types)), key=lambda t: ((types[t].price or 0) / caps[t], -caps[t]))
+        return sorted(range(len(types)), key=lambda t: -caps[t])
+
+    bins = []  # [type, [items], load]
+    for i in _ordered(items):
+        for b in bins:
+            if _fits(b[2], sizes[i], caps[b[0]]):
+                b[1].append(i)
+                b[2] += sizes[i]
+                break
+        else:
+            for t in open_order():
+                if left[t] > 0 and _fits(0.0, sizes[i], caps[t]):
+                    left[t] -= 1
+                    bins.append([t, [i], sizes[i]])
+                    break
+            else:
+                return None
+    # improvement: try to empty the least-loaded stick into the others, repeatedly
+    improved = True
+    while improved and len(bins) > 1:
+        improved = False
+        bins.sort(key=lambda b: -b[2])
+        last = bins[-1]
+        trial = [[b[0], list(b[1]), b[2]] for b in bins[:-1]]
+        ok = True
+        for i in sorted(last[1], key=lambda i: -sizes[i]):
+            for b in sorted(trial, key=lambda b: caps[b[0]] - b[2]):  # best fit
+                if _fits(b[2], sizes[i], caps[b[0]]):
+                    b[1].append(i)
+                    b[2] += sizes[i]
+                    break
+            else:
+                ok = False
+                break
+        if ok:
+            left[last[0]] += 1
+            bins = trial
+            improved = True
+    # downsize: move each stick to the cheapest (or shortest) type that still holds its load
+    for b in sorted(bins, key=lambda b: -b[2]):
+        left[b[0]] += 1
+        choices = [t for t in range(len(types)) if left[t] > 0 and _fits(0.0, b[2], caps[t])]
+        key = (lambda t: (types[t].price or 0, caps[t])) if by_cost else (lambda t: caps[t])
+        b[0] = min(choices, key=key)
+        left[b[0]] -= 1
+    return [(b[0], sorted(b[1], key=lambda i: (-items[i].length, items[i].label))) for b in bins]
+
+
+GRID = 5e-4
+"""Resolution of the knapsack pricing grid [m] (0.5 mm). Sizes are rounded down on it, so the
+LP bound stays valid; while diving they are rounded up, so every pattern used fits (and is
+re-checked with the true sizes)."""
+
+
+PATTERNS_PER_ROUND = 6
+"""Disjoint improving patterns priced per column-generation round [-]."""
+
+
+def _knapsack(values, weights, capacity):
+    """0/1 knapsack by dynamic programming over an integer capacity: (best value, chosen items)."""
+    n = len(values)
+    best = np.zeros(capacity + 1)
+    take = np.zeros((n, capacity + 1), dtype=bool)
+    for i in range(n):
+        w, v = int(weights[i]), values[i]
+        if v <= 0 or w > capacity:
+            continue
+        cand = np.full(capacity + 1, -np.inf)
+        cand[w:] = best[: capacity + 1 - w] + v
+        better = cand > best + 1e-12
+        take[i] = better
+        best = np.where(better, cand, best)
+    chosen, c = [], capacity
+    for i in range(n - 1, -1, -1):
+        if take[i, c]:
+            chosen.append(i)
+            c -= int(weights[i])
+    return float(best[capacity]), sorted(chosen)
+
+
+def _master_lp(keys, n_items, types, cost, limited):
+    """Solve the covering LP over the columns; returns (value, x, item duals, stick-limit duals)."""
+    from scipy.optimize import linprog
+    from scipy.sparse import csr_matrix
+
+    rows, cols = [], []
+    for j, (_t, members) in enumerate(keys):
+        rows += list(members)
+        cols += [j] * len(members)
+    cover = csr_matrix((np.ones(len(rows)), (rows, cols)), shape=(n_items, len(keys)))
+    a_ub = [-cover]
+    b_ub = [-np.ones(n_items)]
+    for t in limited:
+        a_ub.append(csr_matrix(np.array([[1.0 if k[0] == t else 0.0 for k in keys]])))
+        b_ub.append(np.array([float(types[t].count)]))
+    from scipy.sparse import vstack
+
+    c = np.array([cost[k[0]] for k in keys])
+    res = linprog(c, A_ub=vstack(a_ub), b_ub=np.concatenate(b_ub), bounds=(0, None), method="highs")
+    if res.status != 0:
+        return None, None, None, None
+    duals = -res.ineqlin.marginals
+    return res.fun, res.x, np.clip(duals[:n_items], 0.0, None), {
+        t: max(0.0, float(-res.ineqlin.marginals[n_items + k])) for k, t in enumerate(limited)}
+
+
+def _generate(items_idx, sizes, caps, types, cost, limited, columns, deadline, rounding):
+    """Column generation on the items ``items_idx``; ``rounding`` floor (bound) or ceil (feasible)."""
+    import time
+
+    local = {i: k for k, i in enumerate(items_idx)}
+    grid = (np.floor if rounding == "floor" else np.ceil)(sizes[items_idx] / GRID - (1e-9 if rounding == "ceil" else -1e-9))
+    grid = grid.astype(int)
+    grid_caps = [int(np.floor(c / GRID + 1e-9)) for c in caps]
+    value = x = None
+    keys = []
+    while True:
+        keys = [k for k in columns if all(i in local for i in k[1])
+                and (rounding == "floor" or sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE)]
+        local_keys = [(t, tuple(local[i] for i in m)) for t, m in keys]
+        value, x, pi, mu = _master_lp(local_keys, len(items_idx), types, cost, limited)
+        if value is None:
+            return None, None, keys
+        added = 0
+        for t in range(len(types)):
+            # several disjoint improving patterns per round: fewer LP solves
+            prices = pi.copy()
+            for _round in range(PATTERNS_PER_ROUND):
+                best, chosen = _knapsack(prices, grid, grid_caps[t])
+                if not chosen or best <= cost[t] + mu.get(t, 0.0) + 1e-9:
+                    break
+                key = (t, tuple(sorted(items_idx[c] for c in chosen)))
+                if key not in columns:
+                    columns[key] = True
+                    added += 1
+                prices[chosen] = 0.0
+        if not added or time.perf_counter() > deadline:
+            return value, x, keys
+
+
+def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, time_limit):
+    """Gilmore-Gomory LP bound by column generation, then a diving heuristic on the columns.
+
+    Returns (assignment or None, proven optimal, lower bound on the objective).
+    """
+    import time
+
+    deadline = time.perf_counter() + time_limit
+    n = len(items)
+    sizes = np.array([it.length + kerf for it in items])
+    caps = [_capacity(t.length, kerf, end_trim) for t in types]
+    cost = [(t.price or 0.0) if by_cost else 1.0 for t in types]
+    limited = [t for t, st in enumerate(types) if st.count is not None]
+    columns = {}
+    for t, members in seed_patterns:
+        columns[(t, tuple(sorted(members)))] = True
+    for i in range(n):  # singletons keep every master feasible
+        fitting = [t for t in range(len(types)) if _fits(0.0, sizes[i], caps[t])]
+        columns[(min(fitting, key=lambda t: (cost[t], caps[t])), (i,))] = True
+    everything = np.arange(n)
+    lp_value, _, _ = _generate(everything, sizes, caps, types, cost, limited, columns, deadline, "floor")
+    if lp_value is None:
+        return None, True, 0.0  # even the relaxation is infeasible: the stock on hand is too small
+    bound = math.ceil(lp_value - 1e-6) if not by_cost else lp_value
+    # dive: fix the most used feasible column, re-price the rest, repeat
+    left = list(range(n))
+    chosen = []
+    counts = {t: types[t].count for t in limited}
+    while left:
+        sub_types = [StockType(st.length, counts.get(t, st.count), st.price) for t, st in enumerate(types)]
+        value, x, keys = _generate(np.array(left), sizes, caps, sub_types, cost, limited, columns,
+                                   deadline if time.perf_counter() < deadline else time.perf_counter() + 0.05, "ceil")
+        if value is None:
+            return None, False, bound
+        feasible = [(j, k) for j, k in enumerate(keys) if sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE]
+        if not feasible:
+            return None, False, bound
+        # fix every column the LP already uses whole, or else the most used one
+        ranked = sorted(feasible, key=lambda jk: (-x[jk[0]], -len(jk[1][1]), jk[0]))
+        fixed = [jk for jk in ranked if x[jk[0]] > 1 - 1e-6] or ranked[:1]
+        taken = set()
+        for _j, (t, members) in fixed:
+            take = [i for i in members if i not in taken]
+            if not take or (t in counts and counts[t] <= 0):
+                continue
+            taken.update(take)
+            chosen.append((t, sorted(take, key=lambda i: (-items[i].length, items[i].label))))
+            if t in counts:
+                counts[t] -= 1
+        left = [i for i in left if i not in taken]
+    value = sum(cost[t] for t, _ in chosen)
+    proven = value <= (bound if not by_cost else lp_value) + 1e-6
+    return chosen, proven, bound
+
+
+def _achievable_cost_bound(lp_value, prices, upper):
+    """Smallest cost a whole number of sticks can have that is at least ``lp_value``.
+
+    Every layout costs sum(n_t * price_t) for whole n_t, so the LP bound can be raised to the
+    next such sum (up to ``upper``, the best layout's cost). Gives up (returns the LP value) when
+    there are too many combinations.
+    """
+    prices = sorted({round(p, 6) for p in prices if p > 0})
+    if not prices:
+        return lp_value
+    sums = {0.0}
+    for p in prices:
+        limit = int(upper / p + 1e-9)
+        if limit * len(sums) > 200_000:
+            return lp_value
+        sums = {round(a + k * p, 6) for a in sums for k in range(limit + 1) if a + k * p <= upper + 1e-6}
+    above = [v for v in sums if v >= lp_value - 1e-6]
+    return min(above) if above else lp_value
+
+
+def _sticks(items, types, kerf, end_trim, assignment):
+    sticks = []
+    for t, members in assignment:
+        st = types[t]
+        pos = end_trim
+        cuts = []
+        for i in members:
+            cuts.append((items[i].label, pos, items[i].length))
+            pos += items[i].length + kerf
+        used = pos - kerf  # end of the last piece
+        rest = st.length - used
+        offcut = max(0.0, rest - kerf) if rest > FIT_TOLERANCE else 0.0
+        sticks.append(Stick(st.length, tuple(cuts), offcut, st.price))
+    # fullest sticks first; the emptiest (longest offcut) last
+    sticks.sort(key=lambda s: (s.offcut, -s.stock_length, s.cuts[0][0] if s.cuts else ""))
+    return tuple(sticks)
+
+
+def _cost(sticks):
+    if any(s.price is None for s in sticks):
+        return None
+    return float(sum(s.price for s in sticks))
+
+
+def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT):
+    """Lay ``items`` out on ``types`` of stock. Raises StockError when they cannot all be cut.
+
+    Examples
+    --------
+    Pieces of 600, 500, 400 and 300 mm on 1 m sticks with a 3 mm kerf: two sticks, proven.
+
+    >>> out = layout([Item("a", .6), Item("b", .5), Item("c", .4), Item("d", .3)],
+    ...              [StockType(1.0)], kerf=0.003)
+    >>> len(out.sticks), out.lower_bound, out.proven_optimal
+    (2, 2, True)
+    """
+    items = list(items)
+    types = list(types)
+    if not items:
+        return Layout((), 0, True, "none")
+    if not types:
+        raise StockError("no stock lengths given")
+    longest = max(types, key=lambda t: t.length)
+    for it in items:
+        if not _fits(0.0, it.length + kerf, _capacity(longest.length, kerf, end_trim)):
+            raise StockError(
+                f"{it.label} ({it.length * 1000:.0f} mm) is longer than the longest stock "
+                f"({longest.length * 1000:.0f} mm) after {end_trim * 1000:.0f} mm end trim")
+    by_cost = all(t.price is not None for t in types) and any(t.price for t in types)
+    sizes = [it.length + kerf for it in items]
+    bound = lower_bound_l2(sizes, _capacity(longest.length, kerf, end_trim))
+    heur = _heuristic(items, types, kerf, end_trim, by_cost)
+    if heur is not None and not by_cost and len(heur) == bound:
+        return Layout(_sticks(items, types, kerf, end_trim, heur), bound, True, "first fit decreasing (meets the bound)",
+                      _cost(_sticks(items, types, kerf, end_trim, heur)))
+    seeds = heur or []
+    exact, proven, dual = _column_generation(items, types, kerf, end_trim, by_cost, seeds, time_limit)
+    candidates = []
+    if heur is not None:
+        candidates.append(("first fit decreasing", _sticks(items, types, kerf, end_trim, heur)))
+    if exact is not None:
+        candidates.append(("column generation + HiGHS", _sticks(items, types, kerf, end_trim, exact)))
+    if not candidates:
+        raise StockError(_shortage(items, types, kerf, end_trim))
+
+    def score(entry):
+        sticks = entry[1]
+        primary = _cost(sticks) if by_cost else len(sticks)
+        return (primary, -max((s.offcut for s in sticks), default=0.0), entry[0] != "column generation + HiGHS")
+
+    method, sticks = min(candidates, key=score)
+    # the exact model, when it finished, proves the primary objective of whatever is no worse
+    proven_primary = proven and exact is not None and score((method, sticks))[0] <= score(candidates[-1])[0]
+    cost = _cost(sticks)
+    if by_cost:
+        cost_bound = cost if proven_primary else _achievable_cost_bound(
+            max(dual, 0.0), [t.price for t in types], cost)
+        return Layout(sticks, bound, cost <= cost_bound + 1e-6, method, cost, cost_bound)
+    bound = max(bound, math.ceil(dual - 1e-6)) if dual else bound
+    if proven_primary:
+        bound = len(sticks)
+    return Layout(sticks, bound, len(sticks) == bound, method, cost)
+
+
+def _shortage(items, types, kerf, end_trim):
+    unlimited = [StockType(t.length, None, t.price) for t in types]
+    need = _heuristic(items, unlimited, kerf, end_trim, False)
+    have = sum(t.count or 0 for t in types)
+    longest = max(t.length for t in types)
+    extra = max(1, len(need) - have) if need else 1
+    return (f"the stock on hand ({have} stick{'s' if have != 1 else ''}) cannot hold all {len(items)} "
+            f"pieces; about {extra} more stick{'s' if extra != 1 else ''} of {longest * 1000:.0f} mm "
+            "are needed")
+
+
+def layout_dict(result, group=""):
+    """A layout in the plan JSON's ``stock`` shape (mm)."""
+    return {
+        "group": group,
+        "sticks": [
+            {"stock_length_mm": round(s.stock_length * 1000, 2),
+             "cuts": [{"label": lab, "start_mm": round(start * 1000, 2), "length_mm": round(length * 1000, 2)}
+                      for lab, start, length in s.cuts],
+             "offcut_mm": round(s.offcut * 1000, 2)}
+            for s in result.sticks
+        ],
+        "lower_bound": result.lower_bound,
+        "proven_optimal": bool(result.proven_optimal),
+        "method": result.method,
+        "cost": result.cost,
+    }
+
+
+def plan_layout(plan, design, time_limit=DEFAULT_TIME_LIMIT, override=None):
+    """Layouts for every group of pieces that share a section and a stock table.
+
+    Returns the plan JSON's ``stock`` value, or None when the design gives no stock lengths.
+    Raises StockError naming the set when stock runs out.
+    """
+    groups = {}
+    spec_by_set = {s.name: s for s in design.sets}
+    for s in plan.sets:
+        spec = spec_by_set[s.name]
+        stock = override or spec.stock or design.stock
+        if stock is None or not stock.lengths:
+            continue
+        key = (s.section, id(stock) if spec.stock is not None and override is None else 0)
+        groups.setdefault(key, (stock, []))[1].extend(s.pieces)
+    if not groups:
+        return None
+    out = {"sticks": [], "groups": [], "lower_bound": 0, "proven_optimal": True}
+    total_stock = total_used = 0.0
+    cost = 0.0
+    for (section, _), (stock, pieces) in groups.items():
+        items = [Item(p.label, p.cut_length) for p in pieces]
+        types = [StockType(x.length, x.count, x.price) for x in stock.lengths]
+        try:
+            result = layout(items, types, stock.kerf, stock.end_trim, time_limit)
+        except StockError as exc:
+            raise StockError(f"{section}: {exc}") from None
+        d = layout_dict(result, section)
+        for stick in d["sticks"]:
+            stick["group"] = section
+        out["sticks"].extend(d["sticks"])
+        out["groups"].append({k: v for k, v in d.items() if k != "sticks"})
+        out["lower_bound"] += result.lower_bound
+        out["proven_optimal"] = out["proven_optimal"] and result.proven_optimal
+        total_stock += sum(s.stock_length for s in result.sticks)
+        total_used += sum(it.length for it in items)
+        cost = None if (cost is None or result.cost is None) else cost + result.cost
+    counts = {}
+    for stick in out["sticks"]:
+        counts[stick["stock_length_mm"]] = counts.get(stick["stock_length_mm"], 0) + 1
+    out["sticks_by_length"] = [{"stock_length_mm": k, "count": v} for k, v in sorted(counts.items())]
+    out["utilisation_percent"] = round(100 * total_used / total_stock, 1) if total_stock else 0.0
+    out["cost"] = cost
+    return out
+
+
+def attach_layout(plan, design, time_limit=DEFAULT_TIME_LIMIT, override=None):
+    """The plan with its ``stock`` layout filled in (unchanged when no stock is given)."""
+    from dataclasses import replace
+
+    layout_data = plan_layout(plan, design, time_limit, override)
+    return plan if layout_data is None else replace(plan, stock=layout_data)
