@@ -1,0 +1,193 @@
+"""Print-scale checks of the shop packet: rasterised PDF pages and parsed SVG geometry."""
+
+import io
+import xml.etree.ElementTree as ET
+
+import numpy as np
+import pypdfium2
+import pytest
+from pypdf import PdfReader
+
+from cutplan.design import load_design
+from cutplan.materials import load_library
+from cutplan.planner import plan
+from cutplan.render import pdf as pdf_mod
+from cutplan.render import svg as svg_mod
+from cutplan.render.packet import packet_files
+
+DPI = 600
+PX_PER_MM = DPI / 25.4
+
+GLOCK = """
+title = "Bench glockenspiel <test> & co"
+paper = "{paper}"
+[[set]]
+name = "glock"
+kind = "bar"
+notes = ["C7", "E7"]
+material = "aluminum-6061-t6"
+section = {{ shape = "bar", width = "25 mm", thickness = "6 mm" }}
+"""
+
+
+def make_plan(tmp_path, text, name="d.toml"):
+    path = tmp_path / name
+    path.write_text(text, encoding="utf-8")
+    design, _ = load_design(path, lambda dirs: load_library(dirs))
+    return plan(design)
+
+
+def raster(pdf_bytes, page_index):
+    doc = pypdfium2.PdfDocument(pdf_bytes)
+    page = doc[page_index]
+    image = page.render(scale=DPI / 72, grayscale=True).to_numpy()
+    height_pt = page.get_height()
+    doc.close()
+    gray = image[..., 0] if image.ndim == 3 else image
+    return gray, height_pt
+
+
+def dark_runs(row):
+    """Centres [px] of runs of dark pixels along one pixel row."""
+    dark = row < 128
+    edges = np.flatnonzero(np.diff(dark.astype(int)))
+    starts = edges[::2] + 1 if dark[0] == 0 else np.r_[0, edges[1::2] + 1]
+    ends = edges[1::2] if dark[0] == 0 else edges[::2]
+    return [(s + e) / 2 for s, e in zip(starts, ends, strict=False)]
+
+
+def template_pages(pdf_bytes):
+    reader = PdfReader(io.BytesIO(pdf_bytes))
+    return [i for i, p in enumerate(reader.pages) if "Marking strips" in (p.extract_text() or "")]
+
+
+@pytest.mark.parametrize("paper", ["letter", "a4"])
+def test_calibration_rulers_print_at_true_size(tmp_path, paper):
+    p = make_plan(tmp_path, GLOCK.format(paper=paper))
+    data = pdf_mod.render_pdf(p)
+    page = template_pages(data)[0]
+    gray, height_pt = raster(data, page)
+    page_h_mm = height_pt / 72 * 25.4
+    # the 100 mm ruler: only its 0, 50 and 100 mm ticks reach 5 mm below its top line
+    ruler_top_mm = pdf_mod.RULER_TOP / pdf_mod.mm  # from the bottom of the page
+    row = int(round((page_h_mm - (ruler_top_mm - 5.0)) * PX_PER_MM))
+    ticks = dark_runs(gray[row])
+    assert len(ticks) == 3
+    assert (ticks[-1] - ticks[0]) / PX_PER_MM == pytest.approx(100.0, abs=0.2)
+    # the 4 in ruler 14 mm lower: ticks at 0, 2 and 4 in
+    row2 = int(round((page_h_mm - (ruler_top_mm - 14.0 - 5.0)) * PX_PER_MM))
+    ticks2 = dark_runs(gray[row2])
+    assert len(ticks2) == 3
+    assert (ticks2[-1] - ticks2[0]) / PX_PER_MM == pytest.approx(101.6, abs=0.2)
+
+
+def test_node_marks_print_where_the_plan_says(tmp_path):
+    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
+    data = pdf_mod.render_pdf(p)
+    page = template_pages(data)[0]
+    gray, height_pt = raster(data, page)
+    page_h_mm = height_pt / 72 * 25.4
+    h_pt = height_pt
+    # first strip on the page: bottom edge y0 as drawn in pdf._templates
+    y0_pt = h_pt - 28 * pdf_mod.mm - pdf_mod.STRIP_PITCH_MM * pdf_mod.mm + 14 * pdf_mod.mm
+    top_mm_from_bottom = y0_pt / pdf_mod.mm + pdf_mod.STRIP_H_MM
+    row = int(round((page_h_mm - top_mm_from_bottom - 0.8) * PX_PER_MM))
+    runs = dark_runs(gray[row])
+    zero = pdf_mod.TEMPLATE_MARGIN / pdf_mod.mm * PX_PER_MM
+    piece = p.pieces[0]
+    expected = [0.0] + [x * 1000 for x in piece.nodes] + [piece.length * 1000]
+    for want in expected:
+        nearest = min(runs, key=lambda r: abs((r - zero) / PX_PER_MM - want))
+        assert (nearest - zero) / PX_PER_MM == pytest.approx(want, abs=0.2), (want, runs)
+
+
+def svg_tree(text):
+    return ET.fromstring(text)
+
+
+def test_svg_is_in_millimetres_with_matching_viewbox(tmp_path):
+    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
+    root = svg_tree(svg_mod.render_piece_svg(p, p.pieces[0]))
+    width, height = root.get("width"), root.get("height")
+    assert width.endswith("mm") and height.endswith("mm")
+    box = [float(v) for v in root.get("viewBox").replace(",", " ").split()]
+    assert box[2] == pytest.approx(float(width[:-2]), abs=1e-9)
+    assert box[3] == pytest.approx(float(height[:-2]), abs=1e-9)
+
+
+def test_svg_node_and_ruler_marks_land_within_0_05_mm(tmp_path):
+    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
+    piece = p.pieces[0]
+    root = svg_tree(svg_mod.render_piece_svg(p, piece))
+    ns = "{http://www.w3.org/2000/svg}"
+    verticals = sorted({round(float(e.get("x1")), 4) for e in root.iter(f"{ns}line") if e.get("x1") == e.get("x2")})
+    for x in piece.nodes:
+        want = svg_mod.MARGIN + x * 1000
+        assert min(abs(v - want) for v in verticals) < 0.05
+    assert min(abs(v - (svg_mod.MARGIN + 100)) for v in verticals) < 0.05  # 100 mm ruler end
+    assert min(abs(v - (svg_mod.MARGIN + 115 + 101.6)) for v in verticals) < 0.05  # 4 in ruler end
+
+
+def test_user_text_is_escaped_in_svg_and_pdf(tmp_path):
+    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
+    text = svg_mod.render_piece_svg(p, p.pieces[0])
+    assert "&lt;test&gt; &amp; co" in text
+    svg_tree(text)  # parses
+    reader = PdfReader(io.BytesIO(pdf_mod.render_pdf(p)))
+    assert "<test> & co" in reader.pages[0].extract_text()
+
+
+def test_pdf_is_byte_identical_on_every_run(tmp_path):
+    p = make_plan(tmp_path, GLOCK.format(paper="a4"))
+    assert pdf_mod.render_pdf(p) == pdf_mod.render_pdf(p)
+
+
+def test_pdf_text_has_every_label_and_both_units(tmp_path):
+    from pathlib import Path
+
+    from cutplan.units import format_inches
+
+    root = Path(__file__).resolve().parents[2]
+    design, _ = load_design(root / "examples" / "classroom-pipes.toml", lambda d: load_library(d))
+    p = plan(design)
+    text = "\n".join(page.extract_text() for page in PdfReader(io.BytesIO(pdf_mod.render_pdf(p))).pages)
+    for piece in p.pieces:
+        assert piece.label in text
+        assert f"{piece.length * 1000:.1f} mm" in text
+        assert format_inches(piece.length, 32, show_error=False) in text
+
+
+def test_sixty_piece_packet(tmp_path):
+    text = """
+title = "Sixty"
+[[set]]
+name = "big"
+kind = "chime"
+range = "C3..B7"
+material = "aluminum-6063-t5"
+section = { stock = "al-1.000x0.065" }
+"""
+    p = make_plan(tmp_path, text)
+    assert len(p.pieces) == 60
+    files = packet_files(p)
+    reader = PdfReader(io.BytesIO(files["packet.pdf"]))
+    assert len(reader.pages) > 10
+    all_text = "\n".join(page.extract_text() for page in reader.pages)
+    assert "big-60" in all_text and "big-1 " in all_text
+    assert sum(1 for k in files if k.startswith("templates/big-")) == 60 + 2
+
+
+def test_long_piece_is_tiled_with_sheet_numbers(tmp_path):
+    text = """
+title = "Tall"
+[[set]]
+name = "tall"
+kind = "chime"
+frequencies = [31]
+section = { stock = "emt-1" }
+"""
+    p = make_plan(tmp_path, text)
+    assert p.pieces[0].length > 2.35
+    reader = PdfReader(io.BytesIO(pdf_mod.render_pdf(p)))
+    all_text = "\n".join(page.extract_text() for page in reader.pages)
+    assert "sheet 1 of 14" in all_text and "sheet 14 of 14" in all_text
