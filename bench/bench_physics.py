@@ -63,6 +63,16 @@ def convergence():
             print(f"{order:5d} {elements:8d} " + " ".join(f"{e:10.5f}" for e in err) + f" {ms:7.1f}")
 
 
+def measuring():
+    from cutplan.audio.analysis import measure
+    from cutplan.audio.synth import tone
+
+    rate = 44100
+    x = tone([587.33 * r for r in (1, 2.677, 4.967, 7.939)], [1, 0.7, 0.5, 0.3], [2, 1, 0.5, 0.3], 5.0, rate)
+    t = timed(lambda: measure(x, rate, "chime"))
+    print(f"\n{'measure a 5 s recording (44.1 kHz)':44} {t:9.4f}")
+
+
 def planning_and_startup():
     from cutplan.design import load_design
     from cutplan.materials import load_library
@@ -83,4 +93,5 @@ def planning_and_startup():
 if __name__ == "__main__":
     vectorised()
     convergence()
+    measuring()
     planning_and_startup()

@@ -27,6 +27,8 @@ MAX_FILE_BYTES = 1_000_000
 """Largest design file read [bytes]; a design is a few kB."""
 DEFAULT_TEMPERATURE = 293.15
 """Air temperature assumed when a design gives none [K] (20 C, the usual reference)."""
+DEFAULT_SHARP_RISK = 0.05
+"""Chance of a piece coming out sharp that the default cut allowance accepts [-] (issue 6)."""
 DEFAULT_RESONATOR_MAX_LENGTH = 1.2
 """Longest resonator accepted without a warning [m] (common practice for a floor-standing frame)."""
 
@@ -74,14 +76,19 @@ class StockLength:
 
 @dataclass(frozen=True)
 class StockSpec:
-    """The design's [stock] table in SI; allowance is a fraction or, if ``allowance_length`` is
-    set, a fixed length added to each piece [m]."""
+    """The design's [stock] table in SI.
+
+    The rough-cut allowance is one of: ``allowance_risk`` (the chance a piece comes out sharp,
+    from the material and stock spreads; the default, 5 %), ``allowance`` (a fraction of the
+    length) or ``allowance_length`` (a fixed length added to each piece [m]).
+    """
 
     lengths: tuple = ()
     kerf: float = 1.6e-3
     end_trim: float = 0.0
-    allowance: float = 0.005
+    allowance: float = 0.0
     allowance_length: float = 0.0
+    allowance_risk: float | None = DEFAULT_SHARP_RISK
 
 
 @dataclass(frozen=True)
@@ -103,6 +110,8 @@ class SetSpec:
     serves: str = ""
     max_length: float = DEFAULT_RESONATOR_MAX_LENGTH
     stock: StockSpec | None = None
+    outer_tolerance: float = 0.0
+    wall_tolerance: float = 0.0
 
 
 @dataclass(frozen=True)
@@ -304,22 +313,34 @@ def _stock(raw, prefix, col):
     end_trim = col.parse(f"{prefix}.end_trim", raw.get("end_trim", "0 mm"), units.parse_length, positive=False)
     if end_trim is not None and not 0 <= end_trim <= 0.1:
         col.add(f"{prefix}.end_trim", raw.get("end_trim"), "must be between 0 and 100 mm")
-    allowance, allowance_length = 0.005, 0.0
+    allowance, allowance_length, risk = 0.0, 0.0, DEFAULT_SHARP_RISK
     if "allowance" in raw:
         value = raw["allowance"]
-        if isinstance(value, str) and value.strip().endswith("%"):
+        forms = 'must be "risk 5 %" (chance of coming out sharp), a percentage such as "0.5 %" or a length up to 100 mm'
+        text = value.strip().lower() if isinstance(value, str) else ""
+        if text.startswith("risk"):
+            frac = col.parse(f"{prefix}.allowance", text[4:].strip(), units.parse_percent, positive=False)
+            if frac is not None and not 0.001 <= frac <= 0.5:
+                col.add(f"{prefix}.allowance", value, "risk must be between 0.1 % and 50 %")
+            elif frac is not None:
+                risk = frac
+        elif text.endswith("%"):
             frac = col.parse(f"{prefix}.allowance", value, units.parse_percent, positive=False)
             if frac is not None and not 0 <= frac <= 0.1:
                 col.add(f"{prefix}.allowance", value, "must be between 0 % and 10 %")
             elif frac is not None:
-                allowance = frac
+                allowance, risk = frac, None
         else:
-            extra = col.parse(f"{prefix}.allowance", value, units.parse_length, positive=False)
+            try:
+                extra = units.parse_length(value)
+            except units.UnitError:
+                col.add(f"{prefix}.allowance", value, forms)
+                extra = None
             if extra is not None and not 0 <= extra <= 0.1:
-                col.add(f"{prefix}.allowance", value, 'must be a percentage such as "0.5 %" or a length up to 100 mm')
+                col.add(f"{prefix}.allowance", value, forms)
             elif extra is not None:
-                allowance, allowance_length = 0.0, extra
-    return StockSpec(tuple(lengths), kerf or 0.0, end_trim or 0.0, allowance, allowance_length)
+                allowance_length, risk = extra, None
+    return StockSpec(tuple(lengths), kerf or 0.0, end_trim or 0.0, allowance, allowance_length, risk)
 
 
 def _targets(raw, key, a4, temperament, col):
@@ -421,7 +442,7 @@ def _section(raw, key, kind, library, col):
                 col.add(f"{key}.inner", raw["inner"], "must be smaller than the outside diameter")
             elif inner is not None:
                 section = Section("tube", outer=section.outer, inner=section.inner, name=name, bore=inner)
-        return section, item.material
+        return section, (item.material, item.outer_tolerance, item.wall_tolerance)
     shape = raw.get("shape")
     if shape not in ("tube", "rod", "bar"):
         col.add(f"{key}.shape", shape, 'must be "tube", "rod" or "bar" (or give stock = "<size>")')
@@ -514,6 +535,9 @@ def _set(raw, index, a4, temperament, library, col):
         section, stock_material = None, ""
     else:
         section, stock_material = _section(raw["section"], f"{key}.section", kind, library, col)
+    tolerances = {}
+    if isinstance(stock_material, tuple):
+        stock_material, tolerances["outer_tolerance"], tolerances["wall_tolerance"] = stock_material
 
     fields = {}
     if kind in ("chime", "bar"):
@@ -585,7 +609,7 @@ def _set(raw, index, a4, temperament, library, col):
         fields["stock"] = _stock(raw["stock"], f"{key}.stock", col)
     if section is None:
         return None
-    return SetSpec(index=index, name=name, kind=kind, targets=tuple(targets), section=section, **fields)
+    return SetSpec(index=index, name=name, kind=kind, targets=tuple(targets), section=section, **fields, **tolerances)
 
 
 def _check_names(sets, col):

@@ -12,8 +12,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from cutplan import pitch
-from cutplan.design import Design, DesignError, DesignErrors, SetSpec
+from cutplan import pitch, uncertainty
+from cutplan.design import DEFAULT_SHARP_RISK, Design, DesignError, DesignErrors, SetSpec
 from cutplan.physics import air_column, beam, timoshenko
 
 PARTIAL_COUNT = 4
@@ -50,6 +50,9 @@ class Piece:
     warnings: tuple = ()
     fundamental_hz: float = 0.0
     bore: float = 0.0
+    allowance_uncalibrated: float = 0.0
+    allowance_calibrated: float = 0.0
+    sharp_risk: float = 0.0
 
 
 @dataclass(frozen=True)
@@ -99,8 +102,8 @@ def _cents_per_mm(frequency_at, length):
     return pitch.cents(hi, lo)
 
 
-def _beam_constants(spec: SetSpec, model):
-    mat, sec = spec.material, spec.section
+def beam_constants(mat, sec, model):
+    """(EI [N m^2], mu [kg/m], kappa G A [N], rho I [kg m]) of a material and section for a model."""
     e = mat.modulus_for(model)
     g = mat.shear_modulus_for(model)
     ei = e * sec.second_moment
@@ -108,6 +111,39 @@ def _beam_constants(spec: SetSpec, model):
     kga = sec.shear_coefficient(mat.poisson) * g * sec.area
     rho_i = mat.density * sec.second_moment
     return ei, mu, kga, rho_i
+
+
+def beam_frequency_function(material, section, model, strike=False):
+    """f(L) [Hz] of the mode a chime or bar is tuned by (mode 1, or half of mode 4 for the strike
+    note), for this material, section and model."""
+    ei, mu, kga, rho_i = beam_constants(material, section, model)
+    n = STRIKE_NOTE_MODE if strike else 1
+    scale = 0.5 if strike else 1.0
+    if model == "slender":
+        return lambda x: scale * float(beam.free_free_frequency(n, x, ei, mu))
+    if n == 1:
+        return lambda x: float(timoshenko.fundamental_frequencies(x, ei, mu, kga, rho_i)[0])
+    return lambda x: scale * float(timoshenko.frequencies(x, ei, mu, kga, rho_i, modes=n)[n - 1])
+
+
+def air_frequency_function(spec):
+    """f(L) [Hz] of an air-column or resonator set's fundamental at its temperature."""
+    speed = air_column.speed_of_sound(spec.temperature, spec.humidity)
+    radius = spec.section.air_radius
+    freq_of = air_column.closed_open_frequency if spec.ends == "closed-open" else air_column.open_open_frequency
+    return lambda x: float(freq_of(x, radius, speed, correction=spec.end_correction))
+
+
+def _allowances(spec, stock, frequency_at, length, target, ratios_uncal, ratios_cal):
+    """(cut length, uncalibrated allowance, calibrated allowance, risk of coming out sharp)."""
+    risk = stock.allowance_risk if stock is not None and stock.allowance_risk else DEFAULT_SHARP_RISK
+    uncal = uncertainty.cut_length_for_risk(frequency_at, length, target, ratios_uncal, risk)
+    cal = uncertainty.cut_length_for_risk(frequency_at, length, target, ratios_cal, risk)
+    if stock is not None and stock.allowance_risk is None:
+        cut = length * (1 + stock.allowance) + stock.allowance_length
+    else:
+        cut = uncal
+    return cut, uncal - length, cal - length, uncertainty.sharp_risk(frequency_at, cut, target, ratios_uncal)
 
 
 def _mode_length(frequency, mode, ei, mu, kga, rho_i):
@@ -122,9 +158,23 @@ def _mode_length(frequency, mode, ei, mu, kga, rho_i):
     return brentq(miss, 0.4 * slender, slender, xtol=1e-12, rtol=1e-12)
 
 
-def _plan_beam_set(spec: SetSpec, design: Design, allowance, allowance_length):
+SHARP_RISK_WARNING = 0.10
+"""Chance of coming out sharp above which a fixed allowance gets a warning [-]."""
+
+
+def _risk_warning(risk):
+    if risk > SHARP_RISK_WARNING:
+        return [f"the fixed allowance leaves a {risk * 100:.0f} % chance of cutting this piece too short; "
+                'allowance = "risk 5 %" sizes it from the material spreads']
+    return []
+
+
+def _plan_beam_set(spec: SetSpec, design: Design, stock):
     model = spec.model
-    ei, mu, kga, rho_i = _beam_constants(spec, model)
+    f_at = beam_frequency_function(spec.material, spec.section, model, spec.target_mode == "strike-note")
+    ratios_uncal = uncertainty.beam_ratios(spec.material, spec.section, spec.outer_tolerance, spec.wall_tolerance)
+    ratios_cal = uncertainty.beam_ratios(spec.material, spec.section, calibrated=True)
+    ei, mu, kga, rho_i = beam_constants(spec.material, spec.section, model)
     targets = np.array([t.frequency for t in spec.targets])
     strike = spec.target_mode == "strike-note"
     if strike:
@@ -147,19 +197,12 @@ def _plan_beam_set(spec: SetSpec, design: Design, allowance, allowance_length):
         if model == "slender":
             partials = slender
             nodes = tuple(x * length for x in beam.node_positions(1))
-
-            def f_at(x, n=(STRIKE_NOTE_MODE if strike else 1)):
-                return beam.free_free_frequency(n, x, ei, mu)
         else:
             partials = timo
             g, s2 = timoshenko.uniform_parameters(length, ei, mu, kga, rho_i)
             omega1 = timo[0] * 2 * np.pi * length**2 / np.sqrt(ei / mu)
             nodes = tuple(x * length for x in timoshenko.node_positions(float(omega1), float(g), float(s2)))
-
-            def f_at(x, n=(STRIKE_NOTE_MODE if strike else 1)):
-                return float(timoshenko.frequencies(x, ei, mu, kga, rho_i, modes=n)[n - 1])
         predicted = partials[STRIKE_NOTE_MODE - 1] / 2 if strike else partials[0]
-        scale = 0.5 if strike else 1.0
         warnings = []
         if length / depth < STUBBY_RATIO:
             warnings.append(
@@ -172,8 +215,9 @@ def _plan_beam_set(spec: SetSpec, design: Design, allowance, allowance_length):
                 f"slender model: shear and rotary inertia would lower this piece by "
                 f"{-shear_cents:.0f} cents; the default timoshenko model includes them"
             )
-        cut = length * (1 + allowance) + allowance_length
-        if cut > COMMON_STOCK_LENGTH and not (design.stock and design.stock.lengths):
+        cut, a_uncal, a_cal, risk = _allowances(spec, stock, f_at, length, t.frequency, ratios_uncal, ratios_cal)
+        warnings += _risk_warning(risk)
+        if cut > COMMON_STOCK_LENGTH and not (stock and stock.lengths):
             warnings.append(f"longer than common stock ({COMMON_STOCK_LENGTH:.2f} m / 12 ft)")
         pieces.append(
             Piece(
@@ -182,15 +226,16 @@ def _plan_beam_set(spec: SetSpec, design: Design, allowance, allowance_length):
                 nodes=nodes, mass=spec.material.density * spec.section.area * length,
                 partials_hz=tuple(float(f) for f in partials[:PARTIAL_COUNT]),
                 partial_notes=_partial_notes(partials[:PARTIAL_COUNT], design.a4),
-                cents_per_mm=_cents_per_mm(lambda x, f=f_at, k=scale: k * f(x), length), model=model,
+                cents_per_mm=_cents_per_mm(f_at, length), model=model,
                 shear_correction_cents=float(shear_cents), warnings=tuple(warnings),
-                fundamental_hz=float(partials[0]),
+                fundamental_hz=float(partials[0]), allowance_uncalibrated=a_uncal,
+                allowance_calibrated=a_cal, sharp_risk=risk,
             )
         )
     return pieces
 
 
-def _plan_air_set(spec: SetSpec, design: Design, targets, allowance, allowance_length):
+def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
     temperature = spec.temperature
     speed = air_column.speed_of_sound(temperature, spec.humidity)
     radius = spec.section.air_radius
@@ -220,16 +265,24 @@ def _plan_air_set(spec: SetSpec, design: Design, targets, allowance, allowance_l
             warnings.append(f"wide bore for this pitch (ka = {ka:.2f}): the end correction shrinks at high "
                             "frequency, so the column may sound flat; trim to tune")
         mass = spec.material.density * spec.section.area * length if spec.material is not None else None
+        f_at = air_frequency_function(spec)
+        factor = air_column.end_correction(1.0, spec.end_correction)
+        open_ends = 1 if closed else 2
+        cut, a_uncal, a_cal, risk = _allowances(
+            spec, stock, f_at, length, t.frequency,
+            uncertainty.air_ratios(length, radius, factor, open_ends, temperature),
+            uncertainty.air_ratios(length, radius, factor, open_ends, temperature, calibrated=True))
+        warnings += _risk_warning(risk)
         pieces.append(
             Piece(
                 set=spec.name, kind=spec.kind, label=label, note=t.name, target_hz=t.frequency,
-                predicted_hz=f1, length=length, cut_length=length * (1 + allowance) + allowance_length,
+                predicted_hz=f1, length=length, cut_length=cut,
                 nodes=(), mass=mass, partials_hz=tuple(partials),
                 partial_notes=_partial_notes(partials, design.a4),
-                cents_per_mm=_cents_per_mm(
-                    lambda x: float(freq_of(x, radius, speed, correction=spec.end_correction)), length),
+                cents_per_mm=_cents_per_mm(f_at, length),
                 model=spec.ends, shear_correction_cents=0.0, warnings=tuple(warnings),
-                fundamental_hz=f1, bore=2 * radius,
+                fundamental_hz=f1, bore=2 * radius, allowance_uncalibrated=a_uncal,
+                allowance_calibrated=a_cal, sharp_risk=risk,
             )
         )
     return pieces, errors
@@ -276,12 +329,10 @@ def plan(design: Design) -> Plan:
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
         stock = spec.stock or design.stock
-        allowance = stock.allowance if stock else 0.005
-        allowance_length = stock.allowance_length if stock else 0.0
         summary = _set_summary(spec)
         if spec.kind in ("chime", "bar"):
             try:
-                pieces = _plan_beam_set(spec, design, allowance, allowance_length)
+                pieces = _plan_beam_set(spec, design, stock)
             except ValueError as exc:
                 errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}"))
                 continue
@@ -294,7 +345,7 @@ def plan(design: Design) -> Plan:
                 targets = [pitch.Target(p.note, p.fundamental_hz) for p in served.pieces]
             else:
                 targets = list(spec.targets)
-            pieces, errs = _plan_air_set(spec, design, targets, allowance, allowance_length)
+            pieces, errs = _plan_air_set(spec, design, targets, stock)
             errors.extend(errs)
         if stock and stock.lengths:
             longest = max(s.length for s in stock.lengths)

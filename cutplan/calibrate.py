@@ -1,0 +1,225 @@
+"""Calibration from measured test pieces, and trim advice for a piece already cut.
+
+Beams.  With the geometry and E/G fixed, every free-free frequency scales as sqrt(E / rho), so a
+test piece of known length that sounds ``f_meas`` where the table predicts ``f_pred`` implies an
+effective modulus E (f_meas / f_pred)^2 at the tabled density.  Several pieces are combined by
+least squares on log E (equal weight in cents); each piece's residual is reported in cents.
+
+Air columns.  1 / f_n = (2 / (n c)) (L + k delta) is linear in L (k = 2 open ends, or 1 and 4/(2n-1)
+for a closed column), so two or more resonances at known lengths give both the speed of sound
+and the end correction by a straight-line fit; one resonance gives either, given the other.
+
+Trim.  A piece of length L_now sounding f_meas where the plan's model says f_model(L_now) runs
+at the ratio r = f_meas / f_model(L_now); the length that sounds the target is the one with
+r f_model(L) = target.  This keeps the advice consistent with the cut sheet's model.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.optimize import brentq
+
+
+class CalibrationError(ValueError):
+    """Measurements that cannot be fitted (one line saying why)."""
+
+
+@dataclass(frozen=True)
+class BeamFit:
+    """Fitted multiplier of the table modulus (at the tabled density), each piece's residual
+    [cents] and the table model's prediction for each piece [Hz]."""
+
+    scale: float
+    residuals_cents: tuple
+    predicted_hz: tuple
+
+    @property
+    def change_percent(self):
+        """Fitted against table modulus [%]."""
+        return 100 * (self.scale - 1)
+
+    @property
+    def spread(self):
+        """Relative spread of E left after the fit [-]: from the residuals, at least 0.2 %."""
+        if len(self.residuals_cents) < 2:
+            return 0.005
+        rms = math.sqrt(sum(r * r for r in self.residuals_cents) / (len(self.residuals_cents) - 1))
+        # 1 cent in f is 2 x 0.0578 % in E
+        return max(0.002, 2 * (2 ** (rms / 1200) - 1))
+
+
+def fit_beam(pieces, frequency_at_table):
+    """Fit E from test pieces.
+
+    Parameters
+    ----------
+    pieces : sequence of (length [m], measured frequency [Hz])
+    frequency_at_table : callable
+        f(L) [Hz] predicted with the table material (the same model the plan uses).
+
+    Returns a BeamFit whose ``scale`` multiplies the table modulus.
+
+    Examples
+    --------
+    A piece that sounds 1 % sharp of the table prediction implies a modulus 2.01 % higher:
+
+    >>> fit = fit_beam([(0.5, 101.0)], lambda length: 100.0)
+    >>> round(fit.change_percent, 2)
+    2.01
+    """
+    if not pieces:
+        raise CalibrationError("give at least one test piece")
+    logs, predicted = [], []
+    for length, measured in pieces:
+        if not (length > 0 and measured > 0):
+            raise CalibrationError(f"test piece {length} m at {measured} Hz: both must be positive")
+        f_pred = frequency_at_table(length)
+        predicted.append(f_pred)
+        logs.append(2 * math.log(measured / f_pred))
+    scale = math.exp(sum(logs) / len(logs))
+    residuals = tuple(1200 * math.log2(m / (p * math.sqrt(scale))) for (_, m), p in zip(pieces, predicted, strict=True))
+    return BeamFit(scale=scale, residuals_cents=residuals, predicted_hz=tuple(predicted))
+
+
+def calibrated_material_toml(name, material, model, scale, spread, pieces, residuals, source_text):
+    """A user material file (TOML text) with the fitted modulus, marked as measured."""
+    e = material.modulus_for(model) * scale
+    lines = [
+        f"# Calibrated by cutplan from {len(pieces)} test piece(s) of {material.name} ({source_text}).",
+        f"# Model: {model}. Residuals (cents): " + ", ".join(f"{r:+.2f}" for r in residuals),
+        f"# Table modulus {material.modulus_for(model) / 1e9:.3f} GPa -> fitted {e / 1e9:.3f} GPa "
+        f"({100 * (scale - 1):+.2f} %).",
+        f'["{name}"]',
+        f'description = "{material.name} calibrated from test pieces"',
+        f'modulus = {{ value = "{e / 1e9:.6f} GPa", kind = "measured", where = "cutplan calibrate", '
+        f'spread = "{100 * spread:.2f} %", basis = "dynamic" }}',
+        f'density = {{ value = "{material.density:.3f} kg/m3", kind = "derived", where = "table value kept", '
+        'spread = "0 %" }',
+        f"poisson = {material.poisson}",
+    ]
+    if material.shear_ratio:
+        lines.append(f"shear_ratio = {material.shear_ratio}")
+    elif material.shear_modulus:
+        lines.append(f'shear_modulus = "{material.shear_modulus * scale / 1e9:.6f} GPa"')
+    return "\n".join(lines) + "\n"
+
+
+@dataclass(frozen=True)
+class AirFit:
+    """Fitted speed of sound [m/s] and end correction per open end [m], residuals [cents]."""
+
+    speed: float
+    end_correction: float
+    residuals_cents: tuple
+
+
+def fit_air_column(pieces, ends, speed=None, end_correction=None):
+    """Fit speed of sound and/or end correction from resonances of air columns.
+
+    Parameters
+    ----------
+    pieces : sequence of (length [m], frequency [Hz], harmonic number n)
+    ends : "open-open" or "closed-open"
+    speed : float, optional
+        Known speed of sound [m/s] (fit only the end correction).
+    end_correction : float, optional
+        Known end correction per open end [m] (fit only the speed).
+
+    Examples
+    --------
+    >>> fit = fit_air_column([(0.190, 426.7, 1)], "closed-open", end_correction=0.0)
+    >>> round(fit.speed, 1)
+    324.3
+    """
+    open_ends = 2 if ends == "open-open" else 1
+    xs, ys = [], []
+    for length, f, n in pieces:
+        mult = n if ends == "open-open" else 2 * n - 1
+        per = 2.0 if ends == "open-open" else 4.0
+        # 1/f = per (L + k delta) / (mult c)  ->  mult / (per f) = (L + k delta) / c
+        xs.append(length)
+        ys.append(mult / (per * f))
+    xs, ys = np.array(xs), np.array(ys)
+    if speed is None and end_correction is None:
+        if len(xs) < 2 or np.ptp(xs) <= 0:
+            raise CalibrationError("fitting both speed and end correction needs two or more different lengths")
+        slope, intercept = np.polyfit(xs, ys, 1)
+        speed = 1 / slope
+        end_correction = intercept * speed / open_ends
+    elif speed is None:
+        speed = float(np.mean((xs + open_ends * end_correction) / ys))
+    elif end_correction is None:
+        end_correction = float(np.mean(ys * speed - xs) / open_ends)
+    residuals = []
+    for (length, f, n), y in zip(pieces, ys, strict=True):
+        model = (length + open_ends * end_correction) / speed
+        residuals.append(1200 * math.log2(model / y))
+    return AirFit(float(speed), float(end_correction), tuple(residuals))
+
+
+@dataclass(frozen=True)
+class TrimAdvice:
+    """What to do with a piece that sounds ``measured_hz`` at ``length_now``."""
+
+    label: str
+    target_hz: float
+    measured_hz: float
+    cents_off: float
+    length_now: float
+    length_needed: float
+    action: str
+
+    @property
+    def remove(self):
+        """Length to remove [m] (negative: the piece is too short)."""
+        return self.length_now - self.length_needed
+
+
+TRIM_FROM = {
+    "chime": "the bottom end (away from the hang hole)",
+    "bar": "both ends equally, to keep the supports at the nodes",
+    "air-column": "either end (the open end of a capped pipe)",
+    "resonator": "the open end, or raise the stopper",
+}
+SHARP_ACTION = {
+    "chime": "it cannot be lengthened: cut a new tube (keep this one for a higher note), or retune the scale",
+    "air-column": "it cannot be lengthened: cut a new pipe, or retune the scale",
+    "resonator": "lower the stopper to lengthen the column, or cut a new tube",
+    "bar": "flatten it by removing material from the underside at the centre, a little at a time",
+}
+
+
+def trim_advice(piece, frequency_at, measured_hz, length_now=None):
+    """Trim advice for a planned piece measured at ``measured_hz`` while ``length_now`` long.
+
+    ``frequency_at(L)`` is the plan's model for the piece's set; ``length_now`` defaults to the
+    cut length on the cut sheet.
+    """
+    if not measured_hz > 0:
+        raise CalibrationError("the measured frequency must be positive")
+    length_now = piece.cut_length if length_now is None else length_now
+    ratio = measured_hz / frequency_at(length_now)
+    if not 0.5 < ratio < 2.0:
+        raise CalibrationError(f"{measured_hz:.2f} Hz is more than an octave from what a {length_now * 1000:.1f} mm "
+                               f"piece should sound ({frequency_at(length_now):.2f} Hz); is it the right piece "
+                               "or a different partial?")
+    goal = piece.target_hz / ratio
+
+    def miss(x):
+        return math.log(frequency_at(x) / goal)
+
+    lo, hi = length_now * 0.5, length_now * 1.5
+    length_needed = brentq(miss, lo, hi, xtol=1e-8)
+    cents_off = 1200 * math.log2(measured_hz / piece.target_hz)
+    remove = length_now - length_needed
+    if abs(cents_off) < 2:
+        action = "in tune (within 2 cents): leave it"
+    elif remove > 0:
+        action = (f"flat by {-cents_off:.1f} cents: remove {remove * 1000:.1f} mm from {TRIM_FROM[piece.kind]}; "
+                  f"take off about {remove * 1000 / 3:.1f} mm at a time and measure again")
+    else:
+        action = (f"sharp by {cents_off:.1f} cents: {-remove * 1000:.1f} mm too short; " + SHARP_ACTION[piece.kind])
+    return TrimAdvice(piece.label, piece.target_hz, measured_hz, cents_off, length_now, length_needed, action)

@@ -1,0 +1,112 @@
+"""How long to cut, given what is uncertain: Monte Carlo spreads of a piece's pitch.
+
+A piece cut at its planned length sounds ``ratio x target``, where ``ratio`` scatters because
+the material and stock are only known to a few percent.  For chimes and bars, with E/G fixed,
+every free-free frequency scales as sqrt(E / rho) times the radius of gyration at fixed length
+(exact for the slender model, and for the shear-corrected one to first order in the small change
+of slenderness), so
+
+    ratio = sqrt((E_s / E) / (rho_s / rho)) * (r_g,s / r_g).
+
+For air columns, ratio = (c_s / c) (L + k delta) / (L + k delta_s) from the air temperature and
+the end correction.  Samples are drawn with a fixed seed, so plans are repeatable.  The cut
+length is chosen so that P(ratio > target / f(L_cut)) equals the accepted risk of coming out
+sharp (too short, which cannot be undone).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from scipy.optimize import brentq
+
+SAMPLES = 20_000
+"""Monte Carlo samples per set [-]."""
+SEED = 20261201
+"""Fixed seed: the same design gives the same allowance."""
+CALIBRATED_MODULUS_SPREAD = 0.005
+"""Spread of E/rho left after a test piece from the same stock is measured [-] (one standard
+deviation; covers tuner error and piece-to-piece scatter within a stick; common practice)."""
+TEMPERATURE_SPREAD = 2.0
+"""Air temperature uncertainty between planning and tuning [K] (common practice)."""
+END_CORRECTION_SPREAD = 0.10
+"""Relative uncertainty of a tabled end correction [-] (the published values differ by about
+this much, shared/REFERENCES.md D7)."""
+
+
+def _rng():
+    return np.random.default_rng(SEED)
+
+
+def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, calibrated=False):
+    """Samples of f_actual / f_planned for a chime or bar cut at its planned length."""
+    rng = _rng()
+    z = rng.standard_normal((2, SAMPLES))
+    if calibrated:
+        e = 1 + CALIBRATED_MODULUS_SPREAD * z[0]
+        return np.sqrt(np.clip(e, 0.5, None))
+    e = 1 + material.modulus_spread * z[0]
+    rho = 1 + material.density_spread * z[1]
+    ratio = np.sqrt(np.clip(e, 0.2, None) / np.clip(rho, 0.2, None))
+    if section.shape in ("tube", "rod") and (outer_tolerance or wall_tolerance):
+        u = rng.uniform(-1, 1, (2, SAMPLES))
+        outer = section.outer + outer_tolerance * u[0]
+        if section.shape == "tube":
+            wall = section.wall * (1 + wall_tolerance * u[1])
+            inner = np.clip(outer - 2 * wall, 0.0, None)
+        else:
+            inner = 0.0
+        rg = np.sqrt(outer**2 + inner**2)
+        ratio = ratio * rg / np.hypot(section.outer, section.inner)
+    return ratio
+
+
+def air_ratios(length, radius, correction_factor, open_ends, temperature, calibrated=False):
+    """Samples of f_actual / f_planned for an air column of ``length`` [m].
+
+    Parameters
+    ----------
+    length : float
+        Planned column length [m].
+    radius : float
+        Inner radius [m].
+    correction_factor : float
+        End correction per open end, as a multiple of the radius [-].
+    open_ends : int
+        1 (closed-open) or 2 (open-open).
+    temperature : float
+        Planned air temperature [K].
+    calibrated : bool
+        True after a test pipe has been measured (smaller spreads).
+    """
+    rng = _rng()
+    z = rng.standard_normal((2, SAMPLES))
+    t_spread = TEMPERATURE_SPREAD / 2 if calibrated else TEMPERATURE_SPREAD
+    d_spread = END_CORRECTION_SPREAD / 5 if calibrated else END_CORRECTION_SPREAD
+    speed = np.sqrt((temperature + t_spread * z[0]) / temperature)
+    delta = correction_factor * radius
+    delta_s = delta * (1 + d_spread * z[1])
+    return speed * (length + open_ends * delta) / (length + open_ends * delta_s)
+
+
+def cut_length_for_risk(frequency_at, length, target, ratios, risk):
+    """Shortest cut length [m] at which the chance of sounding above ``target`` is ``risk``.
+
+    ``frequency_at(L)`` is the planned model's frequency [Hz] at length L [m].
+    """
+    q = float(np.quantile(ratios, 1.0 - risk))
+    if q <= 1.0:
+        return length
+    goal = target / q
+
+    def miss(x):
+        return np.log(frequency_at(x) / goal)
+
+    hi = length * 1.05
+    while miss(hi) > 0:
+        hi *= 1.05
+    return brentq(miss, length, hi, xtol=1e-7)
+
+
+def sharp_risk(frequency_at, cut_length, target, ratios):
+    """Chance [-] that a piece cut at ``cut_length`` sounds above ``target`` before any trimming."""
+    return float(np.mean(ratios * frequency_at(cut_length) > target))
