@@ -73,6 +73,42 @@ def measuring():
     print(f"\n{'measure a 5 s recording (44.1 kHz)':44} {t:9.4f}")
 
 
+FOUR_OCTAVES = """
+title = "Four-octave undercut set"
+[[set]]
+name = "bars"
+kind = "bar"
+range = "C3..C7"
+scale = "chromatic"
+material = "rosewood-honduras"
+section = { shape = "bar", width = "55 mm", thickness = "24 mm" }
+undercut = { ratios = [4.0], arch_width = 0.5, min_thickness = "5 mm" }
+[[set]]
+name = "res"
+kind = "resonator"
+serves = "bars"
+section = { stock = "pvc-sch40-1" }
+temperature_range = ["12 C", "28 C"]
+max_length = "1.2 m"
+"""
+
+
+def undercut_set():
+    import tempfile
+
+    from cutplan.design import load_design
+    from cutplan.materials import load_library
+    from cutplan.planner import plan
+
+    with tempfile.TemporaryDirectory() as tmp:
+        path = Path(tmp) / "four.toml"
+        path.write_text(FOUR_OCTAVES)
+        design = load_design(path, lambda d: load_library(d))[0]
+        t = timed(lambda: plan(design), 1)
+    bars = len(design.sets[0].targets)
+    print(f"{'plan ' + str(bars) + ' undercut bars + resonators (target < 10 s)':44} {t:9.4f}")
+
+
 def planning_and_startup():
     from cutplan.design import load_design
     from cutplan.materials import load_library
@@ -94,4 +130,5 @@ if __name__ == "__main__":
     vectorised()
     convergence()
     measuring()
+    undercut_set()
     planning_and_startup()

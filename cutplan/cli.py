@@ -63,11 +63,19 @@ def _load(design_path, materials_dirs=()):
         fail(str(exc))
 
 
+PROGRESS_FROM = 8
+"""Show a progress bar when a design has at least this many arched bars to solve."""
+
+
 def _plan(design):
     from cutplan.design import DesignErrors
-    from cutplan.planner import plan
+    from cutplan.planner import bars_to_solve, plan
 
     try:
+        count = bars_to_solve(design)
+        if count >= PROGRESS_FROM:
+            with click.progressbar(length=count, label="solving arched bars", file=sys.stderr) as bar:
+                return plan(design, progress=bar.update)
         return plan(design)
     except DesignErrors as exc:
         fail([str(e) for e in exc.errors])
@@ -668,7 +676,11 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
         fail(f"trim: {label!r} is not a piece of {design}; labels are {', '.join(list(pieces)[:8])}...")
     piece = pieces[label]
     spec = next(s for s in des.sets if s.name == piece.set)
-    if spec.kind in ("chime", "bar"):
+    if piece.arch is not None:
+        from cutplan.planner import undercut_frequency_function
+
+        f_at = undercut_frequency_function(spec, piece.arch)
+    elif spec.kind in ("chime", "bar"):
         f_at = beam_frequency_function(spec.material, spec.section, spec.model, spec.target_mode == "strike-note")
     else:
         f_at = air_frequency_function(spec)

@@ -37,8 +37,9 @@ _TUNING_KEYS = {"a4", "temperament"}
 _SET_KEYS = {
     "name", "kind", "notes", "scale", "root", "count", "frequencies", "cents", "ratios", "range",
     "material", "section", "model", "target", "ends", "end_correction", "temperature",
-    "humidity", "serves", "max_length", "stock",
+    "humidity", "serves", "max_length", "stock", "undercut", "temperature_range",
 }
+_UNDERCUT_KEYS = {"ratios", "arch_width", "min_thickness"}
 _SECTION_KEYS = {"shape", "outer", "wall", "inner", "diameter", "width", "thickness", "stock"}
 _STOCK_KEYS = {"lengths", "kerf", "end_trim", "allowance"}
 
@@ -92,6 +93,16 @@ class StockSpec:
 
 
 @dataclass(frozen=True)
+class Undercut:
+    """An arched bar set's tuning: overtone ratios to mode 1, arch width (fraction of the
+    length) and the thinnest the centre may be left [m]."""
+
+    ratios: tuple
+    arch_width: float = 0.5
+    min_thickness: float = 0.004
+
+
+@dataclass(frozen=True)
 class SetSpec:
     """One [[set]] of a design, validated and in SI."""
 
@@ -112,6 +123,8 @@ class SetSpec:
     stock: StockSpec | None = None
     outer_tolerance: float = 0.0
     wall_tolerance: float = 0.0
+    undercut: Undercut | None = None
+    temperature_range: tuple | None = None
 
 
 @dataclass(frozen=True)
@@ -550,9 +563,16 @@ def _set(raw, index, a4, temperament, library, col):
         if target not in ("fundamental", "strike-note"):
             col.add(f"{key}.target", target, 'must be "fundamental" (default) or "strike-note"')
         fields["target_mode"] = target
-        for k in ("ends", "end_correction", "temperature", "humidity", "serves", "max_length"):
+        for k in ("ends", "end_correction", "temperature", "humidity", "serves", "max_length", "temperature_range"):
             if k in raw:
                 col.add(f"{key}.{k}", None, f"applies to air-column and resonator sets, not {kind}")
+        if "undercut" in raw:
+            if kind != "bar":
+                col.add(f"{key}.undercut", None, "applies to bar sets only")
+            else:
+                fields["undercut"] = _undercut(raw["undercut"], f"{key}.undercut", section, col)
+                if fields["undercut"] is not None and target != "fundamental":
+                    col.add(f"{key}.target", target, "must be fundamental for an undercut bar set")
     else:
         for k in ("model", "target"):
             if k in raw:
@@ -592,6 +612,22 @@ def _set(raw, index, a4, temperament, library, col):
             m = col.parse(f"{key}.max_length", raw["max_length"], units.parse_length)
             if m is not None:
                 fields["max_length"] = m
+        if "undercut" in raw:
+            col.add(f"{key}.undercut", None, "applies to bar sets only")
+        if "temperature_range" in raw:
+            value = raw["temperature_range"]
+            allowed = 'must be two temperatures from -20 C to 50 C, such as ["10 C", "30 C"]'
+            if not isinstance(value, list) or len(value) != 2:
+                col.add(f"{key}.temperature_range", value, allowed)
+            else:
+                temps = [col.parse(f"{key}.temperature_range[{j}]", v, units.parse_temperature)
+                         for j, v in enumerate(value, start=1)]
+                if all(t is not None for t in temps):
+                    lo, hi = sorted(temps)
+                    if not (253.15 <= lo and hi <= 323.15 and hi - lo >= 1.0):
+                        col.add(f"{key}.temperature_range", value, allowed + ", at least 1 C apart")
+                    else:
+                        fields["temperature_range"] = (lo, hi)
     if kind == "resonator":
         serves = raw.get("serves")
         if not isinstance(serves, str) or not serves:
@@ -610,6 +646,34 @@ def _set(raw, index, a4, temperament, library, col):
     if section is None:
         return None
     return SetSpec(index=index, name=name, kind=kind, targets=tuple(targets), section=section, **fields, **tolerances)
+
+
+def _undercut(raw, key, section, col):
+    """Undercut from { ratios = [4.0] or [4.0, 10.0], arch_width = 0.5, min_thickness = "4 mm" }."""
+    if not isinstance(raw, dict):
+        col.add(key, raw, 'must be a table such as { ratios = [4.0], arch_width = 0.5, min_thickness = "4 mm" }')
+        return None
+    col.unknown(raw, _UNDERCUT_KEYS, key)
+    ratios = raw.get("ratios", [4.0])
+    ok = (isinstance(ratios, list) and 1 <= len(ratios) <= 2
+          and all(isinstance(r, (int, float)) and not isinstance(r, bool) for r in ratios))
+    if ok:
+        ok = 2.0 <= ratios[0] <= 6.0 and (len(ratios) == 1 or ratios[0] * 1.5 <= ratios[1] <= 20.0)
+    if not ok:
+        col.add(f"{key}.ratios", ratios, "must be [mode-2 ratio] from 2 to 6 (4.0 marimba, 3.0 xylophone), "
+                "optionally with a mode-3 ratio such as [4.0, 10.0]")
+        return None
+    width = raw.get("arch_width", 0.5)
+    if isinstance(width, bool) or not isinstance(width, (int, float)) or not 0.2 <= width <= 0.9:
+        col.add(f"{key}.arch_width", width, "must be a fraction of the length from 0.2 to 0.9")
+        return None
+    min_t = col.parse(f"{key}.min_thickness", raw.get("min_thickness", "4 mm"), units.parse_length)
+    if min_t is None:
+        return None
+    if section is not None and min_t >= section.thickness:
+        col.add(f"{key}.min_thickness", raw.get("min_thickness"), "must be less than the bar thickness")
+        return None
+    return Undercut(tuple(float(r) for r in ratios), float(width), min_t)
 
 
 def _check_names(sets, col):

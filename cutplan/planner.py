@@ -53,6 +53,24 @@ class Piece:
     allowance_uncalibrated: float = 0.0
     allowance_calibrated: float = 0.0
     sharp_risk: float = 0.0
+    arch: object = None
+    stopper: tuple = ()
+
+
+@dataclass(frozen=True)
+class Arch:
+    """The undercut of a bar: blank thickness, centre depth [m], arch width (fraction of the
+    length), shape exponent, remaining thickness at stations ((x, h) [m], end to centre) and the
+    residual of each tuned ratio [cents]."""
+
+    thickness: float
+    depth: float
+    arch_width: float
+    exponent: float
+    stations: tuple
+    ratios: tuple
+    ratio_residuals_cents: tuple
+    outline: tuple = ()  # (x, h) [m] along the whole bar, for drawing the side profile
 
 
 @dataclass(frozen=True)
@@ -235,6 +253,113 @@ def _plan_beam_set(spec: SetSpec, design: Design, stock):
     return pieces
 
 
+def undercut_frequency_function(spec, arch):
+    """f(L) [Hz] of mode 1 of an arched bar with this arch (depth and shape kept) at length L."""
+    from cutplan.physics import undercut
+
+    mat, sec = spec.material, spec.section
+    e, g = mat.modulus_for("timoshenko"), mat.shear_modulus_for("timoshenko")
+    kappa = sec.shear_coefficient(mat.poisson)
+
+    def f(length):
+        return float(undercut.bar_modes(length, sec.width, sec.thickness, arch.depth, arch.arch_width, e, g,
+                                        mat.density, kappa, arch.exponent, modes=1).frequencies[0])
+
+    return f
+
+
+def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
+    """Arched bars: solve each bar's length and arch, then its nodes, partials and allowances."""
+    from cutplan.physics import undercut
+
+    mat, sec, cut = spec.material, spec.section, spec.undercut
+    e, g = mat.modulus_for("timoshenko"), mat.shear_modulus_for("timoshenko")
+    kappa = sec.shear_coefficient(mat.poisson)
+    ratios_uncal = uncertainty.beam_ratios(mat, sec, spec.outer_tolerance, spec.wall_tolerance)
+    ratios_cal = uncertainty.beam_ratios(mat, sec, calibrated=True)
+    pieces, guess, previous = [], None, None
+    order = sorted(range(len(spec.targets)), key=lambda i: spec.targets[i].frequency)
+    solved = {}
+    for i in order:
+        t = spec.targets[i]
+        if guess is not None:
+            guess = (guess[0] * (previous / t.frequency) ** 0.5, guess[1], guess[2])
+        result = undercut.design_undercut(t.frequency, cut.ratios, sec.width, sec.thickness, e, g, mat.density,
+                                          kappa, cut.min_thickness, cut.arch_width, guess=guess)
+        guess, previous = (result.length, result.depth, result.exponent), t.frequency
+        solved[i] = result
+        if progress is not None:
+            progress(1)
+    for i, t in enumerate(spec.targets):
+        r = solved[i]
+        xs = np.linspace(0.0, r.length, 161)
+        hs = undercut.arch_thickness(xs, r.length, sec.thickness, r.depth, r.arch_fraction, r.exponent)
+        arch = Arch(thickness=sec.thickness, depth=r.depth, arch_width=r.arch_fraction, exponent=r.exponent,
+                    stations=r.stations(11), ratios=cut.ratios, ratio_residuals_cents=r.ratio_residuals_cents,
+                    outline=tuple((float(x), float(h)) for x, h in zip(xs, hs, strict=True)))
+        f_at = undercut_frequency_function(spec, arch)
+        slender = undercut.bar_modes(r.length, sec.width, sec.thickness, r.depth, r.arch_fraction, e, g,
+                                     mat.density, kappa, r.exponent, modes=1, slender=True).frequencies[0]
+        per_mm = _cents_per_mm(f_at, r.length)
+        # near the solved length f follows a power law f ~ L^-k; k from the trim rate (saves FE solves)
+        k = per_mm * r.length * 1000 * np.log(2) / 1200
+
+        def f_local(x, f0=float(r.frequencies[0]), length=r.length, k=k):
+            return f0 * (length / x) ** k
+
+        cut_length, a_uncal, a_cal, risk = _allowances(spec, stock, f_local, r.length, t.frequency, ratios_uncal,
+                                                       ratios_cal)
+        warnings = _risk_warning(risk)
+        if r.length / sec.thickness < STUBBY_RATIO:
+            warnings.append(f"stubby bar: length is {r.length / sec.thickness:.1f} x its thickness; cut a test "
+                            "bar and calibrate")
+        volume = sec.width * (sec.thickness * r.length - _arch_area(r))
+        partials = r.frequencies[:PARTIAL_COUNT]
+        pieces.append(Piece(
+            set=spec.name, kind=spec.kind, label=f"{spec.name}-{i + 1}", note=t.name, target_hz=t.frequency,
+            predicted_hz=float(r.frequencies[0]), length=r.length, cut_length=cut_length, nodes=tuple(r.nodes),
+            mass=mat.density * volume, partials_hz=tuple(partials),
+            partial_notes=_partial_notes(partials, design.a4), cents_per_mm=per_mm,
+            model="timoshenko-undercut", shear_correction_cents=float(pitch.cents(r.frequencies[0], slender)),
+            warnings=tuple(warnings), fundamental_hz=float(r.frequencies[0]), allowance_uncalibrated=a_uncal,
+            allowance_calibrated=a_cal, sharp_risk=risk, arch=arch))
+    return pieces
+
+
+def _arch_area(result):
+    """Side area removed by the arch [m^2] (numerical, from the profile)."""
+    from cutplan.physics import undercut
+
+    xs = np.linspace(0.0, result.length, 2001)
+    hs = undercut.arch_thickness(xs, result.length, result.thickness, result.depth, result.arch_fraction,
+                                 result.exponent)
+    gap = result.thickness - hs
+    return float(np.sum((gap[1:] + gap[:-1]) / 2 * np.diff(xs)))
+
+
+STOPPER_MARGIN = 0.010
+"""Tube left beyond the deepest stopper setting [m] (room for the plug itself; common practice)."""
+STOPPER_STEP = 5.0
+"""Temperature step of the stopper-setting table [K]."""
+
+
+def _stopper_settings(spec, frequency, radius):
+    """((temperature [K], depth from the open end to the stopper face [m]), ...) over the range.
+
+    The closed end of a resonator is a movable stopper; as the air warms the speed of sound rises
+    and the column must be longer to stay in tune (c ~ sqrt(T), ISO 9613-1).
+    """
+    lo, hi = spec.temperature_range
+    temps = list(np.arange(lo, hi, STOPPER_STEP)) + [hi]
+    if spec.temperature not in temps and lo < spec.temperature < hi:
+        temps.append(spec.temperature)
+    out = []
+    for t in sorted(temps):
+        speed = air_column.speed_of_sound(float(t), spec.humidity)
+        out.append((float(t), air_column.closed_open_length(frequency, radius, speed, correction=spec.end_correction)))
+    return tuple(out)
+
+
 def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
     temperature = spec.temperature
     speed = air_column.speed_of_sound(temperature, spec.humidity)
@@ -273,6 +398,14 @@ def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
             uncertainty.air_ratios(length, radius, factor, open_ends, temperature),
             uncertainty.air_ratios(length, radius, factor, open_ends, temperature, calibrated=True))
         warnings += _risk_warning(risk)
+        stopper = ()
+        if spec.temperature_range is not None:
+            stopper = _stopper_settings(spec, t.frequency, radius)
+            deepest = max(depth for _, depth in stopper)
+            cut = max(cut, deepest + STOPPER_MARGIN)
+            if spec.kind == "resonator" and cut > spec.max_length:
+                warnings.append(f"with the stopper travel the tube is {cut * 1000:.0f} mm, longer than the limit "
+                                f"{spec.max_length * 1000:.0f} mm")
         pieces.append(
             Piece(
                 set=spec.name, kind=spec.kind, label=label, note=t.name, target_hz=t.frequency,
@@ -282,7 +415,7 @@ def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
                 cents_per_mm=_cents_per_mm(f_at, length),
                 model=spec.ends, shear_correction_cents=0.0, warnings=tuple(warnings),
                 fundamental_hz=f1, bore=2 * radius, allowance_uncalibrated=a_uncal,
-                allowance_calibrated=a_cal, sharp_risk=risk,
+                allowance_calibrated=a_cal, sharp_risk=risk, stopper=stopper,
             )
         )
     return pieces, errors
@@ -298,6 +431,9 @@ def _set_summary(spec: SetSpec):
         corr_text = f"{corr} x inner radius" if isinstance(corr, (int, float)) else corr
         assumptions.append(f"{spec.ends} column, end correction {corr_text} per open end, "
                            f"bore {spec.section.air_radius * 2000:.2f} mm")
+        if spec.temperature_range is not None:
+            lo, hi = spec.temperature_range
+            assumptions.append(f"stopper travel covers {lo - 273.15:.0f} C to {hi - 273.15:.0f} C")
         model = spec.ends
     else:
         mat = spec.material
@@ -314,6 +450,13 @@ def _set_summary(spec: SetSpec):
                            if model == "timoshenko" else "slender (Euler-Bernoulli) free-free beam")
         if spec.target_mode == "strike-note":
             assumptions.append("tuned to the strike note: half the mode-4 frequency")
+        if spec.undercut is not None:
+            u = spec.undercut
+            ratio_text = ":".join(f"{r:g}" for r in (1,) + u.ratios)
+            assumptions.append(f"undercut bars tuned {ratio_text}: arch over the middle {u.arch_width:g} of the length, "
+                               f"centre at least {u.min_thickness * 1000:.1f} mm thick (non-uniform shear-corrected "
+                               "finite elements)")
+            model = "timoshenko-undercut"
     material = spec.material.name if spec.material is not None else "(not given)"
     if material == "inline" and spec.material is not None:
         material = f"inline: E {spec.material.modulus / 1e9:.2f} GPa, {spec.material.density:.0f} kg/m3"
@@ -323,8 +466,16 @@ def _set_summary(spec: SetSpec):
                    assumptions=tuple(assumptions), shape=sec.shape, outer=sec.outer, width=sec.width)
 
 
-def plan(design: Design) -> Plan:
-    """Plan every set of a validated design. Raises DesignErrors for pieces that cannot be made."""
+def bars_to_solve(design: Design):
+    """How many arched bars a design has (each takes a small optimisation; for progress bars)."""
+    return sum(len(s.targets) for s in design.sets if s.undercut is not None)
+
+
+def plan(design: Design, progress=None) -> Plan:
+    """Plan every set of a validated design. Raises DesignErrors for pieces that cannot be made.
+
+    ``progress(n)``, if given, is called as arched bars are solved (for a progress bar).
+    """
     sets, errors, by_name = [], [], {}
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
@@ -332,7 +483,10 @@ def plan(design: Design) -> Plan:
         summary = _set_summary(spec)
         if spec.kind in ("chime", "bar"):
             try:
-                pieces = _plan_beam_set(spec, design, stock)
+                if spec.undercut is not None:
+                    pieces = _plan_undercut_set(spec, design, stock, progress)
+                else:
+                    pieces = _plan_beam_set(spec, design, stock)
             except ValueError as exc:
                 errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}"))
                 continue

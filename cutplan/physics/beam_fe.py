@@ -66,6 +66,7 @@ def free_free_modes(
     modes=6,
     elements=40,
     order=3,
+    breaks=None,
 ):
     """Free-free flexural modes of a (possibly non-uniform) Timoshenko beam.
 
@@ -87,6 +88,9 @@ def free_free_modes(
         Number of elements [-].
     order : int
         Polynomial order of each element, 1..6 [-].
+    breaks : sequence of float, optional
+        Element boundaries [m] from 0 to L (overrides ``elements``); put them where the section
+        has a kink, such as the edges of an undercut arch.
 
     Returns
     -------
@@ -106,40 +110,49 @@ def free_free_modes(
     575.0
     """
     def as_function(value):
-        return value if callable(value) else (lambda x, v=float(value): np.full_like(x, v))
+        if callable(value):
+            return lambda x, f=value: np.broadcast_to(np.asarray(f(x), dtype=float), x.shape)
+        return lambda x, v=float(value): np.full_like(x, v)
 
     ei, kga, mu, ri = (as_function(v) for v in (flexural_rigidity, shear_rigidity,
                                                 mass_per_length, rotary_inertia))
     local, gauss, weights, n, dn = _lagrange(order)
+    edges = np.linspace(0.0, length, elements + 1) if breaks is None else np.asarray(breaks, dtype=float)
+    elements = edges.size - 1
     count = elements * order + 1
     size = 2 * count
+    h = np.diff(edges)  # element lengths
+    jac = h / 2.0
+    xg = edges[:-1, None] + (gauss[None, :] + 1.0) * jac[:, None]  # (elements, gauss points)
+    wj = weights[None, :] * jac[:, None]
+    w_ei, w_kga = wj * ei(xg), wj * kga(xg)
+    w_mu, w_ri = wj * mu(xg), wj * ri(xg)
+    dndx = dn[None, :, :] / jac[:, None, None]  # (elements, shape fns, gauss)
+    nn = np.broadcast_to(n, dndx.shape)
+    # element blocks over (w, psi), all elements at once
+    k_ww = np.einsum("eig,eg,ejg->eij", dndx, w_kga, dndx)
+    k_wp = -np.einsum("eig,eg,ejg->eij", dndx, w_kga, nn)
+    k_pp = np.einsum("eig,eg,ejg->eij", dndx, w_ei, dndx) + np.einsum("eig,eg,ejg->eij", nn, w_kga, nn)
+    m_ww = np.einsum("eig,eg,ejg->eij", nn, w_mu, nn)
+    m_pp = np.einsum("eig,eg,ejg->eij", nn, w_ri, nn)
+    idx = np.arange(elements)[:, None] * order + np.arange(order + 1)[None, :]
+    wi, pi = 2 * idx, 2 * idx + 1
     stiff = np.zeros((size, size))
     mass = np.zeros((size, size))
-    h = length / elements
-    for e in range(elements):
-        x0 = e * h
-        xg = x0 + (gauss + 1.0) * h / 2.0
-        jac = h / 2.0
-        dndx = dn / jac
-        w_ei, w_kga = weights * ei(xg) * jac, weights * kga(xg) * jac
-        w_mu, w_ri = weights * mu(xg) * jac, weights * ri(xg) * jac
-        # blocks over (w, psi) of this element's nodes
-        k_ww = (dndx * w_kga) @ dndx.T
-        k_wp = -(dndx * w_kga) @ n.T
-        k_pp = (dndx * w_ei) @ dndx.T + (n * w_kga) @ n.T
-        m_ww = (n * w_mu) @ n.T
-        m_pp = (n * w_ri) @ n.T
-        idx = e * order + np.arange(order + 1)
-        wi, pi = 2 * idx, 2 * idx + 1
-        stiff[np.ix_(wi, wi)] += k_ww
-        stiff[np.ix_(wi, pi)] += k_wp
-        stiff[np.ix_(pi, wi)] += k_wp.T
-        stiff[np.ix_(pi, pi)] += k_pp
-        mass[np.ix_(wi, wi)] += m_ww
-        mass[np.ix_(pi, pi)] += m_pp
+
+    def scatter(target, rows, cols, blocks):
+        np.add.at(target, (rows[:, :, None], cols[:, None, :]), blocks)
+
+    scatter(stiff, wi, wi, k_ww)
+    scatter(stiff, wi, pi, k_wp)
+    scatter(stiff, pi, wi, np.transpose(k_wp, (0, 2, 1)))
+    scatter(stiff, pi, pi, k_pp)
+    scatter(mass, wi, wi, m_ww)
+    scatter(mass, pi, pi, m_pp)
     values, vectors = eigh(stiff, mass, subset_by_index=[0, modes + 1])
     omega2 = np.clip(values[2:], 0.0, None)
-    x = np.linspace(0.0, length, count)
+    x = np.concatenate([edges[e] + (local[:-1] + 1.0) * (edges[e + 1] - edges[e]) / 2.0
+                        for e in range(elements)] + [edges[-1:]])
     return BeamModes(np.sqrt(omega2) / (2 * np.pi), x, vectors[0::2, 2:].T)
 
 

@@ -546,6 +546,74 @@ def _strip(c, piece, start_mm, end_mm, x0, y0, sheet, sheets):
                  f"({format_inches(piece.length, 32, show_error=False)})   sheet {sheet} of {sheets}")
 
 
+def _profile_tile(c, piece, start_mm, end_mm, x0, y0, sheet, sheets):
+    """One sheet of an arched bar's full-size side profile (top face at the top, arch below)."""
+    arch = piece.arch
+    t = arch.thickness / MM
+    top = y0 + t * mm
+
+    def X(at_mm):
+        return x0 + (at_mm - start_mm) * mm
+
+    pts = [(x / MM, hh / MM) for x, hh in arch.outline if start_mm - 1 <= x / MM <= end_mm + 1]
+    c.setStrokeColor(colors.black)
+    c.setLineWidth(0.4)
+    lo, hi = max(start_mm, 0.0), min(end_mm, piece.length / MM)
+    c.line(X(lo), top, X(hi), top)
+    path = c.beginPath()
+    first = True
+    for x, hh in pts:
+        x = min(max(x, lo), hi)
+        if first:
+            path.moveTo(X(x), top - hh * mm)
+            first = False
+        else:
+            path.lineTo(X(x), top - hh * mm)
+    c.drawPath(path, stroke=1, fill=0)
+    for edge in (0.0, piece.length / MM):
+        if start_mm - 1e-6 <= edge <= end_mm + 1e-6:
+            c.line(X(edge), top, X(edge), top - t * mm)
+    c.setDash(1, 1)
+    c.setLineWidth(0.25)
+    c.line(X(lo), top - t * mm, X(hi), top - t * mm)
+    c.setDash()
+    c.setFont("Helvetica", 5.5)
+    for x, hh in arch.stations:
+        for at in {x / MM, piece.length / MM - x / MM}:
+            if start_mm <= at <= end_mm:
+                c.line(X(at), top - t * mm, X(at), top - (t + 1.5) * mm)
+                c.drawCentredString(X(at), top - (t + 4) * mm, f"{hh / MM:.1f}")
+    c.setFont("Helvetica-Bold", 8)
+    c.drawString(x0, top + 2 * mm, f"{piece.label} side profile, full size: arch {arch.depth / MM:.1f} mm deep, "
+                 f"{(arch.thickness - arch.depth) / MM:.1f} mm left at the centre; numbers are the thickness "
+                 f"left (mm)   sheet {sheet} of {sheets}")
+
+
+def _stopper_page(packet):
+    plan = packet.plan
+    pieces = [p for p in plan.pieces if p.stopper]
+    if not pieces:
+        return
+    temps = [t for t, _ in pieces[0].stopper]
+    header = ["label", "note"] + [f"{t - 273.15:.0f} C" for t in temps] + ["travel"]
+    rows = []
+    for p in pieces:
+        depths = [d for _, d in p.stopper]
+        rows.append([p.label, p.note] + ["\n".join(_both(d)) for d in depths]
+                    + [f"{(max(depths) - min(depths)) / MM:.1f} mm"])
+
+    def draw(c):
+        w, h = packet.size
+        y = _heading(c, packet, "Resonator stopper settings")
+        y = _paragraph(c, MARGIN, y, "Depth from the open end to the face of the stopper, by air temperature. "
+                       "Warmer air carries sound faster, so the column must be longer to stay in tune. "
+                       "Set the stopper for the temperature of the room the set is played in.", 9, 110)
+        widths = [0.12, 0.07] + [0.71 / len(temps)] * len(temps) + [0.10]
+        _table(c, [header] + rows[:18], [x * (w - 2 * MARGIN) for x in widths], MARGIN, y - 2 * mm, 8)
+
+    packet.add(draw)
+
+
 def _templates(packet):
     plan = packet.plan
     w, h = packet.size
@@ -554,7 +622,11 @@ def _templates(packet):
     for p in plan.pieces:
         parts = mk.tiles(mk.strip_length_mm(p), usable_mm, OVERLAP_MM)
         for k, (a, b) in enumerate(parts, start=1):
-            strips.append((p, a, b, k, len(parts)))
+            strips.append((p, a, b, k, len(parts), "strip"))
+        if p.arch is not None:
+            parts = mk.tiles(p.length / MM, usable_mm, OVERLAP_MM)
+            for k, (a, b) in enumerate(parts, start=1):
+                strips.append((p, a, b, k, len(parts), "profile"))
     top_space = 28 * mm
     bottom_space = 44 * mm
     per_page = max(1, int((h - top_space - bottom_space) / (STRIP_PITCH_MM * mm)))
@@ -565,9 +637,12 @@ def _templates(packet):
             c.setFont("Helvetica", 7.5)
             c.drawString(TEMPLATE_MARGIN, h - 24 * mm, "Tape sheets together where the grey overlap bars "
                          "match, aligning the numbered ticks. Lay the strip along the piece, top end to the end line.")
-            for i, (p, a, b, sheet, sheets) in enumerate(group):
+            for i, (p, a, b, sheet, sheets, what) in enumerate(group):
                 y0 = h - top_space - (i + 1) * STRIP_PITCH_MM * mm + 14 * mm
-                _strip(c, p, a, b, TEMPLATE_MARGIN, y0, sheet, sheets)
+                if what == "profile":
+                    _profile_tile(c, p, a, b, TEMPLATE_MARGIN, y0, sheet, sheets)
+                else:
+                    _strip(c, p, a, b, TEMPLATE_MARGIN, y0, sheet, sheets)
             _rulers(c, TEMPLATE_MARGIN, RULER_TOP)
         packet.add(draw, template=True)
     for s in plan.sets:
@@ -634,5 +709,6 @@ def render_pdf(plan, paper=None):
     _tuning(packet)
     _charts(packet)
     _stock_page(packet)
+    _stopper_page(packet)
     _templates(packet)
     return packet.render()

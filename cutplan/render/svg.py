@@ -63,8 +63,9 @@ def render_piece_svg(plan, piece):
     """Full-length marking strip for one piece: ends, centre, nodes with cross-hairs, rough cut."""
     length = mk.strip_length_mm(piece)
     strip_h = 20.0
+    profile_h = piece.arch.thickness * 1000 + 16 if piece.arch is not None else 0.0
     width = max(length, 4 * INCH_MM + 115) + 2 * MARGIN
-    height = 2 * MARGIN + 20 + strip_h + 30 + 14
+    height = 2 * MARGIN + 20 + strip_h + 30 + 14 + profile_h
     dwg = _drawing(width, height)
     x0, y0 = MARGIN, MARGIN + 20
     _text(dwg, f"{plan.title}: {piece.label} ({piece.note}, {piece.target_hz:.2f} Hz)", (MARGIN, MARGIN + 3), 4)
@@ -91,8 +92,27 @@ def render_piece_svg(plan, piece):
             _line(dwg, (x, y0 - 6), (x, y0 + strip_h + 6), width=0.3)
         anchor = "end" if m.at_mm > length - 40 else "start"
         _text(dwg, m.label, (x + (-1 if anchor == "end" else 1), lane), 2.5, anchor=anchor)
-    _rulers(dwg, MARGIN, y0 + strip_h + 20)
+    if piece.arch is not None:
+        _profile(dwg, piece, x0, y0 + strip_h + 16)
+    _rulers(dwg, MARGIN, y0 + strip_h + 20 + profile_h)
     return dwg.tostring()
+
+
+def _profile(dwg, piece, x0, top):
+    """Full-size side view of an arched bar: top face straight, underside following the arch."""
+    a = piece.arch
+    t = a.thickness * 1000
+    points = [(x0 + x * 1000, top + h * 1000) for x, h in a.outline]
+    outline = [(x0, top)] + points + [(x0 + piece.length * 1000, top)]
+    dwg.add(dwg.polyline(outline + [(x0, top)], fill="none", stroke="black", stroke_width=HAIRLINE))
+    blank = dwg.line((x0, top + t), (x0 + piece.length * 1000, top + t), stroke="black", stroke_width=HAIRLINE)
+    blank.dasharray([1, 1])
+    dwg.add(blank)
+    _text(dwg, f"side profile, full size: arch {a.depth * 1000:.1f} mm deep, leaves "
+               f"{(t - a.depth * 1000):.1f} mm at the centre (dashed: the blank's underside)", (x0, top - 2), 2.5)
+    for x, h in a.stations[1:]:
+        _line(dwg, (x0 + x * 1000, top + t), (x0 + x * 1000, top + t + 2))
+        _text(dwg, f"{h * 1000:.1f}", (x0 + x * 1000, top + t + 5), 2, anchor="middle")
 
 
 def render_plate_svg(plan, set_plan):

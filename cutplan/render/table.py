@@ -17,7 +17,7 @@ def _r(x, nd):
 
 def piece_dict(p):
     """One piece in the JSON contract's shape (mm, g, Hz)."""
-    return {
+    out = {
         "set": p.set,
         "kind": p.kind,
         "label": p.label,
@@ -38,6 +38,27 @@ def piece_dict(p):
         "sharp_risk": _r(p.sharp_risk, 3),
         "warnings": list(p.warnings),
     }
+    if p.kind == "chime" and len(p.partials_hz) >= 4:
+        out["fundamental_hz"] = _r(p.fundamental_hz, 3)
+        out["strike_note_hz"] = _r(p.partials_hz[3] / 2, 3)
+    if p.arch is not None:
+        a = p.arch
+        out["undercut"] = {
+            "blank_thickness_mm": _r(a.thickness / MM, 2),
+            "centre_depth_mm": _r(a.depth / MM, 2),
+            "centre_thickness_mm": _r((a.thickness - a.depth) / MM, 2),
+            "arch_width": _r(a.arch_width, 4),
+            "shape_exponent": _r(a.exponent, 4),
+            "stations_mm": [[_r(x / MM, 1), _r(h / MM, 2)] for x, h in a.stations],
+            "ratios": list(a.ratios),
+            "ratio_residuals_cents": [_r(r, 3) for r in a.ratio_residuals_cents],
+        }
+    if p.stopper:
+        out["stopper"] = {
+            "depths_mm": [{"temperature_c": _r(t - 273.15, 1), "depth_mm": _r(d / MM, 2)} for t, d in p.stopper],
+            "travel_mm": _r((max(d for _, d in p.stopper) - min(d for _, d in p.stopper)) / MM, 2),
+        }
+    return out
 
 
 def plan_dict(plan):

@@ -51,6 +51,17 @@ def render_table(plan, units=None):
             rows.append(row)
         out.extend(_table(headers, rows))
         for p in s.pieces:
+            if p.arch is not None:
+                a = p.arch
+                res = ", ".join(f"{r:+.2f}" for r in a.ratio_residuals_cents)
+                out.append(f"  {p.label}: arch {a.depth / MM:.1f} mm deep at the centre (leaves "
+                           f"{(a.thickness - a.depth) / MM:.1f} mm), over the middle {a.arch_width:.2f} of the "
+                           f"length, shape {a.exponent:.2f}; ratio residuals {res} cents")
+            if p.stopper:
+                lo, hi = p.stopper[0], p.stopper[-1]
+                out.append(f"  {p.label}: stopper at {_length(lo[1], units)} from the open end at "
+                           f"{lo[0] - 273.15:.0f} C, {_length(hi[1], units)} at {hi[0] - 273.15:.0f} C")
+        for p in s.pieces:
             for w in p.warnings:
                 out.append(f"  ! {p.label}: {w}")
         out.append("")

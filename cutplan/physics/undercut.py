@@ -1,0 +1,205 @@
+r"""Undercut (arched) bars: a central arch cut from the underside tunes the overtones.
+
+The arch is parametric.  Over the middle ``arch_fraction`` of the length the thickness is
+
+.. math:: h(x) = t - d \, (1 - |u|^p), \qquad u = \frac{x - L/2}{\alpha L / 2}, \quad |u| \le 1
+
+and the bar keeps its full thickness t outside it: d is the depth of the cut at the centre,
+alpha the arch width as a fraction of L and p the arch shape (2 = parabola).  Removing wood
+near the middle lowers mode 1 most, which is how makers pull mode 2 up to two octaves (4 : 1,
+marimba) or an octave and a fifth (3 : 1, xylophone) above mode 1.
+
+The modes are those of the non-uniform shear-corrected beam, from the finite-element solver in
+:mod:`beam_fe` with element boundaries at the arch edges.  :func:`design_undercut` finds L and d
+(and the shape p, when a third ratio is asked for) by least squares in cents.
+
+References
+----------
+.. [1] Fletcher, N. H. and Rossing, T. D., The Physics of Musical Instruments, 2nd ed., 1998,
+   ch. 19 (marimba bars tuned 1 : 4, xylophone 1 : 3; undercutting; from memory for the chapter).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.optimize import least_squares
+
+from cutplan.physics import beam_fe
+
+ELEMENTS_END = 6
+"""Elements in each solid end region [-] (0.001 cent level for a uniform bar; bench/)."""
+ELEMENTS_ARCH = 10
+"""Elements in each half of the arch [-]."""
+ORDER = 3
+"""Polynomial order of the elements [-]."""
+
+
+class UndercutError(ValueError):
+    """No arch within the limits reaches the asked-for tuning."""
+
+
+def arch_thickness(x, length, thickness, depth, arch_fraction, exponent=2.0):
+    """Thickness h(x) [m] of the arched bar at x [m] from one end (vectorised)."""
+    x = np.asarray(x, dtype=float)
+    half = arch_fraction * length / 2
+    u = np.abs(x - length / 2) / half
+    cut = np.where(u < 1.0, depth * (1.0 - np.minimum(u, 1.0) ** exponent), 0.0)
+    return thickness - cut
+
+
+def _breaks(length, arch_fraction):
+    a = (1 - arch_fraction) * length / 2
+    ends = np.linspace(0.0, a, ELEMENTS_END + 1)
+    arch = np.linspace(a, length / 2, ELEMENTS_ARCH + 1)
+    left = np.concatenate([ends, arch[1:]])
+    right = length - left[::-1]
+    return np.concatenate([left, right[1:]])
+
+
+def bar_modes(length, width, thickness, depth, arch_fraction, modulus, shear_modulus, density, kappa,
+              exponent=2.0, modes=3, slender=False):
+    """Free-free modes of an arched bar (shear-corrected, non-uniform).
+
+    Parameters
+    ----------
+    length, width, thickness : float
+        Bar blank L, b, t [m].
+    depth : float
+        Arch depth d at the centre [m] (0 for a uniform bar).
+    arch_fraction : float
+        Arch width alpha as a fraction of L [-].
+    modulus, shear_modulus : float
+        E along the bar and G in the bending plane [Pa].
+    density : float
+        rho [kg/m^3].
+    kappa : float
+        Shear coefficient of the rectangular section [-].
+    exponent : float
+        Arch shape p [-].
+    modes : int
+        Number of modes [-].
+    slender : bool
+        Leave out shear and rotary inertia (to a thousandth), for comparison.
+
+    Returns
+    -------
+    BeamModes
+        From :func:`beam_fe.free_free_modes`.
+    """
+    def h(x):
+        return arch_thickness(x, length, thickness, depth, arch_fraction, exponent)
+
+    stiff = 1e3 if slender else 1.0
+    rotary = 1e-3 if slender else 1.0  # a trace keeps the mass matrix positive definite
+    return beam_fe.free_free_modes(
+        length,
+        lambda x: modulus * width * h(x) ** 3 / 12,
+        lambda x: stiff * kappa * shear_modulus * width * h(x),
+        lambda x: density * width * h(x),
+        lambda x: rotary * density * width * h(x) ** 3 / 12,
+        modes=modes, order=ORDER, breaks=_breaks(length, max(arch_fraction, 1e-6)),
+    )
+
+
+@dataclass(frozen=True)
+class Undercut:
+    """A solved arch: blank length [m], centre depth [m], arch width fraction, modes and nodes."""
+
+    length: float
+    depth: float
+    arch_fraction: float
+    exponent: float
+    thickness: float
+    frequencies: tuple
+    nodes: tuple
+    ratio_residuals_cents: tuple
+    fundamental_residual_cents: float
+
+    def stations(self, count=11):
+        """(x [m], remaining thickness [m]) from one end to the centre."""
+        xs = np.linspace(0.0, self.length / 2, count)
+        hs = arch_thickness(xs, self.length, self.thickness, self.depth, self.arch_fraction, self.exponent)
+        return tuple((float(x), float(h)) for x, h in zip(xs, hs, strict=True))
+
+
+def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, density, kappa,
+                    min_thickness, arch_fraction=0.5, exponent=2.0, guess=None):
+    """Blank length and arch so that mode 1 sounds ``target`` and modes 2 (and 3) sit at ``ratios``.
+
+    Parameters
+    ----------
+    target : float
+        Mode-1 frequency [Hz].
+    ratios : sequence of float
+        (f2/f1,) or (f2/f1, f3/f1) [-]; with two ratios the arch shape exponent is solved too.
+    width, thickness : float
+        Bar blank b and t [m].
+    modulus, shear_modulus, density, kappa :
+        As for :func:`bar_modes`.
+    min_thickness : float
+        Thinnest the centre may be left [m].
+    arch_fraction : float
+        Arch width as a fraction of L [-].
+    exponent : float
+        Arch shape p (2 = parabola); solved for when two ratios are given [-].
+    guess : (length, depth, exponent), optional
+        Start values, e.g. from the neighbouring bar.
+
+    Raises
+    ------
+    UndercutError
+        When the tuning cannot be reached without leaving the centre thinner than
+        ``min_thickness``.
+    """
+    from cutplan.physics.timoshenko import fundamental_length
+
+    ratios = tuple(ratios)
+    max_depth = thickness - min_thickness
+    if max_depth <= 0:
+        raise UndercutError("the minimum thickness is not less than the bar thickness")
+    three = len(ratios) >= 2
+    if guess is None:
+        area, second = width * thickness, width * thickness**3 / 12
+        uniform = fundamental_length(target, modulus * second, density * area, kappa * shear_modulus * area,
+                                     density * second)
+        guess = (0.8 * uniform, 0.5 * max_depth, 3.5 if three else exponent)
+    length0, depth0, shape0 = guess
+
+    def unpack(v):
+        length = length0 * math.exp(v[0])
+        depth = v[1] * max_depth
+        shape = v[2] if three else exponent
+        return length, depth, shape
+
+    def residuals(v):
+        length, depth, shape = unpack(v)
+        f = bar_modes(length, width, thickness, depth, arch_fraction, modulus, shear_modulus, density, kappa,
+                      shape, modes=3 if three else 2).frequencies
+        out = [1200 * math.log2(f[0] / target), 1200 * math.log2(f[1] / f[0] / ratios[0])]
+        if three:
+            out.append(1200 * math.log2(f[2] / f[0] / ratios[1]))
+        return out
+
+    start = [0.0, min(max(depth0 / max_depth, 0.02), 0.98)] + ([min(max(shape0, 1.2), 8.0)] if three else [])
+    lower = [-1.5, 0.0] + ([1.0] if three else [])
+    upper = [1.5, 1.0] + ([10.0] if three else [])
+    sol = least_squares(residuals, start, bounds=(lower, upper), x_scale=[0.05, 0.1] + ([0.3] if three else []),
+                        xtol=1e-12, ftol=1e-12, gtol=1e-12, max_nfev=200)
+    length, depth, exponent = unpack(sol.x)
+    res = residuals(sol.x)
+    if abs(res[0]) > 0.5 or any(abs(r) > 5.0 for r in res[1:]):
+        thin = thickness - depth
+        raise UndercutError(
+            f"no arch of width {arch_fraction:g} x L reaches {':'.join(f'{r:g}' for r in (1,) + ratios)} "
+            f"(best leaves {thin * 1000:.1f} mm at the centre, min {min_thickness * 1000:.1f} mm, and misses "
+            f"by {max(abs(r) for r in res[1:]):.0f} cents); try another arch width, a thicker blank or a "
+            "lower min_thickness")
+    modes = bar_modes(length, width, thickness, depth, arch_fraction, modulus, shear_modulus, density, kappa,
+                      exponent, modes=4)
+    nodes = tuple(beam_fe.node_positions(modes, 1))
+    return Undercut(length=length, depth=depth, arch_fraction=arch_fraction, exponent=exponent, thickness=thickness,
+                    frequencies=tuple(float(f) for f in modes.frequencies), nodes=nodes,
+                    ratio_residuals_cents=tuple(res[1:]), fundamental_residual_cents=res[0])
