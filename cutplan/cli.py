@@ -67,13 +67,18 @@ PROGRESS_FROM = 8
 """Show a progress bar when a design has at least this many arched bars to solve."""
 
 
+def _wants_progress():
+    """Progress bars only on a terminal, so that logs and piped JSON stay clean."""
+    return sys.stderr.isatty()
+
+
 def _plan(design):
     from cutplan.design import DesignErrors
     from cutplan.planner import bars_to_solve, plan
 
     try:
         count = bars_to_solve(design)
-        if count >= PROGRESS_FROM:
+        if count >= PROGRESS_FROM and _wants_progress():
             with click.progressbar(length=count, label="solving arched bars", file=sys.stderr) as bar:
                 return plan(design, progress=bar.update)
         return plan(design)

@@ -90,7 +90,7 @@ def test_impossible_arch_is_refused_with_the_reason():
 def test_undercut_example_meets_the_tuning_targets():
     result = CliRunner().invoke(cli, ["plan", str(ROOT / "examples" / "music-room-marimba.toml"), "--format", "json"])
     assert result.exit_code == 0, result.output
-    data = json.loads(result.output[result.output.index("{"):])
+    data = json.loads(result.output)
     bars = [p for p in data["pieces"] if p["set"] == "bars"]
     assert len(bars) == 8
     for p in bars:
@@ -109,6 +109,20 @@ def test_too_thin_a_centre_is_a_design_error(tmp_path):
     assert "thin.toml: set[1]" in result.output and "Traceback" not in result.output
 
 
-def test_progress_is_shown_for_many_bars():
+def test_progress_is_shown_for_many_bars_on_a_terminal(monkeypatch):
+    import cutplan.cli
+
+    monkeypatch.setattr(cutplan.cli, "_wants_progress", lambda: True)
     result = CliRunner().invoke(cli, ["plan", str(ROOT / "examples" / "music-room-marimba.toml")])
     assert "solving arched bars" in result.output
+
+
+def test_planner_reports_progress_once_per_arched_bar():
+    from cutplan.design import load_design
+    from cutplan.materials import load_library
+    from cutplan.planner import plan
+
+    design, _ = load_design(ROOT / "examples" / "music-room-marimba.toml", lambda d: load_library(d))
+    calls = []
+    plan(design, progress=calls.append)
+    assert sum(calls) == 8
