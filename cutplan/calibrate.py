@@ -154,7 +154,7 @@ def fit_air_column(pieces, ends, speed=None, end_correction=None):
     elif end_correction is None:
         end_correction = float(np.mean(ys * speed - xs) / open_ends)
     residuals = []
-    for (length, f, n), y in zip(pieces, ys, strict=True):
+    for (length, _f, _n), y in zip(pieces, ys, strict=True):
         model = (length + open_ends * end_correction) / speed
         residuals.append(1200 * math.log2(model / y))
     return AirFit(float(speed), float(end_correction), tuple(residuals))

@@ -15,7 +15,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from cutplan import pitch, units
-from cutplan.materials import Library, MaterialError, material_from_table
+from cutplan.materials import MaterialError, material_from_table
 from cutplan.sections import Section, bar, rod, tube
 
 KINDS = ("chime", "bar", "air-column", "resonator")

@@ -249,7 +249,7 @@ def note_targets(notes, root=None, temperament="equal", a4=A4_FREQUENCY):
     base = parse_note(root) if root else (min(midis) if midis else 60)
     kind, _ = parse_temperament(temperament)
     out = []
-    for name, m in zip(notes, midis, strict=True):
+    for m in midis:
         offset = m - base
         if kind in ("just", "pythagorean") and offset < 0:
             octaves = (-offset + 11) // 12

@@ -202,5 +202,5 @@ def test_combinations_never_overfill(tmp_path):
         out = layout(its, [StockType(2.4), StockType(1.2)], kerf=kerf, end_trim=trim)
         for stick in out.sticks:
             assert used_length(stick, kerf) <= stick.stock_length + 1e-9
-            for (a, sa, la), (_b, sb, _lb) in itertools.pairwise(stick.cuts):
+            for (_a, sa, la), (_b, sb, _lb) in itertools.pairwise(stick.cuts):
                 assert sb == pytest.approx(sa + la + kerf)

@@ -224,8 +224,9 @@ def _cut_list(packet):
             rows.append([p.label, p.note, f"{p.target_hz:.2f}", f"{fin_mm}\n{fin_in}", f"{cut_mm}\n{cut_in}",
                          node, mass, "", "", ""])
         chunks = _chunks(rows, rows_per_page)
+        n = len(chunks)
         for k, chunk in enumerate(chunks, start=1):
-            def draw(c, chunk=chunk, k=k, n=len(chunks), s=s):
+            def draw(c, chunk=chunk, k=k, n=n, s=s, header=header):
                 w, h = packet.size
                 more = f" ({k} of {n})" if n > 1 else ""
                 y = _heading(c, packet, f"Cut list: {s.name}{more}")
@@ -252,7 +253,7 @@ def _sharp_advice(kind):
 
 def _tuning(packet):
     plan = packet.plan
-    header = ["label", "note", "target Hz", "cents\nper mm", "mm per\n10 cents", "cut long by", "trim from",
+    header = ["label", "note", "target\nHz", "cents\nper mm", "mm per\n10 cents", "cut long by", "trim from",
               "if sharp", "measured\nbefore", "measured\nafter"]
     rows = []
     for p in plan.pieces:
@@ -260,11 +261,12 @@ def _tuning(packet):
         allowance = (f"uncalibrated:\n+{p.allowance_uncalibrated * 1000:.1f} mm\n"
                      f"after a test\npiece: +{p.allowance_calibrated * 1000:.1f} mm")
         rows.append([p.label, p.note, f"{p.target_hz:.2f}", f"{p.cents_per_mm:.2f}", f"{per10:.2f}", allowance,
-                     "\n".join(_wrap(_trim_end(p.kind, p.model), 16)), "\n".join(_wrap(_sharp_advice(p.kind), 22)),
+                     "\n".join(_wrap(_trim_end(p.kind, p.model), 14)), "\n".join(_wrap(_sharp_advice(p.kind), 20)),
                      "", ""])
     chunks = _chunks(rows, 12)
+    n = len(chunks)
     for k, chunk in enumerate(chunks, start=1):
-        def draw(c, chunk=chunk, k=k, n=len(chunks)):
+        def draw(c, chunk=chunk, k=k, n=n):
             w, h = packet.size
             y = _heading(c, packet, "Tuning sheet" + (f" ({k} of {n})" if n > 1 else ""))
             y = _paragraph(c, MARGIN, y, "Trim in small steps: take off a third of the computed amount, strike, "
@@ -274,7 +276,7 @@ def _tuning(packet):
                            "piece coming out sharp (too short) to 5 %, from the spreads of the material and "
                            "stock tables; after one test piece is measured (cutplan calibrate) it shrinks to "
                            "the second figure.", 9, 110)
-            widths = [0.10, 0.05, 0.07, 0.06, 0.07, 0.13, 0.13, 0.19, 0.10, 0.10]
+            widths = [0.09, 0.05, 0.075, 0.075, 0.075, 0.13, 0.135, 0.17, 0.10, 0.10]
             widths = [x * (w - 2 * MARGIN) for x in widths]
             _table(c, [header] + chunk, widths, MARGIN, y - 2 * mm, 8.5)
         packet.add(draw)
