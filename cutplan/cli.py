@@ -316,6 +316,18 @@ def materials_command(name, materials_dirs):
     fail(f"materials: {name!r} is not a material or stock size; run `cutplan materials` to list them")
 
 
+def section_options(command):
+    """The four ways to give a section on the command line: --stock, --tube, --rod, --bar."""
+    for option in reversed([
+        click.option("--stock", "stock_name", help='Named stock size, e.g. "al-1.000x0.065" or "pvc-sch40-1".'),
+        click.option("--tube", help='Tube "OUTER x WALL", e.g. "1 in x 0.065 in".'),
+        click.option("--rod", help='Rod diameter, e.g. "12 mm".'),
+        click.option("--bar", "bar_size", help='Bar "WIDTH x THICKNESS", e.g. "38 mm x 19 mm".'),
+    ]):
+        command = option(command)
+    return command
+
+
 def _toml_string(value):
     return '"' + str(value).replace("\\", "\\\\").replace('"', '\\"') + '"'
 
@@ -375,10 +387,7 @@ def _one_piece_design(command, kind, note, frequency, material, stock_name, tube
 @click.option("--note", help='Target note, e.g. "D5".')
 @click.option("--frequency", type=float, help="Target frequency in Hz (instead of --note).")
 @click.option("--material", help="Material name (chime/bar), from `cutplan materials`.")
-@click.option("--stock", "stock_name", help='Named stock size, e.g. "al-1.000x0.065" or "pvc-sch40-1".')
-@click.option("--tube", help='Tube "OUTER x WALL", e.g. "1 in x 0.065 in".')
-@click.option("--rod", help='Rod diameter, e.g. "12 mm".')
-@click.option("--bar", "bar_size", help='Bar "WIDTH x THICKNESS", e.g. "38 mm x 19 mm".')
+@section_options
 @click.option("--ends", type=click.Choice(["open-open", "closed-open"]), default="open-open", show_default=True,
               help="Air column ends.")
 @click.option("--temperature", default="20 C", show_default=True, help="Air temperature for air columns.")
@@ -534,10 +543,7 @@ def _parse_pieces(texts, kind, near_hz=None):
               help='A test piece: "LENGTH @ FREQUENCY" or "LENGTH @ RECORDING.wav" (repeatable); '
                    'for air columns add "#N" for the N-th resonance.')
 @click.option("--material", help="The table material the pieces started from (chime/bar).")
-@click.option("--stock", "stock_name", help="Named stock size of the pieces.")
-@click.option("--tube", help='Tube "OUTER x WALL".')
-@click.option("--rod", help="Rod diameter.")
-@click.option("--bar", "bar_size", help='Bar "WIDTH x THICKNESS".')
+@section_options
 @click.option("--model", type=click.Choice(["timoshenko", "slender"]), default="timoshenko", show_default=True,
               help="Beam model to fit with (use the one you plan with).")
 @click.option("--ends", type=click.Choice(["open-open", "closed-open"]), default="closed-open", show_default=True,
