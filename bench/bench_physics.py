@@ -63,6 +63,24 @@ def convergence():
             print(f"{order:5d} {elements:8d} " + " ".join(f"{e:10.5f}" for e in err) + f" {ms:7.1f}")
 
 
+def arch_convergence():
+    from cutplan.physics import undercut
+
+    e, g, rho, kappa, b, t = 13.86e9, 0.111 * 13.86e9, 706.0, 0.85, 0.05, 0.022
+    args = (0.40, b, t, 0.013, 0.5, e, g, rho, kappa)
+    saved = undercut.ELEMENTS_END, undercut.ELEMENTS_ARCH
+    undercut.ELEMENTS_END, undercut.ELEMENTS_ARCH = 40, 80
+    ref = undercut.bar_modes(*args, modes=3).frequencies
+    print("\nArched bar (400 x 50 x 22 mm maple, 13 mm deep parabolic arch): error against a 240-element mesh")
+    print(f"{'end el.':>7} {'arch el.':>8} " + " ".join(f"{'mode ' + str(n):>10}" for n in (1, 2, 3)))
+    for ends, arch in ((2, 3), (3, 5), (4, 6), (6, 10), (10, 16)):
+        undercut.ELEMENTS_END, undercut.ELEMENTS_ARCH = ends, arch
+        f = undercut.bar_modes(*args, modes=3).frequencies
+        print(f"{ends:7d} {arch:8d} " + " ".join(f"{x:10.5f}" for x in 1200 * np.log2(f / ref)))
+    undercut.ELEMENTS_END, undercut.ELEMENTS_ARCH = saved
+    print(f"(planning uses {saved[0]} end and {saved[1]} arch elements per half, order {undercut.ORDER})")
+
+
 def measuring():
     from cutplan.audio.analysis import measure
     from cutplan.audio.synth import tone
@@ -129,6 +147,7 @@ def planning_and_startup():
 if __name__ == "__main__":
     vectorised()
     convergence()
+    arch_convergence()
     measuring()
     undercut_set()
     planning_and_startup()

@@ -135,7 +135,7 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     des, _lib = _load(design, materials_dirs)
     the_plan = _plan(des)
     the_plan = _with_stock(the_plan, des)
-    from cutplan.render.table import render_csv, render_json
+    from cutplan.render.table import render_csv, render_cutlist_csv, render_json
     from cutplan.render.terminal import render_table
 
     if fmt == "json":
@@ -146,6 +146,8 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
         click.echo(render_table(the_plan, units), nl=False)
     if out is not None:
         files = {"plan.csv": render_csv(the_plan), "plan.json": render_json(the_plan)}
+        if the_plan.stock is not None:
+            files["cutlist.csv"] = render_cutlist_csv(the_plan.stock)
         files.update(_packet_files(the_plan, paper))
         for name, data in files.items():
             write_file(out / name, data)
@@ -207,7 +209,7 @@ def _parse_stock_option(values, kerf, end_trim):
 @click.option("--kerf", default="1/16 in", show_default=True, help="Saw kerf, with --stock.")
 @click.option("--end-trim", default="1/8 in", show_default=True, help="Squaring cut at the factory end, with --stock.")
 @click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
-@click.option("--format", "fmt", type=click.Choice(["table", "json"]), default="table", show_default=True,
+@click.option("--format", "fmt", type=click.Choice(["table", "csv", "json"]), default="table", show_default=True,
               help="What to print.")
 @MATERIALS_OPTION
 def cutlist_command(design, stock_texts, kerf, end_trim, units, fmt, materials_dirs):
@@ -228,6 +230,11 @@ def cutlist_command(design, stock_texts, kerf, end_trim, units, fmt, materials_d
         fail(f"{design}: stock: the design has no [stock] lengths; add them or use --stock \"8 ft x 2\"")
     if fmt == "json":
         click.echo(json.dumps(the_plan.stock, indent=2))
+        return
+    if fmt == "csv":
+        from cutplan.render.table import render_cutlist_csv
+
+        click.echo(render_cutlist_csv(the_plan.stock), nl=False)
         return
     from cutplan.render.terminal import render_stock
 

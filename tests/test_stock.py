@@ -204,3 +204,18 @@ def test_combinations_never_overfill(tmp_path):
             assert used_length(stick, kerf) <= stick.stock_length + 1e-9
             for (_a, sa, la), (_b, sb, _lb) in itertools.pairwise(stick.cuts):
                 assert sb == pytest.approx(sa + la + kerf)
+
+
+def test_cutlist_csv_written_with_the_plan(tmp_path):
+    import csv
+    from pathlib import Path
+
+    porch = str(Path(__file__).resolve().parent.parent / "examples" / "porch-chimes.toml")
+    out = tmp_path / "o"
+    assert CliRunner().invoke(cli, ["plan", porch, "-o", str(out)]).exit_code == 0
+    rows = list(csv.DictReader((out / "cutlist.csv").read_text().splitlines()))
+    cuts = [r for r in rows if r["cut"] != "offcut"]
+    assert [r["label"] for r in cuts] == [f"porch-{i}" for i in range(1, 6)]
+    assert float(cuts[0]["start_mm"]) == pytest.approx(3.2, abs=0.05)  # 1/8 in end trim
+    text = CliRunner().invoke(cli, ["cutlist", porch, "--format", "csv"]).output
+    assert text.startswith("stick,group,stock_length_mm")

@@ -117,3 +117,29 @@ def render_csv(plan):
 def inches(metres):
     """Decimal inches (for renderers that need a number)."""
     return metres / INCH
+
+
+CUTLIST_COLUMNS = (
+    "stick", "group", "stock_length_mm", "stock_length_in", "cut", "label", "start_mm", "start_in",
+    "length_mm", "length_in", "end_mm", "end_in",
+)
+
+
+def render_cutlist_csv(stock):
+    """The stock layout as CSV: one row per cut, marks measured from the stick's factory end."""
+    buf = io.StringIO()
+    writer = csv.writer(buf, lineterminator="\n")
+    writer.writerow(CUTLIST_COLUMNS)
+    for i, stick in enumerate(stock["sticks"], start=1):
+        length = stick["stock_length_mm"] * MM
+        for k, c in enumerate(stick["cuts"], start=1):
+            start, size = c["start_mm"] * MM, c["length_mm"] * MM
+            writer.writerow([
+                i, stick.get("group", ""), f"{length / MM:.1f}", format_inches(length, 16, show_error=False), k,
+                c["label"], f"{start / MM:.1f}", format_inches(start, 32, show_error=False), f"{size / MM:.1f}",
+                format_inches(size, 32, show_error=False), f"{(start + size) / MM:.1f}",
+                format_inches(start + size, 32, show_error=False),
+            ])
+        writer.writerow([i, stick.get("group", ""), f"{length / MM:.1f}", format_inches(length, 16, show_error=False),
+                         "offcut", "", "", "", f"{stick['offcut_mm']:.1f}", "", "", ""])
+    return buf.getvalue()
