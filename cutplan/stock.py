@@ -12,15 +12,20 @@ which is ordinary bin packing with item sizes ``l_i + kerf`` and capacity
 separating cut.
 
 Method.  A first-fit-decreasing heuristic with an improvement pass gives a layout at once; the
-Martello-Toth L2 bound says how good it is.  When they differ (or prices are given), an exact
-assignment model is solved with scipy.optimize.milp (HiGHS) under a time limit; if that does not
-finish, the best layout found is reported with the bound and the gap.  Everything is ordered
-deterministically, so the same design gives the same layout.
+Martello-Toth L2 bound says how good it is.  When they differ, the Gilmore-Gomory linear
+relaxation is solved by column generation (HiGHS for the master LP, a 0/1 knapsack for pricing);
+its rounded-up value is a lower bound, and a diving heuristic on the generated patterns usually
+meets it.  With prices, every mix of sticks cheaper than the best layout is tried cheapest first:
+a mix whose relaxation cannot hold the pieces is ruled out, so the first mix that packs is the
+optimum.  Under the time limit the best layout is reported with its bound and gap.  Everything
+is ordered deterministically, so the same design gives the same layout.
 
 References
 ----------
 .. [1] Martello, S. and Toth, P., Knapsack Problems: Algorithms and Computer Implementations,
    Wiley, 1990, ch. 8 (bin packing; lower bound L2).
+.. [2] Gilmore, P. C. and Gomory, R. E., "A linear programming approach to the cutting-stock
+   problem", Operations Research 9 (1961) 849-859 (from memory).
 """
 
 from __future__ import annotations
@@ -188,7 +193,7 @@ LP bound stays valid; while diving they are rounded up, so every pattern used fi
 re-checked with the true sizes)."""
 
 
-PATTERNS_PER_ROUND = 6
+PATTERNS_PER_ROUND = 10
 """Disjoint improving patterns priced per column-generation round [-]."""
 
 
@@ -214,36 +219,45 @@ def _knapsack(values, weights, capacity):
     return float(best[capacity]), sorted(chosen)
 
 
-def _master_lp(keys, n_items, types, cost, limited):
-    """Solve the covering LP over the columns; returns (value, x, item duals, stick-limit duals)."""
+def _master_lp(keys, n_items, types, cost, limited, big):
+    """Solve the covering LP over the columns, with an artificial column per item at cost ``big``
+    so that it is always feasible.
+
+    Returns (value, x of the real columns, item duals, stick-limit duals, artificial total).
+    """
     from scipy.optimize import linprog
-    from scipy.sparse import csr_matrix
+    from scipy.sparse import csr_matrix, hstack, identity, vstack
 
     rows, cols = [], []
     for j, (_t, members) in enumerate(keys):
         rows += list(members)
         cols += [j] * len(members)
     cover = csr_matrix((np.ones(len(rows)), (rows, cols)), shape=(n_items, len(keys)))
-    a_ub = [-cover]
+    a_ub = [-hstack([cover, identity(n_items, format="csr")])]
     b_ub = [-np.ones(n_items)]
     for t in limited:
-        a_ub.append(csr_matrix(np.array([[1.0 if k[0] == t else 0.0 for k in keys]])))
+        a_ub.append(csr_matrix(np.array([[1.0 if k[0] == t else 0.0 for k in keys] + [0.0] * n_items])))
         b_ub.append(np.array([float(types[t].count)]))
-    from scipy.sparse import vstack
-
-    c = np.array([cost[k[0]] for k in keys])
-    res = linprog(c, A_ub=vstack(a_ub), b_ub=np.concatenate(b_ub), bounds=(0, None), method="highs")
+    c = np.array([cost[k[0]] for k in keys] + [big] * n_items)
+    res = linprog(c, A_ub=vstack(a_ub).tocsr(), b_ub=np.concatenate(b_ub), bounds=(0, None), method="highs")
     if res.status != 0:
-        return None, None, None, None
+        return None, None, None, None, None
     duals = -res.ineqlin.marginals
-    return res.fun, res.x, np.clip(duals[:n_items], 0.0, None), {
-        t: max(0.0, float(-res.ineqlin.marginals[n_items + k])) for k, t in enumerate(limited)}
+    m = len(keys)
+    return (res.fun, res.x[:m], np.clip(duals[:n_items], 0.0, None),
+            {t: max(0.0, float(-res.ineqlin.marginals[n_items + k])) for k, t in enumerate(limited)},
+            float(res.x[m:].sum()))
 
 
 def _generate(items_idx, sizes, caps, types, cost, limited, columns, deadline, rounding):
-    """Column generation on the items ``items_idx``; ``rounding`` floor (bound) or ceil (feasible)."""
+    """Column generation on the items ``items_idx``; ``rounding`` floor (bound) or ceil (feasible).
+
+    Returns (LP value, x, columns used, artificial total); an artificial total above zero at the
+    end means even the relaxation cannot cover the items with the sticks allowed.
+    """
     import time
 
+    big = 1000.0 * (max(cost) + 1.0)
     local = {i: k for k, i in enumerate(items_idx)}
     grid = (np.floor if rounding == "floor" else np.ceil)(sizes[items_idx] / GRID - (1e-9 if rounding == "ceil" else -1e-9))
     grid = grid.astype(int)
@@ -254,9 +268,9 @@ def _generate(items_idx, sizes, caps, types, cost, limited, columns, deadline, r
         keys = [k for k in columns if all(i in local for i in k[1])
                 and (rounding == "floor" or sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE)]
         local_keys = [(t, tuple(local[i] for i in m)) for t, m in keys]
-        value, x, pi, mu = _master_lp(local_keys, len(items_idx), types, cost, limited)
+        value, x, pi, mu, art = _master_lp(local_keys, len(items_idx), types, cost, limited, big)
         if value is None:
-            return None, None, keys
+            return None, None, keys, math.inf
         added = 0
         for t in range(len(types)):
             # several disjoint improving patterns per round: fewer LP solves
@@ -271,7 +285,7 @@ def _generate(items_idx, sizes, caps, types, cost, limited, columns, deadline, r
                     added += 1
                 prices[chosen] = 0.0
         if not added or time.perf_counter() > deadline:
-            return value, x, keys
+            return value, x, keys, art
 
 
 def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, time_limit):
@@ -290,13 +304,17 @@ def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, tim
     columns = {}
     for t, members in seed_patterns:
         columns[(t, tuple(sorted(members)))] = True
-    for i in range(n):  # singletons keep every master feasible
+    for i in range(n):  # singletons: a start for every master
         fitting = [t for t in range(len(types)) if _fits(0.0, sizes[i], caps[t])]
         columns[(min(fitting, key=lambda t: (cost[t], caps[t])), (i,))] = True
     everything = np.arange(n)
-    lp_value, _, _ = _generate(everything, sizes, caps, types, cost, limited, columns, deadline, "floor")
+    lp_value, _, _, art = _generate(everything, sizes, caps, types, cost, limited, columns, deadline, "floor")
     if lp_value is None:
-        return None, True, 0.0  # even the relaxation is infeasible: the stock on hand is too small
+        return None, False, 0.0
+    if art > 1e-6:
+        if time.perf_counter() > deadline:
+            return None, False, 0.0  # not converged: unknown
+        return None, True, 0.0  # even the relaxation is infeasible: the stock allowed is too small
     bound = math.ceil(lp_value - 1e-6) if not by_cost else lp_value
     # dive: fix the most used feasible column, re-price the rest, repeat
     left = list(range(n))
@@ -304,9 +322,10 @@ def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, tim
     counts = {t: types[t].count for t in limited}
     while left:
         sub_types = [StockType(st.length, counts.get(t, st.count), st.price) for t, st in enumerate(types)]
-        value, x, keys = _generate(np.array(left), sizes, caps, sub_types, cost, limited, columns,
-                                   deadline if time.perf_counter() < deadline else time.perf_counter() + 0.05, "ceil")
-        if value is None:
+        value, x, keys, art = _generate(np.array(left), sizes, caps, sub_types, cost, limited, columns,
+                                        deadline if time.perf_counter() < deadline else time.perf_counter() + 0.05,
+                                        "ceil")
+        if value is None or art > 1e-6:
             return None, False, bound
         feasible = [(j, k) for j, k in enumerate(keys) if sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE]
         if not feasible:
@@ -404,6 +423,13 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT):
     if heur is not None and not by_cost and len(heur) == bound:
         return Layout(_sticks(items, types, kerf, end_trim, heur), bound, True, "first fit decreasing (meets the bound)",
                       _cost(_sticks(items, types, kerf, end_trim, heur)))
+    if by_cost and heur is not None:
+        # priced: start from first fit decreasing and rule out every cheaper mix of sticks
+        first = _sticks(items, types, kerf, end_trim, heur)
+        better, proven, cost_bound = _cheaper_mixes(items, types, kerf, end_trim, _cost(first), time_limit)
+        sticks = better if better is not None else first
+        method = "stick mixes + column generation" if better is not None else "first fit decreasing"
+        return Layout(sticks, bound, proven, method, _cost(sticks), max(cost_bound, 0.0))
     seeds = heur or []
     exact, proven, dual = _column_generation(items, types, kerf, end_trim, by_cost, seeds, time_limit)
     candidates = []
@@ -431,6 +457,72 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT):
     if proven_primary:
         bound = len(sticks)
     return Layout(sticks, bound, len(sticks) == bound, method, cost)
+
+
+MAX_MIXES = 2000
+"""Most stick mixes examined for a priced layout [-]."""
+
+
+def _mixes(types, sizes_total, caps, below):
+    """Whole numbers of sticks of each type costing less than ``below`` and long enough in total,
+    cheapest first. Returns (mixes, complete): complete is False when there were too many."""
+    out = []
+    complete = True
+
+    def walk(t, counts, cost, room):
+        nonlocal complete
+        if len(out) >= MAX_MIXES:
+            complete = False
+            return
+        if t == len(types):
+            if room >= sizes_total - FIT_TOLERANCE and cost < below - 1e-9:
+                out.append((cost, tuple(counts)))
+            return
+        price = types[t].price or 0.0
+        most = types[t].count if types[t].count is not None else 10_000
+        if price > 0:
+            most = min(most, int((below - cost) / price + 1e-9))
+        elif types[t].count is None:
+            complete = False
+            most = 0
+        for k in range(most + 1):
+            walk(t + 1, counts + [k], cost + k * price, room + k * caps[t])
+
+    walk(0, [], 0.0, 0.0)
+    return sorted(out), complete
+
+
+def _cheaper_mixes(items, types, kerf, end_trim, best_cost, time_limit):
+    """Look for a cheaper layout, one mix of sticks at a time, cheapest first.
+
+    A mix whose relaxed (fractional) packing cannot hold the pieces is ruled out; the first mix
+    that yields a layout is then the optimum, if every cheaper one was ruled out.
+    Returns (better sticks or None, proven optimal, lower bound on the cost).
+    """
+    import time
+
+    deadline = time.perf_counter() + time_limit
+    sizes_total = sum(it.length + kerf for it in items)
+    caps = [_capacity(t.length, kerf, end_trim) for t in types]
+    longest_piece = max(it.length + kerf for it in items)
+    mixes, complete = _mixes(types, sizes_total, caps, best_cost)
+    bound = None
+    for mix_cost, counts in mixes:
+        if time.perf_counter() > deadline:
+            return None, False, mix_cost if bound is None else bound
+        sub = [StockType(types[t].length, k, types[t].price) for t, k in enumerate(counts) if k > 0]
+        if not sub or max(_capacity(st.length, kerf, end_trim) for st in sub) < longest_piece - FIT_TOLERANCE:
+            continue
+        assignment, infeasible, _ = _column_generation(items, sub, kerf, end_trim, False, [],
+                                                       max(0.2, deadline - time.perf_counter()))
+        if assignment is not None:
+            sticks = _sticks(items, sub, kerf, end_trim, assignment)
+            return sticks, complete and bound is None, _cost(sticks) if bound is None else bound
+        if not infeasible and bound is None:
+            bound = mix_cost  # not ruled out: the optimum may cost this much
+    if bound is None:
+        return None, complete, best_cost if complete else 0.0
+    return None, False, bound
 
 
 def _shortage(items, types, kerf, end_trim):

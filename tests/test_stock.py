@@ -219,3 +219,41 @@ def test_cutlist_csv_written_with_the_plan(tmp_path):
     assert float(cuts[0]["start_mm"]) == pytest.approx(3.2, abs=0.05)  # 1/8 in end trim
     text = CliRunner().invoke(cli, ["cutlist", porch, "--format", "csv"]).output
     assert text.startswith("stick,group,stock_length_mm")
+
+
+def brute_force_min_cost(lengths, types, kerf):
+    """Cheapest layout over every partition of the pieces: each block on its cheapest stick."""
+    n = len(lengths)
+    best = float("inf")
+
+    def block_cost(group):
+        need = sum(lengths[i] for i in group) + kerf * (len(group) - 1)
+        fits = [price for length, price in types if need <= length + 1e-12]
+        return min(fits) if fits else float("inf")
+
+    def search(i, groups):
+        nonlocal best
+        if i == n:
+            best = min(best, sum(block_cost(g) for g in groups))
+            return
+        for g in groups:
+            g.append(i)
+            search(i + 1, groups)
+            g.pop()
+        groups.append([i])
+        search(i + 1, groups)
+        groups.pop()
+
+    search(0, [])
+    return best
+
+
+@pytest.mark.parametrize("seed", range(8))
+def test_priced_layout_matches_brute_force(seed):
+    rng = random.Random(100 + seed)
+    lengths = [round(rng.uniform(0.2, 1.1), 3) for _ in range(rng.randint(4, 7))]
+    types = [(1.2, 9.0), (2.4, 14.0), (3.0, 19.5)]
+    out = layout([Item(f"c{i}", x) for i, x in enumerate(lengths)],
+                 [StockType(length, price=price) for length, price in types], kerf=0.003)
+    assert out.cost == pytest.approx(brute_force_min_cost(lengths, types, 0.003))
+    assert out.proven_optimal
