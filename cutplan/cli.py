@@ -456,14 +456,14 @@ def new_command(kind, file, force):
 MEASURE_KINDS = ["chime", "bar", "air-column", "open-open", "closed-open"]
 
 
-def _measure_file(recording, kind, near_hz):
+def _measure_file(recording, kind, near_hz, ratios=None):
     """Measurement of a WAV file, or exit 2 with one line saying why it cannot be used."""
     from cutplan.audio.analysis import measure
     from cutplan.audio.wav import RecordingError, read_wav
 
     try:
         samples, rate = read_wav(recording)
-        return measure(samples, rate, kind, near_hz)
+        return measure(samples, rate, kind, near_hz, ratios)
     except RecordingError as exc:
         fail(f"{recording}: {exc}")
 
@@ -704,7 +704,8 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
         f_at = air_frequency_function(spec)
     if recording:
         kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
-        measured = _measure_file(recording, kind, piece.target_hz).fundamental_hz
+        planned = [f / piece.partials_hz[0] for f in piece.partials_hz]
+        measured = _measure_file(recording, kind, piece.target_hz, planned).fundamental_hz
     now = None
     if length_now:
         try:

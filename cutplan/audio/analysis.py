@@ -130,14 +130,25 @@ def _score(candidate, peaks, ratios, drop):
     return explained / total, matched
 
 
-def identify(peaks, kind="chime", near=None):
-    """Choose the fundamental from the peaks for a kind's pattern; returns a Measurement."""
+def identify(peaks, kind="chime", near=None, ratios=None):
+    """Choose the fundamental from the peaks for a kind's pattern; returns a Measurement.
+
+    ``ratios``, if given, are the partial ratios expected for this very piece (for instance the
+    planned partials of a cut piece); they replace the kind's nominal pattern, so that a missing
+    fundamental is estimated from the right ratio.
+    """
+    if ratios is not None:
+        return _identify(peaks, ["planned"], {"planned": (tuple(ratios), 0.03)}, near)
     names = {"chime": ["chime"], "bar": ["bar", "tuned-bar", "xylophone-bar"],
              "air-column": ["open-open", "closed-open"], "open-open": ["open-open"],
              "closed-open": ["closed-open"], "resonator": ["closed-open"]}.get(kind, [kind])
+    return _identify(peaks, names, PATTERNS, near)
+
+
+def _identify(peaks, names, patterns, near):
     best = None
     for name in names:
-        ratios, drop = PATTERNS[name]
+        ratios, drop = patterns[name]
         cands = set()
         for f, _ in peaks:
             for k, r in enumerate(ratios[:4]):
@@ -161,7 +172,7 @@ def identify(peaks, kind="chime", near=None):
         return Measurement(f, tuple(p[0] for p in peaks), 0.3, names[0], True)
     _, cand, matched, name, share = best
     exact = [f for k, f in matched if k == 0]
-    ratios = PATTERNS[name][0]
+    ratios = patterns[name][0]
     if exact:
         fundamental = exact[0]
         heard = True
@@ -175,7 +186,7 @@ def identify(peaks, kind="chime", near=None):
                        round(confidence, 2), name, heard)
 
 
-def measure(samples, rate, kind="chime", near=None):
-    """Fundamental and partials of a struck piece from its samples."""
+def measure(samples, rate, kind="chime", near=None, ratios=None):
+    """Fundamental and partials of a struck piece from its samples (see :func:`identify`)."""
     peaks, _floor = spectrum_peaks(samples, rate)
-    return identify(peaks, kind, near)
+    return identify(peaks, kind, near, ratios)

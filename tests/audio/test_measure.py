@@ -140,3 +140,11 @@ def test_reader_refuses_before_reading_samples(tmp_path):
     _two_hour_header(tmp_path / "long.wav")
     with pytest.raises(RecordingError, match="minutes long"):
         read_wav(tmp_path / "long.wav")
+
+
+def test_missing_fundamental_with_the_planned_ratios_is_within_half_a_cent():
+    # when the piece's own partial ratios are known (from the plan), the estimate is exact
+    x = tone([587.33 * r for r in CHIME[1:]], [0.7, 0.5, 0.3], [1.0, 0.5, 0.3], 1.0, RATE)
+    m = measure(x, RATE, "chime", ratios=CHIME)
+    assert not m.fundamental_heard
+    assert abs(1200 * math.log2(m.fundamental_hz / 587.33)) < 0.5
