@@ -76,32 +76,25 @@ def test_optimum_known_by_construction():
     assert len(out.sticks) == 6 and out.lower_bound == 6 and out.proven_optimal
 
 
+def partitions(n):
+    """Every way to split pieces 0..n-1 into groups (Bell(n) of them; n <= 8 here)."""
+    if n == 0:
+        yield []
+        return
+    for rest in partitions(n - 1):
+        for k in range(len(rest)):
+            yield rest[:k] + [rest[k] + [n - 1]] + rest[k + 1:]
+        yield rest + [[n - 1]]
+
+
+def group_length(lengths, group, kerf):
+    return sum(lengths[i] for i in group) + kerf * (len(group) - 1)
+
+
 def brute_force_min_sticks(lengths, stock, kerf):
-    """Smallest number of sticks over every partition of the pieces (n <= 8)."""
-    n = len(lengths)
-    best = n
-
-    def fits(group):
-        return sum(lengths[i] for i in group) + kerf * (len(group) - 1) <= stock + 1e-12
-
-    def search(i, groups):
-        nonlocal best
-        if len(groups) >= best:
-            return
-        if i == n:
-            best = len(groups)
-            return
-        for g in groups:
-            g.append(i)
-            if fits(g):
-                search(i + 1, groups)
-            g.pop()
-        groups.append([i])
-        search(i + 1, groups)
-        groups.pop()
-
-    search(0, [])
-    return best
+    """Smallest number of sticks over every partition of the pieces."""
+    return min(len(p) for p in partitions(len(lengths))
+               if all(group_length(lengths, g, kerf) <= stock + 1e-12 for g in p))
 
 
 @pytest.mark.parametrize("seed", range(12))
@@ -222,30 +215,13 @@ def test_cutlist_csv_written_with_the_plan(tmp_path):
 
 
 def brute_force_min_cost(lengths, types, kerf):
-    """Cheapest layout over every partition of the pieces: each block on its cheapest stick."""
-    n = len(lengths)
-    best = float("inf")
+    """Cheapest layout over every partition of the pieces: each group on its cheapest stick."""
 
-    def block_cost(group):
-        need = sum(lengths[i] for i in group) + kerf * (len(group) - 1)
-        fits = [price for length, price in types if need <= length + 1e-12]
+    def group_cost(group):
+        fits = [price for length, price in types if group_length(lengths, group, kerf) <= length + 1e-12]
         return min(fits) if fits else float("inf")
 
-    def search(i, groups):
-        nonlocal best
-        if i == n:
-            best = min(best, sum(block_cost(g) for g in groups))
-            return
-        for g in groups:
-            g.append(i)
-            search(i + 1, groups)
-            g.pop()
-        groups.append([i])
-        search(i + 1, groups)
-        groups.pop()
-
-    search(0, [])
-    return best
+    return min(sum(group_cost(g) for g in p) for p in partitions(len(lengths)))
 
 
 @pytest.mark.parametrize("seed", range(8))
