@@ -149,7 +149,7 @@ def _cover(packet):
         c.drawString(MARGIN, y, "What is being built")
         y -= 6 * mm
         for s in plan.sets:
-            notes = ", ".join(p.note for p in s.pieces[:12]) + (" ..." if len(s.pieces) > 12 else "")
+            notes = ", ".join(p.note for p in s.pieces[:12]) + (" and more" if len(s.pieces) > 12 else "")
             y = _paragraph(c, MARGIN, y, f"{s.name}: {len(s.pieces)} x {s.kind} in {s.material}, {s.section}. "
                            f"Notes: {notes}.", 10)
             y -= 1 * mm
