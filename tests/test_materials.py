@@ -115,3 +115,18 @@ def test_installed_tables_found_from_a_copy(tmp_path):
     shutil.copytree(packaged_dir(), copy)
     lib = load_library([copy], include_packaged=False)
     assert "pvc-sch40-2" in lib.stock
+
+
+def test_wheel_ships_the_tables_when_installed():
+    # CI installs the package non-editably: the wheel must carry materials/ as cutplan/_materials
+    from importlib import metadata
+
+    try:
+        files = [str(f) for f in (metadata.files("cutplan") or [])]
+    except metadata.PackageNotFoundError:
+        pytest.skip("cutplan is not installed")
+    if not any(f.startswith("cutplan/") and f.endswith(".py") for f in files):
+        pytest.skip("editable install: the source tree's materials/ is used")
+    for name in ("metals.toml", "woods.toml", "sources.toml", "astm_b88.toml", "astm_d1785.toml"):
+        assert f"cutplan/_materials/{name}" in files
+    assert any(f.startswith("cutplan/_examples/") for f in files)
