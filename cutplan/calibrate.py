@@ -22,6 +22,8 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.optimize import brentq
 
+from cutplan import advice
+
 
 class CalibrationError(ValueError):
     """Measurements that cannot be fitted (one line saying why)."""
@@ -178,20 +180,6 @@ class TrimAdvice:
         return self.length_now - self.length_needed
 
 
-TRIM_FROM = {
-    "chime": "the bottom end (away from the hang hole)",
-    "bar": "both ends equally, to keep the supports at the nodes",
-    "air-column": "either end (the open end of a capped pipe)",
-    "resonator": "the open end, or raise the stopper",
-}
-SHARP_ACTION = {
-    "chime": "it cannot be lengthened: cut a new tube (keep this one for a higher note), or retune the scale",
-    "air-column": "it cannot be lengthened: cut a new pipe, or retune the scale",
-    "resonator": "lower the stopper to lengthen the column, or cut a new tube",
-    "bar": "flatten it by removing material from the underside at the centre, a little at a time",
-}
-
-
 def trim_advice(piece, frequency_at, measured_hz, length_now=None):
     """Trim advice for a planned piece measured at ``measured_hz`` while ``length_now`` long.
 
@@ -218,8 +206,9 @@ def trim_advice(piece, frequency_at, measured_hz, length_now=None):
     if abs(cents_off) < 2:
         action = "in tune (within 2 cents): leave it"
     elif remove > 0:
-        action = (f"flat by {-cents_off:.1f} cents: remove {remove * 1000:.1f} mm from {TRIM_FROM[piece.kind]}; "
+        action = (f"flat by {-cents_off:.1f} cents: remove {remove * 1000:.1f} mm from "
+                  f"{advice.trim_from(piece.kind, getattr(piece, 'model', ''))}; "
                   f"take off about {remove * 1000 / 3:.1f} mm at a time and measure again")
     else:
-        action = (f"sharp by {cents_off:.1f} cents: {-remove * 1000:.1f} mm too short; " + SHARP_ACTION[piece.kind])
+        action = f"sharp by {cents_off:.1f} cents: {-remove * 1000:.1f} mm too short; " + advice.sharp_action(piece.kind)
     return TrimAdvice(piece.label, piece.target_hz, measured_hz, cents_off, length_now, length_needed, action)

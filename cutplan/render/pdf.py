@@ -20,6 +20,7 @@ from reportlab.lib.units import inch, mm
 from reportlab.pdfgen.canvas import Canvas
 from reportlab.platypus import Table, TableStyle
 
+from cutplan import advice
 from cutplan.render import marks as mk
 from cutplan.units import MM, format_inches
 
@@ -239,18 +240,6 @@ def _cut_list(packet):
             packet.add(draw)
 
 
-def _trim_end(kind, model):
-    return {"chime": "bottom end (away from the hang hole)", "bar": "both ends equally",
-            "resonator": "open end (or raise the stopper)"}.get(kind, "either end" if model == "open-open" else "open end")
-
-
-def _sharp_advice(kind):
-    return {"chime": "too short: cannot lengthen; cut a new tube, or keep it for a higher note",
-            "bar": "flatten by removing wood/metal under the centre of the bar",
-            "air-column": "too short: cut a new pipe, or cap a stopper further in",
-            "resonator": "lower the stopper (make the column longer) or cut a new tube"}[kind]
-
-
 def _tuning(packet):
     plan = packet.plan
     header = ["label", "note", "target\nHz", "cents\nper mm", "mm per\n10 cents", "cut long by", "trim from",
@@ -261,7 +250,8 @@ def _tuning(packet):
         allowance = (f"uncalibrated:\n+{p.allowance_uncalibrated * 1000:.1f} mm\n"
                      f"after a test\npiece: +{p.allowance_calibrated * 1000:.1f} mm")
         rows.append([p.label, p.note, f"{p.target_hz:.2f}", f"{p.cents_per_mm:.2f}", f"{per10:.2f}", allowance,
-                     "\n".join(_wrap(_trim_end(p.kind, p.model), 14)), "\n".join(_wrap(_sharp_advice(p.kind), 20)),
+                     "\n".join(_wrap(advice.trim_from(p.kind, p.model), 14)),
+                     "\n".join(_wrap(advice.sharp_action(p.kind), 20)),
                      "", ""])
     chunks = _chunks(rows, 12)
     n = len(chunks)
