@@ -5,7 +5,7 @@ Plain text only; common practice for each kind of piece.
 
 TRIM_FROM = {
     "chime": "the bottom end (away from the hang hole)",
-    "bar": "both ends equally, to keep the supports at the nodes",
+    "bar": "both ends, half from each, to keep the supports at the nodes",
     "open-open": "either end",
     "closed-open": "the open end",
     "resonator": "the open end, or raise the stopper",

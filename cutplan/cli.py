@@ -682,7 +682,7 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
       cutplan trim examples/porch-chimes.toml porch-1 --recording porch-1.wav --length-now "505 mm"
     """
     from cutplan.calibrate import CalibrationError, trim_advice
-    from cutplan.planner import air_frequency_function, beam_frequency_function
+    from cutplan.planner import piece_frequency_function
     from cutplan.units import UnitError, format_length, parse_length
 
     if (measured is None) == (recording is None):
@@ -694,14 +694,7 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
         fail(f"trim: {label!r} is not a piece of {design}; labels are {', '.join(list(pieces)[:8])}...")
     piece = pieces[label]
     spec = next(s for s in des.sets if s.name == piece.set)
-    if piece.arch is not None:
-        from cutplan.planner import undercut_frequency_function
-
-        f_at = undercut_frequency_function(spec, piece.arch)
-    elif spec.kind in ("chime", "bar"):
-        f_at = beam_frequency_function(spec.material, spec.section, spec.model, spec.target_mode == "strike-note")
-    else:
-        f_at = air_frequency_function(spec)
+    f_at = piece_frequency_function(spec, piece)
     if recording:
         kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
         planned = [f / piece.partials_hz[0] for f in piece.partials_hz]

@@ -152,6 +152,15 @@ def air_frequency_function(spec):
     return lambda x: float(freq_of(x, radius, speed, correction=spec.end_correction))
 
 
+def piece_frequency_function(spec, piece):
+    """f(L) [Hz] of the mode a planned piece is tuned by, with the plan's own model (for trimming)."""
+    if piece.arch is not None:
+        return undercut_frequency_function(spec, piece.arch)
+    if spec.kind in ("chime", "bar"):
+        return beam_frequency_function(spec.material, spec.section, spec.model, spec.target_mode == "strike-note")
+    return air_frequency_function(spec)
+
+
 def _allowances(spec, stock, frequency_at, length, target, ratios_uncal, ratios_cal):
     """(cut length, uncalibrated allowance, calibrated allowance, risk of coming out sharp)."""
     risk = stock.allowance_risk if stock is not None and stock.allowance_risk else DEFAULT_SHARP_RISK
