@@ -116,12 +116,6 @@ class Library:
     sources: dict
     files: tuple = ()
 
-    def material(self, name):
-        """A material by name, or a MaterialError listing the names there are."""
-        if name not in self.materials:
-            raise KeyError(name)
-        return self.materials[name]
-
 
 def packaged_dir():
     """The shipped tables: inside the wheel, or ``materials/`` of a source checkout."""

@@ -269,11 +269,6 @@ def parse_percent(value):
     return float(match.group(1)) / 100.0
 
 
-def celsius(kelvin):
-    """Kelvin to degrees Celsius (for display)."""
-    return kelvin - ZERO_CELSIUS
-
-
 def format_mm(metres, decimals=1):
     """``"514.9 mm"``.
 
@@ -323,11 +318,6 @@ def format_inches(metres, denominator=16, show_error=True):
         error = -error if sign else error
         text += f" ({error:+.2f})"
     return text
-
-
-def format_decimal_inches(metres, decimals=3):
-    """``"20.166 in"``."""
-    return f"{metres / INCH:.{decimals}f} in"
 
 
 def format_length(metres, units="mm", denominator=16):

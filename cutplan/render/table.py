@@ -6,7 +6,7 @@ import csv
 import io
 import json
 
-from cutplan.units import INCH, MM, format_inches
+from cutplan.units import MM, format_inches
 
 PLAN_FORMAT = "cutplan-plan/1"
 
@@ -114,9 +114,6 @@ def render_csv(plan):
     return buf.getvalue()
 
 
-def inches(metres):
-    """Decimal inches (for renderers that need a number)."""
-    return metres / INCH
 
 
 CUTLIST_COLUMNS = (
