@@ -61,13 +61,21 @@ def template_pages(pdf_bytes):
     return [i for i, p in enumerate(reader.pages) if "Marking strips" in (p.extract_text() or "")]
 
 
-@pytest.mark.parametrize("paper", ["letter", "a4"])
-def test_calibration_rulers_print_at_true_size(tmp_path, paper):
+def pdf_text(pdf_bytes):
+    return "\n".join(page.extract_text() for page in PdfReader(io.BytesIO(pdf_bytes)).pages)
+
+
+def first_template_raster(tmp_path, paper):
+    """(plan, grey image of the first template page at DPI, page height [mm]) for the test bars."""
     p = make_plan(tmp_path, GLOCK.format(paper=paper))
     data = pdf_mod.render_pdf(p)
-    page = template_pages(data)[0]
-    gray, height_pt = raster(data, page)
-    page_h_mm = height_pt / 72 * 25.4
+    gray, height_pt = raster(data, template_pages(data)[0])
+    return p, gray, height_pt / 72 * 25.4
+
+
+@pytest.mark.parametrize("paper", ["letter", "a4"])
+def test_calibration_rulers_print_at_true_size(tmp_path, paper):
+    _p, gray, page_h_mm = first_template_raster(tmp_path, paper)
     # the 100 mm ruler: only its 0, 50 and 100 mm ticks reach 5 mm below its top line
     ruler_top_mm = pdf_mod.RULER_TOP / pdf_mod.mm  # from the bottom of the page
     row = int(round((page_h_mm - (ruler_top_mm - 5.0)) * PX_PER_MM))
@@ -82,14 +90,9 @@ def test_calibration_rulers_print_at_true_size(tmp_path, paper):
 
 
 def test_node_marks_print_where_the_plan_says(tmp_path):
-    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
-    data = pdf_mod.render_pdf(p)
-    page = template_pages(data)[0]
-    gray, height_pt = raster(data, page)
-    page_h_mm = height_pt / 72 * 25.4
-    h_pt = height_pt
+    p, gray, page_h_mm = first_template_raster(tmp_path, "letter")
     # first strip on the page: bottom edge y0 as drawn in pdf._templates
-    y0_pt = h_pt - 28 * pdf_mod.mm - pdf_mod.STRIP_PITCH_MM * pdf_mod.mm + 14 * pdf_mod.mm
+    y0_pt = page_h_mm * pdf_mod.mm - 28 * pdf_mod.mm - pdf_mod.STRIP_PITCH_MM * pdf_mod.mm + 14 * pdf_mod.mm
     top_mm_from_bottom = y0_pt / pdf_mod.mm + pdf_mod.STRIP_H_MM
     row = int(round((page_h_mm - top_mm_from_bottom - 0.8) * PX_PER_MM))
     runs = dark_runs(gray[row])
@@ -150,7 +153,7 @@ def test_pdf_text_has_every_label_and_both_units(tmp_path):
     root = Path(__file__).resolve().parents[2]
     design, _ = load_design(root / "examples" / "classroom-pipes.toml", lambda d: load_library(d))
     p = plan(design)
-    text = "\n".join(page.extract_text() for page in PdfReader(io.BytesIO(pdf_mod.render_pdf(p))).pages)
+    text = pdf_text(pdf_mod.render_pdf(p))
     for piece in p.pieces:
         assert piece.label in text
         assert f"{piece.length * 1000:.1f} mm" in text
@@ -170,9 +173,8 @@ section = { stock = "al-1.000x0.065" }
     p = make_plan(tmp_path, text)
     assert len(p.pieces) == 60
     files = packet_files(p)
-    reader = PdfReader(io.BytesIO(files["packet.pdf"]))
-    assert len(reader.pages) > 10
-    all_text = "\n".join(page.extract_text() for page in reader.pages)
+    assert len(PdfReader(io.BytesIO(files["packet.pdf"])).pages) > 10
+    all_text = pdf_text(files["packet.pdf"])
     assert "big-60" in all_text and "big-1 " in all_text
     assert sum(1 for k in files if k.startswith("templates/big-")) == 60 + 2
 
@@ -188,8 +190,7 @@ section = { stock = "emt-1" }
 """
     p = make_plan(tmp_path, text)
     assert p.pieces[0].length > 2.35
-    reader = PdfReader(io.BytesIO(pdf_mod.render_pdf(p)))
-    all_text = "\n".join(page.extract_text() for page in reader.pages)
+    all_text = pdf_text(pdf_mod.render_pdf(p))
     from cutplan.render import marks
 
     usable_mm = (pdf_mod.letter[0] - 2 * pdf_mod.TEMPLATE_MARGIN) / pdf_mod.mm
