@@ -286,41 +286,12 @@ def materials_command(name, materials_dirs):
         lib = load_library(materials_dirs)
     except MaterialError as exc:
         fail(str(exc))
-    if name is None:
-        click.echo("Materials (E, density, source):")
-        for key, m in sorted(lib.materials.items()):
-            src = dict(m.provenance).get("modulus")
-            click.echo(f"  {key:22} {m.modulus / 1e9:7.2f} GPa {m.density:7.0f} kg/m3  "
-                       f"[{src.kind}] {m.description}")
-        click.echo("\nStock sizes (outside diameter x wall):")
-        for key, s in sorted(lib.stock.items()):
-            sec = s.section
-            click.echo(f"  {key:18} {sec.outer / 0.0254:6.3f} x {sec.wall / 0.0254:5.3f} in "
-                       f"({sec.outer * 1000:6.2f} x {sec.wall * 1000:4.2f} mm)  {s.standard}")
-        return
-    if name in lib.materials:
-        m = lib.materials[name]
-        click.echo(f"{name}: {m.description}")
-        click.echo(f"  modulus        {m.modulus / 1e9:.3f} GPa ({m.modulus_basis}), spread {m.modulus_spread * 100:.0f} %")
-        click.echo(f"  density        {m.density:.0f} kg/m3, spread {m.density_spread * 100:.1f} %")
-        click.echo(f"  Poisson        {m.poisson:.3f}")
-        click.echo(f"  shear modulus  {m.shear_modulus_for('timoshenko') / 1e9:.3f} GPa (as used by the shear-corrected model)")
-        for prop, prov in m.provenance:
-            cite = lib.sources.get(prov.source, {}).get("citation", prov.source)
-            click.echo(f"  source of {prop}: [{prov.kind}] {cite}; {prov.where}")
-        return
-    if name in lib.stock:
-        s = lib.stock[name]
-        sec = s.section
-        click.echo(f"{name}: {s.description} ({s.standard})")
-        click.echo(f"  outside diameter {sec.outer * 1000:.2f} mm ({sec.outer / 0.0254:.3f} in) +/- {s.outer_tolerance * 1000:.3f} mm")
-        click.echo(f"  wall             {sec.wall * 1000:.2f} mm ({sec.wall / 0.0254:.3f} in) +/- {s.wall_tolerance * 100:.0f} %")
-        click.echo(f"  bore for air     {sec.air_radius * 2000:.2f} mm ({sec.air_radius * 2 / 0.0254:.3f} in)")
-        click.echo(f"  default material {s.material}")
-        cite = lib.sources.get(s.provenance.source, {}).get("citation", s.provenance.source)
-        click.echo(f"  source: [{s.provenance.kind}] {cite}")
-        return
-    fail(f"materials: {name!r} is not a material or stock size; run `cutplan materials` to list them")
+    from cutplan.render.terminal import render_library, render_library_entry
+
+    text = render_library(lib) if name is None else render_library_entry(lib, name)
+    if text is None:
+        fail(f"materials: {name!r} is not a material or stock size; run `cutplan materials` to list them")
+    click.echo(text, nl=False)
 
 
 def section_options(command):

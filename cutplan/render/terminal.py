@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from cutplan.units import MM, format_inches
+from cutplan.units import INCH, MM, format_inches
 
 SAFETY_LINE = (
     "Safety: wear eye and hearing protection when cutting and striking; deburr cut tube; never "
@@ -93,3 +93,45 @@ def render_stock(stock, units="mm"):
                f"utilisation {stock.get('utilisation_percent', 0):.1f} %"
                + (f"; cost {stock['cost']:.2f}" if stock.get("cost") is not None else ""))
     return out
+
+
+def render_library(lib):
+    """Every material and stock size, one line each, with the kind of source."""
+    out = ["Materials (E, density, source):"]
+    for key, m in sorted(lib.materials.items()):
+        src = dict(m.provenance).get("modulus")
+        out.append(f"  {key:22} {m.modulus / 1e9:7.2f} GPa {m.density:7.0f} kg/m3  [{src.kind}] {m.description}")
+    out.append("")
+    out.append("Stock sizes (outside diameter x wall):")
+    for key, s in sorted(lib.stock.items()):
+        sec = s.section
+        out.append(f"  {key:18} {sec.outer / INCH:6.3f} x {sec.wall / INCH:5.3f} in "
+                   f"({sec.outer / MM:6.2f} x {sec.wall / MM:4.2f} mm)  {s.standard}")
+    return "\n".join(out) + "\n"
+
+
+def render_library_entry(lib, name):
+    """One material or stock size in full, with its sources; None when there is no such name."""
+    if name in lib.materials:
+        m = lib.materials[name]
+        out = [f"{name}: {m.description}",
+               f"  modulus        {m.modulus / 1e9:.3f} GPa ({m.modulus_basis}), spread {m.modulus_spread * 100:.0f} %",
+               f"  density        {m.density:.0f} kg/m3, spread {m.density_spread * 100:.1f} %",
+               f"  Poisson        {m.poisson:.3f}",
+               f"  shear modulus  {m.shear_modulus_for('timoshenko') / 1e9:.3f} GPa (as used by the shear-corrected model)"]
+        for prop, prov in m.provenance:
+            cite = lib.sources.get(prov.source, {}).get("citation", prov.source)
+            out.append(f"  source of {prop}: [{prov.kind}] {cite}; {prov.where}")
+        return "\n".join(out) + "\n"
+    if name in lib.stock:
+        s = lib.stock[name]
+        sec = s.section
+        cite = lib.sources.get(s.provenance.source, {}).get("citation", s.provenance.source)
+        out = [f"{name}: {s.description} ({s.standard})",
+               f"  outside diameter {sec.outer / MM:.2f} mm ({sec.outer / INCH:.3f} in) +/- {s.outer_tolerance / MM:.3f} mm",
+               f"  wall             {sec.wall / MM:.2f} mm ({sec.wall / INCH:.3f} in) +/- {s.wall_tolerance * 100:.0f} %",
+               f"  bore for air     {sec.air_radius * 2 / MM:.2f} mm ({sec.air_radius * 2 / INCH:.3f} in)",
+               f"  default material {s.material}",
+               f"  source: [{s.provenance.kind}] {cite}"]
+        return "\n".join(out) + "\n"
+    return None
