@@ -162,6 +162,23 @@ def fit_air_column(pieces, ends, speed=None, end_correction=None):
     return AirFit(float(speed), float(end_correction), tuple(residuals))
 
 
+def fit_air_column_choice(pieces, ends, what, speed, radius=None):
+    """Fit what the user asked for: "both", "speed", "end-correction" or "auto" (both when the
+    pieces have two or more different lengths, else the end correction at the known ``speed``).
+
+    With "speed" the end correction is taken as the unflanged value for ``radius`` [m], or 0.
+    """
+    if what == "auto":
+        what = "both" if len({length for length, _, _ in pieces}) >= 2 else "end-correction"
+    if what == "both":
+        return fit_air_column(pieces, ends)
+    if what == "speed":
+        from cutplan.physics.air_column import end_correction
+
+        return fit_air_column(pieces, ends, end_correction=0.0 if radius is None else end_correction(radius))
+    return fit_air_column(pieces, ends, speed=speed)
+
+
 @dataclass(frozen=True)
 class TrimAdvice:
     """What to do with a piece that sounds ``measured_hz`` at ``length_now``."""

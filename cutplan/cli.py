@@ -580,7 +580,7 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
 
 
 def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res):
-    from cutplan.calibrate import CalibrationError, fit_air_column
+    from cutplan.calibrate import CalibrationError, fit_air_column_choice
     from cutplan.physics import air_column
     from cutplan.units import UnitError, parse_length, parse_temperature
 
@@ -616,16 +616,8 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
         des = _one_piece_design("calibrate", "air-column", None, 440.0, None, stock_name, tube, None, None,
                                 ends=ends, temperature=temperature)
         radius = des.sets[0].section.air_radius
-    distinct = len({length for length, _, _ in measured}) >= 2
-    what = fit_what if fit_what != "auto" else ("both" if distinct else "end-correction")
     try:
-        if what == "both":
-            fit = fit_air_column(measured, ends)
-        elif what == "speed":
-            corr = 0.0 if radius is None else air_column.end_correction(radius)
-            fit = fit_air_column(measured, ends, end_correction=corr)
-        else:
-            fit = fit_air_column(measured, ends, speed=speed_t)
+        fit = fit_air_column_choice(measured, ends, fit_what, speed_t, radius)
     except CalibrationError as exc:
         fail(f"calibrate: {exc}")
     click.echo(f"speed of sound {fit.speed:.1f} m/s (table {speed_t:.1f} m/s at {temperature}); "

@@ -173,3 +173,15 @@ def test_listen_writes_previews_that_measure_back(tmp_path):
     assert (out / "porch-arpeggio.wav").exists()
     samples, rate = read_wav(out / "porch-3.wav")
     assert abs(1200 * math.log2(measure(samples, rate, "chime").fundamental_hz / 739.9888)) < 0.5
+
+
+def test_calibrate_command_for_air_columns():
+    # issue 6 example: 0.190 m closed column at 426.7 Hz, no end correction -> 324.3 m/s
+    one = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--piece", "190 mm @ 426.7", "--fit", "speed"])
+    assert one.exit_code == 0 and "324.3 m/s" in one.output
+    # standard lab method (REFERENCES sec. 6): c = 2 f (L2 - L1) = 2 x 512 x 0.335 = 343.0 m/s,
+    # end correction (L2 - 3 L1) / 2 = 7.5 mm
+    two = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--two-resonance", "160 mm, 495 mm @ 512"])
+    assert two.exit_code == 0 and "343.0 m/s" in two.output and "7.5 mm" in two.output
+    both = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--fit", "both", "--piece", "190 mm @ 426.7"])
+    assert both.exit_code == 2 and "two or more different lengths" in both.output
