@@ -187,7 +187,7 @@ def _cover(packet):
     packet.add(draw)
 
 
-def _table(c, data, col_widths, x, y_top, font_size=9):
+def _styled_table(data, col_widths, font_size):
     table = Table(data, colWidths=col_widths, repeatRows=1)
     table.setStyle(TableStyle([
         ("FONT", (0, 0), (-1, 0), "Helvetica-Bold", font_size),
@@ -200,18 +200,36 @@ def _table(c, data, col_widths, x, y_top, font_size=9):
         ("TOPPADDING", (0, 0), (-1, -1), 3.5),
         ("BOTTOMPADDING", (0, 0), (-1, -1), 3.5),
     ]))
+    return table
+
+
+def _table(c, data, col_widths, x, y_top, font_size=9):
+    table = _styled_table(data, col_widths, font_size)
     _, height = table.wrapOn(c, sum(col_widths), 1000)
     table.drawOn(c, x, y_top - height)
     return y_top - height
 
 
-def _chunks(rows, size):
-    return [rows[i:i + size] for i in range(0, len(rows), size)] or [[]]
+def _pages(header, rows, col_widths, font_size, room):
+    """Split table rows into page-sized chunks: each chunk, under the header, fits ``room`` points."""
+    pages, current = [], []
+    for row in rows:
+        trial = current + [row]
+        _, height = _styled_table([header] + trial, col_widths, font_size).wrap(sum(col_widths), 10_000)
+        if height > room and current:
+            pages.append(current)
+            current = [row]
+        else:
+            current = trial
+    pages.append(current)
+    return pages
 
 
 def _cut_list(packet):
     plan = packet.plan
-    rows_per_page = 14
+    w, h = packet.size
+    widths = [w * f for f in (0.12, 0.06, 0.07, 0.13, 0.13, 0.13, 0.06, 0.05, 0.06, 0.05)]
+    widths = [x * (w - 2 * MARGIN) / sum(widths) for x in widths]
     for s in plan.sets:
         pieces = sorted(s.pieces, key=lambda p: -p.length)
         node_head = {"chime": "hang hole\nfrom top", "bar": "supports\nfrom end"}.get(s.kind, "")
@@ -224,18 +242,15 @@ def _cut_list(packet):
             mass = f"{p.mass * 1000:.0f} g" if p.mass is not None else "-"
             rows.append([p.label, p.note, f"{p.target_hz:.2f}", f"{fin_mm}\n{fin_in}", f"{cut_mm}\n{cut_in}",
                          node, mass, "", "", ""])
-        chunks = _chunks(rows, rows_per_page)
+        chunks = _pages(header, rows, widths, 10, h - 52 * mm)
         n = len(chunks)
         for k, chunk in enumerate(chunks, start=1):
             def draw(c, chunk=chunk, k=k, n=n, s=s, header=header):
-                w, h = packet.size
                 more = f" ({k} of {n})" if n > 1 else ""
                 y = _heading(c, packet, f"Cut list: {s.name}{more}")
                 c.setFont("Helvetica", 9)
                 c.drawString(MARGIN, y, f"{s.kind}, {s.material}, {s.section}; longest first. "
                              "Cut at the 'cut at' length, then tune down to 'finished'.")
-                widths = [w * f for f in (0.12, 0.06, 0.07, 0.13, 0.13, 0.13, 0.06, 0.05, 0.06, 0.05)]
-                widths = [x * (w - 2 * MARGIN) / sum(widths) for x in widths]
                 _table(c, [header] + chunk, widths, MARGIN, y - 4 * mm, 10)
             packet.add(draw)
 
@@ -253,11 +268,12 @@ def _tuning(packet):
                      "\n".join(_wrap(advice.trim_from(p.kind, p.model), 14)),
                      "\n".join(_wrap(advice.sharp_action(p.kind), 20)),
                      "", ""])
-    chunks = _chunks(rows, 12)
+    w, h = packet.size
+    widths = [x * (w - 2 * MARGIN) for x in (0.09, 0.05, 0.075, 0.075, 0.075, 0.13, 0.135, 0.17, 0.10, 0.10)]
+    chunks = _pages(header, rows, widths, 8.5, h - 75 * mm)
     n = len(chunks)
     for k, chunk in enumerate(chunks, start=1):
         def draw(c, chunk=chunk, k=k, n=n):
-            w, h = packet.size
             y = _heading(c, packet, "Tuning sheet" + (f" ({k} of {n})" if n > 1 else ""))
             y = _paragraph(c, MARGIN, y, "Trim in small steps: take off a third of the computed amount, strike, "
                            "measure, repeat. A piece that is flat by 10 cents needs about the 'mm per 10 cents' "
@@ -266,8 +282,6 @@ def _tuning(packet):
                            "piece coming out sharp (too short) to 5 %, from the spreads of the material and "
                            "stock tables; after one test piece is measured (cutplan calibrate) it shrinks to "
                            "the second figure.", 9, 110)
-            widths = [0.09, 0.05, 0.075, 0.075, 0.075, 0.13, 0.135, 0.17, 0.10, 0.10]
-            widths = [x * (w - 2 * MARGIN) for x in widths]
             _table(c, [header] + chunk, widths, MARGIN, y - 2 * mm, 8.5)
         packet.add(draw)
 
@@ -582,28 +596,31 @@ def _profile_tile(c, piece, start_mm, end_mm, x0, y0, sheet, sheets):
 
 
 def _stopper_page(packet):
-    plan = packet.plan
-    pieces = [p for p in plan.pieces if p.stopper]
-    if not pieces:
-        return
-    temps = [t for t, _ in pieces[0].stopper]
-    header = ["label", "note"] + [f"{t - 273.15:.0f} C" for t in temps] + ["travel"]
-    rows = []
-    for p in pieces:
-        depths = [d for _, d in p.stopper]
-        rows.append([p.label, p.note] + ["\n".join(_both(d)) for d in depths]
-                    + [f"{(max(depths) - min(depths)) / MM:.1f} mm"])
+    """Stopper depth by temperature: one table per resonator set (sets may have their own ranges)."""
+    w, h = packet.size
+    for s in packet.plan.sets:
+        pieces = [p for p in s.pieces if p.stopper]
+        if not pieces:
+            continue
+        temps = [t for t, _ in pieces[0].stopper]
+        header = ["label", "note"] + [f"{t - 273.15:.0f} C" for t in temps] + ["travel"]
+        widths = [x * (w - 2 * MARGIN) for x in [0.12, 0.07] + [0.71 / len(temps)] * len(temps) + [0.10]]
+        rows = []
+        for p in pieces:
+            depths = [d for _, d in p.stopper]
+            rows.append([p.label, p.note] + ["\n".join(_both(d)) for d in depths]
+                        + [f"{(max(depths) - min(depths)) / MM:.1f} mm"])
+        chunks = _pages(header, rows, widths, 8, h - 62 * mm)
+        n = len(chunks)
+        for k, chunk in enumerate(chunks, start=1):
+            def draw(c, chunk=chunk, k=k, n=n, s=s, header=header, widths=widths):
+                y = _heading(c, packet, f"Resonator stopper settings: {s.name}" + (f" ({k} of {n})" if n > 1 else ""))
+                y = _paragraph(c, MARGIN, y, "Depth from the open end to the face of the stopper, by air "
+                               "temperature. Warmer air carries sound faster, so the column must be longer to stay "
+                               "in tune. Set the stopper for the temperature of the room the set is played in.", 9, 110)
+                _table(c, [header] + chunk, widths, MARGIN, y - 2 * mm, 8)
 
-    def draw(c):
-        w, h = packet.size
-        y = _heading(c, packet, "Resonator stopper settings")
-        y = _paragraph(c, MARGIN, y, "Depth from the open end to the face of the stopper, by air temperature. "
-                       "Warmer air carries sound faster, so the column must be longer to stay in tune. "
-                       "Set the stopper for the temperature of the room the set is played in.", 9, 110)
-        widths = [0.12, 0.07] + [0.71 / len(temps)] * len(temps) + [0.10]
-        _table(c, [header] + rows[:18], [x * (w - 2 * MARGIN) for x in widths], MARGIN, y - 2 * mm, 8)
-
-    packet.add(draw)
+            packet.add(draw)
 
 
 def _templates(packet):

@@ -197,3 +197,39 @@ section = { stock = "emt-1" }
     sheets = len(marks.tiles(marks.strip_length_mm(p.pieces[0]), usable_mm, pdf_mod.OVERLAP_MM))
     assert sheets >= 12  # 2.4 m on sheets of about 172 mm advance
     assert f"sheet 1 of {sheets}" in all_text and f"sheet {sheets} of {sheets}" in all_text
+
+
+def test_tables_stop_above_the_footer(tmp_path):
+    # a long set with tall tuning rows: every cut-list, tuning and stopper page must leave the band
+    # between 9 and 14 mm from the bottom blank (the footer text sits at 7 mm)
+    text = """
+title = "Long"
+[[set]]
+name = "bars"
+kind = "bar"
+range = "C4..C6"
+material = "maple-sugar"
+section = { shape = "bar", width = "50 mm", thickness = "22 mm" }
+[[set]]
+name = "res"
+kind = "resonator"
+serves = "bars"
+section = { stock = "pvc-sch40-2" }
+temperature_range = ["10 C", "30 C"]
+"""
+    data = pdf_mod.render_pdf(make_plan(tmp_path, text))
+    reader = PdfReader(io.BytesIO(data))
+    checked = 0
+    for i, page in enumerate(reader.pages):
+        words = page.extract_text()
+        if not any(k in words for k in ("Cut list", "Tuning sheet", "stopper settings")):
+            continue
+        doc = pypdfium2.PdfDocument(data)
+        img = doc[i].render(scale=2, grayscale=True).to_numpy()
+        doc.close()
+        gray = img[..., 0] if img.ndim == 3 else img
+        px_mm = 2 * 72 / 25.4
+        band = gray[int(gray.shape[0] - 14 * px_mm):int(gray.shape[0] - 9 * px_mm)]
+        assert band.min() > 200, f"page {i + 1} draws into the footer band"
+        checked += 1
+    assert checked >= 4
