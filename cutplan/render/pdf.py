@@ -125,6 +125,11 @@ def _wrap(text, width_chars):
     return lines
 
 
+def _fit(text, chars):
+    """Break a long word (a label) into lines of at most ``chars`` characters for a table cell."""
+    return "\n".join(text[i:i + chars] for i in range(0, len(text), chars)) or text
+
+
 def _paragraph(c, x, y, text, size=10, width_chars=95, leading=None):
     c.setFont("Helvetica", size)
     leading = leading or size * 1.3
@@ -240,7 +245,7 @@ def _cut_list(packet):
             cut_mm, cut_in = _both(p.cut_length)
             node = "\n".join(_both(p.nodes[0])) if p.nodes else "-"
             mass = f"{p.mass * 1000:.0f} g" if p.mass is not None else "-"
-            rows.append([p.label, p.note, f"{p.target_hz:.2f}", f"{fin_mm}\n{fin_in}", f"{cut_mm}\n{cut_in}",
+            rows.append([_fit(p.label, 13), p.note, f"{p.target_hz:.2f}", f"{fin_mm}\n{fin_in}", f"{cut_mm}\n{cut_in}",
                          node, mass, "", "", ""])
         chunks = _pages(header, rows, widths, 10, h - 52 * mm)
         n = len(chunks)
@@ -264,7 +269,7 @@ def _tuning(packet):
         per10 = 10 / p.cents_per_mm if p.cents_per_mm else float("nan")
         allowance = (f"uncalibrated:\n+{p.allowance_uncalibrated * 1000:.1f} mm\n"
                      f"after a test\npiece: +{p.allowance_calibrated * 1000:.1f} mm")
-        rows.append([p.label, p.note, f"{p.target_hz:.2f}", f"{p.cents_per_mm:.2f}", f"{per10:.2f}", allowance,
+        rows.append([_fit(p.label, 10), p.note, f"{p.target_hz:.2f}", f"{p.cents_per_mm:.2f}", f"{per10:.2f}", allowance,
                      "\n".join(_wrap(advice.trim_from(p.kind, p.model), 14)),
                      "\n".join(_wrap(advice.sharp_action(p.kind), 20)),
                      "", ""])
@@ -608,7 +613,7 @@ def _stopper_page(packet):
         rows = []
         for p in pieces:
             depths = [d for _, d in p.stopper]
-            rows.append([p.label, p.note] + ["\n".join(_both(d)) for d in depths]
+            rows.append([_fit(p.label, 12), p.note] + ["\n".join(_both(d)) for d in depths]
                         + [f"{(max(depths) - min(depths)) / MM:.1f} mm"])
         chunks = _pages(header, rows, widths, 8, h - 62 * mm)
         n = len(chunks)
