@@ -72,7 +72,7 @@ def _wants_progress():
     return sys.stderr.isatty()
 
 
-def _plan(design):
+def _plan(design, stock_override=None):
     from cutplan.design import DesignErrors
     from cutplan.planner import bars_to_solve, plan
 
@@ -80,8 +80,8 @@ def _plan(design):
         count = bars_to_solve(design)
         if count >= PROGRESS_FROM and _wants_progress():
             with click.progressbar(length=count, label="solving arched bars", file=sys.stderr) as bar:
-                return plan(design, progress=bar.update)
-        return plan(design)
+                return plan(design, progress=bar.update, stock_override=stock_override)
+        return plan(design, stock_override=stock_override)
     except DesignErrors as exc:
         fail([str(e) for e in exc.errors])
 
@@ -134,7 +134,6 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     out = _check_output_dir(output, force) if output else None
     des, _lib = _load(design, materials_dirs)
     the_plan = _plan(des)
-    the_plan = _with_stock(the_plan, des)
     from cutplan.render.table import render_csv, render_cutlist_csv, render_json
     from cutplan.render.terminal import render_table
 
@@ -146,22 +145,12 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
         click.echo(render_table(the_plan, units), nl=False)
     if out is not None:
         files = {"plan.csv": render_csv(the_plan), "plan.json": render_json(the_plan)}
-        if the_plan.stock is not None:
-            files["cutlist.csv"] = render_cutlist_csv(the_plan.stock)
+        if the_plan.cut_list is not None:
+            files["cutlist.csv"] = render_cutlist_csv(the_plan.cut_list)
         files.update(_packet_files(the_plan, paper))
         for name, data in files.items():
             write_file(out / name, data)
         click.echo(f"wrote {len(files)} files to {out}", err=True)
-
-
-def _with_stock(the_plan, des, override=None):
-    """Attach the stock layout when the design gives stock lengths (exit 2 when stock runs out)."""
-    from cutplan import stock
-
-    try:
-        return stock.attach_layout(the_plan, des, override=override)
-    except stock.StockError as exc:
-        fail(f"{des.path}: stock: {exc}")
 
 
 def _packet_files(the_plan, paper):
@@ -223,22 +212,23 @@ def cutlist_command(design, stock_texts, kerf, end_trim, units, fmt, materials_d
     import json
 
     des, _lib = _load(design, materials_dirs)
-    the_plan = _plan(des)
     override = _parse_stock_option(stock_texts, kerf, end_trim) if stock_texts else None
-    the_plan = _with_stock(the_plan, des, override)
-    if the_plan.stock is None:
+    the_plan = _plan(des, override)
+    if the_plan.cut_list is None:
         fail(f"{design}: stock: the design has no [stock] lengths; add them or use --stock \"8 ft x 2\"")
     if fmt == "json":
-        click.echo(json.dumps(the_plan.stock, indent=2))
+        from cutplan.render.table import cut_list_dict
+
+        click.echo(json.dumps(cut_list_dict(the_plan.cut_list), indent=2))
         return
     if fmt == "csv":
         from cutplan.render.table import render_cutlist_csv
 
-        click.echo(render_cutlist_csv(the_plan.stock), nl=False)
+        click.echo(render_cutlist_csv(the_plan.cut_list), nl=False)
         return
     from cutplan.render.terminal import render_stock
 
-    click.echo("\n".join(render_stock(the_plan.stock, units or the_plan.units)))
+    click.echo("\n".join(render_stock(the_plan.cut_list, units or the_plan.units)))
 
 
 @cli.command("scale")

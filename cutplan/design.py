@@ -201,13 +201,24 @@ def load_design(path, library_loader):
     ``library_loader(extra_dirs)`` returns a :class:`~cutplan.materials.Library`; it is called
     once, with the design's ``material_dirs`` resolved against the design file's folder.
     """
-    data = read_design_file(path)
+    return design_from_mapping(read_design_file(path), library_loader, path)
+
+
+def design_from_mapping(data, library_loader, path="(design)", base_dir=None):
+    """Validate and convert a design given as a mapping with the design file's keys.
+
+    ``path`` names the design in error lines; ``material_dirs`` are resolved against
+    ``base_dir`` (default: the folder of ``path``). Returns ``(Design, Library)`` or raises
+    :class:`DesignErrors`, exactly as :func:`load_design` does for a file.
+    """
+    if not isinstance(data, dict):
+        raise DesignErrors([DesignError(path, "(design)", None, "must be a table of design keys")])
     col = _Collector(path)
     col.unknown(data, _TOP_KEYS, "")
-    title = data.get("title", Path(path).stem)
+    title = data.get("title", Path(str(path)).stem)
     if not isinstance(title, str) or not title.strip() or len(title) > 120:
         col.add("title", title, "must be text of 1 to 120 characters")
-        title = Path(path).stem
+        title = Path(str(path)).stem
     shown_units = data.get("units", "mm")
     if shown_units not in ("mm", "in"):
         col.add("units", shown_units, 'must be "mm" or "in"')
@@ -218,7 +229,8 @@ def load_design(path, library_loader):
         paper = "letter"
 
     a4, temperament = _tuning(data.get("tuning", {}), col)
-    dirs = _material_dirs(data.get("material_dirs", []), Path(path), col)
+    base = Path(base_dir) if base_dir is not None else Path(path).parent
+    dirs = _material_dirs(data.get("material_dirs", []), base, col)
     library = None
     if not col.errors:
         try:
@@ -273,7 +285,7 @@ def _tuning(tuning, col):
     return a4, temperament
 
 
-def _material_dirs(value, path, col):
+def _material_dirs(value, base, col):
     if isinstance(value, str):
         value = [value]
     if not isinstance(value, list) or not all(isinstance(v, str) for v in value):
@@ -281,7 +293,7 @@ def _material_dirs(value, path, col):
         return []
     out = []
     for v in value:
-        folder = (path.parent / v).resolve()
+        folder = (base / v).resolve()
         if not folder.is_dir():
             col.add("material_dirs", v, f"is not a folder (looked for {folder})")
         out.append(folder)

@@ -75,18 +75,36 @@ class Arch:
 
 @dataclass(frozen=True)
 class SetPlan:
-    """The pieces of one set with the facts they depend on."""
+    """The pieces of one set with the facts they depend on; ``section`` is the Section itself."""
 
     name: str
     kind: str
     material: str
-    section: str
+    section: object
     model: str
     pieces: tuple
     assumptions: tuple = ()
-    shape: str = ""
-    outer: float = 0.0
-    width: float = 0.0
+
+    @property
+    def section_text(self):
+        """The section as shown to the builder, e.g. "al-1.000x0.065 tube 25.40 x 1.65 mm"."""
+        sec = self.section
+        return (sec.name + " " if sec.name else "") + sec.describe()
+
+    @property
+    def shape(self):
+        """"tube", "rod" or "bar"."""
+        return self.section.shape
+
+    @property
+    def outer(self):
+        """Outside diameter of a tube or rod [m]."""
+        return self.section.outer
+
+    @property
+    def width(self):
+        """Width of a bar [m]."""
+        return self.section.width
 
 
 @dataclass(frozen=True)
@@ -100,7 +118,7 @@ class Plan:
     temperament: str
     sets: tuple
     design_path: str = ""
-    stock: object = None
+    cut_list: object = None
     warnings: tuple = field(default=())
 
     @property
@@ -470,9 +488,8 @@ def _set_summary(spec: SetSpec):
     if material == "inline" and spec.material is not None:
         material = f"inline: E {spec.material.modulus / 1e9:.2f} GPa, {spec.material.density:.0f} kg/m3"
     sec = spec.section
-    return SetPlan(name=spec.name, kind=spec.kind, material=material,
-                   section=(sec.name + " " if sec.name else "") + sec.describe(), model=model, pieces=(),
-                   assumptions=tuple(assumptions), shape=sec.shape, outer=sec.outer, width=sec.width)
+    return SetPlan(name=spec.name, kind=spec.kind, material=material, section=sec, model=model, pieces=(),
+                   assumptions=tuple(assumptions))
 
 
 def bars_to_solve(design: Design):
@@ -480,10 +497,12 @@ def bars_to_solve(design: Design):
     return sum(len(s.targets) for s in design.sets if s.undercut is not None)
 
 
-def plan(design: Design, progress=None) -> Plan:
-    """Plan every set of a validated design. Raises DesignErrors for pieces that cannot be made.
+def plan(design: Design, progress=None, stock_override=None) -> Plan:
+    """Plan every set of a validated design, with its cut list on the stock on hand.
 
-    ``progress(n)``, if given, is called as arched bars are solved (for a progress bar).
+    Raises DesignErrors for pieces that cannot be made or stock that cannot hold them.
+    ``progress(n)``, if given, is called as arched bars are solved (for a progress bar);
+    ``stock_override`` (a StockSpec) lays the pieces out on other stock than the design's.
     """
     sets, errors, by_name = [], [], {}
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
@@ -526,5 +545,11 @@ def plan(design: Design, progress=None) -> Plan:
         raise DesignErrors(errors)
     order = {s.name: i for i, s in enumerate(design.sets)}
     sets.sort(key=lambda s: order[s.name])
+    from cutplan import cutlist, stock
+
+    try:
+        cuts = cutlist.lay_out(sets, {s.name: s for s in design.sets}, design.stock, stock_override)
+    except stock.StockError as exc:
+        raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
     return Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
-                temperament=design.temperament, sets=tuple(sets), design_path=design.path)
+                temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts)

@@ -156,13 +156,13 @@ def _cover(packet):
         y -= 6 * mm
         for s in plan.sets:
             notes = ", ".join(p.note for p in s.pieces[:12]) + (" and more" if len(s.pieces) > 12 else "")
-            y = _paragraph(c, MARGIN, y, f"{s.name}: {len(s.pieces)} x {s.kind} in {s.material}, {s.section}. "
+            y = _paragraph(c, MARGIN, y, f"{s.name}: {len(s.pieces)} x {s.kind} in {s.material}, {s.section_text}. "
                            f"Notes: {notes}.", 10)
             y -= 1 * mm
-        if plan.stock:
-            sticks = ", ".join(f"{x['count']} x {x['stock_length_mm']:.0f} mm "
-                               f"({format_inches(x['stock_length_mm'] * MM, 16, show_error=False)})"
-                               for x in plan.stock.get("sticks_by_length", []))
+        if plan.cut_list is not None:
+            sticks = ", ".join(f"{n} x {length / MM:.0f} mm "
+                               f"({format_inches(length, 16, show_error=False)})"
+                               for length, n in plan.cut_list.sticks_by_length)
             y = _paragraph(c, MARGIN, y, f"Stock needed: {sticks}.", 10)
         y -= 4 * mm
         c.setFont("Helvetica-Bold", 12)
@@ -254,7 +254,7 @@ def _cut_list(packet):
                 more = f" ({k} of {n})" if n > 1 else ""
                 y = _heading(c, packet, f"Cut list: {s.name}{more}")
                 c.setFont("Helvetica", 9)
-                c.drawString(MARGIN, y, f"{s.kind}, {s.material}, {s.section}; longest first. "
+                c.drawString(MARGIN, y, f"{s.kind}, {s.material}, {s.section_text}; longest first. "
                              "Cut at the 'cut at' length, then tune down to 'finished'.")
                 _table(c, [header] + chunk, widths, MARGIN, y - 4 * mm, 10)
             packet.add(draw)
@@ -433,41 +433,41 @@ def _spectra(c, packet, pieces, y_top):
 
 def _stock_page(packet):
     plan = packet.plan
-    if not plan.stock:
+    cut_list = plan.cut_list
+    if cut_list is None:
         return
-    sticks = plan.stock["sticks"]
+    sticks = cut_list.sticks
     per_page = 10
     for k in range(0, len(sticks), per_page):
         def draw(c, group=sticks[k:k + per_page], first=k):
             w, h = packet.size
             y = _heading(c, packet, "Stock layout")
-            status = "proven optimal" if plan.stock.get("proven_optimal") else "best found (not proven optimal)"
-            y = _paragraph(c, MARGIN, y, f"Layout {status}; lower bound {plan.stock['lower_bound']} sticks; "
-                           f"utilisation {plan.stock.get('utilisation_percent', 0):.1f} %. Marks are measured "
+            status = "proven optimal" if cut_list.proven_optimal else "best found (not proven optimal)"
+            y = _paragraph(c, MARGIN, y, f"Layout {status}; lower bound {cut_list.lower_bound} sticks; "
+                           f"utilisation {100 * cut_list.utilisation:.1f} %. Marks are measured "
                            "from each stick's factory end, after squaring it.", 9, 110)
-            longest = max(s["stock_length_mm"] for s in sticks)
+            longest = max(s.stock_length for s in sticks) / MM
             width = w - 2 * MARGIN
             for i, stick in enumerate(group):
                 base = y - (i + 1) * 20 * mm
                 scale = width / longest
                 c.setFont("Helvetica-Bold", 8)
-                c.drawString(MARGIN, base + 11 * mm, f"stick {first + i + 1}: {stick['stock_length_mm']:.0f} mm "
-                             f"({format_inches(stick['stock_length_mm'] * MM, 16, show_error=False)})  "
-                             f"{stick.get('group', '')}")
+                c.drawString(MARGIN, base + 11 * mm, f"stick {first + i + 1}: {stick.stock_length / MM:.0f} mm "
+                             f"({format_inches(stick.stock_length, 16, show_error=False)})  {stick.group}")
                 c.setLineWidth(0.6)
                 c.setFillColor(colors.white)
-                c.rect(MARGIN, base, stick["stock_length_mm"] * scale, 8 * mm, fill=1)
-                for cut in stick["cuts"]:
-                    x = MARGIN + cut["start_mm"] * scale
+                c.rect(MARGIN, base, stick.stock_length / MM * scale, 8 * mm, fill=1)
+                for cut in stick.cuts:
+                    x = MARGIN + cut.start / MM * scale
                     c.setFillColor(LIGHT)
-                    c.rect(x, base, cut["length_mm"] * scale, 8 * mm, fill=1)
+                    c.rect(x, base, cut.length / MM * scale, 8 * mm, fill=1)
                     c.setFillColor(colors.black)
                     c.setFont("Helvetica", 6.5)
-                    c.drawString(x + 1.5, base + 4.5 * mm, cut["label"][:14])
-                    c.drawString(x + 1.5, base + 1.2 * mm, f"at {cut['start_mm']:.0f}")
+                    c.drawString(x + 1.5, base + 4.5 * mm, cut.label[:14])
+                    c.drawString(x + 1.5, base + 1.2 * mm, f"at {cut.start / MM:.0f}")
                 c.setFont("Helvetica", 6.5)
-                c.drawRightString(MARGIN + stick["stock_length_mm"] * scale, base - 3 * mm,
-                                  f"offcut {stick['offcut_mm']:.0f} mm")
+                c.drawRightString(MARGIN + stick.stock_length / MM * scale, base - 3 * mm,
+                                  f"offcut {stick.offcut / MM:.0f} mm")
         packet.add(draw)
 
 

@@ -147,7 +147,7 @@ def render_wrap_svg(plan, set_plan):
     height = 2 * MARGIN + 60
     dwg = _drawing(width, height)
     x0, y0 = MARGIN, MARGIN + 18
-    _text(dwg, f"{plan.title}: wrap guide for {set_plan.section}", (MARGIN, MARGIN + 3), 4)
+    _text(dwg, f"{plan.title}: wrap guide for {set_plan.section_text}", (MARGIN, MARGIN + 3), 4)
     _text(dwg, "Wrap round the tube at the hang-hole mark, ends meeting at A; mark at A and at B "
                "for two opposite holes.", (MARGIN, MARGIN + 9), 2.5)
     dwg.add(dwg.rect((x0, y0), (circumference + 10, 12), fill="none", stroke="black", stroke_width=HAIRLINE))

@@ -69,15 +69,36 @@ def plan_dict(plan):
         "a4_hz": float(plan.a4),
         "temperament": plan.temperament,
         "sets": [
-            {"name": s.name, "kind": s.kind, "material": s.material, "section": s.section,
+            {"name": s.name, "kind": s.kind, "material": s.material, "section": s.section_text,
              "model": s.model, "assumptions": list(s.assumptions)}
             for s in plan.sets
         ],
         "pieces": [piece_dict(p) for p in plan.pieces],
     }
-    if plan.stock is not None:
-        out["stock"] = plan.stock
+    if plan.cut_list is not None:
+        out["stock"] = cut_list_dict(plan.cut_list)
     return out
+
+
+def cut_list_dict(cut_list):
+    """The cut list in the plan JSON's ``stock`` shape (mm)."""
+    return {
+        "sticks": [
+            {"stock_length_mm": _r(s.stock_length / MM, 2),
+             "cuts": [{"label": c.label, "start_mm": _r(c.start / MM, 2), "length_mm": _r(c.length / MM, 2)}
+                      for c in s.cuts],
+             "offcut_mm": _r(s.offcut / MM, 2), "group": s.group}
+            for s in cut_list.sticks
+        ],
+        "groups": [{"group": g.group, "lower_bound": g.lower_bound, "proven_optimal": g.proven_optimal,
+                    "method": g.method, "cost": g.cost} for g in cut_list.groups],
+        "lower_bound": cut_list.lower_bound,
+        "proven_optimal": cut_list.proven_optimal,
+        "sticks_by_length": [{"stock_length_mm": _r(length / MM, 2), "count": n}
+                             for length, n in cut_list.sticks_by_length],
+        "utilisation_percent": _r(100 * cut_list.utilisation, 1),
+        "cost": cut_list.cost,
+    }
 
 
 def render_json(plan):
@@ -122,21 +143,21 @@ CUTLIST_COLUMNS = (
 )
 
 
-def render_cutlist_csv(stock):
-    """The stock layout as CSV: one row per cut, marks measured from the stick's factory end."""
+def render_cutlist_csv(cut_list):
+    """The cut list as CSV: one row per cut, marks measured from the stick's factory end."""
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator="\n")
     writer.writerow(CUTLIST_COLUMNS)
-    for i, stick in enumerate(stock["sticks"], start=1):
-        length = stick["stock_length_mm"] * MM
-        for k, c in enumerate(stick["cuts"], start=1):
-            start, size = c["start_mm"] * MM, c["length_mm"] * MM
+    for i, stick in enumerate(cut_list.sticks, start=1):
+        length = stick.stock_length
+        for k, c in enumerate(stick.cuts, start=1):
+            start, size = c.start, c.length
             writer.writerow([
-                i, stick.get("group", ""), f"{length / MM:.1f}", format_inches(length, 16, show_error=False), k,
-                c["label"], f"{start / MM:.1f}", format_inches(start, 32, show_error=False), f"{size / MM:.1f}",
+                i, stick.group, f"{length / MM:.1f}", format_inches(length, 16, show_error=False), k,
+                c.label, f"{start / MM:.1f}", format_inches(start, 32, show_error=False), f"{size / MM:.1f}",
                 format_inches(size, 32, show_error=False), f"{(start + size) / MM:.1f}",
                 format_inches(start + size, 32, show_error=False),
             ])
-        writer.writerow([i, stick.get("group", ""), f"{length / MM:.1f}", format_inches(length, 16, show_error=False),
-                         "offcut", "", "", "", f"{stick['offcut_mm']:.1f}", "", "", ""])
+        writer.writerow([i, stick.group, f"{length / MM:.1f}", format_inches(length, 16, show_error=False),
+                         "offcut", "", "", "", f"{stick.offcut / MM:.1f}", "", "", ""])
     return buf.getvalue()

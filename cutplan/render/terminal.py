@@ -33,7 +33,7 @@ def render_table(plan, units=None):
     unit_head = "in (mm)" if units == "in" else "mm (in)"
     out = [plan.title, "=" * len(plan.title), f"A4 = {plan.a4:g} Hz, {plan.temperament} temperament", ""]
     for s in plan.sets:
-        out.append(f"{s.name}: {len(s.pieces)} x {s.kind}, {s.material}, {s.section}")
+        out.append(f"{s.name}: {len(s.pieces)} x {s.kind}, {s.material}, {s.section_text}")
         for a in s.assumptions:
             out.append(f"  {a}")
         node_head = "hang hole from top" if s.kind == "chime" else "supports from end" if s.kind == "bar" else ""
@@ -65,33 +65,31 @@ def render_table(plan, units=None):
             for w in p.warnings:
                 out.append(f"  ! {p.label}: {w}")
         out.append("")
-    if plan.stock is not None:
-        out.extend(render_stock(plan.stock, units))
+    if plan.cut_list is not None:
+        out.extend(render_stock(plan.cut_list, units))
         out.append("")
     out.append(SAFETY_LINE)
     return "\n".join(out) + "\n"
 
 
-def render_stock(stock, units="mm"):
+def render_stock(cut_list, units="mm"):
     """The cut list on stock: one block per stick with the marks measured from its end."""
-    status = "proven optimal" if stock.get("proven_optimal") else "best found, not proven optimal"
+    status = "proven optimal" if cut_list.proven_optimal else "best found, not proven optimal"
     out = [f"Cut list on stock ({status}; marks measured from the stick's factory end)"]
     group = None
-    for i, stick in enumerate(stock["sticks"], start=1):
-        if stick.get("group") != group:
-            group = stick.get("group")
+    for i, stick in enumerate(cut_list.sticks, start=1):
+        if stick.group != group:
+            group = stick.group
             out.append(f"  {group}:")
-        out.append(f"    stick {i}, {_length(stick['stock_length_mm'] * MM, units)}:")
-        for c in stick["cuts"]:
-            end = (c["start_mm"] + c["length_mm"]) * MM
-            out.append(f"      {c['label']:<12} from {_length(c['start_mm'] * MM, units):>22} "
-                       f"to {_length(end, units):>22}  ({_length(c['length_mm'] * MM, units)})")
-        out.append(f"      offcut {_length(stick['offcut_mm'] * MM, units)}")
-    by_length = ", ".join(f"{x['count']} x {_length(x['stock_length_mm'] * MM, units)}"
-                          for x in stock.get("sticks_by_length", []))
-    out.append(f"  sticks: {by_length}; lower bound {stock['lower_bound']}; "
-               f"utilisation {stock.get('utilisation_percent', 0):.1f} %"
-               + (f"; cost {stock['cost']:.2f}" if stock.get("cost") is not None else ""))
+        out.append(f"    stick {i}, {_length(stick.stock_length, units)}:")
+        for c in stick.cuts:
+            out.append(f"      {c.label:<12} from {_length(c.start, units):>22} "
+                       f"to {_length(c.start + c.length, units):>22}  ({_length(c.length, units)})")
+        out.append(f"      offcut {_length(stick.offcut, units)}")
+    by_length = ", ".join(f"{n} x {_length(length, units)}" for length, n in cut_list.sticks_by_length)
+    out.append(f"  sticks: {by_length}; lower bound {cut_list.lower_bound}; "
+               f"utilisation {100 * cut_list.utilisation:.1f} %"
+               + (f"; cost {cut_list.cost:.2f}" if cut_list.cost is not None else ""))
     return out
 
 

@@ -1,0 +1,133 @@
+"""Lay a plan's pieces on the stock on hand: the plan's cut list, in SI.
+
+Pieces are grouped by section and stock table (one group per set's section, or per set with
+its own ``[set.stock]``); each group is laid out by the pure optimiser in :mod:`cutplan.stock`.
+The cut lengths are the pieces' own ``cut_length`` floats, so every renderer formats the same
+number the plan table shows.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from cutplan import stock as optimiser
+
+
+@dataclass(frozen=True)
+class Cut:
+    """One cut on a stick: the piece's label, start from the stick's factory end [m], length [m]."""
+
+    label: str
+    start: float
+    length: float
+
+
+@dataclass(frozen=True)
+class PlacedStick:
+    """A stick of stock with its cuts in order from the factory end, and what is left [m]."""
+
+    stock_length: float
+    cuts: tuple
+    offcut: float
+    group: str = ""
+    price: float | None = None
+
+
+@dataclass(frozen=True)
+class CutGroup:
+    """The layout of one group of pieces that share a section and a stock table."""
+
+    group: str
+    sticks: tuple
+    lower_bound: int
+    proven_optimal: bool
+    method: str
+    cost: float | None = None
+    kerf: float = 0.0
+    end_trim: float = 0.0
+
+
+@dataclass(frozen=True)
+class CutList:
+    """Every stick of every group; totals over the groups."""
+
+    groups: tuple
+    notes: tuple = field(default=())
+
+    @property
+    def sticks(self):
+        """All sticks, group by group."""
+        return tuple(s for g in self.groups for s in g.sticks)
+
+    @property
+    def lower_bound(self):
+        """Fewest sticks any layout can use [-] (sum of the groups' bounds)."""
+        return sum(g.lower_bound for g in self.groups)
+
+    @property
+    def proven_optimal(self):
+        """Whether every group's layout is proven optimal."""
+        return all(g.proven_optimal for g in self.groups)
+
+    @property
+    def cost(self):
+        """Total price of the sticks, or None when any group has no prices."""
+        costs = [g.cost for g in self.groups]
+        return None if any(c is None for c in costs) else float(sum(costs))
+
+    @property
+    def utilisation(self):
+        """Fraction of the stock length that ends up in pieces [-]."""
+        total = sum(s.stock_length for s in self.sticks)
+        used = sum(c.length for s in self.sticks for c in s.cuts)
+        return used / total if total else 0.0
+
+    @property
+    def sticks_by_length(self):
+        """((stock length [m], count), ...) in order of length."""
+        counts = {}
+        for s in self.sticks:
+            counts[s.stock_length] = counts.get(s.stock_length, 0) + 1
+        return tuple(sorted(counts.items()))
+
+
+def stock_groups(sets, specs, design_stock, override=None):
+    """{group name: (StockSpec, [pieces])} for the sets whose stock lists lengths."""
+    groups = {}
+    for s in sets:
+        spec = specs[s.name]
+        stock = override or spec.stock or design_stock
+        if stock is None or not stock.lengths:
+            continue
+        own = spec.stock is not None and override is None
+        key = (s.section_text, s.name if own else "")
+        groups.setdefault(key, (stock, []))[1].extend(s.pieces)
+    texts = [text for text, _ in groups]
+    # a set with its own stock joins the name only where two groups would read the same
+    return {(text if texts.count(text) == 1 else f"{text} ({owner or 'shared stock'})"): value
+            for (text, owner), value in groups.items()}
+
+
+def lay_out(sets, specs, design_stock, override=None, time_limit=optimiser.DEFAULT_TIME_LIMIT):
+    """The CutList of planned sets, or None when no set has stock lengths.
+
+    Raises :class:`cutplan.stock.StockError` naming the group when stock runs out.
+    """
+    groups = stock_groups(sets, specs, design_stock, override)
+    if not groups:
+        return None
+    out = []
+    for name, (stock, pieces) in groups.items():
+        items = [optimiser.Item(p.label, p.cut_length) for p in pieces]
+        types = [optimiser.StockType(x.length, x.count, x.price) for x in stock.lengths]
+        try:
+            result = optimiser.layout(items, types, stock.kerf, stock.end_trim, time_limit)
+        except optimiser.StockError as exc:
+            raise optimiser.StockError(f"{name}: {exc}") from None
+        sticks = tuple(
+            PlacedStick(s.stock_length, tuple(Cut(lab, start, length) for lab, start, length in s.cuts),
+                        s.offcut, name, s.price)
+            for s in result.sticks)
+        out.append(CutGroup(name, sticks, result.lower_bound, bool(result.proven_optimal), result.method,
+                            result.cost, stock.kerf, stock.end_trim))
+    return CutList(tuple(out))
