@@ -110,9 +110,9 @@ def test_too_thin_a_centre_is_a_design_error(tmp_path):
 
 
 def test_progress_is_shown_for_many_bars_on_a_terminal(monkeypatch):
-    import cutplan.cli
+    import cutplan.cli.common
 
-    monkeypatch.setattr(cutplan.cli, "_wants_progress", lambda: True)
+    monkeypatch.setattr(cutplan.cli.common, "_wants_progress", lambda: True)
     result = CliRunner().invoke(cli, ["plan", str(ROOT / "examples" / "music-room-marimba.toml")])
     assert "solving arched bars" in result.output
 

@@ -1,0 +1,35 @@
+"""The ``cutplan`` command line: parse arguments, call one function, render. Nothing else.
+
+Commands live in :mod:`cutplan.cli.plans`, :mod:`cutplan.cli.pieces` and :mod:`cutplan.cli.shop`;
+what they share is in :mod:`cutplan.cli.common`. Heavy modules (numpy, scipy, reportlab) are
+imported inside the commands that use them so that ``cutplan --help`` starts fast.
+"""
+
+from __future__ import annotations
+
+import click
+
+from cutplan import __version__
+from cutplan.cli import pieces, plans, shop
+
+
+@click.group(context_settings={"help_option_names": ["-h", "--help"]})
+@click.version_option(__version__, prog_name="cutplan")
+def cli():
+    """Cut plans for hand-built tuned percussion: chimes, bars, air columns, resonators.
+
+    \b
+    Start with a design file:
+      cutplan new chime porch.toml
+      cutplan plan porch.toml -o porch-packet
+    """
+
+
+for _command in (plans.plan_command, plans.cutlist_command, pieces.scale_command, pieces.materials_command,
+                 pieces.length_command, pieces.new_command, shop.measure_command, shop.calibrate_command,
+                 shop.trim_command, shop.listen_command):
+    cli.add_command(_command)
+
+
+def main():  # pragma: no cover - console entry point
+    cli()

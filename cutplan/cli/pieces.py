@@ -1,0 +1,134 @@
+"""Commands about notes, materials and single pieces: ``scale``, ``materials``, ``length``, ``new``."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import click
+
+from cutplan.cli.common import (
+    MATERIALS_OPTION,
+    _one_piece_design,
+    _plan,
+    fail,
+    section_options,
+    write_file,
+)
+
+
+@click.command("scale")
+@click.argument("spec")
+@click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
+@click.option("--temperament", default="equal", show_default=True,
+              help='"equal", "equal-N", "just" or "pythagorean" (just/pythagorean relative to the root).')
+def scale_command(spec, a4, temperament):
+    """List the notes and frequencies of a scale.
+
+    \b
+    SPEC is "ROOT SCALE [COUNT]" or "LOW..HIGH [SCALE]". Examples:
+      cutplan scale "D5 major-pentatonic 5"
+      cutplan scale "C4..C5 major" --temperament just
+    """
+    from cutplan import pitch
+
+    if not 400 <= a4 <= 480:
+        fail(f"--a4: {a4} must be between 400 and 480 Hz")
+    try:
+        targets = pitch.spec_targets(spec, temperament, a4)
+    except pitch.PitchError as exc:
+        fail(f"scale: {exc.text!r} is not {exc.accepted}")
+    click.echo(f"{'note':6} {'Hz':>10} {'cents from ET':>14}")
+    for t in targets:
+        name, off = pitch.nearest_note(t.frequency, a4)
+        click.echo(f"{t.name:6} {t.frequency:10.3f} {off:+14.2f}")
+
+
+@click.command("materials")
+@click.argument("name", required=False)
+@MATERIALS_OPTION
+def materials_command(name, materials_dirs):
+    """List materials and stock sizes with their sources, or show one.
+
+    \b
+    Examples:
+      cutplan materials
+      cutplan materials maple-sugar
+      cutplan materials pvc-sch40-2
+    """
+    from cutplan.materials import MaterialError, load_library
+
+    try:
+        lib = load_library(materials_dirs)
+    except MaterialError as exc:
+        fail(str(exc))
+    from cutplan.render.terminal import render_library, render_library_entry
+
+    text = render_library(lib) if name is None else render_library_entry(lib, name)
+    if text is None:
+        fail(f"materials: {name!r} is not a material or stock size; run `cutplan materials` to list them")
+    click.echo(text, nl=False)
+
+
+@click.command("length")
+@click.option("--kind", type=click.Choice(["chime", "bar", "air-column"]), default="chime", show_default=True,
+              help="What the piece is.")
+@click.option("--note", help='Target note, e.g. "D5".')
+@click.option("--frequency", type=float, help="Target frequency in Hz (instead of --note).")
+@click.option("--material", help="Material name (chime/bar), from `cutplan materials`.")
+@section_options
+@click.option("--ends", type=click.Choice(["open-open", "closed-open"]), default="open-open", show_default=True,
+              help="Air column ends.")
+@click.option("--temperature", default="20 C", show_default=True, help="Air temperature for air columns.")
+@click.option("--model", type=click.Choice(["timoshenko", "slender"]), default="timoshenko", show_default=True,
+              help="Beam model for chimes and bars.")
+@click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
+def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_size, ends, temperature, model, a4):
+    """Length and hang point of one piece, without a design file.
+
+    \b
+    Examples:
+      cutplan length --note D5 --stock al-1.000x0.065
+      cutplan length --kind bar --note C5 --material maple-sugar --bar "40 mm x 20 mm"
+      cutplan length --kind air-column --note A4 --stock pvc-sch40-1 --ends closed-open
+    """
+    if (note is None) == (frequency is None):
+        fail("length: give exactly one of --note or --frequency")
+    des = _one_piece_design("length", kind, note, frequency, material, stock_name, tube, rod, bar_size,
+                            ends, temperature, model, a4)
+    the_plan = _plan(des)
+    from cutplan.units import format_length
+
+    p = the_plan.pieces[0]
+    click.echo(f"{p.note}: {p.target_hz:.2f} Hz, {the_plan.sets[0].section}, {p.model}")
+    click.echo(f"  length      {format_length(p.length)}")
+    for i, x in enumerate(p.nodes, start=1):
+        what = "hang hole" if kind == "chime" else "support"
+        click.echo(f"  {what} {i}  {format_length(x)} from the end")
+    click.echo(f"  trimming    {p.cents_per_mm:.2f} cents per mm")
+    if kind != "air-column":
+        click.echo(f"  shear correction {p.shear_correction_cents:+.1f} cents against the slender model")
+    for w in p.warnings:
+        click.echo(f"  ! {w}")
+
+
+@click.command("new")
+@click.argument("kind", type=click.Choice(["chime", "bar", "air-column"]))
+@click.argument("file", required=False, type=click.Path(dir_okay=False))
+@click.option("--force", is_flag=True, help="Overwrite FILE if it exists.")
+def new_command(kind, file, force):
+    """Write a commented starter design file for KIND (to FILE or the screen).
+
+    \b
+    Example:
+      cutplan new chime porch.toml
+    """
+    from cutplan.starters import STARTERS
+
+    text = STARTERS[kind]
+    if file is None:
+        click.echo(text, nl=False)
+        return
+    if Path(file).exists() and not force:
+        fail(f"{file}: already exists; use --force to overwrite it")
+    write_file(file, text)
+    click.echo(f"wrote {file}; next: cutplan plan {file}", err=True)

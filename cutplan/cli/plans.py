@@ -1,0 +1,96 @@
+"""Commands that plan a whole design: ``plan`` and ``cutlist``."""
+
+from __future__ import annotations
+
+import click
+
+from cutplan.cli.common import (
+    MATERIALS_OPTION,
+    _check_output_dir,
+    _load,
+    _packet_files,
+    _parse_stock_option,
+    _plan,
+    fail,
+    write_file,
+)
+
+
+@click.command("plan")
+@click.argument("design", type=click.Path(dir_okay=False))
+@click.option("-o", "--output", type=click.Path(), help="Folder to write plan.csv, plan.json and the shop packet.")
+@click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
+@click.option("--format", "fmt", type=click.Choice(["table", "csv", "json"]), default="table",
+              show_default=True, help="What to print.")
+@click.option("--paper", type=click.Choice(["letter", "a4"]), help="Paper size of the PDF (default: the design's).")
+@click.option("--force", is_flag=True, help="Overwrite files in a non-empty output folder.")
+@MATERIALS_OPTION
+def plan_command(design, output, units, fmt, paper, force, materials_dirs):
+    """Plan every piece of DESIGN: lengths, cut lengths, nodes, partials.
+
+    \b
+    Example:
+      cutplan plan examples/porch-chimes.toml
+      cutplan plan examples/porch-chimes.toml --format json
+      cutplan plan examples/porch-chimes.toml -o porch-packet
+    """
+    out = _check_output_dir(output, force) if output else None
+    des, _lib = _load(design, materials_dirs)
+    the_plan = _plan(des)
+    from cutplan.render.table import render_csv, render_cutlist_csv, render_json
+    from cutplan.render.terminal import render_table
+
+    if fmt == "json":
+        click.echo(render_json(the_plan), nl=False)
+    elif fmt == "csv":
+        click.echo(render_csv(the_plan), nl=False)
+    else:
+        click.echo(render_table(the_plan, units), nl=False)
+    if out is not None:
+        files = {"plan.csv": render_csv(the_plan), "plan.json": render_json(the_plan)}
+        if the_plan.cut_list is not None:
+            files["cutlist.csv"] = render_cutlist_csv(the_plan.cut_list)
+        files.update(_packet_files(the_plan, paper))
+        for name, data in files.items():
+            write_file(out / name, data)
+        click.echo(f"wrote {len(files)} files to {out}", err=True)
+
+
+@click.command("cutlist")
+@click.argument("design", type=click.Path(dir_okay=False))
+@click.option("--stock", "stock_texts", multiple=True,
+              help='What-if stock instead of the design\'s: "LENGTH [x COUNT] [@ PRICE]", e.g. "10 ft x 3" (repeatable).')
+@click.option("--kerf", default="1/16 in", show_default=True, help="Saw kerf, with --stock.")
+@click.option("--end-trim", default="1/8 in", show_default=True, help="Squaring cut at the factory end, with --stock.")
+@click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
+@click.option("--format", "fmt", type=click.Choice(["table", "csv", "json"]), default="table", show_default=True,
+              help="What to print.")
+@MATERIALS_OPTION
+def cutlist_command(design, stock_texts, kerf, end_trim, units, fmt, materials_dirs):
+    """Lay the pieces of DESIGN out on stock: marks from each stick's end, offcuts, totals.
+
+    \b
+    Examples:
+      cutplan cutlist examples/porch-chimes.toml
+      cutplan cutlist examples/porch-chimes.toml --stock "6 ft x 4" --stock "10 ft @ 14.5"
+    """
+    import json
+
+    des, _lib = _load(design, materials_dirs)
+    override = _parse_stock_option(stock_texts, kerf, end_trim) if stock_texts else None
+    the_plan = _plan(des, override)
+    if the_plan.cut_list is None:
+        fail(f"{design}: stock: the design has no [stock] lengths; add them or use --stock \"8 ft x 2\"")
+    if fmt == "json":
+        from cutplan.render.table import cut_list_dict
+
+        click.echo(json.dumps(cut_list_dict(the_plan.cut_list), indent=2))
+        return
+    if fmt == "csv":
+        from cutplan.render.table import render_cutlist_csv
+
+        click.echo(render_cutlist_csv(the_plan.cut_list), nl=False)
+        return
+    from cutplan.render.terminal import render_stock
+
+    click.echo("\n".join(render_stock(the_plan.cut_list, units or the_plan.units)))

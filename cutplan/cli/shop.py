@@ -1,0 +1,302 @@
+"""Commands for the bench: ``measure``, ``calibrate``, ``trim``, ``listen``."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import click
+
+from cutplan.cli.common import (
+    MATERIALS_OPTION,
+    _check_output_dir,
+    _load,
+    _one_piece_design,
+    _plan,
+    fail,
+    section_options,
+    write_file,
+)
+
+MEASURE_KINDS = ["chime", "bar", "air-column", "open-open", "closed-open"]
+
+
+def _measure_file(recording, kind, near_hz, ratios=None):
+    """Measurement of a WAV file, or exit 2 with one line saying why it cannot be used."""
+    from cutplan.audio.analysis import measure
+    from cutplan.audio.wav import RecordingError, read_wav
+
+    try:
+        samples, rate = read_wav(recording)
+        return measure(samples, rate, kind, near_hz, ratios)
+    except RecordingError as exc:
+        fail(f"{recording}: {exc}")
+
+
+@click.command("measure")
+@click.argument("recording", required=False, type=click.Path(dir_okay=False))
+@click.option("--frequency", type=float, help="A frequency read from a tuner instead of a recording [Hz].")
+@click.option("--kind", type=click.Choice(MEASURE_KINDS), default="chime", show_default=True,
+              help="What was struck: sets the pattern of partials used to name the fundamental.")
+@click.option("--near", help='Expected note, e.g. "D5": only fundamentals within half an octave are considered.')
+@click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
+@click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text", show_default=True,
+              help="What to print.")
+def measure_command(recording, frequency, kind, near, a4, fmt):
+    """Measure the pitch and partials of a struck piece from a WAV recording.
+
+    \b
+    Examples:
+      cutplan measure porch-1.wav --near D5
+      cutplan measure pipe.wav --kind closed-open --format json
+      cutplan measure --frequency 583.1
+    """
+    import json
+
+    from cutplan import pitch
+
+    if (recording is None) == (frequency is None):
+        fail("measure: give a RECORDING or --frequency (one of them)")
+    near_hz = None
+    if near:
+        try:
+            near_hz = pitch.note_frequency(near, a4)
+        except pitch.PitchError as exc:
+            fail(f"--near: {exc.text!r} is not {exc.accepted}")
+    if frequency is not None:
+        if not 10 <= frequency <= 30000:
+            fail(f"--frequency: {frequency} must be between 10 and 30000 Hz")
+        fundamental, partials, confidence = frequency, [frequency], 1.0
+    else:
+        m = _measure_file(recording, kind, near_hz)
+        fundamental, partials, confidence = m.fundamental_hz, list(m.partials_hz), m.confidence
+    name, off = pitch.nearest_note(fundamental, a4)
+    if fmt == "json":
+        click.echo(json.dumps({"fundamental_hz": round(fundamental, 4), "note": name, "cents": off,
+                               "partials_hz": [round(f, 3) for f in partials], "confidence": confidence}))
+        return
+    click.echo(f"fundamental {fundamental:.3f} Hz = {name} {off:+.2f} cents (confidence {confidence:.2f})")
+    if len(partials) > 1:
+        click.echo("partials: " + ", ".join(f"{f:.1f}" for f in partials) + " Hz")
+
+
+def _parse_pieces(texts, kind, near_hz=None):
+    """[(length m, frequency Hz, harmonic)] from --piece "LENGTH @ FREQ-or-WAV [#N]"."""
+    import re
+
+    from cutplan.units import UnitError, parse_length
+
+    out = []
+    for text in texts:
+        match = re.fullmatch(r"\s*(.+?)\s*@\s*(.+?)\s*(?:#\s*(\d+))?\s*", text)
+        if not match:
+            fail(f'--piece: {text!r} must be "LENGTH @ FREQUENCY" or "LENGTH @ RECORDING.wav", e.g. "503 mm @ 591.2"')
+        try:
+            length = parse_length(match.group(1))
+        except UnitError as exc:
+            fail(f"--piece: {match.group(1)!r} is not {exc.accepted}")
+        what = match.group(2)
+        try:
+            freq = float(what)
+        except ValueError:
+            if not Path(what).is_file():
+                fail(f"--piece: {what!r} is neither a frequency in Hz nor a WAV file")
+            freq = _measure_file(what, kind, near_hz).fundamental_hz
+        if not (length > 0 and freq > 0):
+            fail(f"--piece: {text!r}: length and frequency must be positive")
+        out.append((length, freq, int(match.group(3) or 1)))
+    return out
+
+
+@click.command("calibrate")
+@click.option("--kind", type=click.Choice(["chime", "bar", "air-column"]), default="chime", show_default=True,
+              help="What the test pieces are.")
+@click.option("--piece", "pieces", multiple=True,
+              help='A test piece: "LENGTH @ FREQUENCY" or "LENGTH @ RECORDING.wav" (repeatable); '
+                   'for air columns add "#N" for the N-th resonance.')
+@click.option("--material", help="The table material the pieces started from (chime/bar).")
+@section_options
+@click.option("--model", type=click.Choice(["timoshenko", "slender"]), default="timoshenko", show_default=True,
+              help="Beam model to fit with (use the one you plan with).")
+@click.option("--ends", type=click.Choice(["open-open", "closed-open"]), default="closed-open", show_default=True,
+              help="Air column ends.")
+@click.option("--temperature", default="20 C", show_default=True, help="Air temperature during the measurement.")
+@click.option("--fit", "fit_what", type=click.Choice(["auto", "speed", "end-correction", "both"]), default="auto",
+              show_default=True, help="Air columns: what to fit (auto: both with two or more lengths).")
+@click.option("--two-resonance", "two_res", help='Air: "L1, L2 @ FREQUENCY", the first two resonance depths of a closed tube.')
+@click.option("--name", help="Name of the calibrated material (default: MATERIAL-calibrated).")
+@click.option("-o", "--output", type=click.Path(dir_okay=False), help="Write the calibrated material TOML here.")
+@click.option("--force", is_flag=True, help="Overwrite --output if it exists.")
+def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, model, ends, temperature,
+                      fit_what, two_res, name, output, force):
+    """Fit material or air-column constants from measured test pieces.
+
+    \b
+    Examples:
+      cutplan calibrate --material aluminum-6063-t5 --stock al-1.000x0.065 \\
+          --piece "503.9 mm @ 591.2" -o my-materials/al-tube.toml
+      cutplan calibrate --kind air-column --stock pvc-sch40-1 --piece "190 mm @ 426.7" --fit speed
+      cutplan calibrate --kind air-column --two-resonance "160 mm, 495 mm @ 512"
+    """
+    if kind == "air-column":
+        _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res)
+        return
+    if not pieces:
+        fail("calibrate: give at least one --piece")
+    if not material:
+        fail("calibrate: --material is needed: the table material the test pieces are made of")
+    from cutplan.calibrate import calibrated_material_toml, fit_beam
+    from cutplan.planner import beam_frequency_function
+
+    des = _one_piece_design("calibrate", kind, None, 440.0, material, stock_name, tube, rod, bar_size, model=model)
+    spec = des.sets[0]
+    measured = _parse_pieces(pieces, kind)
+    f_table = beam_frequency_function(spec.material, spec.section, model)
+    fit = fit_beam([(length, f) for length, f, _ in measured], f_table)
+    click.echo(f"{len(measured)} test piece(s) of {material}, {spec.section.describe()}, {model} model")
+    for (length, f, _), pred, res in zip(measured, fit.predicted_hz, fit.residuals_cents, strict=True):
+        click.echo(f"  {length * 1000:8.1f} mm: measured {f:9.3f} Hz, table predicts {pred:9.3f} Hz, "
+                   f"residual after fit {res:+.2f} cents")
+    e_table = spec.material.modulus_for(model)
+    click.echo(f"effective modulus {e_table * fit.scale / 1e9:.3f} GPa against the table's {e_table / 1e9:.3f} GPa "
+               f"({fit.change_percent:+.2f} %); sqrt(E/rho) = "
+               f"{(e_table * fit.scale / spec.material.density) ** 0.5:.1f} m/s")
+    name = name or f"{material}-calibrated"
+    text = calibrated_material_toml(name, spec.material, model, fit.scale, fit.spread,
+                                    measured, fit.residuals_cents, spec.section.describe())
+    if output is None:
+        click.echo("\n" + text, nl=False)
+        return
+    if Path(output).exists() and not force:
+        fail(f"{output}: already exists; use --force to overwrite it")
+    write_file(output, text)
+    click.echo(f"wrote {output}; plan with material = \"{name}\" and --materials {Path(output).parent or '.'}")
+
+
+def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res):
+    from cutplan.calibrate import CalibrationError, fit_air_column_choice
+    from cutplan.physics import air_column
+    from cutplan.units import UnitError, parse_length, parse_temperature
+
+    try:
+        kelvin = parse_temperature(temperature)
+    except UnitError as exc:
+        fail(f"--temperature: {exc.text!r} is not {exc.accepted}")
+    speed_t = air_column.speed_of_sound(kelvin)
+    if two_res:
+        import re
+
+        match = re.fullmatch(r"\s*(.+?)\s*,\s*(.+?)\s*@\s*([0-9.]+)\s*", two_res)
+        if not match:
+            fail(f'--two-resonance: {two_res!r} must be "L1, L2 @ FREQUENCY", e.g. "160 mm, 495 mm @ 512"')
+        try:
+            l1, l2 = parse_length(match.group(1)), parse_length(match.group(2))
+        except UnitError as exc:
+            fail(f"--two-resonance: {exc.text!r} is not {exc.accepted}")
+        try:
+            speed, corr = air_column.two_resonance(float(match.group(3)), l1, l2)
+        except ValueError as exc:
+            fail(f"--two-resonance: {exc}")
+        click.echo(f"speed of sound {speed:.1f} m/s (expected {speed_t:.1f} m/s at {temperature}); "
+                   f"end correction {corr * 1000:.1f} mm")
+        if corr < 0:
+            click.echo("! a negative end correction means the two readings disagree; measure again")
+        return
+    if not pieces:
+        fail("calibrate: give --piece or --two-resonance")
+    measured = _parse_pieces(pieces, ends)
+    radius = None
+    if stock_name or tube:
+        des = _one_piece_design("calibrate", "air-column", None, 440.0, None, stock_name, tube, None, None,
+                                ends=ends, temperature=temperature)
+        radius = des.sets[0].section.air_radius
+    try:
+        fit = fit_air_column_choice(measured, ends, fit_what, speed_t, radius)
+    except CalibrationError as exc:
+        fail(f"calibrate: {exc}")
+    click.echo(f"speed of sound {fit.speed:.1f} m/s (table {speed_t:.1f} m/s at {temperature}); "
+               f"end correction {fit.end_correction * 1000:.2f} mm per open end"
+               + (f" = {fit.end_correction / radius:.3f} x inner radius" if radius else ""))
+    for (length, f, n), res in zip(measured, fit.residuals_cents, strict=True):
+        click.echo(f"  {length * 1000:8.1f} mm, resonance {n} at {f:.2f} Hz: residual {res:+.2f} cents")
+    if radius:
+        click.echo(f'use it in a design with end_correction = {fit.end_correction / radius:.3f}')
+
+
+@click.command("trim")
+@click.argument("design", type=click.Path(dir_okay=False))
+@click.argument("label")
+@click.option("--measured", type=float, help="Frequency the piece sounds now [Hz] (from a tuner).")
+@click.option("--recording", type=click.Path(dir_okay=False), help="Or a WAV recording of the piece.")
+@click.option("--length-now", help="Length of the piece now (default: its cut length on the cut sheet).")
+@MATERIALS_OPTION
+def trim_command(design, label, measured, recording, length_now, materials_dirs):
+    """How much to trim a piece, and from which end, to bring it to pitch.
+
+    \b
+    Examples:
+      cutplan trim examples/porch-chimes.toml porch-1 --measured 583.1
+      cutplan trim examples/porch-chimes.toml porch-1 --recording porch-1.wav --length-now "505 mm"
+    """
+    from cutplan.calibrate import CalibrationError, trim_advice
+    from cutplan.planner import piece_frequency_function
+    from cutplan.units import UnitError, format_length, parse_length
+
+    if (measured is None) == (recording is None):
+        fail("trim: give --measured or --recording (one of them)")
+    des, _lib = _load(design, materials_dirs)
+    the_plan = _plan(des)
+    pieces = {p.label: p for p in the_plan.pieces}
+    if label not in pieces:
+        fail(f"trim: {label!r} is not a piece of {design}; labels are {', '.join(list(pieces)[:8])}...")
+    piece = pieces[label]
+    spec = next(s for s in des.sets if s.name == piece.set)
+    f_at = piece_frequency_function(spec, piece)
+    if recording:
+        kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
+        planned = [f / piece.partials_hz[0] for f in piece.partials_hz]
+        measured = _measure_file(recording, kind, piece.target_hz, planned).fundamental_hz
+    now = None
+    if length_now:
+        try:
+            now = parse_length(length_now)
+        except UnitError as exc:
+            fail(f"--length-now: {exc.text!r} is not {exc.accepted}")
+    try:
+        advice = trim_advice(piece, f_at, measured, now)
+    except CalibrationError as exc:
+        fail(f"trim: {exc}")
+    click.echo(f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {measured:.2f} Hz "
+               f"at {format_length(advice.length_now)}")
+    click.echo(f"  length for the target: {format_length(advice.length_needed)}")
+    click.echo(f"  {advice.action}")
+    if piece.nodes and advice.remove > 0:
+        fractions = [x / piece.length for x in piece.nodes]
+        click.echo("  if not yet drilled, hang/support points for the trimmed length: "
+                   + ", ".join(format_length(f * advice.length_needed) for f in fractions) + " from the top/reference end")
+
+
+@click.command("listen")
+@click.argument("design", type=click.Path(dir_okay=False))
+@click.option("-o", "--output", required=True, type=click.Path(), help="Folder for the WAV files.")
+@click.option("--strike-at", type=click.FloatRange(0.0, 0.5), default=0.1, show_default=True,
+              help="Strike point as a fraction of the length from the end (chimes and bars).")
+@click.option("--force", is_flag=True, help="Overwrite files in a non-empty output folder.")
+@MATERIALS_OPTION
+def listen_command(design, output, strike_at, force, materials_dirs):
+    """Hear the set before cutting: one WAV per piece and the whole set as an arpeggio.
+
+    \b
+    Example:
+      cutplan listen examples/porch-chimes.toml -o porch-sounds
+    """
+    from cutplan.audio.synth import RATE, arpeggio, piece_preview
+    from cutplan.audio.wav import wav_bytes
+
+    out = _check_output_dir(output, force)
+    des, _lib = _load(design, materials_dirs)
+    the_plan = _plan(des)
+    for p in the_plan.pieces:
+        write_file(out / f"{p.label}.wav", wav_bytes(piece_preview(p, strike_at=strike_at), RATE))
+    for s in the_plan.sets:
+        write_file(out / f"{s.name}-arpeggio.wav", wav_bytes(arpeggio(s.pieces, strike_at=strike_at), RATE))
+    click.echo(f"wrote {len(the_plan.pieces) + len(the_plan.sets)} WAV files to {out}")
