@@ -1,0 +1,53 @@
+"""Plausible ranges of stiffness and density by class of material, to catch unit slips.
+
+A modulus typed as "68.9 MPa" instead of GPa, or a density of "2700 g/cm3", still parses; these
+ranges turn such slips into a clear error. They are deliberately wide (common practice, checked
+against the handbook values in ``materials/``): every tabled material sits well inside its class.
+"""
+
+from __future__ import annotations
+
+CLASS_RANGES = {
+    # class: ((E low, E high) [Pa], (density low, high) [kg/m^3])
+    "metal": ((10e9, 450e9), (1500.0, 22000.0)),
+    "wood": ((1e9, 35e9), (150.0, 1400.0)),
+    "plastic": ((0.1e9, 12e9), (800.0, 2300.0)),
+    "glass": ((40e9, 130e9), (2000.0, 6500.0)),
+}
+"""Ranges per class of material (common practice; wide enough for every tabled material)."""
+
+ANY_RANGE = ((0.1e9, 450e9), (150.0, 22000.0))
+"""Range for a material of unknown class: the union of the classes."""
+
+
+def modulus_range(material_class=None):
+    """(low, high) Young's modulus [Pa] plausible for a class ("metal", "wood", ...) or any.
+
+    >>> modulus_range("wood")
+    (1000000000.0, 35000000000.0)
+    """
+    return CLASS_RANGES.get(material_class, ANY_RANGE)[0]
+
+
+def density_range(material_class=None):
+    """(low, high) density [kg/m^3] plausible for a class, or for any material."""
+    return CLASS_RANGES.get(material_class, ANY_RANGE)[1]
+
+
+def problems(modulus, density, material_class=None):
+    """Lines saying which of ``modulus`` [Pa] and ``density`` [kg/m^3] is implausible (empty: fine).
+
+    >>> problems(68.9e6, 2700.0, "metal")
+    ['modulus 0.0689 GPa is outside 10-450 GPa, plausible for metal (a unit slip? GPa, not MPa)']
+    """
+    out = []
+    what = material_class or "any material"
+    lo, hi = modulus_range(material_class)
+    if not lo <= modulus <= hi:
+        out.append(f"modulus {modulus / 1e9:.3g} GPa is outside {lo / 1e9:g}-{hi / 1e9:g} GPa, plausible for "
+                   f"{what} (a unit slip? GPa, not MPa)")
+    lo, hi = density_range(material_class)
+    if not lo <= density <= hi:
+        out.append(f"density {density:.4g} kg/m3 is outside {lo:g}-{hi:g} kg/m3, plausible for {what} "
+                   "(a unit slip? kg/m3, not g/cm3)")
+    return out
