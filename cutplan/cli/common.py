@@ -163,15 +163,6 @@ def _one_piece_design(command, kind, note, frequency, material, stock_name, tube
     return des
 
 
-def _packet_files(the_plan, paper):
-    """PDF packet and SVG templates, when the renderers are present."""
-    try:
-        from cutplan.render import packet
-    except ImportError:
-        return {}
-    return packet.packet_files(the_plan, paper)
-
-
 def _parse_stock_option(values, kerf, end_trim):
     """StockSpec from --stock "10 ft x 3 @ 14.50" options (count and price optional)."""
     import re

@@ -8,7 +8,6 @@ from cutplan.cli.common import (
     MATERIALS_OPTION,
     _check_output_dir,
     _load,
-    _packet_files,
     _parse_stock_option,
     _plan,
     fail,
@@ -37,7 +36,7 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     out = _check_output_dir(output, force) if output else None
     des, _lib = _load(design, materials_dirs)
     the_plan = _plan(des)
-    from cutplan.render.table import render_csv, render_cutlist_csv, render_json
+    from cutplan.render.table import render_csv, render_json
     from cutplan.render.terminal import render_table
 
     if fmt == "json":
@@ -47,10 +46,9 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     else:
         click.echo(render_table(the_plan, units), nl=False)
     if out is not None:
-        files = {"plan.csv": render_csv(the_plan), "plan.json": render_json(the_plan)}
-        if the_plan.cut_list is not None:
-            files["cutlist.csv"] = render_cutlist_csv(the_plan.cut_list)
-        files.update(_packet_files(the_plan, paper))
+        from cutplan.render.packet import plan_files
+
+        files = plan_files(the_plan, paper)
         for name, data in files.items():
             write_file(out / name, data)
         click.echo(f"wrote {len(files)} files to {out}", err=True)
