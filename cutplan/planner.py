@@ -120,6 +120,8 @@ class Plan:
     design_path: str = ""
     cut_list: object = None
     warnings: tuple = field(default=())
+    shopping: tuple = ()  # cutplan.shopping.Item, ...
+    cautions: tuple = ()  # cutplan.shopping.Caution, ...
 
     @property
     def pieces(self):
@@ -551,5 +553,6 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
         cuts = cutlist.lay_out(sets, {s.name: s for s in design.sets}, design.stock, stock_override)
     except stock.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
-    return Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
-                temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts)
+    from cutplan.shopping import with_shop_lists  # noqa: I001 (shopping list and cautions)
+    return with_shop_lists(Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
+                temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts))

@@ -32,8 +32,33 @@ def _segments(page):
     for cv in page.curves:
         if not cv.get("stroke"):
             continue
-        pts = cv["pts"]
-        segs += list(zip(pts, pts[1:]))
+        segs += _path_segments(cv.get("path") or [("m", cv["pts"][0])] + [("l", q) for q in cv["pts"][1:]])
+    return segs
+
+
+def _path_segments(path, steps=12):
+    """Straight pieces of a path: lines as they are, cubic Beziers sampled at ``steps`` points."""
+    segs, here, start = [], None, None
+    for op, *pts in path:
+        if op == "m":
+            here = start = pts[0]
+        elif op == "l":
+            segs.append((here, pts[0]))
+            here = pts[0]
+        elif op == "c" and here is not None:
+            (x0, y0), (x1, y1), (x2, y2), (x3, y3) = here, *pts
+            prev = here
+            for k in range(1, steps + 1):
+                t = k / steps
+                u = 1 - t
+                q = (u ** 3 * x0 + 3 * u * u * t * x1 + 3 * u * t * t * x2 + t ** 3 * x3,
+                     u ** 3 * y0 + 3 * u * u * t * y1 + 3 * u * t * t * y2 + t ** 3 * y3)
+                segs.append((prev, q))
+                prev = q
+            here = pts[-1]
+        elif op == "h" and here is not None and start is not None:
+            segs.append((here, start))
+            here = start
     return segs
 
 
