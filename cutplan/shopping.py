@@ -152,8 +152,10 @@ def _stock_items(plan):
             counts = {}
             for s in g.sticks:
                 counts[s.stock_length] = counts.get(s.stock_length, 0) + 1
+            materials = sorted({s.material for s in plan.sets if s.section_text in g.group})
+            what = f"{', '.join(materials)}: {g.group}" if materials else g.group
             for length, n in sorted(counts.items()):
-                items.append(Item("stock", g.group, n, length, n * length, "sticks, from the stock layout"))
+                items.append(Item("stock", what, n, length, n * length, "sticks, from the stock layout"))
     listed = {p.label for s in plan.cut_list.sticks for p in s.cuts} if plan.cut_list is not None else set()
     for s in plan.sets:
         rest = [p for p in s.pieces if p.label not in listed]
@@ -191,10 +193,10 @@ def _chime_items(s, rows):
 
 def _bar_items(s):
     n = len(s.pieces)
-    rail = sum(p.length for p in s.pieces) / 2 + n * 0.01
+    rail = n * ((s.width or 0.0) + 0.01)
     return [
         Item("supports", f"felt or foam strip for {s.name}", 2, rail, 2 * rail,
-             "two rails under the support marks; length grows with the bars' spacing", suggestion=True),
+             "two rails under the support marks: the bars' widths side by side plus 10 mm gaps", suggestion=True),
         Item("supports", f"pins or cord for {s.name}", 2 * n, None, None,
              "two per bar at the support marks, with rubber sleeves", suggestion=True),
         Item("supports", "mallets", 2, None, None, "hard rubber or yarn for wood bars, "

@@ -103,7 +103,9 @@ def tiles(total_mm, usable_mm, overlap_mm):
     n = math.ceil((total_mm - overlap_mm) / (usable_mm - overlap_mm))
     span = (total_mm + (n - 1) * overlap_mm) / n
     step = span - overlap_mm
-    return [(round(k * step, 3), round(min(k * step + span, total_mm), 3)) for k in range(n)]
+    out = [(round(k * step, 3), round(k * step + span, 3)) for k in range(n)]
+    out[-1] = (out[-1][0], float(total_mm))
+    return out
 
 
 @dataclass(frozen=True)

@@ -155,8 +155,8 @@ def _spectra(c, page, pieces, y_top, row_h=11 * mm):
             c.line(x, base, x, base + height)
             placer.block((x - 1.3, base, x + 1.3, base + height))
             full, short = f"{f:.0f} Hz {name} {cents:+.0f}c", f"{f:.0f}"
-            labels.append([(x + 2, yy, t, "start") for t in (full, short) for yy in (base + height - 5, base + 2)]
-                          + [(x - 2, base + 2, t, "end") for t in (full, short)])
+            labels.append([(x + 2.6, yy, t, "start") for t in (full, short) for yy in (base + height - 5, base + 3)]
+                          + [(x - 2.6, base + 3, t, "end") for t in (full, short)])
     for cands in labels:
         placer.place(c, cands, 6.5)
     bottom = y_top - len(pieces) * row_h - 9

@@ -88,7 +88,7 @@ def cover(packet):
 def _amount(plan, item):
     parts = []
     if item.count is not None:
-        parts.append(f"{item.count} x")
+        parts.append(f"{item.count} x" if item.each is not None else f"{item.count}")
     if item.each is not None:
         parts.append(length(plan, item.each))
     text = " ".join(parts)

@@ -23,6 +23,7 @@ from cutplan.render.pdf.base import (
     landscape,
     letter,
     mm,
+    paragraph,
     text_box,
     text_width,
 )
@@ -40,7 +41,10 @@ BELOW_MM = 12.0
 """Room under a strip for the joining marks and the tile's title [mm]."""
 GAP_MM = 3.0
 """Space between tile frames [mm]."""
-TOP_SPACE_MM = 27.0
+INSTRUCTION = ("Cut out each tile on its dashed frame; tape neighbours where the grey bars and crosses match, "
+               "aligning the numbered ticks (mm along the piece). Lay the strip along the piece, end 0 at its "
+               "reference end.")
+TOP_SPACE_MM = 30.0
 """Page top to the first frame [mm] (header, heading and instruction)."""
 TICK_NUMBER_CLEAR_MM = 5.0
 """A tick number is left off within this distance of a mark line [mm]."""
@@ -76,6 +80,25 @@ def _label_box(m, lane, side, start, units):
     return (x0, y - 0.6, x0 + w_mm, y + 2.2)
 
 
+def _free_lane(m, x, start, width, placed, later, units):
+    """Lowest (lane, side, box) where the label of ``m`` clashes with nothing placed and does not
+    cover a mark still to be placed (``later`` x positions), or None."""
+    for lane in range(12):
+        for side in ("right", "left"):
+            box = _label_box(m, lane, side, start, units)
+            if box[0] < 0.3 or box[2] > width - 0.3:
+                continue
+            top = box[3]
+            clash = any(b[0] - 0.6 < box[2] and box[0] < b[2] + 0.6 and b[1] < box[3] and box[1] < b[3]
+                        for _, _, b in placed)
+            clash = clash or any(box[0] - 0.4 <= px <= box[2] + 0.4 and box[1] <= b[3] for px, _, b in placed)
+            clash = clash or any(b[0] - 0.4 <= x <= b[2] + 0.4 and b[1] <= top for _, _, b in placed)
+            clash = clash or any(box[0] - 0.4 <= px <= box[2] + 0.4 for px in later)
+            if not clash:
+                return lane, side, box
+    return None
+
+
 def assign_lanes(piece, start, end, units):
     """(Mark, lane, side) for every mark on the tile: lanes counted up from the strip top.
 
@@ -83,28 +106,17 @@ def assign_lanes(piece, start, end, units):
     line, never overlaps another label and stays inside the tile.
     """
     width = end - start
+    marks = [m for m in mk.piece_marks(piece, units) if start - 1e-6 <= m.at_mm <= end + 1e-6]
     placed = []  # (x, lane, box)
     out = []
-    for m in [m for m in mk.piece_marks(piece, units) if start - 1e-6 <= m.at_mm <= end + 1e-6]:
+    for i, m in enumerate(marks):
         x = m.at_mm - start
-        for lane in range(12):
-            done = False
-            for side in ("right", "left"):
-                box = _label_box(m, lane, side, start, units)
-                if box[0] < 0.3 or box[2] > width - 0.3:
-                    continue
-                top = box[3]
-                clash = any(b[0] - 0.6 < box[2] and box[0] < b[2] + 0.6 and b[1] < box[3] and box[1] < b[3]
-                            for _, _, b in placed)
-                clash = clash or any(box[0] - 0.4 <= px <= box[2] + 0.4 and box[1] <= b[3] for px, _, b in placed)
-                clash = clash or any(b[0] - 0.4 <= x <= b[2] + 0.4 and b[1] <= top for _, _, b in placed)
-                if not clash:
-                    placed.append((x, lane, box))
-                    out.append((m, lane, side))
-                    done = True
-                    break
-            if done:
-                break
+        later = [n.at_mm - start for n in marks[i + 1:]]
+        choice = _free_lane(m, x, start, width, placed, later, units) or _free_lane(m, x, start, width, placed, [], units)
+        if choice:
+            lane, side, box = choice
+            placed.append((x, lane, box))
+            out.append((m, lane, side))
     return tuple(out)
 
 
@@ -197,7 +209,7 @@ def draw_strip(c, tile, x0, y_top, width_mm, units):
     lanes = max((lane for _, lane, _ in tile.labels), default=-1) + 1
     top = y_top - (lanes * LANE_MM + 3.0) * mm
     y0 = top - STRIP_H_MM * mm
-    _frame(c, x0, y_top - tile.height_mm * mm, width_mm * mm, tile.height_mm * mm)
+    _frame(c, x0, y_top - tile.height_mm * mm, (tile.end - tile.start) * mm, tile.height_mm * mm)
 
     def X(at_mm):
         return x0 + (at_mm - tile.start) * mm
@@ -234,7 +246,7 @@ def draw_strip(c, tile, x0, y_top, width_mm, units):
     open_end = " - OPEN END at 0" if p.stopper else ""
     title = (f"{p.label}  {p.note}  {mk.length_text(length, units)}{open_end}   sheet {tile.sheet} of {tile.sheets}"
              f"{'  - cut out on the dashed line, tape at the grey bars' if tile.sheets > 1 else ''}")
-    c.drawString(x0 + 1 * mm, y0 - 9 * mm, fit(title, 7.5, (width_mm - 2) * mm, BOLD))
+    c.drawString(x0 + 1 * mm, y0 - 9 * mm, fit(title, 7.5, (tile.end - tile.start - 2) * mm, BOLD))
 
 
 def draw_profile(c, tile, x0, y_top, width_mm, units):
@@ -244,7 +256,7 @@ def draw_profile(c, tile, x0, y_top, width_mm, units):
     t = arch.thickness / MM
     top = y_top - 12 * mm
     under = top - t * mm
-    _frame(c, x0, y_top - tile.height_mm * mm, width_mm * mm, tile.height_mm * mm)
+    _frame(c, x0, y_top - tile.height_mm * mm, (tile.end - tile.start) * mm, tile.height_mm * mm)
 
     def X(at_mm):
         return x0 + (at_mm - tile.start) * mm
@@ -293,7 +305,7 @@ def draw_profile(c, tile, x0, y_top, width_mm, units):
     c.setFont(BOLD, 7.5)
     title = (f"{p.label} side profile, full size: arch {mk.length_text(arch.depth / MM, units)} deep; "
              f"numbers are the thickness left (mm)   sheet {tile.sheet} of {tile.sheets}")
-    c.drawString(x0 + 1 * mm, under - 10 * mm, fit(title, 7.5, (width_mm - 2) * mm, BOLD))
+    c.drawString(x0 + 1 * mm, under - 10 * mm, fit(title, 7.5, (tile.end - tile.start - 2) * mm, BOLD))
 
 
 def templates(packet):
@@ -308,11 +320,7 @@ def templates(packet):
         def draw(c, page, group=group):
             c.setFont(BOLD, 11)
             c.drawString(TEMPLATE_MARGIN, h - 19 * mm, "Marking strips, full size")
-            c.setFont(FONT, 7.5)
-            c.drawString(TEMPLATE_MARGIN, h - 23.5 * mm, fit(
-                "Cut out each tile on its dashed frame; tape neighbours where the grey bars and crosses match, "
-                "aligning the numbered ticks (mm along the piece). Lay the strip along the piece, end 0 to its "
-                "reference end.", 7.5, w - 2 * TEMPLATE_MARGIN))
+            paragraph(c, TEMPLATE_MARGIN, h - 23.5 * mm, INSTRUCTION, 7.5, w - 2 * TEMPLATE_MARGIN)
             for tile, y_top in group:
                 draw_tile = draw_profile if tile.what == "profile" else draw_strip
                 draw_tile(c, tile, TEMPLATE_MARGIN, y_top * mm, width_mm, plan.units)
