@@ -71,9 +71,11 @@ def piece_marks(piece, units="mm"):
         cut = piece.cut_length / MM
         marks.append(Mark(cut, "cut-tube", f"CUT TUBE {length_text(cut, units)} (stopper end)"))
         return sorted(marks, key=lambda m: m.at_mm)
-    top = "TOP END" if piece.kind == "chime" else "END A"
+    capped = piece.kind == "resonator" or piece.model == "closed-open"
+    top = {"chime": "TOP END", "bar": "END A"}.get(piece.kind, "OPEN END" if capped else "END")
     node_word = "hang hole" if piece.kind == "chime" else "support"
-    marks = [Mark(0.0, "end", f"{top} 0"), Mark(length, "end", f"END {length_text(length, units)}")]
+    far = "CAPPED END" if capped and piece.kind not in ("chime", "bar") else "END"
+    marks = [Mark(0.0, "end", f"{top} 0"), Mark(length, "end", f"{far} {length_text(length, units)}")]
     if piece.kind in ("chime", "bar"):
         marks.append(Mark(length / 2, "centre", "centre"))
     for i, x in enumerate(piece.nodes, start=1):

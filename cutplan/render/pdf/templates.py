@@ -37,9 +37,9 @@ STRIP_H_MM = 16.0
 LANE_MM = 3.4
 """Height of one label lane above a strip [mm]."""
 LABEL_PT = 6.5
-BELOW_MM = 12.0
+BELOW_MM = 10.5
 """Room under a strip for the joining marks and the tile's title [mm]."""
-GAP_MM = 3.0
+GAP_MM = 2.5
 """Space between tile frames [mm]."""
 INSTRUCTION = ("Cut out each tile on its dashed frame; tape neighbours where the grey bars and crosses match, "
                "aligning the numbered ticks (mm along the piece). Lay the strip along the piece, end 0 at its "
@@ -121,7 +121,8 @@ def assign_lanes(piece, start, end, units):
 
 
 def layout(plan, size):
-    """Tiles of every piece for a page of ``size`` (points), packed into pages: [[(Tile, y_top)]]."""
+    """Tiles of every piece for a page of ``size`` (points), packed into rows and pages:
+    [[(Tile, x from the left margin [mm], frame top from the page bottom [mm])]]."""
     w, h = size
     usable = (w - 2 * TEMPLATE_MARGIN) / mm
     tiles = []
@@ -134,27 +135,39 @@ def layout(plan, size):
             for k, (a, b) in enumerate(parts, start=1):
                 tiles.append(Tile(p, a, b, k, len(parts), "profile"))
     bottom = (RULER_TOP + RULERS_HEIGHT) / mm + 4.0
+    rows, row, used = [], [], 0.0
+    for t in tiles:  # short tiles share a row, in order
+        width = t.end - t.start
+        if row and used + GAP_MM + width > usable:
+            rows.append(row)
+            row, used = [], 0.0
+        row.append((t, used + (GAP_MM if row else 0.0)))
+        used = row[-1][1] + width
+    if row:
+        rows.append(row)
     pages, current, y = [], [], h / mm - TOP_SPACE_MM
-    for t in tiles:
-        if current and y - t.height_mm < bottom:
+    for row in rows:
+        height = max(t.height_mm for t, _ in row)
+        if current and y - height < bottom:
             pages.append(current)
             current, y = [], h / mm - TOP_SPACE_MM
-        current.append((t, y))
-        y -= t.height_mm + GAP_MM
+        current += [(t, x, y) for t, x in row]
+        y -= height + GAP_MM
     if current:
         pages.append(current)
     return pages
 
 
+def strip_bottom_mm(tile, y_top_mm):
+    """Bottom edge of a strip tile's body [mm from the page bottom] for a frame top at ``y_top_mm``."""
+    return y_top_mm - tile.height_mm + BELOW_MM
+
+
 def orientation(plan, paper):
     """The page size (portrait or landscape) that needs fewer template sheets, and its layout."""
     portrait = A4 if paper == "a4" else letter
-    best = (portrait, layout(plan, portrait))
-    wide = landscape(portrait)
-    other = layout(plan, wide)
-    if len(other) < len(best[1]):
-        best = (wide, other)
-    return best
+    options = [(size, layout(plan, size)) for size in (portrait, landscape(portrait))]
+    return min(options, key=lambda o: (len(o[1]), sum(len(page) for page in o[1])))
 
 
 def _frame(c, x0, y_bottom, width, height):
@@ -243,10 +256,12 @@ def draw_strip(c, tile, x0, y_top, width_mm, units):
             else:
                 c.drawRightString(x - 0.5 * mm, y, m.label)
     c.setFont(BOLD, 7.5)
-    open_end = " - OPEN END at 0" if p.stopper else ""
-    title = (f"{p.label}  {p.note}  {mk.length_text(length, units)}{open_end}   sheet {tile.sheet} of {tile.sheets}"
-             f"{'  - cut out on the dashed line, tape at the grey bars' if tile.sheets > 1 else ''}")
-    c.drawString(x0 + 1 * mm, y0 - 9 * mm, fit(title, 7.5, (tile.end - tile.start - 2) * mm, BOLD))
+    if p.stopper:
+        what = f"cut the tube to {mk.length_text(p.cut_length / MM, units)}, tune with the stopper; open end at 0"
+    else:
+        what = f"finished {mk.length_text(length, units)}"
+    title = f"{p.label}  {p.note}  sheet {tile.sheet} of {tile.sheets}:  {what}"
+    c.drawString(x0 + 1 * mm, y0 - 8 * mm, fit(title, 7.5, (tile.end - tile.start - 2) * mm, BOLD))
 
 
 def draw_profile(c, tile, x0, y_top, width_mm, units):
@@ -321,9 +336,9 @@ def templates(packet):
             c.setFont(BOLD, 11)
             c.drawString(TEMPLATE_MARGIN, h - 19 * mm, "Marking strips, full size")
             paragraph(c, TEMPLATE_MARGIN, h - 23.5 * mm, INSTRUCTION, 7.5, w - 2 * TEMPLATE_MARGIN)
-            for tile, y_top in group:
+            for tile, x, y_top in group:
                 draw_tile = draw_profile if tile.what == "profile" else draw_strip
-                draw_tile(c, tile, TEMPLATE_MARGIN, y_top * mm, width_mm, plan.units)
+                draw_tile(c, tile, TEMPLATE_MARGIN + x * mm, y_top * mm, width_mm, plan.units)
             rulers(c, TEMPLATE_MARGIN, RULER_TOP)
         packet.add(draw, template=True, size=size)
     plate_pages(packet)
