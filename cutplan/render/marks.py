@@ -148,3 +148,53 @@ def ruler_ticks():
 def wrap_guide_mm(set_plan):
     """Circumference of the tube [mm]: the length of the wrap-around guide for opposite holes."""
     return math.pi * set_plan.outer / MM
+
+
+def _label_box(m, lane, side, start, width_mm, lane_mm):
+    """Label box [mm]: x along the tile from its left edge, y up from the strip's top edge."""
+    x = m.at_mm - start
+    y = 1.2 + lane * lane_mm
+    x0 = x + 0.5 if side == "right" else x - 0.5 - width_mm
+    return (x0, y - 0.6, x0 + width_mm, y + 0.65 * lane_mm)
+
+
+def _free_lane(m, x, start, width, placed, later, text_mm, lane_mm):
+    """Lowest (lane, side, box) where the label of ``m`` clashes with nothing placed and does not
+    cover a mark still to be placed (``later`` x positions), or None."""
+    for lane in range(12):
+        for side in ("right", "left"):
+            box = _label_box(m, lane, side, start, text_mm(m.label), lane_mm)
+            if box[0] < 0.3 or box[2] > width - 0.3:
+                continue
+            top = box[3]
+            clash = any(b[0] - 0.6 < box[2] and box[0] < b[2] + 0.6 and b[1] < box[3] and box[1] < b[3]
+                        for _, _, b in placed)
+            clash = clash or any(box[0] - 0.4 <= px <= box[2] + 0.4 and box[1] <= b[3] for px, _, b in placed)
+            clash = clash or any(b[0] - 0.4 <= x <= b[2] + 0.4 and b[1] <= top for _, _, b in placed)
+            clash = clash or any(box[0] - 0.4 <= px <= box[2] + 0.4 for px in later)
+            if not clash:
+                return lane, side, box
+    return None
+
+
+def assign_lanes(marks, start, end, text_mm, lane_mm):
+    """(Mark, lane, side) for the marks between ``start`` and ``end`` [mm]; lanes count up from the
+    strip's top edge, ``lane_mm`` apart; ``text_mm(label)`` is a label's width [mm].
+
+    A mark's line reaches up through its own lane; a label is never crossed by another mark's
+    line, never overlaps another label and stays inside the tile.  The lane of a mark's label is
+    the top of its line.
+    """
+    width = end - start
+    marks = [m for m in marks if start - 1e-6 <= m.at_mm <= end + 1e-6]
+    placed, out = [], []
+    for i, m in enumerate(marks):
+        x = m.at_mm - start
+        later = [n.at_mm - start for n in marks[i + 1:]]
+        choice = (_free_lane(m, x, start, width, placed, later, text_mm, lane_mm)
+                  or _free_lane(m, x, start, width, placed, [], text_mm, lane_mm))
+        if choice:
+            lane, side, box = choice
+            placed.append((x, lane, box))
+            out.append((m, lane, side))
+    return tuple(out)

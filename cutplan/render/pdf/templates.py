@@ -71,53 +71,9 @@ class Tile:
         return STRIP_H_MM + lanes * LANE_MM + 3.0 + BELOW_MM
 
 
-def _label_box(m, lane, side, start, units):
-    """Label box in tile mm (x along the tile from its left edge, y up from the strip top)."""
-    w_mm = text_width(m.label, LABEL_PT) / mm
-    x = m.at_mm - start
-    y = 1.2 + lane * LANE_MM
-    x0 = x + 0.5 if side == "right" else x - 0.5 - w_mm
-    return (x0, y - 0.6, x0 + w_mm, y + 2.2)
-
-
-def _free_lane(m, x, start, width, placed, later, units):
-    """Lowest (lane, side, box) where the label of ``m`` clashes with nothing placed and does not
-    cover a mark still to be placed (``later`` x positions), or None."""
-    for lane in range(12):
-        for side in ("right", "left"):
-            box = _label_box(m, lane, side, start, units)
-            if box[0] < 0.3 or box[2] > width - 0.3:
-                continue
-            top = box[3]
-            clash = any(b[0] - 0.6 < box[2] and box[0] < b[2] + 0.6 and b[1] < box[3] and box[1] < b[3]
-                        for _, _, b in placed)
-            clash = clash or any(box[0] - 0.4 <= px <= box[2] + 0.4 and box[1] <= b[3] for px, _, b in placed)
-            clash = clash or any(b[0] - 0.4 <= x <= b[2] + 0.4 and b[1] <= top for _, _, b in placed)
-            clash = clash or any(box[0] - 0.4 <= px <= box[2] + 0.4 for px in later)
-            if not clash:
-                return lane, side, box
-    return None
-
-
 def assign_lanes(piece, start, end, units):
-    """(Mark, lane, side) for every mark on the tile: lanes counted up from the strip top.
-
-    A mark's line reaches up through its own lane; a label is never crossed by another mark's
-    line, never overlaps another label and stays inside the tile.
-    """
-    width = end - start
-    marks = [m for m in mk.piece_marks(piece, units) if start - 1e-6 <= m.at_mm <= end + 1e-6]
-    placed = []  # (x, lane, box)
-    out = []
-    for i, m in enumerate(marks):
-        x = m.at_mm - start
-        later = [n.at_mm - start for n in marks[i + 1:]]
-        choice = _free_lane(m, x, start, width, placed, later, units) or _free_lane(m, x, start, width, placed, [], units)
-        if choice:
-            lane, side, box = choice
-            placed.append((x, lane, box))
-            out.append((m, lane, side))
-    return tuple(out)
+    """(Mark, lane, side) for every mark on the tile (see :func:`cutplan.render.marks.assign_lanes`)."""
+    return mk.assign_lanes(mk.piece_marks(piece, units), start, end, lambda t: text_width(t, LABEL_PT) / mm, LANE_MM)
 
 
 def layout(plan, size):
