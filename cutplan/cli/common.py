@@ -15,11 +15,24 @@ EXIT_BAD_INPUT = 2
 """Exit code for bad input, the code click's UsageError uses."""
 
 
+class BadInput(click.ClickException):
+    """Bad input: one line per problem on stderr, exit code 2, no traceback."""
+
+    exit_code = EXIT_BAD_INPUT
+
+    def __init__(self, lines):
+        self.lines = [str(line) for line in lines]
+        super().__init__("\n".join(self.lines))
+
+    def show(self, file=None):
+        """Print each problem as ``error: ...`` on stderr."""
+        for line in self.lines:
+            click.echo(f"error: {line}", err=True)
+
+
 def fail(lines):
-    """Print one line per problem to stderr and exit with code 2 (no traceback)."""
-    for line in lines if isinstance(lines, (list, tuple)) else [lines]:
-        click.echo(f"error: {line}", err=True)
-    sys.exit(EXIT_BAD_INPUT)
+    """Stop the command with one line per problem and exit code 2 (raises :class:`BadInput`)."""
+    raise BadInput(lines if isinstance(lines, (list, tuple)) else [lines])
 
 
 def write_file(path, data):
@@ -46,13 +59,17 @@ def _library_loader(extra):
     return load
 
 
-def _load(design_path, materials_dirs=()):
-    """Design and library, or a clean exit 2 with one line per problem."""
+def _load(design_path, materials_dirs=(), units=None):
+    """Design and library, or a clean exit 2 with one line per problem. ``units`` ("mm" or "in"),
+    when given, replaces the design's own choice of the unit shown first."""
+    from dataclasses import replace
+
     from cutplan.design import DesignErrors, load_design
     from cutplan.materials import MaterialError
 
     try:
-        return load_design(design_path, _library_loader(materials_dirs))
+        des, lib = load_design(design_path, _library_loader(materials_dirs))
+        return (replace(des, units=units) if units else des), lib
     except DesignErrors as exc:
         fail([str(e) for e in exc.errors])
     except MaterialError as exc:
