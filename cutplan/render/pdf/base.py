@@ -40,7 +40,7 @@ def paper_size(paper):
 
 def length(plan, metres):
     """One length in the plan's units first: "20-5/32 in (512.3 mm)" or "512.3 mm (20-5/32 in)"."""
-    return format_length(metres, plan.units, getattr(plan, "inch_denominator", 32))
+    return format_length(metres, plan.units, plan.inch_denominator)
 
 
 def length_lines(plan, metres):

@@ -24,7 +24,7 @@ STOPPER_WORDS = "cut the tube to its cut length, tune with the stopper"
 
 def allowance(p):
     """The allowance the piece actually gets [m] (a Plan field)."""
-    return getattr(p, "allowance", p.cut_length - p.length)  # TEMP until the Plan field lands
+    return p.allowance
 
 
 def _stoppered(s):
@@ -99,8 +99,8 @@ def tuning(packet):
                 allow = (f"{length_lines(plan, allowance(p))}\nchance sharp {p.sharp_risk * 100:.0f} %\n"
                          f"after a test piece: {length(plan, p.allowance_calibrated).split(' (')[0]}")
             rows.append([p.label, p.note, f"{p.target_hz:.2f}", f"{p.cents_per_mm:.2f}", per10, allow,
-                         _temp(p, 'trim_end'), _temp(p, 'if_sharp'), "", ""])
-        rule = getattr(s, "allowance_rule", "")
+                         p.trim_end, p.if_sharp, "", ""])
+        rule = s.allowance_rule
         intro = (f"{s.name}: {TRIM_WORDS}. Trim in small steps: take off a third of the computed amount, strike, "
                  "measure, repeat; a piece flat by 10 cents needs about the 'per 10 cents' shown. "
                  f"'Cut long by' is the one allowance this piece gets{' (' + rule + ')' if rule else ''}, with "
@@ -135,9 +135,3 @@ def stoppers(packet):
                  "stay in tune. Set the stopper for the temperature of the room the set is played in.")
         _chunked(packet, f"Resonator stopper settings: {s.name}", intro, header, rows, widths, 8)
 
-
-def _temp(p, name):  # TEMP until the Plan fields land
-    if hasattr(p, name):
-        return getattr(p, name)
-    from cutplan import advice
-    return advice.trim_from(p.kind, p.model) if name == "trim_end" else advice.sharp_action(p.kind)
