@@ -98,7 +98,8 @@ def tuning(packet):
             else:
                 allow = (f"{length_lines(plan, allowance(p))}\nchance sharp {p.sharp_risk * 100:.0f} %\n"
                          f"after a test piece: {length(plan, p.allowance_calibrated).split(' (')[0]}")
-            rows.append([p.label, p.note, f"{p.target_hz:.2f}", f"{p.cents_per_mm:.2f}", per10, allow,
+            target = f"{p.target_hz:.2f}" + (f"\nstrike note {p.strike_note_hz:.1f}" if p.strike_note_hz else "")
+            rows.append([p.label, p.note, target, f"{p.cents_per_mm:.2f}", per10, allow,
                          p.trim_end, p.if_sharp, "", ""])
         rule = s.allowance_rule
         intro = (f"{s.name}: {TRIM_WORDS}. Trim in small steps: take off a third of the computed amount, strike, "
