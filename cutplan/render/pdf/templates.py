@@ -261,18 +261,20 @@ def draw_profile(c, tile, x0, y_top, width_mm, units):
     last_x = {0: -1e9, 1: -1e9}
     for x, hh in arch.stations:
         for at in sorted({x / MM, length - x / MM}):
-            if tile.start + 2 <= at <= tile.end - 2:
-                c.line(X(at), under, X(at), under - 1.5 * mm)
-                text = f"{hh / MM:.1f}"
-                half = text_width(text, 5.5) / 2 + 1
-                row = 0 if X(at) - half > last_x[0] else 1
-                if X(at) - half <= last_x[row]:
-                    continue
-                y = under - (4 if row == 0 else 6.4) * mm
-                c.drawCentredString(X(at), y, text)
-                last_x[row] = X(at) + half
-                if row == 1:
-                    c.line(X(at), under - 1.5 * mm, X(at), under - 4.3 * mm)
+            if not tile.start - 1e-6 <= at <= tile.end + 1e-6:
+                continue
+            c.line(X(at), under, X(at), under - 1.5 * mm)
+            if not tile.start + 2 <= at <= tile.end - 2:
+                continue
+            text = f"{hh / MM:.1f}"
+            half = text_width(text, 5.5) / 2 + 1
+            row = 0 if X(at) - half > last_x[0] else 1
+            if X(at) - half <= last_x[row]:
+                continue
+            c.drawCentredString(X(at), under - (4 if row == 0 else 6.4) * mm, text)
+            last_x[row] = X(at) + half
+            if row == 1:
+                c.line(X(at), under - 1.5 * mm, X(at), under - 4.3 * mm)
     c.setFont(BOLD, 7.5)
     title = (f"{p.label} side profile, full size: arch {mk.length_text(arch.depth / MM, units)} deep; "
              f"numbers are the thickness left (mm)   sheet {tile.sheet} of {tile.sheets}")
