@@ -22,13 +22,13 @@ def _segments(page):
     segs = []
     for obj in page.lines:
         pts = obj["pts"]
-        segs += list(zip(pts, pts[1:]))
+        segs += list(zip(pts, pts[1:], strict=False))
     for r in page.rects:
         if not r.get("stroke"):
             continue
         x0, x1, top, bottom = r["x0"], r["x1"], r["top"], r["bottom"]
         corners = [(x0, top), (x1, top), (x1, bottom), (x0, bottom), (x0, top)]
-        segs += list(zip(corners, corners[1:]))
+        segs += list(zip(corners, corners[1:], strict=False))
     for cv in page.curves:
         if not cv.get("stroke"):
             continue

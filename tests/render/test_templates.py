@@ -13,8 +13,8 @@ from cutplan.materials import load_library
 from cutplan.planner import plan
 from cutplan.render import pdf as pdf_mod
 from cutplan.render import svg as svg_mod
-from cutplan.render.pdf import templates
 from cutplan.render.packet import packet_files
+from cutplan.render.pdf import templates
 
 DPI = 600
 PX_PER_MM = DPI / 25.4

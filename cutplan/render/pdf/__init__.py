@@ -10,7 +10,7 @@ Every length is in the plan's units first.  The same plan gives a byte-identical
 from __future__ import annotations
 
 from cutplan.render.pdf import charts, cover, stock, tables, templates
-from cutplan.render.pdf.base import MARGIN, TEMPLATE_MARGIN, A4, Packet, letter, mm
+from cutplan.render.pdf.base import A4, MARGIN, TEMPLATE_MARGIN, Packet, letter, mm
 from cutplan.render.pdf.rulers import RULER_TOP
 from cutplan.render.pdf.templates import OVERLAP_MM, STRIP_H_MM
 

@@ -14,7 +14,7 @@ from cutplan.shopping import PLATE_HANGING, PLATE_MATERIAL
 
 def _circle_segments(cx, cy, r, n=72):
     pts = [(cx + r * math.cos(2 * math.pi * k / n), cy + r * math.sin(2 * math.pi * k / n)) for k in range(n + 1)]
-    return list(zip(pts, pts[1:]))
+    return list(zip(pts, pts[1:], strict=False))
 
 
 def _plate_page(c, page, plan, s):

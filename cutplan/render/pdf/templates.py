@@ -14,17 +14,16 @@ from reportlab.lib import colors
 
 from cutplan.render import marks as mk
 from cutplan.render.pdf.base import (
+    A4,
     BOLD,
     FONT,
     LIGHT,
     TEMPLATE_MARGIN,
-    A4,
     fit,
     landscape,
     letter,
     mm,
     paragraph,
-    text_box,
     text_width,
 )
 from cutplan.render.pdf.rulers import RULER_TOP, RULERS_HEIGHT, rulers
@@ -302,4 +301,4 @@ def templates(packet):
     plate_pages(packet)
 
 
-__all__ = ["OVERLAP_MM", "STRIP_H_MM", "Tile", "assign_lanes", "layout", "orientation", "templates", "text_box"]
+__all__ = ["OVERLAP_MM", "STRIP_H_MM", "Tile", "assign_lanes", "layout", "orientation", "strip_bottom_mm", "templates"]
