@@ -6,9 +6,9 @@ from reportlab.lib import colors
 
 from cutplan.render.pdf.base import BOLD, LIGHT, SAFE, Placer, fit, heading, length, mm, paragraph, text_width
 
-PER_PAGE = 9
+PER_PAGE = 8
 """Sticks drawn on one page."""
-ROW = 22 * mm
+ROW = 27 * mm
 """Height of one stick's row (name, bar, labels below)."""
 
 
@@ -35,7 +35,7 @@ def stock_pages(packet):
             scale = page.width / longest
             for i, stick in enumerate(group):
                 base = y - 12 * mm - i * ROW
-                placer = Placer((page.left, base - 9 * mm, page.w - SAFE, base + 12 * mm))
+                placer = Placer((page.left, base - 15 * mm, page.w - SAFE, base + 12 * mm))
                 c.setFillColor(colors.black)
                 c.setFont(BOLD, 8)
                 title = fit(f"stick {first + i + 1}: {length(plan, stick.stock_length)}  {stick.group}", 8,
@@ -59,7 +59,8 @@ def stock_pages(packet):
                 placer.line((page.left, base + 8 * mm), (page.left + stick.stock_length * scale, base + 8 * mm))
                 end = page.left + stick.stock_length * scale
                 placer.line((end, base), (end, base + 8 * mm))
-                low = [base - 3 * mm, base - 6 * mm, base - 8.6 * mm]
+                low = [base - 3 * mm, base - 5.8 * mm, base - 8.6 * mm, base - 11.4 * mm]
+                missed = []
                 for n, cut in enumerate(stick.cuts):
                     x = page.left + cut.start * scale
                     wd = cut.length * scale
@@ -70,9 +71,13 @@ def stock_pages(packet):
                         placer.place(c, [(x + 1.5, base + 1.2 * mm, at, "start")], 6.5)
                     else:
                         text = f"{label} {at}"
-                        placer.place(c, [(x + 1, yy, text, "start") for yy in low[n % 3:] + low[:n % 3]]
-                                     + [(x + 1, yy, label, "start") for yy in low], 6.5)
+                        cands = [(x + 1, yy, text, "start") for yy in low[n % 3:] + low[:n % 3]]
+                        cands += [(x + wd - 1, yy, text, "end") for yy in low]
+                        if placer.place(c, cands, 6.5) is None:
+                            missed.append(text)
                 off = f"offcut {_first(plan, stick.offcut)}"
-                placer.place(c, [(end, base - 3 * mm, off, "end"), (end, base - 6 * mm, off, "end"),
-                                 (end, base - 8.6 * mm, off, "end")], 6.5)
+                placer.place(c, [(end, yy, off, "end") for yy in low]
+                             + [(page.left + page.width, yy, off, "end") for yy in low], 6.5)
+                if missed:  # no room beside the bar: listed under it instead
+                    placer.place(c, [(page.left, base - 14 * mm, "also: " + "; ".join(missed), "start")], 6.5)
         packet.add(draw)

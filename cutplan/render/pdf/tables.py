@@ -94,7 +94,7 @@ def tuning(packet):
         for p in s.pieces:
             per10 = length_lines(plan, 0.010 / p.cents_per_mm) if p.cents_per_mm else "-"
             if p.stopper:
-                allow = "tube cut to its length; " + STOPPER_WORDS
+                allow = STOPPER_WORDS
             else:
                 allow = (f"{length_lines(plan, allowance(p))}\nchance sharp {p.sharp_risk * 100:.0f} %\n"
                          f"after a test piece: {length(plan, p.allowance_calibrated).split(' (')[0]}")
@@ -102,11 +102,16 @@ def tuning(packet):
             rows.append([p.label, p.note, target, f"{p.cents_per_mm:.2f}", per10, allow,
                          p.trim_end, p.if_sharp, "", ""])
         rule = s.allowance_rule
-        intro = (f"{s.name}: {TRIM_WORDS}. Trim in small steps: take off a third of the computed amount, strike, "
-                 "measure, repeat; a piece flat by 10 cents needs about the 'per 10 cents' shown. "
-                 f"'Cut long by' is the one allowance this piece gets{' (' + rule + ')' if rule else ''}, with "
-                 "its chance of coming out sharp; after one test piece is measured (cutplan calibrate) it "
-                 "shrinks to the last figure.")
+        if _stoppered(s):
+            intro = (f"{s.name}: {STOPPER_WORDS}: the cut length is the deepest stopper setting plus room for "
+                     "the stopper (see the stopper table). Set the stopper for the room's temperature, strike, "
+                     "measure, and move the stopper in small steps.")
+        else:
+            intro = (f"{s.name}: {TRIM_WORDS}. Trim in small steps: take off a third of the computed amount, "
+                     "strike, measure, repeat; a piece flat by 10 cents needs about the 'per 10 cents' shown. "
+                     f"'Cut long by' is the one allowance this piece gets{' (' + rule + ')' if rule else ''}, "
+                     "with its chance of coming out sharp; after one test piece is measured (cutplan calibrate) "
+                     "it shrinks to the last figure.")
         if s.kind in ("air-column", "resonator"):
             intro += " Air columns drift about 3 cents per degree C: tune at the temperature they are played in."
         warnings = _warning_lines(s.pieces)
