@@ -104,7 +104,7 @@ def _length_chart(c, page, plan, y_top, chart_h):
     c.drawCentredString(x0 + width / 2, base - 18, "pitch (log scale): each piece is a point")
     placer.block((x0 + width / 2 - 80, base - 20, x0 + width / 2 + 80, base - 11))
     markers = ["circle", "square", "triangle", "diamond"]
-    points = []
+    points, legends = [], []
     for k, s in enumerate(plan.sets):
         shape = markers[k % len(markers)]
         prev = None
@@ -120,10 +120,15 @@ def _length_chart(c, page, plan, y_top, chart_h):
             placer.block((px - 2.4, py - 2.4, px + 2.4, py + 2.4))
             points.append((px, py, p.note))
             prev = (px, py)
-        lx, ly = x0 + width - 50 * mm, y_top - 6 - 10 * k
-        _marker(c, shape, lx, ly)
-        placer.block((lx - 2.4, ly - 2.4, lx + 2.4, ly + 2.4))
-        placer.place(c, [(lx + 3 * mm, ly - 2.5, f"{s.name} ({s.kind})", "start")], 8)
+        legends.append((shape, f"{s.name} ({s.kind})", k))
+    for shape, text, k in legends:  # the key goes in a free corner of the chart
+        for lx, ly in ((x0 + width - 55 * mm, y_top - 6 - 10 * k), (x0 + 4 * mm, base + 6 + 10 * k),
+                       (x0 + width - 55 * mm, base + 6 + 10 * k), (x0 + 4 * mm, y_top - 6 - 10 * k)):
+            if placer.free((lx - 2.4, ly - 2.4, lx + 2.4, ly + 2.4)) and placer.place(
+                    c, [(lx + 3 * mm, ly - 2.5, text, "start")], 8):
+                _marker(c, shape, lx, ly)
+                placer.block((lx - 2.4, ly - 2.4, lx + 2.4, ly + 2.4))
+                break
     for px, py, note in points:
         placer.place(c, [(px + 3, py + 3, note, "start"), (px - 3, py - 8, note, "end"),
                          (px + 3, py - 8, note, "start"), (px - 3, py + 3, note, "end"),
