@@ -50,3 +50,28 @@ def test_the_audit_finds_a_struck_word_and_an_overprint():
     assert [w for _, w in result["struck"]] == ["struck"]
     assert len(result["over"]) >= 1
     assert [w for _, w in result["margin"]] == ["edge"]
+
+
+THICK = """
+title = "Thick bass bars"
+units = "in"
+paper = "{paper}"
+[[set]]
+name = "bass"
+kind = "bar"
+notes = ["C3", "G3"]
+material = "padauk-african"
+section = {{ shape = "bar", width = "64 mm", thickness = "40 mm" }}
+undercut = {{ ratios = [4.0], arch_width = 0.5, min_thickness = "8 mm" }}
+"""
+
+
+@pytest.mark.parametrize("paper", ["a4", "letter"])
+def test_thick_undercut_profiles_fit_without_overlap(tmp_path, paper):
+    # 40 mm blanks: the side profiles once printed over their heading and each other
+    path = tmp_path / "thick.toml"
+    path.write_text(THICK.format(paper=paper), encoding="utf-8")
+    plan = cutplan.plan(cutplan.load_design(path))
+    assert all(p.arch is not None and p.arch.thickness >= 0.040 for p in plan.pieces)
+    result = audit_pdf(render_pdf(plan))
+    assert (result["struck"], result["over"], result["margin"]) == ([], [], [])
