@@ -113,7 +113,7 @@ def tuning(packet):
                      "with its chance of coming out sharp; after one test piece is measured (cutplan calibrate) "
                      "it shrinks to the last figure.")
         if s.kind in ("air-column", "resonator"):
-            intro += " Air columns drift about 3 cents per degree C: tune at the temperature they are played in."
+            intro += " Air columns go sharp as the air warms: tune at the temperature they are played in."
         warnings = _warning_lines(s.pieces)
         if warnings:
             intro += " WARNINGS: " + " ".join(warnings)
