@@ -116,7 +116,8 @@ def render_piece_svg(plan, piece, colours=None):
     doc.text(f"{plan.title}: {piece.label} ({piece.note}, {piece.target_hz:.2f} Hz)", (MARGIN, MARGIN + 3), 4)
     how = ("cut the tube to its cut length, tune with the stopper" if piece.stopper else
            "cut long, then trim to pitch (trimming raises the pitch)")
-    doc.text(f"Print or cut at 100 % (actual size); check the rulers. {how}.", (MARGIN, MARGIN + 9), 2.5)
+    doc.text(f"Print or cut at 100 % (actual size); check the rulers. {how[0].upper() + how[1:]}.",
+             (MARGIN, MARGIN + 9), 2.5)
     body = piece.cut_length / MM if piece.stopper else piece.length / MM
     doc.rect((x0, y0), (body, strip_h), role="cut")
     near = [m.at_mm for m in mk.piece_marks(piece, units)]

