@@ -247,11 +247,26 @@ class Placer:
             return False
         return not any(_seg_hits_box(a, b, bx) for a, b in self.segs)
 
-    def place(self, c, candidates, size, font=FONT):
-        """Draw the first candidate (x, y, text, anchor) that is free; returns it, or None."""
+    def _leader_free(self, a, b):
+        return not any(_seg_hits_box(a, b, o) for o in self.boxes)
+
+    def place(self, c, candidates, size, font=FONT, leader_from=None):
+        """Draw the first candidate (x, y, text, anchor) that is free; returns it, or None.
+
+        With ``leader_from`` (x, y), a thin leader line runs from there to the label's top edge;
+        it must not cross another label either, and later labels keep clear of it.
+        """
         for x, y, text, anchor in candidates:
             box = text_box(x, y, text, size, font, anchor)
             if self.free(box):
+                if leader_from is not None:
+                    end = (min(max(leader_from[0], box[0] + 1), box[2] - 1), box[3] + 0.3)
+                    if not self._leader_free(leader_from, end):
+                        continue
+                    c.setLineWidth(0.25)
+                    c.setStrokeColor(colors.black)
+                    c.line(leader_from[0], leader_from[1], end[0], end[1])
+                    self.line(leader_from, end)
                 c.setFont(font, size)
                 {"start": c.drawString, "end": c.drawRightString, "middle": c.drawCentredString}[anchor](x, y, text)
                 self.block(box)

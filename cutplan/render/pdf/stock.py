@@ -6,9 +6,9 @@ from reportlab.lib import colors
 
 from cutplan.render.pdf.base import BOLD, LIGHT, SAFE, Placer, fit, heading, length, mm, paragraph, text_width
 
-PER_PAGE = 8
+PER_PAGE = 7
 """Sticks drawn on one page."""
-ROW = 27 * mm
+ROW = 30 * mm
 """Height of one stick's row (name, bar, labels below)."""
 
 
@@ -35,7 +35,7 @@ def stock_pages(packet):
             scale = page.width / longest
             for i, stick in enumerate(group):
                 base = y - 12 * mm - i * ROW
-                placer = Placer((page.left, base - 15 * mm, page.w - SAFE, base + 12 * mm))
+                placer = Placer((page.left, base - 18 * mm, page.w - SAFE, base + 12 * mm))
                 c.setFillColor(colors.black)
                 c.setFont(BOLD, 8)
                 title = fit(f"stick {first + i + 1}: {length(plan, stick.stock_length)}  {stick.group}", 8,
@@ -59,9 +59,9 @@ def stock_pages(packet):
                 placer.line((page.left, base + 8 * mm), (page.left + stick.stock_length * scale, base + 8 * mm))
                 end = page.left + stick.stock_length * scale
                 placer.line((end, base), (end, base + 8 * mm))
-                low = [base - 3 * mm, base - 5.8 * mm, base - 8.6 * mm, base - 11.4 * mm]
-                missed = []
-                for n, cut in enumerate(stick.cuts):
+                low = [base - k * mm for k in (3, 5.8, 8.6, 11.4, 14.2)]
+                missed, narrow = [], 0
+                for cut in stick.cuts:
                     x = page.left + cut.start * scale
                     wd = cut.length * scale
                     label, at = cut.label, f"at {_first(plan, cut.start)}"
@@ -71,13 +71,16 @@ def stock_pages(packet):
                         placer.place(c, [(x + 1.5, base + 1.2 * mm, at, "start")], 6.5)
                     else:
                         text = f"{label} {at}"
-                        cands = [(x + 1, yy, text, "start") for yy in low[n % 3:] + low[:n % 3]]
-                        cands += [(x + wd - 1, yy, text, "end") for yy in low]
-                        if placer.place(c, cands, 6.5) is None:
+                        mid, tw = x + wd / 2, text_width(text, 6.5)
+                        r = narrow % len(low)  # a staircase: each label ends at its leader, one row lower
+                        narrow += 1
+                        cands = [(mid + 2, yy, text, "end") for yy in low[r:] + low[:r]]
+                        cands += [(mid + dx, yy, text, "start") for yy in low for dx in (-2, 6, -tw - 6)]
+                        if placer.place(c, cands, 6.5, leader_from=(x + wd / 2, base)) is None:
                             missed.append(text)
                 off = f"offcut {_first(plan, stick.offcut)}"
                 placer.place(c, [(end, yy, off, "end") for yy in low]
                              + [(page.left + page.width, yy, off, "end") for yy in low], 6.5)
                 if missed:  # no room beside the bar: listed under it instead
-                    placer.place(c, [(page.left, base - 14 * mm, "also: " + "; ".join(missed), "start")], 6.5)
+                    placer.place(c, [(page.left, base - 17 * mm, "also: " + "; ".join(missed), "start")], 6.5)
         packet.add(draw)
