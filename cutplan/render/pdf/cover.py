@@ -92,7 +92,7 @@ def _amount(plan, item):
     if item.each is not None:
         parts.append(length(plan, item.each))
     text = " ".join(parts)
-    if item.total is not None:
+    if item.total is not None and not (item.count == 1 and item.each is not None):
         about = "about " if item.suggestion else ""
         text = (text + "; " if text else "") + f"{about}{length(plan, item.total)} in all"
     return text or "-"
