@@ -200,7 +200,7 @@ def render_wrap_svg(plan, set_plan, colours=None):
     height = 2 * MARGIN + 60
     doc = _Doc(width, height, colours)
     x0, y0 = MARGIN, MARGIN + 18
-    doc.text(f"{plan.title}: wrap guide for {set_plan.section_text}", (MARGIN, MARGIN + 3), 4)
+    doc.text(f"{plan.title}: wrap guide for {set_plan.section_label(plan.units)}", (MARGIN, MARGIN + 3), 4)
     doc.text("Wrap round the tube at the hang-hole mark, ends meeting at A; mark at A and at B "
              "for two opposite holes.", (MARGIN, MARGIN + 9), 2.5)
     doc.rect((x0, y0), (circumference + 10, 12), role="cut")

@@ -54,7 +54,7 @@ def cover(packet):
         y -= 6 * mm
         for s in plan.sets:
             notes = ", ".join(p.note for p in s.pieces[:12]) + (" and more" if len(s.pieces) > 12 else "")
-            y = paragraph(c, x, y, f"{s.name}: {len(s.pieces)} x {s.kind} in {s.material}, {s.section_text}. "
+            y = paragraph(c, x, y, f"{s.name}: {len(s.pieces)} x {s.kind} in {s.material}, {s.section_label(plan.units)}. "
                           f"Notes: {notes}.", 10, width)
             y -= 1 * mm
         y -= 3 * mm

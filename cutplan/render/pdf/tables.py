@@ -66,7 +66,7 @@ def cut_list(packet):
             finished = "tuned with the stopper" if stoppered else length_lines(plan, p.length)
             rows.append([p.label, p.note, f"{p.target_hz:.2f}", finished, cut, nodes, mass, "", "", ""])
         what = STOPPER_WORDS if stoppered else TRIM_WORDS
-        intro = (f"{s.kind}, {s.material}, {s.section_text}; longest first. Cut at the '{cut_head}' length: "
+        intro = (f"{s.kind}, {s.material}, {s.section_label(plan.units)}; longest first. Cut at the '{cut_head}' length: "
                  f"{what}.")
         if s.kind == "bar":
             intro += " Both support positions are measured from end A."
