@@ -12,7 +12,7 @@ from cutplan.cli.common import (
     _parse_stock_option,
     _plan,
     fail,
-    write_file,
+    write_folder,
 )
 
 
@@ -23,7 +23,8 @@ from cutplan.cli.common import (
 @click.option("--format", "fmt", type=click.Choice(["table", "csv", "json"]), default="table",
               show_default=True, help="What to print.")
 @click.option("--paper", type=click.Choice(["letter", "a4"]), help="Paper size of the PDF (default: the design's).")
-@click.option("--force", is_flag=True, help="Overwrite files in a non-empty output folder.")
+@click.option("--force", is_flag=True,
+              help="Replace what an earlier run wrote in the output folder (your own files there are kept).")
 @MATERIALS_OPTION
 def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     """Plan every piece of DESIGN: lengths, cut lengths, nodes, partials.
@@ -51,8 +52,7 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
         if the_plan.cut_list is not None:
             files["cutlist.csv"] = render_cutlist_csv(the_plan.cut_list)
         files.update(_packet_files(the_plan, paper))
-        for name, data in files.items():
-            write_file(out / name, data)
+        write_folder(out, files, force)
         click.echo(f"wrote {len(files)} files to {out}", err=True)
 
 

@@ -15,6 +15,7 @@ from cutplan.cli.common import (
     fail,
     section_options,
     write_file,
+    write_folder,
 )
 
 MEASURE_KINDS = ["chime", "bar", "air-column", "open-open", "closed-open"]
@@ -280,7 +281,8 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
 @click.option("-o", "--output", required=True, type=click.Path(), help="Folder for the WAV files.")
 @click.option("--strike-at", type=click.FloatRange(0.0, 0.5), default=0.1, show_default=True,
               help="Strike point as a fraction of the length from the end (chimes and bars).")
-@click.option("--force", is_flag=True, help="Overwrite files in a non-empty output folder.")
+@click.option("--force", is_flag=True,
+              help="Replace what an earlier run wrote in the output folder (your own files there are kept).")
 @MATERIALS_OPTION
 def listen_command(design, output, strike_at, force, materials_dirs):
     """Hear the set before cutting: one WAV per piece and the whole set as an arpeggio.
@@ -295,8 +297,8 @@ def listen_command(design, output, strike_at, force, materials_dirs):
     out = _check_output_dir(output, force)
     des, _lib = _load(design, materials_dirs)
     the_plan = _plan(des)
-    for p in the_plan.pieces:
-        write_file(out / f"{p.label}.wav", wav_bytes(piece_preview(p, strike_at=strike_at), RATE))
-    for s in the_plan.sets:
-        write_file(out / f"{s.name}-arpeggio.wav", wav_bytes(arpeggio(s.pieces, strike_at=strike_at), RATE))
-    click.echo(f"wrote {len(the_plan.pieces) + len(the_plan.sets)} WAV files to {out}")
+    files = {f"{p.label}.wav": wav_bytes(piece_preview(p, strike_at=strike_at), RATE) for p in the_plan.pieces}
+    files.update({f"{s.name}-arpeggio.wav": wav_bytes(arpeggio(s.pieces, strike_at=strike_at), RATE)
+                  for s in the_plan.sets})
+    write_folder(out, files, force)
+    click.echo(f"wrote {len(files)} WAV files to {out}")
