@@ -57,6 +57,8 @@ def measure_command(recording, frequency, kind, near, a4, fmt):
 
     if (recording is None) == (frequency is None):
         fail("measure: give a RECORDING or --frequency (one of them)")
+    if not 400 <= a4 <= 480:
+        fail(f"--a4: {a4} must be between 400 and 480 Hz")
     near_hz = None
     if near:
         try:
@@ -244,6 +246,8 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
 
     if (measured is None) == (recording is None):
         fail("trim: give --measured or --recording (one of them)")
+    if measured is not None and not 10 <= measured <= 30000:
+        fail(f"--measured: {measured} must be a frequency between 10 and 30000 Hz")
     des, _lib = _load(design, materials_dirs)
     the_plan = _plan(des)
     pieces = {p.label: p for p in the_plan.pieces}
@@ -262,10 +266,18 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
             now = parse_length(length_now)
         except UnitError as exc:
             fail(f"--length-now: {exc.text!r} is not {exc.accepted}")
+        if not 0.5 * piece.length <= now <= 2 * piece.cut_length:
+            fail(f"--length-now: {length_now!r} must be between half the planned length "
+                 f"({format_length(0.5 * piece.length)}) and twice the cut length ({format_length(2 * piece.cut_length)})")
+    from cutplan.numeric import quiet
+
     try:
-        advice = trim_advice(piece, f_at, measured, now)
+        advice = quiet(trim_advice, piece, f_at, measured, now)
     except CalibrationError as exc:
         fail(f"trim: {exc}")
+    except (ValueError, ArithmeticError):
+        fail(f"trim: no length between half and one and a half times the length now brings {piece.label} "
+             f"from {measured:.2f} Hz to {piece.target_hz:.2f} Hz; check the reading (another partial?) and the piece")
     click.echo(f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {measured:.2f} Hz "
                f"at {format_length(advice.length_now)}")
     click.echo(f"  length for the target: {format_length(advice.length_needed)}")
