@@ -32,9 +32,7 @@ def material(raw, key, default_name, library, col):
         return None
     else:
         found = library.materials[value]
-    if getattr(found, "unusual", False):
-        return found
-    lines = plausibility.problems(found.modulus, found.density, getattr(found, "material_class", None))
+    lines = plausibility.material_problems(found)
     for line in lines:
         where = "an inline material" if isinstance(value, dict) else f"material {value!r}"
         col.add(key, None, f"{line}; if {where} really is so, add unusual = true to its table")
