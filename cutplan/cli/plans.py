@@ -41,6 +41,12 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     from cutplan.render.table import render_csv, render_cutlist_csv, render_json
     from cutplan.render.terminal import render_table
 
+    if out is not None:  # the folder first: if it cannot be written, nothing else is said
+        files = {"plan.csv": render_csv(the_plan), "plan.json": render_json(the_plan)}
+        if the_plan.cut_list is not None:
+            files["cutlist.csv"] = render_cutlist_csv(the_plan.cut_list)
+        files.update(_packet_files(the_plan, paper))
+        write_folder(out, files, force)
     if fmt == "json":
         click.echo(render_json(the_plan), nl=False)
     elif fmt == "csv":
@@ -48,11 +54,6 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     else:
         click.echo(render_table(the_plan, units), nl=False)
     if out is not None:
-        files = {"plan.csv": render_csv(the_plan), "plan.json": render_json(the_plan)}
-        if the_plan.cut_list is not None:
-            files["cutlist.csv"] = render_cutlist_csv(the_plan.cut_list)
-        files.update(_packet_files(the_plan, paper))
-        write_folder(out, files, force)
         click.echo(f"wrote {len(files)} files to {out}", err=True)
 
 

@@ -157,9 +157,10 @@ def design_from_mapping(data, library_loader, path="(design)", base_dir=None):
     paper = _choice(data, "paper", ("letter", "a4"), col)
     a4, temperament = _tuning(data.get("tuning", {}), col)
     base = Path(base_dir) if base_dir is not None else Path(path).parent
+    before = len(col.errors)
     dirs = _material_dirs(data.get("material_dirs", []), base, col)
     library = None
-    if not col.errors:
+    if len(col.errors) == before:
         try:
             library = library_loader(dirs)
         except MaterialError as exc:
