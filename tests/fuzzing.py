@@ -43,6 +43,31 @@ WORDS = [
 ]
 
 
+GOOD = {
+    "title": ["Garden chimes", "Kl\u00e4nge f\u00fcr den Hof", "=SUM(A1)", "x" * 120], "units": ["mm", "in"],
+    "paper": ["a4", "letter"], "a4": [432, 442.5, "440 Hz"], "temperament": ["just", "pythagorean", "equal-19"],
+    "kerf": ["0 mm", "3 mm", "1/8 in"], "end_trim": ["0 mm", "10 mm", "1 in"],
+    "allowance": ["risk 1 %", "1 %", "5 mm", "0 mm"], "lengths": [["6 ft", "10 ft"], [{"length": "2 m", "price": 9.5}]],
+    "name": ["porch", "=1+1", "Bells 2", "\u00e9t\u00e9"], "notes": [["C4"], ["A6", "B6"], ["C3", "E3", "G3"]],
+    "scale": ["major", "minor-pentatonic"], "root": ["D4", "A5"], "count": [1, 5, 12],
+    "frequencies": [[440, "523.3 Hz"], [100.5]], "cents": [[0, 200, 400]], "ratios": [["1", "9/8", "5/4"]],
+    "range": ["C5..G5", "A3..A4"], "material": ["aluminum-6061-t6", "copper-c12200", "pvc-rigid", "oak-red",
+                                               {"modulus": "200 GPa", "density": "7850 kg/m3", "class": "metal"}],
+    "model": ["slender"], "target": ["strike-note"], "ends": ["open-open"], "end_correction": ["flanged", 0.6],
+    "temperature": ["5 C", "30 C", "80 F"], "humidity": [0, 80, "40 %"], "max_length": ["2 m", "300 mm"],
+    "temperature_range": [["10 C", "30 C"]], "outer": ["3/4 in", "30 mm"], "wall": ["1 mm", "0.049 in"],
+    "inner": ["20 mm"], "diameter": ["12 mm", "1/2 in"], "width": ["50 mm"], "thickness": ["25 mm", "15 mm"],
+    "modulus": ["70 GPa", "10 Msi"], "density": ["8000 kg/m3", "0.3 lb/in3"], "class": ["metal", "wood"],
+    "unusual": [True], "poisson": [0.3], "shear_ratio": [0.4],
+}
+
+
+def plausible(rng, key):
+    """A value for ``key`` that may well be accepted (so that plans are made, not only refused)."""
+    options = GOOD.get(key)
+    return options[rng.integers(0, len(options))] if options else scalar(rng)
+
+
 def scalar(rng):
     """One random scalar of any TOML type, biased toward values that hurt."""
     pick = rng.integers(0, 9)
@@ -67,7 +92,7 @@ def mutated_design(rng, n_mutations=None):
     design = {k: (dict(v) if isinstance(v, dict) else v) for k, v in TOP.items()}
     design["stock"] = dict(TOP["stock"])
     design["set"] = [{k: (dict(v) if isinstance(v, dict) else v) for k, v in BASE_SETS[k].items()} for k in kinds]
-    for _ in range(n_mutations or rng.integers(1, 5)):
+    for _ in range(n_mutations or int(rng.choice([1, 1, 1, 2, 2, 3, 4]))):
         path = PATHS[rng.integers(0, len(PATHS))]
         table = design
         if path[0] == "set":
@@ -77,8 +102,15 @@ def mutated_design(rng, n_mutations=None):
             if not isinstance(table.get(part), dict):
                 table[part] = {}
             table = table[part]
-        if rng.random() < 0.15:
+        roll = rng.random()
+        if roll < 0.1:
             table.pop(path[-1], None)
+        elif roll < 0.6:
+            if path[-1] in ("notes", "scale", "range", "frequencies", "cents", "ratios"):
+                for other in ("notes", "scale", "range", "frequencies", "cents", "ratios"):
+                    table.pop(other, None)
+                table.update({"root": "D4", "count": 5} if path[-1] in ("scale", "cents", "ratios") else {})
+            table[path[-1]] = plausible(rng, path[-1])
         else:
             table[path[-1]] = scalar(rng)
     return design
