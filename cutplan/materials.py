@@ -136,6 +136,8 @@ def _read_toml(path):
         raise MaterialError(path, "(file)", "", f"is not valid TOML: {exc}") from None
     except UnicodeDecodeError:
         raise MaterialError(path, "(file)", "", "is not UTF-8 text") from None
+    except RecursionError:
+        raise MaterialError(path, "(file)", "", "is not a table file: its brackets nest too deep") from None
 
 
 def _value(path, key, entry, parse, sources, spread_default=None):

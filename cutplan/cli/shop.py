@@ -309,8 +309,10 @@ def listen_command(design, output, strike_at, force, materials_dirs):
     out = _check_output_dir(output, force)
     des, _lib = _load(design, materials_dirs)
     the_plan = _plan(des)
-    files = {f"{p.label}.wav": wav_bytes(piece_preview(p, strike_at=strike_at), RATE) for p in the_plan.pieces}
-    files.update({f"{s.name}-arpeggio.wav": wav_bytes(arpeggio(s.pieces, strike_at=strike_at), RATE)
+    from cutplan.numeric import quiet
+
+    files = {f"{p.label}.wav": wav_bytes(quiet(piece_preview, p, strike_at=strike_at), RATE) for p in the_plan.pieces}
+    files.update({f"{s.name}-arpeggio.wav": wav_bytes(quiet(arpeggio, s.pieces, strike_at=strike_at), RATE)
                   for s in the_plan.sets})
     write_folder(out, files, force)
     click.echo(f"wrote {len(files)} WAV files to {out}")
