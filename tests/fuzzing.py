@@ -32,6 +32,7 @@ PATHS = (
     + [("set", "section", k) for k in SECTION_KEYS]
     + [("set", "material", k) for k in MATERIAL_KEYS]
     + [("set", "stock", k) for k in STOCK_KEYS]
+    + [("set", "undercut", k) for k in ("ratios", "arch_width", "min_thickness")]
 )
 WORDS = [
     "1 in", "25 mm", "0.065 in", "8 ft", "1e9 m", "-1 mm", "0 mm", "19.84", "1/16", "400 mm", "1e-9 mm", "3 m",
@@ -50,7 +51,7 @@ GOOD = {
     "allowance": ["risk 1 %", "1 %", "5 mm", "0 mm"], "lengths": [["6 ft", "10 ft"], [{"length": "2 m", "price": 9.5}]],
     "name": ["porch", "=1+1", "Bells 2", "\u00e9t\u00e9"], "notes": [["C4"], ["A6", "B6"], ["C3", "E3", "G3"]],
     "scale": ["major", "minor-pentatonic"], "root": ["D4", "A5"], "count": [1, 5, 12],
-    "frequencies": [[440, "523.3 Hz"], [100.5]], "cents": [[0, 200, 400]], "ratios": [["1", "9/8", "5/4"]],
+    "frequencies": [[440, "523.3 Hz"], [100.5]], "cents": [[0, 200, 400]], "ratios": [["1", "9/8", "5/4"], [4.0], [4.0, 10.0]],
     "range": ["C5..G5", "A3..A4"], "material": ["aluminum-6061-t6", "copper-c12200", "pvc-rigid", "oak-red",
                                                {"modulus": "200 GPa", "density": "7850 kg/m3", "class": "metal"}],
     "model": ["slender"], "target": ["strike-note"], "ends": ["open-open"], "end_correction": ["flanged", 0.6],
@@ -59,6 +60,7 @@ GOOD = {
     "inner": ["20 mm"], "diameter": ["12 mm", "1/2 in"], "width": ["50 mm"], "thickness": ["25 mm", "15 mm"],
     "modulus": ["70 GPa", "10 Msi"], "density": ["8000 kg/m3", "0.3 lb/in3"], "class": ["metal", "wood"],
     "unusual": [True], "poisson": [0.3], "shear_ratio": [0.4],
+    "arch_width": [0.3, 0.6], "min_thickness": ["5 mm", "2 mm"],
 }
 
 

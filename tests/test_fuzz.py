@@ -45,6 +45,20 @@ def test_any_design_gives_exit_0_or_2_and_sane_lengths(tmp_path_factory, seed):
         assert bad_lengths(json.loads(result.output)) == []
 
 
+@settings(derandomize=True, max_examples=300, deadline=None, database=None)
+@given(seed=st.integers(0, 2**32 - 1))
+def test_any_design_mapping_validates_or_names_each_problem_in_one_line(seed):
+    # validation only (no planning), so arched-bar keys are covered too
+    import cutplan
+    from cutplan.design import DesignErrors
+
+    design = mutated_design(np.random.default_rng(seed), n_mutations=3)
+    try:
+        cutplan.design_from_mapping(design)
+    except DesignErrors as exc:
+        assert exc.errors and all("\n" not in str(e) and "\x1b" not in str(e) for e in exc.errors)
+
+
 OPTION_WORDS = ["8 ft", "8 ft x 2", "96 x 2", "3 m x 2 @ 12.50", "1e9 m", "-1 mm", "0 mm", "1/16", "1/16 in",
                 "-1/8 in", "50 mm", "2 mm", "\x1b[2J", "", "x", "10 ft x 0", "10 ft x 99999999", "nan mm"]
 
