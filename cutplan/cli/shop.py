@@ -231,8 +231,9 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
 @click.option("--measured", type=float, help="Frequency the piece sounds now [Hz] (from a tuner).")
 @click.option("--recording", type=click.Path(dir_okay=False), help="Or a WAV recording of the piece.")
 @click.option("--length-now", help="Length of the piece now (default: its cut length on the cut sheet).")
+@click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
 @MATERIALS_OPTION
-def trim_command(design, label, measured, recording, length_now, materials_dirs):
+def trim_command(design, label, measured, recording, length_now, units, materials_dirs):
     """How much to trim a piece, and from which end, to bring it to pitch.
 
     \b
@@ -248,8 +249,9 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
         fail("trim: give --measured or --recording (one of them)")
     if measured is not None and not 10 <= measured <= 30000:
         fail(f"--measured: {measured} must be a frequency between 10 and 30000 Hz")
-    des, _lib = _load(design, materials_dirs)
+    des, _lib = _load(design, materials_dirs, units)
     the_plan = _plan(des)
+    units = the_plan.units
     pieces = {p.label: p for p in the_plan.pieces}
     if label not in pieces:
         fail(f"trim: {label!r} is not a piece of {design}; labels are {', '.join(list(pieces)[:8])}...")
@@ -268,24 +270,25 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
             fail(f"--length-now: {exc.text!r} is not {exc.accepted}")
         if not 0.5 * piece.length <= now <= 2 * piece.cut_length:
             fail(f"--length-now: {length_now!r} must be between half the planned length "
-                 f"({format_length(0.5 * piece.length)}) and twice the cut length ({format_length(2 * piece.cut_length)})")
+                 f"({format_length(0.5 * piece.length, units)}) and twice the cut length "
+                 f"({format_length(2 * piece.cut_length, units)})")
     from cutplan.numeric import quiet
 
     try:
-        advice = quiet(trim_advice, piece, f_at, measured, now)
+        advice = quiet(trim_advice, piece, f_at, measured, now, units)
     except CalibrationError as exc:
         fail(f"trim: {exc}")
     except (ValueError, ArithmeticError):
         fail(f"trim: no length between half and one and a half times the length now brings {piece.label} "
              f"from {measured:.2f} Hz to {piece.target_hz:.2f} Hz; check the reading (another partial?) and the piece")
     click.echo(f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {measured:.2f} Hz "
-               f"at {format_length(advice.length_now)}")
-    click.echo(f"  length for the target: {format_length(advice.length_needed)}")
+               f"at {format_length(advice.length_now, units)}")
+    click.echo(f"  length for the target: {format_length(advice.length_needed, units)}")
     click.echo(f"  {advice.action}")
     if piece.nodes and advice.remove > 0:
         fractions = [x / piece.length for x in piece.nodes]
         click.echo("  if not yet drilled, hang/support points for the trimmed length: "
-                   + ", ".join(format_length(f * advice.length_needed) for f in fractions) + " from the top/reference end")
+                   + ", ".join(format_length(f * advice.length_needed, units) for f in fractions) + " from the top/reference end")
 
 
 @click.command("listen")
