@@ -62,7 +62,7 @@ FREQUENCY_FORMS = 'a frequency such as "440 Hz", "1.2 kHz" or a plain number in 
 
 _NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
 # 1-1/4, 1 1/4, 3/4, 2.5, 1e3
-_AMOUNT = rf"(?:\d+\s*[- ]\s*\d+\s*/\s*\d+|\d+\s*/\s*\d+|{_NUMBER})"
+_AMOUNT = rf"(?:-?\d+\s*[- ]\s*\d+\s*/\s*\d+|-?\d+\s*/\s*\d+|{_NUMBER})"
 
 _LENGTH_UNITS = {
     "mm": MM,
@@ -118,8 +118,11 @@ _FREQUENCY_UNITS = {"hz": 1.0, "khz": 1e3}
 
 
 def _amount(text):
-    """Value of a decimal, a fraction '3/4' or a mixed number '1-1/4' / '1 1/4'."""
+    """Value of a decimal, a fraction '3/4' or a mixed number '1-1/4' / '1 1/4' (a leading minus
+    is kept, so that a range check, not the parser, refuses "-1/8 in")."""
     text = text.strip()
+    if re.fullmatch(r"-\d+\s*(?:[- ]\s*\d+\s*)?/\s*\d+", text):
+        return -_amount(text[1:])
     mixed = re.fullmatch(r"(\d+)\s*[- ]\s*(\d+)\s*/\s*(\d+)", text)
     if mixed:
         whole, num, den = (int(g) for g in mixed.groups())
