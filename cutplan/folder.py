@@ -104,6 +104,10 @@ def check_target(target, force):
     target = Path(target)
     if target.exists() and not target.is_dir():
         return f"{target}: the output must be a folder, and this is a file"
+    here, full = Path.cwd().resolve(), target.resolve()
+    if full == here or full in here.parents:
+        return (f"{target}: the output folder holds the current folder; give a folder of its own, "
+                "such as -o packet, so that it can be swapped in whole")
     if target.is_dir() and not force and any(p.name != MANIFEST for p in target.iterdir()):
         return f"{target}: the folder is not empty; use --force to replace what cutplan wrote there"
     return None
@@ -115,12 +119,12 @@ def write_folder(target, files, force=False):
     Returns the list of names written. Raises :class:`FolderError` (one line) when the folder
     cannot be written; the previous folder is then left exactly as it was.
     """
-    target = Path(target)
     problem = check_target(target, force)
     if problem:
         raise FolderError(problem)
+    shown_target, target = target, Path(target).resolve()
     names = {str(_safe_relative(n)): d for n, d in files.items()}
-    parent = target.parent if str(target.parent) else Path(".")
+    parent = target.parent
     tmp = None
     try:
         parent.mkdir(parents=True, exist_ok=True)
@@ -138,7 +142,7 @@ def write_folder(target, files, force=False):
         _swap_in(tmp, target)
         tmp = None
     except OSError as exc:
-        raise FolderError(f"{target}: cannot write the folder ({_why(exc)}); nothing was changed") from None
+        raise FolderError(f"{shown_target}: cannot write the folder ({_why(exc)}); nothing was changed") from None
     finally:
         if tmp is not None:
             shutil.rmtree(tmp, ignore_errors=True)

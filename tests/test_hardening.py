@@ -353,3 +353,32 @@ def test_numpy_warnings_stay_inside():
     # pytest turns warnings into errors here, so a leak would raise
     assert math.isinf(numeric.quiet(lambda: float(np.float64(1e308) * 10)))
     assert numeric.quiet(lambda: np.log(np.zeros(2)))[0] == -math.inf
+
+
+def test_an_interrupted_run_leaves_the_previous_packet_and_its_leftovers_are_cleared(tmp_path, monkeypatch):
+    out = tmp_path / "packet"
+    assert _run("plan", _design(tmp_path), "-o", out).exit_code == 0
+    before = _snapshot(out)
+    real, calls = folder.write_bytes, []
+
+    def interrupted(path, payload):
+        calls.append(path)
+        if len(calls) == 3:
+            raise KeyboardInterrupt  # Ctrl-C halfway through the packet
+        real(path, payload)
+
+    monkeypatch.setattr(folder, "write_bytes", interrupted)
+    with pytest.raises(KeyboardInterrupt):
+        folder.write_folder(out, {"plan.csv": "a", "plan.json": "b", "packet.pdf": b"c"}, force=True)
+    assert _snapshot(out) == before
+    monkeypatch.setattr(folder, "write_bytes", real)
+    (tmp_path / ".packet.cutplan-killed").mkdir()  # what a SIGKILL leaves beside the folder
+    (tmp_path / ".packet.cutplan-killed" / "plan.csv").write_text("half")
+    assert _run("plan", _design(tmp_path), "-o", out, "--force").exit_code == 0
+    assert [p.name for p in tmp_path.iterdir() if p.name.startswith(".packet")] == []
+
+
+def test_the_current_folder_is_not_swapped_out_from_under_the_user(tmp_path, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    (line,) = _one_error_line(_run("plan", _design(tmp_path), "-o", ".", "--force"))
+    assert "current folder" in line
