@@ -12,7 +12,6 @@ from __future__ import annotations
 import argparse
 import collections
 import json
-import os
 import signal
 import subprocess
 import sys

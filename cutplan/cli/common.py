@@ -3,9 +3,7 @@ writing files whole, and the common options."""
 
 from __future__ import annotations
 
-import os
 import sys
-import tempfile
 from pathlib import Path
 
 import click
