@@ -122,7 +122,7 @@ def _toml_value(v):
     if isinstance(v, bool):
         return "true" if v else "false"
     if isinstance(v, int):
-        return str(v)  # tomllib reads any size of integer, as the 400-digit lengths show
+        return str(v)  # tomllib reads an integer of any size, 400 digits included
     if isinstance(v, float):
         return "nan" if math.isnan(v) else ("inf" if v > 0 else "-inf") if math.isinf(v) else repr(v)
     if isinstance(v, str):

@@ -33,8 +33,10 @@ PATTERNS = {
     "closed-open": ((1.0, 3.0, 5.0, 7.0, 9.0), 0.04),
     "open-open": ((1.0, 2.0, 3.0, 4.0, 5.0, 6.0), 0.04),
 }
-"""Partial patterns by kind: nominal ratios (Euler-Bernoulli free-free ratios, shared/REFERENCES.md
-sec. 1; tuned bars 1:4:10 and 1:3:6, sec. 4; odd and all harmonics for air columns) and the
+"""Partial patterns by kind: nominal ratios (Euler-Bernoulli free-free ratios 1 : 2.756 : 5.404 :
+8.933, Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed., 1998, ch. 2 (from memory
+for the chapter); tuned bars 1:4:10 and 1:3:6, the same book's chapter on bars (from memory);
+odd and all harmonics for closed and open air columns) and the
 largest fractional drop allowed for the highest listed partial (shear lowers the upper free-free
 partials of real pieces; common practice from our solver's range of pieces)."""
 
