@@ -12,7 +12,7 @@ MIN_SIZE = 0.0005
 """Smallest cross-section dimension accepted [m] (0.5 mm: thinner is foil, or a unit slip)."""
 _EXAMPLE = 'must be a table such as { shape = "tube", outer = "1 in", wall = "0.065 in" }'
 _SHAPE_FOR_KIND = {
-    "air-column": (("tube",), "must be tube for a air-column set"),
+    "air-column": (("tube",), "must be tube for an air-column set"),
     "resonator": (("tube",), "must be tube for a resonator set"),
     "bar": (("bar",), 'must be "bar" for a bar set (use kind = "chime" for tubes and rods)'),
     "chime": (("tube", "rod"), 'must be "tube" or "rod" for a chime set (use kind = "bar" for bars)'),
@@ -89,7 +89,7 @@ def section(raw, key, kind, library, col):
         return None, ""
     shapes, allowed = _SHAPE_FOR_KIND[kind]
     if shape not in shapes:
-        col.add(f"{key}.shape", shape, allowed.replace("a air", "an air"))
+        col.add(f"{key}.shape", shape, allowed)
         return None, ""
     need = {"tube": ("outer",), "rod": ("diameter",), "bar": ("width", "thickness")}[shape]
     values = {}
