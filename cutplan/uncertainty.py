@@ -17,7 +17,8 @@ sharp (too short, which cannot be undone).
 from __future__ import annotations
 
 import numpy as np
-from scipy.optimize import brentq
+
+from cutplan.physics.roots import bracketed_roots
 
 SAMPLES = 20_000
 """Monte Carlo samples per set [-]."""
@@ -88,25 +89,46 @@ def air_ratios(length, radius, correction_factor, open_ends, temperature, calibr
     return speed * (length + open_ends * delta) / (length + open_ends * delta_s)
 
 
+def risk_quantile(ratios, risk):
+    """The ratio f_actual / f_planned exceeded with probability ``risk`` [-]."""
+    return float(np.quantile(ratios, 1.0 - risk))
+
+
 def cut_length_for_risk(frequency_at, length, target, ratios, risk):
     """Shortest cut length [m] at which the chance of sounding above ``target`` is ``risk``.
 
-    ``frequency_at(L)`` is the planned model's frequency [Hz] at length L [m].
+    ``frequency_at(L)`` is the planned model's frequency [Hz] at length L [m].  The cut length
+    is where the model sounds ``target / q``, q the (1 - risk) quantile of the ratios; a set
+    solved in closed form passes ``target / q`` to its own length solver instead
+    (:func:`risk_quantile`).
     """
-    q = float(np.quantile(ratios, 1.0 - risk))
+    q = risk_quantile(ratios, risk)
     if q <= 1.0:
         return length
     goal = target / q
 
     def miss(x):
-        return np.log(frequency_at(x) / goal)
+        return float(np.log(frequency_at(x) / goal))
 
+    f_lo = miss(length)
+    if f_lo <= 0:
+        return length
     hi = length * 1.05
-    while miss(hi) > 0:
+    f_hi = miss(hi)
+    while f_hi > 0:
         hi *= 1.05
-    return brentq(miss, length, hi, xtol=1e-7)
+        f_hi = miss(hi)
+    root = bracketed_roots(lambda x, _k: np.array([miss(v) for v in x]), [length], [hi], [f_lo], [f_hi],
+                           rtol=1e-13)
+    return float(root[0])
 
 
 def sharp_risk(frequency_at, cut_length, target, ratios):
     """Chance [-] that a piece cut at ``cut_length`` sounds above ``target`` before any trimming."""
     return float(np.mean(ratios * frequency_at(cut_length) > target))
+
+
+def sharp_risks(frequencies_at_cut, targets, ratios):
+    """:func:`sharp_risk` for many pieces at once, given each one's model frequency at its cut length."""
+    f = np.asarray(frequencies_at_cut, dtype=float)[:, None]
+    return np.mean(np.asarray(ratios)[None, :] * f > np.asarray(targets, dtype=float)[:, None], axis=1)
