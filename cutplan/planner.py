@@ -328,16 +328,16 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
     kappa = sec.shear_coefficient(mat.poisson)
     ratios_uncal = uncertainty.beam_ratios(mat, sec, spec.outer_tolerance, spec.wall_tolerance)
     ratios_cal = uncertainty.beam_ratios(mat, sec, calibrated=True)
-    pieces, guess, previous = [], None, None
+    pieces, guess, jacobian = [], None, None
     order = sorted(range(len(spec.targets)), key=lambda i: spec.targets[i].frequency)
     solved = {}
     for i in order:
+        # lowest note first; each bar starts from its neighbour's arch and Jacobian (the first
+        # Newton step then does the length scaling)
         t = spec.targets[i]
-        if guess is not None:
-            guess = (guess[0] * (previous / t.frequency) ** 0.5, guess[1], guess[2])
         result = undercut.design_undercut(t.frequency, cut.ratios, sec.width, sec.thickness, e, g, mat.density,
-                                          kappa, cut.min_thickness, cut.arch_width, guess=guess)
-        guess, previous = (result.length, result.depth, result.exponent), t.frequency
+                                          kappa, cut.min_thickness, cut.arch_width, guess=guess, jacobian=jacobian)
+        guess, jacobian = (result.length, result.depth, result.exponent), result.jacobian
         solved[i] = result
         if progress is not None:
             progress(1)
