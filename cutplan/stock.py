@@ -17,8 +17,13 @@ relaxation is solved by column generation (HiGHS for the master LP, a 0/1 knapsa
 its rounded-up value is a lower bound, and a diving heuristic on the generated patterns usually
 meets it.  With prices, every mix of sticks cheaper than the best layout is tried cheapest first:
 a mix whose relaxation cannot hold the pieces is ruled out, so the first mix that packs is the
-optimum.  Under the time limit the best layout is reported with its bound and gap.  Everything
-is ordered deterministically, so the same design gives the same layout.
+optimum.
+
+Effort is bounded by work, never by the clock: at most ``effort`` master LP solves per layout
+(and MAX_MIXES stick mixes).  Everything is ordered deterministically, so the same design gives
+the same layout on any machine and under any load; when the work runs out the best layout is
+reported with its bound, not proven.  An optional wall-clock ``time_limit`` only stops a run,
+with a StockError that says so; it never changes a printed result.
 
 References
 ----------
@@ -37,12 +42,47 @@ import numpy as np
 
 FIT_TOLERANCE = 1e-9
 """Slack allowed when checking that pieces fit [m] (a nanometre: float rounding only)."""
-DEFAULT_TIME_LIMIT = 2.0
-"""Seconds the exact search may take per group of pieces [s]."""
+DEFAULT_TIME_LIMIT = None
+"""No wall-clock limit by default: effort is bounded by work (see DEFAULT_EFFORT)."""
+DEFAULT_EFFORT = 4000
+"""Most master LP solves one layout may take [-] (every seeded bench instance up to 80 pieces
+needs under 600)."""
+MAX_ROUNDS = 400
+"""Most pricing rounds of one column generation [-]."""
 
 
 class StockError(ValueError):
     """The stock on hand cannot hold the pieces (names what is missing)."""
+
+
+class StockTimeout(StockError):
+    """The optional wall-clock limit passed before the search finished (nothing is printed)."""
+
+
+class _OutOfWork(Exception):
+    """The work budget ran out: the search stops where it is, the same way on every machine."""
+
+
+class _Work:
+    """Counts master LP solves against a budget; checks the optional wall-clock limit."""
+
+    def __init__(self, effort, time_limit):
+        import time
+
+        self.left = effort
+        self.used = 0
+        self._clock = time.perf_counter
+        self.deadline = None if time_limit is None else self._clock() + time_limit
+        self.time_limit = time_limit
+
+    def spend(self):
+        if self.deadline is not None and self._clock() > self.deadline:
+            raise StockTimeout(f"the cut-list search passed its time limit of {self.time_limit:g} s before it "
+                               "finished; run it without a time limit (the result does not depend on it)")
+        if self.left <= 0:
+            raise _OutOfWork
+        self.left -= 1
+        self.used += 1
 
 
 @dataclass(frozen=True)
@@ -249,24 +289,29 @@ def _master_lp(keys, n_items, types, cost, limited, big):
             float(res.x[m:].sum()))
 
 
-def _generate(items_idx, sizes, caps, types, cost, limited, columns, deadline, rounding):
+def _generate(items_idx, sizes, caps, types, cost, limited, columns, work, rounding):
     """Column generation on the items ``items_idx``; ``rounding`` floor (bound) or ceil (feasible).
 
     Returns (LP value, x, columns used, artificial total); an artificial total above zero at the
-    end means even the relaxation cannot cover the items with the sticks allowed.
+    end means even the relaxation cannot cover the items with the sticks allowed.  Raises
+    _OutOfWork when the budget runs out (the LP value is then no bound).
     """
-    import time
-
     big = 1000.0 * (max(cost) + 1.0)
     local = {i: k for k, i in enumerate(items_idx)}
     grid = (np.floor if rounding == "floor" else np.ceil)(sizes[items_idx] / GRID - (1e-9 if rounding == "ceil" else -1e-9))
     grid = grid.astype(int)
     grid_caps = [int(np.floor(c / GRID + 1e-9)) for c in caps]
     value = x = None
-    keys = []
-    while True:
-        keys = [k for k in columns if all(i in local for i in k[1])
-                and (rounding == "floor" or sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE)]
+    keys, seen = [], 0
+    for _round in range(MAX_ROUNDS):
+        # only the columns added since the last round need checking
+        pool = list(columns)
+        for k in pool[seen:]:
+            if all(i in local for i in k[1]) and (
+                    rounding == "floor" or sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE):
+                keys.append(k)
+        seen = len(pool)
+        work.spend()
         local_keys = [(t, tuple(local[i] for i in m)) for t, m in keys]
         value, x, pi, mu, art = _master_lp(local_keys, len(items_idx), types, cost, limited, big)
         if value is None:
@@ -284,18 +329,17 @@ def _generate(items_idx, sizes, caps, types, cost, limited, columns, deadline, r
                     columns[key] = True
                     added += 1
                 prices[chosen] = 0.0
-        if not added or time.perf_counter() > deadline:
+        if not added:
             return value, x, keys, art
+    raise _OutOfWork
 
 
-def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, time_limit):
+def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, work):
     """Gilmore-Gomory LP bound by column generation, then a diving heuristic on the columns.
 
-    Returns (assignment or None, proven optimal, lower bound on the objective).
+    Returns (assignment or None, proven optimal, lower bound on the objective); raises
+    _OutOfWork when the work budget runs out.
     """
-    import time
-
-    deadline = time.perf_counter() + time_limit
     n = len(items)
     sizes = np.array([it.length + kerf for it in items])
     caps = [_capacity(t.length, kerf, end_trim) for t in types]
@@ -308,12 +352,10 @@ def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, tim
         fitting = [t for t in range(len(types)) if _fits(0.0, sizes[i], caps[t])]
         columns[(min(fitting, key=lambda t: (cost[t], caps[t])), (i,))] = True
     everything = np.arange(n)
-    lp_value, _, _, art = _generate(everything, sizes, caps, types, cost, limited, columns, deadline, "floor")
+    lp_value, _, _, art = _generate(everything, sizes, caps, types, cost, limited, columns, work, "floor")
     if lp_value is None:
         return None, False, 0.0
     if art > 1e-6:
-        if time.perf_counter() > deadline:
-            return None, False, 0.0  # not converged: unknown
         return None, True, 0.0  # even the relaxation is infeasible: the stock allowed is too small
     bound = math.ceil(lp_value - 1e-6) if not by_cost else lp_value
     # dive: fix the most used feasible column, re-price the rest, repeat
@@ -322,9 +364,7 @@ def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, tim
     counts = {t: types[t].count for t in limited}
     while left:
         sub_types = [StockType(st.length, counts.get(t, st.count), st.price) for t, st in enumerate(types)]
-        value, x, keys, art = _generate(np.array(left), sizes, caps, sub_types, cost, limited, columns,
-                                        deadline if time.perf_counter() < deadline else time.perf_counter() + 0.05,
-                                        "ceil")
+        value, x, keys, art = _generate(np.array(left), sizes, caps, sub_types, cost, limited, columns, work, "ceil")
         if value is None or art > 1e-6:
             return None, False, bound
         feasible = [(j, k) for j, k in enumerate(keys) if sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE]
@@ -392,8 +432,12 @@ def _cost(sticks):
     return float(sum(s.price for s in sticks))
 
 
-def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT):
+def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, effort=DEFAULT_EFFORT):
     """Lay ``items`` out on ``types`` of stock. Raises StockError when they cannot all be cut.
+
+    ``effort`` bounds the work (master LP solves), so the result never depends on the machine or
+    its load.  ``time_limit`` [s], if given, only stops a run that is still going at that time,
+    with :class:`StockTimeout`; it never changes a result.
 
     Examples
     --------
@@ -416,6 +460,7 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT):
             raise StockError(
                 f"{it.label} ({it.length * 1000:.0f} mm) is longer than the longest stock "
                 f"({longest.length * 1000:.0f} mm) after {end_trim * 1000:.0f} mm end trim")
+    work = _Work(effort, time_limit)
     by_cost = all(t.price is not None for t in types) and any(t.price for t in types)
     sizes = [it.length + kerf for it in items]
     bound = lower_bound_l2(sizes, _capacity(longest.length, kerf, end_trim))
@@ -426,12 +471,15 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT):
     if by_cost and heur is not None:
         # priced: start from first fit decreasing and rule out every cheaper mix of sticks
         first = _sticks(items, types, kerf, end_trim, heur)
-        better, proven, cost_bound = _cheaper_mixes(items, types, kerf, end_trim, _cost(first), time_limit)
+        better, proven, cost_bound = _cheaper_mixes(items, types, kerf, end_trim, _cost(first), work)
         sticks = better if better is not None else first
         method = "stick mixes + column generation" if better is not None else "first fit decreasing"
         return Layout(sticks, bound, proven, method, _cost(sticks), max(cost_bound, 0.0))
     seeds = heur or []
-    exact, proven, dual = _column_generation(items, types, kerf, end_trim, by_cost, seeds, time_limit)
+    try:
+        exact, proven, dual = _column_generation(items, types, kerf, end_trim, by_cost, seeds, work)
+    except _OutOfWork:
+        exact, proven, dual = None, False, 0.0
     candidates = []
     if heur is not None:
         candidates.append(("first fit decreasing", _sticks(items, types, kerf, end_trim, heur)))
@@ -492,29 +540,26 @@ def _mixes(types, sizes_total, caps, below):
     return sorted(out), complete
 
 
-def _cheaper_mixes(items, types, kerf, end_trim, best_cost, time_limit):
+def _cheaper_mixes(items, types, kerf, end_trim, best_cost, work):
     """Look for a cheaper layout, one mix of sticks at a time, cheapest first.
 
     A mix whose relaxed (fractional) packing cannot hold the pieces is ruled out; the first mix
     that yields a layout is then the optimum, if every cheaper one was ruled out.
     Returns (better sticks or None, proven optimal, lower bound on the cost).
     """
-    import time
-
-    deadline = time.perf_counter() + time_limit
     sizes_total = sum(it.length + kerf for it in items)
     caps = [_capacity(t.length, kerf, end_trim) for t in types]
     longest_piece = max(it.length + kerf for it in items)
     mixes, complete = _mixes(types, sizes_total, caps, best_cost)
     bound = None
     for mix_cost, counts in mixes:
-        if time.perf_counter() > deadline:
-            return None, False, mix_cost if bound is None else bound
         sub = [StockType(types[t].length, k, types[t].price) for t, k in enumerate(counts) if k > 0]
         if not sub or max(_capacity(st.length, kerf, end_trim) for st in sub) < longest_piece - FIT_TOLERANCE:
             continue
-        assignment, infeasible, _ = _column_generation(items, sub, kerf, end_trim, False, [],
-                                                       max(0.2, deadline - time.perf_counter()))
+        try:
+            assignment, infeasible, _ = _column_generation(items, sub, kerf, end_trim, False, [], work)
+        except _OutOfWork:
+            return None, False, mix_cost if bound is None else bound
         if assignment is not None:
             sticks = _sticks(items, sub, kerf, end_trim, assignment)
             return sticks, complete and bound is None, _cost(sticks) if bound is None else bound
