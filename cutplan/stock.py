@@ -31,6 +31,9 @@ References
    Wiley, 1990, ch. 8 (bin packing; lower bound L2).
 .. [2] Gilmore, P. C. and Gomory, R. E., "A linear programming approach to the cutting-stock
    problem", Operations Research 9 (1961) 849-859 (from memory).
+.. [3] Farley, A. A., "A note on bounding a class of linear programming problems, including
+   cutting stock problems", Operations Research 38 (1990) 922-923 (the early-stop bound; from
+   memory).
 """
 
 from __future__ import annotations
@@ -123,6 +126,7 @@ class Layout:
     cost: float | None = None
     cost_lower_bound: float | None = None
     notes: tuple = field(default=())
+    lp_solves: int = 0
 
     @property
     def gap(self):
@@ -303,6 +307,7 @@ def _generate(items_idx, sizes, caps, types, cost, limited, columns, work, round
     grid_caps = [int(np.floor(c / GRID + 1e-9)) for c in caps]
     value = x = None
     keys, seen = [], 0
+    farley = not limited and all(c == 1.0 for c in cost)
     for _round in range(MAX_ROUNDS):
         # only the columns added since the last round need checking
         pool = list(columns)
@@ -316,12 +321,14 @@ def _generate(items_idx, sizes, caps, types, cost, limited, columns, work, round
         value, x, pi, mu, art = _master_lp(local_keys, len(items_idx), types, cost, limited, big)
         if value is None:
             return None, None, keys, math.inf
-        added = 0
+        added, top = 0, 0.0
         for t in range(len(types)):
             # several disjoint improving patterns per round: fewer LP solves
             prices = pi.copy()
-            for _round in range(PATTERNS_PER_ROUND):
+            for k in range(PATTERNS_PER_ROUND):
                 best, chosen = _knapsack(prices, grid, grid_caps[t])
+                if k == 0:
+                    top = max(top, best / cost[t])
                 if not chosen or best <= cost[t] + mu.get(t, 0.0) + 1e-9:
                     break
                 key = (t, tuple(sorted(items_idx[c] for c in chosen)))
@@ -330,6 +337,10 @@ def _generate(items_idx, sizes, caps, types, cost, limited, columns, work, round
                     added += 1
                 prices[chosen] = 0.0
         if not added:
+            return value, x, keys, art
+        if farley and art < 1e-9 and top > 1.0 and math.ceil(value / top - 1e-6) >= math.ceil(value - 1e-6):
+            # Farley's bound value / max(pattern value / cost) <= LP optimum <= value: both round up
+            # to the same whole number of sticks, so more columns cannot change the bound
             return value, x, keys, art
     raise _OutOfWork
 
@@ -352,12 +363,17 @@ def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, wor
         fitting = [t for t in range(len(types)) if _fits(0.0, sizes[i], caps[t])]
         columns[(min(fitting, key=lambda t: (cost[t], caps[t])), (i,))] = True
     everything = np.arange(n)
-    lp_value, _, _, art = _generate(everything, sizes, caps, types, cost, limited, columns, work, "floor")
+    lp_value, x_root, keys_root, art = _generate(everything, sizes, caps, types, cost, limited, columns, work, "floor")
     if lp_value is None:
         return None, False, 0.0
     if art > 1e-6:
         return None, True, 0.0  # even the relaxation is infeasible: the stock allowed is too small
     bound = math.ceil(lp_value - 1e-6) if not by_cost else lp_value
+    if not by_cost:
+        # most instances round: the columns the LP uses whole, first fit decreasing for the rest
+        rounded = _round_and_fill(items, types, kerf, end_trim, sizes, caps, x_root, keys_root)
+        if rounded is not None and len(rounded) <= bound:
+            return rounded, True, bound
     # dive: fix the most used feasible column, re-price the rest, repeat
     left = list(range(n))
     chosen = []
@@ -386,6 +402,31 @@ def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, wor
     value = sum(cost[t] for t, _ in chosen)
     proven = value <= (bound if not by_cost else lp_value) + 1e-6
     return chosen, proven, bound
+
+
+def _round_and_fill(items, types, kerf, end_trim, sizes, caps, x, keys):
+    """Fix the feasible columns the root LP uses whole (x = 1), lay the other pieces out first fit
+    decreasing on the sticks left; None when the stock on hand runs out."""
+    counts = [t.count for t in types]
+    taken, chosen = set(), []
+    for j, (t, members) in sorted(enumerate(keys), key=lambda jk: (-x[jk[0]], jk[0])):
+        if x[j] < 1 - 1e-6:
+            break
+        if (sizes[list(members)].sum() > caps[t] + FIT_TOLERANCE or taken.intersection(members)
+                or (counts[t] is not None and counts[t] <= 0)):
+            continue
+        taken.update(members)
+        chosen.append((t, sorted(members, key=lambda i: (-items[i].length, items[i].label))))
+        if counts[t] is not None:
+            counts[t] -= 1
+    rest = [i for i in range(len(items)) if i not in taken]
+    if not rest:
+        return chosen
+    left_types = [StockType(st.length, counts[t], st.price) for t, st in enumerate(types)]
+    filled = _heuristic([items[i] for i in rest], left_types, kerf, end_trim, False)
+    if filled is None:
+        return None
+    return chosen + [(t, [rest[k] for k in members]) for t, members in filled]
 
 
 def _achievable_cost_bound(lp_value, prices, upper):
@@ -474,7 +515,7 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
         better, proven, cost_bound = _cheaper_mixes(items, types, kerf, end_trim, _cost(first), work)
         sticks = better if better is not None else first
         method = "stick mixes + column generation" if better is not None else "first fit decreasing"
-        return Layout(sticks, bound, proven, method, _cost(sticks), max(cost_bound, 0.0))
+        return Layout(sticks, bound, proven, method, _cost(sticks), max(cost_bound, 0.0), lp_solves=work.used)
     seeds = heur or []
     try:
         exact, proven, dual = _column_generation(items, types, kerf, end_trim, by_cost, seeds, work)
@@ -500,11 +541,11 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
     if by_cost:
         cost_bound = cost if proven_primary else _achievable_cost_bound(
             max(dual, 0.0), [t.price for t in types], cost)
-        return Layout(sticks, bound, cost <= cost_bound + 1e-6, method, cost, cost_bound)
+        return Layout(sticks, bound, cost <= cost_bound + 1e-6, method, cost, cost_bound, lp_solves=work.used)
     bound = max(bound, math.ceil(dual - 1e-6)) if dual else bound
     if proven_primary:
         bound = len(sticks)
-    return Layout(sticks, bound, len(sticks) == bound, method, cost)
+    return Layout(sticks, bound, len(sticks) == bound, method, cost, lp_solves=work.used)
 
 
 MAX_MIXES = 2000
@@ -556,8 +597,15 @@ def _cheaper_mixes(items, types, kerf, end_trim, best_cost, work):
         sub = [StockType(types[t].length, k, types[t].price) for t, k in enumerate(counts) if k > 0]
         if not sub or max(_capacity(st.length, kerf, end_trim) for st in sub) < longest_piece - FIT_TOLERANCE:
             continue
+        most = sum(st.count for st in sub)
+        longest_cap = max(_capacity(st.length, kerf, end_trim) for st in sub)
+        if lower_bound_l2([it.length + kerf for it in items], longest_cap) > most:
+            continue  # ruled out at once: not even that many of the longest sticks would do
         try:
-            assignment, infeasible, _ = _column_generation(items, sub, kerf, end_trim, False, [], work)
+            if len(sub) == 1:
+                assignment, infeasible = _one_length(items, sub[0], kerf, end_trim, work)
+            else:
+                assignment, infeasible, _ = _column_generation(items, sub, kerf, end_trim, False, [], work)
         except _OutOfWork:
             return None, False, mix_cost if bound is None else bound
         if assignment is not None:
@@ -568,6 +616,20 @@ def _cheaper_mixes(items, types, kerf, end_trim, best_cost, work):
     if bound is None:
         return None, complete, best_cost if complete else 0.0
     return None, False, bound
+
+
+def _one_length(items, stick, kerf, end_trim, work):
+    """Whether the pieces fit on ``stick.count`` sticks of one length: plain bin packing (first fit
+    decreasing, then column generation with Farley's early stop).  Returns (assignment or None,
+    ruled out)."""
+    unlimited = [StockType(stick.length, None, stick.price)]
+    heur = _heuristic(items, unlimited, kerf, end_trim, False)
+    if heur is not None and len(heur) <= stick.count:
+        return heur, False
+    assignment, _, bound = _column_generation(items, unlimited, kerf, end_trim, False, heur or [], work)
+    if assignment is not None and len(assignment) <= stick.count:
+        return assignment, False
+    return None, bound > stick.count
 
 
 def _shortage(items, types, kerf, end_trim):
