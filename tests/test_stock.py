@@ -163,23 +163,15 @@ def test_cutlist_command_and_what_if(tmp_path):
     assert bad.exit_code == 2 and "--stock" in bad.output
 
 
-def test_pieces_of_different_sections_never_share_a_stick():
-    import json
-    from pathlib import Path
-
-    marimba = str(Path(__file__).resolve().parent.parent / "examples" / "workshop-marimba.toml")
-    data = json.loads(CliRunner().invoke(cli, ["plan", marimba, "--format", "json"]).output)
+def test_pieces_of_different_sections_never_share_a_stick(example_json):
+    data = example_json("workshop-marimba")
     for stick in data["stock"]["sticks"]:
         sets = {c["label"].rsplit("-", 1)[0] for c in stick["cuts"]}
         assert len(sets) == 1
 
 
-def test_plan_json_has_the_stock_key_shape():
-    import json
-    from pathlib import Path
-
-    porch = str(Path(__file__).resolve().parent.parent / "examples" / "porch-chimes.toml")
-    data = json.loads(CliRunner().invoke(cli, ["plan", porch, "--format", "json"]).output)
+def test_plan_json_has_the_stock_key_shape(example_json):
+    data = example_json("porch-chimes")
     stick = data["stock"]["sticks"][0]
     assert {"stock_length_mm", "cuts", "offcut_mm"} <= set(stick)
     assert {"label", "start_mm", "length_mm"} <= set(stick["cuts"][0])

@@ -27,6 +27,7 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
+
 from cutplan.physics import beam_fe
 from cutplan.physics.blas import single_thread
 

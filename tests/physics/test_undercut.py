@@ -1,6 +1,5 @@
 """Non-uniform beams and undercut bars: FE against the exact stepped-beam solution; tuned ratios."""
 
-import json
 import math
 from pathlib import Path
 
@@ -87,10 +86,8 @@ def test_impossible_arch_is_refused_with_the_reason():
         undercut.design_undercut(261.63, (4.0,), B, T, E, G, RHO, KAPPA, 0.018)
 
 
-def test_undercut_example_meets_the_tuning_targets():
-    result = CliRunner().invoke(cli, ["plan", str(ROOT / "examples" / "music-room-marimba.toml"), "--format", "json"])
-    assert result.exit_code == 0, result.output
-    data = json.loads(result.output)
+def test_undercut_example_meets_the_tuning_targets(example_json):
+    data = example_json("music-room-marimba")
     bars = [p for p in data["pieces"] if p["set"] == "bars"]
     assert len(bars) == 8
     for p in bars:
@@ -117,12 +114,5 @@ def test_progress_is_shown_for_many_bars_on_a_terminal(monkeypatch):
     assert "solving arched bars" in result.output
 
 
-def test_planner_reports_progress_once_per_arched_bar():
-    from cutplan.design import load_design
-    from cutplan.materials import load_library
-    from cutplan.planner import plan
-
-    design, _ = load_design(ROOT / "examples" / "music-room-marimba.toml", lambda d: load_library(d))
-    calls = []
-    plan(design, progress=calls.append)
-    assert sum(calls) == 8
+def test_planner_reports_progress_once_per_arched_bar(example_progress):
+    assert example_progress("music-room-marimba") == 8
