@@ -16,6 +16,8 @@ sharp (too short, which cannot be undone).
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 
 from cutplan.physics.roots import bracketed_roots
@@ -38,10 +40,21 @@ def _rng():
     return np.random.default_rng(SEED)
 
 
-def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, calibrated=False):
-    """Samples of f_actual / f_planned for a chime or bar cut at its planned length."""
+@lru_cache(maxsize=1)
+def _draws():
+    """The seeded draws every set uses: (standard normals (2, SAMPLES), then uniforms on [-1, 1]
+    (2, SAMPLES) from the same stream).  Drawn once per process and shared read-only."""
     rng = _rng()
     z = rng.standard_normal((2, SAMPLES))
+    u = rng.uniform(-1, 1, (2, SAMPLES))
+    z.flags.writeable = False
+    u.flags.writeable = False
+    return z, u
+
+
+def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, calibrated=False):
+    """Samples of f_actual / f_planned for a chime or bar cut at its planned length."""
+    z, u = _draws()
     if calibrated:
         e = 1 + CALIBRATED_MODULUS_SPREAD * z[0]
         return np.sqrt(np.clip(e, 0.5, None))
@@ -49,7 +62,6 @@ def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, cali
     rho = 1 + material.density_spread * z[1]
     ratio = np.sqrt(np.clip(e, 0.2, None) / np.clip(rho, 0.2, None))
     if section.shape in ("tube", "rod") and (outer_tolerance or wall_tolerance):
-        u = rng.uniform(-1, 1, (2, SAMPLES))
         outer = section.outer + outer_tolerance * u[0]
         if section.shape == "tube":
             wall = section.wall * (1 + wall_tolerance * u[1])
@@ -79,8 +91,7 @@ def air_ratios(length, radius, correction_factor, open_ends, temperature, calibr
     calibrated : bool
         True after a test pipe has been measured (smaller spreads).
     """
-    rng = _rng()
-    z = rng.standard_normal((2, SAMPLES))
+    z = _draws()[0]
     t_spread = TEMPERATURE_SPREAD / 2 if calibrated else TEMPERATURE_SPREAD
     d_spread = END_CORRECTION_SPREAD / 5 if calibrated else END_CORRECTION_SPREAD
     speed = np.sqrt((temperature + t_spread * z[0]) / temperature)
