@@ -30,7 +30,6 @@ References
 from __future__ import annotations
 
 import numpy as np
-from scipy.linalg import expm
 
 from cutplan.physics import uniform
 from cutplan.physics.beam import free_free_root
@@ -78,6 +77,8 @@ def expm4(a):
     z1, z2 = (-p + disc) / 2.0, (-p - disc) / 2.0
     spread = z1 - z2
     if np.any(spread <= 1e-9 * (np.abs(z1) + np.abs(z2) + 1e-300)):
+        from scipy.linalg import expm  # only here: keeps scipy off the common plan path
+
         return expm(a)
     e1, o1 = _even_odd(z1)
     e2, o2 = _even_odd(z2)
