@@ -102,7 +102,7 @@ def bar_modes(length, width, thickness, depth, arch_fraction, modulus, shear_mod
         lambda x: stiff * kappa * shear_modulus * width * h(x),
         lambda x: density * width * h(x),
         lambda x: rotary * density * width * h(x) ** 3 / 12,
-        modes=modes, order=ORDER, breaks=_breaks(length, max(arch_fraction, 1e-6)),
+        modes=modes, order=ORDER, breaks=_breaks(length, max(arch_fraction, 1e-6)), symmetric=True,
     )
 
 
