@@ -49,6 +49,10 @@ PHASE_STEP = np.pi / 16
 def _even_odd(z, s):
     """cosh(s sqrt z) and sinh(s sqrt z) / sqrt z, continued to z < 0 as cos and sin."""
     r = np.sqrt(np.abs(z))
+    if np.all(z > 0):  # the usual cases first: one family of functions for every element
+        return np.cosh(s * r), np.sinh(s * r) / r
+    if np.all(z < 0):
+        return np.cos(s * r), np.sin(s * r) / r
     safe = np.where(r == 0, 1.0, r)
     pos = z >= 0
     even = np.where(pos, np.cosh(s * r), np.cos(s * r))
@@ -99,7 +103,9 @@ def half_determinants(omega, g, s2):
 
 
 def _symmetric(omega, g, s2):
-    return half_determinants(omega, g, s2)[0]
+    """The symmetric half-piece determinant alone (mode 1 lies in this family)."""
+    c0, c1, c2, c3, a, b, e1 = coefficients(omega, g, s2, 0.5)
+    return (-b * c2 * c3 - (c0 - a * c2) * (b * g * c3 - c1)) / np.maximum(np.abs(e1), 1.0) ** 2
 
 
 def _symmetric_scalar(omega, g, s2):
