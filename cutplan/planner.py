@@ -276,7 +276,8 @@ def _plan_beam_set(spec: SetSpec, design: Design, stock):
     slender = beam.free_free_roots(modes)[None, :] ** 2 * to_hz
     if model == "slender":
         partials = slender
-        nodes = [tuple(x * length for x in beam.node_positions(1)) for length in lengths]
+        xi = beam.node_positions(1)
+        nodes = [tuple(x * length for x in xi) for length in lengths]
     else:
         partials = timo
         xi = uniform.fundamental_nodes(timo[:, 0] / to_hz[:, 0], g, s2)
