@@ -151,11 +151,12 @@ def _generate(items_idx, sizes, caps, types, cost, limited, columns, work, round
     raise _OutOfWork
 
 
-def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, work):
+def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, work, feasible_only=False):
     """Gilmore-Gomory LP bound by column generation, then a diving heuristic on the columns.
 
     Returns (assignment or None, proven optimal, lower bound on the objective); raises
-    _OutOfWork when the work budget runs out.
+    _OutOfWork when the work budget runs out.  ``feasible_only``: any layout within the stick
+    counts will do (a priced mix), so the rounded root LP is taken whenever it fits.
     """
     n = len(items)
     sizes = np.array([it.length + kerf for it in items])
@@ -175,7 +176,11 @@ def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, wor
     if art > 1e-6:
         return None, True, 0.0  # even the relaxation is infeasible: the stock allowed is too small
     bound = math.ceil(lp_value - 1e-6) if not by_cost else lp_value
-    if not by_cost:
+    if feasible_only:
+        rounded = _round_and_fill(items, types, kerf, end_trim, sizes, caps, x_root, keys_root)
+        if rounded is not None:
+            return rounded, False, bound
+    elif not by_cost:
         # most instances round: the columns the LP uses whole, first fit decreasing for the rest
         rounded = _round_and_fill(items, types, kerf, end_trim, sizes, caps, x_root, keys_root)
         if rounded is not None and len(rounded) <= bound:
@@ -291,8 +296,11 @@ def _cheaper_mixes(items, types, kerf, end_trim, best_cost, work):
         try:
             if len(sub) == 1:
                 assignment, infeasible = _one_length(items, sub[0], kerf, end_trim, work)
+            elif (quick := _heuristic(items, sub, kerf, end_trim, False)) is not None:
+                assignment, infeasible = quick, False  # first fit decreasing already packs this mix
             else:
-                assignment, infeasible, _ = _column_generation(items, sub, kerf, end_trim, False, [], work)
+                assignment, infeasible, _ = _column_generation(items, sub, kerf, end_trim, False, [], work,
+                                                               feasible_only=True)
         except _OutOfWork:
             return None, False, mix_cost if bound is None else bound
         if assignment is not None:
