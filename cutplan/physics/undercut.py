@@ -207,6 +207,12 @@ def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, de
                 break  # pinned at a bound: the best that can be done
             v_new = np.clip(v + step, lower, upper)
             r_new, modes_new = evaluate(v_new)
+            for _ in range(3):  # a step that makes things much worse is halved (a safety net)
+                if np.linalg.norm(r_new) <= 2.0 * np.linalg.norm(r) + 1.0 or count[0] >= MAX_SOLVES:
+                    break
+                step = step / 2.0
+                v_new = np.clip(v + step, lower, upper)
+                r_new, modes_new = evaluate(v_new)
             taken = v_new - v
             # Broyden's update keeps the Jacobian current at one solve per step
             jac = jac + np.outer(r_new - r - jac @ taken, taken) / float(taken @ taken)
