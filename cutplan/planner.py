@@ -12,7 +12,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from cutplan import pitch, uncertainty
+from cutplan import other_modes, pitch, uncertainty
 from cutplan.design import DEFAULT_SHARP_RISK, Design, DesignError, DesignErrors, SetSpec
 from cutplan.physics import air_column, beam, timoshenko
 
@@ -55,6 +55,7 @@ class Piece:
     sharp_risk: float = 0.0
     arch: object = None
     stopper: tuple = ()
+    other_modes: tuple = ()  # ((kind "sideways" | "twisting", mode, hz), ...): see other_modes.py
 
 
 @dataclass(frozen=True)
@@ -515,6 +516,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                     pieces = _plan_undercut_set(spec, design, stock, progress)
                 else:
                     pieces = _plan_beam_set(spec, design, stock)
+                pieces = other_modes.with_other_modes(spec, pieces)
             except ValueError as exc:
                 errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}"))
                 continue

@@ -41,6 +41,8 @@ def piece_dict(p):
     if p.kind == "chime" and len(p.partials_hz) >= 4:
         out["fundamental_hz"] = _r(p.fundamental_hz, 3)
         out["strike_note_hz"] = _r(p.partials_hz[3] / 2, 3)
+    if getattr(p, "other_modes", ()):
+        out["other_modes"] = [{"kind": kind, "mode": n, "hz": _r(f, 1)} for kind, n, f in p.other_modes]
     if p.arch is not None:
         a = p.arch
         out["undercut"] = {
