@@ -115,8 +115,9 @@ def _toml_string(value):
 
 
 def _one_piece_design(command, kind, note, frequency, material, stock_name, tube, rod, bar_size,
-                      ends="open-open", temperature="20 C", model="timoshenko", a4=440.0):
-    """A validated one-set design built from command-line options (exit 2 on bad options)."""
+                      ends="open-open", temperature="20 C", model="timoshenko", a4=440.0, materials_dirs=()):
+    """A validated one-set design built from command-line options (exit 2 on bad options);
+    ``materials_dirs`` are extra folders of material and stock tables."""
     import tomllib
 
     from cutplan.design import DesignErrors, load_design
@@ -157,10 +158,25 @@ def _one_piece_design(command, kind, note, frequency, material, stock_name, tube
         path = Path(tmp) / f"{command}-options.toml"
         path.write_text(text, encoding="utf-8")
         try:
-            des, _ = load_design(path, _library_loader(()))
+            des, _ = load_design(path, _library_loader(materials_dirs))
         except DesignErrors as exc:
             fail([str(e).replace(str(path), command) for e in exc.errors])
     return des
+
+
+def material_folders(materials_dirs, design_path):
+    """--materials folders plus the material_dirs of --design (resolved against its folder)."""
+    dirs = [str(d) for d in materials_dirs]
+    if design_path:
+        des, _lib = _load(design_path, materials_dirs)
+        dirs += [str(d) for d in des.material_dirs]
+    return tuple(dirs)
+
+
+DESIGN_DIRS_OPTION = click.option(
+    "--design", "design_path", type=click.Path(dir_okay=False),
+    help="Also use the material_dirs of this design file (its calibrated materials and stock).",
+)
 
 
 def _packet_files(the_plan, paper):
