@@ -12,7 +12,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from cutplan import other_modes, pitch, uncertainty
+from cutplan import air_stock, other_modes, pitch, uncertainty
 from cutplan.design import DEFAULT_SHARP_RISK, Design, DesignError, DesignErrors, SetSpec
 from cutplan.physics import air_column, beam, timoshenko
 
@@ -165,7 +165,8 @@ def beam_frequency_function(material, section, model, strike=False):
 
 def air_frequency_function(spec):
     """f(L) [Hz] of an air-column or resonator set's fundamental at its temperature."""
-    speed = air_column.speed_of_sound(spec.temperature, spec.humidity)
+    spec = air_stock.applied(spec)
+    speed = air_stock.speed(spec)
     radius = spec.section.air_radius
     freq_of = air_column.closed_open_frequency if spec.ends == "closed-open" else air_column.open_open_frequency
     return lambda x: float(freq_of(x, radius, speed, correction=spec.end_correction))
@@ -383,14 +384,14 @@ def _stopper_settings(spec, frequency, radius):
         temps.append(spec.temperature)
     out = []
     for t in sorted(temps):
-        speed = air_column.speed_of_sound(float(t), spec.humidity)
+        speed = air_stock.speed(spec, float(t))
         out.append((float(t), air_column.closed_open_length(frequency, radius, speed, correction=spec.end_correction)))
     return tuple(out)
 
 
 def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
     temperature = spec.temperature
-    speed = air_column.speed_of_sound(temperature, spec.humidity)
+    speed = air_stock.speed(spec)
     radius = spec.section.air_radius
     closed = spec.ends == "closed-open"
     length_of = air_column.closed_open_length if closed else air_column.open_open_length
@@ -452,13 +453,14 @@ def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
 def _set_summary(spec: SetSpec):
     assumptions = []
     if spec.kind in ("air-column", "resonator"):
-        speed = air_column.speed_of_sound(spec.temperature, spec.humidity)
+        speed = air_stock.speed(spec)
         hum = "dry air (ISO 9613-1)" if spec.humidity is None else f"{spec.humidity:.0f} % RH (Cramer 1993)"
         assumptions.append(f"air at {spec.temperature - 273.15:.1f} C, {hum}: speed of sound {speed:.2f} m/s")
         corr = spec.end_correction
         corr_text = f"{corr} x inner radius" if isinstance(corr, (int, float)) else corr
         assumptions.append(f"{spec.ends} column, end correction {corr_text} per open end, "
                            f"bore {spec.section.air_radius * 2000:.2f} mm")
+        assumptions += air_stock.assumptions(spec)
         if spec.temperature_range is not None:
             lo, hi = spec.temperature_range
             assumptions.append(f"stopper travel covers {lo - 273.15:.0f} C to {hi - 273.15:.0f} C")
@@ -508,6 +510,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
     sets, errors, by_name = [], [], {}
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
+        spec = air_stock.applied(spec)
         stock = spec.stock or design.stock
         summary = _set_summary(spec)
         if spec.kind in ("chime", "bar"):

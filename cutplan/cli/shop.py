@@ -278,6 +278,10 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
                    f"end correction {corr * 1000:.1f} mm")
         if corr < 0:
             click.echo("! a negative end correction means the two readings disagree; measure again")
+            if output:
+                fail(f"{output}: not written; a negative end correction cannot be saved")
+        _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr,
+                  f"two-resonance reading {two_res}", f"two-resonance reading at {temperature}")
         return
     if not pieces:
         fail("calibrate: give --piece or --two-resonance")
@@ -285,7 +289,7 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
     radius = None
     if stock_name or tube:
         des = _one_piece_design("calibrate", "air-column", None, 440.0, None, stock_name, tube, None, None,
-                                ends=ends, temperature=temperature)
+                                ends=ends, temperature=temperature, materials_dirs=dirs)
         radius = des.sets[0].section.air_radius
     try:
         fit = fit_air_column_choice(measured, ends, fit_what, speed_t, radius)
@@ -296,8 +300,34 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
                + (f" = {fit.end_correction / radius:.3f} x inner radius" if radius else ""))
     for (length, f, n), res in zip(measured, fit.residuals_cents, strict=True):
         click.echo(f"  {length * 1000:8.1f} mm, resonance {n} at {f:.2f} Hz: residual {res:+.2f} cents")
-    if radius:
+    if radius and not output:
         click.echo(f'use it in a design with end_correction = {fit.end_correction / radius:.3f}')
+    text = "; ".join(f"{length * 1000:.1f} mm @ {f:.2f} Hz #{n}" for length, f, n in measured)
+    _save_air(output, force, name, stock_name, dirs, fit.speed, kelvin, fit.end_correction,
+              f"{ends} pipes {text} (fit: {fit_what})", f"{len(measured)} {ends} pipe resonance(s) at {temperature}")
+
+
+def _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr, note, header_note):
+    """Write the stock calibration file when --output is given (needs a named --stock)."""
+    if output is None:
+        return
+    if not stock_name:
+        fail("calibrate: saving an air-column calibration needs --stock, the stock size it was measured on")
+    from cutplan.air_stock import stock_toml
+    from cutplan.materials import MaterialError, load_library
+
+    try:
+        stock = load_library(dirs).stock[stock_name]
+    except MaterialError as exc:
+        fail(str(exc))
+    except KeyError:
+        fail(f"--stock: {stock_name!r} is not a stock size; `cutplan materials` lists them")
+    if Path(output).exists() and not force:
+        fail(f"{output}: already exists; use --force to overwrite it")
+    name = name or (stock_name if stock_name.endswith("-calibrated") else f"{stock_name}-calibrated")
+    write_file(output, stock_toml(name, stock, speed, kelvin, corr, note.replace('"', "'"), header_note))
+    click.echo(f'wrote {output}; plan air columns and resonators with section = {{ stock = "{name}" }} '
+               f"and --materials {Path(output).parent or '.'}")
 
 
 @click.command("trim")
