@@ -47,7 +47,10 @@ def piece_other_modes(spec, piece):
             twist = side_modes.twisting_frequencies_arched(length, sec.width, sec.thickness, arch.depth,
                                                            arch.arch_width, arch.exponent, g, rho, MAX_MODES)
         else:
-            side = side_modes.sideways_frequencies(length, sec.width, sec.thickness, e, g, rho, kappa, MAX_MODES)
+            try:
+                side = side_modes.sideways_frequencies(length, sec.width, sec.thickness, e, g, rho, kappa, MAX_MODES)
+            except ValueError:  # wider than about half its length: no beam model sideways; nothing to list
+                side = ()
             twist = side_modes.twisting_frequencies_bar(length, sec.width, sec.thickness, g, rho, MAX_MODES)
         found = [("sideways", side), ("twisting", twist)]
     else:
@@ -79,7 +82,7 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2)):
         name = f"{kind} mode {n} ({f:.0f} Hz)"
         if fundamental and f < fundamental:
             fix = ("make the bar wider than it is thick" if kind == "sideways"
-                   else "a wider, thinner section twists higher")
+                   else "a narrower bar twists higher against its note")
             out.append(f"{name} is below the fundamental ({fundamental:.0f} Hz): a glancing or off-centre "
                        f"strike can sound it; {fix}")
             continue

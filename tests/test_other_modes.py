@@ -61,3 +61,12 @@ def test_chime_tubes_report_twisting_only():
 def test_air_columns_have_no_other_modes():
     plan = cutplan.plan(cutplan.load_design(ROOT / "examples" / "classroom-pipes.toml"))
     assert all(p.other_modes == () for p in plan.pieces)
+
+
+def test_wide_short_plate_warns_that_twisting_is_below_the_fundamental():
+    # twisting f ~ (t / w) / L while bending f ~ t / L^2: a bar much wider than long twists low
+    plan = _plan([{"name": "plate", "kind": "bar", "notes": ["C8"], "material": "steel-1018",
+                   "section": {"shape": "bar", "width": "120 mm", "thickness": "6 mm"}}])
+    (piece,) = plan.pieces
+    assert any(w.startswith("twisting mode 1") and "below the fundamental" in w and "narrower" in w
+               for w in piece.warnings)
