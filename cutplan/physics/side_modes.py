@@ -113,7 +113,7 @@ def twisting_frequencies_arched(length, width, thickness, depth, arch_fraction, 
     h = _thickness(length, thickness, depth, arch_fraction, exponent)
 
     def gj(x):
-        return shear_modulus * np.array([torsion.torsion_constant_rectangle(width, float(v), terms=8) for v in h(x)])
+        return shear_modulus * torsion.torsion_constant_rectangle(width, h(x), terms=8)
 
     def rho_ip(x):
         hx = h(x)

@@ -49,8 +49,8 @@ def torsion_constant_rectangle(width, thickness, terms=50):
 
     Parameters
     ----------
-    width, thickness : float
-        The two sides of the rectangle [m] (either order).
+    width, thickness : float or array
+        The two sides of the rectangle [m] (either order; arrays broadcast).
     terms : int
         Odd terms of the series summed [-]; 50 gives J to machine precision.
 
@@ -65,10 +65,11 @@ def torsion_constant_rectangle(width, thickness, terms=50):
     ----------
     .. [1] Timoshenko, S. P. and Goodier, J. N., Theory of Elasticity, 3rd ed., 1970, ch. 10.
     """
-    a, b = max(width, thickness), min(width, thickness)
-    n = np.arange(1, 2 * terms, 2, dtype=float)
-    series = float(np.sum(np.tanh(n * math.pi * a / (2 * b)) / n**5))
-    return a * b**3 / 3 * (1 - 192 / math.pi**5 * (b / a) * series)
+    a, b = np.maximum(width, thickness), np.minimum(width, thickness)
+    n = np.arange(1, 2 * terms, 2, dtype=float).reshape((-1,) + (1,) * np.ndim(a))
+    series = np.sum(np.tanh(n * math.pi * a / (2 * b)) / n**5, axis=0)
+    out = a * b**3 / 3 * (1 - 192 / math.pi**5 * (b / a) * series)
+    return float(out) if np.ndim(out) == 0 else out
 
 
 def torsion_constant_rectangle_roark(width, thickness):
