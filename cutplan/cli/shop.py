@@ -141,7 +141,7 @@ def _parse_beam_pieces(texts, kind, partial_ratios):
         if freqs is None:
             out.extend((length, mode, f) for mode, f in _recorded_partials(what, kind, partial_ratios(length)))
             continue
-        if not all(f > 0 for f in freqs) or any(b <= a for a, b in zip(freqs, freqs[1:])):
+        if not all(f > 0 for f in freqs) or any(b <= a for a, b in zip(freqs, freqs[1:], strict=False)):
             fail(f"--piece: {text!r}: the partials must be positive and rising, in mode order")
         out.extend((length, mode, f) for mode, f in enumerate(freqs, start=1))
     return out

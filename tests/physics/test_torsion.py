@@ -111,6 +111,6 @@ def test_stepped_shaft_matches_its_transcendental_equation():
 
     grid = np.linspace(0.1, 12.0, 2000)
     vals = [eq(w) for w in grid]
-    roots = [brentq(eq, a, b) for a, b, fa, fb in zip(grid, grid[1:], vals, vals[1:]) if fa * fb < 0][:2]
+    roots = [brentq(eq, a, b) for a, b, fa, fb in zip(grid, grid[1:], vals, vals[1:], strict=False) if fa * fb < 0][:2]
     fe = torsion.twisting_frequencies(length, gj, ip, modes=2, elements=800)
     assert fe == pytest.approx(np.array(roots) / (2 * math.pi), rel=2e-4)
