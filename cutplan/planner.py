@@ -424,7 +424,8 @@ def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
         open_ends = 1 if closed else 2
         cut, a_uncal, a_cal, risk = _allowances(
             spec, stock, f_at, length, t.frequency,
-            uncertainty.air_ratios(length, radius, factor, open_ends, temperature),
+            uncertainty.air_ratios(length, radius, factor, open_ends, temperature,
+                                   calibrated=air_stock.calibration(spec) is not None),
             uncertainty.air_ratios(length, radius, factor, open_ends, temperature, calibrated=True))
         warnings += _risk_warning(risk)
         stopper = ()

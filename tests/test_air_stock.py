@@ -101,3 +101,13 @@ def test_incomplete_or_implausible_stock_calibration_is_one_line(tmp_path):
                                  'end_correction = "7 mm"\n', encoding="utf-8")
     with pytest.raises(MaterialError, match="between 250 and 450 m/s"):
         load_library([mats])
+
+
+def test_calibrated_stock_is_cut_with_the_after_test_piece_allowance(tmp_path):
+    mats = tmp_path / "mats"
+    _run(["calibrate", "--kind", "air-column", "--stock", "pvc-sch40-1", "--two-resonance",
+          "160 mm, 495 mm @ 512", "--temperature", "22 C", "-o", str(mats / "pvc.toml")])
+    calibrated = cutplan.plan(cutplan.load_design(_design(tmp_path, "pvc-sch40-1-calibrated"))).pieces[0]
+    assert calibrated.allowance_uncalibrated == pytest.approx(calibrated.allowance_calibrated)
+    table = cutplan.plan(cutplan.load_design(_design(tmp_path, "pvc-sch40-1"))).pieces[0]
+    assert calibrated.cut_length - calibrated.length < table.cut_length - table.length
