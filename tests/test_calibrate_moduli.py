@@ -155,3 +155,27 @@ def test_calibrate_and_length_accept_a_designs_material_dirs(tmp_path):
     assert r.exit_code == 0, r.output
     r = _run(["length", "--kind", "bar", "--note", "C5", "--material", "shop-maple", "--bar", "50 mm x 22 mm"])
     assert r.exit_code == 2 and "shop-maple" in r.output
+
+
+def test_plan_with_the_fitted_e_and_g_gives_the_true_length_of_a_new_bar(tmp_path):
+    # the test bar is synthetic (known E and G); a new bar planned with the calibrated material must
+    # have the length the true material gives (shear-corrected, Timoshenko transfer matrix)
+    from cutplan.physics import timoshenko
+
+    measured = synthetic(MAPLE, DEEP, 0.42, 3, E_TRUE, G_TRUE, 0.0, 0)
+    listed = ", ".join(f"{f:.5f}" for _, _, f in measured)
+    mats = tmp_path / "mats"
+    r = _run(["calibrate", "--kind", "bar", "--material", "maple-sugar", "--bar", "50 mm x 22 mm",
+              "--piece", f"420 mm @ {listed}", "-o", str(mats / "maple.toml")])
+    assert r.exit_code == 0, r.output
+    design = tmp_path / "d.toml"
+    design.write_text('material_dirs = ["mats"]\n[[set]]\nkind = "bar"\nfrequencies = [700.0]\n'
+                      'material = "maple-sugar-calibrated"\nsection = { shape = "bar", width = "50 mm", '
+                      'thickness = "22 mm" }\n', encoding="utf-8")
+    import cutplan
+
+    planned = cutplan.plan(cutplan.load_design(design)).pieces[0].length
+    kappa = DEEP.shear_coefficient(MAPLE.poisson)
+    true_length = timoshenko.fundamental_length(700.0, E_TRUE * DEEP.second_moment, MAPLE.density * DEEP.area,
+                                                kappa * G_TRUE * DEEP.area, MAPLE.density * DEEP.second_moment)
+    assert planned == pytest.approx(true_length, rel=1e-4)
