@@ -97,8 +97,14 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2)):
     return out
 
 
-def with_other_modes(spec, pieces, clearance_cents=CLEARANCE_CENTS):
-    """The pieces with ``other_modes`` filled in and their warnings added (others unchanged)."""
+def with_other_modes(spec, pieces, clearance_cents=None):
+    """The pieces with ``other_modes`` filled in and their warnings added (others unchanged).
+
+    ``clearance_cents`` defaults to the set's ``mode_clearance`` [cents] when the design gives one,
+    else :data:`CLEARANCE_CENTS`.
+    """
+    if clearance_cents is None:
+        clearance_cents = getattr(spec, "mode_clearance", None) or CLEARANCE_CENTS
     out = []
     for p in pieces:
         other = piece_other_modes(spec, p)

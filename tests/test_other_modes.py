@@ -70,3 +70,17 @@ def test_wide_short_plate_warns_that_twisting_is_below_the_fundamental():
     (piece,) = plan.pieces
     assert any(w.startswith("twisting mode 1") and "below the fundamental" in w and "narrower" in w
                for w in piece.warnings)
+
+
+def test_the_clearance_can_be_chosen():
+    from cutplan.other_modes import with_other_modes
+
+    design = cutplan.design_from_mapping({"title": "t", "set": [
+        {"name": "b", "kind": "bar", "notes": ["F4"], "material": "maple-sugar",
+         "section": {"shape": "bar", "width": "50 mm", "thickness": "22 mm"}}]})
+    plan = cutplan.plan(design)
+    bare = [p.__class__(**{**p.__dict__, "warnings": (), "other_modes": ()}) for p in plan.pieces]
+    tight = with_other_modes(design.sets[0], bare, clearance_cents=5.0)[0]
+    assert not any("twisting mode 1" in w for w in tight.warnings)  # it is 25 cents away
+    loose = with_other_modes(design.sets[0], bare, clearance_cents=30.0)[0]
+    assert any("twisting mode 1" in w for w in loose.warnings)
