@@ -124,7 +124,7 @@ def fit_moduli(measurements, material, section, model="timoshenko", shear="auto"
     section : Section
         Their cross-section.
     model : "timoshenko" or "slender"
-    shear : "auto", "fit" or "scale"
+    shear : "auto" or "scale"
         "auto" fits G when it is determined (see :data:`SHEAR_DETERMINED`) and otherwise holds a
         measured G or scales a table G with E; "scale" always scales G with E.
 

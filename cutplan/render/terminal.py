@@ -87,7 +87,7 @@ def render_table(plan):
         out.extend(_fitted(*_set_rows(s, units)))
         for p in s.pieces:
             if getattr(p, "other_modes", ()):
-                out.append(f"  {p.label}: other modes " + other_modes_text(p.other_modes))
+                out.extend(_wrapped(f"{p.label}: other modes " + other_modes_text(p.other_modes)))
             if p.arch is not None:
                 a = p.arch
                 res = ", ".join(f"{r:+.2f}" for r in a.ratio_residuals_cents)
