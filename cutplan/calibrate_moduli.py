@@ -191,11 +191,12 @@ def fit_moduli(measurements, material, section, model="timoshenko", shear="auto"
             e, g, how = e0 * math.exp(sol.x[0]), g0, "held"
     lo, hi = _plausible_moduli(material)
     if not lo <= e <= hi:
-        hint = partial_hint(material, section, model, measurements[0][0], measurements[0][2])
+        length, mode, f = measurements[0]
+        hint = partial_hint(material, section, model, length, f) if mode == 1 else ""
         raise CalibrationError(f"the fitted modulus {e / 1e9:.3g} GPa is outside {lo / 1e9:g}-{hi / 1e9:g} GPa, "
                                f"plausible for {material.name}" + (f"; {hint}" if hint else
                                                                    "; check the length, the material and the section"))
-    if len(measurements) == 1:
+    if len(measurements) == 1 and measurements[0][1] == 1:
         hint = partial_hint(material, section, model, measurements[0][0], measurements[0][2])
         if hint:
             notes.append(hint)

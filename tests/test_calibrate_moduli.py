@@ -179,3 +179,16 @@ def test_plan_with_the_fitted_e_and_g_gives_the_true_length_of_a_new_bar(tmp_pat
     true_length = timoshenko.fundamental_length(700.0, E_TRUE * DEEP.second_moment, MAPLE.density * DEEP.area,
                                                 kappa * G_TRUE * DEEP.area, MAPLE.density * DEEP.second_moment)
     assert planned == pytest.approx(true_length, rel=1e-4)
+
+
+def test_cli_accepts_an_overtone_read_on_a_tuner_when_marked_with_its_partial_number():
+    # a tuner reading of partial 2 alone, marked "#2", calibrates E just as partial 1 would
+    sec = tube(0.0254, 0.065 * 0.0254)
+    f = _partial_frequencies(AL, sec, "timoshenko", AL.modulus * 1.02, AL.shear_modulus_for("timoshenko") * 1.02,
+                             0.5, 2)
+    r1 = _run(["calibrate", "--material", "aluminum-6063-t5", "--tube", "1 in x 0.065 in",
+               "--piece", f"500 mm @ {f[0]:.4f}"])
+    r2 = _run(["calibrate", "--material", "aluminum-6063-t5", "--tube", "1 in x 0.065 in",
+               "--piece", f"500 mm @ {f[1]:.4f} #2"])
+    assert r1.exit_code == 0 and r2.exit_code == 0, r2.output
+    assert "+2.00 %" in r1.output and "+2.00 %" in r2.output

@@ -112,7 +112,8 @@ def _parse_pieces(texts, kind, near_hz=None):
 def _parse_beam_pieces(texts, kind, partial_ratios):
     """[(length m, mode, frequency Hz)] from --piece "LENGTH @ F1[, F2, ...]" or "LENGTH @ RECORDING.wav".
 
-    Listed frequencies are partials 1, 2, ... in mode order; a recording's partials are found
+    Listed frequencies are partials 1, 2, ... in mode order (from partial N with "#N" after them,
+    for a tuner reading of an overtone); a recording's partials are found
     with ``partial_ratios(length)``, the table model's f_n / f_1 for that length.
     """
     import re
@@ -121,10 +122,13 @@ def _parse_beam_pieces(texts, kind, partial_ratios):
 
     out = []
     for text in texts:
-        match = re.fullmatch(r"\s*(.+?)\s*@\s*(.+?)\s*", text)
+        match = re.fullmatch(r"\s*(.+?)\s*@\s*(.+?)\s*(?:#\s*(\d+))?\s*", text)
         if not match:
-            fail(f'--piece: {text!r} must be "LENGTH @ FREQUENCY[, FREQUENCY...]" or "LENGTH @ RECORDING.wav", '
-                 'e.g. "420 mm @ 1180.0, 3105.5, 5702.0"')
+            fail(f'--piece: {text!r} must be "LENGTH @ FREQUENCY[, FREQUENCY...] [#FIRST-PARTIAL]" or '
+                 '"LENGTH @ RECORDING.wav", e.g. "420 mm @ 1180.0, 3105.5, 5702.0"')
+        first = int(match.group(3) or 1)
+        if first < 1:
+            fail(f"--piece: {text!r}: the first partial is #1 or more")
         try:
             length = parse_length(match.group(1))
         except UnitError as exc:
@@ -143,7 +147,7 @@ def _parse_beam_pieces(texts, kind, partial_ratios):
             continue
         if not all(f > 0 for f in freqs) or any(b <= a for a, b in zip(freqs, freqs[1:], strict=False)):
             fail(f"--piece: {text!r}: the partials must be positive and rising, in mode order")
-        out.extend((length, mode, f) for mode, f in enumerate(freqs, start=1))
+        out.extend((length, mode, f) for mode, f in enumerate(freqs, start=first))
     return out
 
 
