@@ -85,3 +85,37 @@ def test_arched_sideways_modes_match_an_exact_stepped_bar():
     exact = omegas / (2 * math.pi * length**2) * math.sqrt(ei_ref / mu_ref)
     fe = side_modes.sideways_frequencies_arched(length, b, t, depth, alpha, p, E, G, RHO, KAPPA, modes=2)
     assert np.all(np.abs(1200 * np.log2(fe / exact)) < 0.05)  # 0.003 cent measured with 300 steps
+
+
+def test_arched_twisting_modes_match_an_exact_stepped_shaft():
+    # independent check: 400 uniform steps, each the exact wave-equation transfer matrix
+    # theta1 = theta0 cos kl + T0 sin kl / (c k), T1 = -theta0 c k sin kl + T0 cos kl,
+    # c = G J, k = omega sqrt(rho Ip / G J); free ends: T = 0 at both
+    from scipy.optimize import brentq
+
+    from cutplan.physics import undercut
+
+    b, t, length, depth, alpha, p = 0.055, 0.024, 0.40, 0.014, 0.5, 2.0
+    n = 400
+    mid = (np.arange(n) + 0.5) / n * length
+    h = undercut.arch_thickness(mid, length, t, depth, alpha, p)
+    c = G * torsion.torsion_constant_rectangle(b, h)
+    m = RHO * torsion.polar_moment_rectangle(b, h)
+    step = length / n
+
+    def end_torque(omega):
+        theta, torque = 1.0, 0.0
+        for ci, mi in zip(c, m, strict=True):
+            k = omega * math.sqrt(mi / ci)
+            cs, sn = math.cos(k * step), math.sin(k * step)
+            theta, torque = theta * cs + torque * sn / (ci * k), -theta * ci * k * sn + torque * cs
+        return torque
+
+    grid = np.linspace(100.0, 2 * math.pi * 6000.0, 300)
+    vals = [end_torque(w) for w in grid]
+    roots = [brentq(end_torque, a, z) for a, z, fa, fz in zip(grid, grid[1:], vals, vals[1:], strict=False)
+             if fa * fz < 0][:2]
+    exact = np.array(roots) / (2 * math.pi)
+    fe = side_modes.twisting_frequencies_arched(length, b, t, depth, alpha, p, G, RHO, modes=2)
+    # linear elements and 1/N^2 stepping: 0.004 and 0.05 cent measured for modes 1 and 2
+    assert np.all(np.abs(1200 * np.log2(fe / exact)) < 0.1)
