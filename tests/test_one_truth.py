@@ -142,3 +142,17 @@ def test_inch_designs_put_inches_first_in_every_command(tmp_path):
     assert re.search(r"length\s+19-27/32 in \(503\.9 mm\)", length)
     cutlist = runner.invoke(cli, ["cutlist", str(porch)]).output
     assert "in (mm)" in cutlist.splitlines()[0]
+
+
+def test_the_public_api_plans_a_design_file_and_a_mapping():
+    import cutplan
+
+    p = cutplan.plan(cutplan.load_design(ROOT / "examples" / "porch-chimes.toml"))
+    assert "porch-1" in str(p.cut_list)
+    # every cut on the stock is the piece's own cut length, the very same float
+    by_label = {piece.label: piece.cut_length for piece in p.pieces}
+    assert all(c.length == by_label[c.label] for s in p.cut_list.sticks for c in s.cuts)
+    one = cutplan.plan(cutplan.design_from_mapping({"set": [{
+        "kind": "chime", "notes": ["D5"], "material": "aluminum-6063-t5",
+        "section": {"shape": "tube", "outer": "1 in", "wall": "0.065 in"}}]}))
+    assert one.pieces[0].length == pytest.approx(p.pieces[0].length, rel=1e-12)
