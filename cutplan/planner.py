@@ -12,7 +12,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from cutplan import advice, pitch, uncertainty
+from cutplan import advice, air_stock, other_modes, pitch, uncertainty
 from cutplan.design import DEFAULT_SHARP_RISK, Design, DesignError, DesignErrors, SetSpec
 from cutplan.physics import air_column, beam, timoshenko
 from cutplan.units import INCH_DENOMINATOR, format_length
@@ -59,6 +59,7 @@ class Piece:
     strike_note_hz: float | None = None
     trim_end: str = ""
     if_sharp: str = ""
+    other_modes: tuple = ()  # ((kind "sideways" | "twisting", mode, hz), ...): see other_modes.py
 
     @property
     def allowance(self):
@@ -204,7 +205,8 @@ def beam_frequency_function(material, section, model, strike=False):
 
 def air_frequency_function(spec):
     """f(L) [Hz] of an air-column or resonator set's fundamental at its temperature."""
-    speed = air_column.speed_of_sound(spec.temperature, spec.humidity)
+    spec = air_stock.applied(spec)
+    speed = air_stock.speed(spec)
     radius = spec.section.air_radius
     freq_of = air_column.closed_open_frequency if spec.ends == "closed-open" else air_column.open_open_frequency
     return lambda x: float(freq_of(x, radius, speed, correction=spec.end_correction))
@@ -426,14 +428,14 @@ def _stopper_settings(spec, frequency, radius):
         temps.append(spec.temperature)
     out = []
     for t in sorted(temps):
-        speed = air_column.speed_of_sound(float(t), spec.humidity)
+        speed = air_stock.speed(spec, float(t))
         out.append((float(t), air_column.closed_open_length(frequency, radius, speed, correction=spec.end_correction)))
     return tuple(out)
 
 
 def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
     temperature = spec.temperature
-    speed = air_column.speed_of_sound(temperature, spec.humidity)
+    speed = air_stock.speed(spec)
     radius = spec.section.air_radius
     closed = spec.ends == "closed-open"
     length_of = air_column.closed_open_length if closed else air_column.open_open_length
@@ -466,7 +468,8 @@ def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
         open_ends = 1 if closed else 2
         cut, a_uncal, a_cal, risk = _allowances(
             spec, stock, f_at, length, t.frequency,
-            uncertainty.air_ratios(length, radius, factor, open_ends, temperature),
+            uncertainty.air_ratios(length, radius, factor, open_ends, temperature,
+                                   calibrated=air_stock.calibration(spec) is not None),
             uncertainty.air_ratios(length, radius, factor, open_ends, temperature, calibrated=True))
         warnings += _risk_warning(risk)
         stopper = ()
@@ -518,13 +521,14 @@ def allowance_rule(stock, units="mm"):
 def _set_summary(spec: SetSpec, units="mm"):
     assumptions = []
     if spec.kind in ("air-column", "resonator"):
-        speed = air_column.speed_of_sound(spec.temperature, spec.humidity)
+        speed = air_stock.speed(spec)
         hum = "dry air (ISO 9613-1)" if spec.humidity is None else f"{spec.humidity:.0f} % RH (Cramer 1993)"
         assumptions.append(f"air at {spec.temperature - 273.15:.1f} C, {hum}: speed of sound {speed:.2f} m/s")
         corr = spec.end_correction
         corr_text = f"{corr} x inner radius" if isinstance(corr, (int, float)) else corr
         assumptions.append(f"{spec.ends} column, end correction {corr_text} per open end, "
                            f"bore {format_length(spec.section.air_radius * 2, units)}")
+        assumptions += air_stock.assumptions(spec)
         if spec.temperature_range is not None:
             lo, hi = spec.temperature_range
             assumptions.append(f"stopper travel covers {lo - 273.15:.0f} C to {hi - 273.15:.0f} C")
@@ -574,6 +578,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
     sets, errors, by_name = [], [], {}
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
+        spec = air_stock.applied(spec)
         stock = spec.stock or design.stock
         summary = _set_summary(spec, design.units)
         if spec.kind in ("chime", "bar"):
@@ -582,6 +587,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                     pieces = _plan_undercut_set(spec, design, stock, progress)
                 else:
                     pieces = _plan_beam_set(spec, design, stock)
+                pieces = other_modes.with_other_modes(spec, pieces)
             except ValueError as exc:
                 errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}"))
                 continue

@@ -211,6 +211,21 @@ def _one_piece_design(command, kind, note, frequency, material, stock_name, tube
     return des
 
 
+def material_folders(materials_dirs, design_path):
+    """--materials folders plus the material_dirs of --design (resolved against its folder)."""
+    dirs = [str(d) for d in materials_dirs]
+    if design_path:
+        des, _lib = _load(design_path, materials_dirs)
+        dirs += [str(d) for d in des.material_dirs]
+    return tuple(dirs)
+
+
+DESIGN_DIRS_OPTION = click.option(
+    "--design", "design_path", type=click.Path(dir_okay=False),
+    help="Also use the material_dirs of this design file (its calibrated materials and stock).",
+)
+
+
 def _parse_stock_option(values, kerf, end_trim):
     """StockSpec from --stock "10 ft x 3 @ 14.50" options (count and price optional), with the
     design file's ranges for stock length, kerf and end trim."""

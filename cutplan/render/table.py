@@ -48,6 +48,8 @@ def piece_dict(p):
     if p.strike_note_hz is not None:
         out["fundamental_hz"] = _r(p.fundamental_hz, 3)
         out["strike_note_hz"] = _r(p.strike_note_hz, 3)
+    if getattr(p, "other_modes", ()):
+        out["other_modes"] = [{"kind": kind, "mode": n, "hz": _r(f, 1)} for kind, n, f in p.other_modes]
     if p.arch is not None:
         a = p.arch
         out["undercut"] = {
