@@ -1,0 +1,437 @@
+"""Build from what you have: the sets of a scale that fit the stock on hand.
+
+:func:`search` tries roots on every semitone of the practical range, the counts asked for and
+each scale, and keeps the sets whose cut pieces have a proven layout on the sticks on hand
+(the cut-list optimiser of :mod:`cutplan.stock`).  The chosen set is written as a design (the
+design file's keys, with the stock on hand as its ``[stock]``) and confirmed with
+:func:`cutplan.plan`, so what the search promises is what ``cutplan plan`` shows.
+
+How it stays fast
+-----------------
+- A piece's cut length depends only on its pitch, so every pitch is solved once
+  (:mod:`cutplan.fit_table`); a candidate set is a lookup.
+- Bounds rule a set out before any packing: its longest piece against the longest stick, the
+  pieces plus kerfs against all the stock, and the Martello-Toth L2 bound against the number of
+  sticks.
+- Feasibility is monotone: raising the root shortens every piece (free-free beams and air
+  columns get shorter as the pitch rises), and a set with one note fewer is a subset.  So the
+  lowest root that fits and the largest count that fits are each found by bisection, packing a
+  handful of sets instead of every one.
+
+The objectives: ``"lowest"`` (the deepest root for a count), ``"most"`` (the most notes, then the
+deepest root) and ``"waste"`` (the best utilisation of the sticks used, for a count).
+"""
+
+from __future__ import annotations
+
+import math
+import time
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from cutplan import fit_table, pitch
+from cutplan import stock as optimiser
+
+SEARCH_LOW = "C1"
+"""Lowest root tried when no lower limit is given (a piece this low rarely fits any stick)."""
+SEARCH_HIGH = "C8"
+"""Highest note tried when no upper limit is given (top of the piano's range)."""
+MAX_COUNT = 24
+"""Most notes ``objective="most"`` tries [-] (two octaves of a 12-note scale)."""
+PACK_TIME_LIMIT = 0.5
+"""Seconds the exact packer may take per candidate set [s]; a set it cannot place in time counts
+as not fitting."""
+ROWS_PER_SCALE = 4
+"""Roots shown per scale and count in the ranked table [-]."""
+SET_NAMES = {"chime": "chimes", "bar": "bars", "air-column": "pipes"}
+OBJECTIVES = ("lowest", "most", "waste")
+
+
+class FitError(ValueError):
+    """The inventory or the request cannot give any set: option (key), value, what would work."""
+
+    def __init__(self, key, value, allowed):
+        self.key, self.value, self.allowed = key, value, allowed
+        shown = "" if value is None else f"{value!r} "
+        super().__init__(f"{key}: {shown}{allowed}")
+
+
+@dataclass(frozen=True)
+class Candidate:
+    """A set that fits: ``count`` notes of ``scale`` from ``root``, laid out on the stock.
+
+    ``sticks`` are ((stock length [m], ((label, start [m], length [m]), ...), offcut [m]), ...).
+    """
+
+    scale: str
+    root: str
+    count: int
+    notes: tuple
+    cut_lengths: tuple
+    sticks: tuple
+    proven_optimal: bool
+    root_hz: float = 0.0
+
+    @property
+    def lowest(self):
+        """The lowest note (the root)."""
+        return self.notes[0]
+
+    @property
+    def highest(self):
+        """The highest note."""
+        return self.notes[-1]
+
+    @property
+    def sticks_used(self):
+        """Number of sticks cut [-]."""
+        return len(self.sticks)
+
+    @property
+    def stock_used(self):
+        """Total length of the sticks cut [m]."""
+        return float(sum(s[0] for s in self.sticks))
+
+    @property
+    def offcut(self):
+        """What is left of the sticks cut, summed [m]."""
+        return float(sum(s[2] for s in self.sticks))
+
+    @property
+    def utilisation(self):
+        """Fraction of the sticks cut that ends up in pieces [-]."""
+        used = self.stock_used
+        return float(sum(self.cut_lengths)) / used if used else 0.0
+
+
+@dataclass(frozen=True)
+class FitResult:
+    """The ranked candidates, the chosen one, its design (the design file's keys) and its Plan."""
+
+    objective: str
+    candidates: tuple
+    chosen: Candidate
+    design: dict
+    plan: object
+    units: str = "mm"
+    stats: dict = field(default_factory=dict)
+
+
+def _sticks_of_layout(layout):
+    return tuple((s.stock_length, tuple(s.cuts), s.offcut) for s in layout.sticks)
+
+
+def _sticks_of_cut_list(cut_list):
+    return tuple((s.stock_length, tuple((c.label, c.start, c.length) for c in s.cuts), s.offcut)
+                 for s in cut_list.sticks)
+
+
+class _Search:
+    """The lookup table, bounds, memoised packing and bisections of one search."""
+
+    def __init__(self, spec, stock, lo, hi, scales, max_count, temperament, a4, base_set, top, materials_dirs):
+        self.spec, self.stock, self.lo, self.hi = spec, stock, lo, hi
+        self.temperament, self.a4 = temperament, a4
+        self.name = SET_NAMES.get(spec.kind, "pieces")
+        self.offsets = {s: pitch.scale_offsets(s, max_count) for s in scales}
+        self.stats = {"pitches": 0, "sets_bounded_out": 0, "sets_packed": 0, "table_s": 0.0, "pack_s": 0.0}
+        self.memo = {}
+        self.types = [optimiser.StockType(x.length, x.count, x.price) for x in stock.lengths]
+        self.longest = max(t.length for t in self.types)
+        cap = [t.length - stock.end_trim + stock.kerf for t in self.types]
+        self.total_cap = sum(math.inf if t.count is None else t.count * c for t, c in zip(self.types, cap, strict=True))
+        self.sticks_on_hand = sum(math.inf if t.count is None else t.count for t in self.types)
+        self.cap_longest = self.longest - stock.end_trim + stock.kerf
+        self._build_table(base_set, top, materials_dirs)
+
+    def _frequency(self, root, off):
+        return pitch.degree_frequency(root, off, self.temperament, self.a4)
+
+    def _build_table(self, base_set, top, materials_dirs):
+        start = time.process_time()
+        keys = {}
+        for offs in self.offsets.values():
+            for r in range(self.lo, self.hi + 1):
+                for off in offs:
+                    if r + off > self.hi:
+                        break
+                    keys.setdefault(self._key(r, off), self._frequency(r, off))
+        self.keys = list(keys)
+        freqs = np.array([keys[k] for k in self.keys])
+        lengths, cuts = fit_table.cut_length_table(self.spec, self.stock, freqs, base_set, top, materials_dirs)
+        short = fit_table.stubby_below(self.spec)
+        cuts = np.where(np.isnan(lengths) | (lengths < short), np.nan, cuts)
+        self.table = dict(zip(self.keys, cuts.tolist(), strict=True))
+        self.stats["pitches"] = len(self.keys)
+        self.stats["table_s"] = time.process_time() - start
+
+    def _key(self, root, off):
+        # equal temperaments: a pitch is its MIDI number; others depend on the root as well
+        return root + off if self.temperament == "equal" else (root, off)
+
+    def cut_lengths(self, root, scale, count):
+        """Cut lengths [m] of the set, or None when a note lies outside the practical range."""
+        offs = self.offsets[scale][:count]
+        if root < self.lo or root + offs[-1] > self.hi:
+            return None
+        out = [self.table.get(self._key(root, off), math.nan) for off in offs]
+        return None if any(math.isnan(x) for x in out) else out
+
+    def roots(self, scale, count):
+        """Roots whose ``count`` notes all lie in the window and the practical range, low to high."""
+        return [r for r in range(self.lo, self.hi - self.offsets[scale][count - 1] + 1)
+                if self.cut_lengths(r, scale, count) is not None]
+
+    def bounded_out(self, cuts):
+        """Whether a bound already shows the pieces cannot fit on the stock on hand."""
+        st = self.stock
+        if max(cuts) > self.longest - st.end_trim + optimiser.FIT_TOLERANCE:
+            return True
+        sizes = [c + st.kerf for c in cuts]
+        if sum(sizes) > self.total_cap + optimiser.FIT_TOLERANCE:
+            return True
+        return optimiser.lower_bound_l2(sizes, self.cap_longest) > self.sticks_on_hand
+
+    def fit(self, root, scale, count):
+        """The optimiser's Layout of the set on the stock on hand, or None when it does not fit."""
+        key = (root, scale, count)
+        if key not in self.memo:
+            self.memo[key] = self._pack(root, scale, count)
+        return self.memo[key]
+
+    def _pack(self, root, scale, count):
+        cuts = self.cut_lengths(root, scale, count)
+        if cuts is None:
+            return None
+        if self.bounded_out(cuts):
+            self.stats["sets_bounded_out"] += 1
+            return None
+        start = time.process_time()
+        self.stats["sets_packed"] += 1
+        items = [optimiser.Item(f"{self.name}-{i}", c) for i, c in enumerate(cuts, start=1)]
+        try:
+            return optimiser.layout(items, self.types, self.stock.kerf, self.stock.end_trim, PACK_TIME_LIMIT)
+        except optimiser.StockError:
+            return None
+        finally:
+            self.stats["pack_s"] += time.process_time() - start
+
+    def lowest_root(self, scale, count):
+        """The lowest root whose set fits (bisection: fitting is monotone in the root), or None."""
+        roots = self.roots(scale, count)
+        if not roots:
+            return None
+        # bounds first (no packing): the lowest root no bound rules out
+        first = next((i for i, r in enumerate(roots)
+                      if (c := self.cut_lengths(r, scale, count)) is not None and not self.bounded_out(c)), None)
+        if first is None or self.fit(roots[-1], scale, count) is None:
+            return None
+        lo, hi = first, len(roots) - 1  # roots[hi] fits
+        while lo < hi:
+            mid = (lo + hi) // 2
+            if self.fit(roots[mid], scale, count) is not None:
+                hi = mid
+            else:
+                lo = mid + 1
+        return roots[hi]
+
+    def most_notes(self, scale, counts):
+        """The largest count in ``counts`` that fits at some root (bisection), or None."""
+        counts = [c for c in counts if c <= len(self.offsets[scale]) and self.roots(scale, c)]
+
+        def ok(c):
+            return self.fit(self.roots(scale, c)[-1], scale, c) is not None  # highest root: shortest pieces
+
+        if not counts or not ok(counts[0]):
+            return None
+        lo, hi = 0, len(counts) - 1
+        while lo < hi:
+            mid = (lo + hi + 1) // 2
+            if ok(counts[mid]):
+                lo = mid
+            else:
+                hi = mid - 1
+        return counts[lo]
+
+    def candidate(self, root, scale, count):
+        layout = self.fit(root, scale, count)
+        offs = self.offsets[scale][:count]
+        return Candidate(scale, pitch.note_name(root), count, tuple(pitch.note_name(root + o) for o in offs),
+                         tuple(self.cut_lengths(root, scale, count)), _sticks_of_layout(layout),
+                         bool(layout.proven_optimal), self._frequency(root, 0))
+
+
+def _ranked(search, scales, objective, count, counts):
+    rows = []
+    if objective in ("lowest", "waste"):
+        for s in scales:
+            r0 = search.lowest_root(s, count)
+            if r0 is None:
+                continue
+            roots = [r for r in search.roots(s, count) if r >= r0]
+            if objective == "lowest":
+                roots = roots[:ROWS_PER_SCALE]
+            rows += [(r, s, count) for r in roots]
+        cands = [search.candidate(*row) for row in rows if search.fit(*row) is not None]
+        if objective == "lowest":
+            return sorted(cands, key=lambda c: (c.root_hz, -c.utilisation, c.scale))
+        return sorted(cands, key=lambda c: (-round(c.utilisation, 9), c.root_hz, c.scale))
+    for s in scales:
+        best = search.most_notes(s, counts)
+        if best is None:
+            continue
+        for c in sorted({best, best - 1} & set(counts), reverse=True):
+            r0 = search.lowest_root(s, c)
+            if r0 is not None:
+                rows += [(r, s, c) for r in search.roots(s, c) if r >= r0][:ROWS_PER_SCALE if c == best else 1]
+    cands = [search.candidate(*row) for row in rows if search.fit(*row) is not None]
+    return sorted(cands, key=lambda c: (-c.count, c.root_hz, -c.utilisation, c.scale))
+
+
+def design_mapping(base_set, stock, candidate, units="mm", a4=pitch.A4_FREQUENCY, temperament="equal",
+                   title=None, kind="chime"):
+    """The design (the design file's keys) of a candidate set, with ``stock`` as its [stock]."""
+    name = SET_NAMES.get(kind, "pieces")
+    return {
+        "title": title or f"{candidate.count} notes of {candidate.root} {candidate.scale} from the stock on hand",
+        "units": units,
+        "tuning": {"a4": a4, "temperament": temperament},
+        "set": [{"name": name, **base_set, "scale": candidate.scale, "root": candidate.root,
+                 "count": candidate.count}],
+        "stock": stock,
+    }
+
+
+def _window(lowest, highest):
+    bounds = []
+    for key, value in (("lowest", lowest or SEARCH_LOW), ("highest", highest or SEARCH_HIGH)):
+        try:
+            bounds.append(pitch.parse_note(value))
+        except pitch.PitchError as exc:
+            raise FitError(key, value, f"is not {exc.accepted}") from None
+    if bounds[1] <= bounds[0]:
+        raise FitError("highest", highest, f"must be above the lowest note ({lowest or SEARCH_LOW})")
+    return bounds
+
+
+def search(base_set, stock, scales=("major-pentatonic",), count=None, objective="lowest", lowest=None,
+           highest=None, a4=pitch.A4_FREQUENCY, temperament="equal", units="mm", materials_dirs=(), top=10,
+           max_count=MAX_COUNT, title=None):
+    """Search the sets of ``scales`` that fit ``stock`` and choose one by ``objective``.
+
+    ``base_set`` is a [[set]] table without its notes (kind, material, section, model, ...) and
+    ``stock`` a [stock] table (lengths with counts, kerf, end_trim, allowance), both with the
+    design file's keys.  ``count`` is required for "lowest" and "waste"; "most" tries 1 to
+    ``max_count`` notes.  Raises :class:`cutplan.design.DesignErrors` for bad keys and
+    :class:`FitError` (naming what does fit) when nothing fits.
+    """
+    import cutplan
+
+    start = time.process_time()
+    if objective not in OBJECTIVES:
+        raise FitError("objective", objective, f"must be one of: {', '.join(OBJECTIVES)}")
+    scales = tuple(dict.fromkeys(scales or ("major-pentatonic",)))
+    for s in scales:
+        if s not in pitch.SCALES:
+            raise FitError("scale", s, f"is not {pitch.SCALE_FORMS}")
+    if objective != "most" and not (isinstance(count, int) and 1 <= count <= max_count):
+        raise FitError("count", count, f"must be a whole number from 1 to {max_count} (or ask for the most notes)")
+    kind = base_set.get("kind")
+    if kind not in SET_NAMES:
+        raise FitError("kind", kind, f"must be one of: {', '.join(SET_NAMES)}")
+    if "undercut" in base_set:
+        raise FitError("undercut", None, "is not searched: from-stock plans uniform bars; add the undercut "
+                       "to the written design afterwards")
+    if not isinstance(stock, dict) or not stock.get("lengths"):
+        raise FitError("stock", None, 'lists no sticks; give at least one, e.g. "8 ft x 1"')
+    lo, hi = _window(lowest, highest)
+    top_keys = {"units": units, "tuning": {"a4": a4, "temperament": temperament}}
+    probe = cutplan.design_from_mapping({**top_keys, "set": [{**base_set, "notes": ["A4"]}], "stock": stock},
+                                        materials_dirs, name="from-stock")
+    spec, stock_spec = probe.sets[0], probe.stock
+    counts = list(range(1, max_count + 1)) if objective == "most" else [count]
+    found = _Search(spec, stock_spec, lo, hi, scales, max(counts), temperament, a4, base_set,
+                    {**top_keys, "stock": {k: v for k, v in stock.items() if k != "lengths"}}, materials_dirs)
+    cands = _ranked(found, scales, objective, count, counts)
+    if not cands:
+        raise _nothing_fits(found, scales, count, objective, counts)
+    cands = cands[:max(1, top)]
+    chosen, design, the_plan = _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materials_dirs)
+    found.stats["total_s"] = time.process_time() - start
+    return FitResult(objective, tuple(cands), chosen, design, the_plan, units, dict(found.stats))
+
+
+def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materials_dirs):
+    """Plan the best candidate's design with the real planner; the first that plans is chosen."""
+    import cutplan
+    from cutplan.design import DesignErrors
+
+    for cand in cands:
+        mapping = design_mapping(base_set, stock, cand, units, a4, temperament, title, kind)
+        try:
+            the_plan = cutplan.plan(cutplan.design_from_mapping(mapping, materials_dirs, name="from-stock"))
+        except DesignErrors:
+            continue
+        if the_plan.cut_list is None:
+            continue
+        cut = tuple(p.cut_length for p in the_plan.pieces)
+        chosen = Candidate(cand.scale, cand.root, cand.count, cand.notes, cut,
+                           _sticks_of_cut_list(the_plan.cut_list), bool(the_plan.cut_list.proven_optimal),
+                           cand.root_hz)
+        return chosen, mapping, the_plan
+    raise FitError("stock", None, "no candidate set could be confirmed by the planner; "
+                   "check the material and section with `cutplan length`")
+
+
+def _nothing_fits(found, scales, count, objective, counts):
+    """A FitError naming the closest thing that does fit."""
+    shown = ", ".join(scales)
+    window = f"{pitch.note_name(found.lo)} to {pitch.note_name(found.hi)}"
+    best = None
+    for s in scales:
+        c = found.most_notes(s, [k for k in range(1, (count or max(counts)) + 1)])
+        if c is not None and (best is None or c > best[1]):
+            best = (s, c, found.lowest_root(s, c))
+    longest = found.longest - found.stock.end_trim
+    if best is None:
+        usable = [v for v in found.table.values() if not math.isnan(v)]
+        if not usable:
+            return FitError("lowest/highest", window, "holds no note this section makes without a stubby-piece "
+                            "warning; widen the range")
+        shortest = min(usable)
+        return FitError("stock", None, f"the longest stick gives {longest * 1000:.0f} mm after end trim, shorter "
+                        f"than the shortest practical piece from {window} ({shortest * 1000:.0f} mm); "
+                        "add a longer stick or a smaller section")
+    s, c, r = best
+    if objective == "most":
+        return FitError("stock", None, f"no set fits; closest: {c} notes of {s} from {pitch.note_name(r)}")
+    return FitError("count", count, f"notes of {shown} do not fit the stock on hand at any root from {window}; "
+                    f"closest that fits: {c} notes of {s} from {pitch.note_name(r)}")
+
+
+def candidate_dict(c, rank=None):
+    """A candidate as JSON-ready data (mm)."""
+    out = {} if rank is None else {"rank": rank}
+    out.update({
+        "root": c.root, "scale": c.scale, "count": c.count, "notes": list(c.notes),
+        "lowest": c.lowest, "highest": c.highest, "root_hz": round(c.root_hz, 3),
+        "cut_lengths_mm": [round(x * 1000, 1) for x in c.cut_lengths],
+        "sticks_used": c.sticks_used, "stock_used_mm": round(c.stock_used * 1000, 1),
+        "offcut_mm": round(c.offcut * 1000, 1), "utilisation_percent": round(100 * c.utilisation, 1),
+        "proven_optimal": c.proven_optimal,
+    })
+    return out
+
+
+def result_dict(result):
+    """``{"candidates": [...], "chosen": {...}}`` of a search (mm), with the chosen set's design
+    and cut list."""
+    chosen = candidate_dict(result.chosen)
+    chosen["design"] = result.design
+    chosen["sticks"] = [{"stock_length_mm": round(s[0] * 1000, 1), "offcut_mm": round(s[2] * 1000, 1),
+                         "cuts": [{"label": lab, "start_mm": round(a * 1000, 1), "length_mm": round(b * 1000, 1)}
+                                  for lab, a, b in s[1]]} for s in result.chosen.sticks]
+    return {"format": "cutplan-fit/1", "objective": result.objective,
+            "candidates": [candidate_dict(c, i) for i, c in enumerate(result.candidates, start=1)],
+            "chosen": chosen}
