@@ -11,6 +11,7 @@ import click
 
 from cutplan import __version__
 from cutplan.cli import pieces, plans, shop
+from cutplan.cli import from_stock  # noqa: I001
 
 
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
@@ -29,6 +30,7 @@ for _command in (plans.plan_command, plans.cutlist_command, pieces.scale_command
                  pieces.length_command, pieces.new_command, shop.measure_command, shop.calibrate_command,
                  shop.trim_command, shop.listen_command):
     cli.add_command(_command)
+cli.add_command(from_stock.from_stock_command)
 
 
 def main():  # pragma: no cover - console entry point
