@@ -30,7 +30,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from cutplan import fit_table, pitch
+from cutplan import fit_pack, fit_table, pitch
 from cutplan import stock as optimiser
 
 SEARCH_LOW = "C1"
@@ -135,14 +135,11 @@ class _Search:
         self.temperament, self.a4 = temperament, a4
         self.name = SET_NAMES.get(spec.kind, "pieces")
         self.offsets = {s: pitch.scale_offsets(s, max_count) for s in scales}
-        self.stats = {"pitches": 0, "sets_bounded_out": 0, "sets_packed": 0, "table_s": 0.0, "pack_s": 0.0}
-        self.memo = {}
-        self.types = [optimiser.StockType(x.length, x.count, x.price) for x in stock.lengths]
-        self.longest = max(t.length for t in self.types)
-        cap = [t.length - stock.end_trim + stock.kerf for t in self.types]
-        self.total_cap = sum(math.inf if t.count is None else t.count * c for t, c in zip(self.types, cap, strict=True))
-        self.sticks_on_hand = sum(math.inf if t.count is None else t.count for t in self.types)
-        self.cap_longest = self.longest - stock.end_trim + stock.kerf
+        self.stats = {"pitches": 0, "sets_bounded_out": 0, "sets_first_fit": 0, "sets_packed": 0,
+                      "table_s": 0.0, "pack_s": 0.0}
+        self.memo, self.layouts, self.answers = {}, {}, {}
+        self.room = fit_pack.StockRoom(stock)
+        self.types, self.longest = self.room.types, self.room.longest
         self._build_table(base_set, top, materials_dirs)
 
     def _frequency(self, root, off):
@@ -184,56 +181,72 @@ class _Search:
                 if self.cut_lengths(r, scale, count) is not None]
 
     def bounded_out(self, cuts):
-        """Whether a bound already shows the pieces cannot fit on the stock on hand."""
-        st = self.stock
-        if max(cuts) > self.longest - st.end_trim + optimiser.FIT_TOLERANCE:
-            return True
-        sizes = [c + st.kerf for c in cuts]
-        if sum(sizes) > self.total_cap + optimiser.FIT_TOLERANCE:
-            return True
-        return optimiser.lower_bound_l2(sizes, self.cap_longest) > self.sticks_on_hand
+        """Whether a bound proves the pieces cannot fit (see :meth:`fit_pack.StockRoom.cannot_fit`)."""
+        return self.room.cannot_fit(cuts)
 
-    def fit(self, root, scale, count):
-        """The optimiser's Layout of the set on the stock on hand, or None when it does not fit."""
+    def fits(self, root, scale, count):
+        """Whether the set has a layout on the stock on hand (bounds, then first fit, then the
+        exact packer)."""
         key = (root, scale, count)
         if key not in self.memo:
-            self.memo[key] = self._pack(root, scale, count)
+            self.memo[key] = self._fits(root, scale, count)
         return self.memo[key]
 
-    def _pack(self, root, scale, count):
+    def _fits(self, root, scale, count):
         cuts = self.cut_lengths(root, scale, count)
         if cuts is None:
-            return None
+            return False
         if self.bounded_out(cuts):
             self.stats["sets_bounded_out"] += 1
-            return None
+            return False
+        if self.room.first_fit(cuts):
+            self.stats["sets_first_fit"] += 1
+            return True
+        return self.layout(root, scale, count) is not None
+
+    def layout(self, root, scale, count):
+        """The optimiser's Layout (fewest sticks) of the set, or None when it finds none."""
+        key = (root, scale, count)
+        if key in self.layouts:
+            return self.layouts[key]
+        cuts = self.cut_lengths(root, scale, count)
         start = time.process_time()
         self.stats["sets_packed"] += 1
         items = [optimiser.Item(f"{self.name}-{i}", c) for i, c in enumerate(cuts, start=1)]
         try:
-            return optimiser.layout(items, self.types, self.stock.kerf, self.stock.end_trim, PACK_TIME_LIMIT)
+            out = optimiser.layout(items, self.types, self.stock.kerf, self.stock.end_trim, PACK_TIME_LIMIT)
         except optimiser.StockError:
-            return None
-        finally:
-            self.stats["pack_s"] += time.process_time() - start
+            out = None
+        self.stats["pack_s"] += time.process_time() - start
+        self.layouts[key] = out
+        return out
 
     def lowest_root(self, scale, count):
-        """The lowest root whose set fits (bisection: fitting is monotone in the root), or None."""
+        """The lowest root whose set fits, or None.
+
+        Fitting is monotone in the root and in the count, so the search starts at the lowest
+        root no bound rules out (and no lower than the answer for one note fewer), gallops up
+        until a set fits, then bisects back.
+        """
         roots = self.roots(scale, count)
-        if not roots:
-            return None
-        # bounds first (no packing): the lowest root no bound rules out
-        first = next((i for i, r in enumerate(roots)
-                      if (c := self.cut_lengths(r, scale, count)) is not None and not self.bounded_out(c)), None)
-        if first is None or self.fit(roots[-1], scale, count) is None:
-            return None
-        lo, hi = first, len(roots) - 1  # roots[hi] fits
-        while lo < hi:
+        floor = self.answers.get((scale, count - 1), roots[0] if roots else None)
+        roots = [r for r in roots if floor is not None and r >= floor]
+        first = next((i for i, r in enumerate(roots) if not self.bounded_out(self.cut_lengths(r, scale, count))),
+                     None)
+        if first is None:
+            return self.answers.setdefault((scale, count), None)
+        lo, step, hi = first, 1, first
+        while not self.fits(roots[hi], scale, count):
+            if hi == len(roots) - 1:
+                return self.answers.setdefault((scale, count), None)
+            lo, hi, step = hi + 1, min(hi + step, len(roots) - 1), step * 2
+        while lo < hi:  # roots[hi] fits; everything below lo does not
             mid = (lo + hi) // 2
-            if self.fit(roots[mid], scale, count) is not None:
+            if self.fits(roots[mid], scale, count):
                 hi = mid
             else:
                 lo = mid + 1
+        self.answers[(scale, count)] = roots[hi]
         return roots[hi]
 
     def most_notes(self, scale, counts):
@@ -241,7 +254,7 @@ class _Search:
         counts = [c for c in counts if c <= len(self.offsets[scale]) and self.roots(scale, c)]
 
         def ok(c):
-            return self.fit(self.roots(scale, c)[-1], scale, c) is not None  # highest root: shortest pieces
+            return self.fits(self.roots(scale, c)[-1], scale, c)  # highest root: shortest pieces
 
         if not counts or not ok(counts[0]):
             return None
@@ -255,7 +268,9 @@ class _Search:
         return counts[lo]
 
     def candidate(self, root, scale, count):
-        layout = self.fit(root, scale, count)
+        layout = self.layout(root, scale, count)
+        if layout is None:  # first fit placed it, the exact packer ran out of time: keep first fit's
+            return None
         offs = self.offsets[scale][:count]
         return Candidate(scale, pitch.note_name(root), count, tuple(pitch.note_name(root + o) for o in offs),
                          tuple(self.cut_lengths(root, scale, count)), _sticks_of_layout(layout),
@@ -273,7 +288,7 @@ def _ranked(search, scales, objective, count, counts):
             if objective == "lowest":
                 roots = roots[:ROWS_PER_SCALE]
             rows += [(r, s, count) for r in roots]
-        cands = [search.candidate(*row) for row in rows if search.fit(*row) is not None]
+        cands = [c for c in (search.candidate(*row) for row in rows if search.fits(*row)) if c is not None]
         if objective == "lowest":
             return sorted(cands, key=lambda c: (c.root_hz, -c.utilisation, c.scale))
         return sorted(cands, key=lambda c: (-round(c.utilisation, 9), c.root_hz, c.scale))
@@ -285,7 +300,7 @@ def _ranked(search, scales, objective, count, counts):
             r0 = search.lowest_root(s, c)
             if r0 is not None:
                 rows += [(r, s, c) for r in search.roots(s, c) if r >= r0][:ROWS_PER_SCALE if c == best else 1]
-    cands = [search.candidate(*row) for row in rows if search.fit(*row) is not None]
+    cands = [c for c in (search.candidate(*row) for row in rows if search.fits(*row)) if c is not None]
     return sorted(cands, key=lambda c: (-c.count, c.root_hz, -c.utilisation, c.scale))
 
 
@@ -315,28 +330,14 @@ def _window(lowest, highest):
     return bounds
 
 
-def search(base_set, stock, scales=("major-pentatonic",), count=None, objective="lowest", lowest=None,
-           highest=None, a4=pitch.A4_FREQUENCY, temperament="equal", units="mm", materials_dirs=(), top=10,
-           max_count=MAX_COUNT, title=None):
-    """Search the sets of ``scales`` that fit ``stock`` and choose one by ``objective``.
-
-    ``base_set`` is a [[set]] table without its notes (kind, material, section, model, ...) and
-    ``stock`` a [stock] table (lengths with counts, kerf, end_trim, allowance), both with the
-    design file's keys.  ``count`` is required for "lowest" and "waste"; "most" tries 1 to
-    ``max_count`` notes.  Raises :class:`cutplan.design.DesignErrors` for bad keys and
-    :class:`FitError` (naming what does fit) when nothing fits.
-    """
+def _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, units, materials_dirs):
+    """Validate the request and build the search: (_Search, scales, kind, design top keys)."""
     import cutplan
 
-    start = time.process_time()
-    if objective not in OBJECTIVES:
-        raise FitError("objective", objective, f"must be one of: {', '.join(OBJECTIVES)}")
     scales = tuple(dict.fromkeys(scales or ("major-pentatonic",)))
     for s in scales:
         if s not in pitch.SCALES:
             raise FitError("scale", s, f"is not {pitch.SCALE_FORMS}")
-    if objective != "most" and not (isinstance(count, int) and 1 <= count <= max_count):
-        raise FitError("count", count, f"must be a whole number from 1 to {max_count} (or ask for the most notes)")
     kind = base_set.get("kind")
     if kind not in SET_NAMES:
         raise FitError("kind", kind, f"must be one of: {', '.join(SET_NAMES)}")
@@ -349,17 +350,57 @@ def search(base_set, stock, scales=("major-pentatonic",), count=None, objective=
     top_keys = {"units": units, "tuning": {"a4": a4, "temperament": temperament}}
     probe = cutplan.design_from_mapping({**top_keys, "set": [{**base_set, "notes": ["A4"]}], "stock": stock},
                                         materials_dirs, name="from-stock")
-    spec, stock_spec = probe.sets[0], probe.stock
-    counts = list(range(1, max_count + 1)) if objective == "most" else [count]
-    found = _Search(spec, stock_spec, lo, hi, scales, max(counts), temperament, a4, base_set,
+    found = _Search(probe.sets[0], probe.stock, lo, hi, scales, max(counts), temperament, a4, base_set,
                     {**top_keys, "stock": {k: v for k, v in stock.items() if k != "lengths"}}, materials_dirs)
+    return found, scales, kind
+
+
+def search(base_set, stock, scales=("major-pentatonic",), count=None, objective="lowest", lowest=None,
+           highest=None, a4=pitch.A4_FREQUENCY, temperament="equal", units="mm", materials_dirs=(), top=10,
+           max_count=MAX_COUNT, title=None):
+    """Search the sets of ``scales`` that fit ``stock`` and choose one by ``objective``.
+
+    ``base_set`` is a [[set]] table without its notes (kind, material, section, model, ...) and
+    ``stock`` a [stock] table (lengths with counts, kerf, end_trim, allowance), both with the
+    design file's keys.  ``count`` is required for "lowest" and "waste"; "most" tries 1 to
+    ``max_count`` notes.  Raises :class:`cutplan.design.DesignErrors` for bad keys and
+    :class:`FitError` (naming what does fit) when nothing fits.
+    """
+    start = time.process_time()
+    if objective not in OBJECTIVES:
+        raise FitError("objective", objective, f"must be one of: {', '.join(OBJECTIVES)}")
+    if objective != "most" and not (isinstance(count, int) and 1 <= count <= max_count):
+        raise FitError("count", count, f"must be a whole number from 1 to {max_count} (or ask for the most notes)")
+    counts = list(range(1, max_count + 1)) if objective == "most" else [count]
+    found, scales, kind = _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, units,
+                                   materials_dirs)
     cands = _ranked(found, scales, objective, count, counts)
     if not cands:
         raise _nothing_fits(found, scales, count, objective, counts)
     cands = cands[:max(1, top)]
+    confirm_start = time.process_time()
     chosen, design, the_plan = _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materials_dirs)
+    found.stats["confirm_s"] = time.process_time() - confirm_start
     found.stats["total_s"] = time.process_time() - start
     return FitResult(objective, tuple(cands), chosen, design, the_plan, units, dict(found.stats))
+
+
+def lowest_roots(base_set, stock, scales, counts, lowest=None, highest=None, a4=pitch.A4_FREQUENCY,
+                 temperament="equal", materials_dirs=()):
+    """The whole map: {(scale, count): lowest root that fits (note name) or None}, and the stats.
+
+    The same table, bounds and packing as :func:`search`, without choosing or confirming.
+    """
+    start = time.process_time()
+    found, scales, _kind = _prepare(base_set, stock, scales, list(counts), lowest, highest, a4, temperament,
+                                    "mm", materials_dirs)
+    out = {}
+    for s in scales:
+        for c in counts:
+            r = found.lowest_root(s, c)
+            out[(s, c)] = None if r is None else pitch.note_name(r)
+    found.stats["total_s"] = time.process_time() - start
+    return out, dict(found.stats)
 
 
 def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materials_dirs):
@@ -408,30 +449,3 @@ def _nothing_fits(found, scales, count, objective, counts):
         return FitError("stock", None, f"no set fits; closest: {c} notes of {s} from {pitch.note_name(r)}")
     return FitError("count", count, f"notes of {shown} do not fit the stock on hand at any root from {window}; "
                     f"closest that fits: {c} notes of {s} from {pitch.note_name(r)}")
-
-
-def candidate_dict(c, rank=None):
-    """A candidate as JSON-ready data (mm)."""
-    out = {} if rank is None else {"rank": rank}
-    out.update({
-        "root": c.root, "scale": c.scale, "count": c.count, "notes": list(c.notes),
-        "lowest": c.lowest, "highest": c.highest, "root_hz": round(c.root_hz, 3),
-        "cut_lengths_mm": [round(x * 1000, 1) for x in c.cut_lengths],
-        "sticks_used": c.sticks_used, "stock_used_mm": round(c.stock_used * 1000, 1),
-        "offcut_mm": round(c.offcut * 1000, 1), "utilisation_percent": round(100 * c.utilisation, 1),
-        "proven_optimal": c.proven_optimal,
-    })
-    return out
-
-
-def result_dict(result):
-    """``{"candidates": [...], "chosen": {...}}`` of a search (mm), with the chosen set's design
-    and cut list."""
-    chosen = candidate_dict(result.chosen)
-    chosen["design"] = result.design
-    chosen["sticks"] = [{"stock_length_mm": round(s[0] * 1000, 1), "offcut_mm": round(s[2] * 1000, 1),
-                         "cuts": [{"label": lab, "start_mm": round(a * 1000, 1), "length_mm": round(b * 1000, 1)}
-                                  for lab, a, b in s[1]]} for s in result.chosen.sticks]
-    return {"format": "cutplan-fit/1", "objective": result.objective,
-            "candidates": [candidate_dict(c, i) for i, c in enumerate(result.candidates, start=1)],
-            "chosen": chosen}

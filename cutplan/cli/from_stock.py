@@ -89,34 +89,6 @@ def _option_error(error):
     return f"{option}: {shown}{error.allowed}"
 
 
-def _toml_value(value):
-    if isinstance(value, bool):
-        return "true" if value else "false"
-    if isinstance(value, (int, float)):
-        return repr(value)
-    if isinstance(value, str):
-        return '"' + value.replace("\\", "\\\\").replace('"', '\\"') + '"'
-    if isinstance(value, (list, tuple)):
-        return "[" + ", ".join(_toml_value(v) for v in value) + "]"
-    if isinstance(value, dict):
-        return "{ " + ", ".join(f"{k} = {_toml_value(v)}" for k, v in value.items()) + " }"
-    raise TypeError(f"cannot write {value!r} to TOML")
-
-
-def design_toml(mapping, header=()):
-    """A design mapping (the design file's keys) as TOML text: scalars, then tables, then [[set]]."""
-    lines = [f"# {h}" for h in header]
-    for k, v in mapping.items():
-        if not isinstance(v, dict) and not (k == "set" and isinstance(v, list)):
-            lines.append(f"{k} = {_toml_value(v)}")
-    for k, v in mapping.items():
-        if isinstance(v, dict):
-            lines += ["", f"[{k}]"] + [f"{kk} = {_toml_value(vv)}" for kk, vv in v.items()]
-    for table in mapping.get("set", []):
-        lines += ["", "[[set]]"] + [f"{kk} = {_toml_value(vv)}" for kk, vv in table.items()]
-    return "\n".join(lines) + "\n"
-
-
 def _render(result):
     from cutplan.units import format_length
 
@@ -190,7 +162,7 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
     """
     from pathlib import Path
 
-    from cutplan import fit_stock
+    from cutplan import fit_output, fit_stock
     from cutplan.design import DesignErrors
 
     if bool(have) == bool(design_file):
@@ -228,12 +200,12 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
     if fmt == "json":
         import json
 
-        click.echo(json.dumps(fit_stock.result_dict(result), indent=1))
+        click.echo(json.dumps(fit_output.result_dict(result), indent=1))
     else:
         click.echo(_render(result), nl=False)
     if output:
         c = result.chosen
-        text = design_toml(result.design, header=(
+        text = fit_output.design_toml(result.design, header=(
             f"{c.count} notes of {c.root} {c.scale}, chosen by `cutplan from-stock` to fit the stock below.",
             "Plan it with: cutplan plan THIS-FILE"))
         write_file(output, text)
