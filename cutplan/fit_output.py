@@ -29,7 +29,7 @@ def result_dict(result):
     chosen["sticks"] = [{"stock_length_mm": round(s[0] * 1000, 1), "offcut_mm": round(s[2] * 1000, 1),
                          "cuts": [{"label": lab, "start_mm": round(a * 1000, 1), "length_mm": round(b * 1000, 1)}
                                   for lab, a, b in s[1]]} for s in result.chosen.sticks]
-    return {"format": "cutplan-fit/1", "objective": result.objective,
+    return {"format": "cutplan-fit/1", "objective": result.objective, "notes": list(result.notes),
             "candidates": [candidate_dict(c, i) for i, c in enumerate(result.candidates, start=1)],
             "chosen": chosen}
 

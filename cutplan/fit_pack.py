@@ -13,6 +13,9 @@ import math
 from cutplan import stock as optimiser
 
 TOL = optimiser.FIT_TOLERANCE
+NODE_LIMIT = 200_000
+"""Placements the exact search may try before it gives up [-] (a count, not a time, so the answer
+does not change with the machine's load)."""
 
 
 class StockRoom:
@@ -81,3 +84,62 @@ class StockRoom:
             else:
                 return True
         return False
+
+    def exact_fit(self, cuts, node_limit=NODE_LIMIT):
+        """Whether the pieces can all be cut: True, False, or None when the exhaustive search
+        (:meth:`exact_assignment`) stops at ``node_limit`` placements."""
+        found = self.exact_assignment(cuts, node_limit)
+        return found if found is None else bool(found)
+
+    def exact_assignment(self, cuts, node_limit=NODE_LIMIT):
+        """A layout by exhaustive search: [(stick length [m], [piece indices]), ...] for the
+        sticks used, [] when the pieces cannot all be cut, None at the node limit.
+
+        Depth-first, longest piece first, into each stick with room; sticks with the same room
+        left are interchangeable, so only one of them is tried.  A branch stops when the pieces
+        left exceed the room that can still take a piece.
+        """
+        order = sorted(range(len(cuts)), key=lambda i: -cuts[i])
+        sizes = [cuts[i] + self.kerf for i in order]
+        caps = []
+        for cap, count in zip(self.stick_caps, self.stick_counts, strict=True):
+            caps += [cap] * (len(sizes) if count is None else min(count, len(sizes)))
+        rooms = list(caps)
+        where = [None] * len(sizes)
+        rest = [sum(sizes[i:]) for i in range(len(sizes) + 1)]
+        nodes = 0
+
+        def place(i):
+            nonlocal nodes
+            if i == len(sizes):
+                return True
+            if sum(r for r in rooms if r >= sizes[-1] - TOL) < rest[i] - TOL:
+                return False
+            tried = set()
+            for b, r in enumerate(rooms):
+                key = round(r, 9)
+                if r < sizes[i] - TOL or key in tried:
+                    continue
+                tried.add(key)
+                nodes += 1
+                if nodes > node_limit:
+                    raise _Undecided
+                rooms[b] -= sizes[i]
+                where[i] = b
+                if place(i + 1):
+                    return True
+                rooms[b] += sizes[i]
+            return False
+
+        try:
+            if not place(0):
+                return []
+        except _Undecided:
+            return None
+        used = sorted(set(where))
+        return [(caps[b] + self.end_trim - self.kerf, [order[i] for i in range(len(sizes)) if where[i] == b])
+                for b in used]
+
+
+class _Undecided(Exception):
+    """The exact search reached its node limit."""

@@ -39,9 +39,11 @@ SEARCH_HIGH = "C8"
 """Highest note tried when no upper limit is given (top of the piano's range)."""
 MAX_COUNT = 24
 """Most notes ``objective="most"`` tries [-] (two octaves of a 12-note scale)."""
-PACK_TIME_LIMIT = 0.5
-"""Seconds the exact packer may take per candidate set [s]; a set it cannot place in time counts
-as not fitting."""
+PACK_TIME_LIMIT = 2.0
+"""Seconds the cut-list optimiser may take per candidate set [s] (its default, as in a plan).
+Whether a set fits is settled by bounds, first fit and an exhaustive search with a node limit
+(:mod:`cutplan.fit_pack`); the optimiser decides only sets too big for that, and lays out the
+sets shown."""
 ROWS_PER_SCALE = 4
 """Roots shown per scale and count in the ranked table [-]."""
 SET_NAMES = {"chime": "chimes", "bar": "bars", "air-column": "pipes"}
@@ -116,6 +118,7 @@ class FitResult:
     plan: object
     units: str = "mm"
     stats: dict = field(default_factory=dict)
+    notes: tuple = ()
 
 
 def _sticks_of_layout(layout):
@@ -135,9 +138,9 @@ class _Search:
         self.temperament, self.a4 = temperament, a4
         self.name = SET_NAMES.get(spec.kind, "pieces")
         self.offsets = {s: pitch.scale_offsets(s, max_count) for s in scales}
-        self.stats = {"pitches": 0, "sets_bounded_out": 0, "sets_first_fit": 0, "sets_packed": 0,
-                      "table_s": 0.0, "pack_s": 0.0}
-        self.memo, self.layouts, self.answers = {}, {}, {}
+        self.stats = {"pitches": 0, "sets_bounded_out": 0, "sets_first_fit": 0, "sets_exact": 0,
+                      "sets_packed": 0, "table_s": 0.0, "exact_s": 0.0, "pack_s": 0.0}
+        self.memo, self.layouts, self.answers, self.notes = {}, {}, {}, []
         self.room = fit_pack.StockRoom(stock)
         self.types, self.longest = self.room.types, self.room.longest
         self._build_table(base_set, top, materials_dirs)
@@ -202,6 +205,12 @@ class _Search:
         if self.room.first_fit(cuts):
             self.stats["sets_first_fit"] += 1
             return True
+        start = time.process_time()
+        exact = self.room.exact_fit(cuts)
+        self.stats["exact_s"] += time.process_time() - start
+        if exact is not None:
+            self.stats["sets_exact"] += 1
+            return exact
         return self.layout(root, scale, count) is not None
 
     def layout(self, root, scale, count):
@@ -269,7 +278,9 @@ class _Search:
 
     def candidate(self, root, scale, count):
         layout = self.layout(root, scale, count)
-        if layout is None:  # first fit placed it, the exact packer ran out of time: keep first fit's
+        if layout is None:
+            self.notes.append(f"{count} notes of {pitch.note_name(root)} {scale} fit by exhaustive search, but "
+                              "the cut-list optimiser (and so `cutplan plan`) finds no layout; not offered")
             return None
         offs = self.offsets[scale][:count]
         return Candidate(scale, pitch.note_name(root), count, tuple(pitch.note_name(root + o) for o in offs),
@@ -379,10 +390,15 @@ def search(base_set, stock, scales=("major-pentatonic",), count=None, objective=
         raise _nothing_fits(found, scales, count, objective, counts)
     cands = cands[:max(1, top)]
     confirm_start = time.process_time()
-    chosen, design, the_plan = _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materials_dirs)
+    chosen, design, the_plan, skipped = _confirm(cands, base_set, stock, units, a4, temperament, title, kind,
+                                                 materials_dirs)
+    found.notes += [f"{c.count} notes of {c.root} {c.scale}: the planner did not confirm the layout; not offered"
+                    for c in cands[:skipped]]
+    cands = cands[skipped:]
     found.stats["confirm_s"] = time.process_time() - confirm_start
     found.stats["total_s"] = time.process_time() - start
-    return FitResult(objective, tuple(cands), chosen, design, the_plan, units, dict(found.stats))
+    return FitResult(objective, tuple(cands), chosen, design, the_plan, units, dict(found.stats),
+                     tuple(dict.fromkeys(found.notes)))
 
 
 def lowest_roots(base_set, stock, scales, counts, lowest=None, highest=None, a4=pitch.A4_FREQUENCY,
@@ -408,7 +424,7 @@ def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materi
     import cutplan
     from cutplan.design import DesignErrors
 
-    for cand in cands:
+    for k, cand in enumerate(cands):
         mapping = design_mapping(base_set, stock, cand, units, a4, temperament, title, kind)
         try:
             the_plan = cutplan.plan(cutplan.design_from_mapping(mapping, materials_dirs, name="from-stock"))
@@ -420,7 +436,7 @@ def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materi
         chosen = Candidate(cand.scale, cand.root, cand.count, cand.notes, cut,
                            _sticks_of_cut_list(the_plan.cut_list), bool(the_plan.cut_list.proven_optimal),
                            cand.root_hz)
-        return chosen, mapping, the_plan
+        return chosen, mapping, the_plan, k
     raise FitError("stock", None, "no candidate set could be confirmed by the planner; "
                    "check the material and section with `cutplan length`")
 

@@ -111,6 +111,7 @@ def _render(result):
         for label, start, piece in cuts:
             out.append(f"    {label:10} {length(piece)} from {length(start)}")
         out.append(f"    {'offcut':10} {length(offcut)}")
+    out += [f"note: {n}" for n in result.notes]
     out += ["", CAUTION]
     return "\n".join(out) + "\n"
 
