@@ -87,7 +87,18 @@ class StockRoom:
 
     def exact_fit(self, cuts, node_limit=NODE_LIMIT):
         """Whether the pieces can all be cut: True, False, or None when the exhaustive search
-        (:meth:`exact_assignment`) stops at ``node_limit`` placements."""
+        (:meth:`exact_assignment`) stops at ``node_limit`` placements.
+
+        Examples
+        --------
+        Two 1.5 m sticks, no kerf: 0.6 + 0.5 + 0.4 m fills each exactly, but five 0.6 m pieces
+        need three sticks (two per stick), although their total is 3.0 m.
+
+        >>> from cutplan.design import StockLength, StockSpec
+        >>> room = StockRoom(StockSpec((StockLength(1.5, 2),), kerf=0.0, end_trim=0.0))
+        >>> room.exact_fit([0.6, 0.6, 0.5, 0.5, 0.4, 0.4]), room.exact_fit([0.6] * 5)
+        (True, False)
+        """
         found = self.exact_assignment(cuts, node_limit)
         return found if found is None else bool(found)
 
