@@ -8,10 +8,10 @@ import json
 import re
 from pathlib import Path
 
-import cutplan
 import pytest
 from click.testing import CliRunner
 
+import cutplan
 from cutplan import fit_pack, fit_stock, fit_table, pitch
 from cutplan.cli import cli
 from cutplan.design import StockLength, StockSpec

@@ -10,8 +10,7 @@ from __future__ import annotations
 import click
 
 from cutplan import __version__
-from cutplan.cli import pieces, plans, shop
-from cutplan.cli import from_stock  # noqa: I001
+from cutplan.cli import from_stock, pieces, plans, shop
 
 
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
