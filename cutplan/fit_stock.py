@@ -337,6 +337,8 @@ def _window(lowest, highest):
         except pitch.PitchError as exc:
             raise FitError(key, value, f"is not {exc.accepted}") from None
     if bounds[1] <= bounds[0]:
+        if highest is None:
+            raise FitError("lowest", lowest, f"must be below the highest note tried ({SEARCH_HIGH})")
         raise FitError("highest", highest, f"must be above the lowest note ({lowest or SEARCH_LOW})")
     return bounds
 

@@ -180,6 +180,9 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
     if ends:
         base_set["ends"] = ends
     tuning = {}
+    for option, value in (("--kerf", kerf), ("--end-trim", end_trim)):
+        if not _HAS_UNIT.search(value) and value.strip() not in ("0", "0.0"):
+            fail(f'{option}: {value!r} has no unit; write e.g. "{value.strip()} mm" or "1/16 in"')
     if have:
         stock = {"lengths": _have_lengths(have), "kerf": kerf, "end_trim": end_trim, "allowance": allowance}
         inch_like = all(re.search(r"ft|in|'|\"|foot|feet|inch", h["length"]) for h in stock["lengths"])
