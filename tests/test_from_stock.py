@@ -209,3 +209,8 @@ def test_unknown_scale_and_bad_limits_are_one_line_errors():
     assert result.exit_code == 2 and "--highest" in result.output
     result = run("from-stock", "--have", "8 ft", *TUBE)
     assert result.exit_code == 2 and "--count" in result.output
+
+
+def test_help_has_examples():
+    result = run("from-stock", "--help")
+    assert result.exit_code == 0 and "Example" in result.output and "--have" in result.output

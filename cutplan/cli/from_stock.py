@@ -11,8 +11,9 @@ from cutplan.cli.common import MATERIALS_OPTION, fail, write_file
 HAVE_FORMS = '"LENGTH [x COUNT]" with a unit, e.g. "8 ft x 2", "2.4 m" or "600 mm x 3"'
 _HAVE = re.compile(r"\s*(.+?)\s*(?:[x×*]\s*(-?\d+))?\s*")
 _HAS_UNIT = re.compile(r"[a-zA-Z'\"′″]")
-CAUTION = ("Cut long, then trim to pitch (trimming raises the pitch). Wear eye and hearing protection and "
-           "deburr cut tube; hang pieces overhead from rated hardware, as local codes require.")
+CAUTION = ("Cut long, then trim to pitch (trimming raises the pitch). Safety: wear eye and hearing protection; "
+           "deburr cut metal; never heat PVC and vacuum its dust; hang pieces overhead from rated hardware, "
+           "as local codes require.")
 
 
 def _have_lengths(texts):
@@ -105,7 +106,7 @@ def _render(result):
     out += ["  ".join(x.ljust(w) for x, w in zip(r, widths, strict=True)).rstrip() for r in rows]
     c = result.chosen
     out += ["", f"chosen: {c.count} notes of {c.root} {c.scale} ({c.lowest} to {c.highest}), "
-                f"planned and laid out{' (proven fewest sticks)' if c.proven_optimal else ''}:"]
+                f"planned and laid out{' (layout proven optimal)' if c.proven_optimal else ''}:"]
     for i, (stock_length, cuts, offcut) in enumerate(c.sticks, start=1):
         out.append(f"  stick {i}, {length(stock_length)}:")
         for label, start, piece in cuts:
