@@ -288,31 +288,41 @@ class _Search:
                          bool(layout.proven_optimal), self._frequency(root, 0))
 
 
-def _ranked(search, scales, objective, count, counts):
+def _ranked(search, scales, objective, count, counts, top):
+    """The candidates, best first.  Rows are ranked before they are laid out, so the optimiser
+    lays out only the rows shown (all fitting roots for "waste", which ranks by the layout)."""
     rows = []
     if objective in ("lowest", "waste"):
         for s in scales:
             r0 = search.lowest_root(s, count)
-            if r0 is None:
-                continue
-            roots = [r for r in search.roots(s, count) if r >= r0]
-            if objective == "lowest":
-                roots = roots[:ROWS_PER_SCALE]
-            rows += [(r, s, count) for r in roots]
-        cands = [c for c in (search.candidate(*row) for row in rows if search.fits(*row)) if c is not None]
-        if objective == "lowest":
-            return sorted(cands, key=lambda c: (c.root_hz, -c.utilisation, c.scale))
-        return sorted(cands, key=lambda c: (-round(c.utilisation, 9), c.root_hz, c.scale))
-    for s in scales:
-        best = search.most_notes(s, counts)
-        if best is None:
-            continue
-        for c in sorted({best, best - 1} & set(counts), reverse=True):
-            r0 = search.lowest_root(s, c)
             if r0 is not None:
-                rows += [(r, s, c) for r in search.roots(s, c) if r >= r0][:ROWS_PER_SCALE if c == best else 1]
-    cands = [c for c in (search.candidate(*row) for row in rows if search.fits(*row)) if c is not None]
-    return sorted(cands, key=lambda c: (-c.count, c.root_hz, -c.utilisation, c.scale))
+                roots = [r for r in search.roots(s, count) if r >= r0]
+                rows += [(r, s, count) for r in (roots[:ROWS_PER_SCALE] if objective == "lowest" else roots)]
+    else:
+        for s in scales:
+            best = search.most_notes(s, counts)
+            if best is None:
+                continue
+            for c in sorted({best, best - 1} & set(counts), reverse=True):
+                r0 = search.lowest_root(s, c)
+                if r0 is not None:
+                    rows += [(r, s, c) for r in search.roots(s, c) if r >= r0][:ROWS_PER_SCALE if c == best else 1]
+    rows = [row for row in rows if search.fits(*row)]
+    if objective == "waste":
+        cands = [c for c in (search.candidate(*row) for row in rows) if c is not None]
+        return sorted(cands, key=lambda c: (-round(c.utilisation, 9), c.root_hz, c.scale))[:top]
+    if objective == "lowest":
+        rows.sort(key=lambda row: (search._frequency(row[0], 0), row[1]))
+    else:
+        rows.sort(key=lambda row: (-row[2], search._frequency(row[0], 0), row[1]))
+    cands = []
+    for row in rows:
+        cand = search.candidate(*row)
+        if cand is not None:
+            cands.append(cand)
+        if len(cands) == top:
+            break
+    return cands
 
 
 def design_mapping(base_set, stock, candidate, units="mm", a4=pitch.A4_FREQUENCY, temperament="equal",
@@ -387,10 +397,9 @@ def search(base_set, stock, scales=("major-pentatonic",), count=None, objective=
     counts = list(range(1, max_count + 1)) if objective == "most" else [count]
     found, scales, kind = _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, units,
                                    materials_dirs)
-    cands = _ranked(found, scales, objective, count, counts)
+    cands = _ranked(found, scales, objective, count, counts, max(1, top))
     if not cands:
         raise _nothing_fits(found, scales, count, objective, counts)
-    cands = cands[:max(1, top)]
     confirm_start = time.process_time()
     chosen, design, the_plan, skipped = _confirm(cands, base_set, stock, units, a4, temperament, title, kind,
                                                  materials_dirs)
