@@ -367,6 +367,8 @@ def _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, 
     if "undercut" in base_set:
         raise FitError("undercut", None, "is not searched: from-stock plans uniform bars; add the undercut "
                        "to the written design afterwards")
+    if "stock" in base_set:
+        raise FitError("set.stock", None, "is not used: give the stock on hand as the search's stock table")
     if not isinstance(stock, dict) or not stock.get("lengths"):
         raise FitError("stock", None, 'lists no sticks; give at least one, e.g. "8 ft x 1"')
     lo, hi = _window(lowest, highest)
