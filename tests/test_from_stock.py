@@ -6,6 +6,7 @@ Every "fits" below is checked the way a builder would: the written design file i
 
 import json
 import re
+import tomllib
 from pathlib import Path
 
 import pytest
@@ -209,6 +210,18 @@ def test_unknown_scale_and_bad_limits_are_one_line_errors():
     assert result.exit_code == 2 and "--highest" in result.output
     result = run("from-stock", "--have", "8 ft", *TUBE)
     assert result.exit_code == 2 and "--count" in result.output
+
+
+def test_design_file_gives_stock_section_and_scale(tmp_path):
+    design = ROOT / "examples" / "porch-chimes.toml"
+    out = tmp_path / "porch-again.toml"
+    result = run("from-stock", "--design", design, "--count", 5, "-o", out)
+    assert result.exit_code == 0, result.output
+    original = tomllib.loads(design.read_text())
+    written = tomllib.loads(out.read_text())
+    assert written["stock"] == original["stock"]
+    assert written["set"][0]["section"] == original["set"][0]["section"]
+    assert plan_json(out)[0].exit_code == 0
 
 
 def test_help_has_examples():

@@ -58,12 +58,18 @@ def _section(stock_size, tube, rod, bar_size):
     return {"shape": "tube", "outer": a, "wall": b} if tube else {"shape": "bar", "width": a, "thickness": b}
 
 
+_SET_KEYS_KEPT = ("kind", "material", "section", "model", "target", "ends", "end_correction", "temperature",
+                  "humidity")
+"""Keys of a design's set that describe the pieces (not their notes): what from-stock reuses."""
+
+
 def _design_stock(path, materials_dirs):
-    """The [stock] table of a design file as written, and the design's units (exit 2 on errors)."""
+    """From a design file: its [stock] as written, its units and tuning, its first chime, bar or
+    air-column set without the notes, and its material folders (exit 2 on errors)."""
     from cutplan.cli.common import _load
     from cutplan.design import DesignErrors, read_design_file
 
-    _load(path, materials_dirs)  # validates the whole file, one line per problem
+    design, _lib = _load(path, materials_dirs)  # validates the whole file, one line per problem
     try:
         raw = read_design_file(path)
     except DesignErrors as exc:
@@ -72,7 +78,11 @@ def _design_stock(path, materials_dirs):
     if not isinstance(stock, dict) or not stock.get("lengths"):
         fail(f"{path}: stock.lengths: the design lists no stock on hand; add "
              '[stock] lengths = [{ length = "8 ft", count = 1 }] or use --have')
-    return stock, raw.get("units", "mm"), raw.get("tuning", {})
+    sets = [s for s in raw.get("set", []) if s.get("kind") in ("chime", "bar", "air-column") and "undercut" not in s]
+    piece = {k: v for k, v in sets[0].items() if k in _SET_KEYS_KEPT} if sets else None
+    scale = sets[0].get("scale") if sets else None
+    return (stock, raw.get("units", "mm"), raw.get("tuning", {}), piece, tuple(str(d) for d in design.material_dirs),
+            scale)
 
 
 _OPTION_OF_KEY = (("set[1].section", "--stock-size/--tube/--rod/--bar"), ("set[1].material", "--material"),
@@ -121,20 +131,22 @@ def _render(result):
 @click.option("--have", "have", multiple=True,
               help='Stock on hand, "LENGTH [x COUNT]" with a unit, e.g. "8 ft x 1" (repeatable; count 1 if left out).')
 @click.option("--design", "design_file", type=click.Path(dir_okay=False),
-              help="Use this design file's [stock] (and its units) instead of --have.")
+              help="Use this design file's [stock], units and tuning instead of --have; and its first set's "
+                   "kind, material and section unless section options are given.")
 @click.option("--kerf", default="1.6 mm", show_default=True, help="Saw kerf.")
 @click.option("--end-trim", default="0 mm", show_default=True, help="Squared off each stick's factory end.")
 @click.option("--allowance", default="risk 5 %", show_default=True,
               help='Rough-cut allowance: "risk 5 %" (chance of coming out sharp), "0.5 %" or "3 mm".')
-@click.option("--kind", type=click.Choice(["chime", "bar", "air-column"]), default="chime", show_default=True,
-              help="What the pieces are.")
+@click.option("--kind", type=click.Choice(["chime", "bar", "air-column"]),
+              help="What the pieces are (default chime, or the --design file's first set).")
 @click.option("--material", help="Material name (chime/bar), from `cutplan materials`.")
 @click.option("--stock-size", help='Named stock size, e.g. "al-1.000x0.065" or "pvc-sch40-1".')
 @click.option("--tube", help='Tube "OUTER x WALL", e.g. "1 in x 0.065 in".')
 @click.option("--rod", help='Rod diameter, e.g. "12 mm".')
 @click.option("--bar", "bar_size", help='Bar "WIDTH x THICKNESS", e.g. "38 mm x 19 mm".')
 @click.option("--ends", type=click.Choice(["open-open", "closed-open"]), help="Air column ends.")
-@click.option("--scale", "scales", multiple=True, help="Scale to try (repeatable to compare; default major-pentatonic).")
+@click.option("--scale", "scales", multiple=True,
+              help="Scale to try (repeatable to compare; default major-pentatonic, or the --design file's scale).")
 @click.option("--count", type=int, help="Notes in the set: find the lowest root that fits.")
 @click.option("--most", is_flag=True, help="As many notes as fit (then the lowest root).")
 @click.option("--least-waste", is_flag=True, help="With --count: the root that uses the sticks cut best.")
@@ -160,7 +172,7 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
       cutplan from-stock --have "8 ft x 1" --stock-size al-1.000x0.065 --count 5
       cutplan from-stock --have "10 ft x 2" --have "600 mm x 3" --tube "1 in x 0.065 in" \\
           --material aluminum-6063-t5 --most --scale major --scale major-pentatonic
-      cutplan from-stock --design porch.toml --stock-size al-1.000x0.065 --count 5 -o porch-5.toml
+      cutplan from-stock --design porch.toml --count 5 -o porch-5.toml
     """
     from pathlib import Path
 
@@ -175,22 +187,27 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
         fail("--least-waste: needs --count N")
     if output and Path(output).exists() and not force:
         fail(f"{output}: already exists; use --force to overwrite it")
-    base_set = {"kind": kind, "section": _section(stock_size, tube, rod, bar_size)}
-    if material:
-        base_set["material"] = material
-    if ends:
-        base_set["ends"] = ends
-    tuning = {}
     for option, value in (("--kerf", kerf), ("--end-trim", end_trim)):
         if not _HAS_UNIT.search(value) and value.strip() not in ("0", "0.0"):
             fail(f'{option}: {value!r} has no unit; write e.g. "{value.strip()} mm" or "1/16 in"')
+    tuning, piece = {}, None
     if have:
         stock = {"lengths": _have_lengths(have), "kerf": kerf, "end_trim": end_trim, "allowance": allowance}
         inch_like = all(re.search(r"ft|in|'|\"|foot|feet|inch", h["length"]) for h in stock["lengths"])
         shown = units or ("in" if inch_like else "mm")
     else:
-        stock, design_units, tuning = _design_stock(design_file, materials_dirs)
+        stock, design_units, tuning, piece, design_dirs, design_scale = _design_stock(design_file, materials_dirs)
+        materials_dirs = tuple(materials_dirs) + design_dirs
+        scales = scales or ((design_scale,) if isinstance(design_scale, str) else ())
         shown = units or design_units
+    if piece is not None and not any((stock_size, tube, rod, bar_size, kind, material)):
+        base_set = piece  # the design's own pieces: kind, material, section
+    else:
+        base_set = {"kind": kind or "chime", "section": _section(stock_size, tube, rod, bar_size)}
+        if material:
+            base_set["material"] = material
+    if ends:
+        base_set["ends"] = ends
     objective = "most" if most else ("waste" if least_waste else "lowest")
     try:
         result = fit_stock.search(
