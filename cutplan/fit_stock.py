@@ -163,8 +163,18 @@ class _Search:
         short = fit_table.stubby_below(self.spec)
         cuts = np.where(np.isnan(lengths) | (lengths < short), np.nan, cuts)
         self.table = dict(zip(self.keys, cuts.tolist(), strict=True))
+        self.freqs = dict(zip(self.keys, freqs.tolist(), strict=True))
         self.stats["pitches"] = len(self.keys)
         self.stats["table_s"] = time.process_time() - start
+
+    def practical_range(self):
+        """(lowest, highest) note names of the pieces this section makes on this stock: the
+        lowest whose piece fits the longest stick, the highest without a stubby-piece warning."""
+        room = self.longest - self.stock.end_trim + optimiser.FIT_TOLERANCE
+        ok = [self.freqs[k] for k, cut in self.table.items() if not math.isnan(cut) and cut <= room]
+        if not ok:
+            return None
+        return tuple(pitch.nearest_note(f, self.a4)[0] for f in (min(ok), max(ok)))
 
     def _key(self, root, off):
         # equal temperaments: a pitch is its MIDI number; others depend on the root as well
@@ -409,6 +419,8 @@ def search(base_set, stock, scales=("major-pentatonic",), count=None, objective=
                     for c in cands[:skipped]]
     cands = cands[skipped:]
     found.stats["confirm_s"] = time.process_time() - confirm_start
+    found.stats["practical_range"] = found.practical_range()
+    found.stats["window"] = (pitch.note_name(found.lo), pitch.note_name(found.hi))
     found.stats["total_s"] = time.process_time() - start
     return FitResult(objective, tuple(cands), chosen, design, the_plan, units, dict(found.stats),
                      tuple(dict.fromkeys(found.notes)))

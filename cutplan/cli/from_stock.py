@@ -114,6 +114,11 @@ def _render(result):
     widths = [max(len(r[j]) for r in [head] + rows) for j in range(len(head))]
     out = ["  ".join(h.ljust(w) for h, w in zip(head, widths, strict=True)).rstrip()]
     out += ["  ".join(x.ljust(w) for x, w in zip(r, widths, strict=True)).rstrip() for r in rows]
+    span = result.stats.get("practical_range")
+    if span:
+        low, high = result.stats["window"]
+        out += ["", f"notes tried {low} to {high}; of these, this section on this stock makes {span[0]} to {span[1]} "
+                    "(longer pieces miss the longest stick, shorter ones are stubby)"]
     c = result.chosen
     out += ["", f"chosen: {c.count} notes of {c.root} {c.scale} ({c.lowest} to {c.highest}), "
                 f"planned and laid out{' (layout proven optimal)' if c.proven_optimal else ''}:"]
