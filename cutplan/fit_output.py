@@ -1,10 +1,40 @@
-"""From-stock results as plain data: the JSON of a search and the text of the design it writes.
+"""From-stock results as plain data: the design a search writes (mapping and TOML text) and its JSON.
 
 Pure functions of a :class:`cutplan.fit_stock.FitResult`; lengths in mm in the JSON, as in the
 plan JSON.
 """
 
 from __future__ import annotations
+
+from cutplan import pitch
+
+SET_NAMES = {"chime": "chimes", "bar": "bars", "air-column": "pipes"}
+"""Name of the written set per kind (the pieces are labelled chimes-1, bars-1, ...)."""
+
+
+def design_mapping(base_set, stock, candidate, units="mm", a4=pitch.A4_FREQUENCY, temperament="equal",
+                   title=None, kind="chime", materials_dirs=()):
+    """The design (the design file's keys) of a candidate set, with ``stock`` as its [stock].
+
+    Extra material folders are written as absolute ``material_dirs``, so the design plans
+    unchanged wherever it is saved.
+    """
+    from pathlib import Path
+
+    name = SET_NAMES.get(kind, "pieces")
+    out = {
+        "title": title or f"{candidate.count} notes of {candidate.root} {candidate.scale} from the stock on hand",
+        "units": units,
+    }
+    if materials_dirs:
+        out["material_dirs"] = [str(Path(d).resolve()) for d in materials_dirs]
+    out.update({
+        "tuning": {"a4": a4, "temperament": temperament},
+        "set": [{"name": name, **base_set, "scale": candidate.scale, "root": candidate.root,
+                 "count": candidate.count}],
+        "stock": stock,
+    })
+    return out
 
 
 def candidate_dict(c, rank=None):

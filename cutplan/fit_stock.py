@@ -32,6 +32,7 @@ import numpy as np
 
 from cutplan import fit_pack, fit_table, pitch
 from cutplan import stock as optimiser
+from cutplan.fit_output import SET_NAMES, design_mapping
 
 SEARCH_LOW = "C1"
 """Lowest root tried when no lower limit is given (a piece this low rarely fits any stick)."""
@@ -46,7 +47,6 @@ Whether a set fits is settled by bounds, first fit and an exhaustive search with
 sets shown."""
 ROWS_PER_SCALE = 4
 """Roots shown per scale and count in the ranked table [-]."""
-SET_NAMES = {"chime": "chimes", "bar": "bars", "air-column": "pipes"}
 OBJECTIVES = ("lowest", "most", "waste")
 
 
@@ -335,20 +335,6 @@ def _ranked(search, scales, objective, count, counts, top):
     return cands
 
 
-def design_mapping(base_set, stock, candidate, units="mm", a4=pitch.A4_FREQUENCY, temperament="equal",
-                   title=None, kind="chime"):
-    """The design (the design file's keys) of a candidate set, with ``stock`` as its [stock]."""
-    name = SET_NAMES.get(kind, "pieces")
-    return {
-        "title": title or f"{candidate.count} notes of {candidate.root} {candidate.scale} from the stock on hand",
-        "units": units,
-        "tuning": {"a4": a4, "temperament": temperament},
-        "set": [{"name": name, **base_set, "scale": candidate.scale, "root": candidate.root,
-                 "count": candidate.count}],
-        "stock": stock,
-    }
-
-
 def _window(lowest, highest):
     bounds = []
     for key, value in (("lowest", lowest or SEARCH_LOW), ("highest", highest or SEARCH_HIGH)):
@@ -450,7 +436,7 @@ def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materi
     from cutplan.design import DesignErrors
 
     for k, cand in enumerate(cands):
-        mapping = design_mapping(base_set, stock, cand, units, a4, temperament, title, kind)
+        mapping = design_mapping(base_set, stock, cand, units, a4, temperament, title, kind, materials_dirs)
         try:
             the_plan = cutplan.plan(cutplan.design_from_mapping(mapping, materials_dirs, name="from-stock"))
         except DesignErrors:
