@@ -224,6 +224,22 @@ def test_design_file_gives_stock_section_and_scale(tmp_path):
     assert plan_json(out)[0].exit_code == 0
 
 
+def test_extra_material_folder_travels_with_the_written_design(tmp_path):
+    folder = tmp_path / "shop-materials"
+    folder.mkdir()
+    # the packaged 6063-T5 values under another name (ASM data, key asm-6063 in sources.toml)
+    (folder / "shop.toml").write_text(
+        '[rack-alu]\ndescription = "Aluminium tube from the rack"\n'
+        'modulus = { value = "68.9 GPa", source = "asm-6063", where = "6063-T5 sheet", kind = "handbook" }\n'
+        'density = { value = "2700 kg/m3", source = "asm-6063", where = "6063-T5 sheet", kind = "handbook" }\n'
+        'poisson = { value = 0.33, source = "asm-6063", where = "6063-T5 sheet", kind = "handbook" }\n')
+    out = tmp_path / "elsewhere" / "rack.toml"
+    result = run("from-stock", "--have", "8 ft", "--tube", "1 in x 0.065 in", "--material", "rack-alu",
+                 "--materials", folder, "--count", 5, "-o", out)
+    assert result.exit_code == 0, result.output
+    assert plan_json(out)[0].exit_code == 0
+
+
 def test_help_has_examples():
     result = run("from-stock", "--help")
     assert result.exit_code == 0 and "Example" in result.output and "--have" in result.output
