@@ -313,6 +313,8 @@ def _ranked(search, scales, objective, count, counts, top):
             best = search.most_notes(s, counts)
             if best is None:
                 continue
+            if best == counts[-1]:
+                search.notes.append(f"{best} notes of {s} fit, the most this search tries; more may fit")
             for c in sorted({best, best - 1} & set(counts), reverse=True):
                 r0 = search.lowest_root(s, c)
                 if r0 is not None:
