@@ -54,6 +54,17 @@ class CutList:
     groups: tuple
     notes: tuple = field(default=())
 
+    def __str__(self):
+        """The layout in a few lines (mm), for a quick look from Python."""
+        lines = []
+        for g in self.groups:
+            proven = "proven optimal" if g.proven_optimal else "not proven optimal"
+            lines.append(f"{g.group}: {len(g.sticks)} stick(s), {proven}")
+            for i, s in enumerate(g.sticks, start=1):
+                cuts = ", ".join(f"{c.label} {c.length * 1000:.1f} at {c.start * 1000:.1f}" for c in s.cuts)
+                lines.append(f"  stick {i} ({s.stock_length * 1000:.1f} mm): {cuts}; offcut {s.offcut * 1000:.1f}")
+        return "\n".join(lines)
+
     @property
     def sticks(self):
         """All sticks, group by group."""

@@ -1,4 +1,4 @@
-"""Plan -> JSON (contract ``cutplan-plan/1``, shared/DESIGN.md) and CSV text. No physics here."""
+"""Plan -> JSON (contract ``cutplan-plan/1``, described in DEVELOPERS.md) and CSV text. No physics here."""
 
 from __future__ import annotations
 
