@@ -37,8 +37,8 @@ def fast_engine_applies(spec):
 
 
 def _beam_lengths(spec, frequencies):
+    from cutplan.models import beam_constants
     from cutplan.physics import beam, timoshenko
-    from cutplan.planner import beam_constants
 
     ei, mu, kga, rho_i = beam_constants(spec.material, spec.section, spec.model)
     if spec.model == "slender":

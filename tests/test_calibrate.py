@@ -12,8 +12,9 @@ from cutplan.calibrate import fit_air_column, fit_beam, trim_advice
 from cutplan.cli import cli
 from cutplan.design import load_design
 from cutplan.materials import load_library
+from cutplan.models import beam_constants, beam_frequency_function
 from cutplan.physics import air_column, beam, timoshenko
-from cutplan.planner import beam_constants, beam_frequency_function, plan
+from cutplan.planner import plan
 from cutplan.sections import tube
 
 LIB = load_library()

@@ -10,7 +10,7 @@ from cutplan.calibrate import CalibrationError, fit_beam
 from cutplan.calibrate_moduli import _partial_frequencies, fit_moduli, partials_from_peaks
 from cutplan.cli import cli
 from cutplan.materials import load_library
-from cutplan.planner import beam_frequency_function
+from cutplan.models import beam_frequency_function
 from cutplan.sections import bar, rod, tube
 
 LIB = load_library()

@@ -354,7 +354,7 @@ def trim_command(design, label, measured, recording, length_now, units, material
       cutplan trim examples/porch-chimes.toml porch-1 --recording porch-1.wav --length-now "505 mm"
     """
     from cutplan.calibrate import CalibrationError, trim_advice
-    from cutplan.planner import piece_frequency_function
+    from cutplan.models import piece_frequency_function
     from cutplan.units import UnitError, format_length, parse_length
 
     if (measured is None) == (recording is None):

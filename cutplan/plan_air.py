@@ -1,0 +1,100 @@
+"""Planning air columns and resonators: column lengths at the set's air, allowances, and the
+stopper settings of a resonator tuned over a temperature range."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from cutplan import air_stock, uncertainty
+from cutplan.allowance import allowances, risk_warning
+from cutplan.design import Design, DesignError, SetSpec
+from cutplan.models import air_frequency_function, cents_per_mm, partial_notes
+from cutplan.physics import air_column
+from cutplan.plan_types import PARTIAL_COUNT, Piece
+from cutplan.units import format_length
+
+STOPPER_MARGIN = 0.010
+"""Tube left beyond the deepest stopper setting [m] (room for the plug itself; common practice)."""
+
+
+STOPPER_STEP = 5.0
+"""Temperature step of the stopper-setting table [K]."""
+
+
+def stopper_settings(spec, frequency, radius):
+    """((temperature [K], depth from the open end to the stopper face [m]), ...) over the range.
+
+    The closed end of a resonator is a movable stopper; as the air warms the speed of sound rises
+    and the column must be longer to stay in tune (c ~ sqrt(T), ISO 9613-1).
+    """
+    lo, hi = spec.temperature_range
+    temps = list(np.arange(lo, hi, STOPPER_STEP)) + [hi]
+    if spec.temperature not in temps and lo < spec.temperature < hi:
+        temps.append(spec.temperature)
+    out = []
+    for t in sorted(temps):
+        speed = air_stock.speed(spec, float(t))
+        out.append((float(t), air_column.closed_open_length(frequency, radius, speed, correction=spec.end_correction)))
+    return tuple(out)
+
+
+def plan_air_set(spec: SetSpec, design: Design, targets, stock):
+    temperature = spec.temperature
+    speed = air_stock.speed(spec)
+    radius = spec.section.air_radius
+    closed = spec.ends == "closed-open"
+    length_of = air_column.closed_open_length if closed else air_column.open_open_length
+    freq_of = air_column.closed_open_frequency if closed else air_column.open_open_frequency
+    pieces, errors = [], []
+    for i, t in enumerate(targets, start=1):
+        length = length_of(t.frequency, radius, speed, correction=spec.end_correction)
+        label = f"{spec.name}-{i}"
+        if length <= 2 * radius:
+            errors.append(DesignError(design.path, f"set[{spec.index}]", t.name,
+                                      f"is too high for a {format_length(2 * radius, design.units)} bore: the column would be "
+                                      f"{format_length(length, design.units)} long ({label}); use a narrower tube"))
+            continue
+        harmonics = [2 * n - 1 for n in range(1, PARTIAL_COUNT + 1)] if closed else list(range(1, PARTIAL_COUNT + 1))
+        f1 = float(freq_of(length, radius, speed, correction=spec.end_correction))
+        partials = [f1 * h for h in harmonics]
+        warnings = []
+        if length < 2 * radius * 2:
+            warnings.append("short column: under two bores long, the end correction dominates; cut long and trim")
+        if spec.kind == "resonator" and length > spec.max_length:
+            warnings.append(f"resonator {format_length(length, design.units)} is longer than the limit "
+                            f"{format_length(spec.max_length, design.units)}; use a folded tube or a wider bore")
+        ka = 2 * np.pi * t.frequency / speed * radius
+        if ka > 0.5:
+            warnings.append(f"wide bore for this pitch (ka = {ka:.2f}): the end correction shrinks at high "
+                            "frequency, so the column may sound flat; trim to tune")
+        mass = spec.material.density * spec.section.area * length if spec.material is not None else None
+        f_at = air_frequency_function(spec)
+        factor = air_column.end_correction(1.0, spec.end_correction)
+        open_ends = 1 if closed else 2
+        cut, a_uncal, a_cal, risk = allowances(
+            spec, stock, f_at, length, t.frequency,
+            uncertainty.air_ratios(length, radius, factor, open_ends, temperature,
+                                   calibrated=air_stock.calibration(spec) is not None),
+            uncertainty.air_ratios(length, radius, factor, open_ends, temperature, calibrated=True))
+        warnings += risk_warning(risk)
+        stopper = ()
+        if spec.temperature_range is not None:
+            stopper = stopper_settings(spec, t.frequency, radius)
+            deepest = max(depth for _, depth in stopper)
+            cut = max(cut, deepest + STOPPER_MARGIN)
+            if spec.kind == "resonator" and cut > spec.max_length:
+                warnings.append(f"with the stopper travel the tube is {format_length(cut, design.units)}, longer than the limit "
+                                f"{format_length(spec.max_length, design.units)}")
+        pieces.append(
+            Piece(
+                set=spec.name, kind=spec.kind, label=label, note=t.name, target_hz=t.frequency,
+                predicted_hz=f1, length=length, cut_length=cut,
+                nodes=(), mass=mass, partials_hz=tuple(partials),
+                partial_notes=partial_notes(partials, design.a4),
+                cents_per_mm=cents_per_mm(f_at, length),
+                model=spec.ends, shear_correction_cents=0.0, warnings=tuple(warnings),
+                fundamental_hz=f1, bore=2 * radius, allowance_uncalibrated=a_uncal,
+                allowance_calibrated=a_cal, sharp_risk=risk, stopper=stopper,
+            )
+        )
+    return pieces, errors

@@ -1,0 +1,129 @@
+"""The Plan and its parts: frozen records in SI units that every renderer formats and none
+recomputes (one plan, one truth)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from cutplan.units import INCH_DENOMINATOR
+
+PARTIAL_COUNT = 4
+"""Partials reported per piece [-]."""
+
+
+@dataclass(frozen=True)
+class Piece:
+    """One piece to cut. Lengths in m, frequencies in Hz, mass in kg (SI; renderers convert)."""
+
+    set: str
+    kind: str
+    label: str
+    note: str
+    target_hz: float
+    predicted_hz: float
+    length: float
+    cut_length: float
+    nodes: tuple
+    mass: float | None
+    partials_hz: tuple
+    partial_notes: tuple
+    cents_per_mm: float
+    model: str
+    shear_correction_cents: float
+    warnings: tuple = ()
+    fundamental_hz: float = 0.0
+    bore: float = 0.0
+    allowance_uncalibrated: float = 0.0
+    allowance_calibrated: float = 0.0
+    sharp_risk: float = 0.0
+    arch: object = None
+    stopper: tuple = ()
+    strike_note_hz: float | None = None
+    trim_end: str = ""
+    if_sharp: str = ""
+    other_modes: tuple = ()  # ((kind "sideways" | "twisting", mode, hz), ...): see other_modes.py
+
+    @property
+    def allowance(self):
+        """The allowance this piece is cut with [m]: cut length minus finished length, the one
+        number the cut list, tuning sheet, templates and JSON state (for a stoppered resonator,
+        the tube beyond the column at the design temperature)."""
+        return self.cut_length - self.length
+
+
+@dataclass(frozen=True)
+class Arch:
+    """The undercut of a bar: blank thickness, centre depth [m], arch width (fraction of the
+    length), shape exponent, remaining thickness at stations ((x, h) [m], end to centre) and the
+    residual of each tuned ratio [cents]."""
+
+    thickness: float
+    depth: float
+    arch_width: float
+    exponent: float
+    stations: tuple
+    ratios: tuple
+    ratio_residuals_cents: tuple
+    outline: tuple = ()  # (x, h) [m] along the whole bar, for drawing the side profile
+
+
+@dataclass(frozen=True)
+class SetPlan:
+    """The pieces of one set with the facts they depend on; ``section`` is the Section itself."""
+
+    name: str
+    kind: str
+    material: str
+    section: object
+    model: str
+    pieces: tuple
+    assumptions: tuple = ()
+    allowance_rule: str = ""
+
+    @property
+    def section_text(self):
+        """The section as shown to the builder, e.g. "al-1.000x0.065 tube 25.40 x 1.65 mm wall"."""
+        return self.section_label("mm")
+
+    def section_label(self, units="mm"):
+        """The section's stock name and size, the chosen unit first."""
+        sec = self.section
+        return (sec.name + " " if sec.name else "") + sec.describe(units)
+
+    @property
+    def shape(self):
+        """"tube", "rod" or "bar"."""
+        return self.section.shape
+
+    @property
+    def outer(self):
+        """Outside diameter of a tube or rod [m]."""
+        return self.section.outer
+
+    @property
+    def width(self):
+        """Width of a bar [m]."""
+        return self.section.width
+
+
+@dataclass(frozen=True)
+class Plan:
+    """Everything a renderer needs; plain data, SI units."""
+
+    title: str
+    units: str
+    paper: str
+    a4: float
+    temperament: str
+    sets: tuple
+    design_path: str = ""
+    cut_list: object = None
+    warnings: tuple = field(default=())
+    inch_denominator: int = INCH_DENOMINATOR
+    shopping: tuple = ()  # cutplan.shopping.Item, ...
+    cautions: tuple = ()  # cutplan.shopping.Caution, ...
+
+    @property
+    def pieces(self):
+        """All pieces, set by set."""
+        return tuple(p for s in self.sets for p in s.pieces)
