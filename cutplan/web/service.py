@@ -1,0 +1,143 @@
+"""What the page and the JSON API do with a design, without any web framework.
+
+Every design goes through :func:`cutplan.design_from_mapping`, the same validation as a design
+file; the errors come back as ``{"key", "message"}`` records. Material folders come only from
+the server's own options, never from a request.
+"""
+
+from __future__ import annotations
+
+import io
+import json
+import threading
+import zipfile
+from collections import OrderedDict
+
+DESIGN_NAME = "design"
+"""Name that stands for the design in error lines (there is no file)."""
+MAX_DESIGN_BYTES = 1_000_000
+"""Largest design accepted [bytes], as for a design file (a design is a few kB)."""
+CACHE_SIZE = 16
+"""Plans kept for repeated requests of the same design (play, trim, download after a preview)."""
+ZIP_TIME = (1980, 1, 1, 0, 0, 0)
+"""Timestamp of every zip entry, so the same design gives the same zip bytes."""
+
+
+class WebErrors(ValueError):
+    """Problems with a request, each ``{"key": ..., "message": ...}`` (a design key or a form field)."""
+
+    def __init__(self, errors):
+        self.errors = list(errors)
+        super().__init__("; ".join(e["message"] for e in self.errors))
+
+
+def error(key, message):
+    """One error record; the message starts with the key, as a design-file error line does."""
+    return {"key": key, "message": f"{key}: {message}"}
+
+
+def design_errors(exc):
+    """``DesignErrors`` -> error records (the one-line messages without the design's name)."""
+    prefix = f"{DESIGN_NAME}: "
+    return [{"key": e.key, "message": str(e)[len(prefix):] if str(e).startswith(prefix) else str(e)}
+            for e in exc.errors]
+
+
+def _cache_key(data):
+    return json.dumps(data, sort_keys=True, ensure_ascii=False, default=str)
+
+
+class Planner:
+    """Validates and plans designs given as mappings; keeps the last few plans.
+
+    ``materials_dirs`` are the server's extra material folders (``cutplan serve --materials``).
+    """
+
+    def __init__(self, materials_dirs=(), cache_size=CACHE_SIZE):
+        self.materials_dirs = tuple(materials_dirs)
+        self.cache_size = cache_size
+        self._cache = OrderedDict()
+        self._lock = threading.Lock()
+
+    def design(self, data):
+        """A validated Design, or :class:`WebErrors`."""
+        import cutplan
+        from cutplan.design import DesignErrors
+        from cutplan.materials import MaterialError
+
+        if not isinstance(data, dict):
+            raise WebErrors([error("(design)", "must be a table (JSON object) of design keys")])
+        if "material_dirs" in data:
+            raise WebErrors([error("material_dirs", "is not accepted from the page or the API; material "
+                                   "folders are given to the server (cutplan serve --materials DIR)")])
+        try:
+            return cutplan.design_from_mapping(data, self.materials_dirs, name=DESIGN_NAME)
+        except DesignErrors as exc:
+            raise WebErrors(design_errors(exc)) from None
+        except MaterialError as exc:  # a broken server-side folder, not the request's fault
+            raise WebErrors([error("(materials)", str(exc))]) from None
+
+    def plan(self, data):
+        """(Design, Plan) for a design mapping, or :class:`WebErrors`. Repeated designs are cached."""
+        import cutplan
+        from cutplan.design import DesignErrors
+
+        key = _cache_key(data)
+        with self._lock:
+            if key in self._cache:
+                self._cache.move_to_end(key)
+                return self._cache[key]
+        design = self.design(data)
+        try:
+            result = (design, cutplan.plan(design))
+        except DesignErrors as exc:
+            raise WebErrors(design_errors(exc)) from None
+        with self._lock:
+            self._cache[key] = result
+            while len(self._cache) > self.cache_size:
+                self._cache.popitem(last=False)
+        return result
+
+
+def design_toml(data):
+    """The design as TOML text with the design file's keys (``tomllib`` reads it back equal)."""
+    import tomli_w
+
+    return "# cutplan design, saved from the cutplan page\n" + tomli_w.dumps(data)
+
+
+def packet_zip(plan, data):
+    """A zip of every file ``cutplan plan -o`` writes for this plan, plus ``design.toml``."""
+    from cutplan.render.packet import plan_files
+
+    files = dict(plan_files(plan))
+    files["design.toml"] = design_toml(data)
+    buf = io.BytesIO()
+    with zipfile.ZipFile(buf, "w", zipfile.ZIP_DEFLATED) as zf:
+        for name, payload in files.items():
+            info = zipfile.ZipInfo(name, ZIP_TIME)
+            info.compress_type = zipfile.ZIP_DEFLATED
+            info.external_attr = 0o644 << 16
+            zf.writestr(info, payload.encode("utf-8") if isinstance(payload, str) else payload)
+    return buf.getvalue()
+
+
+def packet_pdf(plan):
+    """The shop packet PDF alone (the same bytes as ``packet.pdf`` in the zip)."""
+    from cutplan.render.pdf import render_pdf
+
+    return render_pdf(plan, None)
+
+
+def piece_wav(plan, label):
+    """WAV bytes of one piece ringing, or of a whole set struck in turn (``label`` = the set's name)."""
+    from cutplan.audio.synth import RATE, arpeggio, piece_preview
+    from cutplan.audio.wav import wav_bytes
+
+    for s in plan.sets:
+        if s.name == label:
+            return wav_bytes(arpeggio(s.pieces), RATE)
+        for p in s.pieces:
+            if p.label == label:
+                return wav_bytes(piece_preview(p), RATE)
+    raise WebErrors([error("listen", f"{label!r} is not a piece or set of this design")])
