@@ -23,6 +23,12 @@
         el.hidden = !on;
         el.querySelectorAll("input, select").forEach(function (i) { i.disabled = !on; });
       });
+      var shape = fs.querySelector("select[name$='.section.shape']");
+      var stock = fs.querySelector("input[name$='.section.stock']");
+      fs.querySelectorAll("[data-shapes]").forEach(function (el) {
+        var s = shape ? shape.value : "";
+        el.hidden = s ? el.getAttribute("data-shapes") !== s : !!(stock && stock.value.trim());
+      });
     });
   }
 
@@ -91,12 +97,12 @@
   form.addEventListener("input", function (ev) {
     var n = ev.target.name || "";
     if (ev.target.type === "file" || n.indexOf("trim.") === 0) { return; }
-    if (/\.kind$/.test(n)) { showKinds(); }
+    if (/\.(kind|section\.stock|section\.shape)$/.test(n)) { showKinds(); }
     later();
   });
   form.addEventListener("change", function (ev) {
     if (ev.target.tagName === "SELECT" && (ev.target.name || "").indexOf("trim.") !== 0) {
-      if (/\.kind$/.test(ev.target.name)) { showKinds(); }
+      if (/\.(kind|section\.shape)$/.test(ev.target.name)) { showKinds(); }
       later();
     }
   });

@@ -1,0 +1,61 @@
+"""Run the page under waitress, a production WSGI server in pure Python (no compiler needed on
+a classroom laptop, Windows included). Loopback by default; any other host is the caller's
+explicit choice and gets a warning."""
+
+from __future__ import annotations
+
+import ipaddress
+import threading
+import webbrowser
+
+from cutplan.web.app import MAX_UPLOAD_BYTES, create_app
+
+DEFAULT_HOST = "127.0.0.1"
+DEFAULT_PORT = 8750
+THREADS = 4
+"""Worker threads [-]: enough for a classroom on one laptop; planning is CPU-bound anyway."""
+
+
+def is_loopback(host):
+    """True for 127.x.x.x, ::1 and "localhost"."""
+    if host == "localhost":
+        return True
+    try:
+        return ipaddress.ip_address(host.strip("[]")).is_loopback
+    except ValueError:
+        return False
+
+
+def exposure_warning(host):
+    """The warning printed when the page is served beyond this machine, or None on loopback."""
+    if is_loopback(host):
+        return None
+    return (f"warning: serving on {host}: anyone who can reach this machine on that network can use the page "
+            "(and its CPU). There is no login. Use the default 127.0.0.1 unless the class needs it.")
+
+
+def page_url(host, port):
+    """The address to open in a browser."""
+    shown = "127.0.0.1" if host in ("0.0.0.0", "::", "") else host
+    if ":" in shown and not shown.startswith("["):
+        shown = f"[{shown}]"
+    return f"http://{shown}:{port}/"
+
+
+def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_dirs=(), echo=print):
+    """Serve the page until interrupted (blocks)."""
+    from waitress import create_server
+
+    app = create_app(materials_dirs, loopback_only=is_loopback(host))
+    server = create_server(app, host=host, port=port, threads=THREADS,
+                           max_request_body_size=MAX_UPLOAD_BYTES, ident="cutplan", clear_untrusted_proxy_headers=True)
+    url = page_url(host, server.effective_port)
+    echo(f"cutplan page at {url} (Ctrl+C to stop)")
+    if open_browser:
+        threading.Timer(0.5, webbrowser.open, args=(url,)).start()
+    try:
+        server.run()
+    except KeyboardInterrupt:
+        pass
+    finally:
+        server.close()
