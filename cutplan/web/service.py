@@ -99,11 +99,35 @@ class Planner:
         return result
 
 
+_ORDER = {
+    "": ("title", "units", "paper", "tuning", "set", "stock"),
+    "tuning": ("a4", "temperament"),
+    "set": ("name", "kind", "notes", "scale", "root", "count", "range", "frequencies", "cents", "ratios", "material",
+            "section", "model", "target", "ends", "end_correction", "temperature", "humidity", "serves",
+            "max_length", "temperature_range", "undercut", "stock"),
+    "section": ("stock", "shape", "outer", "wall", "inner", "diameter", "width", "thickness"),
+    "stock": ("lengths", "kerf", "end_trim", "allowance"),
+    "lengths": ("length", "count", "price"),
+}
+
+
+def _ordered(value, where=""):
+    """The mapping with keys in the design contract's order (unknown keys after, as given)."""
+    if isinstance(value, list):
+        return [_ordered(v, where) for v in value]
+    if not isinstance(value, dict):
+        return value
+    order = _ORDER.get(where, ())
+    keys = [k for k in order if k in value] + [k for k in value if k not in order]
+    return {k: _ordered(value[k], k if k in _ORDER else "") for k in keys}
+
+
 def design_toml(data):
-    """The design as TOML text with the design file's keys (``tomllib`` reads it back equal)."""
+    """The design as TOML text with the design file's keys, in the contract's order, so the same
+    design gives the same bytes however its keys arrived (``tomllib`` reads it back equal)."""
     import tomli_w
 
-    return "# cutplan design, saved from the cutplan page\n" + tomli_w.dumps(data)
+    return "# cutplan design, saved from the cutplan page\n" + tomli_w.dumps(_ordered(data))
 
 
 def packet_zip(plan, data):
