@@ -1,0 +1,166 @@
+"""The page in a real headless Chromium (Selenium + chromedriver): fill a design, watch the live
+preview, download the packet, see an error beside its field.
+
+The reference for the lengths is ``cutplan plan examples/porch-chimes.toml`` (its table and JSON)
+through click's CliRunner.
+"""
+
+import json
+import re
+import tempfile
+import threading
+import time
+import zipfile
+from pathlib import Path
+
+import pytest
+from click.testing import CliRunner
+
+from cutplan.cli import cli
+from tests.web.browser import HEADLESS_FLAGS, SKIPPED, find_browser, must_have_browser, no_browser_message
+from tests.web.conftest import PORCH
+
+WAIT = 120
+"""Longest wait for the page [s]: planning takes about a second, more on a busy machine."""
+
+
+@pytest.fixture(scope="module")
+def server():
+    from waitress import create_server
+
+    from cutplan.web.app import create_app
+
+    srv = create_server(create_app(), host="127.0.0.1", port=0, threads=4)
+    thread = threading.Thread(target=srv.run, daemon=True)
+    thread.start()
+    yield f"http://127.0.0.1:{srv.effective_port}"
+    srv.close()
+    thread.join(timeout=5)
+
+
+@pytest.fixture(scope="module")
+def browser():
+    chromium, driver = find_browser()
+    if chromium is None:
+        message = no_browser_message(driver)
+        if must_have_browser():
+            pytest.fail(message + " (CI: .ci/run should have installed it)")
+        SKIPPED.append(message)
+        pytest.skip(message)
+    from selenium import webdriver
+    from selenium.webdriver.chrome.service import Service
+
+    options = webdriver.ChromeOptions()
+    for flag in HEADLESS_FLAGS:
+        options.add_argument(flag)
+    profile = tempfile.TemporaryDirectory(prefix="cutplan-chromium-")
+    options.add_argument(f"--user-data-dir={profile.name}")
+    options.binary_location = chromium
+    d = webdriver.Chrome(service=Service(driver), options=options)
+    yield d
+    d.quit()
+    profile.cleanup()
+
+
+def _wait(d, check, timeout=WAIT):
+    from selenium.webdriver.support.ui import WebDriverWait
+
+    return WebDriverWait(d, timeout, poll_frequency=0.2).until(lambda drv: check(drv))
+
+
+def _set(d, name, value):
+    from selenium.webdriver.common.by import By
+    from selenium.webdriver.support.ui import Select
+
+    el = d.find_element(By.ID, name)
+    if el.tag_name == "select":
+        Select(el).select_by_value(value)
+    else:
+        el.clear()
+        el.send_keys(value)
+
+
+def _rows(d):
+    """[(label, note, cut length text)] of the preview's table, read in the browser."""
+    return d.execute_script(
+        "return Array.from(document.querySelectorAll('#preview tr[data-label]')).map(function (tr) {"
+        " return [tr.dataset.label, tr.querySelector('.note').textContent, tr.querySelector('.cut').textContent]; });")
+
+
+def _settled(d):
+    return d.execute_script("return !document.getElementById('design').classList.contains('busy');")
+
+
+def _cli_table():
+    result = CliRunner().invoke(cli, ["plan", str(PORCH)])
+    assert result.exit_code == 0
+    rows = {}
+    for line in result.output.splitlines():
+        m = re.match(r"(porch-\d)\s+(\S+)\s+[\d.]+\s+(.+? in \([\d.]+\))\s+(.+? in) \(([\d.]+)\)", line)
+        if m:
+            rows[m.group(1)] = (m.group(2), m.group(4).strip(), float(m.group(5)))
+    return rows
+
+
+def test_fill_the_porch_design_and_see_the_command_lines_table(browser, server):
+    d = browser
+    d.get(server + "/")
+    for name, value in [("title", "Porch chimes in D pentatonic"), ("units", "in"), ("set[1].name", "porch"),
+                        ("set[1].kind", "chime"), ("set[1].scale", ""), ("set[1].root", ""), ("set[1].count", ""),
+                        ("set[1].notes", "D5 E5 F#5 A5 B5"), ("set[1].material", "aluminum-6063-t5"),
+                        ("set[1].section.stock", "al-1.000x0.065"), ("stock.lengths", "8 ft x 2"),
+                        ("stock.kerf", "1/16 in"), ("stock.end_trim", "1/8 in"), ("stock.allowance", "risk 5 %")]:
+        _set(d, name, value)
+    expected = _cli_table()
+    assert len(expected) == 5
+    _wait(d, lambda drv: _settled(drv) and [r[0] for r in _rows(drv)] == sorted(expected))
+    for label, note, cut in _rows(d):
+        cli_note, cli_inches, cli_mm = expected[label]
+        assert note == cli_note
+        assert cut == f"{cli_inches} ({cli_mm:.1f} mm)"  # same inches and mm as the terminal table
+    cli_json = json.loads(CliRunner().invoke(cli, ["plan", str(PORCH), "--format", "json"]).stdout)
+    web_mm = [float(re.search(r"\(([\d.]+) mm\)", cut).group(1)) for _, _, cut in _rows(d)]
+    assert web_mm == [round(p["cut_length_mm"], 1) for p in cli_json["pieces"]]
+
+
+def test_changing_the_root_updates_the_preview(browser, server):
+    d = browser
+    d.get(server + "/")  # the starter design: a major-pentatonic scale from G5
+    first = _rows(d)[0]
+    assert first[1] == "G5"
+    _set(d, "set[1].root", "A5")
+    _wait(d, lambda drv: _settled(drv) and _rows(drv) and _rows(drv)[0][1] == "A5")
+    assert _rows(d)[0][2] != first[2]  # a higher root, a shorter first tube
+
+
+def test_download_the_packet_zip(browser, server, tmp_path):
+    from selenium.webdriver.common.by import By
+
+    d = browser
+    d.execute_cdp_cmd("Page.setDownloadBehavior", {"behavior": "allow", "downloadPath": str(tmp_path)})
+    d.get(server + "/?example=porch-chimes")
+    d.find_element(By.ID, "download-packet").click()
+    target = tmp_path / "packet.zip"
+    _wait(d, lambda drv: target.is_file() and not list(tmp_path.glob("*.crdownload")))
+    time.sleep(0.2)
+    with zipfile.ZipFile(target) as zf:
+        names = set(zf.namelist())
+    assert {"packet.pdf", "plan.csv", "plan.json", "cutlist.csv", "design.toml"} <= names
+    assert any(re.fullmatch(r"templates/.+\.svg", n) for n in names)
+
+
+def test_an_error_appears_beside_its_field(browser, server):
+    from selenium.webdriver.common.by import By
+
+    d = browser
+    d.get(server + "/?example=porch-chimes")
+    _set(d, "stock.kerf", "1/16")  # no unit: the design rules ask for one
+    box = '.msgs[data-slot="stock.kerf"] .msg.error'
+    _wait(d, lambda drv: drv.find_elements(By.CSS_SELECTOR, box))
+    text = d.find_element(By.CSS_SELECTOR, box).text
+    assert text.startswith('stock.kerf: "1/16"')
+    assert d.find_element(By.ID, "stock.kerf").get_attribute("aria-invalid") == "true"
+    # the message sits right under the field, not in a list at the top
+    field_box = d.find_element(By.ID, "stock.kerf").find_element(By.XPATH, "..")
+    assert field_box.find_elements(By.CSS_SELECTOR, ".msg.error")
+    assert "stale" in d.find_element(By.ID, "preview").get_attribute("class")
