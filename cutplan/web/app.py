@@ -73,6 +73,7 @@ def create_app(materials_dirs=(), loopback_only=True):
     library = load_library(list(materials_dirs))
     examples = _examples()
     app.extensions["cutplan"] = planner
+    app.jinja_env.filters["both"] = _both_units
     choices = {
         "materials": sorted((n, m.description) for n, m in library.materials.items()),
         "stock_sizes": sorted((n, s.description) for n, s in library.stock.items()),
@@ -279,6 +280,16 @@ def _attachment(payload, mimetype, name, inline=False):
     resp = Response(payload, mimetype=mimetype)
     resp.headers["Content-Disposition"] = f'{"inline" if inline else "attachment"}; filename="{name}"'
     return resp
+
+
+def _both_units(text):
+    """ "20-1/32 in (508.6 mm)" with each unit's part kept on one line (the text stays the same)."""
+    from markupsafe import Markup
+
+    first, sep, second = str(text).partition(" (")
+    if not sep:
+        return Markup('<span class="nw">{}</span>').format(first)
+    return Markup('<span class="nw">{}</span> <span class="nw">({}</span>').format(first, second)
 
 
 def _slots(fields):

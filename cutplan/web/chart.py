@@ -62,12 +62,17 @@ def length_pitch_svg(plan, units="mm"):
         out.append(f'<line x1="{LEFT}" x2="{LEFT + w}" y1="{py(v):.1f}" y2="{py(v):.1f}" class="grid"/>'
                    f'<text x="{LEFT - 6}" y="{py(v) + 4:.1f}" text-anchor="end">{v:g}</text>')
         v += step
-    octave = 2 ** math.floor(math.log2(f_lo))
-    for f in (octave * 2 ** k * m for k in range(12) for m in (1, 1.5)):
-        if f_lo <= f <= f_hi:
-            out.append(f'<line x1="{px(f):.1f}" x2="{px(f):.1f}" y1="{TOP}" y2="{TOP + h}" class="grid"/>'
-                       f'<text x="{px(f):.1f}" y="{TOP + h + 16}" text-anchor="middle">{f:g}</text>')
-    out.append(f'<text x="{LEFT + w / 2}" y="{HEIGHT - 6}" text-anchor="middle">target pitch [Hz], log scale</text>')
+    ticks = {}
+    for p in pieces:  # one tick per distinct pitch, labelled with its note; thinned when crowded
+        ticks.setdefault(round(p.target_hz, 2), p.note)
+    last_x = -1e9
+    for f, note in sorted(ticks.items()):
+        x = px(f)
+        out.append(f'<line x1="{x:.1f}" x2="{x:.1f}" y1="{TOP}" y2="{TOP + h}" class="grid"/>')
+        if x - last_x >= 22:
+            out.append(f'<text x="{x:.1f}" y="{TOP + h + 16}" text-anchor="middle">{escape(note)}</text>')
+            last_x = x
+    out.append(f'<text x="{LEFT + w / 2}" y="{HEIGHT - 6}" text-anchor="middle">target pitch (log scale), by note</text>')
     out.append(f'<text x="14" y="{TOP + h / 2}" text-anchor="middle" transform="rotate(-90 14 {TOP + h / 2})">'
                f'finished length [{unit}]</text>')
     for k, s in enumerate(plan.sets):
