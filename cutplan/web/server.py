@@ -5,6 +5,7 @@ explicit choice and gets a warning."""
 from __future__ import annotations
 
 import ipaddress
+import socket
 import threading
 import webbrowser
 
@@ -42,14 +43,33 @@ def page_url(host, port):
     return f"http://{shown}:{port}/"
 
 
+def _listening_socket(host, port):
+    """A bound TCP socket (closed again if binding fails, so nothing leaks on a busy port)."""
+    bare = host.strip("[]")
+    family = socket.AF_INET6 if ":" in bare else socket.AF_INET
+    sock = socket.socket(family, socket.SOCK_STREAM)
+    try:
+        sock.setsockopt(socket.SOL_SOCKET, socket.SO_REUSEADDR, 1)
+        sock.bind((bare, port))
+    except OSError:
+        sock.close()
+        raise
+    return sock
+
+
 def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_dirs=(), echo=print):
     """Serve the page until interrupted (blocks)."""
     from waitress import create_server
 
     app = create_app(materials_dirs, loopback_only=is_loopback(host))
-    server = create_server(app, host=host, port=port, threads=THREADS,
-                           max_request_body_size=MAX_UPLOAD_BYTES, ident="cutplan", clear_untrusted_proxy_headers=True)
-    url = page_url(host, server.effective_port)
+    sock = _listening_socket(host, port)
+    try:
+        server = create_server(app, sockets=[sock], threads=THREADS, max_request_body_size=MAX_UPLOAD_BYTES,
+                               ident="cutplan", clear_untrusted_proxy_headers=True)
+    except BaseException:
+        sock.close()
+        raise
+    url = page_url(host, sock.getsockname()[1])
     echo(f"cutplan page at {url} (Ctrl+C to stop)")
     if open_browser:
         threading.Timer(0.5, webbrowser.open, args=(url,)).start()

@@ -11,7 +11,6 @@ import tempfile
 import threading
 import time
 import zipfile
-from pathlib import Path
 
 import pytest
 from click.testing import CliRunner
