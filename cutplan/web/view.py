@@ -90,17 +90,16 @@ def _warning_slot(text, index, own_stock):
 
 
 def place_warnings(plan, design):
-    """{slot: [warning, ...]}: each piece's warnings beside the field they concern, once per text."""
+    """{slot: [warning, ...]}: piece warnings beside the field they concern; pieces with the same
+    warning share one line ("porch-1, porch-2: ...")."""
     index = {s.name: (s.index, s.stock is not None) for s in design.sets}
-    out = {}
+    grouped = {}
     for s in plan.sets:
         i, own = index.get(s.name, (1, False))
         for p in s.pieces:
             for w in p.warnings:
-                slot = out.setdefault(_warning_slot(w, i, own), [])
-                line = f"{p.label}: {w}"
-                if line not in slot:
-                    slot.append(line)
+                grouped.setdefault(_warning_slot(w, i, own), {}).setdefault(w, []).append(p.label)
+    out = {slot: [f"{', '.join(labels)}: {w}" for w, labels in texts.items()] for slot, texts in grouped.items()}
     for w in plan.warnings:
         out.setdefault("form", []).append(w)
     return out

@@ -56,6 +56,20 @@ def test_plain_post_puts_the_error_beside_its_field(client):
     assert 'id="stock.kerf" name="stock.kerf" value="1/16"' in html  # what was typed stays in the field
 
 
+def test_a_warning_sits_beside_the_field_it_concerns(client):
+    # a fixed allowance of 0.1 % is far below the material spread the planner assumes, so the
+    # planner warns about a sharp piece: the warning belongs beside the allowance field
+    fields = {**_porch_fields(), "stock.allowance": "0.1 %"}
+    res = client.post("/preview", data=fields).get_json()
+    assert res["ok"] and list(res["warnings"]) == ["stock.allowance"]
+    lines = res["warnings"]["stock.allowance"]
+    assert all("too short" in line for line in lines)
+    assert len(lines) < 5  # pieces with the same warning share a line
+    assert all(f"porch-{i}" in " ".join(lines) for i in range(1, 6))
+    html = client.post("/", data=fields).get_data(as_text=True)
+    assert "too short" in _slot(html, "stock.allowance") and "too short" not in _slot(html, "set[1].notes")
+
+
 def test_add_and_remove_a_set_without_javascript(client):
     fields = _porch_fields()
     html = client.post("/", data={**fields, "action": "add-set"}).get_data(as_text=True)
