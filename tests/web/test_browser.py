@@ -6,6 +6,7 @@ through click's CliRunner.
 """
 
 import json
+import math
 import re
 import tempfile
 import threading
@@ -163,3 +164,64 @@ def test_an_error_appears_beside_its_field(browser, server):
     field_box = d.find_element(By.ID, "stock.kerf").find_element(By.XPATH, "..")
     assert field_box.find_elements(By.CSS_SELECTOR, ".msg.error")
     assert "stale" in d.find_element(By.ID, "preview").get_attribute("class")
+
+
+@pytest.fixture(scope="module")
+def porch_strike(tmp_path_factory):
+    """A WAV of porch-1 ringing 1 % flat (about 17 cents), synthesized from its planned partials."""
+    import dataclasses
+
+    import cutplan
+    from cutplan.audio.synth import RATE, piece_preview
+    from cutplan.audio.wav import wav_bytes
+
+    piece = cutplan.plan(cutplan.load_design(PORCH)).pieces[0]
+    flat = dataclasses.replace(piece, partials_hz=tuple(f * 0.99 for f in piece.partials_hz))
+    path = tmp_path_factory.mktemp("strike") / "porch-1.wav"
+    path.write_bytes(wav_bytes(piece_preview(flat, seconds=4.0), RATE))
+    return path, piece.partials_hz[0] * 0.99
+
+
+@pytest.fixture(scope="module")
+def browser_with_microphone(porch_strike):
+    """A second Chromium whose microphone plays the synthesized strike (Chromium's fake capture device)."""
+    chromium, driver = find_browser()
+    if chromium is None:
+        message = no_browser_message(driver)
+        if must_have_browser():
+            pytest.fail(message + " (CI: .ci/run should have installed it)")
+        SKIPPED.append(message)
+        pytest.skip(message)
+    from selenium import webdriver
+    from selenium.webdriver.chrome.service import Service
+
+    options = webdriver.ChromeOptions()
+    for flag in (*HEADLESS_FLAGS, "--use-fake-device-for-media-stream", "--use-fake-ui-for-media-stream",
+                 f"--use-file-for-fake-audio-capture={porch_strike[0]}", "--autoplay-policy=no-user-gesture-required"):
+        options.add_argument(flag)
+    profile = tempfile.TemporaryDirectory(prefix="cutplan-chromium-")
+    options.add_argument(f"--user-data-dir={profile.name}")
+    options.binary_location = chromium
+    d = webdriver.Chrome(service=Service(driver), options=options)
+    yield d
+    d.quit()
+    profile.cleanup()
+
+
+def test_trim_from_the_microphone(browser_with_microphone, server, porch_strike):
+    from selenium.webdriver.common.by import By
+
+    d = browser_with_microphone
+    d.get(server + "/?example=porch-chimes")
+    _set(d, "trim.piece", "porch-1")
+    button = d.find_element(By.ID, "record-button")
+    assert button.is_displayed()
+    button.click()
+    _wait(d, lambda drv: drv.find_elements(By.CSS_SELECTOR, "#trim-answer .trim-head")
+          or "no microphone" in drv.find_element(By.ID, "record-state").text)
+    head = d.find_element(By.CSS_SELECTOR, "#trim-answer .trim-head").text
+    measured = float(re.search(r": ([\d.]+) Hz", head).group(1))
+    # the synthesized strike is 1 % flat of porch-1's planned fundamental; allow 5 cents for
+    # the browser's resampling and the 16-bit WAV made in the page
+    assert abs(1200 * math.log2(measured / porch_strike[1])) < 5
+    assert "flat by" in d.find_element(By.ID, "trim-answer").text

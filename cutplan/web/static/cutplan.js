@@ -126,27 +126,83 @@
         .then(function () { b.disabled = false; });
     } else if (b.id === "trim-button") {
       ev.preventDefault();
-      var td = new FormData(form);
-      td.delete("design_file");
-      var answer = document.getElementById("trim-answer");
-      fetch("/api/trim", {method: "POST", body: td, headers: {"Accept": "application/json"}})
-        .then(function (r) { return r.json(); })
-        .then(function (res) {
-          answer.textContent = "";
-          if (!res.ok) { fillMessages(res.errors, {}); return; }
-          fillMessages({}, {});
-          var t = res.trim, head = document.createElement("p"), ul = document.createElement("ul");
-          head.className = "trim-head";
-          head.textContent = t.label + ": " + t.measured_hz + " Hz (" + t.note + " " +
-            (t.cents >= 0 ? "+" : "") + t.cents.toFixed(1) + " cents)";
-          t.lines.forEach(function (line) { var li = document.createElement("li"); li.textContent = line; ul.appendChild(li); });
-          var box = document.createElement("div");
-          box.className = "trim-answer";
-          box.appendChild(head); box.appendChild(ul);
-          answer.appendChild(box);
-        });
+      sendTrim(null);
     }
   });
+
+  /* Trim from the microphone: record a few seconds of raw samples, make a 16-bit WAV, and send
+     it as the recording. Only where the browser allows capture (this machine, or https). */
+  var RECORD_SECONDS = 3;
+
+  function wavBlob(chunks, rate) {
+    var n = chunks.reduce(function (a, c) { return a + c.length; }, 0);
+    var buf = new ArrayBuffer(44 + 2 * n), v = new DataView(buf), o = 0;
+    function str(s) { for (var i = 0; i < s.length; i++) { v.setUint8(o++, s.charCodeAt(i)); } }
+    function u32(x) { v.setUint32(o, x, true); o += 4; }
+    function u16(x) { v.setUint16(o, x, true); o += 2; }
+    str("RIFF"); u32(36 + 2 * n); str("WAVE"); str("fmt "); u32(16); u16(1); u16(1);
+    u32(rate); u32(2 * rate); u16(2); u16(16); str("data"); u32(2 * n);
+    chunks.forEach(function (c) {
+      for (var i = 0; i < c.length; i++) {
+        var x = Math.max(-1, Math.min(1, c[i]));
+        v.setInt16(o, x < 0 ? x * 32768 : x * 32767, true); o += 2;
+      }
+    });
+    return new Blob([buf], {type: "audio/wav"});
+  }
+
+  function sendTrim(recording) {
+    var td = new FormData(form);
+    td.delete("design_file");
+    if (recording) { td.set("trim.recording", recording, "microphone.wav"); td.set("trim.measured", ""); }
+    var answer = document.getElementById("trim-answer");
+    return fetch("/api/trim", {method: "POST", body: td, headers: {"Accept": "application/json"}})
+      .then(function (r) { return r.json(); })
+      .then(function (res) {
+        answer.textContent = "";
+        if (!res.ok) { fillMessages(res.errors, {}); return; }
+        fillMessages({}, {});
+        var t = res.trim, head = document.createElement("p"), ul = document.createElement("ul");
+        head.className = "trim-head";
+        head.textContent = t.label + ": " + t.measured_hz + " Hz (" + t.note + " " +
+          (t.cents >= 0 ? "+" : "") + t.cents.toFixed(1) + " cents)";
+        t.lines.forEach(function (line) { var li = document.createElement("li"); li.textContent = line; ul.appendChild(li); });
+        var box = document.createElement("div");
+        box.className = "trim-answer";
+        box.appendChild(head); box.appendChild(ul);
+        answer.appendChild(box);
+      });
+  }
+
+  function record(button) {
+    var state = document.getElementById("record-state");
+    button.disabled = true;
+    state.textContent = "listening...";
+    navigator.mediaDevices.getUserMedia({audio: {echoCancellation: false, noiseSuppression: false, autoGainControl: false}})
+      .then(function (stream) {
+        var Ctx = window.AudioContext || window.webkitAudioContext, ctx = new Ctx(), chunks = [];
+        var src = ctx.createMediaStreamSource(stream), proc = ctx.createScriptProcessor(4096, 1, 1);
+        proc.onaudioprocess = function (e) { chunks.push(new Float32Array(e.inputBuffer.getChannelData(0))); };
+        src.connect(proc); proc.connect(ctx.destination);
+        return new Promise(function (done) { setTimeout(done, RECORD_SECONDS * 1000); }).then(function () {
+          src.disconnect(); proc.disconnect();
+          stream.getTracks().forEach(function (t) { t.stop(); });
+          var rate = ctx.sampleRate;
+          ctx.close();
+          state.textContent = "measuring...";
+          return sendTrim(wavBlob(chunks, rate));
+        });
+      })
+      .then(function () { state.textContent = ""; })
+      .catch(function (err) { state.textContent = "no microphone: " + (err && err.name ? err.name : err); })
+      .then(function () { button.disabled = false; });
+  }
+
+  var mic = form.querySelector(".mic");
+  if (mic && navigator.mediaDevices && navigator.mediaDevices.getUserMedia && window.isSecureContext) {
+    mic.hidden = false;
+    document.getElementById("record-button").addEventListener("click", function (ev) { record(ev.target); });
+  }
 
   showKinds();
 }());
