@@ -22,7 +22,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.optimize import brentq
 
-from cutplan import advice
+from cutplan.units import format_length
 
 
 class CalibrationError(ValueError):
@@ -197,18 +197,19 @@ class TrimAdvice:
         return self.length_now - self.length_needed
 
 
-def trim_advice(piece, frequency_at, measured_hz, length_now=None):
+def trim_advice(piece, frequency_at, measured_hz, length_now=None, units="mm"):
     """Trim advice for a planned piece measured at ``measured_hz`` while ``length_now`` long.
 
     ``frequency_at(L)`` is the plan's model for the piece's set; ``length_now`` defaults to the
-    cut length on the cut sheet.
+    cut length on the cut sheet. Which end to trim and what to do when sharp are the piece's
+    own plan facts; lengths are written with ``units`` first.
     """
     if not measured_hz > 0:
         raise CalibrationError("the measured frequency must be positive")
     length_now = piece.cut_length if length_now is None else length_now
     ratio = measured_hz / frequency_at(length_now)
     if not 0.5 < ratio < 2.0:
-        raise CalibrationError(f"{measured_hz:.2f} Hz is more than an octave from what a {length_now * 1000:.1f} mm "
+        raise CalibrationError(f"{measured_hz:.2f} Hz is more than an octave from what a {format_length(length_now, units)} "
                                f"piece should sound ({frequency_at(length_now):.2f} Hz); is it the right piece "
                                "or a different partial?")
     goal = piece.target_hz / ratio
@@ -223,9 +224,9 @@ def trim_advice(piece, frequency_at, measured_hz, length_now=None):
     if abs(cents_off) < 2:
         action = "in tune (within 2 cents): leave it"
     elif remove > 0:
-        action = (f"flat by {-cents_off:.1f} cents: remove {remove * 1000:.1f} mm from "
-                  f"{advice.trim_from(piece.kind, getattr(piece, 'model', ''))}; "
-                  f"take off about {remove * 1000 / 3:.1f} mm at a time and measure again")
+        action = (f"flat by {-cents_off:.1f} cents: remove {format_length(remove, units)} from "
+                  f"{piece.trim_end}; take off about {format_length(remove / 3, units)} at a time and "
+                  "measure again (trimming raises the pitch)")
     else:
-        action = f"sharp by {cents_off:.1f} cents: {-remove * 1000:.1f} mm too short; " + advice.sharp_action(piece.kind)
+        action = f"sharp by {cents_off:.1f} cents: {format_length(-remove, units)} too short; {piece.if_sharp}"
     return TrimAdvice(piece.label, piece.target_hz, measured_hz, cents_off, length_now, length_needed, action)

@@ -1,6 +1,6 @@
 """Lay a plan's pieces on the stock on hand: the plan's cut list, in SI.
 
-Pieces are grouped by section and stock table (one group per set's section, or per set with
+Pieces are grouped by section and stock table (groups are named in the design's units) (one group per set's section, or per set with
 its own ``[set.stock]``); each group is laid out by the pure optimiser in :mod:`cutplan.stock`.
 The cut lengths are the pieces' own ``cut_length`` floats, so every renderer formats the same
 number the plan table shows.
@@ -54,6 +54,17 @@ class CutList:
     groups: tuple
     notes: tuple = field(default=())
 
+    def __str__(self):
+        """The layout in a few lines (mm), for a quick look from Python."""
+        lines = []
+        for g in self.groups:
+            proven = "proven optimal" if g.proven_optimal else "not proven optimal"
+            lines.append(f"{g.group}: {len(g.sticks)} stick(s), {proven}")
+            for i, s in enumerate(g.sticks, start=1):
+                cuts = ", ".join(f"{c.label} {c.length * 1000:.1f} at {c.start * 1000:.1f}" for c in s.cuts)
+                lines.append(f"  stick {i} ({s.stock_length * 1000:.1f} mm): {cuts}; offcut {s.offcut * 1000:.1f}")
+        return "\n".join(lines)
+
     @property
     def sticks(self):
         """All sticks, group by group."""
@@ -91,7 +102,7 @@ class CutList:
         return tuple(sorted(counts.items()))
 
 
-def stock_groups(sets, specs, design_stock, override=None):
+def stock_groups(sets, specs, design_stock, override=None, units="mm"):
     """{group name: (StockSpec, [pieces])} for the sets whose stock lists lengths."""
     groups = {}
     for s in sets:
@@ -100,7 +111,7 @@ def stock_groups(sets, specs, design_stock, override=None):
         if stock is None or not stock.lengths:
             continue
         own = spec.stock is not None and override is None
-        key = (s.section_text, s.name if own else "")
+        key = (s.section_label(units), s.name if own else "")
         groups.setdefault(key, (stock, []))[1].extend(s.pieces)
     texts = [text for text, _ in groups]
     # a set with its own stock joins the name only where two groups would read the same
@@ -108,12 +119,12 @@ def stock_groups(sets, specs, design_stock, override=None):
             for (text, owner), value in groups.items()}
 
 
-def lay_out(sets, specs, design_stock, override=None, time_limit=optimiser.DEFAULT_TIME_LIMIT):
+def lay_out(sets, specs, design_stock, override=None, time_limit=optimiser.DEFAULT_TIME_LIMIT, units="mm"):
     """The CutList of planned sets, or None when no set has stock lengths.
 
     Raises :class:`cutplan.stock.StockError` naming the group when stock runs out.
     """
-    groups = stock_groups(sets, specs, design_stock, override)
+    groups = stock_groups(sets, specs, design_stock, override, units)
     if not groups:
         return None
     out = []

@@ -12,9 +12,10 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from cutplan import pitch, uncertainty
+from cutplan import advice, pitch, uncertainty
 from cutplan.design import DEFAULT_SHARP_RISK, Design, DesignError, DesignErrors, SetSpec
 from cutplan.physics import air_column, beam, timoshenko
+from cutplan.units import INCH_DENOMINATOR, format_length
 
 PARTIAL_COUNT = 4
 """Partials reported per piece [-]."""
@@ -55,6 +56,16 @@ class Piece:
     sharp_risk: float = 0.0
     arch: object = None
     stopper: tuple = ()
+    strike_note_hz: float | None = None
+    trim_end: str = ""
+    if_sharp: str = ""
+
+    @property
+    def allowance(self):
+        """The allowance this piece is cut with [m]: cut length minus finished length, the one
+        number the cut list, tuning sheet, templates and JSON state (for a stoppered resonator,
+        the tube beyond the column at the design temperature)."""
+        return self.cut_length - self.length
 
 
 @dataclass(frozen=True)
@@ -84,12 +95,17 @@ class SetPlan:
     model: str
     pieces: tuple
     assumptions: tuple = ()
+    allowance_rule: str = ""
 
     @property
     def section_text(self):
-        """The section as shown to the builder, e.g. "al-1.000x0.065 tube 25.40 x 1.65 mm"."""
+        """The section as shown to the builder, e.g. "al-1.000x0.065 tube 25.40 x 1.65 mm wall"."""
+        return self.section_label("mm")
+
+    def section_label(self, units="mm"):
+        """The section's stock name and size, the chosen unit first."""
         sec = self.section
-        return (sec.name + " " if sec.name else "") + sec.describe()
+        return (sec.name + " " if sec.name else "") + sec.describe(units)
 
     @property
     def shape(self):
@@ -120,6 +136,7 @@ class Plan:
     design_path: str = ""
     cut_list: object = None
     warnings: tuple = field(default=())
+    inch_denominator: int = INCH_DENOMINATOR
 
     @property
     def pieces(self):
@@ -400,8 +417,8 @@ def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
         label = f"{spec.name}-{i}"
         if length <= 2 * radius:
             errors.append(DesignError(design.path, f"set[{spec.index}]", t.name,
-                                      f"is too high for a {radius * 2000:.1f} mm bore: the column would be "
-                                      f"{length * 1000:.0f} mm long ({label}); use a narrower tube"))
+                                      f"is too high for a {format_length(2 * radius, design.units)} bore: the column would be "
+                                      f"{format_length(length, design.units)} long ({label}); use a narrower tube"))
             continue
         harmonics = [2 * n - 1 for n in range(1, PARTIAL_COUNT + 1)] if closed else list(range(1, PARTIAL_COUNT + 1))
         f1 = float(freq_of(length, radius, speed, correction=spec.end_correction))
@@ -410,8 +427,8 @@ def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
         if length < 2 * radius * 2:
             warnings.append("short column: under two bores long, the end correction dominates; cut long and trim")
         if spec.kind == "resonator" and length > spec.max_length:
-            warnings.append(f"resonator {length * 1000:.0f} mm is longer than the limit "
-                            f"{spec.max_length * 1000:.0f} mm; use a folded tube or a wider bore")
+            warnings.append(f"resonator {format_length(length, design.units)} is longer than the limit "
+                            f"{format_length(spec.max_length, design.units)}; use a folded tube or a wider bore")
         ka = 2 * np.pi * t.frequency / speed * radius
         if ka > 0.5:
             warnings.append(f"wide bore for this pitch (ka = {ka:.2f}): the end correction shrinks at high "
@@ -431,8 +448,8 @@ def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
             deepest = max(depth for _, depth in stopper)
             cut = max(cut, deepest + STOPPER_MARGIN)
             if spec.kind == "resonator" and cut > spec.max_length:
-                warnings.append(f"with the stopper travel the tube is {cut * 1000:.0f} mm, longer than the limit "
-                                f"{spec.max_length * 1000:.0f} mm")
+                warnings.append(f"with the stopper travel the tube is {format_length(cut, design.units)}, longer than the limit "
+                                f"{format_length(spec.max_length, design.units)}")
         pieces.append(
             Piece(
                 set=spec.name, kind=spec.kind, label=label, note=t.name, target_hz=t.frequency,
@@ -448,7 +465,30 @@ def _plan_air_set(spec: SetSpec, design: Design, targets, stock):
     return pieces, errors
 
 
-def _set_summary(spec: SetSpec):
+def _with_shop_facts(piece, spec):
+    """The piece with the shop facts every output states: strike note, trim end, what to do if
+    it comes out sharp."""
+    from dataclasses import replace
+
+    strike = None
+    if piece.kind == "chime" and len(piece.partials_hz) >= STRIKE_NOTE_MODE:
+        strike = piece.partials_hz[STRIKE_NOTE_MODE - 1] / 2
+    kind = "resonator" if piece.kind == "resonator" else piece.kind
+    return replace(piece, strike_note_hz=strike, trim_end=advice.trim_from(kind, spec.ends),
+                   if_sharp=advice.sharp_action(kind))
+
+
+def allowance_rule(stock, units="mm"):
+    """The design's allowance rule as the builder wrote it: "risk 5 %", "0.5 %" or a length."""
+    if stock is None or stock.allowance_risk is not None:
+        risk = stock.allowance_risk if stock is not None else DEFAULT_SHARP_RISK
+        return f"risk {risk * 100:g} %"
+    if stock.allowance_length:
+        return format_length(stock.allowance_length, units)
+    return f"{stock.allowance * 100:g} %"
+
+
+def _set_summary(spec: SetSpec, units="mm"):
     assumptions = []
     if spec.kind in ("air-column", "resonator"):
         speed = air_column.speed_of_sound(spec.temperature, spec.humidity)
@@ -457,7 +497,7 @@ def _set_summary(spec: SetSpec):
         corr = spec.end_correction
         corr_text = f"{corr} x inner radius" if isinstance(corr, (int, float)) else corr
         assumptions.append(f"{spec.ends} column, end correction {corr_text} per open end, "
-                           f"bore {spec.section.air_radius * 2000:.2f} mm")
+                           f"bore {format_length(spec.section.air_radius * 2, units)}")
         if spec.temperature_range is not None:
             lo, hi = spec.temperature_range
             assumptions.append(f"stopper travel covers {lo - 273.15:.0f} C to {hi - 273.15:.0f} C")
@@ -481,7 +521,7 @@ def _set_summary(spec: SetSpec):
             u = spec.undercut
             ratio_text = ":".join(f"{r:g}" for r in (1,) + u.ratios)
             assumptions.append(f"undercut bars tuned {ratio_text}: arch over the middle {u.arch_width:g} of the length, "
-                               f"centre at least {u.min_thickness * 1000:.1f} mm thick (non-uniform shear-corrected "
+                               f"centre at least {format_length(u.min_thickness, units)} thick (non-uniform shear-corrected "
                                "finite elements)")
             model = "timoshenko-undercut"
     material = spec.material.name if spec.material is not None else "(not given)"
@@ -508,7 +548,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
         stock = spec.stock or design.stock
-        summary = _set_summary(spec)
+        summary = _set_summary(spec, design.units)
         if spec.kind in ("chime", "bar"):
             try:
                 if spec.undercut is not None:
@@ -536,9 +576,11 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                 if need > longest:
                     errors.append(DesignError(
                         design.path, f"set[{spec.index}]", p.note,
-                        f"needs {p.label} cut at {need * 1000:.0f} mm with end trim, longer than the "
-                        f"longest stock ({longest * 1000:.0f} mm); add longer stock or raise the note"))
-        done = SetPlan(**{**summary.__dict__, "pieces": tuple(pieces)})
+                        f"needs {p.label} cut at {format_length(need, design.units)} with end trim, longer than the "
+                        f"longest stock ({format_length(longest, design.units)}); add longer stock or raise the note"))
+        pieces = [_with_shop_facts(p, spec) for p in pieces]
+        done = SetPlan(**{**summary.__dict__, "pieces": tuple(pieces),
+                          "allowance_rule": allowance_rule(stock, design.units)})
         by_name[spec.name] = done
         sets.append(done)
     if errors:
@@ -548,7 +590,8 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
     from cutplan import cutlist, stock
 
     try:
-        cuts = cutlist.lay_out(sets, {s.name: s for s in design.sets}, design.stock, stock_override)
+        cuts = cutlist.lay_out(sets, {s.name: s for s in design.sets}, design.stock, stock_override,
+                              units=design.units)
     except stock.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
     return Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,

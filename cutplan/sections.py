@@ -106,13 +106,25 @@ class Section:
             return shear_coefficient_cowper_rectangle(poisson)
         return shear_coefficient_cowper_hollow_circle(poisson, self.inner / self.outer)
 
-    def describe(self):
-        """Short human description in mm, e.g. "tube 25.4 x 1.65 mm"."""
+    def describe(self, units="mm"):
+        """Short description, the chosen unit first; inches as decimals, as stock is sold.
+
+        >>> tube(0.0254, 0.001651).describe("in")
+        'tube 1.000 x 0.065 in wall (25.40 x 1.65 mm)'
+        """
+        inch = 0.0254
         if self.shape == "bar":
-            return f"bar {self.width * 1e3:.1f} x {self.thickness * 1e3:.1f} mm"
+            mm = f"{self.width * 1e3:.1f} x {self.thickness * 1e3:.1f} mm"
+            other = f"{self.width / inch:.3f} x {self.thickness / inch:.3f} in"
+            first, second = (other, mm) if units == "in" else (mm, other)
+            return f"bar {first}" + (f" ({second})" if units == "in" else "")
         if self.shape == "rod":
-            return f"rod {self.outer * 1e3:.2f} mm"
-        return f"tube {self.outer * 1e3:.2f} x {self.wall * 1e3:.2f} mm wall"
+            mm, other = f"{self.outer * 1e3:.2f} mm", f"{self.outer / inch:.3f} in"
+            return f"rod {other} ({mm})" if units == "in" else f"rod {mm}"
+        mm = f"{self.outer * 1e3:.2f} x {self.wall * 1e3:.2f} mm"
+        if units == "in":
+            return f"tube {self.outer / inch:.3f} x {self.wall / inch:.3f} in wall ({mm})"
+        return f"tube {mm} wall"
 
 
 def tube(outer, wall, name="", bore=0.0):

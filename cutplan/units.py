@@ -320,9 +320,52 @@ def format_inches(metres, denominator=16, show_error=True):
     return text
 
 
-def format_length(metres, units="mm", denominator=16):
-    """A length the way a builder reads it: ``"514.9 mm (20-1/4 in)"`` or the other way round."""
-    inch_text = format_inches(metres, denominator, show_error=False)
+INCH_DENOMINATOR = 32
+"""Fractional inches are shown to the nearest 1/32 in everywhere (CSV, JSON, terminal, PDF)."""
+
+
+def mm_text(metres):
+    """Millimetres as every output shows them, to 0.1 mm, without the unit.
+
+    >>> mm_text(0.51487)
+    '514.9'
+    """
+    return f"{metres / MM:.1f}"
+
+
+def inch_text(metres, denominator=INCH_DENOMINATOR):
+    """Fractional inches as every output shows them, without the unit.
+
+    >>> inch_text(0.51487)
+    '20-9/32'
+    """
+    return format_inches(metres, denominator, show_error=False)[:-3]
+
+
+def format_length(metres, units="mm", denominator=INCH_DENOMINATOR):
+    """A length the way a builder reads it, the chosen unit first.
+
+    >>> format_length(0.51487)
+    '514.9 mm (20-9/32 in)'
+    >>> format_length(0.51487, "in")
+    '20-9/32 in (514.9 mm)'
+    """
+    inch, mm = inch_text(metres, denominator), mm_text(metres)
     if units == "in":
-        return f"{inch_text} ({format_mm(metres)})"
-    return f"{format_mm(metres)} ({inch_text})"
+        return f"{inch} in ({mm} mm)"
+    return f"{mm} mm ({inch} in)"
+
+
+def length_cell(metres, units="mm", denominator=INCH_DENOMINATOR):
+    """A length for a table cell whose heading names the units: ``"20-9/32 (514.9)"``.
+
+    >>> length_cell(0.51487, "in")
+    '20-9/32 (514.9)'
+    """
+    inch, mm = inch_text(metres, denominator), mm_text(metres)
+    return f"{inch} ({mm})" if units == "in" else f"{mm} ({inch})"
+
+
+def length_heading(units="mm"):
+    """The unit heading that goes with :func:`length_cell`: ``"in (mm)"`` or ``"mm (in)"``."""
+    return "in (mm)" if units == "in" else "mm (in)"

@@ -74,6 +74,8 @@ class _Piece:
     label = "t-1"
     target_hz = 587.33
     cut_length = 0.52
+    trim_end = "the bottom end"  # a planned piece carries its trim end and sharp advice
+    if_sharp = "cut a new tube"
 
 
 def test_trim_flat_piece_says_how_much_to_remove():

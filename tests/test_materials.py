@@ -39,7 +39,8 @@ def test_material_fingerprint_catches_accidental_edits(lib):
 
 
 def test_aluminium_6061_t6_typical_values(lib):
-    # Aluminum Association typical values: E 68.9 GPa, 2700 kg/m3, nu 0.33 (REFERENCES sec. 8)
+    # Aluminum Association typical values (Aluminum Standards and Data; sources.toml aa-typical):
+    # E 68.9 GPa (10,000 ksi), 2700 kg/m3, nu 0.33
     m = lib.materials["aluminum-6061-t6"]
     assert (m.modulus, m.density, m.poisson) == (68.9e9, 2700.0, 0.33)
     assert m.shear_modulus_for("timoshenko") == pytest.approx(68.9e9 / 2.66)
@@ -57,12 +58,12 @@ def test_wood_bending_modulus_is_raised_for_the_shear_corrected_model(lib):
 @pytest.mark.parametrize(
     ("name", "outer_in", "wall_in"),
     [
-        # ASTM B88 (via two agreeing reproductions; REFERENCES sec. 7)
+        # ASTM B88 dimension tables (sources.toml astm-b88; two agreeing reproductions)
         ("copper-l-1/2", 0.625, 0.040), ("copper-k-3/4", 0.875, 0.065), ("copper-m-1", 1.125, 0.035),
-        # ASTM D1785 Table 1 (REFERENCES sec. 7)
+        # ASTM D1785 Table 1 (sources.toml astm-d1785)
         ("pvc-sch40-1/2", 0.840, 0.109), ("pvc-sch40-2", 2.375, 0.154), ("pvc-sch80-1", 1.315, 0.179),
         ("pvc-sch80-4", 4.500, 0.337),
-        # ANSI C80.3 via the Steel Tube Institute (REFERENCES sec. 7)
+        # ANSI C80.3 nominal EMT dimensions (sources.toml ansi-c80-3, via the Steel Tube Institute)
         ("emt-1/2", 0.706, 0.042), ("emt-3/4", 0.922, 0.049), ("emt-2", 2.197, 0.065),
     ],
 )
@@ -73,7 +74,8 @@ def test_stock_rows_match_the_standards(lib, name, outer_in, wall_in):
 
 
 def test_pvc_bore_is_smaller_than_od_minus_two_minimum_walls(lib):
-    # D1785 walls are minimums: 1/2 in Sch 40 average ID 0.602 in < 0.622 in (REFERENCES sec. 7)
+    # ASTM D1785 Table 1: walls are minimums, and the average ID of 1/2 in Sch 40 is 0.602 in,
+    # below OD - 2 x minimum wall = 0.622 in
     s = lib.stock["pvc-sch40-1/2"].section
     assert 0.600 * INCH < 2 * s.air_radius < 0.622 * INCH
 

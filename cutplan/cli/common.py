@@ -15,11 +15,24 @@ EXIT_BAD_INPUT = 2
 """Exit code for bad input, the code click's UsageError uses."""
 
 
+class BadInput(click.ClickException):
+    """Bad input: one line per problem on stderr, exit code 2, no traceback."""
+
+    exit_code = EXIT_BAD_INPUT
+
+    def __init__(self, lines):
+        self.lines = [str(line) for line in lines]
+        super().__init__("\n".join(self.lines))
+
+    def show(self, file=None):
+        """Print each problem as ``error: ...`` on stderr."""
+        for line in self.lines:
+            click.echo(f"error: {line}", err=True)
+
+
 def fail(lines):
-    """Print one line per problem to stderr and exit with code 2 (no traceback)."""
-    for line in lines if isinstance(lines, (list, tuple)) else [lines]:
-        click.echo(f"error: {line}", err=True)
-    sys.exit(EXIT_BAD_INPUT)
+    """Stop the command with one line per problem and exit code 2 (raises :class:`BadInput`)."""
+    raise BadInput(lines if isinstance(lines, (list, tuple)) else [lines])
 
 
 def write_file(path, data):
@@ -46,13 +59,17 @@ def _library_loader(extra):
     return load
 
 
-def _load(design_path, materials_dirs=()):
-    """Design and library, or a clean exit 2 with one line per problem."""
+def _load(design_path, materials_dirs=(), units=None):
+    """Design and library, or a clean exit 2 with one line per problem. ``units`` ("mm" or "in"),
+    when given, replaces the design's own choice of the unit shown first."""
+    from dataclasses import replace
+
     from cutplan.design import DesignErrors, load_design
     from cutplan.materials import MaterialError
 
     try:
-        return load_design(design_path, _library_loader(materials_dirs))
+        des, lib = load_design(design_path, _library_loader(materials_dirs))
+        return (replace(des, units=units) if units else des), lib
     except DesignErrors as exc:
         fail([str(e) for e in exc.errors])
     except MaterialError as exc:
@@ -110,56 +127,73 @@ def section_options(command):
     return command
 
 
-def _toml_string(value):
-    return '"' + str(value).replace("\\", "\\\\").replace('"', '\\"') + '"'
+OPTION_FOR_KEY = (
+    ("set[1].section.outer", "--tube"), ("set[1].section.wall", "--tube"), ("set[1].section.inner", "--tube"),
+    ("set[1].section.diameter", "--rod"), ("set[1].section.width", "--bar"), ("set[1].section.thickness", "--bar"),
+    ("set[1].section.stock", "--stock"), ("set[1].section", "--stock/--tube/--rod/--bar"), ("set[1].notes", "--note"),
+    ("set[1].frequencies", "--frequency"), ("set[1].material", "--material"),
+    ("set[1].temperature", "--temperature"), ("set[1].ends", "--ends"), ("set[1].model", "--model"),
+    ("tuning.a4", "--a4"), ("set[1]", "the options"),
+)
+"""Design keys of a one-piece design and the command-line options they come from."""
+
+
+def _option_line(command, error):
+    """A design error of a one-piece design, reworded to name the option it came from."""
+    key = error.key
+    for prefix, option in OPTION_FOR_KEY:
+        if key == prefix or key.startswith(prefix + ".") or key.startswith(prefix + "["):
+            key = option
+            break
+    shown = "" if error.value is None else f"{error.value!r} "
+    allowed = error.allowed.replace('kind = "bar"', "--kind bar").replace('kind = "chime"', "--kind chime")
+    return f"{command}: {key}: {shown}{allowed}"
+
+
+def _pair(text, option, example):
+    parts = text.lower().split("x")
+    if len(parts) != 2:
+        fail(f'{option}: {text!r} must be "{example}"')
+    return parts[0].strip(), parts[1].strip()
 
 
 def _one_piece_design(command, kind, note, frequency, material, stock_name, tube, rod, bar_size,
-                      ends="open-open", temperature="20 C", model="timoshenko", a4=440.0):
-    """A validated one-set design built from command-line options (exit 2 on bad options)."""
-    import tomllib
+                      ends="open-open", temperature="20 C", model="timoshenko", a4=440.0, materials_dirs=()):
+    """A validated one-set design built from command-line options (exit 2 on bad options).
 
-    from cutplan.design import DesignErrors, load_design
+    The options become a design mapping and go through the same validation as a design file.
+    """
+    from cutplan.design import DesignErrors, design_from_mapping
 
-    q = _toml_string
     shapes = [s for s in (stock_name, tube, rod, bar_size) if s]
     if len(shapes) != 1:
         fail(f"{command}: give exactly one of --stock, --tube, --rod or --bar")
     if stock_name:
-        section = f"{{ stock = {q(stock_name)} }}"
+        section = {"stock": stock_name}
     elif tube:
-        parts = tube.lower().split("x")
-        if len(parts) != 2:
-            fail(f'--tube: {tube!r} must be "OUTER x WALL", e.g. "1 in x 0.065 in"')
-        section = f'{{ shape = "tube", outer = {q(parts[0].strip())}, wall = {q(parts[1].strip())} }}'
+        outer, wall = _pair(tube, "--tube", "OUTER x WALL\", e.g. \"1 in x 0.065 in")
+        section = {"shape": "tube", "outer": outer, "wall": wall}
     elif rod:
-        section = f'{{ shape = "rod", diameter = {q(rod)} }}'
+        section = {"shape": "rod", "diameter": rod}
     else:
-        parts = bar_size.lower().split("x")
-        if len(parts) != 2:
-            fail(f'--bar: {bar_size!r} must be "WIDTH x THICKNESS", e.g. "38 mm x 19 mm"')
-        section = f'{{ shape = "bar", width = {q(parts[0].strip())}, thickness = {q(parts[1].strip())} }}'
-    lines = ['title = "one piece"', "[tuning]", f"a4 = {a4}", "[[set]]", 'name = "piece"', f"kind = {q(kind)}"]
-    lines.append(f"notes = [{q(note)}]" if note else f"frequencies = [{frequency}]")
-    lines.append(f"section = {section}")
+        width, thickness = _pair(bar_size, "--bar", "WIDTH x THICKNESS\", e.g. \"38 mm x 19 mm")
+        section = {"shape": "bar", "width": width, "thickness": thickness}
+    piece = {"name": "piece", "kind": kind, "section": section}
+    if note:
+        piece["notes"] = [note]
+    else:
+        piece["frequencies"] = [frequency]
     if material:
-        lines.append(f"material = {q(material)}")
+        piece["material"] = material
     if kind in ("air-column", "resonator"):
-        lines += [f"ends = {q(ends)}", f"temperature = {q(temperature)}"]
+        piece.update(ends=ends, temperature=temperature)
     else:
-        lines.append(f"model = {q(model)}")
-    text = "\n".join(lines) + "\n"
+        piece["model"] = model
+    data = {"title": "one piece", "tuning": {"a4": a4}, "set": [piece]}
     try:
-        tomllib.loads(text)
-    except tomllib.TOMLDecodeError:
-        fail(f"{command}: the options could not be combined; check for stray quotes")
-    with tempfile.TemporaryDirectory() as tmp:
-        path = Path(tmp) / f"{command}-options.toml"
-        path.write_text(text, encoding="utf-8")
-        try:
-            des, _ = load_design(path, _library_loader(()))
-        except DesignErrors as exc:
-            fail([str(e).replace(str(path), command) for e in exc.errors])
+        des, _ = design_from_mapping(data, _library_loader(materials_dirs), command, ".")
+    except DesignErrors as exc:
+        fail([_option_line(command, e) for e in exc.errors])
     return des
 
 

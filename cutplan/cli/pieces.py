@@ -82,7 +82,10 @@ def materials_command(name, materials_dirs):
 @click.option("--model", type=click.Choice(["timoshenko", "slender"]), default="timoshenko", show_default=True,
               help="Beam model for chimes and bars.")
 @click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
-def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_size, ends, temperature, model, a4):
+@click.option("--units", type=click.Choice(["mm", "in"]), default="mm", show_default=True,
+              help="Units shown first.")
+def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_size, ends, temperature, model, a4,
+                   units):
     """Length and hang point of one piece, without a design file.
 
     \b
@@ -99,11 +102,11 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
     from cutplan.units import format_length
 
     p = the_plan.pieces[0]
-    click.echo(f"{p.note}: {p.target_hz:.2f} Hz, {the_plan.sets[0].section}, {p.model}")
-    click.echo(f"  length      {format_length(p.length)}")
+    click.echo(f"{p.note}: {p.target_hz:.2f} Hz, {the_plan.sets[0].section_label(units)}, {p.model}")
+    click.echo(f"  length      {format_length(p.length, units)}")
     for i, x in enumerate(p.nodes, start=1):
         what = "hang hole" if kind == "chime" else "support"
-        click.echo(f"  {what} {i}  {format_length(x)} from the end")
+        click.echo(f"  {what} {i}  {format_length(x, units)} from the end")
     click.echo(f"  trimming    {p.cents_per_mm:.2f} cents per mm")
     if kind != "air-column":
         click.echo(f"  shear correction {p.shear_correction_cents:+.1f} cents against the slender model")

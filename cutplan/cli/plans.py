@@ -34,7 +34,7 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
       cutplan plan examples/porch-chimes.toml -o porch-packet
     """
     out = _check_output_dir(output, force) if output else None
-    des, _lib = _load(design, materials_dirs)
+    des, _lib = _load(design, materials_dirs, units)
     the_plan = _plan(des)
     from cutplan.render.table import render_csv, render_json
     from cutplan.render.terminal import render_table
@@ -44,7 +44,7 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     elif fmt == "csv":
         click.echo(render_csv(the_plan), nl=False)
     else:
-        click.echo(render_table(the_plan, units), nl=False)
+        click.echo(render_table(the_plan), nl=False)
     if out is not None:
         from cutplan.render.packet import plan_files
 
@@ -74,7 +74,7 @@ def cutlist_command(design, stock_texts, kerf, end_trim, units, fmt, materials_d
     """
     import json
 
-    des, _lib = _load(design, materials_dirs)
+    des, _lib = _load(design, materials_dirs, units)
     override = _parse_stock_option(stock_texts, kerf, end_trim) if stock_texts else None
     the_plan = _plan(des, override)
     if the_plan.cut_list is None:
@@ -91,4 +91,4 @@ def cutlist_command(design, stock_texts, kerf, end_trim, units, fmt, materials_d
         return
     from cutplan.render.terminal import render_stock
 
-    click.echo("\n".join(render_stock(the_plan.cut_list, units or the_plan.units)))
+    click.echo("\n".join(render_stock(the_plan.cut_list, the_plan.units)))

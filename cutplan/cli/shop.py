@@ -228,8 +228,9 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
 @click.option("--measured", type=float, help="Frequency the piece sounds now [Hz] (from a tuner).")
 @click.option("--recording", type=click.Path(dir_okay=False), help="Or a WAV recording of the piece.")
 @click.option("--length-now", help="Length of the piece now (default: its cut length on the cut sheet).")
+@click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
 @MATERIALS_OPTION
-def trim_command(design, label, measured, recording, length_now, materials_dirs):
+def trim_command(design, label, measured, recording, length_now, units, materials_dirs):
     """How much to trim a piece, and from which end, to bring it to pitch.
 
     \b
@@ -243,8 +244,9 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
 
     if (measured is None) == (recording is None):
         fail("trim: give --measured or --recording (one of them)")
-    des, _lib = _load(design, materials_dirs)
+    des, _lib = _load(design, materials_dirs, units)
     the_plan = _plan(des)
+    units = the_plan.units
     pieces = {p.label: p for p in the_plan.pieces}
     if label not in pieces:
         fail(f"trim: {label!r} is not a piece of {design}; labels are {', '.join(list(pieces)[:8])}...")
@@ -262,17 +264,17 @@ def trim_command(design, label, measured, recording, length_now, materials_dirs)
         except UnitError as exc:
             fail(f"--length-now: {exc.text!r} is not {exc.accepted}")
     try:
-        advice = trim_advice(piece, f_at, measured, now)
+        advice = trim_advice(piece, f_at, measured, now, units)
     except CalibrationError as exc:
         fail(f"trim: {exc}")
     click.echo(f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {measured:.2f} Hz "
-               f"at {format_length(advice.length_now)}")
-    click.echo(f"  length for the target: {format_length(advice.length_needed)}")
+               f"at {format_length(advice.length_now, units)}")
+    click.echo(f"  length for the target: {format_length(advice.length_needed, units)}")
     click.echo(f"  {advice.action}")
     if piece.nodes and advice.remove > 0:
         fractions = [x / piece.length for x in piece.nodes]
         click.echo("  if not yet drilled, hang/support points for the trimmed length: "
-                   + ", ".join(format_length(f * advice.length_needed) for f in fractions) + " from the top/reference end")
+                   + ", ".join(format_length(f * advice.length_needed, units) for f in fractions) + " from the top/reference end")
 
 
 @click.command("listen")

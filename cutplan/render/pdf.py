@@ -255,7 +255,7 @@ def _cut_list(packet):
                 y = _heading(c, packet, f"Cut list: {s.name}{more}")
                 c.setFont("Helvetica", 9)
                 c.drawString(MARGIN, y, f"{s.kind}, {s.material}, {s.section_text}; longest first. "
-                             "Cut at the 'cut at' length, then tune down to 'finished'.")
+                             "Cut at the 'cut at' length, then trim to pitch (trimming raises the pitch).")
                 _table(c, [header] + chunk, widths, MARGIN, y - 4 * mm, 10)
             packet.add(draw)
 

@@ -1,4 +1,4 @@
-"""Plan -> JSON (contract ``cutplan-plan/1``, shared/DESIGN.md) and CSV text. No physics here."""
+"""Plan -> JSON (contract ``cutplan-plan/1``, described in DEVELOPERS.md) and CSV text. No physics here."""
 
 from __future__ import annotations
 
@@ -6,9 +6,13 @@ import csv
 import io
 import json
 
-from cutplan.units import MM, format_inches
+from cutplan.units import MM, inch_text, mm_text
 
 PLAN_FORMAT = "cutplan-plan/1"
+
+
+def _inch(metres):
+    return inch_text(metres) + " in"
 
 
 def _r(x, nd):
@@ -33,14 +37,17 @@ def piece_dict(p):
         "cents_per_mm": _r(p.cents_per_mm, 3),
         "model": p.model,
         "shear_correction_cents": _r(p.shear_correction_cents, 2),
-        "allowance_mm": {"uncalibrated": _r(p.allowance_uncalibrated / MM, 2),
+        "allowance_mm": {"added": _r(p.allowance / MM, 2),
+                         "uncalibrated": _r(p.allowance_uncalibrated / MM, 2),
                          "after_test_piece": _r(p.allowance_calibrated / MM, 2)},
+        "trim_end": p.trim_end,
+        "if_sharp": p.if_sharp,
         "sharp_risk": _r(p.sharp_risk, 3),
         "warnings": list(p.warnings),
     }
-    if p.kind == "chime" and len(p.partials_hz) >= 4:
+    if p.strike_note_hz is not None:
         out["fundamental_hz"] = _r(p.fundamental_hz, 3)
-        out["strike_note_hz"] = _r(p.partials_hz[3] / 2, 3)
+        out["strike_note_hz"] = _r(p.strike_note_hz, 3)
     if p.arch is not None:
         a = p.arch
         out["undercut"] = {
@@ -68,9 +75,10 @@ def plan_dict(plan):
         "title": plan.title,
         "a4_hz": float(plan.a4),
         "temperament": plan.temperament,
+        "units": plan.units,
         "sets": [
             {"name": s.name, "kind": s.kind, "material": s.material, "section": s.section_text,
-             "model": s.model, "assumptions": list(s.assumptions)}
+             "model": s.model, "assumptions": list(s.assumptions), "allowance": s.allowance_rule}
             for s in plan.sets
         ],
         "pieces": [piece_dict(p) for p in plan.pieces],
@@ -122,12 +130,12 @@ def render_csv(plan):
         nodes = list(p.nodes) + [None, None]
         writer.writerow([
             p.set, p.label, p.note, f"{p.target_hz:.3f}", f"{p.predicted_hz:.3f}",
-            f"{p.length / MM:.1f}", format_inches(p.length, 32, show_error=False),
-            f"{p.cut_length / MM:.1f}", format_inches(p.cut_length, 32, show_error=False),
-            "" if nodes[0] is None else f"{nodes[0] / MM:.1f}",
-            "" if nodes[1] is None else f"{nodes[1] / MM:.1f}",
-            "" if nodes[0] is None else format_inches(nodes[0], 32, show_error=False),
-            "" if nodes[1] is None else format_inches(nodes[1], 32, show_error=False),
+            mm_text(p.length), _inch(p.length),
+            mm_text(p.cut_length), _inch(p.cut_length),
+            "" if nodes[0] is None else mm_text(nodes[0]),
+            "" if nodes[1] is None else mm_text(nodes[1]),
+            "" if nodes[0] is None else _inch(nodes[0]),
+            "" if nodes[1] is None else _inch(nodes[1]),
             "" if p.mass is None else f"{p.mass * 1000:.1f}", f"{p.cents_per_mm:.2f}",
             *[f"{f:.1f}" for f in p.partials_hz[1:4]], p.model, f"{p.shear_correction_cents:.2f}",
             "; ".join(p.warnings),
@@ -153,11 +161,11 @@ def render_cutlist_csv(cut_list):
         for k, c in enumerate(stick.cuts, start=1):
             start, size = c.start, c.length
             writer.writerow([
-                i, stick.group, f"{length / MM:.1f}", format_inches(length, 16, show_error=False), k,
-                c.label, f"{start / MM:.1f}", format_inches(start, 32, show_error=False), f"{size / MM:.1f}",
-                format_inches(size, 32, show_error=False), f"{(start + size) / MM:.1f}",
-                format_inches(start + size, 32, show_error=False),
+                i, stick.group, mm_text(length), _inch(length), k,
+                c.label, mm_text(start), _inch(start), mm_text(size),
+                _inch(size), mm_text(start + size),
+                _inch(start + size),
             ])
-        writer.writerow([i, stick.group, f"{length / MM:.1f}", format_inches(length, 16, show_error=False),
-                         "offcut", "", "", "", f"{stick.offcut / MM:.1f}", "", "", ""])
+        writer.writerow([i, stick.group, mm_text(length), _inch(length),
+                         "offcut", "", "", "", mm_text(stick.offcut), "", "", ""])
     return buf.getvalue()

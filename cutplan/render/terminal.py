@@ -2,7 +2,9 @@
 
 from __future__ import annotations
 
-from cutplan.units import INCH, MM, format_inches
+import textwrap
+
+from cutplan.units import INCH, MM, format_length, length_cell, length_heading
 
 SAFETY_LINE = (
     "Safety: wear eye and hearing protection when cutting and striking; deburr cut tube; never "
@@ -11,71 +13,106 @@ SAFETY_LINE = (
 )
 
 
+WIDTH = 100
+"""Widest line of a plan table [characters]; secondary columns move to a second table beyond it."""
+
+
+def _wrapped(text, indent="  "):
+    """Lines of free text no wider than WIDTH, broken only at spaces (never inside 12-27/32)."""
+    return textwrap.wrap(text, WIDTH, initial_indent=indent, subsequent_indent=indent + "  ",
+                         break_on_hyphens=False, break_long_words=False)
+
+
 def _length(metres, units):
-    mm = f"{metres / MM:.1f}"
-    inch = format_inches(metres, 32, show_error=False).replace(" in", "")
-    return (f"{inch} in ({mm})" if units == "in" else f"{mm} ({inch} in)")
+    return length_cell(metres, units)
 
 
-def _table(headers, rows):
+def _table(headers, rows, left=2):
+    """Aligned columns: the first ``left`` left-aligned, the rest right-aligned."""
     widths = [max(len(str(h)), *(len(str(r[i])) for r in rows)) if rows else len(h) for i, h in enumerate(headers)]
     line = "  ".join(str(h).ljust(w) for h, w in zip(headers, widths, strict=True))
-    out = [line, "  ".join("-" * w for w in widths)]
+    out = [line.rstrip(), "  ".join("-" * w for w in widths)]
     for r in rows:
-        out.append("  ".join(str(c).rjust(w) if i >= 2 else str(c).ljust(w)
-                             for i, (c, w) in enumerate(zip(r, widths, strict=True))))
+        out.append("  ".join(str(c).rjust(w) if i >= left else str(c).ljust(w)
+                             for i, (c, w) in enumerate(zip(r, widths, strict=True))).rstrip())
     return out
 
 
-def render_table(plan, units=None):
-    """Readable plan: one block per set, lengths in mm and fractional inches."""
-    units = units or plan.units
-    unit_head = "in (mm)" if units == "in" else "mm (in)"
+def _fitted(columns, rows, width=WIDTH):
+    """One table, or when it would be wider than ``width`` two: the main columns, then the label
+    with the secondary ones (``columns`` is ((heading, secondary?), ...)); numbers are never split."""
+    headers = [h for h, _ in columns]
+    table = _table(headers, rows)
+    if max(len(line) for line in table) <= width:
+        return table
+    main = [i for i, (_, secondary) in enumerate(columns) if not secondary]
+    extra = [0] + [i for i, (_, secondary) in enumerate(columns) if secondary]
+    pick = lambda idx: ([headers[i] for i in idx], [[r[i] for i in idx] for r in rows])  # noqa: E731
+    return _table(*pick(main)) + [""] + _table(*pick(extra), left=1)
+
+
+def _set_rows(s, units):
+    unit_head = length_heading(units)
+    node_head = "hang hole" if s.kind == "chime" else "support" if s.kind == "bar" else ""
+    columns = [("label", False), ("note", False), ("target Hz", False), (f"length {unit_head}", False),
+               (f"cut {unit_head}", False)]
+    if node_head:
+        columns.append((f"{node_head} {unit_head}", False))
+    columns += [("c/mm", False), ("sharp", False), ("partials Hz (2-4)", True)]
+    if s.kind in ("chime", "bar"):
+        columns.append(("shear c", True))
+    rows = []
+    for p in s.pieces:
+        row = [p.label, p.note, f"{p.target_hz:.2f}", _length(p.length, units), _length(p.cut_length, units)]
+        if node_head:
+            row.append(_length(p.nodes[0], units) if p.nodes else "")
+        row += [f"{p.cents_per_mm:.2f}", f"{p.sharp_risk * 100:.0f} %",
+                " ".join(f"{f:.0f}" for f in p.partials_hz[1:])]
+        if s.kind in ("chime", "bar"):
+            row.append(f"{p.shear_correction_cents:+.1f}")
+        rows.append(row)
+    return columns, rows
+
+
+def render_table(plan):
+    """Readable plan in the plan's units: one block per set, then the cut list."""
+    units = plan.units
     out = [plan.title, "=" * len(plan.title), f"A4 = {plan.a4:g} Hz, {plan.temperament} temperament", ""]
     for s in plan.sets:
-        out.append(f"{s.name}: {len(s.pieces)} x {s.kind}, {s.material}, {s.section_text}")
+        out.append(f"{s.name}: {len(s.pieces)} x {s.kind}, {s.material}, {s.section_label(units)}")
         for a in s.assumptions:
-            out.append(f"  {a}")
-        node_head = "hang hole from top" if s.kind == "chime" else "supports from end" if s.kind == "bar" else ""
-        headers = ["label", "note", "target Hz", f"length {unit_head}", f"cut {unit_head}"]
-        if node_head:
-            headers.append(f"{node_head} {unit_head}")
-        headers += ["c/mm", "partials Hz (2-4)", "shear c"]
-        rows = []
-        for p in s.pieces:
-            row = [p.label, p.note, f"{p.target_hz:.2f}", _length(p.length, units), _length(p.cut_length, units)]
-            if node_head:
-                row.append(_length(p.nodes[0], units) if p.nodes else "")
-            row += [f"{p.cents_per_mm:.2f}", " ".join(f"{f:.0f}" for f in p.partials_hz[1:]),
-                    f"{p.shear_correction_cents:+.1f}" if s.kind in ("chime", "bar") else "-"]
-            rows.append(row)
-        out.extend(_table(headers, rows))
+            out.extend(_wrapped(a))
+        out.append(f"  allowance {s.allowance_rule}: cut long, then trim to pitch (trimming raises the pitch)")
+        out.append("  sharp: the chance a piece comes out sharp (too short) at its cut length")
+        out.extend(_fitted(*_set_rows(s, units)))
         for p in s.pieces:
             if p.arch is not None:
                 a = p.arch
                 res = ", ".join(f"{r:+.2f}" for r in a.ratio_residuals_cents)
-                out.append(f"  {p.label}: arch {a.depth / MM:.1f} mm deep at the centre (leaves "
-                           f"{(a.thickness - a.depth) / MM:.1f} mm), over the middle {a.arch_width:.2f} of the "
-                           f"length, shape {a.exponent:.2f}; ratio residuals {res} cents")
+                out.extend(_wrapped(f"{p.label}: arch {format_length(a.depth, units)} deep at the centre (leaves "
+                           f"{format_length(a.thickness - a.depth, units)}), over the middle {a.arch_width:.2f} of "
+                           f"the length, shape {a.exponent:.2f}; ratio residuals {res} cents"))
             if p.stopper:
                 lo, hi = p.stopper[0], p.stopper[-1]
-                out.append(f"  {p.label}: stopper at {_length(lo[1], units)} from the open end at "
-                           f"{lo[0] - 273.15:.0f} C, {_length(hi[1], units)} at {hi[0] - 273.15:.0f} C")
+                out.extend(_wrapped(f"{p.label}: cut the tube {format_length(p.cut_length, units)} and tune with the "
+                           f"stopper: {format_length(lo[1], units)} from the open end at {lo[0] - 273.15:.0f} C, "
+                           f"{format_length(hi[1], units)} at {hi[0] - 273.15:.0f} C"))
         for p in s.pieces:
             for w in p.warnings:
-                out.append(f"  ! {p.label}: {w}")
+                out.extend(_wrapped(f"! {p.label}: {w}"))
         out.append("")
     if plan.cut_list is not None:
         out.extend(render_stock(plan.cut_list, units))
         out.append("")
-    out.append(SAFETY_LINE)
+    out.extend(_wrapped(SAFETY_LINE, ""))
     return "\n".join(out) + "\n"
 
 
 def render_stock(cut_list, units="mm"):
     """The cut list on stock: one block per stick with the marks measured from its end."""
     status = "proven optimal" if cut_list.proven_optimal else "best found, not proven optimal"
-    out = [f"Cut list on stock ({status}; marks measured from the stick's factory end)"]
+    out = [f"Cut list on stock ({status}; marks measured from the stick's factory end, "
+           f"{length_heading(units)})"]
     group = None
     for i, stick in enumerate(cut_list.sticks, start=1):
         if stick.group != group:
