@@ -100,19 +100,21 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now=""):
         if not now > 0:
             raise WebErrors([error("trim.length_now", f"{length_now!r} must be positive")])
     try:
-        advice = trim_advice(piece, piece_frequency_function(spec, piece), hz, now)
+        advice = trim_advice(piece, piece_frequency_function(spec, piece), hz, now, plan.units)
     except CalibrationError as exc:
         raise WebErrors([error("trim.measured", str(exc))]) from None
     units = plan.units
     name, off = pitch.nearest_note(hz, plan.a4)
     lines = [f"measured {hz:.2f} Hz = {name} {off:+.1f} cents"
              + (f" (confidence {confidence:.2f})" if recording else ""),
-             f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) at {format_length(advice.length_now, units, 32)}",
-             f"length for the target: {format_length(advice.length_needed, units, 32)}",
+             # the trim command's own lines, word for word
+             f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {hz:.2f} Hz "
+             f"at {format_length(advice.length_now, units)}",
+             f"length for the target: {format_length(advice.length_needed, units)}",
              advice.action]
     if piece.nodes and advice.remove > 0:
         fractions = [x / piece.length for x in piece.nodes]
         lines.append("if not yet drilled, hang/support points for the trimmed length: "
-                     + ", ".join(format_length(f * advice.length_needed, units, 32) for f in fractions)
+                     + ", ".join(format_length(f * advice.length_needed, units) for f in fractions)
                      + " from the top/reference end")
     return TrimAnswer(label, hz, name, off, confidence, partials, tuple(lines))

@@ -13,7 +13,7 @@ from cutplan.units import format_length
 
 
 def _len(metres, units):
-    return format_length(metres, units, 32)
+    return format_length(metres, units)
 
 
 def piece_rows(set_plan, units):
@@ -23,7 +23,7 @@ def piece_rows(set_plan, units):
         rows.append({
             "label": p.label, "note": p.note, "target": f"{p.target_hz:.2f}", "predicted": f"{p.predicted_hz:.2f}",
             "length": _len(p.length, units), "cut": _len(p.cut_length, units),
-            "allowance": _len(p.cut_length - p.length, units),
+            "allowance": _len(p.allowance, units),
             "risk": f"{100 * p.sharp_risk:.0f} %",
             "node": _len(p.nodes[0], units) if p.nodes else "",
             "cents_per_mm": f"{p.cents_per_mm:.2f}",

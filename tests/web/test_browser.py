@@ -96,9 +96,10 @@ def _cli_table():
     assert result.exit_code == 0
     rows = {}
     for line in result.output.splitlines():
-        m = re.match(r"(porch-\d)\s+(\S+)\s+[\d.]+\s+(.+? in \([\d.]+\))\s+(.+? in) \(([\d.]+)\)", line)
+        # "porch-1  D5  587.33  19-27/32 (503.9)  20-1/32 (508.6)  ..." under "length in (mm)  cut in (mm)"
+        m = re.match(r"(porch-\d)\s+(\S+)\s+[\d.]+\s+\S+ \([\d.]+\)\s+(\S+) \(([\d.]+)\)", line)
         if m:
-            rows[m.group(1)] = (m.group(2), m.group(4).strip(), float(m.group(5)))
+            rows[m.group(1)] = (m.group(2), m.group(3), float(m.group(4)))
     return rows
 
 
@@ -117,7 +118,7 @@ def test_fill_the_porch_design_and_see_the_command_lines_table(browser, server):
     for label, note, cut in _rows(d):
         cli_note, cli_inches, cli_mm = expected[label]
         assert note == cli_note
-        assert cut == f"{cli_inches} ({cli_mm:.1f} mm)"  # same inches and mm as the terminal table
+        assert cut == f"{cli_inches} in ({cli_mm:.1f} mm)"  # same inches and mm as the terminal table
     cli_json = json.loads(CliRunner().invoke(cli, ["plan", str(PORCH), "--format", "json"]).stdout)
     web_mm = [float(re.search(r"\(([\d.]+) mm\)", cut).group(1)) for _, _, cut in _rows(d)]
     assert web_mm == [round(p["cut_length_mm"], 1) for p in cli_json["pieces"]]

@@ -139,10 +139,15 @@ def _action_line(lines):
     return next(line.strip() for line in lines if re.match(r"\s*(flat|sharp|in tune)", line))
 
 
+def _advice(lines):
+    """The trim command's lines without indentation (the page adds its measurement line first)."""
+    return [line.strip() for line in lines if line.strip()]
+
+
 def test_trim_from_a_tuner_reading_matches_the_trim_command(client):
     res = client.post("/api/trim", data={**_porch_fields(), "trim.piece": "porch-1", "trim.measured": "583.1"})
     answer = res.get_json()["trim"]
-    assert _action_line(answer["lines"]) == _action_line(_cli_trim("--measured", "583.1").splitlines())
+    assert answer["lines"][1:] == _advice(_cli_trim("--measured", "583.1").splitlines())
     page = client.post("/", data={**_porch_fields(), "action": "trim", "trim.piece": "porch-1",
                                   "trim.measured": "583.1"}).get_data(as_text=True)
     assert _action_line(answer["lines"]) in page
@@ -163,7 +168,7 @@ def test_trim_from_a_recording_matches_the_trim_command(client, tmp_path):
     assert res["ok"]
     assert res["trim"]["measured_hz"] == pytest.approx(piece.partials_hz[0] * 0.99, rel=6e-4)  # within 1 cent
     cli_lines = _cli_trim("--recording", str(tmp_path / "porch-1.wav")).splitlines()
-    assert _action_line(res["trim"]["lines"]) == _action_line(cli_lines)
+    assert res["trim"]["lines"][1:] == _advice(cli_lines)
 
 
 def test_trim_errors_name_the_field(client):
