@@ -23,18 +23,25 @@ def find_browser():
     chromium = os.environ.get("CUTPLAN_CHROMIUM") or next(filter(None, map(shutil.which, CHROMIUM_NAMES)), None)
     driver = os.environ.get("CUTPLAN_CHROMEDRIVER") or next(
         (p for p in (shutil.which(d) or d for d in DRIVER_PLACES) if Path(p).is_file()), None)
-    if not chromium:
+    if not chromium or not Path(chromium).is_file():
         return None, "no Chromium found (apt-get install chromium)"
     if not driver:
         return None, "no chromedriver found (apt-get install chromium-driver)"
     return chromium, driver
 
 
-def no_browser_message(reason):
-    """The loud line shown when the browser tests cannot run."""
-    return f"REAL-BROWSER TESTS SKIPPED: {reason}; the page was NOT tested in a browser"
-
-
 def must_have_browser():
     """True on CI unless .ci/run said the browser could not be installed."""
     return bool(os.environ.get("CI")) and not os.environ.get("CUTPLAN_NO_BROWSER")
+
+
+def skip_or_fail(reason):
+    """Fail on CI (where .ci/run installs the browser), else skip loudly; never returns."""
+    import pytest
+
+    if must_have_browser():
+        pytest.fail(f"REAL-BROWSER TESTS CANNOT RUN: {reason}; .ci/run should have installed Chromium")
+    message = f"REAL-BROWSER TESTS SKIPPED: {reason}; the page was NOT tested in a browser"
+    if message not in SKIPPED:
+        SKIPPED.append(message)
+    pytest.skip(message)

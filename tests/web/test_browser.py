@@ -17,7 +17,7 @@ import pytest
 from click.testing import CliRunner
 
 from cutplan.cli import cli
-from tests.web.browser import HEADLESS_FLAGS, SKIPPED, find_browser, must_have_browser, no_browser_message
+from tests.web.browser import HEADLESS_FLAGS, find_browser, skip_or_fail
 from tests.web.conftest import PORCH
 
 WAIT = 120
@@ -42,11 +42,7 @@ def server():
 def browser():
     chromium, driver = find_browser()
     if chromium is None:
-        message = no_browser_message(driver)
-        if must_have_browser():
-            pytest.fail(message + " (CI: .ci/run should have installed it)")
-        SKIPPED.append(message)
-        pytest.skip(message)
+        skip_or_fail(driver)
     from selenium import webdriver
     from selenium.webdriver.chrome.service import Service
 
@@ -188,11 +184,7 @@ def browser_with_microphone(porch_strike):
     """A second Chromium whose microphone plays the synthesized strike (Chromium's fake capture device)."""
     chromium, driver = find_browser()
     if chromium is None:
-        message = no_browser_message(driver)
-        if must_have_browser():
-            pytest.fail(message + " (CI: .ci/run should have installed it)")
-        SKIPPED.append(message)
-        pytest.skip(message)
+        skip_or_fail(driver)
     from selenium import webdriver
     from selenium.webdriver.chrome.service import Service
 
