@@ -106,7 +106,7 @@ def create_app(materials_dirs=(), loopback_only=True):
 
     def page(fields, status=200, errors=(), plan_pair=None, trim=None, **extra):
         slots = _slots(fields)
-        placed = view.place_errors(errors, slots)
+        placed = view.place_errors(errors, slots, _own_stock(fields))
         warnings, preview = {}, None
         if plan_pair is not None:
             design, the_plan = plan_pair
@@ -199,7 +199,8 @@ def create_app(materials_dirs=(), loopback_only=True):
         try:
             _data, (design, the_plan) = plan_form(fields)
         except WebErrors as exc:
-            return jsonify(ok=False, errors=view.place_errors(exc.errors, _slots(fields)), warnings={})
+            return jsonify(ok=False, errors=view.place_errors(exc.errors, _slots(fields), _own_stock(fields)),
+                           warnings={})
         pv = view.preview(the_plan, design, fields.get("units") or None)
         html = render_template("_preview.html", preview=pv, f=fields, choices=choices, trim=None)
         return jsonify(ok=True, html=html, errors={}, warnings=view.place_warnings(the_plan, design),
@@ -299,11 +300,16 @@ def _slots(fields):
     slots.update(f"stock.{k}" for k in webform.STOCK_FIELDS)
     for i in range(1, webform.set_count(fields) + 1):
         p = f"set[{i}]"
-        slots.update({p, f"{p}.section", f"{p}.more", f"{p}.stock"})
+        slots.update({p, f"{p}.section", f"{p}.more", f"{p}.stock", f"{p}.pitch", f"{p}.stock.lengths"})
         slots.update(f"{p}.{k}" for k in webform.SET_FIELDS)
         slots.update(f"{p}.section.{k}" for k in webform.SECTION_FIELDS)
         slots.update(f"{p}.stock.{k}" for k in webform.STOCK_FIELDS)
     return slots
+
+
+def _own_stock(fields):
+    """The sets ("set[2]") whose own stock fields are filled in."""
+    return {f"set[{i}]" for i in range(1, webform.set_count(fields) + 1) if fields.get(f"set[{i}].stock.lengths")}
 
 
 def _remove_set(fields, which):

@@ -70,11 +70,24 @@ def slot_for(key, slots):
     return "form"
 
 
-def place_errors(errors, slots):
-    """{slot: [message, ...]} for error records ``{"key", "message"}``."""
+def _set_error_slot(key, message, slots, own_stock):
+    """Errors keyed by a whole set that concern one group of its fields: the pitches or the stock."""
+    if "needs exactly one of: notes" in message and f"{key}.pitch" in slots:
+        return f"{key}.pitch"
+    if "longest stock" in message:
+        return f"{key}.stock.lengths" if key in own_stock else "stock.lengths"
+    return None
+
+
+def place_errors(errors, slots, own_stock=()):
+    """{slot: [message, ...]} for error records ``{"key", "message"}``; ``own_stock`` names the
+    sets ("set[2]") that have their own stock fields."""
     out = {}
     for e in errors:
-        out.setdefault(slot_for(e["key"], slots), []).append(e["message"])
+        slot = slot_for(e["key"], slots)
+        if re.fullmatch(r"set\[\d+\]", e["key"]):
+            slot = _set_error_slot(e["key"], e["message"], slots, own_stock) or slot
+        out.setdefault(slot, []).append(e["message"])
     return out
 
 

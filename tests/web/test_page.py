@@ -70,6 +70,15 @@ def test_a_warning_sits_beside_the_field_it_concerns(client):
     assert "too short" in _slot(html, "stock.allowance") and "too short" not in _slot(html, "set[1].notes")
 
 
+def test_errors_about_a_whole_set_sit_beside_the_fields_they_concern(client):
+    both = {**_porch_fields(), "set[1].scale": "major", "set[1].root": "D5", "set[1].count": "5"}
+    res = client.post("/preview", data=both).get_json()
+    assert list(res["errors"]) == ["set[1].pitch"]  # notes and a scale at once: beside the pitches
+    short = {**_porch_fields(), "stock.lengths": "1 ft x 4"}  # every porch tube is longer than 1 ft
+    res = client.post("/preview", data=short).get_json()
+    assert list(res["errors"]) == ["stock.lengths"]
+
+
 def test_add_and_remove_a_set_without_javascript(client):
     fields = _porch_fields()
     html = client.post("/", data={**fields, "action": "add-set"}).get_data(as_text=True)
