@@ -218,3 +218,19 @@ def test_trim_from_the_microphone(browser_with_microphone, server, porch_strike)
     # the browser's resampling and the 16-bit WAV made in the page
     assert abs(1200 * math.log2(measured / porch_strike[1])) < 5
     assert "flat by" in d.find_element(By.ID, "trim-answer").text
+
+
+def test_play_buttons_fetch_the_sound_without_leaving_the_page(browser, server):
+    from selenium.webdriver.common.by import By
+
+    d = browser
+    d.get(server + "/?example=porch-chimes")
+    here = d.current_url
+    d.find_element(By.CSS_SELECTOR, 'button[name="listen"][value="porch-1"]').click()
+    d.find_element(By.CSS_SELECTOR, 'button[name="listen"][value="porch"]').click()
+    fetched = "return performance.getEntriesByType('resource').filter(function (e) {" \
+              " return /\\/listen$/.test(e.name) && e.responseStatus === 200; }).length;"
+    _wait(d, lambda drv: drv.execute_script(fetched) >= 2)
+    assert d.current_url == here and len(d.window_handles) == 1  # no new tab with JavaScript on
+    errors = [e for e in d.get_log("browser") if e["level"] == "SEVERE" and "NotAllowedError" not in e["message"]]
+    assert errors == []
