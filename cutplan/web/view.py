@@ -130,7 +130,7 @@ def preview(plan, design, units=None):
         templates.append({"name": name.removeprefix("templates/"), "svg": text})
     return {
         "title": plan.title, "units": units, "a4": f"{plan.a4:g}", "temperament": plan.temperament,
-        "sets": [{"name": s.name, "kind": s.kind, "material": s.material, "section": s.section_text,
+        "sets": [{"name": s.name, "kind": s.kind, "material": s.material, "section": s.section_label(units),
                   "assumptions": list(s.assumptions), "node_heading": node_heading(s.kind),
                   "allowance_rule": getattr(s, "allowance_rule", ""),
                   "trim_end": s.pieces[0].trim_end if s.pieces else "",
