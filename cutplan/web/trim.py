@@ -106,7 +106,8 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now=""):
     units = plan.units
     name, off = pitch.nearest_note(hz, plan.a4)
     lines = [f"measured {hz:.2f} Hz = {name} {off:+.1f} cents"
-             + (f" (confidence {confidence:.2f})" if recording else ""),
+             + (f" (confidence {confidence:.2f}); partials " + ", ".join(f"{f:.1f}" for f in partials) + " Hz"
+                if recording else ""),
              # the trim command's own lines, word for word
              f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {hz:.2f} Hz "
              f"at {format_length(advice.length_now, units)}",
