@@ -66,20 +66,18 @@ def create_app(materials_dirs=(), loopback_only=True):
     app = Flask(__name__)
     app.request_class = MemoryRequest
     app.config.update(MAX_CONTENT_LENGTH=MAX_UPLOAD_BYTES, MAX_FORM_MEMORY_SIZE=MAX_DESIGN_BYTES,
-                      MAX_FORM_PARTS=2000, JSON_SORT_KEYS=False)
+                      MAX_FORM_PARTS=2000)
     if loopback_only:
         app.config["TRUSTED_HOSTS"] = LOOPBACK_NAMES
     planner = Planner(materials_dirs)
     library = load_library(list(materials_dirs))
     examples = _examples()
-    app.extensions["cutplan"] = planner
     app.jinja_env.filters["both"] = _both_units
     choices = {
         "materials": sorted((n, m.description) for n, m in library.materials.items()),
         "stock_sizes": sorted((n, s.description) for n, s in library.stock.items()),
         "scales": [(s, s) for s in pitch.SCALES], "examples": list(examples),
         "temperaments": ["equal", "equal-19", "equal-24", "just", "pythagorean"],
-        "kinds": ["chime", "bar", "air-column", "resonator"],
     }
 
     @app.before_request
@@ -104,7 +102,7 @@ def create_app(materials_dirs=(), loopback_only=True):
         return jsonify(errors=[error("(request)", f"is over {limit} bytes; a design is a few kB, "
                                      f"a recording of one strike well under {MAX_UPLOAD_BYTES // 2**20} MB")]), 413
 
-    def page(fields, status=200, errors=(), plan_pair=None, trim=None, **extra):
+    def page(fields, status=200, errors=(), plan_pair=None, trim=None):
         slots = _slots(fields)
         placed = view.place_errors(errors, slots, _own_stock(fields))
         warnings, preview = {}, None
@@ -113,7 +111,7 @@ def create_app(materials_dirs=(), loopback_only=True):
             warnings = view.place_warnings(the_plan, design)
             preview = view.preview(the_plan, design, fields.get("units") or None)
         html = render_template("page.html", f=fields, n_sets=webform.set_count(fields), errors=placed,
-                               warnings=warnings, preview=preview, choices=choices, trim=trim, **extra)
+                               warnings=warnings, preview=preview, choices=choices, trim=trim)
         return html, status
 
     def plan_form(fields):
