@@ -234,3 +234,56 @@ def test_play_buttons_fetch_the_sound_without_leaving_the_page(browser, server):
     assert d.current_url == here and len(d.window_handles) == 1  # no new tab with JavaScript on
     errors = [e for e in d.get_log("browser") if e["level"] == "SEVERE" and "NotAllowedError" not in e["message"]]
     assert errors == []
+
+
+def test_enter_in_a_field_keeps_every_set(browser, server):
+    from selenium.webdriver.common.by import By
+    from selenium.webdriver.common.keys import Keys
+
+    d = browser
+    d.get(server + "/?example=workshop-marimba")  # two sets: a remove button comes early in the form
+    d.find_element(By.ID, "title").send_keys(" 2", Keys.ENTER)
+    _wait(d, lambda drv: _settled(drv) and drv.find_element(By.CSS_SELECTOR, "#preview h2").text.endswith(" 2"))
+    assert len(d.find_elements(By.CSS_SELECTOR, "fieldset.set")) == 2
+
+
+@pytest.fixture(scope="module")
+def browser_without_javascript():
+    chromium, driver = find_browser()
+    if chromium is None:
+        skip_or_fail(driver)
+    from selenium import webdriver
+    from selenium.webdriver.chrome.service import Service
+
+    options = webdriver.ChromeOptions()
+    for flag in HEADLESS_FLAGS:
+        options.add_argument(flag)
+    options.add_experimental_option("prefs", {"profile.managed_default_content_settings.javascript": 2})
+    profile = tempfile.TemporaryDirectory(prefix="cutplan-chromium-")
+    options.add_argument(f"--user-data-dir={profile.name}")
+    options.binary_location = chromium
+    d = webdriver.Chrome(service=Service(driver), options=options)
+    yield d
+    d.quit()
+    profile.cleanup()
+
+
+def test_the_form_works_without_javascript(browser_without_javascript, server):
+    from selenium.webdriver.common.by import By
+    from selenium.webdriver.common.keys import Keys
+
+    d = browser_without_javascript
+    d.get(server + "/?example=workshop-marimba")
+    assert "js" not in d.find_element(By.TAG_NAME, "html").get_attribute("class").split()  # the page's script did not run
+    field = d.find_element(By.ID, "set[1].range")
+    field.clear()
+    field.send_keys("D4..D5", Keys.ENTER)  # Enter submits through the Plan button, not "Remove this set"
+    _wait(d, lambda drv: _rows(drv) and _rows(drv)[0][1] == "D4")
+    assert len(d.find_elements(By.CSS_SELECTOR, "fieldset.set")) == 2
+    kerf = d.find_element(By.ID, "stock.kerf")
+    kerf.clear()
+    kerf.send_keys("3")
+    d.find_element(By.CSS_SELECTOR, 'button.primary[value="preview"]').click()
+    box = '.msgs[data-slot="stock.kerf"] .msg.error'
+    _wait(d, lambda drv: drv.find_elements(By.CSS_SELECTOR, box))
+    assert d.find_element(By.CSS_SELECTOR, box).text.startswith('stock.kerf: "3"')

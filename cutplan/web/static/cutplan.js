@@ -107,6 +107,16 @@
     }
   });
 
+  form.addEventListener("keydown", function (ev) {
+    /* Enter in a text field plans now instead of submitting (the page is already live) */
+    if (ev.key === "Enter" && ev.target.tagName === "INPUT" && ev.target.type === "text") {
+      ev.preventDefault();
+      if ((ev.target.name || "").indexOf("trim.") === 0) { sendTrim(null); return; }
+      clearTimeout(timer);
+      refresh();
+    }
+  });
+
   form.addEventListener("click", function (ev) {
     var b = ev.target.closest ? ev.target.closest("button") : null;
     if (!b) { return; }
