@@ -13,8 +13,10 @@ from cutplan.cli.common import MATERIALS_OPTION, fail
 @click.option("--host", default="127.0.0.1", show_default=True,
               help="Address to listen on; anything but loopback lets other machines in (a warning is printed).")
 @click.option("--open", "open_browser", is_flag=True, help="Open the page in the default browser.")
+@click.option("--workers", type=click.IntRange(0, 64), default=None,
+              help="Processes that plan designs (default: one per core, at most 4; 0: plan in the server process).")
 @MATERIALS_OPTION
-def serve_command(port, host, open_browser, materials_dirs):
+def serve_command(port, host, open_browser, workers, materials_dirs):
     """Serve the design page on this machine: design, preview, listen, trim and print in a browser.
 
     \b
@@ -33,6 +35,6 @@ def serve_command(port, host, open_browser, materials_dirs):
     if warning:
         click.echo(warning, err=True)
     try:
-        serve(host, port, open_browser, materials_dirs, echo=lambda line: click.echo(line, err=True))
+        serve(host, port, open_browser, materials_dirs, echo=lambda line: click.echo(line, err=True), workers=workers)
     except OSError as exc:
         fail(f"--host/--port: cannot listen on {host}:{port} ({exc.strerror or exc})")

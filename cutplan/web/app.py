@@ -58,8 +58,9 @@ def _starter():
     return tomllib.loads(CHIME)
 
 
-def create_app(materials_dirs=(), loopback_only=True):
-    """The Flask application. ``materials_dirs`` are the server's extra material folders."""
+def create_app(materials_dirs=(), loopback_only=True, workers=0):
+    """The Flask application. ``materials_dirs`` are the server's extra material folders;
+    ``workers`` > 0 plans in that many worker processes (stop them with ``app.planner.close()``)."""
     from cutplan import pitch
     from cutplan.materials import load_library
 
@@ -69,7 +70,8 @@ def create_app(materials_dirs=(), loopback_only=True):
                       MAX_FORM_PARTS=2000)
     if loopback_only:
         app.config["TRUSTED_HOSTS"] = LOOPBACK_NAMES
-    planner = Planner(materials_dirs)
+    planner = Planner(materials_dirs, workers=workers)
+    app.planner = planner
     library = load_library(list(materials_dirs))
     examples = _examples()
     app.jinja_env.filters["both"] = _both_units

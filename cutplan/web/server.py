@@ -5,6 +5,8 @@ explicit choice and gets a warning."""
 from __future__ import annotations
 
 import ipaddress
+import os
+import signal
 import socket
 import threading
 import webbrowser
@@ -57,25 +59,39 @@ def _listening_socket(host, port):
     return sock
 
 
-def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_dirs=(), echo=print):
+def _stop(_signum, _frame):
+    raise KeyboardInterrupt
+
+
+def default_workers():
+    """Planning processes: one per core, at most :data:`THREADS` (each request holds one)."""
+    return max(1, min(THREADS, os.cpu_count() or 1))
+
+
+def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_dirs=(), echo=print, workers=None):
     """Serve the page until interrupted (blocks)."""
     from waitress import create_server
 
-    app = create_app(materials_dirs, loopback_only=is_loopback(host))
+    workers = default_workers() if workers is None else workers
+    app = create_app(materials_dirs, loopback_only=is_loopback(host), workers=workers)
     sock = _listening_socket(host, port)
     try:
         server = create_server(app, sockets=[sock], threads=THREADS, max_request_body_size=MAX_UPLOAD_BYTES,
                                ident="cutplan", clear_untrusted_proxy_headers=True)
     except BaseException:
         sock.close()
+        app.planner.close()
         raise
     url = page_url(host, sock.getsockname()[1])
     echo(f"cutplan page at {url} (Ctrl+C to stop)")
     if open_browser:
         threading.Timer(0.5, webbrowser.open, args=(url,)).start()
+    if threading.current_thread() is threading.main_thread():
+        signal.signal(signal.SIGTERM, _stop)  # a plain kill stops the workers too
     try:
         server.run()
     except KeyboardInterrupt:
         pass
     finally:
         server.close()
+        app.planner.close()

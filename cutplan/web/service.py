@@ -51,13 +51,18 @@ class Planner:
     """Validates and plans designs given as mappings; keeps the last few plans.
 
     ``materials_dirs`` are the server's extra material folders (``cutplan serve --materials``).
+    With ``workers`` > 0, plans are computed in that many worker processes, so that several
+    requests use several cores (planning holds the interpreter lock) and the server stays
+    responsive; with 0 they are computed in the calling thread. Call :meth:`close` when done.
     """
 
-    def __init__(self, materials_dirs=(), cache_size=CACHE_SIZE):
+    def __init__(self, materials_dirs=(), cache_size=CACHE_SIZE, workers=0):
         self.materials_dirs = tuple(materials_dirs)
         self.cache_size = cache_size
+        self.workers = workers
         self._cache = OrderedDict()
         self._lock = threading.Lock()
+        self._pool = None
 
     def design(self, data):
         """A validated Design, or :class:`WebErrors`."""
@@ -77,26 +82,77 @@ class Planner:
         except MaterialError as exc:  # a broken server-side folder, not the request's fault
             raise WebErrors([error("(materials)", str(exc))]) from None
 
-    def plan(self, data):
-        """(Design, Plan) for a design mapping, or :class:`WebErrors`. Repeated designs are cached."""
+    def compute(self, data):
+        """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers)."""
         import cutplan
         from cutplan.design import DesignErrors
 
+        design = self.design(data)
+        try:
+            return design, cutplan.plan(design)
+        except DesignErrors as exc:
+            raise WebErrors(design_errors(exc)) from None
+
+    def _in_worker(self, data):
+        from concurrent.futures.process import BrokenProcessPool
+
+        with self._lock:
+            if self._pool is None:
+                self._pool = _worker_pool(self.workers)
+            pool = self._pool
+        try:
+            kind, value = pool.submit(_plan_in_worker, data, self.materials_dirs).result()
+        except BrokenProcessPool:  # a worker died (killed, out of memory): plan here instead
+            with self._lock:
+                self._pool = None
+            return self.compute(data)
+        if kind == "errors":
+            raise WebErrors(value)
+        return value
+
+    def plan(self, data):
+        """(Design, Plan) for a design mapping, or :class:`WebErrors`. Repeated designs are cached."""
         key = _cache_key(data)
         with self._lock:
             if key in self._cache:
                 self._cache.move_to_end(key)
                 return self._cache[key]
-        design = self.design(data)
-        try:
-            result = (design, cutplan.plan(design))
-        except DesignErrors as exc:
-            raise WebErrors(design_errors(exc)) from None
+        result = self._in_worker(data) if self.workers > 0 else self.compute(data)
         with self._lock:
             self._cache[key] = result
             while len(self._cache) > self.cache_size:
                 self._cache.popitem(last=False)
         return result
+
+    def close(self):
+        """Stop the worker processes, if any."""
+        with self._lock:
+            pool, self._pool = self._pool, None
+        if pool is not None:
+            pool.shutdown(wait=True, cancel_futures=True)
+
+
+def _quiet_worker():
+    """Workers leave Ctrl+C to the server, which stops them itself."""
+    import signal
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+
+
+def _worker_pool(workers):
+    import multiprocessing
+    from concurrent.futures import ProcessPoolExecutor
+
+    # spawn: a clean interpreter per worker (forking a threaded server is unsafe), as on Windows
+    return ProcessPoolExecutor(workers, mp_context=multiprocessing.get_context("spawn"), initializer=_quiet_worker)
+
+
+def _plan_in_worker(data, materials_dirs):
+    """Runs in a worker process: ("plan", (Design, Plan)) or ("errors", [records])."""
+    try:
+        return "plan", Planner(materials_dirs, cache_size=0).compute(data)
+    except WebErrors as exc:
+        return "errors", exc.errors
 
 
 _ORDER = {

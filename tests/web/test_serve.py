@@ -45,3 +45,21 @@ def test_serve_bad_options_exit_2(tmp_path):
 def test_page_url():
     assert server.page_url("0.0.0.0", 8750) == "http://127.0.0.1:8750/"
     assert server.page_url("::1", 8750) == "http://[::1]:8750/"
+
+
+def test_worker_processes_plan_the_same_as_the_server_process():
+    from cutplan.web.service import Planner, WebErrors
+    from tests.web.conftest import PORCH, example_mapping
+
+    data = example_mapping(PORCH)
+    here = Planner().plan(data)
+    pool = Planner(workers=1)
+    try:
+        there = pool.plan(data)
+        assert there[1] == here[1] and there[0].sets == here[0].sets
+        data["set"][0]["notes"] = ["H5"]
+        with pytest.raises(WebErrors) as caught:
+            pool.plan(data)
+        assert [e["key"] for e in caught.value.errors] == ["set[1].notes"]
+    finally:
+        pool.close()
