@@ -137,6 +137,8 @@ class Plan:
     cut_list: object = None
     warnings: tuple = field(default=())
     inch_denominator: int = INCH_DENOMINATOR
+    shopping: tuple = ()  # cutplan.shopping.Item, ...
+    cautions: tuple = ()  # cutplan.shopping.Caution, ...
 
     @property
     def pieces(self):
@@ -594,5 +596,6 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                               units=design.units)
     except stock.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
-    return Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
-                temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts)
+    from cutplan.shopping import with_shop_lists  # noqa: I001 (shopping list and cautions)
+    return with_shop_lists(Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
+                temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts))

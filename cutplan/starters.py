@@ -25,7 +25,8 @@ section = { stock = "al-1.000x0.065" }  # or { shape = "tube", outer = "1 in", w
 lengths = [{ length = "8 ft", count = 1 }]
 kerf = "1/16 in"          # saw blade width
 end_trim = "1/8 in"       # squaring the factory end
-allowance = "0.5 %"       # cut long by this, then trim up to pitch
+allowance = "risk 5 %"    # cut long enough that 1 piece in 20 at most comes out sharp;
+                          # or a fixed "0.5 %" or "3 mm" (the plan then states its chance)
 '''
 
 BAR = '''# cutplan design: a starter bar set. Edit, then run: cutplan plan THIS-FILE
@@ -74,7 +75,7 @@ humidity = 60               # percent; leave out for dry air
 lengths = [{ length = "10 ft" }]
 kerf = "3 mm"
 end_trim = "5 mm"
-allowance = "1 %"
+allowance = "risk 5 %"    # or a fixed "1 %" (the plan then states its chance of a sharp pipe)
 '''
 
 STARTERS = {"chime": CHIME, "bar": BAR, "air-column": AIR_COLUMN}

@@ -104,6 +104,33 @@ def test_every_output_states_the_same_cut_length(design, units, allowance, tmp_p
         # the allowance a piece is cut with is cut minus finished length everywhere
         added = piece["allowance_mm"]["added"]
         assert added == pytest.approx(piece["cut_length_mm"] - piece["length_mm"], abs=0.011)
+    _check_packet_text(design, out)
+
+
+def _check_packet_text(design, out):
+    """The packet's cut list, tuning sheet and templates state each piece's cut length and its one
+    allowance with the same strings, the plan's units first."""
+    import pypdf
+
+    import cutplan
+    from cutplan.units import format_length
+
+    plan = cutplan.plan(cutplan.load_design(design))
+    pages = [page.extract_text() for page in pypdf.PdfReader(out / "packet.pdf").pages]
+    cut_pages = "\n".join(t for t in pages if "Cut list: " in t)
+    tuning = "\n".join(t for t in pages if "Tuning sheet: " in t)
+    strips = "\n".join(t for t in pages if "Marking strips" in t)
+    for p in plan.pieces:
+        first, second = format_length(p.cut_length, plan.units).removesuffix(")").split(" (")
+        assert f"{first}\n{second}" in cut_pages, (p.label, first, second)
+        allowance = format_length(p.allowance, plan.units).split(" (")[0]
+        if not p.stopper:
+            assert f"(+{allowance})" in cut_pages, (p.label, allowance)
+            assert f"rough cut {format_length(p.cut_length, plan.units)}" in strips, p.label
+            # the tuning sheet row of this piece carries the same allowance
+            row = tuning[tuning.index(f"\n{p.label}\n"):][:400]
+            assert f"\n{allowance}\n" in row, (p.label, allowance, row)
+            assert f"chance sharp {p.sharp_risk * 100:.0f} %" in " ".join(row.split())
 
 
 def test_a_risk_allowance_is_stated_as_written(tmp_path):

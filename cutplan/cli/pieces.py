@@ -115,19 +115,32 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
 
 
 @click.command("new")
-@click.argument("kind", type=click.Choice(["chime", "bar", "air-column"]))
+@click.argument("kind", required=False, metavar="[KIND]")
 @click.argument("file", required=False, type=click.Path(dir_okay=False))
+@click.option("--from", "example", metavar="NAME", help="Copy the bundled example NAME (see `cutplan examples`).")
 @click.option("--force", is_flag=True, help="Overwrite FILE if it exists.")
-def new_command(kind, file, force):
-    """Write a commented starter design file for KIND (to FILE or the screen).
+def new_command(kind, file, example, force):
+    """Write a commented starter design for KIND (chime, bar, air-column), or a copy of a bundled
+    example, to FILE or the screen.
 
     \b
-    Example:
+    Examples:
       cutplan new chime porch.toml
+      cutplan new --from porch-chimes porch.toml
     """
+    from cutplan.cli.examples import example_text
     from cutplan.starters import STARTERS
 
-    text = STARTERS[kind]
+    if example is not None:
+        if file is not None:
+            fail(f"new: give FILE once; with --from the only argument is FILE (got {kind!r} and {file!r})")
+        text, file = example_text(example), kind
+    elif kind is None:
+        fail(f"new: give KIND ({', '.join(STARTERS)}) or --from NAME")
+    elif kind not in STARTERS:
+        fail(f"new: KIND {kind!r} is not one of {', '.join(STARTERS)} (or use --from NAME)")
+    else:
+        text = STARTERS[kind]
     if file is None:
         click.echo(text, nl=False)
         return

@@ -1,8 +1,19 @@
 """Plan -> full-scale SVG templates (one per piece, plus plates and wrap guides), in millimetres.
 
-Each file has ``width``/``height`` in mm and a viewBox in mm, so one user unit is one
-millimetre and the file prints or cuts at 100 %.  Strokes are hairlines (0.1 mm) for a laser
-cutter or plotter.  svgwrite stays inside this module.
+Each file has ``width``/``height`` in mm and a viewBox in mm, so one user unit is one millimetre
+and the file prints or cuts at 100 %.  Everything sits in one of three top-level groups, one
+stroke colour per role, so a laser cutter can be told what to do with each:
+
+- ``cut``  (default red ``#ff0000``): outlines to cut through: the template or profile outline,
+  the hanging plate and its hole outlines, the wrap guide;
+- ``mark`` (default blue ``#0000ff``): lines to score or draw: ticks, node and end lines,
+  cross-hairs, pitch circles, rulers;
+- ``text`` (default black ``#000000``): labels, to engrave or print.
+
+These defaults follow common laser-cutter practice (red cut, blue score, black engrave); pass
+``colours={"cut": ..., "mark": ..., "text": ...}`` to change them.  Cut and mark strokes are
+hairlines (0.1 mm).  Line styles and ruler ticks come from :mod:`cutplan.render.marks`, as in the
+PDF.  svgwrite stays inside this module.
 """
 
 from __future__ import annotations
@@ -10,6 +21,7 @@ from __future__ import annotations
 import svgwrite
 
 from cutplan.render import marks as mk
+from cutplan.units import MM
 
 HAIRLINE = 0.1
 """Stroke width for cut and mark lines [mm]."""
@@ -18,156 +30,197 @@ TEXT = 3.0
 MARGIN = 10.0
 """Blank border round every template [mm]."""
 INCH_MM = 25.4
+COLOURS = {"cut": "#ff0000", "mark": "#0000ff", "text": "#000000"}
+"""Default stroke or fill colour per role (common laser-cutter practice)."""
+LABEL = 2.5
+"""Mark label height [mm]."""
+LANE = 3.6
+"""Label lane height above a strip [mm]."""
+CHAR_WIDTH = 0.56
+"""Average Helvetica character width as a fraction of the text height (for label lanes)."""
 
 
-def _drawing(width, height):
-    width, height = round(width, 3), round(height, 3)
-    dwg = svgwrite.Drawing(size=(f"{width:.3f}mm", f"{height:.3f}mm"), profile="full", debug=False)
-    dwg.viewbox(0, 0, width, height)
-    dwg.add(dwg.rect((0, 0), (width, height), fill="white"))
-    return dwg
+class _Doc:
+    """An SVG drawing with the three role groups."""
+
+    def __init__(self, width, height, colours=None):
+        width, height = round(width, 3), round(height, 3)
+        self.colours = {**COLOURS, **(colours or {})}
+        self.dwg = svgwrite.Drawing(size=(f"{width:.3f}mm", f"{height:.3f}mm"), profile="full", debug=False)
+        self.dwg.viewbox(0, 0, width, height)
+        self.groups = {}
+        for role in ("cut", "mark", "text"):
+            if role == "text":
+                g = self.dwg.g(id=role, fill=self.colours[role], stroke="none")
+            else:
+                g = self.dwg.g(id=role, fill="none", stroke=self.colours[role], stroke_width=HAIRLINE)
+            self.groups[role] = g
+            self.dwg.add(g)
+
+    def line(self, a, b, role="mark", kind=None):
+        line = self.dwg.line(a, b)
+        style = mk.STYLES.get(kind) if kind else None
+        if style and style.dash:
+            line.dasharray(list(style.dash))
+        self.groups[role].add(line)
+
+    def rect(self, at, size, role="cut", dash=None):
+        r = self.dwg.rect(at, size)
+        if dash:
+            r.dasharray(dash)
+        self.groups[role].add(r)
+
+    def circle(self, at, r, role="cut", dash=None):
+        c = self.dwg.circle(at, r)
+        if dash:
+            c.dasharray(dash)
+        self.groups[role].add(c)
+
+    def polyline(self, points, role="cut"):
+        self.groups[role].add(self.dwg.polyline(points))
+
+    def text(self, text, at, size=TEXT, anchor="start"):
+        self.groups["text"].add(self.dwg.text(text, insert=at, font_size=size,
+                                              font_family="Helvetica, Arial, sans-serif", text_anchor=anchor))
+
+    def tostring(self):
+        return self.dwg.tostring()
 
 
-def _line(dwg, a, b, width=HAIRLINE, dash=None):
-    line = dwg.line(a, b, stroke="black", stroke_width=width)
-    if dash:
-        line.dasharray(dash)
-    dwg.add(line)
-
-
-def _text(dwg, text, at, size=TEXT, anchor="start", rotate=None):
-    t = dwg.text(text, insert=at, font_size=size, font_family="Helvetica, Arial, sans-serif",
-                 text_anchor=anchor, fill="black")
-    if rotate is not None:
-        t.rotate(rotate, center=at)
-    dwg.add(t)
-
-
-def _rulers(dwg, x, y):
-    """A 100 mm ruler and a 4 in ruler side by side, starting at (x, y) [mm]; returns the height."""
-    _text(dwg, "check: 100 mm", (x, y - 1.5), 2.5)
-    _line(dwg, (x, y), (x + 100, y))
-    for i in range(0, 101):
-        tick = 8 if i % 50 == 0 else 5 if i % 10 == 0 else 2.5
-        _line(dwg, (x + i, y), (x + i, y + tick))
-    x2 = x + 115
-    _text(dwg, "check: 4 in", (x2, y - 1.5), 2.5)
-    _line(dwg, (x2, y), (x2 + 4 * INCH_MM, y))
-    for i in range(0, 4 * 16 + 1):
-        tick = 8 if i % 32 == 0 else 5 if i % 16 == 0 else 3.5 if i % 8 == 0 else 2
-        _line(dwg, (x2 + i * INCH_MM / 16, y), (x2 + i * INCH_MM / 16, y + tick))
+def _rulers(doc, x, y):
+    """The 100 mm and 4 in rulers side by side from (x, y) [mm] (ticks as in the PDF); returns the height."""
+    for k, (caption, span, ticks) in enumerate(mk.ruler_ticks()):
+        x0 = x + k * 115
+        doc.text(caption.split(":")[0] + ": check", (x0, y - 1.5), 2.5)
+        doc.line((x0, y), (x0 + span, y))
+        for at, tick in ticks:
+            doc.line((x0 + at, y), (x0 + at, y + tick))
     return 10.0
 
 
-def render_piece_svg(plan, piece):
-    """Full-length marking strip for one piece: ends, centre, nodes with cross-hairs, rough cut."""
+def render_piece_svg(plan, piece, colours=None):
+    """Full-length marking strip for one piece (and an arched bar's side profile): ends, centre,
+    nodes with cross-hairs, rough cut, or a stoppered tube's stopper depths and open end."""
+    units = plan.units
     length = mk.strip_length_mm(piece)
     strip_h = 20.0
-    profile_h = piece.arch.thickness * 1000 + 16 if piece.arch is not None else 0.0
-    width = max(length, 4 * INCH_MM + 115) + 2 * MARGIN
-    height = 2 * MARGIN + 20 + strip_h + 30 + 14 + profile_h
-    dwg = _drawing(width, height)
-    x0, y0 = MARGIN, MARGIN + 20
-    _text(dwg, f"{plan.title}: {piece.label} ({piece.note}, {piece.target_hz:.2f} Hz)", (MARGIN, MARGIN + 3), 4)
-    _text(dwg, "Print or cut at 100 % (actual size); check the rulers.", (MARGIN, MARGIN + 9), 2.5)
-    finished = piece.length * 1000
-    dwg.add(dwg.rect((x0, y0), (finished, strip_h), fill="none", stroke="black", stroke_width=HAIRLINE))
-    for i in range(0, int(length) + 1, 10):
-        tick = 3 if i % 50 else 5
-        _line(dwg, (x0 + i, y0 + strip_h), (x0 + i, y0 + strip_h - tick))
-        if i % 50 == 0 and 0 < i < finished - 5:
-            _text(dwg, f"{i}", (x0 + i, y0 + strip_h - 6), 2, anchor="middle")
-    for n, m in enumerate(mk.piece_marks(piece)):
+    labels = mk.assign_lanes(mk.piece_marks(piece, units), 0.0, length,
+                             lambda t: len(t) * CHAR_WIDTH * LABEL, LANE)
+    lanes = max((lane for _, lane, _ in labels), default=-1) + 1
+    label_h = lanes * LANE + 3
+    profile_h = piece.arch.thickness / MM + 16 if piece.arch is not None else 0.0
+    width = max(length + 2, 4 * INCH_MM + 115) + 2 * MARGIN
+    height = 2 * MARGIN + 14 + label_h + strip_h + 12 + profile_h + 14
+    doc = _Doc(width, height, colours)
+    x0, y0 = MARGIN, MARGIN + 14 + label_h
+    doc.text(f"{plan.title}: {piece.label} ({piece.note}, {piece.target_hz:.2f} Hz)", (MARGIN, MARGIN + 3), 4)
+    how = ("cut the tube to its cut length, tune with the stopper" if piece.stopper else
+           "cut long, then trim to pitch (trimming raises the pitch)")
+    doc.text(f"Print or cut at 100 % (actual size); check the rulers. {how[0].upper() + how[1:]}.",
+             (MARGIN, MARGIN + 9), 2.5)
+    body = piece.cut_length / MM if piece.stopper else piece.length / MM
+    doc.rect((x0, y0), (body, strip_h), role="cut")
+    near = [m.at_mm for m in mk.piece_marks(piece, units)]
+    for j in mk.join_marks(0.0, length, 1, 1, 0.0):
+        tick = 5 if j.number else 3
+        doc.line((x0 + j.at, y0 + strip_h), (x0 + j.at, y0 + strip_h - tick))
+        if j.number and 0 < j.at < length - 3 and all(abs(j.at - x) >= 5 for x in near):
+            doc.text(f"{j.at:.0f}", (x0 + j.at, y0 + strip_h - 6), 2, anchor="middle")
+    lane_of = {(m.at_mm, m.kind): (lane, side) for m, lane, side in labels}
+    for m in mk.piece_marks(piece, units):
         x = x0 + m.at_mm
-        lane = y0 - 4 - 4 * (n % 3)
+        lane, side = lane_of.get((m.at_mm, m.kind), (None, None))
+        base = y0 - 1.2 - (lane or 0) * LANE
+        reach = base - 0.65 * LANE if lane is not None else y0 - 1
+        doc.line((x, y0 + strip_h + mk.STYLES[m.kind].below), (x, reach), kind=m.kind)
         if m.kind == "node":
-            _line(dwg, (x, y0 - 2), (x, y0 + strip_h + 2))
-            _line(dwg, (x - 3, y0 + strip_h / 2), (x + 3, y0 + strip_h / 2))
-            dwg.add(dwg.circle((x, y0 + strip_h / 2), 2.0, fill="none", stroke="black", stroke_width=HAIRLINE))
-        elif m.kind == "centre":
-            _line(dwg, (x, y0), (x, y0 + strip_h), dash=[2, 1])
-        elif m.kind == "rough-cut":
-            _line(dwg, (x, y0 - 2), (x, y0 + strip_h + 2), dash=[0.5, 0.8])
-        else:
-            _line(dwg, (x, y0 - 6), (x, y0 + strip_h + 6), width=0.3)
-        anchor = "end" if m.at_mm > length - 40 else "start"
-        _text(dwg, m.label, (x + (-1 if anchor == "end" else 1), lane), 2.5, anchor=anchor)
+            doc.line((x - 3, y0 + strip_h / 2), (x + 3, y0 + strip_h / 2))
+            doc.circle((x, y0 + strip_h / 2), 2.0, role="mark")
+        if lane is not None:
+            doc.text(m.label, (x + (0.5 if side == "right" else -0.5), base), LABEL,
+                     anchor="start" if side == "right" else "end")
+    y = y0 + strip_h + 12
     if piece.arch is not None:
-        _profile(dwg, piece, x0, y0 + strip_h + 16)
-    _rulers(dwg, MARGIN, y0 + strip_h + 20 + profile_h)
-    return dwg.tostring()
+        _profile(doc, piece, x0, y + 4)
+        y += profile_h
+    _rulers(doc, MARGIN, y + 2)
+    return doc.tostring()
 
 
-def _profile(dwg, piece, x0, top):
+def _profile(doc, piece, x0, top):
     """Full-size side view of an arched bar: top face straight, underside following the arch."""
     a = piece.arch
-    t = a.thickness * 1000
-    points = [(x0 + x * 1000, top + h * 1000) for x, h in a.outline]
-    outline = [(x0, top)] + points + [(x0 + piece.length * 1000, top)]
-    dwg.add(dwg.polyline(outline + [(x0, top)], fill="none", stroke="black", stroke_width=HAIRLINE))
-    blank = dwg.line((x0, top + t), (x0 + piece.length * 1000, top + t), stroke="black", stroke_width=HAIRLINE)
-    blank.dasharray([1, 1])
-    dwg.add(blank)
-    _text(dwg, f"side profile, full size: arch {a.depth * 1000:.1f} mm deep, leaves "
-               f"{(t - a.depth * 1000):.1f} mm at the centre (dashed: the blank's underside)", (x0, top - 2), 2.5)
+    t = a.thickness / MM
+    points = [(x0 + x / MM, top + h / MM) for x, h in a.outline]
+    outline = [(x0, top)] + points + [(x0 + piece.length / MM, top)]
+    doc.polyline(outline + [(x0, top)], role="cut")
+    doc.line((x0, top + t), (x0 + piece.length / MM, top + t), kind="centre")
+    doc.text(f"side profile, full size: arch {a.depth / MM:.1f} mm deep, leaves "
+             f"{(a.thickness - a.depth) / MM:.1f} mm at the centre (dashed: the blank's underside)", (x0, top - 2), 2.5)
+    last = -1e9
     for x, h in a.stations[1:]:
-        _line(dwg, (x0 + x * 1000, top + t), (x0 + x * 1000, top + t + 2))
-        _text(dwg, f"{h * 1000:.1f}", (x0 + x * 1000, top + t + 5), 2, anchor="middle")
+        at = x0 + x / MM
+        doc.line((at, top + t), (at, top + t + 2))
+        if at - last > 8:
+            doc.text(f"{h / MM:.1f}", (at, top + t + 5), 2, anchor="middle")
+            last = at
 
 
-def render_plate_svg(plan, set_plan):
-    """Round hanging plate for a chime set: tube holes on a pitch circle, striker hole at the centre."""
+def render_plate_svg(plan, set_plan, colours=None):
+    """Round hanging plate for a chime set: hole outlines on ``cut``; cross-hairs, the pitch
+    circle and the rulers on ``mark``; labels on ``text``."""
     plate = mk.hanging_plate(set_plan)
     size = max(plate.diameter_mm, 4 * INCH_MM + 115) + 2 * MARGIN
     height = plate.diameter_mm + 2 * MARGIN + 40
-    dwg = _drawing(size, height)
+    doc = _Doc(size, height, colours)
     cx, cy = MARGIN + plate.diameter_mm / 2, MARGIN + 15 + plate.diameter_mm / 2
-    _text(dwg, f"{plan.title}: hanging plate for {set_plan.name}, {plate.diameter_mm:.0f} mm across", (MARGIN, MARGIN + 3), 4)
-    _text(dwg, "Print or cut at 100 %; check the rulers. Drill all holes "
-               f"{plate.hole_mm:.0f} mm; the centre hole carries the striker line.", (MARGIN, MARGIN + 9), 2.5)
-    dwg.add(dwg.circle((cx, cy), plate.diameter_mm / 2, fill="none", stroke="black", stroke_width=HAIRLINE))
+    doc.text(f"{plan.title}: hanging plate for {set_plan.name}, {plate.diameter_mm:.0f} mm across",
+             (MARGIN, MARGIN + 3), 4)
+    doc.text("Print or cut at 100 %; check the rulers. Drill all holes "
+             f"{plate.hole_mm:.0f} mm; S: the plate's own hanging lines; the centre hole carries the striker line.",
+             (MARGIN, MARGIN + 9), 2.5)
+    doc.circle((cx, cy), plate.diameter_mm / 2, role="cut")
     if plate.pitch_radius_mm:
-        circle = dwg.circle((cx, cy), plate.pitch_radius_mm, fill="none", stroke="black", stroke_width=HAIRLINE)
-        circle.dasharray([2, 2])
-        dwg.add(circle)
-    for x, y, label in list(plate.holes) + [(0.0, 0.0, "striker")]:
+        doc.circle((cx, cy), plate.pitch_radius_mm, role="mark", dash=[2, 2])
+    holes = list(plate.holes) + [(0.0, 0.0, "striker")] + [(x, y, "S") for x, y in plate.suspension]
+    for x, y, label in holes:
         hx, hy = cx + x, cy - y
-        dwg.add(dwg.circle((hx, hy), plate.hole_mm / 2, fill="none", stroke="black", stroke_width=HAIRLINE))
-        _line(dwg, (hx - 4, hy), (hx + 4, hy))
-        _line(dwg, (hx, hy - 4), (hx, hy + 4))
-        _text(dwg, label, (hx, hy + plate.hole_mm + 3), 2.5, anchor="middle")
-    _rulers(dwg, MARGIN, cy + plate.diameter_mm / 2 + 12)
-    return dwg.tostring()
+        doc.circle((hx, hy), plate.hole_mm / 2, role="cut")
+        doc.line((hx - 4, hy), (hx + 4, hy))
+        doc.line((hx, hy - 4), (hx, hy + 4))
+        doc.text(label, (hx, hy + plate.hole_mm + 3), 2.5, anchor="middle")
+    _rulers(doc, MARGIN, cy + plate.diameter_mm / 2 + 12)
+    return doc.tostring()
 
 
-def render_wrap_svg(plan, set_plan):
+def render_wrap_svg(plan, set_plan, colours=None):
     """Wrap-around guide for marking two diametrically opposite holes on a tube."""
     circumference = mk.wrap_guide_mm(set_plan)
     width = max(circumference + 20, 4 * INCH_MM + 115) + 2 * MARGIN
     height = 2 * MARGIN + 60
-    dwg = _drawing(width, height)
+    doc = _Doc(width, height, colours)
     x0, y0 = MARGIN, MARGIN + 18
-    _text(dwg, f"{plan.title}: wrap guide for {set_plan.section_text}", (MARGIN, MARGIN + 3), 4)
-    _text(dwg, "Wrap round the tube at the hang-hole mark, ends meeting at A; mark at A and at B "
-               "for two opposite holes.", (MARGIN, MARGIN + 9), 2.5)
-    dwg.add(dwg.rect((x0, y0), (circumference + 10, 12), fill="none", stroke="black", stroke_width=HAIRLINE))
+    doc.text(f"{plan.title}: wrap guide for {set_plan.section_label(plan.units)}", (MARGIN, MARGIN + 3), 4)
+    doc.text("Wrap round the tube at the hang-hole mark, ends meeting at A; mark at A and at B "
+             "for two opposite holes.", (MARGIN, MARGIN + 9), 2.5)
+    doc.rect((x0, y0), (circumference + 10, 12), role="cut")
     for at, label in ((0.0, "A"), (circumference / 2, "B"), (circumference, "A")):
-        _line(dwg, (x0 + at, y0 - 3), (x0 + at, y0 + 15), width=0.3)
-        _text(dwg, label, (x0 + at, y0 - 4), 3, anchor="middle")
-    _text(dwg, "overlap", (x0 + circumference + 5, y0 + 8), 2, anchor="middle")
-    _rulers(dwg, MARGIN, y0 + 30)
-    return dwg.tostring()
+        doc.line((x0 + at, y0 - 3), (x0 + at, y0 + 15))
+        doc.text(label, (x0 + at, y0 - 4), 3, anchor="middle")
+    doc.text("overlap", (x0 + circumference + 5, y0 + 8), 2, anchor="middle")
+    _rulers(doc, MARGIN, y0 + 30)
+    return doc.tostring()
 
 
-def svg_files(plan):
+def svg_files(plan, colours=None):
     """All SVG templates as {relative file name: text}."""
     files = {}
     for s in plan.sets:
         for p in s.pieces:
             if p.kind in ("chime", "bar", "air-column", "resonator"):
-                files[f"templates/{p.label}.svg"] = render_piece_svg(plan, p)
+                files[f"templates/{p.label}.svg"] = render_piece_svg(plan, p, colours)
         if s.kind == "chime" and s.pieces:
-            files[f"templates/{s.name}-plate.svg"] = render_plate_svg(plan, s)
+            files[f"templates/{s.name}-plate.svg"] = render_plate_svg(plan, s, colours)
         if s.shape == "tube" and s.kind == "chime":
-            files[f"templates/{s.name}-wrap.svg"] = render_wrap_svg(plan, s)
+            files[f"templates/{s.name}-wrap.svg"] = render_wrap_svg(plan, s, colours)
     return files

@@ -14,6 +14,7 @@ from cutplan.planner import plan
 from cutplan.render import pdf as pdf_mod
 from cutplan.render import svg as svg_mod
 from cutplan.render.packet import packet_files
+from cutplan.render.pdf import templates
 
 DPI = 600
 PX_PER_MM = DPI / 25.4
@@ -91,12 +92,13 @@ def test_calibration_rulers_print_at_true_size(tmp_path, paper):
 
 def test_node_marks_print_where_the_plan_says(tmp_path):
     p, gray, page_h_mm = first_template_raster(tmp_path, "letter")
-    # first strip on the page: bottom edge y0 as drawn in pdf._templates
-    y0_pt = page_h_mm * pdf_mod.mm - 28 * pdf_mod.mm - pdf_mod.STRIP_PITCH_MM * pdf_mod.mm + 14 * pdf_mod.mm
-    top_mm_from_bottom = y0_pt / pdf_mod.mm + pdf_mod.STRIP_H_MM
+    # first strip on the page: its frame position from the template layout, its body's bottom edge
+    _size, pages = templates.orientation(p, "letter")
+    tile, x_mm, y_top_mm = pages[0][0]
+    top_mm_from_bottom = templates.strip_bottom_mm(tile, y_top_mm) + pdf_mod.STRIP_H_MM
     row = int(round((page_h_mm - top_mm_from_bottom - 0.8) * PX_PER_MM))
     runs = dark_runs(gray[row])
-    zero = pdf_mod.TEMPLATE_MARGIN / pdf_mod.mm * PX_PER_MM
+    zero = (pdf_mod.TEMPLATE_MARGIN / pdf_mod.mm + x_mm) * PX_PER_MM
     piece = p.pieces[0]
     expected = [0.0] + [x * 1000 for x in piece.nodes] + [piece.length * 1000]
     for want in expected:
@@ -193,9 +195,10 @@ section = { stock = "emt-1" }
     all_text = pdf_text(pdf_mod.render_pdf(p))
     from cutplan.render import marks
 
-    usable_mm = (pdf_mod.letter[0] - 2 * pdf_mod.TEMPLATE_MARGIN) / pdf_mod.mm
+    size, _pages = templates.orientation(p, "letter")  # the orientation that needs fewer sheets
+    usable_mm = (size[0] - 2 * pdf_mod.TEMPLATE_MARGIN) / pdf_mod.mm
     sheets = len(marks.tiles(marks.strip_length_mm(p.pieces[0]), usable_mm, pdf_mod.OVERLAP_MM))
-    assert sheets >= 12  # 2.4 m on sheets of about 172 mm advance
+    assert sheets >= 10  # 2.4 m on sheets of at most about 235 mm advance (landscape letter)
     assert f"sheet 1 of {sheets}" in all_text and f"sheet {sheets} of {sheets}" in all_text
 
 

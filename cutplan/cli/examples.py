@@ -1,0 +1,64 @@
+"""``cutplan examples``: list the example designs that come with cutplan, or print one.
+
+The examples ship inside the package (``cutplan/_examples`` in a wheel, ``examples/`` in a source
+checkout), so they are reachable from any folder; ``cutplan new --from NAME FILE`` copies one.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import click
+
+from cutplan.cli.common import fail
+
+
+def examples_dir():
+    """The bundled example designs: inside the wheel, or ``examples/`` of a source checkout."""
+    here = Path(__file__).resolve().parent.parent
+    for candidate in (here / "_examples", here.parent / "examples"):
+        if candidate.is_dir():
+            return candidate
+    raise FileNotFoundError("cutplan's example designs are missing from this installation")
+
+
+def example_names():
+    """{name: path} of every bundled example, by file name without ``.toml``."""
+    return {p.stem: p for p in sorted(examples_dir().glob("*.toml"))}
+
+
+def example_text(name):
+    """The text of the bundled example ``name``; a one-line error (exit code 2) if there is none."""
+    names = example_names()
+    if name not in names:
+        fail(f"--from: {name!r} is not a bundled example; use one of {', '.join(names)} (see `cutplan examples`)")
+    return names[name].read_text(encoding="utf-8")
+
+
+def _summary(path):
+    """The example's first comment line (its scenario)."""
+    for line in path.read_text(encoding="utf-8").splitlines():
+        if line.startswith("#"):
+            return line.lstrip("# ").strip()
+    return ""
+
+
+@click.command("examples")
+@click.argument("name", required=False)
+def examples_command(name):
+    """List the bundled example designs, or print one (NAME) to the screen.
+
+    \b
+    Examples:
+      cutplan examples
+      cutplan examples porch-chimes
+      cutplan new --from porch-chimes my-chimes.toml
+    """
+    if name is not None:
+        click.echo(example_text(name), nl=False)
+        return
+    names = example_names()
+    width = max(len(n) for n in names)
+    for n, path in names.items():
+        click.echo(f"{n:{width}}  {_summary(path)}")
+    click.echo("\ncopy one to edit: cutplan new --from NAME FILE", err=True)

@@ -1,0 +1,133 @@
+"""Layout audit of a PDF: words struck by drawn lines, words over other words, words in the margin.
+
+Text boxes come from pdfplumber (character boxes grouped into words); lines are the stroked
+segments of lines, rectangles and curves.  A box is shrunk by a small tolerance before testing,
+so a line that only grazes a box edge (a table grid beside its cell text) does not count.
+"""
+
+from __future__ import annotations
+
+import io
+
+import numpy as np
+import pdfplumber
+
+PT_PER_MM = 72 / 25.4
+MARGIN_MM = 6.0
+SHRINK = 0.6
+"""Points taken off each side of a word box before testing it against lines and other words."""
+
+
+def _segments(page):
+    segs = []
+    for obj in page.lines:
+        pts = obj["pts"]
+        segs += list(zip(pts, pts[1:], strict=False))
+    for r in page.rects:
+        if not r.get("stroke"):
+            continue
+        x0, x1, top, bottom = r["x0"], r["x1"], r["top"], r["bottom"]
+        corners = [(x0, top), (x1, top), (x1, bottom), (x0, bottom), (x0, top)]
+        segs += list(zip(corners, corners[1:], strict=False))
+    for cv in page.curves:
+        if not cv.get("stroke"):
+            continue
+        segs += _path_segments(cv.get("path") or [("m", cv["pts"][0])] + [("l", q) for q in cv["pts"][1:]])
+    return segs
+
+
+def _path_segments(path, steps=12):
+    """Straight pieces of a path: lines as they are, cubic Beziers sampled at ``steps`` points."""
+    segs, here, start = [], None, None
+    for op, *pts in path:
+        if op == "m":
+            here = start = pts[0]
+        elif op == "l":
+            segs.append((here, pts[0]))
+            here = pts[0]
+        elif op == "c" and here is not None:
+            (x0, y0), (x1, y1), (x2, y2), (x3, y3) = here, *pts
+            prev = here
+            for k in range(1, steps + 1):
+                t = k / steps
+                u = 1 - t
+                q = (u ** 3 * x0 + 3 * u * u * t * x1 + 3 * u * t * t * x2 + t ** 3 * x3,
+                     u ** 3 * y0 + 3 * u * u * t * y1 + 3 * u * t * t * y2 + t ** 3 * y3)
+                segs.append((prev, q))
+                prev = q
+            here = pts[-1]
+        elif op == "h" and here is not None and start is not None:
+            segs.append((here, start))
+            here = start
+    return segs
+
+
+def _hits(box, a, b):
+    """Does segment a-b cross the rectangle box = (x0, top, x1, bottom)? (Liang-Barsky clip)."""
+    x0, top, x1, bottom = box
+    (ax, ay), (bx, by) = a, b
+    dx, dy = bx - ax, by - ay
+    t0, t1 = 0.0, 1.0
+    for p, q in ((-dx, ax - x0), (dx, x1 - ax), (-dy, ay - top), (dy, bottom - ay)):
+        if p == 0:
+            if q < 0:
+                return False
+            continue
+        t = q / p
+        if p < 0:
+            t0 = max(t0, t)
+        else:
+            t1 = min(t1, t)
+        if t0 > t1:
+            return False
+    return True
+
+
+def _char_boxes(words):
+    boxes, owner = [], []
+    for n, w in enumerate(words):
+        for ch in w["chars"]:
+            if ch["text"].strip():
+                boxes.append((ch["x0"] + SHRINK / 2, ch["top"] + SHRINK, ch["x1"] - SHRINK / 2, ch["bottom"] - SHRINK))
+                owner.append(n)
+    return np.array(boxes, dtype=float).reshape(-1, 4), np.array(owner, dtype=int)
+
+
+def _overprinted_words(words):
+    """Indices of words with a character drawn over another character (of any word)."""
+    boxes, owner = _char_boxes(words)
+    if len(boxes) < 2:
+        return set()
+    x0, top, x1, bottom = boxes.T
+    hit = ((x0[:, None] < x1[None, :]) & (x0[None, :] < x1[:, None])
+           & (top[:, None] < bottom[None, :]) & (top[None, :] < bottom[:, None]))
+    np.fill_diagonal(hit, False)
+    return set(owner[hit.any(axis=1)].tolist())
+
+
+def audit_page(page):
+    """(struck, overprinted, in_margin) lists of word texts for one pdfplumber page."""
+    words = page.extract_words(use_text_flow=False, keep_blank_chars=False, x_tolerance=1.5, return_chars=True)
+    boxes = [(w["text"], (w["x0"] + SHRINK, w["top"] + SHRINK, w["x1"] - SHRINK, w["bottom"] - SHRINK))
+             for w in words]
+    segs = _segments(page)
+    struck = [t for t, box in boxes if any(_hits(box, a, b) for a, b in segs)]
+    over = [words[i]["text"] for i in sorted(_overprinted_words(words))]
+    m = MARGIN_MM * PT_PER_MM
+    w, h = page.width, page.height
+    margin = [wd["text"] for wd in words
+              if wd["x0"] < m or wd["x1"] > w - m or wd["top"] < m or wd["bottom"] > h - m]
+    return struck, over, margin
+
+
+def audit_pdf(data):
+    """{"pages": n, "struck": [(page, word)], "over": [...], "margin": [...]} for PDF bytes."""
+    out = {"pages": 0, "struck": [], "over": [], "margin": []}
+    with pdfplumber.open(io.BytesIO(data)) as pdf:
+        out["pages"] = len(pdf.pages)
+        for n, page in enumerate(pdf.pages, start=1):
+            struck, over, margin = audit_page(page)
+            out["struck"] += [(n, t) for t in struck]
+            out["over"] += [(n, t) for t in over]
+            out["margin"] += [(n, t) for t in margin]
+    return out
