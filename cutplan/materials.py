@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import math
 import tomllib
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from cutplan import units
@@ -28,10 +28,12 @@ WOOD_BENDING_TO_TRUE_MODULUS = 1.10
 modulus E_L [-]. USDA FPL Wood Handbook, FPL-GTR-190, 2010, Table 5-3a footnote (from memory:
 "increase by about 10 %")."""
 
-_MATERIAL_KEYS = {"description", "modulus", "density", "poisson", "shear_modulus", "shear_ratio"}
+_MATERIAL_KEYS = {"description", "modulus", "density", "poisson", "shear_modulus", "shear_ratio", "class", "unusual"}
 _VALUE_KEYS = {"value", "source", "where", "kind", "spread", "basis"}
 _STOCK_HEADER_KEYS = {"standard", "source", "where", "kind", "shape", "material", "bore", "wall_factor"}
-_STOCK_KEYS = {"description", "outer", "wall", "inner", "outer_tolerance", "wall_tolerance", "material"}
+_STOCK_KEYS = {"description", "outer", "wall", "inner", "outer_tolerance", "wall_tolerance", "material",
+               "speed_of_sound", "measured_at", "end_correction", "calibration_note"}
+_AIR_KEYS = ("speed_of_sound", "measured_at", "end_correction")
 
 
 class MaterialError(ValueError):
@@ -71,6 +73,8 @@ class Material:
     modulus_spread: float = 0.03
     density_spread: float = 0.01
     provenance: tuple = field(default=(), compare=False)
+    material_class: str | None = None
+    unusual: bool = False
 
     def modulus_for(self, model):
         """E [Pa] to use with ``model`` ("timoshenko" or "slender"); see the woods.toml header."""
@@ -134,6 +138,8 @@ def _read_toml(path):
         raise MaterialError(path, "(file)", "", f"is not valid TOML: {exc}") from None
     except UnicodeDecodeError:
         raise MaterialError(path, "(file)", "", "is not UTF-8 text") from None
+    except RecursionError:
+        raise MaterialError(path, "(file)", "", "is not a table file: its brackets nest too deep") from None
 
 
 def _value(path, key, entry, parse, sources, spread_default=None):
@@ -201,11 +207,27 @@ def material_from_table(name, table, path="(inline)", sources=None):
     basis = basis or "dynamic"
     if basis not in ("dynamic", "static-bending"):
         raise MaterialError(path, f"{name}.modulus.basis", basis, "must be dynamic or static-bending")
+    material_class, unusual = _class_of(path, name, table)
     return Material(
+        material_class=material_class, unusual=unusual,
         name=name, modulus=modulus, density=density, poisson=poisson,
         description=str(table.get("description", "")), shear_modulus=shear, shear_ratio=shear_ratio,
         modulus_basis=basis, modulus_spread=s_mod, density_spread=s_den, provenance=tuple(provs),
     )
+
+
+def _class_of(path, name, table):
+    """(class, unusual) of a material table: ``class = "metal"`` etc. (see cutplan.plausibility),
+    ``unusual = true`` when values outside the class's plausible range are meant."""
+    from cutplan.plausibility import CLASS_RANGES
+
+    cls = table.get("class")
+    if cls is not None and cls not in CLASS_RANGES:
+        raise MaterialError(path, f"{name}.class", cls, f"must be one of {', '.join(CLASS_RANGES)}")
+    unusual = table.get("unusual", False)
+    if not isinstance(unusual, bool):
+        raise MaterialError(path, f"{name}.unusual", unusual, "must be true or false")
+    return cls, unusual
 
 
 def _stock_file(path, data, sources, stock):
@@ -241,12 +263,52 @@ def _stock_file(path, data, sources, stock):
         bore = outer - 2 * wall * wall_factor
         if "inner" in row:
             bore = units.parse_length(row["inner"])
+        section = tube(outer, wall, name=name, bore=bore)
+        if any(k in row for k in _AIR_KEYS):
+            section = replace(section, air_calibration=_air_calibration(path, name, row))
         stock[name] = StockSize(
-            name=name, section=tube(outer, wall, name=name, bore=bore),
+            name=name, section=section,
             description=str(row.get("description", name)), standard=str(header.get("standard", "")),
             material=str(row.get("material", header.get("material", ""))),
             outer_tolerance=outer_tol, wall_tolerance=abs(wall_tol), provenance=prov,
         )
+
+
+def _parse_speed(text):
+    """Speed of sound "344.1 m/s" (or a bare number of m/s) [m/s]."""
+    if isinstance(text, (int, float)) and not isinstance(text, bool):
+        return float(text)
+    value = str(text).strip().removesuffix("m/s").strip()
+    try:
+        return float(value)
+    except ValueError:
+        raise units.UnitError(str(text), 'a speed such as "344.1 m/s"') from None
+
+
+def _air_calibration(path, name, row):
+    """The measured speed of sound and end correction of a stock size (all three keys together)."""
+    from cutplan.air_stock import AirCalibration
+
+    missing = [k for k in _AIR_KEYS if k not in row]
+    if missing:
+        raise MaterialError(path, f"sizes.{name}.{missing[0]}", "", "is missing; a calibrated size gives "
+                            + ", ".join(_AIR_KEYS))
+    parsers = {"speed_of_sound": _parse_speed, "measured_at": units.parse_temperature,
+               "end_correction": units.parse_length}
+    values = {}
+    for key, parse in parsers.items():
+        try:
+            values[key] = parse(row[key])
+        except units.UnitError as exc:
+            raise MaterialError(path, f"sizes.{name}.{key}", row[key], f"is not {exc.accepted}") from None
+    if not 250.0 <= values["speed_of_sound"] <= 450.0:
+        raise MaterialError(path, f"sizes.{name}.speed_of_sound", row["speed_of_sound"],
+                            "must be between 250 and 450 m/s (the speed of sound in air)")
+    if not 0.0 <= values["end_correction"] < 0.5:
+        raise MaterialError(path, f"sizes.{name}.end_correction", row["end_correction"],
+                            "must be from 0 to 500 mm per open end")
+    return AirCalibration(values["speed_of_sound"], values["measured_at"], values["end_correction"],
+                          str(row.get("calibration_note", "")))
 
 
 def load_library(extra_dirs=(), include_packaged=True):

@@ -65,6 +65,7 @@ class Section:
     thickness: float = 0.0
     name: str = ""
     bore: float = 0.0  # the bore an air column sees [m]; defaults to ``inner``
+    air_calibration: object = None  # an air_stock.AirCalibration measured on this stock, if any
 
     @property
     def area(self):

@@ -7,10 +7,12 @@ from pathlib import Path
 import click
 
 from cutplan.cli.common import (
+    DESIGN_DIRS_OPTION,
     MATERIALS_OPTION,
     _one_piece_design,
     _plan,
     fail,
+    material_folders,
     section_options,
     write_file,
 )
@@ -84,8 +86,10 @@ def materials_command(name, materials_dirs):
 @click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
 @click.option("--units", type=click.Choice(["mm", "in"]), default="mm", show_default=True,
               help="Units shown first.")
+@MATERIALS_OPTION
+@DESIGN_DIRS_OPTION
 def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_size, ends, temperature, model, a4,
-                   units):
+                   units, materials_dirs, design_path):
     """Length and hang point of one piece, without a design file.
 
     \b
@@ -93,11 +97,12 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
       cutplan length --note D5 --stock al-1.000x0.065
       cutplan length --kind bar --note C5 --material maple-sugar --bar "40 mm x 20 mm"
       cutplan length --kind air-column --note A4 --stock pvc-sch40-1 --ends closed-open
+      cutplan length --kind bar --note C5 --material maple-calibrated --materials my-materials --bar "50 mm x 22 mm"
     """
     if (note is None) == (frequency is None):
         fail("length: give exactly one of --note or --frequency")
     des = _one_piece_design("length", kind, note, frequency, material, stock_name, tube, rod, bar_size,
-                            ends, temperature, model, a4)
+                            ends, temperature, model, a4, material_folders(materials_dirs, design_path))
     the_plan = _plan(des)
     from cutplan.units import format_length
 
@@ -110,6 +115,10 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
     click.echo(f"  trimming    {p.cents_per_mm:.2f} cents per mm")
     if kind != "air-column":
         click.echo(f"  shear correction {p.shear_correction_cents:+.1f} cents against the slender model")
+    if p.other_modes:
+        from cutplan.render.terminal import other_modes_text
+
+        click.echo(f"  other modes {other_modes_text(p.other_modes)}")
     for w in p.warnings:
         click.echo(f"  ! {w}")
 

@@ -7,14 +7,17 @@ from pathlib import Path
 import click
 
 from cutplan.cli.common import (
+    DESIGN_DIRS_OPTION,
     MATERIALS_OPTION,
     _check_output_dir,
     _load,
     _one_piece_design,
     _plan,
     fail,
+    material_folders,
     section_options,
     write_file,
+    write_folder,
 )
 
 MEASURE_KINDS = ["chime", "bar", "air-column", "open-open", "closed-open"]
@@ -56,6 +59,8 @@ def measure_command(recording, frequency, kind, near, a4, fmt):
 
     if (recording is None) == (frequency is None):
         fail("measure: give a RECORDING or --frequency (one of them)")
+    if not 400 <= a4 <= 480:
+        fail(f"--a4: {a4} must be between 400 and 480 Hz")
     near_hz = None
     if near:
         try:
@@ -107,12 +112,69 @@ def _parse_pieces(texts, kind, near_hz=None):
     return out
 
 
+def _parse_beam_pieces(texts, kind, partial_ratios):
+    """[(length m, mode, frequency Hz)] from --piece "LENGTH @ F1[, F2, ...]" or "LENGTH @ RECORDING.wav".
+
+    Listed frequencies are partials 1, 2, ... in mode order (from partial N with "#N" after them,
+    for a tuner reading of an overtone); a recording's partials are found
+    with ``partial_ratios(length)``, the table model's f_n / f_1 for that length.
+    """
+    import re
+
+    from cutplan.units import UnitError, parse_length
+
+    out = []
+    for text in texts:
+        match = re.fullmatch(r"\s*(.+?)\s*@\s*(.+?)\s*(?:#\s*(\d+))?\s*", text)
+        if not match:
+            fail(f'--piece: {text!r} must be "LENGTH @ FREQUENCY[, FREQUENCY...] [#FIRST-PARTIAL]" or '
+                 '"LENGTH @ RECORDING.wav", e.g. "420 mm @ 1180.0, 3105.5, 5702.0"')
+        first = int(match.group(3) or 1)
+        if first < 1:
+            fail(f"--piece: {text!r}: the first partial is #1 or more")
+        try:
+            length = parse_length(match.group(1))
+        except UnitError as exc:
+            fail(f"--piece: {match.group(1)!r} is not {exc.accepted}")
+        if not length > 0:
+            fail(f"--piece: {text!r}: the length must be positive")
+        what = match.group(2)
+        try:
+            freqs = [float(x) for x in what.split(",")]
+        except ValueError:
+            if not Path(what).is_file():
+                fail(f"--piece: {what!r} is neither frequencies in Hz (partials in mode order) nor a WAV file")
+            freqs = None
+        if freqs is None:
+            out.extend((length, mode, f) for mode, f in _recorded_partials(what, kind, partial_ratios(length)))
+            continue
+        if not all(f > 0 for f in freqs) or any(b <= a for a, b in zip(freqs, freqs[1:], strict=False)):
+            fail(f"--piece: {text!r}: the partials must be positive and rising, in mode order")
+        out.extend((length, mode, f) for mode, f in enumerate(freqs, start=first))
+    return out
+
+
+def _recorded_partials(recording, kind, ratios):
+    """((mode, Hz), ...) of a recording, the modes found with the planned ratios."""
+    from cutplan.audio.analysis import identify, spectrum_peaks
+    from cutplan.audio.wav import RecordingError, read_wav
+    from cutplan.calibrate_moduli import partials_from_peaks
+
+    try:
+        samples, rate = read_wav(recording)
+        peaks, _floor = spectrum_peaks(samples, rate)
+    except RecordingError as exc:
+        fail(f"{recording}: {exc}")
+    fundamental = identify(peaks, kind, None, ratios).fundamental_hz
+    return partials_from_peaks(peaks, fundamental, ratios)
+
+
 @click.command("calibrate")
 @click.option("--kind", type=click.Choice(["chime", "bar", "air-column"]), default="chime", show_default=True,
               help="What the test pieces are.")
 @click.option("--piece", "pieces", multiple=True,
-              help='A test piece: "LENGTH @ FREQUENCY" or "LENGTH @ RECORDING.wav" (repeatable); '
-                   'for air columns add "#N" for the N-th resonance.')
+              help='A test piece: "LENGTH @ FREQUENCY", "LENGTH @ F1, F2, F3" (partials in mode order) or '
+                   '"LENGTH @ RECORDING.wav" (repeatable); for air columns add "#N" for the N-th resonance.')
 @click.option("--material", help="The table material the pieces started from (chime/bar).")
 @section_options
 @click.option("--model", type=click.Choice(["timoshenko", "slender"]), default="timoshenko", show_default=True,
@@ -123,46 +185,68 @@ def _parse_pieces(texts, kind, near_hz=None):
 @click.option("--fit", "fit_what", type=click.Choice(["auto", "speed", "end-correction", "both"]), default="auto",
               show_default=True, help="Air columns: what to fit (auto: both with two or more lengths).")
 @click.option("--two-resonance", "two_res", help='Air: "L1, L2 @ FREQUENCY", the first two resonance depths of a closed tube.')
-@click.option("--name", help="Name of the calibrated material (default: MATERIAL-calibrated).")
-@click.option("-o", "--output", type=click.Path(dir_okay=False), help="Write the calibrated material TOML here.")
+@click.option("--name", help="Name of the calibrated material or stock size (default: NAME-calibrated).")
+@click.option("-o", "--output", type=click.Path(dir_okay=False), help="Write the calibrated material (or stock) TOML here.")
 @click.option("--force", is_flag=True, help="Overwrite --output if it exists.")
+@MATERIALS_OPTION
+@DESIGN_DIRS_OPTION
 def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, model, ends, temperature,
-                      fit_what, two_res, name, output, force):
+                      fit_what, two_res, name, output, force, materials_dirs, design_path):
     """Fit material or air-column constants from measured test pieces.
 
+    \b
+    With several partials of one piece (or pieces of several lengths) the stiffness E and the
+    shear modulus G are fitted separately; with one partial, E alone.
     \b
     Examples:
       cutplan calibrate --material aluminum-6063-t5 --stock al-1.000x0.065 \\
           --piece "503.9 mm @ 591.2" -o my-materials/al-tube.toml
+      cutplan calibrate --kind bar --material maple-sugar --bar "50 mm x 22 mm" \\
+          --piece "420 mm @ 1180.0, 3105.5, 5702.0" -o my-materials/maple.toml
       cutplan calibrate --kind air-column --stock pvc-sch40-1 --piece "190 mm @ 426.7" --fit speed
       cutplan calibrate --kind air-column --two-resonance "160 mm, 495 mm @ 512"
     """
+    dirs = material_folders(materials_dirs, design_path)
     if kind == "air-column":
-        _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res)
+        _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res, name, output, force, dirs)
         return
     if not pieces:
         fail("calibrate: give at least one --piece")
     if not material:
         fail("calibrate: --material is needed: the table material the test pieces are made of")
-    from cutplan.calibrate import calibrated_material_toml, fit_beam
-    from cutplan.planner import beam_frequency_function
+    from cutplan.calibrate import CalibrationError
+    from cutplan.calibrate_moduli import _partial_frequencies, calibrated_moduli_toml, fit_moduli
 
-    des = _one_piece_design("calibrate", kind, None, 440.0, material, stock_name, tube, rod, bar_size, model=model)
+    des = _one_piece_design("calibrate", kind, None, 440.0, material, stock_name, tube, rod, bar_size, model=model,
+                            materials_dirs=dirs)
     spec = des.sets[0]
-    measured = _parse_pieces(pieces, kind)
-    f_table = beam_frequency_function(spec.material, spec.section, model)
-    fit = fit_beam([(length, f) for length, f, _ in measured], f_table)
-    click.echo(f"{len(measured)} test piece(s) of {material}, {spec.section.describe()}, {model} model")
-    for (length, f, _), pred, res in zip(measured, fit.predicted_hz, fit.residuals_cents, strict=True):
-        click.echo(f"  {length * 1000:8.1f} mm: measured {f:9.3f} Hz, table predicts {pred:9.3f} Hz, "
+    mat, sec = spec.material, spec.section
+
+    def ratios(length):
+        f = _partial_frequencies(mat, sec, model, mat.modulus_for(model), mat.shear_modulus_for(model), length, 4)
+        return [x / f[0] for x in f]
+
+    measured = _parse_beam_pieces(pieces, kind, ratios)
+    try:
+        fit = fit_moduli(measured, mat, sec, model)
+    except CalibrationError as exc:
+        fail(f"calibrate: {exc}")
+    lengths = sorted({length for length, _, _ in measured})
+    click.echo(f"{len(lengths)} test piece(s), {len(measured)} partial(s) of {material}, {sec.describe()}, {model} model")
+    for (length, mode, f), pred, res in zip(measured, fit.table_hz, fit.residuals_cents, strict=True):
+        click.echo(f"  {length * 1000:8.1f} mm partial {mode}: measured {f:9.3f} Hz, table predicts {pred:9.3f} Hz, "
                    f"residual after fit {res:+.2f} cents")
-    e_table = spec.material.modulus_for(model)
-    click.echo(f"effective modulus {e_table * fit.scale / 1e9:.3f} GPa against the table's {e_table / 1e9:.3f} GPa "
-               f"({fit.change_percent:+.2f} %); sqrt(E/rho) = "
-               f"{(e_table * fit.scale / spec.material.density) ** 0.5:.1f} m/s")
-    name = name or f"{material}-calibrated"
-    text = calibrated_material_toml(name, spec.material, model, fit.scale, fit.spread,
-                                    measured, fit.residuals_cents, spec.section.describe())
+    click.echo(f"effective modulus E {fit.modulus / 1e9:.3f} GPa against the table's {fit.table_modulus / 1e9:.3f} GPa "
+               f"({100 * (fit.scale - 1):+.2f} %); sqrt(E/rho) = {(fit.modulus / mat.density) ** 0.5:.1f} m/s")
+    g_how = {"fitted": f"fitted from the partials (+/-{100 * fit.shear_error:.1f} % at 1 cent per partial)",
+             "held": "held at the earlier measured value", "scaled": "moved with E (not fitted)"}[fit.shear]
+    click.echo(f"shear modulus G {fit.shear_modulus / 1e9:.3f} GPa against the table's "
+               f"{fit.table_shear_modulus / 1e9:.3f} GPa ({100 * (fit.shear_modulus / fit.table_shear_modulus - 1):+.2f} %), "
+               f"{g_how}; E/G = {fit.modulus / fit.shear_modulus:.2f}")
+    for note in fit.notes:
+        click.echo(f"! {note}")
+    name = name or (material if material.endswith("-calibrated") else f"{material}-calibrated")
+    text = calibrated_moduli_toml(name, mat, model, fit, sec.describe())
     if output is None:
         click.echo("\n" + text, nl=False)
         return
@@ -172,7 +256,8 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
     click.echo(f"wrote {output}; plan with material = \"{name}\" and --materials {Path(output).parent or '.'}")
 
 
-def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res):
+def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res, name=None, output=None, force=False,
+                   dirs=()):
     from cutplan.calibrate import CalibrationError, fit_air_column_choice
     from cutplan.physics import air_column
     from cutplan.units import UnitError, parse_length, parse_temperature
@@ -200,6 +285,10 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
                    f"end correction {corr * 1000:.1f} mm")
         if corr < 0:
             click.echo("! a negative end correction means the two readings disagree; measure again")
+            if output:
+                fail(f"{output}: not written; a negative end correction cannot be saved")
+        _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr,
+                  f"two-resonance reading {two_res}", f"two-resonance reading at {temperature}")
         return
     if not pieces:
         fail("calibrate: give --piece or --two-resonance")
@@ -207,7 +296,7 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
     radius = None
     if stock_name or tube:
         des = _one_piece_design("calibrate", "air-column", None, 440.0, None, stock_name, tube, None, None,
-                                ends=ends, temperature=temperature)
+                                ends=ends, temperature=temperature, materials_dirs=dirs)
         radius = des.sets[0].section.air_radius
     try:
         fit = fit_air_column_choice(measured, ends, fit_what, speed_t, radius)
@@ -218,8 +307,34 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
                + (f" = {fit.end_correction / radius:.3f} x inner radius" if radius else ""))
     for (length, f, n), res in zip(measured, fit.residuals_cents, strict=True):
         click.echo(f"  {length * 1000:8.1f} mm, resonance {n} at {f:.2f} Hz: residual {res:+.2f} cents")
-    if radius:
+    if radius and not output:
         click.echo(f'use it in a design with end_correction = {fit.end_correction / radius:.3f}')
+    text = "; ".join(f"{length * 1000:.1f} mm @ {f:.2f} Hz #{n}" for length, f, n in measured)
+    _save_air(output, force, name, stock_name, dirs, fit.speed, kelvin, fit.end_correction,
+              f"{ends} pipes {text} (fit: {fit_what})", f"{len(measured)} {ends} pipe resonance(s) at {temperature}")
+
+
+def _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr, note, header_note):
+    """Write the stock calibration file when --output is given (needs a named --stock)."""
+    if output is None:
+        return
+    if not stock_name:
+        fail("calibrate: saving an air-column calibration needs --stock, the stock size it was measured on")
+    from cutplan.air_stock import stock_toml
+    from cutplan.materials import MaterialError, load_library
+
+    try:
+        stock = load_library(dirs).stock[stock_name]
+    except MaterialError as exc:
+        fail(str(exc))
+    except KeyError:
+        fail(f"--stock: {stock_name!r} is not a stock size; `cutplan materials` lists them")
+    if Path(output).exists() and not force:
+        fail(f"{output}: already exists; use --force to overwrite it")
+    name = name or (stock_name if stock_name.endswith("-calibrated") else f"{stock_name}-calibrated")
+    write_file(output, stock_toml(name, stock, speed, kelvin, corr, note.replace('"', "'"), header_note))
+    click.echo(f'wrote {output}; plan air columns and resonators with section = {{ stock = "{name}" }} '
+               f"and --materials {Path(output).parent or '.'}")
 
 
 @click.command("trim")
@@ -244,6 +359,8 @@ def trim_command(design, label, measured, recording, length_now, units, material
 
     if (measured is None) == (recording is None):
         fail("trim: give --measured or --recording (one of them)")
+    if measured is not None and not 10 <= measured <= 30000:
+        fail(f"--measured: {measured} must be a frequency between 10 and 30000 Hz")
     des, _lib = _load(design, materials_dirs, units)
     the_plan = _plan(des)
     units = the_plan.units
@@ -263,10 +380,19 @@ def trim_command(design, label, measured, recording, length_now, units, material
             now = parse_length(length_now)
         except UnitError as exc:
             fail(f"--length-now: {exc.text!r} is not {exc.accepted}")
+        if not 0.5 * piece.length <= now <= 2 * piece.cut_length:
+            fail(f"--length-now: {length_now!r} must be between half the planned length "
+                 f"({format_length(0.5 * piece.length, units)}) and twice the cut length "
+                 f"({format_length(2 * piece.cut_length, units)})")
+    from cutplan.numeric import quiet
+
     try:
-        advice = trim_advice(piece, f_at, measured, now, units)
+        advice = quiet(trim_advice, piece, f_at, measured, now, units)
     except CalibrationError as exc:
         fail(f"trim: {exc}")
+    except (ValueError, ArithmeticError):
+        fail(f"trim: no length between half and one and a half times the length now brings {piece.label} "
+             f"from {measured:.2f} Hz to {piece.target_hz:.2f} Hz; check the reading (another partial?) and the piece")
     click.echo(f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {measured:.2f} Hz "
                f"at {format_length(advice.length_now, units)}")
     click.echo(f"  length for the target: {format_length(advice.length_needed, units)}")
@@ -282,7 +408,8 @@ def trim_command(design, label, measured, recording, length_now, units, material
 @click.option("-o", "--output", required=True, type=click.Path(), help="Folder for the WAV files.")
 @click.option("--strike-at", type=click.FloatRange(0.0, 0.5), default=0.1, show_default=True,
               help="Strike point as a fraction of the length from the end (chimes and bars).")
-@click.option("--force", is_flag=True, help="Overwrite files in a non-empty output folder.")
+@click.option("--force", is_flag=True,
+              help="Replace what an earlier run wrote in the output folder (your own files there are kept).")
 @MATERIALS_OPTION
 def listen_command(design, output, strike_at, force, materials_dirs):
     """Hear the set before cutting: one WAV per piece and the whole set as an arpeggio.
@@ -297,8 +424,10 @@ def listen_command(design, output, strike_at, force, materials_dirs):
     out = _check_output_dir(output, force)
     des, _lib = _load(design, materials_dirs)
     the_plan = _plan(des)
-    for p in the_plan.pieces:
-        write_file(out / f"{p.label}.wav", wav_bytes(piece_preview(p, strike_at=strike_at), RATE))
-    for s in the_plan.sets:
-        write_file(out / f"{s.name}-arpeggio.wav", wav_bytes(arpeggio(s.pieces, strike_at=strike_at), RATE))
-    click.echo(f"wrote {len(the_plan.pieces) + len(the_plan.sets)} WAV files to {out}")
+    from cutplan.numeric import quiet
+
+    files = {f"{p.label}.wav": wav_bytes(quiet(piece_preview, p, strike_at=strike_at), RATE) for p in the_plan.pieces}
+    files.update({f"{s.name}-arpeggio.wav": wav_bytes(quiet(arpeggio, s.pieces, strike_at=strike_at), RATE)
+                  for s in the_plan.sets})
+    write_folder(out, files, force)
+    click.echo(f"wrote {len(files)} WAV files to {out}")

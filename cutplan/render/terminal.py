@@ -86,6 +86,8 @@ def render_table(plan):
         out.append("  sharp: the chance a piece comes out sharp (too short) at its cut length")
         out.extend(_fitted(*_set_rows(s, units)))
         for p in s.pieces:
+            if getattr(p, "other_modes", ()):
+                out.extend(_wrapped(f"{p.label}: other modes " + other_modes_text(p.other_modes)))
             if p.arch is not None:
                 a = p.arch
                 res = ", ".join(f"{r:+.2f}" for r in a.ratio_residuals_cents)
@@ -106,6 +108,16 @@ def render_table(plan):
         out.append("")
     out.extend(_wrapped(SAFETY_LINE, ""))
     return "\n".join(out) + "\n"
+
+
+def other_modes_text(modes):
+    """"sideways 1510, 4030 Hz; twisting 2210, 4420 Hz": the modes a piece is not tuned by, in short."""
+    parts = []
+    for kind in ("sideways", "twisting"):
+        freqs = [f for k, _, f in modes if k == kind]
+        if freqs:
+            parts.append(f"{kind} " + ", ".join(f"{f:.0f}" for f in freqs) + " Hz")
+    return "; ".join(parts)
 
 
 def render_stock(cut_list, units="mm"):

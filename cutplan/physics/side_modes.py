@@ -1,0 +1,122 @@
+r"""The other ways a bar rings: sideways bending and twisting, for uniform and arched bars.
+
+A bar resting on its supports is struck on its face and tuned by its bending through the
+thickness.  It can also bend sideways, in the plane of its width, and twist about its axis.
+Sideways bending is the same shear-corrected free-free beam turned through 90 degrees: the
+second moment of area about the other axis, t b^3 / 12 instead of b t^3 / 12 (the mass, shear
+area and Cowper shear coefficient of the rectangle are the same).  For an arched bar the
+remaining thickness h(x) replaces t along the arch.  Twisting uses :mod:`torsion`.
+
+References
+----------
+.. [1] Timoshenko, S. P., "On the correction for shear of the differential equation for
+   transverse vibrations of prismatic bars", Philosophical Magazine 41 (1921) 744-746.
+.. [2] Cowper, G. R., "The shear coefficient in Timoshenko's beam theory", J. Appl. Mech. 33
+   (1966) 335-340 (kappa of a rectangle, either way up).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from cutplan.physics import beam_fe, timoshenko, torsion, undercut
+
+
+def sideways_frequencies(length, width, thickness, modulus, shear_modulus, density, kappa, modes=3):
+    """Sideways (in-plane) bending frequencies [Hz] of a uniform free-free bar.
+
+    Parameters
+    ----------
+    length, width, thickness : float
+        L, b (the struck face's width), t [m].
+    modulus, shear_modulus : float
+        E, G [Pa].
+    density : float
+        rho [kg/m^3].
+    kappa : float
+        Shear coefficient of the rectangle [-].
+    modes : int
+        How many modes [-].
+
+    Examples
+    --------
+    A bar 25 mm wide and 10 mm thick bends sideways as one 10 mm wide and 25 mm thick bends on its face:
+
+    >>> E, G = 69e9, 26e9
+    >>> side = sideways_frequencies(0.3, 0.025, 0.010, E, G, 2700, 0.85, modes=1)
+    >>> face = timoshenko.frequencies(0.3, E * 0.010 * 0.025**3 / 12, 2700 * 0.010 * 0.025,
+    ...                               0.85 * G * 0.010 * 0.025, 2700 * 0.010 * 0.025**3 / 12, modes=1)
+    >>> bool(abs(side[0] - face[0]) < 1e-9 * face[0])
+    True
+    """
+    area = width * thickness
+    second = thickness * width**3 / 12
+    return timoshenko.frequencies(length, modulus * second, density * area, kappa * shear_modulus * area,
+                                  density * second, modes=modes)
+
+
+def twisting_frequencies_bar(length, width, thickness, shear_modulus, density, modes=3):
+    """Twisting frequencies [Hz] of a uniform free-free rectangular bar (Saint-Venant).
+
+    >>> f = twisting_frequencies_bar(0.4, 0.05, 0.02, 1.2e9, 700.0, modes=2)
+    >>> bool(abs(f[1] - 2 * f[0]) < 1e-9 * f[0])
+    True
+    """
+    gj = shear_modulus * torsion.torsion_constant_rectangle(width, thickness)
+    rho_ip = density * torsion.polar_moment_rectangle(width, thickness)
+    return torsion.free_free_twisting_frequency(np.arange(1, modes + 1), length, gj, rho_ip)
+
+
+def twisting_frequencies_tube(length, outer, inner, shear_modulus, density, modes=3):
+    """Twisting frequencies [Hz] of a free-free round tube or rod: n / 2L sqrt(G / rho)."""
+    gj = shear_modulus * torsion.torsion_constant_tube(outer, inner)
+    rho_ip = density * torsion.polar_moment_tube(outer, inner)
+    return torsion.free_free_twisting_frequency(np.arange(1, modes + 1), length, gj, rho_ip)
+
+
+def _thickness(length, thickness, depth, arch_fraction, exponent):
+    def h(x):
+        return undercut.arch_thickness(x, length, thickness, depth, arch_fraction, exponent)
+
+    return h
+
+
+def _breaks(length, arch_fraction, per_part=8):
+    """Element edges at the arch edges, so the kink in the profile falls on a boundary."""
+    a = (1 - arch_fraction) * length / 2
+    left = np.concatenate([np.linspace(0.0, a, per_part + 1), np.linspace(a, length / 2, 2 * per_part + 1)[1:]])
+    return np.concatenate([left, (length - left[::-1])[1:]])
+
+
+def sideways_frequencies_arched(length, width, thickness, depth, arch_fraction, exponent, modulus, shear_modulus,
+                                density, kappa, modes=3):
+    """Sideways bending frequencies [Hz] of an arched (undercut) bar, non-uniform finite elements.
+
+    The section at x is the rectangle b x h(x) turned through 90 degrees: EI = E h b^3 / 12,
+    kappa G A = kappa G b h, mu = rho b h, rho I = rho h b^3 / 12.  Parameters as for
+    :func:`cutplan.physics.undercut.bar_modes`.
+    """
+    h = _thickness(length, thickness, depth, arch_fraction, exponent)
+    return beam_fe.free_free_modes(
+        length,
+        lambda x: modulus * h(x) * width**3 / 12,
+        lambda x: kappa * shear_modulus * width * h(x),
+        lambda x: density * width * h(x),
+        lambda x: density * h(x) * width**3 / 12,
+        modes=modes, order=3, breaks=_breaks(length, max(arch_fraction, 1e-6)),
+    ).frequencies
+
+
+def twisting_frequencies_arched(length, width, thickness, depth, arch_fraction, exponent, shear_modulus, density,
+                                modes=3):
+    """Twisting frequencies [Hz] of an arched bar: J and I_p of the rectangle b x h(x) along it."""
+    h = _thickness(length, thickness, depth, arch_fraction, exponent)
+
+    def gj(x):
+        return shear_modulus * torsion.torsion_constant_rectangle(width, h(x), terms=8)
+
+    def rho_ip(x):
+        hx = h(x)
+        return density * width * hx * (width**2 + hx**2) / 12
+
+    return torsion.twisting_frequencies(length, gj, rho_ip, modes=modes)

@@ -1,0 +1,86 @@
+"""Sideways and twisting modes on the plan: JSON, terminal, and the warnings that name them."""
+
+import json
+from pathlib import Path
+
+import cutplan
+from cutplan.render.table import plan_dict
+from cutplan.render.terminal import render_table
+
+ROOT = Path(__file__).resolve().parent.parent
+
+
+def _plan(sets):
+    return cutplan.plan(cutplan.design_from_mapping({"title": "test", "set": sets}))
+
+
+def test_workshop_example_reports_sideways_and_twisting_modes_of_every_bar():
+    plan = cutplan.plan(cutplan.load_design(ROOT / "examples" / "workshop-marimba.toml"))
+    bars = [p for p in plan_dict(plan)["pieces"] if p["kind"] == "bar"]
+    for p in bars:
+        kinds = {m["kind"] for m in p["other_modes"]}
+        assert kinds == {"sideways", "twisting"}
+        assert all(m["hz"] > 0 and m["mode"] >= 1 for m in p["other_modes"])
+    tubes = [p for p in plan_dict(plan)["pieces"] if p["kind"] == "resonator"]
+    assert all("other_modes" not in p for p in tubes)
+    text = render_table(plan)
+    assert "bars-1: other modes sideways" in text and "twisting" in text
+
+
+def test_music_room_example_pins_the_modes_of_its_arched_bars():
+    # the golden plan is checked against a fresh plan by test_examples; here, that it has them
+    data = json.loads((ROOT / "tests" / "data" / "expected" / "music-room-marimba.json").read_text())
+    for p in data["pieces"]:
+        if p["kind"] == "bar":
+            assert {m["kind"] for m in p["other_modes"]} == {"sideways", "twisting"}
+
+
+def test_bar_thicker_than_wide_warns_that_sideways_mode_1_is_below_the_fundamental():
+    plan = _plan([{"name": "tall", "kind": "bar", "notes": ["C5"], "material": "aluminum-6061-t6",
+                   "section": {"shape": "bar", "width": "20 mm", "thickness": "30 mm"}}])
+    (piece,) = plan.pieces
+    side1 = next(f for kind, n, f in piece.other_modes if kind == "sideways" and n == 1)
+    assert side1 < piece.fundamental_hz
+    assert any(w.startswith("sideways mode 1") and "below the fundamental" in w for w in piece.warnings)
+
+
+def test_twisting_mode_near_partial_2_is_named_in_a_warning():
+    # maple 50 x 22 mm tuned to F4: the first twist lands about 25 cents above mode 2
+    plan = _plan([{"name": "b", "kind": "bar", "notes": ["F4"], "material": "maple-sugar",
+                   "section": {"shape": "bar", "width": "50 mm", "thickness": "22 mm"}}])
+    (piece,) = plan.pieces
+    assert any(w.startswith("twisting mode 1") and "partial 2" in w for w in piece.warnings)
+
+
+def test_chime_tubes_report_twisting_only():
+    plan = cutplan.plan(cutplan.load_design(ROOT / "examples" / "porch-chimes.toml"))
+    for p in plan.pieces:
+        assert p.other_modes and {kind for kind, _, _ in p.other_modes} == {"twisting"}
+
+
+def test_air_columns_have_no_other_modes():
+    plan = cutplan.plan(cutplan.load_design(ROOT / "examples" / "classroom-pipes.toml"))
+    assert all(p.other_modes == () for p in plan.pieces)
+
+
+def test_wide_short_plate_warns_that_twisting_is_below_the_fundamental():
+    # twisting f ~ (t / w) / L while bending f ~ t / L^2: a bar much wider than long twists low
+    plan = _plan([{"name": "plate", "kind": "bar", "notes": ["C8"], "material": "steel-1018",
+                   "section": {"shape": "bar", "width": "120 mm", "thickness": "6 mm"}}])
+    (piece,) = plan.pieces
+    assert any(w.startswith("twisting mode 1") and "below the fundamental" in w and "narrower" in w
+               for w in piece.warnings)
+
+
+def test_the_clearance_can_be_chosen():
+    from cutplan.other_modes import with_other_modes
+
+    design = cutplan.design_from_mapping({"title": "t", "set": [
+        {"name": "b", "kind": "bar", "notes": ["F4"], "material": "maple-sugar",
+         "section": {"shape": "bar", "width": "50 mm", "thickness": "22 mm"}}]})
+    plan = cutplan.plan(design)
+    bare = [p.__class__(**{**p.__dict__, "warnings": (), "other_modes": ()}) for p in plan.pieces]
+    tight = with_other_modes(design.sets[0], bare, clearance_cents=5.0)[0]
+    assert not any("twisting mode 1" in w for w in tight.warnings)  # it is 25 cents away
+    loose = with_other_modes(design.sets[0], bare, clearance_cents=30.0)[0]
+    assert any("twisting mode 1" in w for w in loose.warnings)
