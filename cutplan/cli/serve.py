@@ -1,0 +1,40 @@
+"""The ``serve`` command: the local web page."""
+
+from __future__ import annotations
+
+import click
+
+from cutplan.cli.common import MATERIALS_OPTION, fail
+
+
+@click.command("serve")
+@click.option("--port", type=click.IntRange(0, 65535), default=8750, show_default=True,
+              help="TCP port (0: any free port).")
+@click.option("--host", default="127.0.0.1", show_default=True,
+              help="Address to listen on; anything but loopback lets other machines in (a warning is printed).")
+@click.option("--open", "open_browser", is_flag=True, help="Open the page in the default browser.")
+@click.option("--workers", type=click.IntRange(0, 64), default=None,
+              help="Processes that plan designs (default: one per core, at most 4; 0: plan in the server process).")
+@MATERIALS_OPTION
+def serve_command(port, host, open_browser, workers, materials_dirs):
+    """Serve the design page on this machine: design, preview, listen, trim and print in a browser.
+
+    \b
+    Examples:
+      cutplan serve --open
+      cutplan serve --port 8800 --materials my-materials
+    """
+    from cutplan.materials import MaterialError, load_library
+    from cutplan.web.server import exposure_warning, serve
+
+    try:
+        load_library(list(materials_dirs))
+    except MaterialError as exc:
+        fail(f"--materials: {exc}")
+    warning = exposure_warning(host)
+    if warning:
+        click.echo(warning, err=True)
+    try:
+        serve(host, port, open_browser, materials_dirs, echo=lambda line: click.echo(line, err=True), workers=workers)
+    except OSError as exc:
+        fail(f"--host/--port: cannot listen on {host}:{port} ({exc.strerror or exc})")

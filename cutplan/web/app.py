@@ -1,0 +1,334 @@
+"""Flask routes for the page and the JSON API. Each route reads the request, calls
+:mod:`cutplan.web.service`, and renders; the work is done elsewhere.
+
+Limits: a design or form is at most 1 MB, a request with a recording at most 16 MB; uploads
+stay in memory. Nothing from a request becomes a file path: examples are chosen from a list
+the server read itself, and material folders come from the server's options only.
+"""
+
+from __future__ import annotations
+
+import io
+import re
+import time
+import tomllib
+from pathlib import Path
+
+from flask import Flask, Request, g, jsonify, render_template, request
+
+from cutplan.web import form as webform
+from cutplan.web import view
+from cutplan.web.service import MAX_DESIGN_BYTES, Planner, WebErrors, error, packet_pdf, packet_zip, piece_wav
+from cutplan.web.trim import trim_answer
+
+MAX_UPLOAD_BYTES = 16 * 1024 * 1024
+"""Largest request with a recording [bytes]: about 90 s of 16-bit mono at 44.1 kHz."""
+UPLOAD_ROUTES = ("/", "/api/trim")
+"""Routes that accept a recording or a design file; every other route takes at most a design."""
+LOOPBACK_NAMES = ["127.0.0.1", "localhost", "::1", "[::1]"]
+CSP = ("default-src 'self'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; "
+       "media-src 'self' blob:; connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'self'; "
+       "frame-ancestors 'none'")
+
+
+class MemoryRequest(Request):
+    """Uploaded files are kept in memory (bounded by the request size limit), never spooled to disk."""
+
+    def _get_file_stream(self, total_content_length, content_type, filename=None, content_length=None):
+        return io.BytesIO()
+
+
+def examples_dir():
+    """The bundled example designs: inside the wheel, or ``examples/`` of a source checkout."""
+    here = Path(__file__).resolve().parent.parent
+    for candidate in (here / "_examples", here.parent / "examples"):
+        if candidate.is_dir():
+            return candidate
+    return None
+
+
+def _examples():
+    folder = examples_dir()
+    return {} if folder is None else {p.stem: p for p in sorted(folder.glob("*.toml"))}
+
+
+def _starter():
+    from cutplan.starters import CHIME
+
+    return tomllib.loads(CHIME)
+
+
+def create_app(materials_dirs=(), loopback_only=True, workers=0):
+    """The Flask application. ``materials_dirs`` are the server's extra material folders;
+    ``workers`` > 0 plans in that many worker processes (stop them with ``app.planner.close()``)."""
+    from cutplan import pitch
+    from cutplan.materials import load_library
+
+    app = Flask(__name__)
+    app.request_class = MemoryRequest
+    app.config.update(MAX_CONTENT_LENGTH=MAX_UPLOAD_BYTES, MAX_FORM_MEMORY_SIZE=MAX_DESIGN_BYTES,
+                      MAX_FORM_PARTS=2000)
+    if loopback_only:
+        app.config["TRUSTED_HOSTS"] = LOOPBACK_NAMES
+    planner = Planner(materials_dirs, workers=workers)
+    app.planner = planner
+    library = load_library(list(materials_dirs))
+    examples = _examples()
+    app.jinja_env.filters["both"] = _both_units
+    choices = {
+        "materials": sorted((n, m.description) for n, m in library.materials.items()),
+        "stock_sizes": sorted((n, s.description) for n, s in library.stock.items()),
+        "scales": [(s, s) for s in pitch.SCALES], "examples": list(examples),
+        "temperaments": ["equal", "equal-19", "equal-24", "just", "pythagorean"],
+    }
+
+    @app.before_request
+    def _limits():
+        g.started = time.perf_counter()
+        if request.path not in UPLOAD_ROUTES:
+            request.max_content_length = MAX_DESIGN_BYTES
+
+    @app.after_request
+    def _headers(resp):
+        resp.headers["Content-Security-Policy"] = CSP
+        resp.headers["X-Content-Type-Options"] = "nosniff"
+        resp.headers["Referrer-Policy"] = "no-referrer"
+        resp.headers["Cache-Control"] = "no-store" if not request.path.startswith("/static/") else "max-age=3600"
+        if "started" in g:
+            resp.headers["Server-Timing"] = f"app;dur={1000 * (time.perf_counter() - g.started):.1f}"
+        return resp
+
+    @app.errorhandler(413)
+    def _too_large(_exc):
+        limit = request.max_content_length or MAX_UPLOAD_BYTES
+        return jsonify(errors=[error("(request)", f"is over {limit} bytes; a design is a few kB, "
+                                     f"a recording of one strike well under {MAX_UPLOAD_BYTES // 2**20} MB")]), 413
+
+    def page(fields, status=200, errors=(), plan_pair=None, trim=None):
+        slots = _slots(fields)
+        placed = view.place_errors(errors, slots, _own_stock(fields))
+        warnings, preview = {}, None
+        if plan_pair is not None:
+            design, the_plan = plan_pair
+            warnings = view.place_warnings(the_plan, design)
+            preview = view.preview(the_plan, design, fields.get("units") or None)
+        html = render_template("page.html", f=fields, n_sets=webform.set_count(fields), errors=placed,
+                               warnings=warnings, preview=preview, choices=choices, trim=trim)
+        return html, status
+
+    def plan_form(fields):
+        data = webform.mapping_from_form(fields)
+        return data, planner.plan(data)
+
+    @app.get("/")
+    def index():
+        name = request.args.get("example", "")
+        data = tomllib.loads(examples[name].read_text(encoding="utf-8")) if name in examples else _starter()
+        fields = webform.form_from_mapping(data)
+        try:
+            return page(fields, plan_pair=planner.plan(data))
+        except WebErrors as exc:
+            return page(fields, 422, exc.errors)
+
+    @app.post("/")
+    def submit():
+        fields = request.form.to_dict()
+        action = fields.pop("action", "preview")
+        if action == "open":
+            return _open_file(fields)
+        if action == "add-set":
+            fields["sets"] = str(min(webform.MAX_SETS, webform.set_count(fields) + 1))
+            fields.setdefault(f"set[{fields['sets']}].kind", "chime")
+        elif action.startswith("remove-set-"):
+            fields = _remove_set(fields, action.removeprefix("remove-set-"))
+        try:
+            _data, pair = plan_form(fields)
+        except WebErrors as exc:
+            return page(fields, 422, exc.errors)
+        trim = None
+        if action == "trim":
+            try:
+                trim = _trim(pair, fields).as_dict()
+            except WebErrors as exc:
+                return page(fields, 422, exc.errors, plan_pair=pair)
+        return page(fields, plan_pair=pair, trim=trim)
+
+    def _open_file(fields):
+        upload = request.files.get("design_file")
+        raw = upload.read(MAX_DESIGN_BYTES + 1) if upload else b""
+        problem = None
+        if not raw:
+            problem = "choose a design file (.toml) first"
+        elif len(raw) > MAX_DESIGN_BYTES:
+            problem = f"is over {MAX_DESIGN_BYTES} bytes; a design is a few kB"
+        else:
+            try:
+                data = tomllib.loads(raw.decode("utf-8"))
+            except UnicodeDecodeError:
+                problem = "is not UTF-8 text (is it a design file?)"
+            except tomllib.TOMLDecodeError as exc:
+                problem = f"is not valid TOML ({exc})"
+        if problem:
+            return page(fields, 422, [error("open", problem)])
+        fields = webform.form_from_mapping(data)
+        try:
+            return page(fields, plan_pair=planner.plan(data))
+        except WebErrors as exc:
+            return page(fields, 422, exc.errors)
+
+    def _trim(pair, fields):
+        upload = request.files.get("trim.recording")
+        recording = upload.read() if upload else b""
+        return trim_answer(*pair, fields.get("trim.piece", ""), fields.get("trim.measured", ""), recording,
+                           fields.get("trim.length_now", ""))
+
+    def _form_or_errors(make):
+        """Run ``make(data, (design, plan))`` on the posted form; errors go back as the page (422)."""
+        fields = request.form.to_dict()
+        try:
+            data, pair = plan_form(fields)
+            return make(data, pair)
+        except WebErrors as exc:
+            if request.accept_mimetypes.best == "application/json":
+                return jsonify(errors=exc.errors), 422
+            return page(fields, 422, exc.errors)
+
+    @app.post("/preview")
+    def preview_fragment():
+        fields = request.form.to_dict()
+        try:
+            _data, (design, the_plan) = plan_form(fields)
+        except WebErrors as exc:
+            return jsonify(ok=False, errors=view.place_errors(exc.errors, _slots(fields), _own_stock(fields)),
+                           warnings={})
+        pv = view.preview(the_plan, design, fields.get("units") or None)
+        html = render_template("_preview.html", preview=pv, f=fields, choices=choices, trim=None)
+        return jsonify(ok=True, html=html, errors={}, warnings=view.place_warnings(the_plan, design),
+                       labels=pv["labels"], sets=pv["set_names"])
+
+    @app.post("/packet.zip")
+    def packet_download():
+        return _form_or_errors(lambda data, pair: _attachment(packet_zip(pair[1], data), "application/zip",
+                                                              "packet.zip"))
+
+    @app.post("/packet.pdf")
+    def packet_print():
+        return _form_or_errors(lambda data, pair: _attachment(packet_pdf(pair[1]), "application/pdf",
+                                                              "packet.pdf", inline=True))
+
+    @app.post("/design.toml")
+    def save_design():
+        from cutplan.web.service import design_toml
+
+        return _form_or_errors(lambda data, pair: _attachment(design_toml(data).encode("utf-8"),
+                                                              "application/toml", "design.toml"))
+
+    @app.post("/listen")
+    def listen():
+        label = request.form.get("listen", "")
+        return _form_or_errors(lambda data, pair: _attachment(piece_wav(pair[1], label), "audio/wav",
+                                                              "preview.wav", inline=True))
+
+    @app.post("/api/trim")
+    def api_trim():
+        fields = request.form.to_dict()
+        try:
+            _data, pair = plan_form(fields)
+            return jsonify(ok=True, trim=_trim(pair, fields).as_dict())
+        except WebErrors as exc:
+            return jsonify(ok=False, errors=view.place_errors(exc.errors, _slots(fields))), 422
+
+    @app.post("/api/plan")
+    def api_plan():
+        from cutplan.render.table import plan_dict
+
+        try:
+            data = _json_design()
+            _design, the_plan = planner.plan(data)
+        except WebErrors as exc:
+            return jsonify(errors=exc.errors), 422
+        return app.response_class(_dumps(plan_dict(the_plan)), mimetype="application/json")
+
+    @app.post("/api/packet")
+    def api_packet():
+        try:
+            data = _json_design()
+            _design, the_plan = planner.plan(data)
+        except WebErrors as exc:
+            return jsonify(errors=exc.errors), 422
+        return _attachment(packet_zip(the_plan, data), "application/zip", "packet.zip")
+
+    return app
+
+
+def _json_design():
+    """The request's design mapping, or WebErrors when the body is not JSON."""
+    data = request.get_json(silent=True)
+    if data is None:
+        raise WebErrors([error("(design)", "the body must be a design as JSON (the design file's keys)")])
+    return data
+
+
+def _dumps(data):
+    import json
+
+    return json.dumps(data, indent=2, ensure_ascii=False) + "\n"
+
+
+def _attachment(payload, mimetype, name, inline=False):
+    from flask import Response
+
+    resp = Response(payload, mimetype=mimetype)
+    resp.headers["Content-Disposition"] = f'{"inline" if inline else "attachment"}; filename="{name}"'
+    return resp
+
+
+def _both_units(text):
+    """ "20-1/32 in (508.6 mm)" with each unit's part kept on one line (the text stays the same)."""
+    from markupsafe import Markup
+
+    first, sep, second = str(text).partition(" (")
+    if not sep:
+        return Markup('<span class="nw">{}</span>').format(first)
+    return Markup('<span class="nw">{}</span> <span class="nw">({}</span>').format(first, second)
+
+
+def _slots(fields):
+    """Every place a message can appear: the fields, each set, its section, the stock, the form."""
+    slots = {"form", "open", "stock", "title", "units", "paper", "tuning.a4", "tuning.temperament", "more",
+             "trim.piece", "trim.measured", "trim.recording", "trim.length_now"}
+    slots.update(f"stock.{k}" for k in webform.STOCK_FIELDS)
+    for i in range(1, webform.set_count(fields) + 1):
+        p = f"set[{i}]"
+        slots.update({p, f"{p}.section", f"{p}.more", f"{p}.stock", f"{p}.pitch", f"{p}.stock.lengths"})
+        slots.update(f"{p}.{k}" for k in webform.SET_FIELDS)
+        slots.update(f"{p}.section.{k}" for k in webform.SECTION_FIELDS)
+        slots.update(f"{p}.stock.{k}" for k in webform.STOCK_FIELDS)
+    return slots
+
+
+def _own_stock(fields):
+    """The sets ("set[2]") whose own stock fields are filled in."""
+    return {f"set[{i}]" for i in range(1, webform.set_count(fields) + 1) if fields.get(f"set[{i}].stock.lengths")}
+
+
+def _remove_set(fields, which):
+    """The form without set ``which`` (later sets move up one place)."""
+    n = webform.set_count(fields)
+    try:
+        k = int(which)
+    except ValueError:
+        return fields
+    if not 1 <= k <= n or n == 1:
+        return fields
+    out = {name: v for name, v in fields.items() if not name.startswith("set[")}
+    for name, v in fields.items():
+        m = re.match(r"set\[(\d+)\](.*)", name)
+        if m:
+            i = int(m.group(1))
+            if i < k:
+                out[name] = v
+            elif i > k:
+                out[f"set[{i - 1}]{m.group(2)}"] = v
+    out["sets"] = str(n - 1)
+    return out

@@ -1,0 +1,97 @@
+"""Run the page under waitress, a production WSGI server in pure Python (no compiler needed on
+a classroom laptop, Windows included). Loopback by default; any other host is the caller's
+explicit choice and gets a warning."""
+
+from __future__ import annotations
+
+import ipaddress
+import os
+import signal
+import socket
+import threading
+import webbrowser
+
+from cutplan.web.app import MAX_UPLOAD_BYTES, create_app
+
+DEFAULT_HOST = "127.0.0.1"
+DEFAULT_PORT = 8750
+THREADS = 4
+"""Worker threads [-]: enough for a classroom on one laptop; planning is CPU-bound anyway."""
+
+
+def is_loopback(host):
+    """True for 127.x.x.x, ::1 and "localhost"."""
+    if host == "localhost":
+        return True
+    try:
+        return ipaddress.ip_address(host.strip("[]")).is_loopback
+    except ValueError:
+        return False
+
+
+def exposure_warning(host):
+    """The warning printed when the page is served beyond this machine, or None on loopback."""
+    if is_loopback(host):
+        return None
+    return (f"warning: serving on {host}: anyone who can reach this machine on that network can use the page "
+            "(and its CPU). There is no login. Use the default 127.0.0.1 unless the class needs it.")
+
+
+def page_url(host, port):
+    """The address to open in a browser."""
+    shown = "127.0.0.1" if host in ("0.0.0.0", "::", "") else host
+    if ":" in shown and not shown.startswith("["):
+        shown = f"[{shown}]"
+    return f"http://{shown}:{port}/"
+
+
+def _listening_socket(host, port):
+    """A bound TCP socket (closed again if binding fails, so nothing leaks on a busy port)."""
+    bare = host.strip("[]")
+    family = socket.AF_INET6 if ":" in bare else socket.AF_INET
+    sock = socket.socket(family, socket.SOCK_STREAM)
+    try:
+        sock.setsockopt(socket.SOL_SOCKET, socket.SO_REUSEADDR, 1)
+        sock.bind((bare, port))
+    except OSError:
+        sock.close()
+        raise
+    return sock
+
+
+def _stop(_signum, _frame):
+    raise KeyboardInterrupt
+
+
+def default_workers():
+    """Planning processes: one per core, at most :data:`THREADS` (each request holds one)."""
+    return max(1, min(THREADS, os.cpu_count() or 1))
+
+
+def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_dirs=(), echo=print, workers=None):
+    """Serve the page until interrupted (blocks)."""
+    from waitress import create_server
+
+    workers = default_workers() if workers is None else workers
+    app = create_app(materials_dirs, loopback_only=is_loopback(host), workers=workers)
+    sock = _listening_socket(host, port)
+    try:
+        server = create_server(app, sockets=[sock], threads=THREADS, max_request_body_size=MAX_UPLOAD_BYTES,
+                               ident="cutplan", clear_untrusted_proxy_headers=True)
+    except BaseException:
+        sock.close()
+        app.planner.close()
+        raise
+    url = page_url(host, sock.getsockname()[1])
+    echo(f"cutplan page at {url} (Ctrl+C to stop)")
+    if open_browser:
+        threading.Timer(0.5, webbrowser.open, args=(url,)).start()
+    if threading.current_thread() is threading.main_thread():
+        signal.signal(signal.SIGTERM, _stop)  # a plain kill stops the workers too
+    try:
+        server.run()
+    except KeyboardInterrupt:
+        pass
+    finally:
+        server.close()
+        app.planner.close()

@@ -1,0 +1,223 @@
+"""What the page and the JSON API do with a design, without any web framework.
+
+Every design goes through :func:`cutplan.design_from_mapping`, the same validation as a design
+file; the errors come back as ``{"key", "message"}`` records. Material folders come only from
+the server's own options, never from a request.
+"""
+
+from __future__ import annotations
+
+import io
+import json
+import threading
+import zipfile
+from collections import OrderedDict
+
+DESIGN_NAME = "design"
+"""Name that stands for the design in error lines (there is no file)."""
+MAX_DESIGN_BYTES = 1_000_000
+"""Largest design accepted [bytes], as for a design file (a design is a few kB)."""
+CACHE_SIZE = 16
+"""Plans kept for repeated requests of the same design (play, trim, download after a preview)."""
+ZIP_TIME = (1980, 1, 1, 0, 0, 0)
+"""Timestamp of every zip entry, so the same design gives the same zip bytes."""
+
+
+class WebErrors(ValueError):
+    """Problems with a request, each ``{"key": ..., "message": ...}`` (a design key or a form field)."""
+
+    def __init__(self, errors):
+        self.errors = list(errors)
+        super().__init__("; ".join(e["message"] for e in self.errors))
+
+
+def error(key, message):
+    """One error record; the message starts with the key, as a design-file error line does."""
+    return {"key": key, "message": f"{key}: {message}"}
+
+
+def design_errors(exc):
+    """``DesignErrors`` -> error records (the one-line messages without the design's name)."""
+    prefix = f"{DESIGN_NAME}: "
+    return [{"key": e.key, "message": str(e)[len(prefix):] if str(e).startswith(prefix) else str(e)}
+            for e in exc.errors]
+
+
+def _cache_key(data):
+    return json.dumps(data, sort_keys=True, ensure_ascii=False, default=str)
+
+
+class Planner:
+    """Validates and plans designs given as mappings; keeps the last few plans.
+
+    ``materials_dirs`` are the server's extra material folders (``cutplan serve --materials``).
+    With ``workers`` > 0, plans are computed in that many worker processes, so that several
+    requests use several cores (planning holds the interpreter lock) and the server stays
+    responsive; with 0 they are computed in the calling thread. Call :meth:`close` when done.
+    """
+
+    def __init__(self, materials_dirs=(), cache_size=CACHE_SIZE, workers=0):
+        self.materials_dirs = tuple(materials_dirs)
+        self.cache_size = cache_size
+        self.workers = workers
+        self._cache = OrderedDict()
+        self._lock = threading.Lock()
+        self._pool = None
+
+    def design(self, data):
+        """A validated Design, or :class:`WebErrors`."""
+        import cutplan
+        from cutplan.design import DesignErrors
+        from cutplan.materials import MaterialError
+
+        if not isinstance(data, dict):
+            raise WebErrors([error("(design)", "must be a table (JSON object) of design keys")])
+        if "material_dirs" in data:
+            raise WebErrors([error("material_dirs", "is not accepted from the page or the API; material "
+                                   "folders are given to the server (cutplan serve --materials DIR)")])
+        try:
+            return cutplan.design_from_mapping(data, self.materials_dirs, name=DESIGN_NAME)
+        except DesignErrors as exc:
+            raise WebErrors(design_errors(exc)) from None
+        except MaterialError as exc:  # a broken server-side folder, not the request's fault
+            raise WebErrors([error("(materials)", str(exc))]) from None
+
+    def compute(self, data):
+        """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers)."""
+        import cutplan
+        from cutplan.design import DesignErrors
+
+        design = self.design(data)
+        try:
+            return design, cutplan.plan(design)
+        except DesignErrors as exc:
+            raise WebErrors(design_errors(exc)) from None
+
+    def _in_worker(self, data):
+        from concurrent.futures.process import BrokenProcessPool
+
+        with self._lock:
+            if self._pool is None:
+                self._pool = _worker_pool(self.workers)
+            pool = self._pool
+        try:
+            kind, value = pool.submit(_plan_in_worker, data, self.materials_dirs).result()
+        except BrokenProcessPool:  # a worker died (killed, out of memory): plan here instead
+            with self._lock:
+                self._pool = None
+            return self.compute(data)
+        if kind == "errors":
+            raise WebErrors(value)
+        return value
+
+    def plan(self, data):
+        """(Design, Plan) for a design mapping, or :class:`WebErrors`. Repeated designs are cached."""
+        key = _cache_key(data)
+        with self._lock:
+            if key in self._cache:
+                self._cache.move_to_end(key)
+                return self._cache[key]
+        result = self._in_worker(data) if self.workers > 0 else self.compute(data)
+        with self._lock:
+            self._cache[key] = result
+            while len(self._cache) > self.cache_size:
+                self._cache.popitem(last=False)
+        return result
+
+    def close(self):
+        """Stop the worker processes, if any."""
+        with self._lock:
+            pool, self._pool = self._pool, None
+        if pool is not None:
+            pool.shutdown(wait=True, cancel_futures=True)
+
+
+def _quiet_worker():
+    """Workers leave Ctrl+C to the server, which stops them itself."""
+    import signal
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+
+
+def _worker_pool(workers):
+    import multiprocessing
+    from concurrent.futures import ProcessPoolExecutor
+
+    # spawn: a clean interpreter per worker (forking a threaded server is unsafe), as on Windows
+    return ProcessPoolExecutor(workers, mp_context=multiprocessing.get_context("spawn"), initializer=_quiet_worker)
+
+
+def _plan_in_worker(data, materials_dirs):
+    """Runs in a worker process: ("plan", (Design, Plan)) or ("errors", [records])."""
+    try:
+        return "plan", Planner(materials_dirs, cache_size=0).compute(data)
+    except WebErrors as exc:
+        return "errors", exc.errors
+
+
+_ORDER = {
+    "": ("title", "units", "paper", "tuning", "set", "stock"),
+    "tuning": ("a4", "temperament"),
+    "set": ("name", "kind", "notes", "scale", "root", "count", "range", "frequencies", "cents", "ratios", "material",
+            "section", "model", "target", "ends", "end_correction", "temperature", "humidity", "serves",
+            "max_length", "temperature_range", "undercut", "stock"),
+    "section": ("stock", "shape", "outer", "wall", "inner", "diameter", "width", "thickness"),
+    "stock": ("lengths", "kerf", "end_trim", "allowance"),
+    "lengths": ("length", "count", "price"),
+}
+
+
+def _ordered(value, where=""):
+    """The mapping with keys in the design contract's order (unknown keys after, as given)."""
+    if isinstance(value, list):
+        return [_ordered(v, where) for v in value]
+    if not isinstance(value, dict):
+        return value
+    order = _ORDER.get(where, ())
+    keys = [k for k in order if k in value] + [k for k in value if k not in order]
+    return {k: _ordered(value[k], k if k in _ORDER else "") for k in keys}
+
+
+def design_toml(data):
+    """The design as TOML text with the design file's keys, in the contract's order, so the same
+    design gives the same bytes however its keys arrived (``tomllib`` reads it back equal)."""
+    import tomli_w
+
+    return "# cutplan design, saved from the cutplan page\n" + tomli_w.dumps(_ordered(data))
+
+
+def packet_zip(plan, data):
+    """A zip of every file ``cutplan plan -o`` writes for this plan, plus ``design.toml``."""
+    from cutplan.render.packet import plan_files
+
+    files = dict(plan_files(plan))
+    files["design.toml"] = design_toml(data)
+    buf = io.BytesIO()
+    with zipfile.ZipFile(buf, "w", zipfile.ZIP_DEFLATED) as zf:
+        for name, payload in files.items():
+            info = zipfile.ZipInfo(name, ZIP_TIME)
+            info.compress_type = zipfile.ZIP_DEFLATED
+            info.external_attr = 0o644 << 16
+            zf.writestr(info, payload.encode("utf-8") if isinstance(payload, str) else payload)
+    return buf.getvalue()
+
+
+def packet_pdf(plan):
+    """The shop packet PDF alone (the same bytes as ``packet.pdf`` in the zip)."""
+    from cutplan.render.pdf import render_pdf
+
+    return render_pdf(plan, None)
+
+
+def piece_wav(plan, label):
+    """WAV bytes of one piece ringing, or of a whole set struck in turn (``label`` = the set's name)."""
+    from cutplan.audio.synth import RATE, arpeggio, piece_preview
+    from cutplan.audio.wav import wav_bytes
+
+    for s in plan.sets:
+        if s.name == label:
+            return wav_bytes(arpeggio(s.pieces), RATE)
+        for p in s.pieces:
+            if p.label == label:
+                return wav_bytes(piece_preview(p), RATE)
+    raise WebErrors([error("listen", f"{label!r} is not a piece or set of this design")])

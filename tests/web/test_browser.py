@@ -1,0 +1,289 @@
+"""The page in a real headless Chromium (Selenium + chromedriver): fill a design, watch the live
+preview, download the packet, see an error beside its field.
+
+The reference for the lengths is ``cutplan plan examples/porch-chimes.toml`` (its table and JSON)
+through click's CliRunner.
+"""
+
+import json
+import math
+import re
+import tempfile
+import threading
+import time
+import zipfile
+
+import pytest
+from click.testing import CliRunner
+
+from cutplan.cli import cli
+from tests.web.browser import HEADLESS_FLAGS, find_browser, skip_or_fail
+from tests.web.conftest import PORCH
+
+WAIT = 120
+"""Longest wait for the page [s]: planning takes about a second, more on a busy machine."""
+
+
+@pytest.fixture(scope="module")
+def server():
+    from waitress import create_server
+
+    from cutplan.web.app import create_app
+
+    srv = create_server(create_app(), host="127.0.0.1", port=0, threads=4)
+    thread = threading.Thread(target=srv.run, daemon=True)
+    thread.start()
+    yield f"http://127.0.0.1:{srv.effective_port}"
+    srv.close()
+    thread.join(timeout=5)
+
+
+@pytest.fixture(scope="module")
+def browser():
+    chromium, driver = find_browser()
+    if chromium is None:
+        skip_or_fail(driver)
+    from selenium import webdriver
+    from selenium.webdriver.chrome.service import Service
+
+    options = webdriver.ChromeOptions()
+    for flag in HEADLESS_FLAGS:
+        options.add_argument(flag)
+    profile = tempfile.TemporaryDirectory(prefix="cutplan-chromium-")
+    options.add_argument(f"--user-data-dir={profile.name}")
+    options.binary_location = chromium
+    d = webdriver.Chrome(service=Service(driver), options=options)
+    yield d
+    d.quit()
+    profile.cleanup()
+
+
+def _wait(d, check, timeout=WAIT):
+    from selenium.webdriver.support.ui import WebDriverWait
+
+    return WebDriverWait(d, timeout, poll_frequency=0.2).until(lambda drv: check(drv))
+
+
+def _set(d, name, value):
+    from selenium.webdriver.common.by import By
+    from selenium.webdriver.support.ui import Select
+
+    el = d.find_element(By.ID, name)
+    if el.tag_name == "select":
+        Select(el).select_by_value(value)
+    else:
+        el.clear()
+        el.send_keys(value)
+
+
+def _rows(d):
+    """[(label, note, cut length text)] of the preview's table, read in the browser."""
+    return d.execute_script(
+        "return Array.from(document.querySelectorAll('#preview tr[data-label]')).map(function (tr) {"
+        " return [tr.dataset.label, tr.querySelector('.note').textContent, tr.querySelector('.cut').textContent]; });")
+
+
+def _settled(d):
+    return d.execute_script("return !document.getElementById('design').classList.contains('busy');")
+
+
+def _cli_table():
+    result = CliRunner().invoke(cli, ["plan", str(PORCH)])
+    assert result.exit_code == 0
+    rows = {}
+    for line in result.output.splitlines():
+        # "porch-1  D5  587.33  19-27/32 (503.9)  20-1/32 (508.6)  ..." under "length in (mm)  cut in (mm)"
+        m = re.match(r"(porch-\d)\s+(\S+)\s+[\d.]+\s+\S+ \([\d.]+\)\s+(\S+) \(([\d.]+)\)", line)
+        if m:
+            rows[m.group(1)] = (m.group(2), m.group(3), float(m.group(4)))
+    return rows
+
+
+def test_fill_the_porch_design_and_see_the_command_lines_table(browser, server):
+    d = browser
+    d.get(server + "/")
+    for name, value in [("title", "Porch chimes in D pentatonic"), ("units", "in"), ("set[1].name", "porch"),
+                        ("set[1].kind", "chime"), ("set[1].scale", ""), ("set[1].root", ""), ("set[1].count", ""),
+                        ("set[1].notes", "D5 E5 F#5 A5 B5"), ("set[1].material", "aluminum-6063-t5"),
+                        ("set[1].section.stock", "al-1.000x0.065"), ("stock.lengths", "8 ft x 2"),
+                        ("stock.kerf", "1/16 in"), ("stock.end_trim", "1/8 in"), ("stock.allowance", "risk 5 %")]:
+        _set(d, name, value)
+    expected = _cli_table()
+    assert len(expected) == 5
+    _wait(d, lambda drv: _settled(drv) and [r[0] for r in _rows(drv)] == sorted(expected))
+    for label, note, cut in _rows(d):
+        cli_note, cli_inches, cli_mm = expected[label]
+        assert note == cli_note
+        assert cut == f"{cli_inches} in ({cli_mm:.1f} mm)"  # same inches and mm as the terminal table
+    cli_json = json.loads(CliRunner().invoke(cli, ["plan", str(PORCH), "--format", "json"]).stdout)
+    web_mm = [float(re.search(r"\(([\d.]+) mm\)", cut).group(1)) for _, _, cut in _rows(d)]
+    assert web_mm == [round(p["cut_length_mm"], 1) for p in cli_json["pieces"]]
+
+
+def test_changing_the_root_updates_the_preview(browser, server):
+    d = browser
+    d.get(server + "/")  # the starter design: a major-pentatonic scale from G5
+    first = _rows(d)[0]
+    assert first[1] == "G5"
+    _set(d, "set[1].root", "A5")
+    _wait(d, lambda drv: _settled(drv) and _rows(drv) and _rows(drv)[0][1] == "A5")
+    assert _rows(d)[0][2] != first[2]  # a higher root, a shorter first tube
+
+
+def test_download_the_packet_zip(browser, server, tmp_path):
+    from selenium.webdriver.common.by import By
+
+    d = browser
+    d.execute_cdp_cmd("Page.setDownloadBehavior", {"behavior": "allow", "downloadPath": str(tmp_path)})
+    d.get(server + "/?example=porch-chimes")
+    d.find_element(By.ID, "download-packet").click()
+    target = tmp_path / "packet.zip"
+    _wait(d, lambda drv: target.is_file() and not list(tmp_path.glob("*.crdownload")))
+    time.sleep(0.2)
+    with zipfile.ZipFile(target) as zf:
+        names = set(zf.namelist())
+    assert {"packet.pdf", "plan.csv", "plan.json", "cutlist.csv", "design.toml"} <= names
+    assert any(re.fullmatch(r"templates/.+\.svg", n) for n in names)
+
+
+def test_an_error_appears_beside_its_field(browser, server):
+    from selenium.webdriver.common.by import By
+
+    d = browser
+    d.get(server + "/?example=porch-chimes")
+    _set(d, "stock.kerf", "1/16")  # no unit: the design rules ask for one
+    box = '.msgs[data-slot="stock.kerf"] .msg.error'
+    _wait(d, lambda drv: drv.find_elements(By.CSS_SELECTOR, box))
+    text = d.find_element(By.CSS_SELECTOR, box).text
+    assert text.startswith('stock.kerf: "1/16"')
+    assert d.find_element(By.ID, "stock.kerf").get_attribute("aria-invalid") == "true"
+    # the message sits right under the field, not in a list at the top
+    field_box = d.find_element(By.ID, "stock.kerf").find_element(By.XPATH, "..")
+    assert field_box.find_elements(By.CSS_SELECTOR, ".msg.error")
+    assert "stale" in d.find_element(By.ID, "preview").get_attribute("class")
+
+
+@pytest.fixture(scope="module")
+def porch_strike(tmp_path_factory):
+    """A WAV of porch-1 ringing 1 % flat (about 17 cents), synthesized from its planned partials."""
+    import dataclasses
+
+    import cutplan
+    from cutplan.audio.synth import RATE, piece_preview
+    from cutplan.audio.wav import wav_bytes
+
+    piece = cutplan.plan(cutplan.load_design(PORCH)).pieces[0]
+    flat = dataclasses.replace(piece, partials_hz=tuple(f * 0.99 for f in piece.partials_hz))
+    path = tmp_path_factory.mktemp("strike") / "porch-1.wav"
+    path.write_bytes(wav_bytes(piece_preview(flat, seconds=4.0), RATE))
+    return path, piece.partials_hz[0] * 0.99
+
+
+@pytest.fixture(scope="module")
+def browser_with_microphone(porch_strike):
+    """A second Chromium whose microphone plays the synthesized strike (Chromium's fake capture device)."""
+    chromium, driver = find_browser()
+    if chromium is None:
+        skip_or_fail(driver)
+    from selenium import webdriver
+    from selenium.webdriver.chrome.service import Service
+
+    options = webdriver.ChromeOptions()
+    for flag in (*HEADLESS_FLAGS, "--use-fake-device-for-media-stream", "--use-fake-ui-for-media-stream",
+                 f"--use-file-for-fake-audio-capture={porch_strike[0]}", "--autoplay-policy=no-user-gesture-required"):
+        options.add_argument(flag)
+    profile = tempfile.TemporaryDirectory(prefix="cutplan-chromium-")
+    options.add_argument(f"--user-data-dir={profile.name}")
+    options.binary_location = chromium
+    d = webdriver.Chrome(service=Service(driver), options=options)
+    yield d
+    d.quit()
+    profile.cleanup()
+
+
+def test_trim_from_the_microphone(browser_with_microphone, server, porch_strike):
+    from selenium.webdriver.common.by import By
+
+    d = browser_with_microphone
+    d.get(server + "/?example=porch-chimes")
+    _set(d, "trim.piece", "porch-1")
+    button = d.find_element(By.ID, "record-button")
+    assert button.is_displayed()
+    button.click()
+    _wait(d, lambda drv: drv.find_elements(By.CSS_SELECTOR, "#trim-answer .trim-head")
+          or "no microphone" in drv.find_element(By.ID, "record-state").text)
+    head = d.find_element(By.CSS_SELECTOR, "#trim-answer .trim-head").text
+    measured = float(re.search(r": ([\d.]+) Hz", head).group(1))
+    # the synthesized strike is 1 % flat of porch-1's planned fundamental; allow 5 cents for
+    # the browser's resampling and the 16-bit WAV made in the page
+    assert abs(1200 * math.log2(measured / porch_strike[1])) < 5
+    assert "flat by" in d.find_element(By.ID, "trim-answer").text
+
+
+def test_play_buttons_fetch_the_sound_without_leaving_the_page(browser, server):
+    from selenium.webdriver.common.by import By
+
+    d = browser
+    d.get(server + "/?example=porch-chimes")
+    here = d.current_url
+    d.find_element(By.CSS_SELECTOR, 'button[name="listen"][value="porch-1"]').click()
+    d.find_element(By.CSS_SELECTOR, 'button[name="listen"][value="porch"]').click()
+    fetched = "return performance.getEntriesByType('resource').filter(function (e) {" \
+              " return /\\/listen$/.test(e.name) && e.responseStatus === 200; }).length;"
+    _wait(d, lambda drv: drv.execute_script(fetched) >= 2)
+    assert d.current_url == here and len(d.window_handles) == 1  # no new tab with JavaScript on
+    errors = [e for e in d.get_log("browser") if e["level"] == "SEVERE" and "NotAllowedError" not in e["message"]]
+    assert errors == []
+
+
+def test_enter_in_a_field_keeps_every_set(browser, server):
+    from selenium.webdriver.common.by import By
+    from selenium.webdriver.common.keys import Keys
+
+    d = browser
+    d.get(server + "/?example=workshop-marimba")  # two sets: a remove button comes early in the form
+    d.find_element(By.ID, "title").send_keys(" 2", Keys.ENTER)
+    _wait(d, lambda drv: _settled(drv) and drv.find_element(By.CSS_SELECTOR, "#preview h2").text.endswith(" 2"))
+    assert len(d.find_elements(By.CSS_SELECTOR, "fieldset.set")) == 2
+
+
+@pytest.fixture(scope="module")
+def browser_without_javascript():
+    chromium, driver = find_browser()
+    if chromium is None:
+        skip_or_fail(driver)
+    from selenium import webdriver
+    from selenium.webdriver.chrome.service import Service
+
+    options = webdriver.ChromeOptions()
+    for flag in HEADLESS_FLAGS:
+        options.add_argument(flag)
+    options.add_experimental_option("prefs", {"profile.managed_default_content_settings.javascript": 2})
+    profile = tempfile.TemporaryDirectory(prefix="cutplan-chromium-")
+    options.add_argument(f"--user-data-dir={profile.name}")
+    options.binary_location = chromium
+    d = webdriver.Chrome(service=Service(driver), options=options)
+    yield d
+    d.quit()
+    profile.cleanup()
+
+
+def test_the_form_works_without_javascript(browser_without_javascript, server):
+    from selenium.webdriver.common.by import By
+    from selenium.webdriver.common.keys import Keys
+
+    d = browser_without_javascript
+    d.get(server + "/?example=workshop-marimba")
+    assert "js" not in d.find_element(By.TAG_NAME, "html").get_attribute("class").split()  # the page's script did not run
+    field = d.find_element(By.ID, "set[1].range")
+    field.clear()
+    field.send_keys("D4..D5", Keys.ENTER)  # Enter submits through the Plan button, not "Remove this set"
+    _wait(d, lambda drv: _rows(drv) and _rows(drv)[0][1] == "D4")
+    assert len(d.find_elements(By.CSS_SELECTOR, "fieldset.set")) == 2
+    kerf = d.find_element(By.ID, "stock.kerf")
+    kerf.clear()
+    kerf.send_keys("3")
+    d.find_element(By.CSS_SELECTOR, 'button.primary[value="preview"]').click()
+    box = '.msgs[data-slot="stock.kerf"] .msg.error'
+    _wait(d, lambda drv: drv.find_elements(By.CSS_SELECTOR, box))
+    assert d.find_element(By.CSS_SELECTOR, box).text.startswith('stock.kerf: "3"')
