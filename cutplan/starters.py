@@ -44,7 +44,7 @@ kind = "bar"
 range = "C6..C7"
 scale = "major"
 material = "aluminum-6061-t6"
-section = { shape = "bar", width = "25 mm", thickness = "6 mm" }
+section = { shape = "bar", width = "25 mm", thickness = "8 mm" }
 
 [stock]
 lengths = [{ length = "1 m", count = 2 }]
