@@ -28,7 +28,6 @@ from dataclasses import dataclass
 from functools import lru_cache
 
 import numpy as np
-from scipy.linalg import eigh
 
 from cutplan.physics.blas import single_thread
 
@@ -93,7 +92,7 @@ def free_free_modes(
     elements=40,
     order=3,
     breaks=None,
-    symmetric=False,
+    symmetric=None,
 ):
     """Free-free flexural modes of a (possibly non-uniform) Timoshenko beam.
 
@@ -118,9 +117,10 @@ def free_free_modes(
     breaks : sequence of float, optional
         Element boundaries [m] from 0 to L (overrides ``elements``); put them where the section
         has a kink, such as the edges of an undercut arch.
-    symmetric : bool
+    symmetric : bool, optional
         The piece and the mesh are symmetric about the middle (an arched bar): solve the half
-        piece twice, with slope and shear zero at the middle (symmetric modes) and with
+        piece twice (None, the default: find out from the mesh and the section at the
+        quadrature points), with slope and shear zero at the middle (symmetric modes) and with
         deflection and moment zero there (antisymmetric modes).  The same discretisation and
         the same frequencies as the whole mesh, for about a quarter of the work.
 
@@ -142,6 +142,11 @@ def free_free_modes(
     575.0
     """
     edges = np.linspace(0.0, length, elements + 1) if breaks is None else np.asarray(breaks, dtype=float)
+    if symmetric is None:
+        symmetric = _is_symmetric(edges, length, order, (flexural_rigidity, shear_rigidity, mass_per_length,
+                                                         rotary_inertia))
+    from scipy.linalg import eigh  # here, not at import: keeps scipy off the plan path of uniform pieces
+
     with single_thread():
         if not symmetric:
             stiff, mass, x = _matrices(edges, flexural_rigidity, shear_rigidity, mass_per_length, rotary_inertia,
@@ -169,6 +174,23 @@ def free_free_modes(
         omega2 = np.clip(np.array([v for v, _ in found]), 0.0, None)
         x_full = np.concatenate([x, length - x[-2::-1]])
         return BeamModes(np.sqrt(omega2) / (2 * np.pi), x_full, np.array([w for _, w in found]))
+
+
+def _is_symmetric(edges, length, order, properties):
+    """Whether the mesh has a node at the middle and mirrors about it, and every section property
+    takes the same value at mirrored quadrature points (to rounding)."""
+    if edges.size % 2 == 0 or not np.allclose(edges, length - edges[::-1], rtol=0.0, atol=1e-12 * length):
+        return False
+    _, gauss, _, _, _ = _lagrange(order)
+    jac = np.diff(edges) / 2.0
+    xg = (edges[:-1, None] + (gauss[None, :] + 1.0) * jac[:, None]).ravel()
+    for value in properties:
+        if callable(value):
+            here = np.broadcast_to(np.asarray(value(xg), dtype=float), xg.shape)
+            there = np.broadcast_to(np.asarray(value(length - xg), dtype=float), xg.shape)
+            if not np.allclose(here, there, rtol=1e-12, atol=0.0):
+                return False
+    return True
 
 
 def _matrices(edges, flexural_rigidity, shear_rigidity, mass_per_length, rotary_inertia, order):

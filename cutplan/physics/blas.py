@@ -20,7 +20,10 @@ USER_THREAD_VARIABLES = ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THR
 
 @lru_cache(maxsize=1)
 def _controller():
-    """The threadpool controller, built once on first use (after numpy and scipy have loaded)."""
+    """The threadpool controller, built once on first use.  scipy.linalg is loaded first: scipy
+    brings its own BLAS, and a controller only sees the libraries loaded before it was built."""
+    import numpy  # noqa: F401
+    import scipy.linalg  # noqa: F401
     from threadpoolctl import ThreadpoolController
 
     return ThreadpoolController()

@@ -36,7 +36,6 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from scipy.linalg import eigh
 
 
 def torsion_constant_rectangle(width, thickness, terms=50):
@@ -208,5 +207,10 @@ def twisting_frequencies(length, torsional_rigidity, polar_inertia, modes=3, ele
     mass[i + 1, i + 1] += m22
     mass[i, i + 1] += m12
     mass[i + 1, i] += m12
-    values = eigh(stiff, mass, eigvals_only=True, subset_by_index=[0, modes])
+    from scipy.linalg import eigh  # only here: keeps scipy off the plan path of tubes and rods
+
+    from cutplan.physics.blas import single_thread
+
+    with single_thread():  # a second BLAS thread only spins against the first on a problem this small
+        values = eigh(stiff, mass, eigvals_only=True, subset_by_index=[0, modes])
     return np.sqrt(np.clip(values[1:], 0.0, None)) / (2 * math.pi)

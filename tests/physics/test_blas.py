@@ -1,6 +1,5 @@
 """One BLAS thread for small dense solves; a user's own thread setting is left alone."""
 
-import ast
 import subprocess
 import sys
 from pathlib import Path
@@ -37,8 +36,22 @@ def test_planning_uniform_pieces_loads_no_scipy():
     # the common plan path (chimes, uniform bars, air columns) runs on numpy alone; scipy.optimize
     # and scipy.io cost about 0.4 s of start-up and are not needed there
     code = ("import sys, cutplan; cutplan.plan(cutplan.load_design(sys.argv[1])); "
-            "print(sorted({m.split('.')[1] for m in sys.modules if m.startswith('scipy.')}))")
+            "print(' '.join(sorted({m.split('.')[1] for m in sys.modules if m.startswith('scipy.')})))")
     out = subprocess.run([sys.executable, "-c", code, str(ROOT / "examples" / "porch-chimes.toml")],
-                         capture_output=True, text=True, check=True).stdout
-    loaded = set(ast.literal_eval(out))
-    assert "optimize" not in loaded and "io" not in loaded, loaded
+                         capture_output=True, text=True, check=True).stdout.split()
+    assert "optimize" not in out and "io" not in out and "linalg" not in out
+
+
+def test_scipy_blas_is_limited_even_when_scipy_loads_late():
+    # scipy brings its own BLAS; it must be under the limit even if nothing had imported scipy
+    # before the first solve (a fresh process, no thread variables set)
+    import os
+
+    code = ("from cutplan.physics.blas import single_thread\n"
+            "with single_thread():\n"
+            "    import scipy.linalg\n"
+            "    from threadpoolctl import threadpool_info\n"
+            "    print(max(i['num_threads'] for i in threadpool_info() if i['user_api'] == 'blas'))\n")
+    env = {k: v for k, v in os.environ.items() if k not in blas.USER_THREAD_VARIABLES}
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True, env=env).stdout
+    assert out.strip() == "1"
