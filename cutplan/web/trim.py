@@ -74,7 +74,7 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now=""):
     """
     from cutplan import pitch
     from cutplan.calibrate import CalibrationError, trim_advice
-    from cutplan.planner import piece_frequency_function
+    from cutplan.models import piece_frequency_function
     from cutplan.units import UnitError, format_length, parse_length
 
     pieces = {p.label: p for p in plan.pieces}
