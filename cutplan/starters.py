@@ -44,7 +44,8 @@ kind = "bar"
 range = "C6..C7"
 scale = "major"
 material = "aluminum-6061-t6"
-section = { shape = "bar", width = "25 mm", thickness = "6 mm" }
+# 8 mm thick: at 6 mm the B6 bar would twist within 15 cents of its second partial (a buzz)
+section = { shape = "bar", width = "25 mm", thickness = "8 mm" }
 
 [stock]
 lengths = [{ length = "1 m", count = 2 }]
