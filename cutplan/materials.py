@@ -28,7 +28,7 @@ WOOD_BENDING_TO_TRUE_MODULUS = 1.10
 modulus E_L [-]. USDA FPL Wood Handbook, FPL-GTR-190, 2010, Table 5-3a footnote (from memory:
 "increase by about 10 %")."""
 
-_MATERIAL_KEYS = {"description", "modulus", "density", "poisson", "shear_modulus", "shear_ratio"}
+_MATERIAL_KEYS = {"description", "modulus", "density", "poisson", "shear_modulus", "shear_ratio", "class", "unusual"}
 _VALUE_KEYS = {"value", "source", "where", "kind", "spread", "basis"}
 _STOCK_HEADER_KEYS = {"standard", "source", "where", "kind", "shape", "material", "bore", "wall_factor"}
 _STOCK_KEYS = {"description", "outer", "wall", "inner", "outer_tolerance", "wall_tolerance", "material",
@@ -73,6 +73,8 @@ class Material:
     modulus_spread: float = 0.03
     density_spread: float = 0.01
     provenance: tuple = field(default=(), compare=False)
+    material_class: str | None = None
+    unusual: bool = False
 
     def modulus_for(self, model):
         """E [Pa] to use with ``model`` ("timoshenko" or "slender"); see the woods.toml header."""
@@ -136,6 +138,8 @@ def _read_toml(path):
         raise MaterialError(path, "(file)", "", f"is not valid TOML: {exc}") from None
     except UnicodeDecodeError:
         raise MaterialError(path, "(file)", "", "is not UTF-8 text") from None
+    except RecursionError:
+        raise MaterialError(path, "(file)", "", "is not a table file: its brackets nest too deep") from None
 
 
 def _value(path, key, entry, parse, sources, spread_default=None):
@@ -203,11 +207,27 @@ def material_from_table(name, table, path="(inline)", sources=None):
     basis = basis or "dynamic"
     if basis not in ("dynamic", "static-bending"):
         raise MaterialError(path, f"{name}.modulus.basis", basis, "must be dynamic or static-bending")
+    material_class, unusual = _class_of(path, name, table)
     return Material(
+        material_class=material_class, unusual=unusual,
         name=name, modulus=modulus, density=density, poisson=poisson,
         description=str(table.get("description", "")), shear_modulus=shear, shear_ratio=shear_ratio,
         modulus_basis=basis, modulus_spread=s_mod, density_spread=s_den, provenance=tuple(provs),
     )
+
+
+def _class_of(path, name, table):
+    """(class, unusual) of a material table: ``class = "metal"`` etc. (see cutplan.plausibility),
+    ``unusual = true`` when values outside the class's plausible range are meant."""
+    from cutplan.plausibility import CLASS_RANGES
+
+    cls = table.get("class")
+    if cls is not None and cls not in CLASS_RANGES:
+        raise MaterialError(path, f"{name}.class", cls, f"must be one of {', '.join(CLASS_RANGES)}")
+    unusual = table.get("unusual", False)
+    if not isinstance(unusual, bool):
+        raise MaterialError(path, f"{name}.unusual", unusual, "must be true or false")
+    return cls, unusual
 
 
 def _stock_file(path, data, sources, stock):

@@ -172,14 +172,35 @@ def beam_constants(mat, sec, model):
 def beam_frequency_function(material, section, model, strike=False):
     """f(L) [Hz] of the mode a chime or bar is tuned by (mode 1, or half of mode 4 for the strike
     note), for this material, section and model."""
+    from cutplan.physics import uniform
+
     ei, mu, kga, rho_i = beam_constants(material, section, model)
     n = STRIKE_NOTE_MODE if strike else 1
     scale = 0.5 if strike else 1.0
-    if model == "slender":
-        return lambda x: scale * float(beam.free_free_frequency(n, x, ei, mu))
-    if n == 1:
-        return lambda x: float(timoshenko.fundamental_frequencies(x, ei, mu, kga, rho_i)[0])
-    return lambda x: scale * float(timoshenko.frequencies(x, ei, mu, kga, rho_i, modes=n)[n - 1])
+
+    # vectorised over L (a float in, a float out); .lengths_for solves the inverse in closed form
+    def f_at(x):
+        lengths = np.atleast_1d(np.asarray(x, dtype=float))
+        if model == "slender":
+            f = beam.free_free_frequency(n, lengths, ei, mu)
+        elif n == 1:
+            f = timoshenko.fundamental_frequencies(lengths, ei, mu, kga, rho_i)
+        else:
+            g, s2 = timoshenko.uniform_parameters(lengths, ei, mu, kga, rho_i)
+            f = uniform.omegas(g, s2, n)[:, n - 1] / (2 * np.pi * lengths**2) * np.sqrt(ei / mu)
+        f = scale * np.asarray(f, dtype=float)
+        return float(f[0]) if np.ndim(x) == 0 else f.reshape(np.shape(x))
+
+    def lengths_for(hz):
+        hz = np.atleast_1d(np.asarray(hz, dtype=float)) / scale
+        if model == "slender":
+            return np.atleast_1d(beam.free_free_length(hz, ei, mu, mode=n))
+        if n == 1:
+            return timoshenko.fundamental_lengths(hz, ei, mu, kga, rho_i)
+        return uniform.mode_lengths(hz, n, ei, mu, kga, rho_i)
+
+    f_at.lengths_for = lengths_for
+    return f_at
 
 
 def air_frequency_function(spec):
@@ -203,25 +224,30 @@ def piece_frequency_function(spec, piece):
 def _allowances(spec, stock, frequency_at, length, target, ratios_uncal, ratios_cal):
     """(cut length, uncalibrated allowance, calibrated allowance, risk of coming out sharp)."""
     risk = stock.allowance_risk if stock is not None and stock.allowance_risk else DEFAULT_SHARP_RISK
-    uncal = uncertainty.cut_length_for_risk(frequency_at, length, target, ratios_uncal, risk)
-    cal = uncertainty.cut_length_for_risk(frequency_at, length, target, ratios_cal, risk)
+    # a set solved in closed form (frequency_at.lengths_for) gets every piece's allowance at once
+    solve = getattr(frequency_at, "lengths_for", None)
+
+    def cut_for(ratios):
+        if solve is None:
+            return uncertainty.cut_length_for_risk(frequency_at, length, target, ratios, risk)
+        q = uncertainty.risk_quantile(ratios, risk)
+        return solve(np.asarray(target, dtype=float) / q) if q > 1.0 else np.asarray(length, dtype=float)
+
+    uncal, cal = cut_for(ratios_uncal), cut_for(ratios_cal)
     if stock is not None and stock.allowance_risk is None:
         cut = length * (1 + stock.allowance) + stock.allowance_length
     else:
         cut = uncal
-    return cut, uncal - length, cal - length, uncertainty.sharp_risk(frequency_at, cut, target, ratios_uncal)
+    if solve is None:
+        return cut, uncal - length, cal - length, uncertainty.sharp_risk(frequency_at, cut, target, ratios_uncal)
+    return cut, uncal - length, cal - length, uncertainty.sharp_risks(frequency_at(cut), target, ratios_uncal)
 
 
 def _mode_length(frequency, mode, ei, mu, kga, rho_i):
-    """Timoshenko length whose mode ``mode`` sounds ``frequency``: scalar root find."""
-    from scipy.optimize import brentq
+    """Timoshenko length whose mode ``mode`` sounds ``frequency`` (closed-form determinant)."""
+    from cutplan.physics import uniform
 
-    slender = float(beam.free_free_length(frequency, ei, mu, mode=mode))
-
-    def miss(length):
-        return float(np.log(timoshenko.frequencies(length, ei, mu, kga, rho_i, modes=mode)[mode - 1] / frequency))
-
-    return brentq(miss, 0.4 * slender, slender, xtol=1e-12, rtol=1e-12)
+    return float(uniform.mode_lengths(frequency, mode, ei, mu, kga, rho_i)[0])
 
 
 SHARP_RISK_WARNING = 0.10
@@ -236,66 +262,65 @@ def _risk_warning(risk):
 
 
 def _plan_beam_set(spec: SetSpec, design: Design, stock):
+    from cutplan.physics import uniform
+
     model = spec.model
-    f_at = beam_frequency_function(spec.material, spec.section, model, spec.target_mode == "strike-note")
+    strike = spec.target_mode == "strike-note"
+    f_at = beam_frequency_function(spec.material, spec.section, model, strike)
     ratios_uncal = uncertainty.beam_ratios(spec.material, spec.section, spec.outer_tolerance, spec.wall_tolerance)
     ratios_cal = uncertainty.beam_ratios(spec.material, spec.section, calibrated=True)
     ei, mu, kga, rho_i = beam_constants(spec.material, spec.section, model)
     targets = np.array([t.frequency for t in spec.targets])
-    strike = spec.target_mode == "strike-note"
-    if strike:
-        # the mode-4 frequency is twice the strike note
-        if model == "slender":
-            lengths = np.atleast_1d(beam.free_free_length(2 * targets, ei, mu, mode=STRIKE_NOTE_MODE))
-        else:
-            lengths = np.array([_mode_length(2 * f, STRIKE_NOTE_MODE, ei, mu, kga, rho_i) for f in targets])
-    elif model == "slender":
-        lengths = np.atleast_1d(beam.free_free_length(targets, ei, mu))
+    # the whole set at once: lengths, modes, nodes, allowances (closed-form determinant, arrays)
+    lengths = f_at.lengths_for(targets)
+    modes = max(PARTIAL_COUNT, STRIKE_NOTE_MODE) if strike else PARTIAL_COUNT
+    g, s2 = timoshenko.uniform_parameters(lengths, ei, mu, kga, rho_i)
+    to_hz = np.sqrt(ei / mu) / (2 * np.pi * lengths[:, None] ** 2)
+    timo = uniform.omegas(g, s2, modes) * to_hz
+    slender = beam.free_free_roots(modes)[None, :] ** 2 * to_hz
+    if model == "slender":
+        partials = slender
+        xi = beam.node_positions(1)
+        nodes = [tuple(x * length for x in xi) for length in lengths]
     else:
-        lengths = timoshenko.fundamental_lengths(targets, ei, mu, kga, rho_i)
+        partials = timo
+        xi = uniform.fundamental_nodes(timo[:, 0] / to_hz[:, 0], g, s2)
+        nodes = [(x * length, (1 - x) * length) for x, length in zip(xi, lengths, strict=True)]
+    predicted = partials[:, STRIKE_NOTE_MODE - 1] / 2 if strike else partials[:, 0]
+    shear_cents = 1200 * np.log2(timo[:, 0] / slender[:, 0])
+    step = 0.5e-3  # cents per mm: central difference over +/- 0.5 mm, as _cents_per_mm
+    per_mm = 1200 * np.log2(f_at(lengths - step) / f_at(lengths + step))
+    cuts, a_uncal, a_cal, risks = _allowances(spec, stock, f_at, lengths, targets, ratios_uncal, ratios_cal)
     pieces = []
     depth = spec.section.depth
-    for i, (t, length) in enumerate(zip(spec.targets, lengths, strict=True), start=1):
-        length = float(length)
-        modes = max(PARTIAL_COUNT, STRIKE_NOTE_MODE) if strike else PARTIAL_COUNT
-        timo = timoshenko.frequencies(length, ei, mu, kga, rho_i, modes=modes)
-        slender = np.array([beam.free_free_frequency(n, length, ei, mu) for n in range(1, modes + 1)])
-        if model == "slender":
-            partials = slender
-            nodes = tuple(x * length for x in beam.node_positions(1))
-        else:
-            partials = timo
-            g, s2 = timoshenko.uniform_parameters(length, ei, mu, kga, rho_i)
-            omega1 = timo[0] * 2 * np.pi * length**2 / np.sqrt(ei / mu)
-            nodes = tuple(x * length for x in timoshenko.node_positions(float(omega1), float(g), float(s2)))
-        predicted = partials[STRIKE_NOTE_MODE - 1] / 2 if strike else partials[0]
+    for i, t in enumerate(spec.targets):
+        length, cut = float(lengths[i]), float(cuts[i])
         warnings = []
         if length / depth < STUBBY_RATIO:
             warnings.append(
                 f"stubby piece: length is {length / depth:.1f} x its depth; beam models are "
                 "approximate here, so cut a test piece and calibrate"
             )
-        shear_cents = pitch.cents(timo[0], slender[0])
-        if model == "slender" and abs(shear_cents) > 5:
+        if model == "slender" and abs(shear_cents[i]) > 5:
             warnings.append(
                 f"slender model: shear and rotary inertia would lower this piece by "
-                f"{-shear_cents:.0f} cents; the default timoshenko model includes them"
+                f"{-shear_cents[i]:.0f} cents; the default timoshenko model includes them"
             )
-        cut, a_uncal, a_cal, risk = _allowances(spec, stock, f_at, length, t.frequency, ratios_uncal, ratios_cal)
-        warnings += _risk_warning(risk)
+        warnings += _risk_warning(float(risks[i]))
         if cut > COMMON_STOCK_LENGTH and not (stock and stock.lengths):
             warnings.append(f"longer than common stock ({COMMON_STOCK_LENGTH:.2f} m / 12 ft)")
+        row = partials[i, :PARTIAL_COUNT]
         pieces.append(
             Piece(
-                set=spec.name, kind=spec.kind, label=f"{spec.name}-{i}", note=t.name,
-                target_hz=t.frequency, predicted_hz=float(predicted), length=length, cut_length=cut,
-                nodes=nodes, mass=spec.material.density * spec.section.area * length,
-                partials_hz=tuple(float(f) for f in partials[:PARTIAL_COUNT]),
-                partial_notes=_partial_notes(partials[:PARTIAL_COUNT], design.a4),
-                cents_per_mm=_cents_per_mm(f_at, length), model=model,
-                shear_correction_cents=float(shear_cents), warnings=tuple(warnings),
-                fundamental_hz=float(partials[0]), allowance_uncalibrated=a_uncal,
-                allowance_calibrated=a_cal, sharp_risk=risk,
+                set=spec.name, kind=spec.kind, label=f"{spec.name}-{i + 1}", note=t.name,
+                target_hz=t.frequency, predicted_hz=float(predicted[i]), length=length, cut_length=cut,
+                nodes=tuple(float(x) for x in nodes[i]), mass=spec.material.density * spec.section.area * length,
+                partials_hz=tuple(float(f) for f in row),
+                partial_notes=_partial_notes(row, design.a4),
+                cents_per_mm=float(per_mm[i]), model=model,
+                shear_correction_cents=float(shear_cents[i]), warnings=tuple(warnings),
+                fundamental_hz=float(partials[i, 0]), allowance_uncalibrated=float(a_uncal[i]),
+                allowance_calibrated=float(a_cal[i]), sharp_risk=float(risks[i]),
             )
         )
     return pieces
@@ -325,16 +350,16 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
     kappa = sec.shear_coefficient(mat.poisson)
     ratios_uncal = uncertainty.beam_ratios(mat, sec, spec.outer_tolerance, spec.wall_tolerance)
     ratios_cal = uncertainty.beam_ratios(mat, sec, calibrated=True)
-    pieces, guess, previous = [], None, None
+    pieces, guess, jacobian = [], None, None
     order = sorted(range(len(spec.targets)), key=lambda i: spec.targets[i].frequency)
     solved = {}
     for i in order:
+        # lowest note first; each bar starts from its neighbour's arch and Jacobian (the first
+        # Newton step then does the length scaling)
         t = spec.targets[i]
-        if guess is not None:
-            guess = (guess[0] * (previous / t.frequency) ** 0.5, guess[1], guess[2])
         result = undercut.design_undercut(t.frequency, cut.ratios, sec.width, sec.thickness, e, g, mat.density,
-                                          kappa, cut.min_thickness, cut.arch_width, guess=guess)
-        guess, previous = (result.length, result.depth, result.exponent), t.frequency
+                                          kappa, cut.min_thickness, cut.arch_width, guess=guess, jacobian=jacobian)
+        guess, jacobian = (result.length, result.depth, result.exponent), result.jacobian
         solved[i] = result
         if progress is not None:
             progress(1)

@@ -1,5 +1,9 @@
 """Plausible ranges of stiffness and density by class of material, to catch unit slips.
 
+A material table names its class (``class = "metal"``, "wood", "plastic" or "glass"); one
+without a class is held to the union of the ranges. A real material outside its range (a
+foam, a composite, a sintered metal) is accepted when its table says ``unusual = true``.
+
 A modulus typed as "68.9 MPa" instead of GPa, or a density of "2700 g/cm3", still parses; these
 ranges turn such slips into a clear error. They are deliberately wide (common practice, checked
 against the handbook values in ``materials/``): every tabled material sits well inside its class.
@@ -44,10 +48,19 @@ def problems(modulus, density, material_class=None):
     what = material_class or "any material"
     lo, hi = modulus_range(material_class)
     if not lo <= modulus <= hi:
+        slip = "GPa, not MPa" if modulus < lo else "MPa or GPa, not kPa or psi mixed up"
         out.append(f"modulus {modulus / 1e9:.3g} GPa is outside {lo / 1e9:g}-{hi / 1e9:g} GPa, plausible for "
-                   f"{what} (a unit slip? GPa, not MPa)")
+                   f"{what} (a unit slip? {slip})")
     lo, hi = density_range(material_class)
     if not lo <= density <= hi:
+        slip = "kg/m3, not g/cm3" if density > hi else "g/cm3, not kg/m3"
         out.append(f"density {density:.4g} kg/m3 is outside {lo:g}-{hi:g} kg/m3, plausible for {what} "
-                   "(a unit slip? kg/m3, not g/cm3)")
+                   f"(a unit slip? {slip})")
     return out
+
+
+def material_problems(material):
+    """:func:`problems` for a Material, honouring its class and ``unusual`` flag (empty: fine)."""
+    if getattr(material, "unusual", False):
+        return []
+    return problems(material.modulus, material.density, getattr(material, "material_class", None))

@@ -44,7 +44,6 @@ kind = "bar"
 range = "C6..C7"
 scale = "major"
 material = "aluminum-6061-t6"
-# 8 mm thick: at 6 mm the B6 bar would twist within 15 cents of its second partial (a buzz)
 section = { shape = "bar", width = "25 mm", thickness = "8 mm" }
 
 [stock]

@@ -17,8 +17,13 @@ relaxation is solved by column generation (HiGHS for the master LP, a 0/1 knapsa
 its rounded-up value is a lower bound, and a diving heuristic on the generated patterns usually
 meets it.  With prices, every mix of sticks cheaper than the best layout is tried cheapest first:
 a mix whose relaxation cannot hold the pieces is ruled out, so the first mix that packs is the
-optimum.  Under the time limit the best layout is reported with its bound and gap.  Everything
-is ordered deterministically, so the same design gives the same layout.
+optimum.
+
+The exact part lives in :mod:`cutplan.stock_columns`.  Effort is bounded by work, never by
+the clock: at most ``effort`` master LP solves per layout (and MAX_MIXES stick mixes).  Everything is ordered deterministically, so the same design gives
+the same layout on any machine and under any load; when the work runs out the best layout is
+reported with its bound, not proven.  An optional wall-clock ``time_limit`` only stops a run,
+with a StockError that says so; it never changes a printed result.
 
 References
 ----------
@@ -26,6 +31,9 @@ References
    Wiley, 1990, ch. 8 (bin packing; lower bound L2).
 .. [2] Gilmore, P. C. and Gomory, R. E., "A linear programming approach to the cutting-stock
    problem", Operations Research 9 (1961) 849-859 (from memory).
+.. [3] Farley, A. A., "A note on bounding a class of linear programming problems, including
+   cutting stock problems", Operations Research 38 (1990) 922-923 (the early-stop bound; from
+   memory).
 """
 
 from __future__ import annotations
@@ -33,16 +41,47 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-import numpy as np
-
 FIT_TOLERANCE = 1e-9
 """Slack allowed when checking that pieces fit [m] (a nanometre: float rounding only)."""
-DEFAULT_TIME_LIMIT = 2.0
-"""Seconds the exact search may take per group of pieces [s]."""
+DEFAULT_TIME_LIMIT = None
+"""No wall-clock limit by default: effort is bounded by work (see DEFAULT_EFFORT)."""
+DEFAULT_EFFORT = 4000
+"""Most master LP solves one layout may take [-] (every seeded bench instance up to 80 pieces
+needs under 600)."""
 
 
 class StockError(ValueError):
     """The stock on hand cannot hold the pieces (names what is missing)."""
+
+
+class StockTimeout(StockError):
+    """The optional wall-clock limit passed before the search finished (nothing is printed)."""
+
+
+class _OutOfWork(Exception):
+    """The work budget ran out: the search stops where it is, the same way on every machine."""
+
+
+class _Work:
+    """Counts master LP solves against a budget; checks the optional wall-clock limit."""
+
+    def __init__(self, effort, time_limit):
+        import time
+
+        self.left = effort
+        self.used = 0
+        self._clock = time.perf_counter
+        self.deadline = None if time_limit is None else self._clock() + time_limit
+        self.time_limit = time_limit
+
+    def spend(self):
+        if self.deadline is not None and self._clock() > self.deadline:
+            raise StockTimeout(f"the cut-list search passed its time limit of {self.time_limit:g} s before it "
+                               "finished; run it without a time limit (the result does not depend on it)")
+        if self.left <= 0:
+            raise _OutOfWork
+        self.left -= 1
+        self.used += 1
 
 
 @dataclass(frozen=True)
@@ -83,6 +122,7 @@ class Layout:
     cost: float | None = None
     cost_lower_bound: float | None = None
     notes: tuple = field(default=())
+    lp_solves: int = 0
 
     @property
     def gap(self):
@@ -187,167 +227,6 @@ def _heuristic(items, types, kerf, end_trim, by_cost):
     return [(b[0], sorted(b[1], key=lambda i: (-items[i].length, items[i].label))) for b in bins]
 
 
-GRID = 5e-4
-"""Resolution of the knapsack pricing grid [m] (0.5 mm). Sizes are rounded down on it, so the
-LP bound stays valid; while diving they are rounded up, so every pattern used fits (and is
-re-checked with the true sizes)."""
-
-
-PATTERNS_PER_ROUND = 10
-"""Disjoint improving patterns priced per column-generation round [-]."""
-
-
-def _knapsack(values, weights, capacity):
-    """0/1 knapsack by dynamic programming over an integer capacity: (best value, chosen items)."""
-    n = len(values)
-    best = np.zeros(capacity + 1)
-    take = np.zeros((n, capacity + 1), dtype=bool)
-    for i in range(n):
-        w, v = int(weights[i]), values[i]
-        if v <= 0 or w > capacity:
-            continue
-        cand = np.full(capacity + 1, -np.inf)
-        cand[w:] = best[: capacity + 1 - w] + v
-        better = cand > best + 1e-12
-        take[i] = better
-        best = np.where(better, cand, best)
-    chosen, c = [], capacity
-    for i in range(n - 1, -1, -1):
-        if take[i, c]:
-            chosen.append(i)
-            c -= int(weights[i])
-    return float(best[capacity]), sorted(chosen)
-
-
-def _master_lp(keys, n_items, types, cost, limited, big):
-    """Solve the covering LP over the columns, with an artificial column per item at cost ``big``
-    so that it is always feasible.
-
-    Returns (value, x of the real columns, item duals, stick-limit duals, artificial total).
-    """
-    from scipy.optimize import linprog
-    from scipy.sparse import csr_matrix, hstack, identity, vstack
-
-    rows, cols = [], []
-    for j, (_t, members) in enumerate(keys):
-        rows += list(members)
-        cols += [j] * len(members)
-    cover = csr_matrix((np.ones(len(rows)), (rows, cols)), shape=(n_items, len(keys)))
-    a_ub = [-hstack([cover, identity(n_items, format="csr")])]
-    b_ub = [-np.ones(n_items)]
-    for t in limited:
-        a_ub.append(csr_matrix(np.array([[1.0 if k[0] == t else 0.0 for k in keys] + [0.0] * n_items])))
-        b_ub.append(np.array([float(types[t].count)]))
-    c = np.array([cost[k[0]] for k in keys] + [big] * n_items)
-    res = linprog(c, A_ub=vstack(a_ub).tocsr(), b_ub=np.concatenate(b_ub), bounds=(0, None), method="highs")
-    if res.status != 0:
-        return None, None, None, None, None
-    duals = -res.ineqlin.marginals
-    m = len(keys)
-    return (res.fun, res.x[:m], np.clip(duals[:n_items], 0.0, None),
-            {t: max(0.0, float(-res.ineqlin.marginals[n_items + k])) for k, t in enumerate(limited)},
-            float(res.x[m:].sum()))
-
-
-def _generate(items_idx, sizes, caps, types, cost, limited, columns, deadline, rounding):
-    """Column generation on the items ``items_idx``; ``rounding`` floor (bound) or ceil (feasible).
-
-    Returns (LP value, x, columns used, artificial total); an artificial total above zero at the
-    end means even the relaxation cannot cover the items with the sticks allowed.
-    """
-    import time
-
-    big = 1000.0 * (max(cost) + 1.0)
-    local = {i: k for k, i in enumerate(items_idx)}
-    grid = (np.floor if rounding == "floor" else np.ceil)(sizes[items_idx] / GRID - (1e-9 if rounding == "ceil" else -1e-9))
-    grid = grid.astype(int)
-    grid_caps = [int(np.floor(c / GRID + 1e-9)) for c in caps]
-    value = x = None
-    keys = []
-    while True:
-        keys = [k for k in columns if all(i in local for i in k[1])
-                and (rounding == "floor" or sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE)]
-        local_keys = [(t, tuple(local[i] for i in m)) for t, m in keys]
-        value, x, pi, mu, art = _master_lp(local_keys, len(items_idx), types, cost, limited, big)
-        if value is None:
-            return None, None, keys, math.inf
-        added = 0
-        for t in range(len(types)):
-            # several disjoint improving patterns per round: fewer LP solves
-            prices = pi.copy()
-            for _round in range(PATTERNS_PER_ROUND):
-                best, chosen = _knapsack(prices, grid, grid_caps[t])
-                if not chosen or best <= cost[t] + mu.get(t, 0.0) + 1e-9:
-                    break
-                key = (t, tuple(sorted(items_idx[c] for c in chosen)))
-                if key not in columns:
-                    columns[key] = True
-                    added += 1
-                prices[chosen] = 0.0
-        if not added or time.perf_counter() > deadline:
-            return value, x, keys, art
-
-
-def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, time_limit):
-    """Gilmore-Gomory LP bound by column generation, then a diving heuristic on the columns.
-
-    Returns (assignment or None, proven optimal, lower bound on the objective).
-    """
-    import time
-
-    deadline = time.perf_counter() + time_limit
-    n = len(items)
-    sizes = np.array([it.length + kerf for it in items])
-    caps = [_capacity(t.length, kerf, end_trim) for t in types]
-    cost = [(t.price or 0.0) if by_cost else 1.0 for t in types]
-    limited = [t for t, st in enumerate(types) if st.count is not None]
-    columns = {}
-    for t, members in seed_patterns:
-        columns[(t, tuple(sorted(members)))] = True
-    for i in range(n):  # singletons: a start for every master
-        fitting = [t for t in range(len(types)) if _fits(0.0, sizes[i], caps[t])]
-        columns[(min(fitting, key=lambda t: (cost[t], caps[t])), (i,))] = True
-    everything = np.arange(n)
-    lp_value, _, _, art = _generate(everything, sizes, caps, types, cost, limited, columns, deadline, "floor")
-    if lp_value is None:
-        return None, False, 0.0
-    if art > 1e-6:
-        if time.perf_counter() > deadline:
-            return None, False, 0.0  # not converged: unknown
-        return None, True, 0.0  # even the relaxation is infeasible: the stock allowed is too small
-    bound = math.ceil(lp_value - 1e-6) if not by_cost else lp_value
-    # dive: fix the most used feasible column, re-price the rest, repeat
-    left = list(range(n))
-    chosen = []
-    counts = {t: types[t].count for t in limited}
-    while left:
-        sub_types = [StockType(st.length, counts.get(t, st.count), st.price) for t, st in enumerate(types)]
-        value, x, keys, art = _generate(np.array(left), sizes, caps, sub_types, cost, limited, columns,
-                                        deadline if time.perf_counter() < deadline else time.perf_counter() + 0.05,
-                                        "ceil")
-        if value is None or art > 1e-6:
-            return None, False, bound
-        feasible = [(j, k) for j, k in enumerate(keys) if sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE]
-        if not feasible:
-            return None, False, bound
-        # fix every column the LP already uses whole, or else the most used one
-        ranked = sorted(feasible, key=lambda jk: (-x[jk[0]], -len(jk[1][1]), jk[0]))
-        fixed = [jk for jk in ranked if x[jk[0]] > 1 - 1e-6] or ranked[:1]
-        taken = set()
-        for _j, (t, members) in fixed:
-            take = [i for i in members if i not in taken]
-            if not take or (t in counts and counts[t] <= 0):
-                continue
-            taken.update(take)
-            chosen.append((t, sorted(take, key=lambda i: (-items[i].length, items[i].label))))
-            if t in counts:
-                counts[t] -= 1
-        left = [i for i in left if i not in taken]
-    value = sum(cost[t] for t, _ in chosen)
-    proven = value <= (bound if not by_cost else lp_value) + 1e-6
-    return chosen, proven, bound
-
-
 def _achievable_cost_bound(lp_value, prices, upper):
     """Smallest cost a whole number of sticks can have that is at least ``lp_value``.
 
@@ -392,8 +271,12 @@ def _cost(sticks):
     return float(sum(s.price for s in sticks))
 
 
-def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT):
+def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, effort=DEFAULT_EFFORT):
     """Lay ``items`` out on ``types`` of stock. Raises StockError when they cannot all be cut.
+
+    ``effort`` bounds the work (master LP solves), so the result never depends on the machine or
+    its load.  ``time_limit`` [s], if given, only stops a run that is still going at that time,
+    with :class:`StockTimeout`; it never changes a result.
 
     Examples
     --------
@@ -416,6 +299,9 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT):
             raise StockError(
                 f"{it.label} ({it.length * 1000:.0f} mm) is longer than the longest stock "
                 f"({longest.length * 1000:.0f} mm) after {end_trim * 1000:.0f} mm end trim")
+    from cutplan.stock_columns import _cheaper_mixes, _column_generation
+
+    work = _Work(effort, time_limit)
     by_cost = all(t.price is not None for t in types) and any(t.price for t in types)
     sizes = [it.length + kerf for it in items]
     bound = lower_bound_l2(sizes, _capacity(longest.length, kerf, end_trim))
@@ -426,12 +312,15 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT):
     if by_cost and heur is not None:
         # priced: start from first fit decreasing and rule out every cheaper mix of sticks
         first = _sticks(items, types, kerf, end_trim, heur)
-        better, proven, cost_bound = _cheaper_mixes(items, types, kerf, end_trim, _cost(first), time_limit)
+        better, proven, cost_bound = _cheaper_mixes(items, types, kerf, end_trim, _cost(first), work)
         sticks = better if better is not None else first
         method = "stick mixes + column generation" if better is not None else "first fit decreasing"
-        return Layout(sticks, bound, proven, method, _cost(sticks), max(cost_bound, 0.0))
+        return Layout(sticks, bound, proven, method, _cost(sticks), max(cost_bound, 0.0), lp_solves=work.used)
     seeds = heur or []
-    exact, proven, dual = _column_generation(items, types, kerf, end_trim, by_cost, seeds, time_limit)
+    try:
+        exact, proven, dual = _column_generation(items, types, kerf, end_trim, by_cost, seeds, work)
+    except _OutOfWork:
+        exact, proven, dual = None, False, 0.0
     candidates = []
     if heur is not None:
         candidates.append(("first fit decreasing", _sticks(items, types, kerf, end_trim, heur)))
@@ -452,77 +341,11 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT):
     if by_cost:
         cost_bound = cost if proven_primary else _achievable_cost_bound(
             max(dual, 0.0), [t.price for t in types], cost)
-        return Layout(sticks, bound, cost <= cost_bound + 1e-6, method, cost, cost_bound)
+        return Layout(sticks, bound, cost <= cost_bound + 1e-6, method, cost, cost_bound, lp_solves=work.used)
     bound = max(bound, math.ceil(dual - 1e-6)) if dual else bound
     if proven_primary:
         bound = len(sticks)
-    return Layout(sticks, bound, len(sticks) == bound, method, cost)
-
-
-MAX_MIXES = 2000
-"""Most stick mixes examined for a priced layout [-]."""
-
-
-def _mixes(types, sizes_total, caps, below):
-    """Whole numbers of sticks of each type costing less than ``below`` and long enough in total,
-    cheapest first. Returns (mixes, complete): complete is False when there were too many."""
-    out = []
-    complete = True
-
-    def walk(t, counts, cost, room):
-        nonlocal complete
-        if len(out) >= MAX_MIXES:
-            complete = False
-            return
-        if t == len(types):
-            if room >= sizes_total - FIT_TOLERANCE and cost < below - 1e-9:
-                out.append((cost, tuple(counts)))
-            return
-        price = types[t].price or 0.0
-        most = types[t].count if types[t].count is not None else 10_000
-        if price > 0:
-            most = min(most, int((below - cost) / price + 1e-9))
-        elif types[t].count is None:
-            complete = False
-            most = 0
-        for k in range(most + 1):
-            walk(t + 1, counts + [k], cost + k * price, room + k * caps[t])
-
-    walk(0, [], 0.0, 0.0)
-    return sorted(out), complete
-
-
-def _cheaper_mixes(items, types, kerf, end_trim, best_cost, time_limit):
-    """Look for a cheaper layout, one mix of sticks at a time, cheapest first.
-
-    A mix whose relaxed (fractional) packing cannot hold the pieces is ruled out; the first mix
-    that yields a layout is then the optimum, if every cheaper one was ruled out.
-    Returns (better sticks or None, proven optimal, lower bound on the cost).
-    """
-    import time
-
-    deadline = time.perf_counter() + time_limit
-    sizes_total = sum(it.length + kerf for it in items)
-    caps = [_capacity(t.length, kerf, end_trim) for t in types]
-    longest_piece = max(it.length + kerf for it in items)
-    mixes, complete = _mixes(types, sizes_total, caps, best_cost)
-    bound = None
-    for mix_cost, counts in mixes:
-        if time.perf_counter() > deadline:
-            return None, False, mix_cost if bound is None else bound
-        sub = [StockType(types[t].length, k, types[t].price) for t, k in enumerate(counts) if k > 0]
-        if not sub or max(_capacity(st.length, kerf, end_trim) for st in sub) < longest_piece - FIT_TOLERANCE:
-            continue
-        assignment, infeasible, _ = _column_generation(items, sub, kerf, end_trim, False, [],
-                                                       max(0.2, deadline - time.perf_counter()))
-        if assignment is not None:
-            sticks = _sticks(items, sub, kerf, end_trim, assignment)
-            return sticks, complete and bound is None, _cost(sticks) if bound is None else bound
-        if not infeasible and bound is None:
-            bound = mix_cost  # not ruled out: the optimum may cost this much
-    if bound is None:
-        return None, complete, best_cost if complete else 0.0
-    return None, False, bound
+    return Layout(sticks, bound, len(sticks) == bound, method, cost, lp_solves=work.used)
 
 
 def _shortage(items, types, kerf, end_trim):

@@ -16,8 +16,11 @@ sharp (too short, which cannot be undone).
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
-from scipy.optimize import brentq
+
+from cutplan.physics.roots import bracketed_roots
 
 SAMPLES = 20_000
 """Monte Carlo samples per set [-]."""
@@ -37,10 +40,21 @@ def _rng():
     return np.random.default_rng(SEED)
 
 
-def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, calibrated=False):
-    """Samples of f_actual / f_planned for a chime or bar cut at its planned length."""
+@lru_cache(maxsize=1)
+def _draws():
+    """The seeded draws every set uses: (standard normals (2, SAMPLES), then uniforms on [-1, 1]
+    (2, SAMPLES) from the same stream).  Drawn once per process and shared read-only."""
     rng = _rng()
     z = rng.standard_normal((2, SAMPLES))
+    u = rng.uniform(-1, 1, (2, SAMPLES))
+    z.flags.writeable = False
+    u.flags.writeable = False
+    return z, u
+
+
+def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, calibrated=False):
+    """Samples of f_actual / f_planned for a chime or bar cut at its planned length."""
+    z, u = _draws()
     if calibrated:
         e = 1 + CALIBRATED_MODULUS_SPREAD * z[0]
         return np.sqrt(np.clip(e, 0.5, None))
@@ -48,7 +62,6 @@ def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, cali
     rho = 1 + material.density_spread * z[1]
     ratio = np.sqrt(np.clip(e, 0.2, None) / np.clip(rho, 0.2, None))
     if section.shape in ("tube", "rod") and (outer_tolerance or wall_tolerance):
-        u = rng.uniform(-1, 1, (2, SAMPLES))
         outer = section.outer + outer_tolerance * u[0]
         if section.shape == "tube":
             wall = section.wall * (1 + wall_tolerance * u[1])
@@ -78,8 +91,7 @@ def air_ratios(length, radius, correction_factor, open_ends, temperature, calibr
     calibrated : bool
         True after a test pipe has been measured (smaller spreads).
     """
-    rng = _rng()
-    z = rng.standard_normal((2, SAMPLES))
+    z = _draws()[0]
     t_spread = TEMPERATURE_SPREAD / 2 if calibrated else TEMPERATURE_SPREAD
     d_spread = END_CORRECTION_SPREAD / 5 if calibrated else END_CORRECTION_SPREAD
     speed = np.sqrt((temperature + t_spread * z[0]) / temperature)
@@ -88,25 +100,46 @@ def air_ratios(length, radius, correction_factor, open_ends, temperature, calibr
     return speed * (length + open_ends * delta) / (length + open_ends * delta_s)
 
 
+def risk_quantile(ratios, risk):
+    """The ratio f_actual / f_planned exceeded with probability ``risk`` [-]."""
+    return float(np.quantile(ratios, 1.0 - risk))
+
+
 def cut_length_for_risk(frequency_at, length, target, ratios, risk):
     """Shortest cut length [m] at which the chance of sounding above ``target`` is ``risk``.
 
-    ``frequency_at(L)`` is the planned model's frequency [Hz] at length L [m].
+    ``frequency_at(L)`` is the planned model's frequency [Hz] at length L [m].  The cut length
+    is where the model sounds ``target / q``, q the (1 - risk) quantile of the ratios; a set
+    solved in closed form passes ``target / q`` to its own length solver instead
+    (:func:`risk_quantile`).
     """
-    q = float(np.quantile(ratios, 1.0 - risk))
+    q = risk_quantile(ratios, risk)
     if q <= 1.0:
         return length
     goal = target / q
 
     def miss(x):
-        return np.log(frequency_at(x) / goal)
+        return float(np.log(frequency_at(x) / goal))
 
+    f_lo = miss(length)
+    if f_lo <= 0:
+        return length
     hi = length * 1.05
-    while miss(hi) > 0:
+    f_hi = miss(hi)
+    while f_hi > 0:
         hi *= 1.05
-    return brentq(miss, length, hi, xtol=1e-7)
+        f_hi = miss(hi)
+    root = bracketed_roots(lambda x, _k: np.array([miss(v) for v in x]), [length], [hi], [f_lo], [f_hi],
+                           rtol=1e-13)
+    return float(root[0])
 
 
 def sharp_risk(frequency_at, cut_length, target, ratios):
     """Chance [-] that a piece cut at ``cut_length`` sounds above ``target`` before any trimming."""
     return float(np.mean(ratios * frequency_at(cut_length) > target))
+
+
+def sharp_risks(frequencies_at_cut, targets, ratios):
+    """:func:`sharp_risk` for many pieces at once, given each one's model frequency at its cut length."""
+    f = np.asarray(frequencies_at_cut, dtype=float)[:, None]
+    return np.mean(np.asarray(ratios)[None, :] * f > np.asarray(targets, dtype=float)[:, None], axis=1)

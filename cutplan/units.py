@@ -2,7 +2,10 @@
 
 Everything inside cutplan is SI (m, kg, s, Pa, K); this module is the edge where text such as
 ``"1-1/4 in"``, ``"6' 3-1/2\\""`` or ``"68.9 GPa"`` becomes a float, and where lengths become
-``"514.9 mm"`` or ``"20-1/4 in (+0.02)"`` again.  A plain number (no unit) is taken as SI.
+``"514.9 mm"`` or ``"20-1/4 in (+0.02)"`` again.  A length must carry its unit (a bare
+``19.84`` could be inches or millimetres, and read as metres it silently makes a 20 m piece);
+frequencies, moduli and densities may be bare SI numbers. Text that does not parse raises
+:class:`UnitError`; whether a parsed value is sensible is the caller's business.
 
 >>> parse_length("1-1/4 in")
 0.03175
@@ -47,7 +50,7 @@ class UnitError(ValueError):
 
 LENGTH_FORMS = (
     'a length such as "25.4 mm", "2.5 cm", "1.5 m", "1-1/4 in", "3/4\\"", "8 ft", '
-    "\"6' 3-1/2\\\"\" or a plain number in metres"
+    "\"6' 3-1/2\\\"\" (always with a unit)"
 )
 MODULUS_FORMS = 'a modulus such as "68.9 GPa", "2480 MPa", "10 Msi", "420000 psi" or a plain number in Pa'
 DENSITY_FORMS = (
@@ -59,7 +62,7 @@ FREQUENCY_FORMS = 'a frequency such as "440 Hz", "1.2 kHz" or a plain number in 
 
 _NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
 # 1-1/4, 1 1/4, 3/4, 2.5, 1e3
-_AMOUNT = rf"(?:\d+\s*[- ]\s*\d+\s*/\s*\d+|\d+\s*/\s*\d+|{_NUMBER})"
+_AMOUNT = rf"(?:-?\d+\s*[- ]\s*\d+\s*/\s*\d+|-?\d+\s*/\s*\d+|{_NUMBER})"
 
 _LENGTH_UNITS = {
     "mm": MM,
@@ -115,8 +118,11 @@ _FREQUENCY_UNITS = {"hz": 1.0, "khz": 1e3}
 
 
 def _amount(text):
-    """Value of a decimal, a fraction '3/4' or a mixed number '1-1/4' / '1 1/4'."""
+    """Value of a decimal, a fraction '3/4' or a mixed number '1-1/4' / '1 1/4' (a leading minus
+    is kept, so that a range check, not the parser, refuses "-1/8 in")."""
     text = text.strip()
+    if re.fullmatch(r"-\d+\s*(?:[- ]\s*\d+\s*)?/\s*\d+", text):
+        return -_amount(text[1:])
     mixed = re.fullmatch(r"(\d+)\s*[- ]\s*(\d+)\s*/\s*(\d+)", text)
     if mixed:
         whole, num, den = (int(g) for g in mixed.groups())
@@ -143,9 +149,25 @@ def _as_text(value):
 
 
 def _finite(value, text, forms):
+    try:
+        value = float(value)
+    except OverflowError:
+        raise UnitError(_short(text), forms) from None
     if not math.isfinite(value):
-        raise UnitError(text, forms)
+        raise UnitError(_short(text), forms)
     return value
+
+
+def _short(text):
+    if isinstance(text, int) and not isinstance(text, bool) and text.bit_length() > 100:
+        return f"a number of about {int(text.bit_length() * 0.30103)} digits"
+    text = str(text)
+    return text if len(text) <= 40 else f"{text[:20]}...({len(text)} characters)"
+
+
+def bare_length_forms(amount_text):
+    """What to say about a length given without a unit."""
+    return f'a length with a unit: write "{amount_text} in" or "{amount_text} mm"'
 
 
 def _scaled(value, units, forms):
@@ -155,24 +177,28 @@ def _scaled(value, units, forms):
     except TypeError:
         raise UnitError(repr(value), forms) from None
     if text is None:
-        return _finite(float(value), str(value), forms)
+        return _finite(value, value, forms)
     match = re.fullmatch(rf"({_AMOUNT})\s*(\S*)", text)
     if not match:
-        raise UnitError(text, forms)
+        raise UnitError(_short(text), forms)
     unit = match.group(2).lower()
     try:
         amount = _amount(match.group(1))
-    except (ValueError, ZeroDivisionError):
-        raise UnitError(text, forms) from None
+    except (ValueError, ZeroDivisionError, OverflowError):
+        raise UnitError(_short(text), forms) from None
     if unit == "":
+        if units is _LENGTH_UNITS and amount != 0:
+            raise UnitError(_short(text), bare_length_forms(match.group(1)))
         return _finite(amount, text, forms)
     if unit not in units:
-        raise UnitError(text, forms)
+        raise UnitError(_short(text), forms)
     return _finite(amount * units[unit], text, forms)
 
 
 def parse_length(value):
-    """Length in metres from text such as ``"1-1/4 in"`` or ``"6' 3-1/2\\""``; numbers are metres.
+    """Length in metres from text such as ``"1-1/4 in"`` or ``"6' 3-1/2\\""``; always with a unit.
+
+    A bare number other than 0 is refused with a suggestion (``19.84`` -> "19.84 in" or "19.84 mm").
 
     >>> parse_length("25.4 mm")
     0.0254
@@ -186,7 +212,10 @@ def parse_length(value):
     except TypeError:
         raise UnitError(repr(value), LENGTH_FORMS) from None
     if text is None:
-        return _finite(float(value), str(value), LENGTH_FORMS)
+        if value == 0:
+            return 0.0
+        shown = _short(value)
+        raise UnitError(shown, bare_length_forms(shown if len(shown) < 20 else "19.84"))
     # feet and inches together: 6' 3-1/2", 6 ft 3 in, 6ft 3.5in
     both = re.fullmatch(
         rf"({_AMOUNT})\s*(?:'|′|ft|foot|feet)\s*({_AMOUNT})\s*(?:\"|″|in|inch|inches)?",
@@ -195,9 +224,10 @@ def parse_length(value):
     )
     if both:
         try:
-            return _amount(both.group(1)) * FOOT + _amount(both.group(2)) * INCH
-        except (ValueError, ZeroDivisionError):
-            raise UnitError(text, LENGTH_FORMS) from None
+            total = _amount(both.group(1)) * FOOT + _amount(both.group(2)) * INCH
+        except (ValueError, ZeroDivisionError, OverflowError):
+            raise UnitError(_short(text), LENGTH_FORMS) from None
+        return _finite(total, text, LENGTH_FORMS)
     return _scaled(text, _LENGTH_UNITS, LENGTH_FORMS)
 
 
@@ -237,12 +267,12 @@ def parse_temperature(value):
     except TypeError:
         raise UnitError(repr(value), TEMPERATURE_FORMS) from None
     if text is None:
-        kelvin = float(value)
+        kelvin = _finite(value, value, TEMPERATURE_FORMS)
     else:
         match = re.fullmatch(rf"({_NUMBER})\s*(°?\s*[CFK]|deg\s*[CF])?", text, flags=re.IGNORECASE)
         if not match:
-            raise UnitError(text, TEMPERATURE_FORMS)
-        amount = float(match.group(1))
+            raise UnitError(_short(text), TEMPERATURE_FORMS)
+        amount = _finite(match.group(1), text, TEMPERATURE_FORMS)
         unit = (match.group(2) or "K").replace("°", "").replace("deg", "").strip().upper()
         if unit == "C":
             kelvin = amount + ZERO_CELSIUS
@@ -251,7 +281,7 @@ def parse_temperature(value):
         else:
             kelvin = amount
     if not math.isfinite(kelvin) or kelvin <= 0:
-        raise UnitError(str(value), TEMPERATURE_FORMS + " (above absolute zero)")
+        raise UnitError(_short(value), TEMPERATURE_FORMS + " (above absolute zero)")
     return kelvin
 
 
@@ -265,8 +295,8 @@ def parse_percent(value):
         raise UnitError(repr(value), PERCENT_FORMS)
     match = re.fullmatch(rf"({_NUMBER})\s*%", value.strip())
     if not match:
-        raise UnitError(value, PERCENT_FORMS)
-    return float(match.group(1)) / 100.0
+        raise UnitError(_short(value), PERCENT_FORMS)
+    return _finite(match.group(1), value, PERCENT_FORMS) / 100.0
 
 
 def format_mm(metres, decimals=1):

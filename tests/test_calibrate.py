@@ -187,3 +187,22 @@ def test_calibrate_command_for_air_columns():
     assert two.exit_code == 0 and "343.0 m/s" in two.output and "7.5 mm" in two.output
     both = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--fit", "both", "--piece", "190 mm @ 426.7"])
     assert both.exit_code == 2 and "two or more different lengths" in both.output
+
+
+@pytest.mark.parametrize(("example", "label"), [
+    ("porch-chimes", "porch-1"), ("classroom-pipes", "pipes-1"), ("workshop-marimba", "bars-1"),
+    ("workshop-marimba", "tubes-1"), ("music-room-marimba", "resonators-1"),
+])
+@pytest.mark.parametrize("ratio", [0.51, 0.8, 1.5, 1.99])
+def test_trim_answers_over_the_whole_octave_it_accepts(example, label, ratio):
+    # any reading within an octave of the plan's prediction gets an answer, for every kind
+    from pathlib import Path
+
+    import cutplan
+
+    design = Path(__file__).resolve().parent.parent / "examples" / f"{example}.toml"
+    piece = next(p for p in cutplan.plan(cutplan.load_design(design)).pieces if p.label == label)
+    result = CliRunner().invoke(cli, ["trim", str(design), label, "--measured", f"{piece.target_hz * ratio:.3f}",
+                                      "--length-now", f"{piece.length * 1000:.3f} mm"])
+    assert result.exit_code == 0, result.output
+    assert ("remove" in result.output) == (ratio < 1)

@@ -131,3 +131,22 @@ def test_material_dirs_relative_to_design(tmp_path):
     (tmp_path / "mats" / "m.toml").write_text('[shed-pipe]\nmodulus = "70 GPa"\ndensity = "2700 kg/m3"\n', encoding="utf-8")
     design, _ = load(tmp_path, 'material_dirs = ["mats"]\n' + GOOD_SET.replace("aluminum-6063-t5", "shed-pipe"))
     assert design.sets[0].material.modulus == 70e9
+
+
+def test_the_design_package_keeps_its_public_names():
+    # the split into cutplan/design/ keeps every name callers import
+    from cutplan.design import (  # noqa: F401
+        DEFAULT_SHARP_RISK,
+        Design,
+        DesignError,
+        DesignErrors,
+        SetSpec,
+        StockLength,
+        StockSpec,
+        Undercut,
+        design_from_mapping,
+        load_design,
+        read_design_file,
+    )
+
+    assert issubclass(DesignError, ValueError) and issubclass(DesignErrors, ValueError)

@@ -163,23 +163,15 @@ def test_cutlist_command_and_what_if(tmp_path):
     assert bad.exit_code == 2 and "--stock" in bad.output
 
 
-def test_pieces_of_different_sections_never_share_a_stick():
-    import json
-    from pathlib import Path
-
-    marimba = str(Path(__file__).resolve().parent.parent / "examples" / "workshop-marimba.toml")
-    data = json.loads(CliRunner().invoke(cli, ["plan", marimba, "--format", "json"]).output)
+def test_pieces_of_different_sections_never_share_a_stick(example_json):
+    data = example_json("workshop-marimba")
     for stick in data["stock"]["sticks"]:
         sets = {c["label"].rsplit("-", 1)[0] for c in stick["cuts"]}
         assert len(sets) == 1
 
 
-def test_plan_json_has_the_stock_key_shape():
-    import json
-    from pathlib import Path
-
-    porch = str(Path(__file__).resolve().parent.parent / "examples" / "porch-chimes.toml")
-    data = json.loads(CliRunner().invoke(cli, ["plan", porch, "--format", "json"]).output)
+def test_plan_json_has_the_stock_key_shape(example_json):
+    data = example_json("porch-chimes")
     stick = data["stock"]["sticks"][0]
     assert {"stock_length_mm", "cuts", "offcut_mm"} <= set(stick)
     assert {"label", "start_mm", "length_mm"} <= set(stick["cuts"][0])
@@ -233,3 +225,59 @@ def test_priced_layout_matches_brute_force(seed):
                  [StockType(length, price=price) for length, price in types], kerf=0.003)
     assert out.cost == pytest.approx(brute_force_min_cost(lengths, types, 0.003))
     assert out.proven_optimal
+
+
+def seeded_priced_instance(n=45, seed=1007):
+    """A priced instance like bench/bench_stock.py #08: pieces 150-1000 mm, 8 ft and 10 ft sticks."""
+    rng = random.Random(seed)
+    its = [Item(f"p{i}", round(rng.uniform(0.15, 1.0), 4)) for i in range(n)]
+    return its, [StockType(96 * 0.0254, price=12.0), StockType(120 * 0.0254, price=14.0)]
+
+
+def layout_key(out):
+    return [(s.stock_length, s.cuts, s.offcut) for s in out.sticks], out.proven_optimal, out.cost
+
+
+def test_same_layout_however_slow_the_clock(monkeypatch):
+    # The search is bounded by work, not time: a clock that races ahead (a machine a thousand
+    # times slower, or one under heavy load) must give the very same layout.
+    import time
+
+    its, types = seeded_priced_instance()
+    quiet = layout(its, types, kerf=0.0016, end_trim=0.0032)
+    ticks = [0.0]
+
+    def racing_clock():
+        ticks[0] += 10.0
+        return ticks[0]
+
+    monkeypatch.setattr(time, "perf_counter", racing_clock)
+    loaded = layout(its, types, kerf=0.0016, end_trim=0.0032)
+    assert layout_key(loaded) == layout_key(quiet)
+    assert quiet.proven_optimal
+
+
+def test_a_time_limit_stops_with_a_message_never_a_different_layout(monkeypatch):
+    import time
+
+    from cutplan.stock import StockTimeout
+
+    its, types = seeded_priced_instance()
+    ticks = [0.0]
+
+    def racing_clock():
+        ticks[0] += 10.0
+        return ticks[0]
+
+    monkeypatch.setattr(time, "perf_counter", racing_clock)
+    with pytest.raises(StockTimeout, match="time limit"):
+        layout(its, types, kerf=0.0016, end_trim=0.0032, time_limit=1.0)
+
+
+def test_work_bound_is_deterministic_and_honest():
+    # With too little work allowed, the layout is not proven; run twice, it is the same layout.
+    its, types = seeded_priced_instance()
+    a = layout(its, types, kerf=0.0016, end_trim=0.0032, effort=2)
+    b = layout(its, types, kerf=0.0016, end_trim=0.0032, effort=2)
+    assert layout_key(a) == layout_key(b)
+    assert not a.proven_optimal

@@ -15,7 +15,7 @@ from cutplan.units import UnitError
         ("25.4 mm", 0.0254), ("2.5cm", 0.025), ("1.5 m", 1.5), ("1 in", 0.0254),
         ("1-1/4 in", 0.03175), ("1 1/4 in", 0.03175), ('3/4"', 0.01905), ("8 ft", 2.4384),
         ("8'", 2.4384), ("6' 3-1/2\"", 6 * 0.3048 + 3.5 * 0.0254), ("6 ft 3 in", 1.905),
-        (0.3, 0.3), ("0.3", 0.3), ("1/16 in", 0.0015875),
+        ("0.3 m", 0.3), (0, 0.0), ("0", 0.0), ("1/16 in", 0.0015875),
     ],
 )
 def test_parse_length(text, metres):
@@ -49,6 +49,14 @@ def test_parse_percent():
     assert units.parse_percent("0.5 %") == pytest.approx(0.005)
     with pytest.raises(UnitError):
         units.parse_percent(0.5)
+
+
+@pytest.mark.parametrize("bare", [0.3, "0.3", "19.84", 19.84, "1/16", 10**400, "1" * 400])
+def test_a_length_without_a_unit_is_refused_with_both_suggestions(bare):
+    # a bare number could be inches or millimetres; reading it as metres made 20 m pieces
+    with pytest.raises(UnitError) as info:
+        units.parse_length(bare)
+    assert ' in"' in str(info.value) and ' mm"' in str(info.value)
 
 
 @pytest.mark.parametrize("bad", ["", "mm", "12 furlongs", "1//2 in", "abc", "1/0 in", "nan", None, [1], True, "inf mm"])

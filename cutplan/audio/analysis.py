@@ -33,8 +33,10 @@ PATTERNS = {
     "closed-open": ((1.0, 3.0, 5.0, 7.0, 9.0), 0.04),
     "open-open": ((1.0, 2.0, 3.0, 4.0, 5.0, 6.0), 0.04),
 }
-"""Partial patterns by kind: nominal ratios (Euler-Bernoulli free-free ratios, shared/REFERENCES.md
-sec. 1; tuned bars 1:4:10 and 1:3:6, sec. 4; odd and all harmonics for air columns) and the
+"""Partial patterns by kind: nominal ratios (Euler-Bernoulli free-free ratios 1 : 2.756 : 5.404 :
+8.933, Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed., 1998, ch. 2 (from memory
+for the chapter); tuned bars 1:4:10 and 1:3:6, the same book's chapter on bars (from memory);
+odd and all harmonics for closed and open air columns) and the
 largest fractional drop allowed for the highest listed partial (shear lowers the upper free-free
 partials of real pieces; common practice from our solver's range of pieces)."""
 
@@ -43,6 +45,24 @@ MIN_SECONDS = 0.05
 PEAK_PROMINENCE_DB = 25.0
 """How far a partial must rise above the median spectral level [dB]; white noise peaks reach
 about 12 dB, a ringing partial 40 dB or more."""
+LOCAL_PROMINENCE_DB = 20.0
+"""How far a partial must rise above the median level of its own third-octave band [dB]: a
+click or a thump has a broad spectrum whose ripples stand out from the whole spectrum's median
+but not from their neighbours (common practice for telling tones from transients)."""
+MIN_FUNDAMENTAL_HZ = 20.0
+"""Lowest fundamental reported [Hz]; anything lower is not a piece ringing."""
+
+
+def _band_floor(mag, bin_hz, f_min):
+    """Median level [dB] of the third-octave band each bin lies in."""
+    floor = np.full(mag.size, np.inf)
+    lo = f_min
+    while lo < mag.size * bin_hz:
+        a, b = int(lo / bin_hz), min(mag.size, int(lo * 2 ** (1 / 3) / bin_hz) + 1)
+        if b > a:
+            floor[a:b] = np.median(mag[a:b])
+        lo *= 2 ** (1 / 3)
+    return floor
 
 
 @dataclass(frozen=True)
@@ -92,6 +112,7 @@ def spectrum_peaks(samples, rate, max_peaks=16, f_min=20.0):
     local = (mag[lo:-1] > mag[lo - 1:-2]) & (mag[lo:-1] >= mag[lo + 1:])
     idx = np.flatnonzero(local) + lo
     idx = idx[mag[idx] > floor + PEAK_PROMINENCE_DB]
+    idx = idx[mag[idx] > _band_floor(mag, bin_hz, f_min)[idx] + LOCAL_PROMINENCE_DB]
     if idx.size == 0:
         raise RecordingError("no clear partials: the recording sounds like noise or hum, not a ringing piece")
     # keep the strongest, at least 1/3 semitone apart (zero padding gives many small side maxima)
@@ -168,8 +189,12 @@ def _identify(peaks, names, patterns, near):
                     best = (key, cand, matched, name, share)
     if best is None:
         # a single clean peak (or nothing fits the pattern): call the strongest peak the fundamental
-        f, _ = max(peaks, key=lambda p: p[1])
-        return Measurement(f, tuple(p[0] for p in peaks), 0.3, names[0], True)
+        usable = [p for p in peaks if near is None or abs(math.log2(p[0] / near)) <= 0.5]
+        if not usable:
+            raise RecordingError(f"no partial within half an octave of {near:.1f} Hz (--near); "
+                                 "is this the right piece and note?")
+        f, _ = max(usable, key=lambda p: p[1])
+        return Measurement(float(f), tuple(float(p[0]) for p in peaks), 0.3, names[0], True)
     _, cand, matched, name, share = best
     exact = [f for k, f in matched if k == 0]
     ratios = patterns[name][0]
@@ -181,12 +206,22 @@ def _identify(peaks, names, patterns, near):
         k, f = min(matched)
         fundamental = f / ratios[k]
         heard = False
+    if fundamental < MIN_FUNDAMENTAL_HZ or (near is not None and abs(math.log2(fundamental / near)) > 0.5):
+        where = f"within half an octave of {near:.1f} Hz" if near is not None else f"above {MIN_FUNDAMENTAL_HZ:g} Hz"
+        raise RecordingError(f"no tonal fundamental {where}: the recording sounds like a click or thump; "
+                             "strike the piece and let it ring")
     confidence = max(0.0, min(1.0, share * (len(matched) / min(len(ratios), 4)) ** 0.5 * (1.0 if heard else 0.7)))
     return Measurement(float(fundamental), tuple(float(f) for _, f in sorted(matched)),
-                       round(confidence, 2), name, heard)
+                       round(float(confidence), 2), name, heard)
 
 
 def measure(samples, rate, kind="chime", near=None, ratios=None):
-    """Fundamental and partials of a struck piece from its samples (see :func:`identify`)."""
-    peaks, _floor = spectrum_peaks(samples, rate)
-    return identify(peaks, kind, near, ratios)
+    """Fundamental and partials of a struck piece from its samples (see :func:`identify`).
+
+    Numeric warnings stay inside; a recording with no tonal peak, or none near ``near`` [Hz],
+    raises :class:`RecordingError`.
+    """
+    from cutplan.numeric import quiet
+
+    peaks, _floor = quiet(spectrum_peaks, samples, rate)
+    return quiet(identify, peaks, kind, near, ratios)

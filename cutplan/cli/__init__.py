@@ -10,7 +10,7 @@ from __future__ import annotations
 import click
 
 from cutplan import __version__
-from cutplan.cli import examples, pieces, plans, shop
+from cutplan.cli import examples, from_stock, pieces, plans, shop
 
 
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
@@ -29,8 +29,7 @@ for _command in (plans.plan_command, plans.cutlist_command, pieces.scale_command
                  pieces.length_command, pieces.new_command, shop.measure_command, shop.calibrate_command,
                  shop.trim_command, shop.listen_command):
     cli.add_command(_command)
-
-
+cli.add_command(from_stock.from_stock_command)
 cli.add_command(examples.examples_command)
 
 

@@ -3,9 +3,7 @@ writing files whole, and the common options."""
 
 from __future__ import annotations
 
-import os
 import sys
-import tempfile
 from pathlib import Path
 
 import click
@@ -21,7 +19,9 @@ class BadInput(click.ClickException):
     exit_code = EXIT_BAD_INPUT
 
     def __init__(self, lines):
-        self.lines = [str(line) for line in lines]
+        from cutplan.design.text import shown
+
+        self.lines = [shown(line) for line in lines]  # escape codes are shown escaped, never sent
         super().__init__("\n".join(self.lines))
 
     def show(self, file=None):
@@ -36,18 +36,25 @@ def fail(lines):
 
 
 def write_file(path, data):
-    """Write text or bytes to ``path`` completely or not at all (temporary file + rename)."""
-    path = Path(path)
-    path.parent.mkdir(parents=True, exist_ok=True)
-    payload = data.encode("utf-8") if isinstance(data, str) else data
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.parent)
+    """Write text or bytes to ``path`` completely or not at all (temporary file + rename),
+    with the usual permissions; a failure is one line and exit 2."""
+    from cutplan.folder import FolderError, write_file_whole
+
     try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(payload)
-        os.replace(tmp, path)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
+        write_file_whole(path, data, force=True)
+    except FolderError as exc:
+        fail(str(exc))
+
+
+def write_folder(output, files, force):
+    """Write ``files`` as the folder ``output`` whole (see :mod:`cutplan.folder`); exit 2 on failure."""
+    from cutplan.folder import FolderError
+    from cutplan.folder import write_folder as _write
+
+    try:
+        return _write(output, files, force)
+    except FolderError as exc:
+        fail(str(exc))
 
 
 def _library_loader(extra):
@@ -87,26 +94,33 @@ def _wants_progress():
 
 
 def _plan(design, stock_override=None):
+    """The plan, or exit 2 with one line per problem; numeric warnings never reach the user."""
     from cutplan.design import DesignErrors
+    from cutplan.numeric import NumericError, checked_plan
     from cutplan.planner import bars_to_solve, plan
+
+    def run(progress=None):
+        return checked_plan(lambda: plan(design, progress=progress, stock_override=stock_override), design.path)
 
     try:
         count = bars_to_solve(design)
         if count >= PROGRESS_FROM and _wants_progress():
             with click.progressbar(length=count, label="solving arched bars", file=sys.stderr) as bar:
-                return plan(design, progress=bar.update, stock_override=stock_override)
-        return plan(design, stock_override=stock_override)
+                return run(bar.update)
+        return run()
     except DesignErrors as exc:
         fail([str(e) for e in exc.errors])
+    except NumericError as exc:
+        fail(str(exc))
 
 
 def _check_output_dir(output, force):
-    out = Path(output)
-    if out.exists() and not out.is_dir():
-        fail(f"{out}: -o/--output must be a folder, and this is a file")
-    if out.is_dir() and any(out.iterdir()) and not force:
-        fail(f"{out}: the folder is not empty; use --force to overwrite the files cutplan writes there")
-    return out
+    from cutplan.folder import check_target
+
+    problem = check_target(output, force)
+    if problem:
+        fail(problem)
+    return Path(output)
 
 
 MATERIALS_OPTION = click.option(
@@ -213,29 +227,11 @@ DESIGN_DIRS_OPTION = click.option(
 
 
 def _parse_stock_option(values, kerf, end_trim):
-    """StockSpec from --stock "10 ft x 3 @ 14.50" options (count and price optional)."""
-    import re
+    """StockSpec from --stock "10 ft x 3 @ 14.50" options (count and price optional), with the
+    design file's ranges for stock length, kerf and end trim."""
+    from cutplan.design import DesignErrors, stock_from_options
 
-    from cutplan.design import StockLength, StockSpec
-    from cutplan.units import UnitError, parse_length
-
-    lengths = []
-    for text in values:
-        match = re.fullmatch(r"\s*(.+?)\s*(?:[x*]\s*(\d+))?\s*(?:@\s*(\d+(?:\.\d+)?))?\s*", text)
-        try:
-            length = parse_length(match.group(1)) if match else None
-        except UnitError as exc:
-            fail(f'--stock: {text!r} is not "LENGTH [x COUNT] [@ PRICE]"; the length must be {exc.accepted}')
-        if match is None or not length or length <= 0:
-            fail(f'--stock: {text!r} is not "LENGTH [x COUNT] [@ PRICE]", e.g. "10 ft x 3" or "3 m x 2 @ 12.50"')
-        count = int(match.group(2)) if match.group(2) else None
-        if count is not None and count < 1:
-            fail(f"--stock: {text!r}: the count must be at least 1")
-        price = float(match.group(3)) if match.group(3) else None
-        lengths.append(StockLength(length, count, price))
     try:
-        kerf_m = parse_length(kerf)
-        trim_m = parse_length(end_trim)
-    except UnitError as exc:
-        fail(f"--kerf/--end-trim: {exc.text!r} is not {exc.accepted}")
-    return StockSpec(tuple(lengths), kerf_m, trim_m)
+        return stock_from_options(values, kerf, end_trim)
+    except DesignErrors as exc:
+        fail([str(e) for e in exc.errors])

@@ -11,7 +11,7 @@ from cutplan.cli.common import (
     _parse_stock_option,
     _plan,
     fail,
-    write_file,
+    write_folder,
 )
 
 
@@ -22,7 +22,8 @@ from cutplan.cli.common import (
 @click.option("--format", "fmt", type=click.Choice(["table", "csv", "json"]), default="table",
               show_default=True, help="What to print.")
 @click.option("--paper", type=click.Choice(["letter", "a4"]), help="Paper size of the PDF (default: the design's).")
-@click.option("--force", is_flag=True, help="Overwrite files in a non-empty output folder.")
+@click.option("--force", is_flag=True,
+              help="Replace what an earlier run wrote in the output folder (your own files there are kept).")
 @MATERIALS_OPTION
 def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     """Plan every piece of DESIGN: lengths, cut lengths, nodes, partials.
@@ -39,6 +40,11 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     from cutplan.render.table import render_csv, render_json
     from cutplan.render.terminal import render_table
 
+    if out is not None:  # the folder first: if it cannot be written, nothing else is said
+        from cutplan.render.packet import plan_files
+
+        files = plan_files(the_plan, paper)
+        write_folder(out, files, force)
     if fmt == "json":
         click.echo(render_json(the_plan), nl=False)
     elif fmt == "csv":
@@ -46,11 +52,6 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     else:
         click.echo(render_table(the_plan), nl=False)
     if out is not None:
-        from cutplan.render.packet import plan_files
-
-        files = plan_files(the_plan, paper)
-        for name, data in files.items():
-            write_file(out / name, data)
         click.echo(f"wrote {len(files)} files to {out}", err=True)
 
 

@@ -17,6 +17,7 @@ from cutplan.cli.common import (
     material_folders,
     section_options,
     write_file,
+    write_folder,
 )
 
 MEASURE_KINDS = ["chime", "bar", "air-column", "open-open", "closed-open"]
@@ -58,6 +59,8 @@ def measure_command(recording, frequency, kind, near, a4, fmt):
 
     if (recording is None) == (frequency is None):
         fail("measure: give a RECORDING or --frequency (one of them)")
+    if not 400 <= a4 <= 480:
+        fail(f"--a4: {a4} must be between 400 and 480 Hz")
     near_hz = None
     if near:
         try:
@@ -356,6 +359,8 @@ def trim_command(design, label, measured, recording, length_now, units, material
 
     if (measured is None) == (recording is None):
         fail("trim: give --measured or --recording (one of them)")
+    if measured is not None and not 10 <= measured <= 30000:
+        fail(f"--measured: {measured} must be a frequency between 10 and 30000 Hz")
     des, _lib = _load(design, materials_dirs, units)
     the_plan = _plan(des)
     units = the_plan.units
@@ -375,10 +380,19 @@ def trim_command(design, label, measured, recording, length_now, units, material
             now = parse_length(length_now)
         except UnitError as exc:
             fail(f"--length-now: {exc.text!r} is not {exc.accepted}")
+        if not 0.5 * piece.length <= now <= 2 * piece.cut_length:
+            fail(f"--length-now: {length_now!r} must be between half the planned length "
+                 f"({format_length(0.5 * piece.length, units)}) and twice the cut length "
+                 f"({format_length(2 * piece.cut_length, units)})")
+    from cutplan.numeric import quiet
+
     try:
-        advice = trim_advice(piece, f_at, measured, now, units)
+        advice = quiet(trim_advice, piece, f_at, measured, now, units)
     except CalibrationError as exc:
         fail(f"trim: {exc}")
+    except (ValueError, ArithmeticError):
+        fail(f"trim: no length between half and one and a half times the length now brings {piece.label} "
+             f"from {measured:.2f} Hz to {piece.target_hz:.2f} Hz; check the reading (another partial?) and the piece")
     click.echo(f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {measured:.2f} Hz "
                f"at {format_length(advice.length_now, units)}")
     click.echo(f"  length for the target: {format_length(advice.length_needed, units)}")
@@ -394,7 +408,8 @@ def trim_command(design, label, measured, recording, length_now, units, material
 @click.option("-o", "--output", required=True, type=click.Path(), help="Folder for the WAV files.")
 @click.option("--strike-at", type=click.FloatRange(0.0, 0.5), default=0.1, show_default=True,
               help="Strike point as a fraction of the length from the end (chimes and bars).")
-@click.option("--force", is_flag=True, help="Overwrite files in a non-empty output folder.")
+@click.option("--force", is_flag=True,
+              help="Replace what an earlier run wrote in the output folder (your own files there are kept).")
 @MATERIALS_OPTION
 def listen_command(design, output, strike_at, force, materials_dirs):
     """Hear the set before cutting: one WAV per piece and the whole set as an arpeggio.
@@ -409,8 +424,10 @@ def listen_command(design, output, strike_at, force, materials_dirs):
     out = _check_output_dir(output, force)
     des, _lib = _load(design, materials_dirs)
     the_plan = _plan(des)
-    for p in the_plan.pieces:
-        write_file(out / f"{p.label}.wav", wav_bytes(piece_preview(p, strike_at=strike_at), RATE))
-    for s in the_plan.sets:
-        write_file(out / f"{s.name}-arpeggio.wav", wav_bytes(arpeggio(s.pieces, strike_at=strike_at), RATE))
-    click.echo(f"wrote {len(the_plan.pieces) + len(the_plan.sets)} WAV files to {out}")
+    from cutplan.numeric import quiet
+
+    files = {f"{p.label}.wav": wav_bytes(quiet(piece_preview, p, strike_at=strike_at), RATE) for p in the_plan.pieces}
+    files.update({f"{s.name}-arpeggio.wav": wav_bytes(quiet(arpeggio, s.pieces, strike_at=strike_at), RATE)
+                  for s in the_plan.sets})
+    write_folder(out, files, force)
+    click.echo(f"wrote {len(files)} WAV files to {out}")

@@ -22,12 +22,8 @@ import math
 from functools import lru_cache
 
 import numpy as np
-from scipy.optimize import brentq
 
-
-def _frequency_equation(x):
-    # cos x cosh x - 1 = 0, divided by cosh x so that it stays finite for large x
-    return math.cos(x) - 1.0 / math.cosh(x)
+from cutplan.physics.roots import bracketed_roots
 
 
 @lru_cache(maxsize=64)
@@ -52,7 +48,9 @@ def free_free_root(mode):
     if mode < 1 or int(mode) != mode:
         raise ValueError("mode must be a whole number >= 1")
     guess = (2 * mode + 1) * math.pi / 2
-    return brentq(_frequency_equation, guess - 0.5, guess + 0.5, xtol=1e-15, rtol=1e-15)
+    # cos x cosh x - 1 = 0, divided by cosh x so that it stays finite for large x
+    root = bracketed_roots(lambda x, _k: np.cos(x) - 1.0 / np.cosh(x), [guess - 0.5], [guess + 0.5])
+    return float(root[0])
 
 
 def free_free_roots(count):
@@ -180,7 +178,7 @@ def node_positions(mode):
     """
     grid = np.linspace(0.0, 1.0, 400 * (mode + 1) + 1)
     values = mode_shape(mode, grid)
-    nodes = []
-    for i in np.nonzero(np.sign(values[:-1]) != np.sign(values[1:]))[0]:
-        nodes.append(brentq(lambda x: float(mode_shape(mode, x)), grid[i], grid[i + 1], xtol=1e-14))
-    return nodes
+    idx = np.nonzero(np.sign(values[:-1]) != np.sign(values[1:]))[0]
+    roots = bracketed_roots(lambda x, _k: mode_shape(mode, x), grid[idx], grid[idx + 1], values[idx],
+                            values[idx + 1], rtol=1e-15)
+    return [float(x) for x in roots]

@@ -25,9 +25,12 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 from scipy.linalg import eigh
+
+from cutplan.physics.blas import single_thread
 
 
 @dataclass(frozen=True)
@@ -39,8 +42,10 @@ class BeamModes:
     deflection: np.ndarray
 
 
+@lru_cache(maxsize=8)
 def _lagrange(order):
-    """Shape functions and derivatives of equally spaced Lagrange elements at Gauss points."""
+    """Shape functions and derivatives of equally spaced Lagrange elements at Gauss points
+    (cached: the same few orders are used for every solve; treat the arrays as read-only)."""
     nodes = np.linspace(-1.0, 1.0, order + 1)
     gauss, weights = np.polynomial.legendre.leggauss(order + 1)
     n = np.ones((order + 1, gauss.size))
@@ -57,6 +62,27 @@ def _lagrange(order):
     return nodes, gauss, weights, n, dn
 
 
+@lru_cache(maxsize=8)
+def _products(order):
+    """Products of shape functions at the Gauss points, (order+1, order+1, gauss) each:
+    dN_i dN_j, dN_i N_j and N_i N_j (cached)."""
+    _, _, _, n, dn = _lagrange(order)
+    return (np.einsum("ig,jg->ijg", dn, dn), np.einsum("ig,jg->ijg", dn, n), np.einsum("ig,jg->ijg", n, n))
+
+
+@lru_cache(maxsize=32)
+def _assembly(elements, order):
+    """Flat indices into the (size x size) global matrices of each element block (cached)."""
+    size = 2 * (elements * order + 1)
+    idx = np.arange(elements)[:, None] * order + np.arange(order + 1)[None, :]
+    wi, pi = 2 * idx, 2 * idx + 1
+
+    def flat(rows, cols):
+        return (rows[:, :, None] * size + cols[:, None, :]).ravel()
+
+    return size, flat(wi, wi), flat(wi, pi), flat(pi, wi), flat(pi, pi)
+
+
 def free_free_modes(
     length,
     flexural_rigidity,
@@ -67,6 +93,7 @@ def free_free_modes(
     elements=40,
     order=3,
     breaks=None,
+    symmetric=False,
 ):
     """Free-free flexural modes of a (possibly non-uniform) Timoshenko beam.
 
@@ -91,6 +118,11 @@ def free_free_modes(
     breaks : sequence of float, optional
         Element boundaries [m] from 0 to L (overrides ``elements``); put them where the section
         has a kink, such as the edges of an undercut arch.
+    symmetric : bool
+        The piece and the mesh are symmetric about the middle (an arched bar): solve the half
+        piece twice, with slope and shear zero at the middle (symmetric modes) and with
+        deflection and moment zero there (antisymmetric modes).  The same discretisation and
+        the same frequencies as the whole mesh, for about a quarter of the work.
 
     Returns
     -------
@@ -109,6 +141,38 @@ def free_free_modes(
     >>> round(float(fe.frequencies[0]), 1)
     575.0
     """
+    edges = np.linspace(0.0, length, elements + 1) if breaks is None else np.asarray(breaks, dtype=float)
+    with single_thread():
+        if not symmetric:
+            stiff, mass, x = _matrices(edges, flexural_rigidity, shear_rigidity, mass_per_length, rotary_inertia,
+                                       order)
+            values, vectors = eigh(stiff, mass, subset_by_index=[0, modes + 1])
+            omega2 = np.clip(values[2:], 0.0, None)
+            return BeamModes(np.sqrt(omega2) / (2 * np.pi), x, vectors[0::2, 2:].T)
+        half = edges[: edges.size // 2 + 1]
+        if edges.size % 2 == 0 or not np.allclose(half[-1], length / 2, rtol=1e-12, atol=0.0):
+            raise ValueError("symmetric=True needs a mesh with a node at the middle")
+        stiff, mass, x = _matrices(half, flexural_rigidity, shear_rigidity, mass_per_length, rotary_inertia, order)
+        size = stiff.shape[0]
+        found = []
+        for fixed, sign in ((size - 1, 1.0), (size - 2, -1.0)):  # psi_mid = 0; w_mid = 0
+            keep = np.delete(np.arange(size), fixed)
+            values, vectors = eigh(stiff[np.ix_(keep, keep)], mass[np.ix_(keep, keep)],
+                                   subset_by_index=[0, min(modes, keep.size - 1)])
+            full = np.zeros((size, values.size))
+            full[keep] = vectors
+            w = full[0::2]
+            for k in range(1, values.size):  # the first of each family is a rigid-body mode
+                found.append((values[k], np.concatenate([w[:, k], sign * w[-2::-1, k]])))
+        found.sort(key=lambda item: item[0])
+        found = found[:modes]
+        omega2 = np.clip(np.array([v for v, _ in found]), 0.0, None)
+        x_full = np.concatenate([x, length - x[-2::-1]])
+        return BeamModes(np.sqrt(omega2) / (2 * np.pi), x_full, np.array([w for _, w in found]))
+
+
+def _matrices(edges, flexural_rigidity, shear_rigidity, mass_per_length, rotary_inertia, order):
+    """Global stiffness and mass matrices over the mesh ``edges``, and the node coordinates."""
     def as_function(value):
         if callable(value):
             return lambda x, f=value: np.broadcast_to(np.asarray(f(x), dtype=float), x.shape)
@@ -116,44 +180,32 @@ def free_free_modes(
 
     ei, kga, mu, ri = (as_function(v) for v in (flexural_rigidity, shear_rigidity,
                                                 mass_per_length, rotary_inertia))
-    local, gauss, weights, n, dn = _lagrange(order)
-    edges = np.linspace(0.0, length, elements + 1) if breaks is None else np.asarray(breaks, dtype=float)
+    local, gauss, weights, _, _ = _lagrange(order)
+    dd, dn_n, nn = (p.reshape(-1, gauss.size) for p in _products(order))
     elements = edges.size - 1
-    count = elements * order + 1
-    size = 2 * count
     h = np.diff(edges)  # element lengths
     jac = h / 2.0
     xg = edges[:-1, None] + (gauss[None, :] + 1.0) * jac[:, None]  # (elements, gauss points)
     wj = weights[None, :] * jac[:, None]
     w_ei, w_kga = wj * ei(xg), wj * kga(xg)
     w_mu, w_ri = wj * mu(xg), wj * ri(xg)
-    dndx = dn[None, :, :] / jac[:, None, None]  # (elements, shape fns, gauss)
-    nn = np.broadcast_to(n, dndx.shape)
-    # element blocks over (w, psi), all elements at once
-    k_ww = np.einsum("eig,eg,ejg->eij", dndx, w_kga, dndx)
-    k_wp = -np.einsum("eig,eg,ejg->eij", dndx, w_kga, nn)
-    k_pp = np.einsum("eig,eg,ejg->eij", dndx, w_ei, dndx) + np.einsum("eig,eg,ejg->eij", nn, w_kga, nn)
-    m_ww = np.einsum("eig,eg,ejg->eij", nn, w_mu, nn)
-    m_pp = np.einsum("eig,eg,ejg->eij", nn, w_ri, nn)
-    idx = np.arange(elements)[:, None] * order + np.arange(order + 1)[None, :]
-    wi, pi = 2 * idx, 2 * idx + 1
-    stiff = np.zeros((size, size))
-    mass = np.zeros((size, size))
-
-    def scatter(target, rows, cols, blocks):
-        np.add.at(target, (rows[:, :, None], cols[:, None, :]), blocks)
-
-    scatter(stiff, wi, wi, k_ww)
-    scatter(stiff, wi, pi, k_wp)
-    scatter(stiff, pi, wi, np.transpose(k_wp, (0, 2, 1)))
-    scatter(stiff, pi, pi, k_pp)
-    scatter(mass, wi, wi, m_ww)
-    scatter(mass, pi, pi, m_pp)
-    values, vectors = eigh(stiff, mass, subset_by_index=[0, modes + 1])
-    omega2 = np.clip(values[2:], 0.0, None)
-    x = np.concatenate([edges[e] + (local[:-1] + 1.0) * (edges[e + 1] - edges[e]) / 2.0
-                        for e in range(elements)] + [edges[-1:]])
-    return BeamModes(np.sqrt(omega2) / (2 * np.pi), x, vectors[0::2, 2:].T)
+    inv, inv2 = (1.0 / jac)[:, None], (1.0 / jac**2)[:, None]
+    # element blocks over (w, psi), all elements at once: (elements, (order+1)^2)
+    k_ww = (w_kga * inv2) @ dd.T
+    k_wp = -(w_kga * inv) @ dn_n.T
+    k_pp = (w_ei * inv2) @ dd.T + w_kga @ nn.T
+    m_ww = w_mu @ nn.T
+    m_pp = w_ri @ nn.T
+    k = order + 1
+    k_pw = np.transpose(k_wp.reshape(elements, k, k), (0, 2, 1)).reshape(elements, -1)
+    size, i_ww, i_wp, i_pw, i_pp = _assembly(elements, order)
+    stiff = np.bincount(np.concatenate([i_ww, i_wp, i_pw, i_pp]),
+                        np.concatenate([k_ww.ravel(), k_wp.ravel(), k_pw.ravel(), k_pp.ravel()]),
+                        minlength=size * size).reshape(size, size)
+    mass = np.bincount(np.concatenate([i_ww, i_pp]), np.concatenate([m_ww.ravel(), m_pp.ravel()]),
+                       minlength=size * size).reshape(size, size)
+    x = np.concatenate([(edges[:-1, None] + (local[None, :-1] + 1.0) * jac[:, None]).ravel(), edges[-1:]])
+    return stiff, mass, x
 
 
 def node_positions(modes, mode=1):

@@ -15,7 +15,9 @@ which is exact: no mesh.  Free ends (M = V = 0 at both ends) give the frequency 
 ``det T[2:4, 0:2] = 0``.  Piecewise-uniform pieces chain segment matrices.
 
 This module is the exact reference for the finite-element solver in :mod:`beam_fe`, and the
-default model for planning chimes and bars.
+default model for planning chimes and bars.  Uniform pieces go through the closed-form,
+vectorised determinant of :mod:`uniform` (no matrix exponentials, every mode kept in order);
+the general segment chain here serves piecewise-uniform pieces.
 
 References
 ----------
@@ -28,10 +30,10 @@ References
 from __future__ import annotations
 
 import numpy as np
-from scipy.linalg import expm
-from scipy.optimize import brentq
 
+from cutplan.physics import uniform
 from cutplan.physics.beam import free_free_root
+from cutplan.physics.roots import bracketed_roots
 
 
 def system_matrix(omega, g, s2):
@@ -75,6 +77,8 @@ def expm4(a):
     z1, z2 = (-p + disc) / 2.0, (-p - disc) / 2.0
     spread = z1 - z2
     if np.any(spread <= 1e-9 * (np.abs(z1) + np.abs(z2) + 1e-300)):
+        from scipy.linalg import expm  # only here: keeps scipy off the common plan path
+
         return expm(a)
     e1, o1 = _even_odd(z1)
     e2, o2 = _even_odd(z2)
@@ -138,26 +142,17 @@ def dimensionless_frequencies(g, s2, modes=6, segments=None):
     >>> [round(float(x), 6) for x in dimensionless_frequencies(0.0, 0.0, 2)]
     [22.373285, 61.672823]
     """
+    if segments is None:
+        return uniform.omegas(g, s2, modes)[0]
     top = free_free_root(modes + 1) ** 2 * 1.001
     grid = np.geomspace(1.0, top, int(np.log(top) / 0.01) + 2)
     det = frequency_determinant(grid, g, s2, segments)
-    roots = []
     sign = np.sign(det)
-    for i in np.nonzero(sign[:-1] * sign[1:] < 0)[0]:
-        roots.append(
-            brentq(
-                lambda w: float(frequency_determinant(w, g, s2, segments)),
-                grid[i],
-                grid[i + 1],
-                xtol=1e-13,
-                rtol=1e-14,
-            )
-        )
-        if len(roots) == modes:
-            break
-    if len(roots) < modes:
+    idx = np.nonzero(sign[:-1] * sign[1:] < 0)[0][:modes]
+    if len(idx) < modes:
         raise ValueError("could not bracket all requested modes (piece too stubby for the model)")
-    return np.array(roots)
+    return bracketed_roots(lambda w, _k: frequency_determinant(w, g, s2, segments), grid[idx], grid[idx + 1],
+                           det[idx], det[idx + 1])
 
 
 def uniform_parameters(length, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia):
@@ -197,88 +192,37 @@ def frequencies(length, flexural_rigidity, mass_per_length, shear_rigidity, rota
     577.4
     """
     g, s2 = uniform_parameters(length, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia)
-    omegas = dimensionless_frequencies(float(g), float(s2), modes)
+    omegas = uniform.omegas(g, s2, modes)[0]
     return omegas / (2 * np.pi * length**2) * np.sqrt(flexural_rigidity / mass_per_length)
 
 
 def fundamental_frequencies(lengths, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia):
     """Mode-1 frequency [Hz] for many lengths of one section at once (vectorised).
 
-    Solves each length's frequency equation in the bracket [0.2, 1] x the slender value with a
-    vectorised regula falsi (Illinois variant); mode 1 is the only root there for any piece whose
-    length is more than about twice its depth.
+    Mode 1 is the first root of the closed-form symmetric determinant of :mod:`uniform`,
+    bracketed in [0.2, 1] x the slender value (shear and rotary inertia only lower it).
     """
     lengths = np.atleast_1d(np.asarray(lengths, dtype=float))
     g, s2 = uniform_parameters(lengths, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia)
-    eb = free_free_root(1) ** 2
-    lo = np.full(lengths.shape, 0.2 * eb)
-    hi = np.full(lengths.shape, eb * (1 - 1e-12))
-    f_lo = frequency_determinant(lo, g, s2=s2)
-    f_hi = frequency_determinant(hi, g, s2=s2)
-    if np.any(np.sign(f_lo) == np.sign(f_hi)):
-        raise ValueError("piece too stubby for the beam model (length under about twice its depth)")
-    x = hi
-    for _ in range(100):
-        x = (lo * f_hi - hi * f_lo) / (f_hi - f_lo)
-        fx = frequency_determinant(x, g, s2=s2)
-        left = np.sign(fx) == np.sign(f_lo)
-        # Illinois: halve the stale end's value to keep convergence superlinear
-        f_hi = np.where(left, f_hi * 0.5, fx)
-        hi = np.where(left, hi, x)
-        f_lo = np.where(left, fx, f_lo * 0.5)
-        lo = np.where(left, x, lo)
-        if np.all(np.abs(hi - lo) <= 1e-12 * x):
-            break
+    x = uniform.fundamental_omegas(g, s2).reshape(lengths.shape)
     return x / (2 * np.pi * lengths**2) * np.sqrt(flexural_rigidity / mass_per_length)
 
 
-def fundamental_lengths(frequency, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia,
-                        tolerance=1e-12):
+def fundamental_lengths(frequency, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia):
     """Lengths [m] whose mode 1 sounds each of many target frequencies [Hz] (vectorised).
 
-    Starts from the slender lengths and runs a secant iteration on log f against log L (f is
-    nearly proportional to 1/L^2, so two or three steps suffice); stops when every relative
-    frequency error is below ``tolerance``.
+    One bracketed root of the closed-form determinant per target (:func:`uniform.fundamental_lengths`);
+    the forward model :func:`fundamental_frequencies` gives the targets back to about 1e-11 cent.
     """
-    from cutplan.physics.beam import free_free_length
-
     target = np.atleast_1d(np.asarray(frequency, dtype=float))
-    log_target = np.log(target)
-
-    def log_f(length):
-        return np.log(fundamental_frequencies(length, flexural_rigidity, mass_per_length,
-                                              shear_rigidity, rotary_inertia))
-
-    x0 = np.log(np.atleast_1d(free_free_length(target, flexural_rigidity, mass_per_length)))
-    y0 = log_f(np.exp(x0))
-    x1 = x0 + (y0 - log_target) / 2.0
-    for _ in range(30):
-        y1 = log_f(np.exp(x1))
-        miss = y1 - log_target
-        if np.all(np.abs(miss) < tolerance):
-            break
-        slope = np.where(np.abs(x1 - x0) > 1e-15, (y1 - y0) / np.where(x1 == x0, 1.0, x1 - x0), -2.0)
-        slope = np.clip(slope, -4.0, -1.0)
-        x0, y0 = x1, y1
-        x1 = x1 - miss / slope
-    return np.exp(x1)
+    return uniform.fundamental_lengths(target, flexural_rigidity, mass_per_length, shear_rigidity,
+                                       rotary_inertia).reshape(target.shape)
 
 
 def fundamental_length(frequency, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia):
-    """Length [m] of a uniform Timoshenko free-free piece whose mode 1 sounds ``frequency`` [Hz].
-
-    A scalar root find on :func:`fundamental_frequencies`, bracketed by the slender length (which
-    is always too long, since shear and rotary inertia lower the pitch) and half of it.
-    """
-    from cutplan.physics.beam import free_free_length
-
-    slender = float(free_free_length(frequency, flexural_rigidity, mass_per_length))
-
-    def miss(length):
-        f = fundamental_frequencies(length, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia)
-        return float(np.log(f[0] / frequency))
-
-    return brentq(miss, 0.5 * slender, slender, xtol=1e-13, rtol=1e-13)
+    """Length [m] of a uniform Timoshenko free-free piece whose mode 1 sounds ``frequency`` [Hz]."""
+    return float(fundamental_lengths(frequency, flexural_rigidity, mass_per_length, shear_rigidity,
+                                     rotary_inertia)[0])
 
 
 def mode_shape(omega, g, s2, points=401, segments=None):
@@ -324,10 +268,12 @@ def node_positions(omega, g, s2, segments=None):
     y_at = mode_shape_function(omega, segs)
     xi = np.linspace(0.0, 1.0, 201)
     w = np.array([y_at(x) for x in xi])
-    nodes = []
-    for i in np.nonzero(np.sign(w[:-1]) * np.sign(w[1:]) < 0)[0]:
-        nodes.append(brentq(y_at, xi[i], xi[i + 1], xtol=1e-13))
-    return nodes
+    idx = np.nonzero(np.sign(w[:-1]) * np.sign(w[1:]) < 0)[0]
+    if idx.size == 0:
+        return []
+    roots = bracketed_roots(lambda x, _k: np.array([y_at(v) for v in x]), xi[idx], xi[idx + 1], w[idx], w[idx + 1],
+                            rtol=1e-14)
+    return [float(r) for r in roots]
 
 
 def mode_shape_function(omega, segments):

@@ -11,7 +11,9 @@ marimba) or an octave and a fifth (3 : 1, xylophone) above mode 1.
 
 The modes are those of the non-uniform shear-corrected beam, from the finite-element solver in
 :mod:`beam_fe` with element boundaries at the arch edges.  :func:`design_undercut` finds L and d
-(and the shape p, when a third ratio is asked for) by least squares in cents.
+(and the shape p, when a third ratio is asked for) by a Newton iteration in cents: a
+finite-difference Jacobian (or the neighbouring bar's), Broyden updates after each step, bounds
+kept by fixing a variable that would leave its range, and a stop at 1e-6 cent.
 
 References
 ----------
@@ -25,9 +27,9 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.optimize import least_squares
 
 from cutplan.physics import beam_fe
+from cutplan.physics.blas import single_thread
 
 ELEMENTS_END = 6
 """Elements in each solid end region [-] (0.001 cent level for a uniform bar; bench/)."""
@@ -100,7 +102,7 @@ def bar_modes(length, width, thickness, depth, arch_fraction, modulus, shear_mod
         lambda x: stiff * kappa * shear_modulus * width * h(x),
         lambda x: density * width * h(x),
         lambda x: rotary * density * width * h(x) ** 3 / 12,
-        modes=modes, order=ORDER, breaks=_breaks(length, max(arch_fraction, 1e-6)),
+        modes=modes, order=ORDER, breaks=_breaks(length, max(arch_fraction, 1e-6)), symmetric=True,
     )
 
 
@@ -117,6 +119,8 @@ class Undercut:
     nodes: tuple
     ratio_residuals_cents: tuple
     fundamental_residual_cents: float
+    jacobian: tuple = ()
+    solves: int = 0
 
     def stations(self, count=11):
         """(x [m], remaining thickness [m]) from one end to the centre."""
@@ -125,8 +129,14 @@ class Undercut:
         return tuple((float(x), float(h)) for x, h in zip(xs, hs, strict=True))
 
 
+TOLERANCE_CENTS = 1e-6
+"""Newton stops when every residual (mode 1 against the target, each ratio) is below this [cents]."""
+MAX_SOLVES = 60
+"""Most finite-element solves one bar may take [-] (a work bound; about 5-13 are used)."""
+
+
 def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, density, kappa,
-                    min_thickness, arch_fraction=0.5, exponent=2.0, guess=None):
+                    min_thickness, arch_fraction=0.5, exponent=2.0, guess=None, jacobian=None):
     """Blank length and arch so that mode 1 sounds ``target`` and modes 2 (and 3) sit at ``ratios``.
 
     Parameters
@@ -147,6 +157,8 @@ def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, de
         Arch shape p (2 = parabola); solved for when two ratios are given [-].
     guess : (length, depth, exponent), optional
         Start values, e.g. from the neighbouring bar.
+    jacobian : tuple, optional
+        The neighbouring bar's Jacobian (``Undercut.jacobian``): saves the finite differences.
 
     Raises
     ------
@@ -167,39 +179,95 @@ def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, de
                                      density * second)
         guess = (0.8 * uniform, 0.5 * max_depth, 3.5 if three else exponent)
     length0, depth0, shape0 = guess
+    # unknowns: log L, depth as a fraction of the most allowed, and (three ratios) the shape p
+    lower = np.array([-np.inf, 0.0] + ([1.0] if three else []))
+    upper = np.array([np.inf, 1.0] + ([10.0] if three else []))
+    v = np.array([math.log(length0), min(max(depth0 / max_depth, 0.02), 0.98)]
+                 + ([min(max(shape0, 1.2), 8.0)] if three else []))
+    count = [0]
 
-    def unpack(v):
-        length = length0 * math.exp(v[0])
-        depth = v[1] * max_depth
-        shape = v[2] if three else exponent
-        return length, depth, shape
-
-    def residuals(v):
-        length, depth, shape = unpack(v)
-        f = bar_modes(length, width, thickness, depth, arch_fraction, modulus, shear_modulus, density, kappa,
-                      shape, modes=3 if three else 2).frequencies
-        out = [1200 * math.log2(f[0] / target), 1200 * math.log2(f[1] / f[0] / ratios[0])]
+    def evaluate(v):
+        count[0] += 1
+        depth, shape = v[1] * max_depth, v[2] if three else exponent
+        modes = bar_modes(math.exp(v[0]), width, thickness, depth, arch_fraction, modulus, shear_modulus, density,
+                          kappa, shape, modes=4)
+        f = modes.frequencies
+        res = [1200 * math.log2(f[0] / target), 1200 * math.log2(f[1] / f[0] / ratios[0])]
         if three:
-            out.append(1200 * math.log2(f[2] / f[0] / ratios[1]))
-        return out
+            res.append(1200 * math.log2(f[2] / f[0] / ratios[1]))
+        return np.array(res), modes
 
-    start = [0.0, min(max(depth0 / max_depth, 0.02), 0.98)] + ([min(max(shape0, 1.2), 8.0)] if three else [])
-    lower = [-1.5, 0.0] + ([1.0] if three else [])
-    upper = [1.5, 1.0] + ([10.0] if three else [])
-    sol = least_squares(residuals, start, bounds=(lower, upper), x_scale=[0.05, 0.1] + ([0.3] if three else []),
-                        xtol=1e-12, ftol=1e-12, gtol=1e-12, max_nfev=200)
-    length, depth, exponent = unpack(sol.x)
-    res = residuals(sol.x)
-    if abs(res[0]) > 0.5 or any(abs(r) > 5.0 for r in res[1:]):
+    with single_thread():
+        r, modes = evaluate(v)
+        jac = _finite_differences(evaluate, v, r, upper) if jacobian is None or len(jacobian) != v.size else \
+            np.array(jacobian, dtype=float)
+        while np.max(np.abs(r)) >= TOLERANCE_CENTS and count[0] < MAX_SOLVES:
+            step = _bounded_step(jac, r, v, lower, upper)
+            if not np.any(step):
+                break  # pinned at a bound: the best that can be done
+            v_new = np.clip(v + step, lower, upper)
+            r_new, modes_new = evaluate(v_new)
+            for _ in range(3):  # a step that makes things much worse is halved (a safety net)
+                if np.linalg.norm(r_new) <= 2.0 * np.linalg.norm(r) + 1.0 or count[0] >= MAX_SOLVES:
+                    break
+                step = step / 2.0
+                v_new = np.clip(v + step, lower, upper)
+                r_new, modes_new = evaluate(v_new)
+            taken = v_new - v
+            # Broyden's update keeps the Jacobian current at one solve per step
+            jac = jac + np.outer(r_new - r - jac @ taken, taken) / float(taken @ taken)
+            if np.linalg.norm(r_new) >= np.linalg.norm(r) and np.max(np.abs(r)) < 1e-3:
+                break  # converged to rounding
+            v, r, modes = v_new, r_new, modes_new
+    length, depth = math.exp(v[0]), v[1] * max_depth
+    exponent = v[2] if three else exponent
+    if abs(r[0]) > 0.5 or any(abs(x) > 5.0 for x in r[1:]):
         thin = thickness - depth
         raise UndercutError(
-            f"no arch of width {arch_fraction:g} x L reaches {':'.join(f'{r:g}' for r in (1,) + ratios)} "
+            f"no arch of width {arch_fraction:g} x L reaches {':'.join(f'{x:g}' for x in (1,) + ratios)} "
             f"(best leaves {thin * 1000:.1f} mm at the centre, min {min_thickness * 1000:.1f} mm, and misses "
-            f"by {max(abs(r) for r in res[1:]):.0f} cents); try another arch width, a thicker blank or a "
+            f"by {max(abs(x) for x in r[1:]):.0f} cents); try another arch width, a thicker blank or a "
             "lower min_thickness")
-    modes = bar_modes(length, width, thickness, depth, arch_fraction, modulus, shear_modulus, density, kappa,
-                      exponent, modes=4)
     nodes = tuple(beam_fe.node_positions(modes, 1))
     return Undercut(length=length, depth=depth, arch_fraction=arch_fraction, exponent=exponent, thickness=thickness,
                     frequencies=tuple(float(f) for f in modes.frequencies), nodes=nodes,
-                    ratio_residuals_cents=tuple(res[1:]), fundamental_residual_cents=res[0])
+                    ratio_residuals_cents=tuple(float(x) for x in r[1:]), fundamental_residual_cents=float(r[0]),
+                    jacobian=tuple(map(tuple, jac)), solves=count[0])
+
+
+FD_STEPS = (1e-5, 1e-5, 1e-4)
+"""Finite-difference steps for log L, depth fraction and shape [-]."""
+
+
+def _finite_differences(evaluate, v, r, upper):
+    """Forward-difference Jacobian of the residuals [cents per unit of each unknown]."""
+    jac = np.empty((r.size, v.size))
+    for j in range(v.size):
+        h = FD_STEPS[j] if v[j] + FD_STEPS[j] <= upper[j] else -FD_STEPS[j]
+        w = v.copy()
+        w[j] += h
+        jac[:, j] = (evaluate(w)[0] - r) / h
+    return jac
+
+
+MAX_STEP = (0.3, 0.25, 1.5)
+"""Largest Newton step in log L, depth fraction and shape [-] (keeps early steps sane)."""
+
+
+def _bounded_step(jac, r, v, lower, upper):
+    """Newton step for J dv = -r; a variable at a bound that the step would push out is held."""
+    free = np.ones(v.size, dtype=bool)
+    step = np.zeros(v.size)
+    for _ in range(v.size):
+        cols = np.nonzero(free)[0]
+        if cols.size == 0:
+            return np.zeros(v.size)
+        step[:] = 0.0
+        step[cols] = np.linalg.lstsq(jac[:, cols], -r, rcond=None)[0]
+        out = ((v <= lower) & (step < 0)) | ((v >= upper) & (step > 0))
+        if not np.any(out & free):
+            break
+        free &= ~out
+    limit = np.array(MAX_STEP[: v.size])
+    scale = np.max(np.abs(step) / limit)
+    return step / scale if scale > 1 else step

@@ -111,6 +111,35 @@ def cut_list_dict(cut_list):
     }
 
 
+_FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+
+
+def csv_cell(value):
+    """A CSV cell a spreadsheet will not run as a formula: text beginning with = + - @ (or a tab
+    or carriage return) gets a leading apostrophe, the usual practice for spreadsheet exports;
+    numbers such as "-3.20" stay numbers.
+
+    >>> csv_cell("=1+1"), csv_cell("-3.20"), csv_cell("@SUM(A1)"), csv_cell("porch-1")
+    ("'=1+1", '-3.20', "'@SUM(A1)", 'porch-1')
+    """
+    if isinstance(value, str) and value.startswith(_FORMULA_START):
+        try:
+            float(value)
+        except ValueError:
+            return "'" + value
+    return value
+
+
+class _csv_writer:  # noqa: N801 - used like csv.writer
+    """csv.writer whose rows go through :func:`csv_cell`."""
+
+    def __init__(self, buf):
+        self._writer = csv.writer(buf, lineterminator="\n")
+
+    def writerow(self, row):
+        self._writer.writerow([csv_cell(c) for c in row])
+
+
 def render_json(plan):
     """Plan as indented JSON text."""
     return json.dumps(plan_dict(plan), indent=2, ensure_ascii=False) + "\n"
@@ -126,7 +155,7 @@ CSV_COLUMNS = (
 def render_csv(plan):
     """One row per piece, lengths in both mm and fractional inches (to 1/32)."""
     buf = io.StringIO()
-    writer = csv.writer(buf, lineterminator="\n")
+    writer = _csv_writer(buf)
     writer.writerow(CSV_COLUMNS)
     for p in plan.pieces:
         nodes = list(p.nodes) + [None, None]
@@ -156,7 +185,7 @@ CUTLIST_COLUMNS = (
 def render_cutlist_csv(cut_list):
     """The cut list as CSV: one row per cut, marks measured from the stick's factory end."""
     buf = io.StringIO()
-    writer = csv.writer(buf, lineterminator="\n")
+    writer = _csv_writer(buf)
     writer.writerow(CUTLIST_COLUMNS)
     for i, stick in enumerate(cut_list.sticks, start=1):
         length = stick.stock_length

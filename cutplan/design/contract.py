@@ -1,0 +1,196 @@
+"""The design contract in SI: frozen types, limits, and the one-line error types.
+
+:class:`DesignError` is a bad input value (file, key path, value, what is allowed);
+:class:`cutplan.units.UnitError` is text that does not parse as a quantity. Validators turn the
+second into the first, so a caller only ever sees DesignErrors.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from cutplan import pitch, units
+from cutplan.design.text import shown
+from cutplan.sections import Section
+
+KINDS = ("chime", "bar", "air-column", "resonator")
+MAX_PIECES_PER_SET = 128
+"""Largest set cutplan plans [-] (a 10-octave chromatic set is 120; more is a typing error)."""
+MAX_PIECES = 400
+"""Largest design [-]."""
+MAX_FILE_BYTES = 1_000_000
+"""Largest design file read [bytes]; a design is a few kB."""
+DEFAULT_TEMPERATURE = 293.15
+"""Air temperature assumed when a design gives none [K] (20 C, the usual reference)."""
+DEFAULT_SHARP_RISK = 0.05
+"""Chance of a piece coming out sharp that the default cut allowance accepts [-]."""
+DEFAULT_RESONATOR_MAX_LENGTH = 1.2
+"""Longest resonator accepted without a warning [m] (common practice for a floor-standing frame)."""
+
+STOCK_LENGTH_RANGE = (0.01, 25.0)
+"""Stock stick lengths accepted [m] (common practice: sticks are sold up to 24 ft / 6 m; 25 m
+leaves room for coil stock and still stops a unit slip such as "1e9 m")."""
+KERF_RANGE = (0.0, 0.01)
+"""Saw kerf accepted [m]: 0 to 10 mm (common practice: hand and band saws 0.5-3 mm)."""
+END_TRIM_RANGE = (0.0, 0.1)
+"""Squaring cut at a stick's factory end accepted [m]: 0 to 100 mm (common practice)."""
+MAX_STOCK_COUNT = 1000
+"""Most sticks of one length on hand [-]."""
+
+
+class DesignError(ValueError):
+    """One bad input value: file, key path, bad value, what is allowed. Prints as one line."""
+
+    def __init__(self, path, key, value, allowed):
+        self.path, self.key, self.value, self.allowed = str(path), key, value, allowed
+        text = "" if value is None else f"{show(value)} "
+        head = f"{self.path}: " if self.path else ""
+        super().__init__(shown(f"{head}{key}: {text}{allowed}"))
+
+
+class DesignErrors(ValueError):
+    """All the problems found in one design file."""
+
+    def __init__(self, errors):
+        self.errors = list(errors)
+        super().__init__("\n".join(str(e) for e in self.errors))
+
+
+def show(value):
+    """A value as an error line quotes it: short, with control characters escaped."""
+    if isinstance(value, str):
+        text = f'"{value}"'
+    elif isinstance(value, int) and not isinstance(value, bool) and abs(value) > 10**30:
+        text = f"a {len(str(abs(value)))}-digit number"
+    else:
+        try:
+            text = repr(value)
+        except (ValueError, RecursionError):
+            text = f"a {type(value).__name__}"
+    text = shown(text)
+    return text if len(text) <= 60 else text[:57] + '..."'
+
+
+@dataclass(frozen=True)
+class StockLength:
+    """Stock of one length on hand: length [m], count (None: as many as needed), price."""
+
+    length: float
+    count: int | None = None
+    price: float | None = None
+
+
+@dataclass(frozen=True)
+class StockSpec:
+    """The design's [stock] table in SI.
+
+    The rough-cut allowance is one of: ``allowance_risk`` (the chance a piece comes out sharp,
+    from the material and stock spreads; the default, 5 %), ``allowance`` (a fraction of the
+    length) or ``allowance_length`` (a fixed length added to each piece [m]).
+    """
+
+    lengths: tuple = ()
+    kerf: float = 1.6e-3
+    end_trim: float = 0.0
+    allowance: float = 0.0
+    allowance_length: float = 0.0
+    allowance_risk: float | None = DEFAULT_SHARP_RISK
+
+
+@dataclass(frozen=True)
+class Undercut:
+    """An arched bar set's tuning: overtone ratios to mode 1, arch width (fraction of the
+    length) and the thinnest the centre may be left [m]."""
+
+    ratios: tuple
+    arch_width: float = 0.5
+    min_thickness: float = 0.004
+
+
+@dataclass(frozen=True)
+class SetSpec:
+    """One [[set]] of a design, validated and in SI."""
+
+    index: int
+    name: str
+    kind: str
+    targets: tuple
+    section: Section | None
+    material: object = None
+    model: str = "timoshenko"
+    target_mode: str = "fundamental"
+    ends: str = "open-open"
+    end_correction: object = "unflanged"
+    temperature: float = DEFAULT_TEMPERATURE
+    humidity: float | None = None
+    serves: str = ""
+    max_length: float = DEFAULT_RESONATOR_MAX_LENGTH
+    stock: StockSpec | None = None
+    outer_tolerance: float = 0.0
+    wall_tolerance: float = 0.0
+    undercut: Undercut | None = None
+    temperature_range: tuple | None = None
+
+
+@dataclass(frozen=True)
+class Design:
+    """A validated design: everything the planner needs, SI units."""
+
+    path: str
+    title: str
+    units: str = "mm"
+    paper: str = "letter"
+    a4: float = pitch.A4_FREQUENCY
+    temperament: str = "equal"
+    sets: tuple = ()
+    stock: StockSpec | None = None
+    material_dirs: tuple = field(default=())
+
+
+def is_number(value):
+    """True for an int or float (not a bool)."""
+    return isinstance(value, (int, float)) and not isinstance(value, bool)
+
+
+class Collector:
+    """Gathers DesignErrors while validation goes on."""
+
+    def __init__(self, path):
+        self.path = path
+        self.errors = []
+
+    def add(self, key, value, allowed):
+        self.errors.append(DesignError(self.path, key, value, allowed))
+
+    def unknown(self, table, allowed, prefix):
+        for key in table:
+            if key not in allowed:
+                where = f"{prefix}.{key}" if prefix else key
+                self.add(where, None, f"is not a known key; use one of: {', '.join(sorted(allowed))}")
+
+    def parse(self, key, value, parser, positive=True):
+        """``parser(value)``, or None after noting why it cannot be used."""
+        try:
+            result = parser(value)
+        except units.UnitError as exc:
+            self.add(key, value, f"is not {exc.accepted}")
+            return None
+        if positive and not result > 0:
+            self.add(key, value, "must be positive")
+            return None
+        return result
+
+    def ranged(self, key, value, parser, low, high, allowed):
+        """``parser(value)`` when it lies in [low, high], else None after noting ``allowed``."""
+        result = self.parse(key, value, parser, positive=False)
+        if result is not None and not low <= result <= high:
+            self.add(key, value, allowed)
+            return None
+        return result
+
+    def text(self, key, value, default):
+        """A string value, or ``default`` after noting that text was expected."""
+        if isinstance(value, str):
+            return value
+        self.add(key, value, "must be text in quotes")
+        return default

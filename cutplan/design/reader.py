@@ -1,0 +1,69 @@
+"""Read a design file's bytes safely and parse its TOML: every failure is one DesignError line.
+
+The file is checked before it is read: it must be a regular file (a named pipe would block
+forever, ``/dev/zero`` never ends) of at most :data:`MAX_FILE_BYTES`; then at most that many
+bytes are read, whatever the file does meanwhile. A UTF-8 byte-order mark is accepted.
+"""
+
+from __future__ import annotations
+
+import os
+import stat
+import tomllib
+from pathlib import Path
+
+from cutplan.design.contract import MAX_FILE_BYTES, DesignError, DesignErrors
+
+BOM = "\ufeff"
+
+
+def _refuse(path, allowed):
+    raise DesignErrors([DesignError(path, "(file)", None, allowed)])
+
+
+def read_bytes_checked(path, limit=MAX_FILE_BYTES, what="a design file"):
+    """The bytes of a regular file of at most ``limit`` bytes, or DesignErrors (one line)."""
+    path = Path(path)
+    try:
+        info = os.stat(path)
+    except FileNotFoundError:
+        _refuse(path, "does not exist")
+    except OSError as exc:
+        _refuse(path, f"cannot be read ({exc.strerror})")
+    if stat.S_ISDIR(info.st_mode):
+        _refuse(path, f"is a folder, not {what}")
+    if not stat.S_ISREG(info.st_mode):
+        _refuse(path, f"is not a regular file (a pipe or device?); give {what}")
+    if info.st_size > limit:
+        _refuse(path, f"is over {limit} bytes; {what} is a few kB")
+    try:
+        with open(path, "rb") as fh:
+            raw = fh.read(limit + 1)
+    except OSError as exc:
+        _refuse(path, f"cannot be read ({exc.strerror})")
+    if len(raw) > limit:
+        _refuse(path, f"is over {limit} bytes; {what} is a few kB")
+    return raw
+
+
+def parse_toml_text(path, raw):
+    """TOML from bytes: UTF-8 (with or without a byte-order mark), not empty, well formed."""
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError:
+        _refuse(path, "is not UTF-8 text (is it a design file?)")
+    if text.startswith(BOM):
+        text = text[1:]
+    if not text.strip():
+        _refuse(path, "is empty; `cutplan new chime` writes a starter design")
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        _refuse(path, f"is not valid TOML ({str(exc).splitlines()[0]})")
+    except RecursionError:
+        _refuse(path, "is not a design: its brackets nest too deep")
+
+
+def read_design_file(path):
+    """Raw TOML of a design file, or DesignErrors with one line that says what is wrong."""
+    return parse_toml_text(path, read_bytes_checked(path))

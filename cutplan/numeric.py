@@ -1,0 +1,62 @@
+"""Keep numeric trouble inside: numpy/scipy warnings never reach the user, and an overflow or
+a non-finite result in a solver becomes one clear line instead of a 0.0 mm or NaN piece."""
+
+from __future__ import annotations
+
+import math
+import warnings
+
+import numpy as np
+
+
+class NumericError(ArithmeticError):
+    """A computation overflowed or gave a non-finite or non-positive result; str() is one line."""
+
+
+def quiet(fn, *args, **kwargs):
+    """``fn(*args, **kwargs)`` with numpy/scipy floating-point warnings silenced."""
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        with np.errstate(all="ignore"):
+            return fn(*args, **kwargs)
+
+
+def _bad_length(x):
+    return x is None or not math.isfinite(x) or x <= 0
+
+
+def plan_problem(plan):
+    """The first length of ``plan`` that is NaN, infinite, zero or negative, as text; or None."""
+    for p in plan.pieces:
+        checks = [("length", p.length), ("cut length", p.cut_length)]
+        checks += [(f"node {i}", x) for i, x in enumerate(p.nodes, start=1)]
+        for what, x in checks:
+            if _bad_length(x):
+                return f"piece {p.label}: the solver gave a {what} of {x!r}"
+        if not all(math.isfinite(f) and f > 0 for f in p.partials_hz):
+            return f"piece {p.label}: the solver gave a partial that is not a positive finite frequency"
+    cut_list = getattr(plan, "cut_list", None)
+    if cut_list is not None:
+        for stick in cut_list.sticks:
+            if _bad_length(stick.stock_length) or not math.isfinite(stick.offcut) or stick.offcut < -1e-9:
+                return "the cut list has a stick of impossible length"
+    return None
+
+
+def checked_plan(make, where):
+    """``make()`` (a planning call) run quietly; raises :class:`NumericError` naming ``where``
+    when it overflows or gives an impossible length."""
+    try:
+        plan = quiet(make)
+    except (OverflowError, FloatingPointError, ZeroDivisionError, np.linalg.LinAlgError) as exc:
+        raise NumericError(f"{where}: the numbers overflowed in the solver ({exc}); "
+                           "check the material's modulus and density and the section sizes") from None
+    except ValueError as exc:
+        if "math domain" not in str(exc):
+            raise
+        raise NumericError(f"{where}: the solver met an impossible value ({exc}); "
+                           "check the material's modulus and density and the section sizes") from None
+    problem = plan_problem(plan)
+    if problem:
+        raise NumericError(f"{where}: {problem}; check the material's modulus and density and the section sizes")
+    return plan

@@ -1,0 +1,327 @@
+"""Column generation for the cut-list optimiser in :mod:`cutplan.stock` (its exact part).
+
+The Gilmore-Gomory relaxation is solved by column generation: the master LP (HiGHS, through
+scipy) over the patterns found so far, and a 0/1 knapsack over a 0.5 mm grid to price new ones.
+Farley's bound stops the generation once the whole number of sticks it proves can no longer
+change.  The root LP is rounded (the patterns it uses whole, first fit decreasing for the rest)
+and, failing that, dived on.  With prices, stick mixes are tried cheapest first.  All work is
+counted against the caller's budget (master LP solves), never against the clock.
+
+References
+----------
+.. [1] Gilmore, P. C. and Gomory, R. E., "A linear programming approach to the cutting-stock
+   problem", Operations Research 9 (1961) 849-859 (from memory).
+.. [2] Farley, A. A., "A note on bounding a class of linear programming problems, including
+   cutting stock problems", Operations Research 38 (1990) 922-923 (from memory).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from cutplan.stock import (
+    FIT_TOLERANCE,
+    StockType,
+    _capacity,
+    _cost,
+    _fits,
+    _heuristic,
+    _OutOfWork,
+    _sticks,
+    lower_bound_l2,
+)
+
+MAX_ROUNDS = 400
+"""Most pricing rounds of one column generation [-]."""
+
+
+GRID = 5e-4
+"""Resolution of the knapsack pricing grid [m] (0.5 mm). Sizes are rounded down on it, so the
+LP bound stays valid; while diving they are rounded up, so every pattern used fits (and is
+re-checked with the true sizes)."""
+
+
+PATTERNS_PER_ROUND = 10
+"""Disjoint improving patterns priced per column-generation round [-]."""
+
+
+def _knapsack(values, weights, capacity):
+    """0/1 knapsack by dynamic programming over an integer capacity: (best value, chosen items)."""
+    n = len(values)
+    best = np.zeros(capacity + 1)
+    take = np.zeros((n, capacity + 1), dtype=bool)
+    for i in range(n):
+        w, v = int(weights[i]), values[i]
+        if v <= 0 or w > capacity:
+            continue
+        cand = np.full(capacity + 1, -np.inf)
+        cand[w:] = best[: capacity + 1 - w] + v
+        better = cand > best + 1e-12
+        take[i] = better
+        best = np.where(better, cand, best)
+    chosen, c = [], capacity
+    for i in range(n - 1, -1, -1):
+        if take[i, c]:
+            chosen.append(i)
+            c -= int(weights[i])
+    return float(best[capacity]), sorted(chosen)
+
+
+def _master_lp(keys, n_items, types, cost, limited, big):
+    """Solve the covering LP over the columns, with an artificial column per item at cost ``big``
+    so that it is always feasible.
+
+    Returns (value, x of the real columns, item duals, stick-limit duals, artificial total).
+    """
+    from scipy.optimize import linprog
+    from scipy.sparse import csr_matrix, hstack, identity, vstack
+
+    rows, cols = [], []
+    for j, (_t, members) in enumerate(keys):
+        rows += list(members)
+        cols += [j] * len(members)
+    cover = csr_matrix((np.ones(len(rows)), (rows, cols)), shape=(n_items, len(keys)))
+    a_ub = [-hstack([cover, identity(n_items, format="csr")])]
+    b_ub = [-np.ones(n_items)]
+    for t in limited:
+        a_ub.append(csr_matrix(np.array([[1.0 if k[0] == t else 0.0 for k in keys] + [0.0] * n_items])))
+        b_ub.append(np.array([float(types[t].count)]))
+    c = np.array([cost[k[0]] for k in keys] + [big] * n_items)
+    res = linprog(c, A_ub=vstack(a_ub).tocsr(), b_ub=np.concatenate(b_ub), bounds=(0, None), method="highs")
+    if res.status != 0:
+        return None, None, None, None, None
+    duals = -res.ineqlin.marginals
+    m = len(keys)
+    return (res.fun, res.x[:m], np.clip(duals[:n_items], 0.0, None),
+            {t: max(0.0, float(-res.ineqlin.marginals[n_items + k])) for k, t in enumerate(limited)},
+            float(res.x[m:].sum()))
+
+
+def _generate(items_idx, sizes, caps, types, cost, limited, columns, work, rounding):
+    """Column generation on the items ``items_idx``; ``rounding`` floor (bound) or ceil (feasible).
+
+    Returns (LP value, x, columns used, artificial total); an artificial total above zero at the
+    end means even the relaxation cannot cover the items with the sticks allowed.  Raises
+    _OutOfWork when the budget runs out (the LP value is then no bound).
+    """
+    big = 1000.0 * (max(cost) + 1.0)
+    local = {i: k for k, i in enumerate(items_idx)}
+    grid = (np.floor if rounding == "floor" else np.ceil)(sizes[items_idx] / GRID - (1e-9 if rounding == "ceil" else -1e-9))
+    grid = grid.astype(int)
+    grid_caps = [int(np.floor(c / GRID + 1e-9)) for c in caps]
+    value = x = None
+    keys, seen = [], 0
+    farley = not limited and all(c == 1.0 for c in cost)
+    for _round in range(MAX_ROUNDS):
+        # only the columns added since the last round need checking
+        pool = list(columns)
+        for k in pool[seen:]:
+            if all(i in local for i in k[1]) and (
+                    rounding == "floor" or sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE):
+                keys.append(k)
+        seen = len(pool)
+        work.spend()
+        local_keys = [(t, tuple(local[i] for i in m)) for t, m in keys]
+        value, x, pi, mu, art = _master_lp(local_keys, len(items_idx), types, cost, limited, big)
+        if value is None:
+            return None, None, keys, math.inf
+        added, top = 0, 0.0
+        for t in range(len(types)):
+            # several disjoint improving patterns per round: fewer LP solves
+            prices = pi.copy()
+            for k in range(PATTERNS_PER_ROUND):
+                best, chosen = _knapsack(prices, grid, grid_caps[t])
+                if k == 0:
+                    top = max(top, best / cost[t])
+                if not chosen or best <= cost[t] + mu.get(t, 0.0) + 1e-9:
+                    break
+                key = (t, tuple(sorted(items_idx[c] for c in chosen)))
+                if key not in columns:
+                    columns[key] = True
+                    added += 1
+                prices[chosen] = 0.0
+        if not added:
+            return value, x, keys, art
+        if farley and art < 1e-9 and top > 1.0 and math.ceil(value / top - 1e-6) >= math.ceil(value - 1e-6):
+            # Farley's bound value / max(pattern value / cost) <= LP optimum <= value: both round up
+            # to the same whole number of sticks, so more columns cannot change the bound
+            return value, x, keys, art
+    raise _OutOfWork
+
+
+def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, work, feasible_only=False):
+    """Gilmore-Gomory LP bound by column generation, then a diving heuristic on the columns.
+
+    Returns (assignment or None, proven optimal, lower bound on the objective); raises
+    _OutOfWork when the work budget runs out.  ``feasible_only``: any layout within the stick
+    counts will do (a priced mix), so the rounded root LP is taken whenever it fits.
+    """
+    n = len(items)
+    sizes = np.array([it.length + kerf for it in items])
+    caps = [_capacity(t.length, kerf, end_trim) for t in types]
+    cost = [(t.price or 0.0) if by_cost else 1.0 for t in types]
+    limited = [t for t, st in enumerate(types) if st.count is not None]
+    columns = {}
+    for t, members in seed_patterns:
+        columns[(t, tuple(sorted(members)))] = True
+    for i in range(n):  # singletons: a start for every master
+        fitting = [t for t in range(len(types)) if _fits(0.0, sizes[i], caps[t])]
+        columns[(min(fitting, key=lambda t: (cost[t], caps[t])), (i,))] = True
+    everything = np.arange(n)
+    lp_value, x_root, keys_root, art = _generate(everything, sizes, caps, types, cost, limited, columns, work, "floor")
+    if lp_value is None:
+        return None, False, 0.0
+    if art > 1e-6:
+        return None, True, 0.0  # even the relaxation is infeasible: the stock allowed is too small
+    bound = math.ceil(lp_value - 1e-6) if not by_cost else lp_value
+    if feasible_only:
+        rounded = _round_and_fill(items, types, kerf, end_trim, sizes, caps, x_root, keys_root)
+        if rounded is not None:
+            return rounded, False, bound
+    elif not by_cost:
+        # most instances round: the columns the LP uses whole, first fit decreasing for the rest
+        rounded = _round_and_fill(items, types, kerf, end_trim, sizes, caps, x_root, keys_root)
+        if rounded is not None and len(rounded) <= bound:
+            return rounded, True, bound
+    # dive: fix the most used feasible column, re-price the rest, repeat
+    left = list(range(n))
+    chosen = []
+    counts = {t: types[t].count for t in limited}
+    while left:
+        sub_types = [StockType(st.length, counts.get(t, st.count), st.price) for t, st in enumerate(types)]
+        value, x, keys, art = _generate(np.array(left), sizes, caps, sub_types, cost, limited, columns, work, "ceil")
+        if value is None or art > 1e-6:
+            return None, False, bound
+        feasible = [(j, k) for j, k in enumerate(keys) if sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE]
+        if not feasible:
+            return None, False, bound
+        # fix every column the LP already uses whole, or else the most used one
+        ranked = sorted(feasible, key=lambda jk: (-x[jk[0]], -len(jk[1][1]), jk[0]))
+        fixed = [jk for jk in ranked if x[jk[0]] > 1 - 1e-6] or ranked[:1]
+        taken = set()
+        for _j, (t, members) in fixed:
+            take = [i for i in members if i not in taken]
+            if not take or (t in counts and counts[t] <= 0):
+                continue
+            taken.update(take)
+            chosen.append((t, sorted(take, key=lambda i: (-items[i].length, items[i].label))))
+            if t in counts:
+                counts[t] -= 1
+        left = [i for i in left if i not in taken]
+    value = sum(cost[t] for t, _ in chosen)
+    proven = value <= (bound if not by_cost else lp_value) + 1e-6
+    return chosen, proven, bound
+
+
+def _round_and_fill(items, types, kerf, end_trim, sizes, caps, x, keys):
+    """Fix the feasible columns the root LP uses whole (x = 1), lay the other pieces out first fit
+    decreasing on the sticks left; None when the stock on hand runs out."""
+    counts = [t.count for t in types]
+    taken, chosen = set(), []
+    for j, (t, members) in sorted(enumerate(keys), key=lambda jk: (-x[jk[0]], jk[0])):
+        if x[j] < 1 - 1e-6:
+            break
+        if (sizes[list(members)].sum() > caps[t] + FIT_TOLERANCE or taken.intersection(members)
+                or (counts[t] is not None and counts[t] <= 0)):
+            continue
+        taken.update(members)
+        chosen.append((t, sorted(members, key=lambda i: (-items[i].length, items[i].label))))
+        if counts[t] is not None:
+            counts[t] -= 1
+    rest = [i for i in range(len(items)) if i not in taken]
+    if not rest:
+        return chosen
+    left_types = [StockType(st.length, counts[t], st.price) for t, st in enumerate(types)]
+    filled = _heuristic([items[i] for i in rest], left_types, kerf, end_trim, False)
+    if filled is None:
+        return None
+    return chosen + [(t, [rest[k] for k in members]) for t, members in filled]
+
+
+MAX_MIXES = 2000
+"""Most stick mixes examined for a priced layout [-]."""
+
+
+def _mixes(types, sizes_total, caps, below):
+    """Whole numbers of sticks of each type costing less than ``below`` and long enough in total,
+    cheapest first. Returns (mixes, complete): complete is False when there were too many."""
+    out = []
+    complete = True
+
+    def walk(t, counts, cost, room):
+        nonlocal complete
+        if len(out) >= MAX_MIXES:
+            complete = False
+            return
+        if t == len(types):
+            if room >= sizes_total - FIT_TOLERANCE and cost < below - 1e-9:
+                out.append((cost, tuple(counts)))
+            return
+        price = types[t].price or 0.0
+        most = types[t].count if types[t].count is not None else 10_000
+        if price > 0:
+            most = min(most, int((below - cost) / price + 1e-9))
+        elif types[t].count is None:
+            complete = False
+            most = 0
+        for k in range(most + 1):
+            walk(t + 1, counts + [k], cost + k * price, room + k * caps[t])
+
+    walk(0, [], 0.0, 0.0)
+    return sorted(out), complete
+
+
+def _cheaper_mixes(items, types, kerf, end_trim, best_cost, work):
+    """Look for a cheaper layout, one mix of sticks at a time, cheapest first.
+
+    A mix whose relaxed (fractional) packing cannot hold the pieces is ruled out; the first mix
+    that yields a layout is then the optimum, if every cheaper one was ruled out.
+    Returns (better sticks or None, proven optimal, lower bound on the cost).
+    """
+    sizes_total = sum(it.length + kerf for it in items)
+    caps = [_capacity(t.length, kerf, end_trim) for t in types]
+    longest_piece = max(it.length + kerf for it in items)
+    mixes, complete = _mixes(types, sizes_total, caps, best_cost)
+    bound = None
+    for mix_cost, counts in mixes:
+        sub = [StockType(types[t].length, k, types[t].price) for t, k in enumerate(counts) if k > 0]
+        if not sub or max(_capacity(st.length, kerf, end_trim) for st in sub) < longest_piece - FIT_TOLERANCE:
+            continue
+        most = sum(st.count for st in sub)
+        longest_cap = max(_capacity(st.length, kerf, end_trim) for st in sub)
+        if lower_bound_l2([it.length + kerf for it in items], longest_cap) > most:
+            continue  # ruled out at once: not even that many of the longest sticks would do
+        try:
+            if len(sub) == 1:
+                assignment, infeasible = _one_length(items, sub[0], kerf, end_trim, work)
+            elif (quick := _heuristic(items, sub, kerf, end_trim, False)) is not None:
+                assignment, infeasible = quick, False  # first fit decreasing already packs this mix
+            else:
+                assignment, infeasible, _ = _column_generation(items, sub, kerf, end_trim, False, [], work,
+                                                               feasible_only=True)
+        except _OutOfWork:
+            return None, False, mix_cost if bound is None else bound
+        if assignment is not None:
+            sticks = _sticks(items, sub, kerf, end_trim, assignment)
+            return sticks, complete and bound is None, _cost(sticks) if bound is None else bound
+        if not infeasible and bound is None:
+            bound = mix_cost  # not ruled out: the optimum may cost this much
+    if bound is None:
+        return None, complete, best_cost if complete else 0.0
+    return None, False, bound
+
+
+def _one_length(items, stick, kerf, end_trim, work):
+    """Whether the pieces fit on ``stick.count`` sticks of one length: plain bin packing (first fit
+    decreasing, then column generation with Farley's early stop).  Returns (assignment or None,
+    ruled out)."""
+    unlimited = [StockType(stick.length, None, stick.price)]
+    heur = _heuristic(items, unlimited, kerf, end_trim, False)
+    if heur is not None and len(heur) <= stick.count:
+        return heur, False
+    assignment, _, bound = _column_generation(items, unlimited, kerf, end_trim, False, heur or [], work)
+    if assignment is not None and len(assignment) <= stick.count:
+        return assignment, False
+    return None, bound > stick.count
