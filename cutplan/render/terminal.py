@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import textwrap
 
+from cutplan.render.phrases import other_modes_text
 from cutplan.units import INCH, MM, format_length, length_cell, length_heading
 
 SAFETY_LINE = (
@@ -108,16 +109,6 @@ def render_table(plan):
         out.append("")
     out.extend(_wrapped(SAFETY_LINE, ""))
     return "\n".join(out) + "\n"
-
-
-def other_modes_text(modes):
-    """"sideways 1510, 4030 Hz; twisting 2210, 4420 Hz": the modes a piece is not tuned by, in short."""
-    parts = []
-    for kind in ("sideways", "twisting"):
-        freqs = [f for k, _, f in modes if k == kind]
-        if freqs:
-            parts.append(f"{kind} " + ", ".join(f"{f:.0f}" for f in freqs) + " Hz")
-    return "; ".join(parts)
 
 
 def render_stock(cut_list, units="mm"):

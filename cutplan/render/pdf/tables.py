@@ -17,6 +17,7 @@ from cutplan.render.pdf.base import (
     paragraph_height,
     table_pages,
 )
+from cutplan.render.phrases import other_modes_text
 
 TRIM_WORDS = "cut long, then trim to pitch (trimming raises the pitch)"
 STOPPER_WORDS = "cut the tube to its cut length, tune with the stopper"
@@ -87,8 +88,8 @@ def tuning(packet):
     w, _ = packet.size
     width = w - 2 * MARGIN
     header = ["label", "note", "target Hz", "cents per mm", "per 10 cents", "cut long by",
-              "trim from", "if sharp", "measured before", "measured after"]
-    widths = [width * f for f in (0.10, 0.05, 0.07, 0.065, 0.10, 0.14, 0.135, 0.175, 0.08, 0.08)]
+              "trim from", "if sharp", "other modes Hz", "Hz before trim", "Hz after trim"]
+    widths = [width * f for f in (0.10, 0.045, 0.07, 0.055, 0.075, 0.14, 0.105, 0.13, 0.12, 0.075, 0.075)]
     for s in plan.sets:
         rows = []
         for p in s.pieces:
@@ -99,8 +100,9 @@ def tuning(packet):
                 allow = (f"{length_lines(plan, allowance(p))}\nchance sharp {p.sharp_risk * 100:.0f} %\n"
                          f"after a test piece: {length(plan, p.allowance_calibrated).split(' (')[0]}")
             target = f"{p.target_hz:.2f}" + (f"\nstrike note {p.strike_note_hz:.1f}" if p.strike_note_hz else "")
+            others = other_modes_text(p.other_modes).replace(" Hz", "") if getattr(p, "other_modes", ()) else "-"
             rows.append([p.label, p.note, target, f"{p.cents_per_mm:.2f}", per10, allow,
-                         p.trim_end, p.if_sharp, "", ""])
+                         p.trim_end, p.if_sharp, others, "", ""])
         rule = s.allowance_rule
         if _stoppered(s):
             intro = (f"{s.name}: {STOPPER_WORDS}: the cut length is the deepest stopper setting plus room for "
