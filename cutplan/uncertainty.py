@@ -33,7 +33,9 @@ TEMPERATURE_SPREAD = 2.0
 """Air temperature uncertainty between planning and tuning [K] (common practice)."""
 END_CORRECTION_SPREAD = 0.10
 """Relative uncertainty of a tabled end correction [-] (the published values differ by about
-this much, shared/REFERENCES.md D7)."""
+this much: flanged 0.8216 a, Norris & Sheng, J. Sound Vib. 135, 85-93, 1989, against 0.85 a in
+textbooks; unflanged 0.6133 a, Levine & Schwinger, Phys. Rev. 73(4), 383-406, 1948, against
+Rayleigh's rounded 0.6 a)."""
 
 
 def _rng():

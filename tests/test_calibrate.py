@@ -179,10 +179,14 @@ def test_listen_writes_previews_that_measure_back(tmp_path):
 
 
 def test_calibrate_command_for_air_columns():
-    # issue 6 example: 0.190 m closed column at 426.7 Hz, no end correction -> 324.3 m/s
+    # A worked example of our own, computed from the closed-open formula f = c / (4 L)
+    # (Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed. 1998, ch. 8, chapter from
+    # memory):
+    # 0.190 m closed column at 426.7 Hz, no end correction -> 324.3 m/s
     one = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--piece", "190 mm @ 426.7", "--fit", "speed"])
     assert one.exit_code == 0 and "324.3 m/s" in one.output
-    # standard lab method (REFERENCES sec. 6): c = 2 f (L2 - L1) = 2 x 512 x 0.335 = 343.0 m/s,
+    # standard lab method (L2 - L1 = lambda/2 from the same closed-open formula; a worked example
+    # of our own, computed): c = 2 f (L2 - L1) = 2 x 512 x 0.335 = 343.0 m/s,
     # end correction (L2 - 3 L1) / 2 = 7.5 mm
     two = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--two-resonance", "160 mm, 495 mm @ 512"])
     assert two.exit_code == 0 and "343.0 m/s" in two.output and "7.5 mm" in two.output

@@ -6,12 +6,12 @@ from cutplan import pitch
 
 
 def test_middle_c_at_standard_pitch():
-    # ISO 16:1975: A4 = 440 Hz; 12-TET C4 = 440 * 2^(-9/12) = 261.6256 Hz (REFERENCES sec. 9)
+    # ISO 16:1975: A4 = 440 Hz; 12-TET C4 = 440 * 2^(-9/12) = 261.6256 Hz (computed)
     assert pitch.note_frequency("C4") == pytest.approx(261.625565, abs=1e-6)
 
 
 def test_piano_range_ends():
-    # REFERENCES sec. 9 (12-TET, computed): A0 = 27.5, C8 = 4186.009
+    # ISO 16:1975 A4 = 440 Hz, 12-TET f = 440 * 2^((m - 69)/12) (computed): A0 = 27.5, C8 = 4186.009
     assert pitch.note_frequency("A0") == pytest.approx(27.5)
     assert pitch.note_frequency("C8") == pytest.approx(4186.009, abs=1e-3)
 
@@ -36,7 +36,7 @@ def test_adjustable_reference_pitch():
 
 def test_just_major_scale_cents():
     # 5-limit just major scale: 0, 203.910, 386.314, 498.045, 701.955, 884.359, 1088.269, 1200
-    # cents (REFERENCES sec. 9; ratios 1, 9/8, 5/4, 4/3, 3/2, 5/3, 15/8, 2)
+    # cents (computed as 1200 log2 of the ratios 1, 9/8, 5/4, 4/3, 3/2, 5/3, 15/8, 2)
     targets = pitch.scale_targets("C4", "major", 8, "just")
     got = [pitch.cents(t.frequency, targets[0].frequency) for t in targets]
     assert got == pytest.approx([0, 203.910, 386.314, 498.045, 701.955, 884.359, 1088.269, 1200], abs=1e-3)

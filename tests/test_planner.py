@@ -134,7 +134,7 @@ temperature = "25 C"
 
 def test_strike_note_target_uses_half_of_mode_four(tmp_path):
     # Strike pitch of tubular bells: about an octave below mode 4 (Fletcher & Rossing 1998 ch. 19,
-    # quoted in the Wikipedia "Tubular bells" article; REFERENCES sec. 3)
+    # quoted in the Wikipedia "Tubular bells" article; HyperPhysics "Tubular Bells", after Rossing)
     text = INLINE.format(model="timoshenko").replace('notes = ["C5", "G5", "C6"]', 'notes = ["C5"]') + 'target = "strike-note"\n'
     p = make_plan(tmp_path, text)
     piece = p.pieces[0]

@@ -6,7 +6,8 @@ from cutplan import sections
 
 
 def test_tube_radius_of_gyration():
-    # r_g = sqrt(D^2 + d^2)/4: 1.000 in x 0.065 in wall -> 8.4168 mm (REFERENCES sec. 1, exact)
+    # r_g = sqrt(D^2 + d^2)/4 from I = pi (D^4 - d^4)/64 and A = pi (D^2 - d^2)/4:
+    # 1.000 in x 0.065 in wall -> 8.4168 mm (computed, exact)
     s = sections.tube(0.0254, 0.065 * 0.0254)
     assert s.radius_of_gyration == pytest.approx(8.4168e-3, abs=1e-7)
 
@@ -29,5 +30,5 @@ def test_cowper_coefficients(nu, solid, rect):
 
 def test_thin_tube_limit_of_cowper_hollow_circle():
     # Cowper 1966 thin-walled round tube 2(1+nu)/(4+3nu) = 0.5331 at nu = 0.33 (from memory,
-    # consistent with the hollow-circle formula as m -> 1; REFERENCES sec. 2)
+    # consistent with the hollow-circle formula as m -> 1; key cowper-1966)
     assert sections.shear_coefficient_cowper_hollow_circle(0.33, 0.99999) == pytest.approx(0.5331, abs=1e-4)

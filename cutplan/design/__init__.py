@@ -1,4 +1,4 @@
-"""Read and validate a design file (TOML, contract version 1 in shared/DESIGN.md) into SI.
+"""Read and validate a design file (TOML, contract version 1; see DEVELOPERS.md) into SI.
 
 Every problem is collected, not just the first: :class:`DesignErrors` carries a list of
 :class:`DesignError`, each of which prints as one line::

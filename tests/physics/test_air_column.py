@@ -8,21 +8,21 @@ from cutplan.physics import air_column as ac
 
 
 def test_speed_of_sound_dry_air_20c():
-    # ISO 9613-1:1993, Formula A.5: 343.2 m/s at 20 C (shared/REFERENCES.md sec. 5)
+    # ISO 9613-1:1993, Formula A.5: c = 343.2 sqrt(T / 293.15 K), 343.2 m/s at 20 C
     assert ac.speed_of_sound_iso9613(293.15) == pytest.approx(343.2, abs=0.01)
 
 
 def test_speed_of_sound_textbook_formula_agrees_within_a_cent():
     # Kinsler et al., Fundamentals of Acoustics: c = 331.3 sqrt(1 + T/273.15) (from memory):
-    # 343.21 at 20 C, 346.13 at 25 C, 340.28 at 15 C (REFERENCES sec. 5)
+    # 343.21 at 20 C, 346.13 at 25 C, 340.28 at 15 C (computed)
     for t_c, c in [(20, 343.21), (25, 346.13), (15, 340.28)]:
         assert ac.speed_of_sound_iso9613(273.15 + t_c) == pytest.approx(c, rel=2e-4)
 
 
 @pytest.mark.parametrize(
     ("t_c", "rh", "expected"),
-    # Cramer 1993, JASA 93(5) 2510, Eq. 15 / Table III, with Davis 1992 water vapour, 101.325 kPa,
-    # 400 ppm CO2 (computed; shared/REFERENCES.md sec. 5 rows marked D)
+    # Cramer 1993, JASA 93(5) 2510, Eq. 15 / Table III, with Davis 1992 (Metrologia 29, 67) water
+    # vapour, 101.325 kPa, 400 ppm CO2 (computed from those equations)
     [(20, 0, 343.359), (20, 50, 343.987), (20, 100, 344.614), (0, 0, 331.448), (25, 0, 346.268), (30, 0, 349.148)],
 )
 def test_cramer_speed_of_sound(t_c, rh, expected):
@@ -48,12 +48,17 @@ def test_closed_tube_is_quarter_wavelength_minus_one_end_correction():
 
 
 def test_closed_column_speed_from_one_resonance():
-    # issue 6 worked example: 0.190 m closed column at 426.7 Hz, no end correction -> 324.3 m/s
+    # A worked example of our own, computed from the closed-open formula f = c / (4 L)
+    # (Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed. 1998, ch. 8, chapter from
+    # memory):
+    # 0.190 m closed column at 426.7 Hz, no end correction -> c = 4 x 426.7 x 0.190 = 324.3 m/s
     assert ac.speed_from_resonance(426.7, 0.190) == pytest.approx(324.3, abs=0.05)
 
 
 def test_two_resonance_method_recovers_speed_and_end_correction():
-    # standard lab method: L2 - L1 = lambda/2, delta = (L2 - 3 L1)/2 (REFERENCES sec. 6)
+    # standard lab method: L1 + delta = lambda/4 and L2 + delta = 3 lambda/4 from the closed-open
+    # formula (Fletcher & Rossing 1998, ch. 8, from memory), so L2 - L1 = lambda/2 and
+    # delta = (L2 - 3 L1)/2 (computed)
     c, f, delta = 343.2, 500.0, 0.008
     l1 = c / (4 * f) - delta
     l2 = 3 * c / (4 * f) - delta
@@ -77,7 +82,8 @@ def test_length_and_frequency_round_trip(f, a):
 
 
 def test_air_column_pitch_drift_is_about_three_cents_per_degree():
-    # c ~ sqrt(T): d(cents)/dT = 1200/(2 ln2 T) = 2.95 cents/C at 20 C (REFERENCES sec. 5, D)
+    # c ~ sqrt(T) (ISO 9613-1:1993, Formula A.5): d(cents)/dT = 1200/(2 ln2 T) = 2.95 cents/C
+    # at 20 C (computed)
     import math
 
     c1, c2 = ac.speed_of_sound_iso9613(292.65), ac.speed_of_sound_iso9613(293.65)

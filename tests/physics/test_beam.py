@@ -14,7 +14,7 @@ from cutplan.physics import beam
 @pytest.mark.parametrize(
     ("mode", "published"),
     # Blevins, Formulas for Natural Frequency and Mode Shape, 1979, Table 8-1 (free-free):
-    # beta_n L = 4.73004074, 7.85320462, 10.9956078 (shared/REFERENCES.md sec. 1)
+    # beta_n L = 4.73004074, 7.85320462, 10.9956078 (computed to 9 figures from cos x cosh x = 1)
     [(1, 4.73004074), (2, 7.85320462), (3, 10.9956078)],
 )
 def test_free_free_roots_match_published_table(mode, published):
@@ -32,25 +32,29 @@ def test_free_free_roots_match_mpmath_root_finder(mode):
 
 def test_mode_one_nodes_at_published_fraction_of_length():
     # Blevins 1979, Table 8-1: nodes of mode 1 at 0.224 L and 0.776 L;
-    # 0.22416 / 0.77584 to five places (shared/REFERENCES.md sec. 1, computed)
+    # 0.22416 / 0.77584 to five places (computed)
     nodes = beam.node_positions(1)
     assert nodes == pytest.approx([0.22416, 0.77584], abs=1e-5)
 
 
 def test_mode_two_and_three_nodes():
-    # shared/REFERENCES.md sec. 1 (Blevins 1979 Table 8-1, computed to 5 figures)
+    # Blevins, Formulas for Natural Frequency and Mode Shape, 1979, Table 8-1 (node positions
+    # from memory), computed to 5 figures
     assert beam.node_positions(2) == pytest.approx([0.13211, 0.5, 0.86789], abs=1e-5)
     assert beam.node_positions(3) == pytest.approx([0.094443, 0.35580, 0.64420, 0.90556], abs=2e-5)
 
 
 def test_partial_ratios_are_the_classic_series():
-    # Fletcher & Rossing 1998 sec. 2.16: 1 : 2.756 : 5.404 : 8.933 (REFERENCES sec. 1, computed)
+    # Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed. 1998, sec. 2.16 (section
+    # from memory): 1 : 2.756 : 5.404 : 8.933;
+    # the five-figure ratios are computed from (beta_n L)^2
     assert beam.partial_ratios(6) == pytest.approx([1, 2.75654, 5.40392, 8.93295, 13.3443, 18.6379], rel=2e-5)
 
 
 def test_rod_frequency_matches_textbook_worked_example():
-    # Textbook worked example (Kinsler & Frey form f = pi v kappa m^2 / (8 L^2), m = 3.0112,
-    # shared/REFERENCES.md sec. 1): steel rod L = 1 m, diameter 10 mm, v = sqrt(E/rho) = 3560 m/s
+    # Textbook worked example (Kinsler & Frey, Fundamentals of Acoustics, form
+    # f = pi v kappa m^2 / (8 L^2), m = 3.0112; Fletcher & Rossing 1998, sec. 2.16):
+    # steel rod L = 1 m, diameter 10 mm, v = sqrt(E/rho) = 3560 m/s
     # gives f1 = 31.69 Hz. Here EI/mu = v^2 r_g^2 with r_g = D/4.
     v, r_g = 3560.0, 0.010 / 4
     rho = 7800.0

@@ -12,8 +12,9 @@ from cutplan.physics import beam_fe, timoshenko, undercut
 from cutplan.sections import shear_coefficient_cowper_rectangle
 
 ROOT = Path(__file__).resolve().parents[2]
-# Sugar maple along the grain (Wood Handbook 2010, Table 5-3a MOE 12.6 GPa x 1.10, Table 5-1
-# G_LR/E_L = 0.111, SG 0.63 -> 706 kg/m3; shared/REFERENCES.md sec. 8)
+# Sugar maple along the grain (USDA Wood Handbook FPL-GTR-190, 2010, key wood-handbook-2010:
+# Table 5-3a MOE 12.6 GPa x 1.10 (the shear allowance of its footnote, from memory), Table 5-1
+# G_LR/E_L = 0.111, SG 0.63 -> 706 kg/m3 as 1000 x SG x 1.12 (from memory for the SG basis))
 E, G, RHO, NU = 13.86e9, 0.111 * 13.86e9, 706.0, 0.424
 KAPPA = shear_coefficient_cowper_rectangle(NU)
 B, T = 0.05, 0.022
@@ -63,8 +64,9 @@ def test_stepped_bar_finite_elements_match_the_exact_transfer_matrix(thin):
 @pytest.mark.parametrize(("ratios", "note_hz"), [((4.0,), 261.63), ((4.0,), 523.25), ((3.0,), 349.23),
                                                  ((4.0, 10.0), 261.63)])
 def test_undercut_reaches_the_asked_ratios(ratios, note_hz):
-    # Marimba 1:4 and triple 1:4:10, xylophone 1:3 (Fletcher & Rossing 1998 ch. 19; HyperPhysics
-    # "Xylophone/Marimba"; shared/REFERENCES.md sec. 4 and D1)
+    # Marimba 1:4 and triple 1:4:10, xylophone 1:3 (Fletcher & Rossing, The Physics of Musical
+    # Instruments, 2nd ed. 1998, ch. 19, from memory for 1:4:10; HyperPhysics "Xylophone/Marimba"
+    # for 1:4 and 1:3, whose "minor third ... 10th harmonic" contradicts itself, so 1:4:10 is used)
     r = undercut.design_undercut(note_hz, ratios, B, T, E, G, RHO, KAPPA, 0.004)
     f = undercut.bar_modes(r.length, B, T, r.depth, r.arch_fraction, E, G, RHO, KAPPA, r.exponent, modes=3).frequencies
     assert abs(cents(f[0], note_hz)) < 0.5
@@ -74,8 +76,9 @@ def test_undercut_reaches_the_asked_ratios(ratios, note_hz):
 
 
 def test_undercut_moves_the_nodes_toward_the_ends():
-    # shared/REFERENCES.md sec. 4: an arch moves the mode-1 nodes outward from 0.2242 L
-    # (Blevins 1979 Table 8-1 for the uniform bar); derived from the physics, checked here
+    # An arch moves the mode-1 nodes outward from 0.2242 L (the uniform bar's node, Blevins,
+    # Formulas for Natural Frequency and Mode Shape, 1979, Table 8-1, computed); reasoning of our
+    # own (heavy end blocks turn about their own centres of mass), checked here
     r = undercut.design_undercut(392.0, (4.0,), B, T, E, G, RHO, KAPPA, 0.004)
     assert r.nodes[0] / r.length < 0.2242
     assert r.nodes[0] + r.nodes[1] == pytest.approx(r.length, rel=1e-3)
