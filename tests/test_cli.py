@@ -132,3 +132,12 @@ def test_user_materials_folder_option(tmp_path):
     design = tmp_path / "d.toml"
     design.write_text(Path(PORCH).read_text().replace('"aluminum-6063-t5"', '"yard-pipe"'))
     assert run("plan", str(design), "--materials", str(tmp_path / "mats")).exit_code == 0
+
+
+def test_usage_errors_are_one_line_with_exit_code_2():
+    # a value outside a choice, a missing argument and an unknown command: one line each, exit 2
+    for args in (["plan", "x.toml", "--units", "ft"], ["plan"], ["frob"]):
+        result = CliRunner().invoke(cli, args)
+        assert result.exit_code == 2, args
+        lines = [line for line in result.output.splitlines() if line.strip()]
+        assert len(lines) == 1 and lines[0].startswith("error: "), (args, result.output)

@@ -7,13 +7,37 @@ imported inside the commands that use them so that ``cutplan --help`` starts fas
 
 from __future__ import annotations
 
+import sys
+
 import click
 
 from cutplan import __version__
 from cutplan.cli import examples, from_stock, pieces, plans, serve, shop
 
 
-@click.group(context_settings={"help_option_names": ["-h", "--help"]})
+class OneLineGroup(click.Group):
+    """A click group whose usage errors (an unknown option, a value outside a choice) are one line
+    naming the option, the value and what is allowed, with exit code 2, like every other bad input."""
+
+    def main(self, args=None, prog_name=None, complete_var=None, standalone_mode=True, **extra):
+        """Run the command line; print usage errors as one ``error:`` line."""
+        if not standalone_mode:
+            return super().main(args, prog_name, complete_var, standalone_mode, **extra)
+        try:
+            return super().main(args, prog_name, complete_var, standalone_mode=False, **extra)
+        except click.UsageError as exc:
+            where = f"{exc.ctx.command_path}: " if exc.ctx is not None else ""
+            click.echo(f"error: {where}{exc.format_message()}", err=True)
+            sys.exit(exc.exit_code)
+        except click.ClickException as exc:
+            exc.show()
+            sys.exit(exc.exit_code)
+        except click.Abort:
+            click.echo("Aborted!", err=True)
+            sys.exit(1)
+
+
+@click.group(cls=OneLineGroup, context_settings={"help_option_names": ["-h", "--help"]})
 @click.version_option(__version__, prog_name="cutplan")
 def cli():
     """Cut plans for hand-built tuned percussion: chimes, bars, air columns, resonators.
