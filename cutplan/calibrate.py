@@ -189,11 +189,17 @@ class TrimAdvice:
     length_now: float
     length_needed: float
     action: str
+    caution: str = ""
 
     @property
     def remove(self):
         """Length to remove [m] (negative: the piece is too short)."""
         return self.length_now - self.length_needed
+
+
+FAR_OFF_CENTS = 300.0
+"""A reading further than this from the target is questioned before any cut [cents] (a minor
+third: more than a careful cut long ever leaves; common practice)."""
 
 
 def _length_for(miss, length_now):
@@ -242,9 +248,15 @@ def trim_advice(piece, frequency_at, measured_hz, length_now=None, units="mm"):
     if abs(cents_off) < 2:
         action = "in tune (within 2 cents): leave it"
     elif remove > 0:
+        step = (f"take off about {format_length(remove / 3, units)} at a time" if remove >= 1.5e-3
+                else "file or sand it off a little at a time")
         action = (f"flat by {-cents_off:.1f} cents: remove {format_length(remove, units)} from "
-                  f"{piece.trim_end}; take off about {format_length(remove / 3, units)} at a time and "
-                  "measure again (trimming raises the pitch)")
+                  f"{piece.trim_end}; {step} and measure again (trimming raises the pitch)")
     else:
         action = f"sharp by {cents_off:.1f} cents: {format_length(-remove, units)} too short; {piece.if_sharp}"
-    return TrimAdvice(piece.label, piece.target_hz, measured_hz, cents_off, length_now, length_needed, action)
+    caution = ""
+    if abs(cents_off) > FAR_OFF_CENTS:
+        caution = (f"this reading is {abs(cents_off):.0f} cents from the target: before cutting, check that it is "
+                   "this piece and its fundamental (not another partial, or the strike note of another piece)")
+    return TrimAdvice(piece.label, piece.target_hz, measured_hz, cents_off, length_now, length_needed, action,
+                      caution)

@@ -379,8 +379,12 @@ def format_length(metres, units="mm", denominator=INCH_DENOMINATOR):
     '514.9 mm (20-9/32 in)'
     >>> format_length(0.51487, "in")
     '20-9/32 in (514.9 mm)'
+    >>> format_length(0.0003, "in")
+    'under 1/32 in (0.3 mm)'
     """
     inch, mm = inch_text(metres, denominator), mm_text(metres)
+    if inch in ("0", "-0") and abs(metres) >= 0.05 * MM:
+        inch = f"under 1/{denominator}"  # never "0 in" for an amount a builder should remove
     if units == "in":
         return f"{inch} in ({mm} mm)"
     return f"{mm} mm ({inch} in)"

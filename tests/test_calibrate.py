@@ -211,3 +211,15 @@ def test_trim_answers_over_the_whole_octave_it_accepts(example, label, ratio):
                                       "--length-now", f"{piece.length * 1000:.3f} mm"])
     assert result.exit_code == 0, result.output
     assert ("remove" in result.output) == (ratio < 1)
+
+
+def test_trim_questions_a_reading_far_from_the_target_and_never_says_zero_inches():
+    from pathlib import Path
+
+    porch = str(Path(__file__).resolve().parent.parent / "examples" / "porch-chimes.toml")  # units = "in"
+    far = CliRunner().invoke(cli, ["trim", porch, "porch-1", "--measured", "300"])
+    # 300 Hz against a 587.33 Hz target is 1163 cents off: likely another piece or partial
+    assert far.exit_code == 0 and "! this reading is 1163 cents from the target" in far.output
+    small = CliRunner().invoke(cli, ["trim", porch, "porch-1", "--measured", "586.5"])
+    assert "remove under 1/32 in (0.4 mm)" in small.output and " 0 in " not in small.output
+    assert max(len(line) for line in small.output.splitlines()) <= 100

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import textwrap
 from pathlib import Path
 
 import click
@@ -393,14 +394,14 @@ def trim_command(design, label, measured, recording, length_now, units, material
     except (ValueError, ArithmeticError):
         fail(f"trim: no length between half and one and a half times the length now brings {piece.label} "
              f"from {measured:.2f} Hz to {piece.target_hz:.2f} Hz; check the reading (another partial?) and the piece")
-    click.echo(f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {measured:.2f} Hz "
-               f"at {format_length(advice.length_now, units)}")
-    click.echo(f"  length for the target: {format_length(advice.length_needed, units)}")
-    click.echo(f"  {advice.action}")
-    if piece.nodes and advice.remove > 0:
-        fractions = [x / piece.length for x in piece.nodes]
-        click.echo("  if not yet drilled, hang/support points for the trimmed length: "
-                   + ", ".join(format_length(f * advice.length_needed, units) for f in fractions) + " from the top/reference end")
+    from cutplan.render.phrases import trim_lines
+
+    lines = trim_lines(piece, advice, measured, units)
+    lines = lines[:1] + ["  " + line for line in lines[1:]]
+    for line in lines:
+        indent = line[:len(line) - len(line.lstrip())]
+        click.echo("\n".join(textwrap.wrap(line, 100, subsequent_indent=indent + "  ", break_on_hyphens=False,
+                                           break_long_words=False)))
 
 
 @click.command("listen")

@@ -13,6 +13,7 @@ import os
 import tempfile
 from dataclasses import dataclass
 
+from cutplan.render.phrases import trim_lines
 from cutplan.web.service import WebErrors, error
 
 MIN_HZ, MAX_HZ = 10.0, 30000.0
@@ -75,7 +76,7 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now=""):
     from cutplan import pitch
     from cutplan.calibrate import CalibrationError, trim_advice
     from cutplan.models import piece_frequency_function
-    from cutplan.units import UnitError, format_length, parse_length
+    from cutplan.units import UnitError, parse_length
 
     pieces = {p.label: p for p in plan.pieces}
     if label not in pieces:
@@ -107,15 +108,6 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now=""):
     name, off = pitch.nearest_note(hz, plan.a4)
     lines = [f"measured {hz:.2f} Hz = {name} {off:+.1f} cents"
              + (f" (confidence {confidence:.2f}); partials " + ", ".join(f"{f:.1f}" for f in partials) + " Hz"
-                if recording else ""),
-             # the trim command's own lines, word for word
-             f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {hz:.2f} Hz "
-             f"at {format_length(advice.length_now, units)}",
-             f"length for the target: {format_length(advice.length_needed, units)}",
-             advice.action]
-    if piece.nodes and advice.remove > 0:
-        fractions = [x / piece.length for x in piece.nodes]
-        lines.append("if not yet drilled, hang/support points for the trimmed length: "
-                     + ", ".join(format_length(f * advice.length_needed, units) for f in fractions)
-                     + " from the top/reference end")
+                if recording else "")]
+    lines += trim_lines(piece, advice, hz, units)  # the trim command's own lines, word for word
     return TrimAnswer(label, hz, name, off, confidence, partials, tuple(lines))

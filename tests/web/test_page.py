@@ -149,8 +149,15 @@ def _action_line(lines):
 
 
 def _advice(lines):
-    """The trim command's lines without indentation (the page adds its measurement line first)."""
-    return [line.strip() for line in lines if line.strip()]
+    """The trim command's lines without indentation, wrapped lines joined again (the page adds its
+    measurement line first and does not wrap)."""
+    out = []
+    for line in lines:
+        if line.startswith("    ") and out:
+            out[-1] += " " + line.strip()
+        elif line.strip():
+            out.append(line.strip())
+    return out
 
 
 def test_trim_from_a_tuner_reading_matches_the_trim_command(client):
