@@ -26,8 +26,20 @@ TUBE_GAP = 20.0e-3
 """Clear gap between neighbouring tubes hung from a plate [m] (common practice)."""
 LINE_PER_PIECE = 0.6
 """Hanging line per chime, both ends tied, with room to adjust [m] (common practice)."""
-PLATE_MATERIAL = "12 mm (1/2 in) exterior plywood or hardwood, or 3 mm (1/8 in) aluminium sheet"
-"""What a hanging plate is usually made of (common practice; a suggestion)."""
+PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
+"""Usual hanging-plate thickness [m]: plywood or hardwood, aluminium sheet, as sold in metric and
+in inch sizes (common practice)."""
+
+
+def plate_material(shown="mm"):
+    """What a hanging plate is usually made of, in the plan's units (common practice; a suggestion)."""
+    wood, metal = (_fmt(t, shown) for t in PLATE_THICKNESS.get(shown, PLATE_THICKNESS["mm"]))
+    return f"{wood} exterior plywood or hardwood, or {metal} aluminium sheet"
+
+
+def _fmt(metres, shown):
+    """A length in the plan's units, the shown unit first."""
+    return units.format_length(metres, shown)
 PLATE_HANGING = ("hang the plate level from a ring or swivel by three equal lines through the three "
                  "outer holes (S); the striker line runs through the centre hole")
 """How the plate itself is hung (common practice)."""
@@ -167,19 +179,19 @@ def _stock_items(plan):
     return items
 
 
-def _chime_items(s, rows):
+def _chime_items(s, rows, shown="mm"):
     n = len(s.pieces)
     plate = hanging_plate(s)
     row = hang_hole_for(s.outer, rows) if s.shape in ("tube", "rod") else None
     line = row.line if row else "braided polyester line"
     items = [Item("hanging", f"hanging line for {s.name}: {line}", None, None, n * LINE_PER_PIECE,
-                  f"about {LINE_PER_PIECE:g} m per tube", suggestion=True)]
+                  f"about {_fmt(LINE_PER_PIECE, shown)} per tube", suggestion=True)]
     if row is not None:
         items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, row.drill, None,
                           "through both walls, at the hang-hole mark"))
     items += [
         Item("hanging", f"hanging plate for {s.name}", 1, plate.diameter_mm / 1000, None,
-             f"across; {PLATE_MATERIAL}", suggestion=True),
+             f"across; {plate_material(shown)}", suggestion=True),
         Item("hanging", "top ring or swivel and 3 lines to hang the plate", 1, None, None,
              f"{PLATE_HANGING}; rated for the whole set's weight with a generous margin", suggestion=True),
         Item("hanging", "striker disc", 1, plate.diameter_mm / 2000, None,
@@ -225,7 +237,7 @@ def shopping_list(plan, rows=None):
     items = _stock_items(plan)
     for s in plan.sets:
         if s.kind == "chime":
-            items += _chime_items(s, rows)
+            items += _chime_items(s, rows, plan.units)
         elif s.kind == "bar":
             items += _bar_items(s)
         else:

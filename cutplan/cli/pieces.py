@@ -109,6 +109,8 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
     p = the_plan.pieces[0]
     click.echo(f"{p.note}: {p.target_hz:.2f} Hz, {the_plan.sets[0].section_label(units)}, {p.model}")
     click.echo(f"  length      {format_length(p.length, units)}")
+    click.echo(f"  cut at      {format_length(p.cut_length, units)}: cut long by "
+               f"{format_length(p.allowance, units)} ({the_plan.sets[0].allowance_rule}), then trim to pitch")
     for i, x in enumerate(p.nodes, start=1):
         what = "hang hole" if kind == "chime" else "support"
         click.echo(f"  {what} {i}  {format_length(x, units)} from the end")

@@ -198,5 +198,5 @@ def render_cutlist_csv(cut_list):
                 _inch(start + size),
             ])
         writer.writerow([i, stick.group, mm_text(length), _inch(length),
-                         "offcut", "", "", "", mm_text(stick.offcut), "", "", ""])
+                         "offcut", "", "", "", mm_text(stick.offcut), _inch(stick.offcut), "", ""])
     return buf.getvalue()

@@ -127,7 +127,7 @@ def render_stock(cut_list, units="mm"):
                        f"to {_length(c.start + c.length, units):>22}  ({_length(c.length, units)})")
         out.append(f"      offcut {_length(stick.offcut, units)}")
     by_length = ", ".join(f"{n} x {_length(length, units)}" for length, n in cut_list.sticks_by_length)
-    out.append(f"  sticks: {by_length}; lower bound {cut_list.lower_bound}; "
+    out.append(f"  sticks: {by_length}; fewest possible {cut_list.lower_bound}; "
                f"utilisation {100 * cut_list.utilisation:.1f} %"
                + (f"; cost {cut_list.cost:.2f}" if cut_list.cost is not None else ""))
     return out

@@ -9,7 +9,8 @@ from reportlab.lib import colors
 from cutplan.render import marks as mk
 from cutplan.render.pdf.base import BOLD, FONT, SAFE, TEMPLATE_MARGIN, Placer, mm, paragraph
 from cutplan.render.pdf.rulers import RULER_TOP, RULERS_HEIGHT, rulers
-from cutplan.shopping import PLATE_HANGING, PLATE_MATERIAL
+from cutplan.shopping import PLATE_HANGING, plate_material
+from cutplan.units import MM, format_length
 
 
 def _circle_segments(cx, cy, r, n=72):
@@ -44,9 +45,10 @@ def _plate_page(c, page, plan, s):
             c.drawCentredString(xx, y_wrap - 5.5 * mm, label)
         y = y_wrap - 10 * mm
     bottom = RULER_TOP + RULERS_HEIGHT + 8 * mm
-    note = (f"Plate {plate.diameter_mm:.0f} mm across, {PLATE_MATERIAL} (a suggestion). Drill the line holes "
-            f"{plate.hole_mm:.0f} mm on the {2 * plate.pitch_radius_mm:.1f} mm circle, one per tube; "
-            f"{PLATE_HANGING}.")
+    units = plan.units
+    note = (f"Plate {format_length(plate.diameter_mm * MM, units)} across, {plate_material(units)} (a suggestion). Drill "
+            f"the line holes {format_length(plate.hole_mm * MM, units)} on the "
+            f"{format_length(2 * plate.pitch_radius_mm * MM, units)} circle, one per tube; {PLATE_HANGING}.")
     y = paragraph(c, x, y, note, 7.5, width)
     room = (y - bottom) / mm - 8
     fits = plate.diameter_mm <= min(width / mm, room)
