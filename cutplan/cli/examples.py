@@ -6,6 +6,7 @@ checkout), so they are reachable from any folder; ``cutplan new --from NAME FILE
 
 from __future__ import annotations
 
+import textwrap
 from pathlib import Path
 
 import click
@@ -36,11 +37,13 @@ def example_text(name):
 
 
 def _summary(path):
-    """The example's first comment line (its scenario)."""
+    """The example's opening comment (its scenario), joined into one paragraph."""
+    words = []
     for line in path.read_text(encoding="utf-8").splitlines():
-        if line.startswith("#"):
-            return line.lstrip("# ").strip()
-    return ""
+        if not line.startswith("#"):
+            break
+        words.append(line.lstrip("# ").strip())
+    return " ".join(w for w in words if w)
 
 
 @click.command("examples")
@@ -60,5 +63,8 @@ def examples_command(name):
     names = example_names()
     width = max(len(n) for n in names)
     for n, path in names.items():
-        click.echo(f"{n:{width}}  {_summary(path)}")
+        lines = textwrap.wrap(_summary(path), 100 - width - 2, break_on_hyphens=False) or [""]
+        click.echo(f"{n:{width}}  {lines[0]}")
+        for more in lines[1:]:
+            click.echo(f"{'':{width}}  {more}")
     click.echo("\ncopy one to edit: cutplan new --from NAME FILE", err=True)
