@@ -335,3 +335,22 @@ def load_library(extra_dirs=(), include_packaged=True):
                     raise MaterialError(path, name, table, "must be a table of properties")
                 materials[name] = material_from_table(name, table, path, sources)
     return Library(materials=materials, stock=stock, sources=sources, files=tuple(files))
+
+
+def closest_names(value, choices, count=3):
+    """Names in ``choices`` nearest to a mistyped ``value`` (British spellings and part-names too).
+
+    >>> closest_names("aluminium-6063-t5", ["aluminum-6061-t6", "aluminum-6063-t5", "maple-sugar"])
+    ['aluminum-6063-t5']
+    >>> closest_names("aluminium", ["aluminum-6061-t6", "aluminum-6063-t5", "maple-sugar"])
+    ['aluminum-6063-t5', 'aluminum-6061-t6']
+    """
+    import difflib
+
+    text = str(value).strip().lower().replace("aluminium", "aluminum").replace("colour", "color")
+    choices = sorted(choices)
+    if text in choices:
+        return [text]
+    within = [c for c in choices if text and text in c]
+    close = difflib.get_close_matches(text, choices, n=count, cutoff=0.6)
+    return (close + [c for c in within if c not in close])[:count] or choices[:count]

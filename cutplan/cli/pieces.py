@@ -67,7 +67,11 @@ def materials_command(name, materials_dirs):
 
     text = render_library(lib) if name is None else render_library_entry(lib, name)
     if text is None:
-        fail(f"materials: {name!r} is not a material or stock size; run `cutplan materials` to list them")
+        from cutplan.materials import closest_names
+
+        near = ", ".join(closest_names(name, list(lib.materials) + list(lib.stock)))
+        fail(f"materials: {name!r} is not a material or stock size; did you mean {near}? "
+             "(`cutplan materials` lists them)")
     click.echo(text, nl=False)
 
 

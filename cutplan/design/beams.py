@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from cutplan import plausibility, units
 from cutplan.design.contract import Undercut, is_number
-from cutplan.materials import MaterialError, material_from_table
+from cutplan.materials import MaterialError, closest_names, material_from_table
 
 UNDERCUT_KEYS = {"ratios", "arch_width", "min_thickness"}
 AIR_ONLY = ("ends", "end_correction", "temperature", "humidity", "serves", "max_length", "temperature_range")
@@ -27,8 +27,8 @@ def material(raw, key, default_name, library, col):
     elif library is None:
         return None
     elif not isinstance(value, str) or value not in library.materials:
-        names = ", ".join(sorted(library.materials)[:6])
-        col.add(key, value, f"is not a known material; `cutplan materials` lists them ({names}, ...)")
+        names = ", ".join(closest_names(value, library.materials))
+        col.add(key, value, f"is not a known material; did you mean {names}? (`cutplan materials` lists them)")
         return None
     else:
         found = library.materials[value]

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from cutplan import units
+from cutplan.materials import closest_names
 from cutplan.sections import Section, bar, rod, tube
 
 SECTION_KEYS = {"shape", "outer", "wall", "inner", "diameter", "width", "thickness", "stock"}
@@ -37,8 +38,8 @@ def _from_stock(raw, key, library, col):
     if library is None:
         return None, ""
     if not isinstance(name, str) or name not in library.stock:
-        examples = ", ".join(list(library.stock)[:3])
-        col.add(f"{key}.stock", name, f"is not a stock size; `cutplan materials` lists them (e.g. {examples})")
+        examples = ", ".join(closest_names(name, library.stock))
+        col.add(f"{key}.stock", name, f"is not a stock size; did you mean {examples}? (`cutplan materials` lists them)")
         return None, ""
     item = library.stock[name]
     section = item.section
