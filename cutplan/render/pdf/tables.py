@@ -59,7 +59,8 @@ def cut_list(packet):
         header = ["label", "note", "Hz", "finished", cut_head, node_head, "mass", "cut", "drilled", "tuned"]
         rows = []
         for p in pieces:
-            nodes = "\n".join(length_lines(plan, x) for x in p.nodes) if p.nodes else "-"
+            shown = p.nodes[:1] if s.kind == "chime" else p.nodes  # a chime hangs from its top node
+            nodes = "\n".join(length_lines(plan, x) for x in shown) if shown else "-"
             mass = f"{p.mass * 1000:.0f} g" if p.mass is not None else "-"
             cut = length_lines(plan, p.cut_length)
             if not stoppered:
