@@ -107,7 +107,13 @@ def render_table(plan):
     if plan.cut_list is not None:
         out.extend(render_stock(plan.cut_list, units))
         out.append("")
-    out.extend(_wrapped(SAFETY_LINE, ""))
+    cautions = getattr(plan, "cautions", ())
+    if cautions:
+        out.append("Safety (the packet's cautions for these pieces and materials):")
+        for c in cautions:
+            out.extend(_wrapped(f"- {c.text}", ""))
+    else:
+        out.extend(_wrapped(SAFETY_LINE, ""))
     return "\n".join(out) + "\n"
 
 
