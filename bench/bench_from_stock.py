@@ -81,7 +81,7 @@ def main():
     start = time.process_time()
     fit_stock.fit_table._planned_cut_lengths(base, {"stock": {"kerf": "1/16 in"}}, freqs, ())
     print(f"{INVENTORIES[0][0]:28} {'plan-tbl':9} {len(freqs):10d} {'':7} {time.process_time() - start:7.2f}  "
-          "the same table through cutplan.plan() (per-piece allowance root finding)")
+          "building the cut-length table alone (cutplan.plan() in batches)")
     print(f"full search (every root from {LOW}, {len(SCALES)} scales, counts {COUNTS[0]}-{COUNTS[-1]}): "
           f"slowest inventory {worst:.2f} CPU s (target 5 s)")
 

@@ -159,7 +159,7 @@ class _Search:
                     keys.setdefault(self._key(r, off), self._frequency(r, off))
         self.keys = list(keys)
         freqs = np.array([keys[k] for k in self.keys])
-        lengths, cuts = fit_table.cut_length_table(self.spec, self.stock, freqs, base_set, top, materials_dirs)
+        lengths, cuts = fit_table.cut_length_table(freqs, base_set, top, materials_dirs)
         short = fit_table.stubby_below(self.spec)
         cuts = np.where(np.isnan(lengths) | (lengths < short), np.nan, cuts)
         self.table = dict(zip(self.keys, cuts.tolist(), strict=True))
