@@ -44,6 +44,11 @@ class Piece:
     other_modes: tuple = ()  # ((kind "sideways" | "twisting", mode, hz), ...): see other_modes.py
 
     @property
+    def trim_per_10_cents(self):
+        """Length to remove to raise the pitch by 10 cents [m] (from the trim rate), or None."""
+        return 10.0 / self.cents_per_mm * 1e-3 if self.cents_per_mm else None
+
+    @property
     def allowance(self):
         """The allowance this piece is cut with [m]: cut length minus finished length, the one
         number the cut list, tuning sheet, templates and JSON state (for a stoppered resonator,

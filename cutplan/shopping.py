@@ -33,13 +33,10 @@ in inch sizes (common practice)."""
 
 def plate_material(shown="mm"):
     """What a hanging plate is usually made of, in the plan's units (common practice; a suggestion)."""
-    wood, metal = (_fmt(t, shown) for t in PLATE_THICKNESS.get(shown, PLATE_THICKNESS["mm"]))
+    wood, metal = (units.format_length(t, shown) for t in PLATE_THICKNESS.get(shown, PLATE_THICKNESS["mm"]))
     return f"{wood} exterior plywood or hardwood, or {metal} aluminium sheet"
 
 
-def _fmt(metres, shown):
-    """A length in the plan's units, the shown unit first."""
-    return units.format_length(metres, shown)
 PLATE_HANGING = ("hang the plate level from a ring or swivel by three equal lines through the three "
                  "outer holes (S); the striker line runs through the centre hole")
 """How the plate itself is hung (common practice)."""
@@ -185,7 +182,7 @@ def _chime_items(s, rows, shown="mm"):
     row = hang_hole_for(s.outer, rows) if s.shape in ("tube", "rod") else None
     line = row.line if row else "braided polyester line"
     items = [Item("hanging", f"hanging line for {s.name}: {line}", None, None, n * LINE_PER_PIECE,
-                  f"about {_fmt(LINE_PER_PIECE, shown)} per tube", suggestion=True)]
+                  f"about {units.format_length(LINE_PER_PIECE, shown)} per tube", suggestion=True)]
     if row is not None:
         items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, row.drill, None,
                           "through both walls, at the hang-hole mark"))

@@ -94,7 +94,7 @@ def tuning(packet):
     for s in plan.sets:
         rows = []
         for p in s.pieces:
-            per10 = length_lines(plan, 0.010 / p.cents_per_mm) if p.cents_per_mm else "-"
+            per10 = length_lines(plan, p.trim_per_10_cents) if p.trim_per_10_cents else "-"
             if p.stopper:
                 allow = STOPPER_WORDS
             else:
