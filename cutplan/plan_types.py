@@ -44,6 +44,11 @@ class Piece:
     other_modes: tuple = ()  # ((kind "sideways" | "twisting", mode, hz), ...): see other_modes.py
 
     @property
+    def partial_ratios(self):
+        """The planned partials as ratios to the first [-], for reading a recording of this piece."""
+        return tuple(f / self.partials_hz[0] for f in self.partials_hz)
+
+    @property
     def trim_per_10_cents(self):
         """Length to remove to raise the pitch by 10 cents [m] (from the trim rate), or None."""
         return 10.0 / self.cents_per_mm * 1e-3 if self.cents_per_mm else None

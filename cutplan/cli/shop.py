@@ -373,8 +373,7 @@ def trim_command(design, label, measured, recording, length_now, units, material
     f_at = piece_frequency_function(spec, piece)
     if recording:
         kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
-        planned = [f / piece.partials_hz[0] for f in piece.partials_hz]
-        measured = _measure_file(recording, kind, piece.target_hz, planned).fundamental_hz
+        measured = _measure_file(recording, kind, piece.target_hz, list(piece.partial_ratios)).fundamental_hz
     now = None
     if length_now:
         try:

@@ -44,14 +44,13 @@ def _recording_frequency(recording, kind, piece):
     from cutplan.audio.analysis import measure
     from cutplan.audio.wav import RecordingError, read_wav
 
-    planned = [f / piece.partials_hz[0] for f in piece.partials_hz]
     with tempfile.TemporaryDirectory(prefix="cutplan-trim-") as folder:
         path = os.path.join(folder, "recording.wav")
         with open(path, "wb") as fh:
             fh.write(recording)
         try:
             samples, rate = read_wav(path)
-            m = measure(samples, rate, kind, piece.target_hz, planned)
+            m = measure(samples, rate, kind, piece.target_hz, list(piece.partial_ratios))
         except RecordingError as exc:
             raise WebErrors([error("trim.recording", str(exc))]) from None
     return m.fundamental_hz, tuple(m.partials_hz), m.confidence
