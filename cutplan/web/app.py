@@ -80,6 +80,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
         "stock_sizes": sorted((n, s.description) for n, s in library.stock.items()),
         "scales": [(s, s) for s in pitch.SCALES], "examples": list(examples),
         "temperaments": ["equal", "equal-19", "equal-24", "just", "pythagorean"],
+        "set_extras": webform.SET_EXTRAS,
     }
 
     @app.before_request
@@ -302,6 +303,7 @@ def _slots(fields):
         p = f"set[{i}]"
         slots.update({p, f"{p}.section", f"{p}.more", f"{p}.stock", f"{p}.pitch", f"{p}.stock.lengths"})
         slots.update(f"{p}.{k}" for k in webform.SET_FIELDS)
+        slots.update(f"{p}.{k}" for k in (*webform.EXTRA_KEYS, *webform.TABLES))
         slots.update(f"{p}.section.{k}" for k in webform.SECTION_FIELDS)
         slots.update(f"{p}.stock.{k}" for k in webform.STOCK_FIELDS)
     return slots

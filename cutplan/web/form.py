@@ -4,14 +4,21 @@ Field names are the design keys themselves (``title``, ``tuning.a4``, ``set[1].n
 ``set[1].section.wall``, ``stock.kerf``), so an error on a key lands beside the field of that
 name. This module only reshapes text (splits note lists and stock lines, reads whole numbers);
 every value is validated afterwards by :func:`cutplan.design_from_mapping`. Keys the form does
-not show (an undercut, a temperature range, an inline material...) ride along in a hidden
+not show (an inline material, a stock table with other shapes...) ride along in a hidden
 ``more`` field as JSON, so a design opened into the form saves back unchanged.
+
+The set keys beyond name, kind, material, section and pitches are listed once, in
+:data:`SET_EXTRAS`: each :class:`SetField` says where its value goes in the design, which kinds
+of set it applies to, how its text reads and shows, and its label. The page draws its fields
+from that list, so a new design key (a beam model, a grain choice) is one line there.
 """
 
 from __future__ import annotations
 
 import json
 import re
+from collections.abc import Callable
+from dataclasses import dataclass
 
 from cutplan.web.service import WebErrors, error
 
@@ -22,12 +29,8 @@ TUNING_FIELDS = ("a4", "temperament")
 STOCK_FIELDS = ("lengths", "kerf", "end_trim", "allowance")
 SECTION_FIELDS = ("stock", "shape", "outer", "wall", "diameter", "width", "thickness")
 PITCH_FIELDS = ("notes", "scale", "root", "count", "range")
-SET_FIELDS = ("name", "kind", "material", *PITCH_FIELDS, "model", "target", "ends", "temperature", "serves")
-FOR_KINDS = {
-    "model": ("chime", "bar"), "target": ("chime", "bar"), "ends": ("air-column",),
-    "temperature": ("air-column", "resonator"), "serves": ("resonator",),
-    **{k: ("chime", "bar", "air-column") for k in PITCH_FIELDS},
-}
+SET_FIELDS = ("name", "kind", "material", *PITCH_FIELDS)
+FOR_KINDS = {k: ("chime", "bar", "air-column") for k in PITCH_FIELDS}
 """Fields that apply to some kinds of set only; the others are left out of the design."""
 _STOCK_LINE = re.compile(r"\s*(.+?)\s*(?:[x*]\s*(\d+))?\s*(?:@\s*(\d+(?:\.\d+)?))?\s*")
 
@@ -47,6 +50,84 @@ def _number_or_text(text):
     if re.fullmatch(r"[+-]?\d*\.\d+(?:[eE][+-]?\d+)?|[+-]?\d+\.\d*(?:[eE][+-]?\d+)?", text):
         return float(text)
     return text
+
+
+def _numbers(text):
+    """'4, 10' or '4 10' -> [4.0, 10.0]; a part that is not a number stays text (the design says why)."""
+    out = []
+    for part in re.split(r"[\s,;:]+", text.strip()):
+        if part:
+            value = _number_or_text(part)
+            out.append(float(value) if isinstance(value, (int, float)) else value)
+    return out
+
+
+def _numbers_text(value):
+    if not isinstance(value, list) or not value or not all(
+            isinstance(v, (int, float)) and not isinstance(v, bool) for v in value):
+        return None
+    return ", ".join(f"{v:g}" for v in value)
+
+
+def _two_texts(text):
+    """'12 C to 28 C' (or '12 C, 28 C', '12 C .. 28 C') -> ['12 C', '28 C']."""
+    return [t for t in re.split(r"\s*(?:,|;|\.\.|\bto\b)\s*", text.strip()) if t]
+
+
+def _two_texts_text(value):
+    if not isinstance(value, list) or len(value) != 2 or not all(isinstance(v, str) for v in value):
+        return None
+    return f"{value[0]} to {value[1]}"
+
+
+@dataclass(frozen=True)
+class SetField:
+    """One field of a set: its design key (dotted inside the set, e.g. ``undercut.ratios``), label,
+    the kinds of set it applies to, and how field text becomes the design value (``read``) and back
+    (``show``, None when the value cannot be shown and must ride in ``more``). With ``options``
+    ((value, text) pairs) it is a select, with ``blank`` as the text of the empty choice."""
+
+    key: str
+    label: str
+    kinds: tuple
+    group: str = ""
+    hint: str = ""
+    placeholder: str = ""
+    read: Callable = str
+    show: Callable = _text
+    options: tuple = ()
+    blank: str = ""
+
+
+MODEL_OPTIONS = (("timoshenko", "shear-corrected (timoshenko)"), ("slender", "slender"))
+"""The beam models a chime or bar set may name (the design's ``model`` key)."""
+BEAMS, AIR = ("chime", "bar"), ("air-column", "resonator")
+SET_EXTRAS = (
+    SetField("model", "Beam model", BEAMS, options=MODEL_OPTIONS, blank="(default: shear-corrected)"),
+    SetField("target", "Tune", BEAMS, options=(("fundamental", "the lowest mode"), ("strike-note", "the strike note")),
+             blank="(default: the lowest mode)"),
+    SetField("ends", "Ends", ("air-column",), options=(("open-open", "open at both ends"),
+                                                      ("closed-open", "closed at one end")),
+             blank="(default: open at both ends)"),
+    SetField("temperature", "Air temperature", AIR, placeholder="20 C"),
+    SetField("serves", "Sits under the set", ("resonator",), hint="the name of a bar or chime set"),
+    SetField("undercut.ratios", "Undercut ratios", ("bar",), "undercut",
+             'mode 2 to mode 1, and mode 3: "4" (marimba), "3" (xylophone), "4, 10"', read=_numbers,
+             show=_numbers_text),
+    SetField("undercut.arch_width", "Arch width", ("bar",), "undercut", "fraction of the length, 0.2 to 0.9",
+             placeholder="0.5", read=_number_or_text),
+    SetField("undercut.min_thickness", "Thinnest at the centre", ("bar",), "undercut", placeholder="4 mm"),
+    SetField("humidity", "Humidity [%]", AIR, "air", placeholder="50", read=_number_or_text),
+    SetField("end_correction", "End correction", AIR, "air", 'per open end: "unflanged", "flanged", "none" '
+             "or a factor of the bore radius", placeholder="unflanged", read=_number_or_text),
+    SetField("max_length", "Longest tube", AIR, "air", "longer ones are folded or flagged", placeholder="1 m"),
+    SetField("temperature_range", "Temperature range", ("resonator",), "air",
+             'for the stopper travel, e.g. "12 C to 28 C"', read=_two_texts, show=_two_texts_text),
+)
+"""The set's fields beyond name, kind, material, section and pitches, in page order."""
+EXTRA_KEYS = {f.key for f in SET_EXTRAS}
+TABLES = {f.key.split(".")[0] for f in SET_EXTRAS if "." in f.key}
+"""Set keys that are tables the page edits key by key (``undercut``)."""
 
 
 def _stock_lines(text):
@@ -134,6 +215,12 @@ def _set_from_form(form, i):
             raw[k] = _number_or_text(value)
         else:
             raw[k] = value
+    for f in SET_EXTRAS:
+        value = _get(form, f"{p}.{f.key}")
+        if not value or (kind and kind not in f.kinds):
+            continue
+        table, _, sub = f.key.rpartition(".")
+        (raw.setdefault(table, {}) if table else raw)[sub] = f.read(value)
     section = {}
     if _get(form, f"{p}.section.stock"):
         section["stock"] = _get(form, f"{p}.section.stock")
@@ -189,6 +276,23 @@ def _stock_to_form(stock, prefix, fields, more):
         more["stock"] = stock
 
 
+def _extras_to_form(k, v, p, fields):
+    """Put set key ``k`` into its :data:`SET_EXTRAS` fields; False when it cannot be shown there."""
+    found = {f.key: f for f in SET_EXTRAS}
+    if k in TABLES:
+        if not isinstance(v, dict) or not v or any(f"{k}.{s}" not in found for s in v):
+            return False
+        texts = {f"{k}.{s}": found[f"{k}.{s}"].show(x) for s, x in v.items()}
+    elif k in found:
+        texts = {k: found[k].show(v)}
+    else:
+        return False
+    if any(t is None for t in texts.values()):
+        return False
+    fields.update({f"{p}.{key}": t for key, t in texts.items()})
+    return True
+
+
 def _set_to_form(raw, i, fields):
     p = f"set[{i}]"
     more = {}
@@ -203,7 +307,7 @@ def _set_to_form(raw, i, fields):
                 fields[f"{p}.section.{s}"] = x
         elif k == "stock" and isinstance(v, dict):
             _stock_to_form(v, f"{p}.stock", fields, more)
-        else:
+        elif not _extras_to_form(k, v, p, fields):
             more[k] = v
     if more:
         fields[f"{p}.more"] = json.dumps(more, ensure_ascii=False)
@@ -230,3 +334,49 @@ def form_from_mapping(data):
         fields["more"] = json.dumps(more, ensure_ascii=False)
     fields.setdefault("sets", "1")
     return fields
+
+
+FIELD_LABELS = {
+    "title": "Title", "units": "Units shown first", "paper": "Paper", "tuning.a4": "A4",
+    "tuning.temperament": "Temperament", "stock": "Stock on hand", "stock.lengths": "Lengths on hand",
+    "stock.kerf": "Saw kerf", "stock.end_trim": "End trim", "stock.allowance": "Trim allowance",
+}
+"""The page's label for each field outside the sets (the page shows these words)."""
+SET_LABELS = {
+    "name": "Name", "kind": "Kind", "material": "Material", "notes": "Notes", "scale": "Scale", "root": "Root",
+    "count": "Count", "range": "Range", "section": "Stock size or shape", "section.stock": "Stock size",
+    "section.shape": "Shape", "section.outer": "Outside diameter", "section.wall": "Wall",
+    "section.diameter": "Diameter", "section.width": "Width", "section.thickness": "Thickness",
+    "stock": "This set's own stock", "stock.lengths": "This set's own stock, lengths on hand",
+    "stock.kerf": "This set's saw kerf", "stock.end_trim": "This set's end trim",
+    "stock.allowance": "This set's trim allowance", "undercut": "Undercut arch",
+    **{f.key: f.label for f in SET_EXTRAS},
+}
+"""The page's label for each field of a set, by its key inside the set."""
+
+
+def field_label(key, beside=False):
+    """The words the page uses for a design key: 'Saw kerf', 'Set 2, Notes'; ``beside`` (the
+    message sits under the field of that set) leaves the set out. None for a key the page does
+    not show (the key itself is then the clearest name)."""
+    m = re.fullmatch(r"set\[(\d+)\](?:\.(.+))?", key)
+    if m is None:
+        return _label_in(FIELD_LABELS, key)
+    if m.group(2) is None:
+        return f"Set {m.group(1)}"
+    label = _label_in(SET_LABELS, m.group(2))
+    if label is None:
+        return None
+    return label if beside else f"Set {m.group(1)}, {label}"
+
+
+def _label_in(labels, key):
+    """The label of ``key``, or of its longest labelled prefix with the rest spelled out."""
+    if key in labels:
+        return labels[key]
+    head = max((k for k in labels if key.startswith((k + ".", k + "["))), key=len, default=None)
+    if head is None:
+        return None
+    rest = key[len(head):].lstrip(".")
+    rest = re.sub(r"\[(\d+)\]", lambda g: f" item {g.group(1)}", rest).replace(".", " ").replace("_", " ").strip()
+    return f"{labels[head]} ({rest})"

@@ -87,8 +87,20 @@ def place_errors(errors, slots, own_stock=()):
         slot = slot_for(e["key"], slots)
         if re.fullmatch(r"set\[\d+\]", e["key"]):
             slot = _set_error_slot(e["key"], e["message"], slots, own_stock) or slot
-        out.setdefault(slot, []).append(e["message"])
+        out.setdefault(slot, []).append(_spoken(e["key"], e["message"], slot))
     return out
+
+
+def _spoken(key, message, slot):
+    """The message with its leading design key replaced by the field's label on the page
+    ("Saw kerf: ..." rather than "stock.kerf: ..."); the set is named unless the message sits
+    in that set's own fields."""
+    from cutplan.web.form import field_label
+
+    if not message.startswith(key + ":"):
+        return message
+    label = field_label(key, beside=slot.startswith(key.split(".")[0] + ".") and slot.startswith("set["))
+    return message if label is None else label + message[len(key):]
 
 
 def _warning_slot(text, index, own_stock):

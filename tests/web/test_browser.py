@@ -18,7 +18,7 @@ from click.testing import CliRunner
 
 from cutplan.cli import cli
 from tests.web.browser import HEADLESS_FLAGS, find_browser, skip_or_fail
-from tests.web.conftest import PORCH
+from tests.web.conftest import PORCH, ROOT
 
 WAIT = 120
 """Longest wait for the page [s]: planning takes about a second, more on a busy machine."""
@@ -155,7 +155,7 @@ def test_an_error_appears_beside_its_field(browser, server):
     box = '.msgs[data-slot="stock.kerf"] .msg.error'
     _wait(d, lambda drv: drv.find_elements(By.CSS_SELECTOR, box))
     text = d.find_element(By.CSS_SELECTOR, box).text
-    assert text.startswith('stock.kerf: "1/16"')
+    assert text.startswith('Saw kerf: "1/16"')  # the field's label, not its key
     assert d.find_element(By.ID, "stock.kerf").get_attribute("aria-invalid") == "true"
     # the message sits right under the field, not in a list at the top
     field_box = d.find_element(By.ID, "stock.kerf").find_element(By.XPATH, "..")
@@ -286,4 +286,37 @@ def test_the_form_works_without_javascript(browser_without_javascript, server):
     d.find_element(By.CSS_SELECTOR, 'button.primary[value="preview"]').click()
     box = '.msgs[data-slot="stock.kerf"] .msg.error'
     _wait(d, lambda drv: drv.find_elements(By.CSS_SELECTOR, box))
-    assert d.find_element(By.CSS_SELECTOR, box).text.startswith('stock.kerf: "3"')
+    assert d.find_element(By.CSS_SELECTOR, box).text.startswith('Saw kerf: "3"')  # the field's label
+
+
+def test_add_an_undercut_on_the_page_and_get_the_files_plan(browser, server, tmp_path):
+    """Uniform maple bars (workshop-marimba) get an arch typed into the page; the preview's cut
+    lengths must equal `cutplan plan --format json` of the same file with the undercut line added."""
+    from selenium.webdriver.common.by import By
+
+    d = browser
+    d.get(server + "/?example=workshop-marimba")
+    uniform = _rows(d)
+    assert d.find_element(By.ID, "set[1].undercut.ratios").is_displayed()
+    assert not d.find_element(By.ID, "set[2].undercut.ratios").is_displayed()  # resonators have no arch
+    _set(d, "set[1].undercut.ratios", "4")
+    _set(d, "set[1].undercut.arch_width", "0.5")
+    _set(d, "set[1].undercut.min_thickness", "6 mm")
+    text = (ROOT / "examples" / "workshop-marimba.toml").read_text(encoding="utf-8").replace(
+        'section = { shape = "bar", width = "50 mm", thickness = "22 mm" }\n',
+        'section = { shape = "bar", width = "50 mm", thickness = "22 mm" }\n'
+        'undercut = { ratios = [4.0], arch_width = 0.5, min_thickness = "6 mm" }\n', 1)
+    assert "undercut = " in text
+    path = tmp_path / "arched.toml"
+    path.write_text(text, encoding="utf-8")
+    cli_json = json.loads(CliRunner().invoke(cli, ["plan", str(path), "--format", "json"]).stdout)
+    expected = {p["label"]: p["cut_length_mm"] for p in cli_json["pieces"]}
+    assert any("undercut" in p for p in cli_json["pieces"])
+
+    def same(drv):
+        rows = {label: float(re.match(r"([\d.]+) mm", cut).group(1)) for label, _, cut in _rows(drv)}
+        # the JSON carries 0.01 mm and the page shows 0.1 mm, so they agree to half the page's step
+        return rows.keys() == expected.keys() and all(abs(rows[k] - expected[k]) <= 0.05 + 1e-9 for k in rows)
+
+    _wait(d, lambda drv: _settled(drv) and _rows(drv) != uniform and same(drv))
+    assert same(d)

@@ -50,7 +50,7 @@ def test_plain_post_puts_the_error_beside_its_field(client):
     fields["stock.kerf"] = "1/16"
     fields["set[1].notes"] = "D5 H5"
     html = client.post("/", data=fields).get_data(as_text=True)
-    assert 'stock.kerf: "1/16"' in _slot(html, "stock.kerf")
+    assert 'Saw kerf: "1/16"' in _slot(html, "stock.kerf")  # the label the page shows, not the key
     assert '"H5"' in _slot(html, "set[1].notes")
     assert _slot(html, "title") == ""
     assert 'id="stock.kerf" name="stock.kerf" value="1/16"' in html  # what was typed stays in the field
