@@ -358,7 +358,7 @@ def _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, 
     scales = tuple(dict.fromkeys(scales or ("major-pentatonic",)))
     for s in scales:
         if s not in pitch.SCALES:
-            raise FitError("scale", s, f"is not {pitch.SCALE_FORMS}")
+            raise FitError("scale", s, f"is not {pitch.scale_forms(s)}")
     kind = base_set.get("kind")
     if kind not in SET_NAMES:
         raise FitError("kind", kind, f"must be one of: {', '.join(SET_NAMES)}")

@@ -79,6 +79,15 @@ NOTE_FORMS = 'a note such as "C4", "F#5", "Bb3", "E♭4" (letter, optional #/b, 
 SCALE_FORMS = "one of: " + ", ".join(SCALES)
 
 
+def scale_forms(text):
+    """What an unknown scale name could have been, then every scale:
+    'a scale name; did you mean major-pentatonic or minor-pentatonic? (one of: major, ...)'."""
+    from cutplan.spelling import did_you_mean, scale_names
+
+    hint = did_you_mean(scale_names(text, SCALES))
+    return f"a scale name{hint} ({SCALE_FORMS})" if hint else SCALE_FORMS
+
+
 @dataclass(frozen=True)
 class Target:
     """One wanted pitch: a display name (note name or a label) and its frequency [Hz]."""
@@ -209,7 +218,7 @@ def degree_frequency(root_midi, semitones, temperament="equal", a4=A4_FREQUENCY)
 def scale_offsets(scale, count):
     """First ``count`` semitone offsets of a named scale, climbing through octaves."""
     if scale not in SCALES:
-        raise PitchError(scale, SCALE_FORMS)
+        raise PitchError(scale, scale_forms(scale))
     steps = SCALES[scale]
     return [12 * (i // len(steps)) + steps[i % len(steps)] for i in range(count)]
 
@@ -233,7 +242,7 @@ def range_targets(low, high, scale="chromatic", temperament="equal", a4=A4_FREQU
     if hi < lo:
         raise PitchError(f"{low}..{high}", "a range from low to high, such as C4..C6")
     if scale not in SCALES:
-        raise PitchError(scale, SCALE_FORMS)
+        raise PitchError(scale, scale_forms(scale))
     steps = set(SCALES[scale])
     return [
         Target(note_name(m), degree_frequency(lo, m - lo, temperament, a4))
@@ -279,7 +288,7 @@ def parse_scale_spec(spec):
         raise PitchError(spec, forms)
     root, scale = parts[0], parts[1]
     if scale not in SCALES:
-        raise PitchError(scale, SCALE_FORMS)
+        raise PitchError(scale, scale_forms(scale))
     if len(parts) == 3:
         if not parts[2].isdigit() or not 1 <= int(parts[2]) <= 200:
             raise PitchError(parts[2], "a count of notes from 1 to 200")

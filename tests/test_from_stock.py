@@ -243,3 +243,46 @@ def test_extra_material_folder_travels_with_the_written_design(tmp_path):
 def test_help_has_examples():
     result = run("from-stock", "--help")
     assert result.exit_code == 0 and "Example" in result.output and "--have" in result.output
+
+
+def test_strike_note_target_names_the_root_by_the_note_heard(tmp_path):
+    # 10 ft of 3/4 in EMT (ANSI C80.3 trade size 3/4). With --target strike-note the chosen root is
+    # the strike note of its piece: the written design, planned, gives a first piece whose strike
+    # note is the root's equal-tempered frequency, f = 440 * 2**((m - 69) / 12) (ISO 16:1975 for
+    # A4 = 440 Hz; MIDI numbering with A4 = 69, MIDI 1.0 specification).
+    out = tmp_path / "heard.toml"
+    result = run("from-stock", "--have", "10 ft x 1", "--stock-size", "emt-3/4", "--count", 5,
+                 "--target", "strike-note", "-o", out)
+    assert result.exit_code == 0, result.output
+    assert "strike note" in result.output
+    written = tomllib.loads(out.read_text())
+    assert written["set"][0]["target"] == "strike-note"
+    planned, data = plan_json(out)
+    assert planned.exit_code == 0, planned.output
+    first = data["pieces"][0]
+    root_hz = 440.0 * 2 ** ((pitch.parse_note(written["set"][0]["root"]) - 69) / 12)
+    assert first["strike_note_hz"] == pytest.approx(root_hz, rel=1e-3)
+    assert first["note"] == written["set"][0]["root"]
+    # by the lowest mode the same stick is named about three octaves lower (mode 4 of a free-free
+    # tube is near 8.9 times mode 1; its half is 4.5 times, a little over two octaves)
+    low = run("from-stock", "--have", "10 ft x 1", "--stock-size", "emt-3/4", "--count", 5)
+    low_root = re.search(r"chosen: 5 notes of (\S+)", low.output).group(1)
+    assert pitch.parse_note(written["set"][0]["root"]) - pitch.parse_note(low_root) >= 24
+
+
+@pytest.mark.parametrize("typed", ["3/4 EMT", "3/4 in EMT", "emt 3/4", "emt-0.75", '3/4" emt'])
+def test_how_a_builder_writes_conduit_is_answered_with_the_size_meant(typed):
+    # trade size 3/4 electrical metallic tubing is listed as emt-3/4 (ANSI C80.3 trade sizes)
+    result = run("from-stock", "--have", "10 ft x 1", "--stock-size", typed, "--count", 5)
+    assert result.exit_code == 2
+    lines = [line for line in result.output.splitlines() if line.strip()]
+    assert len(lines) == 1, lines  # one mistake, one line: no second "--material: is missing"
+    assert lines[0].startswith(f"error: --stock-size: {typed!r} is not a stock size; did you mean emt-3/4?")
+
+
+def test_pentatonic_is_answered_with_the_pentatonic_scales():
+    # the major and minor pentatonic are the two five-note scales usually meant (common practice)
+    result = run("from-stock", "--have", "8 ft", *TUBE, "--count", 5, "--scale", "pentatonic")
+    assert result.exit_code == 2
+    assert "did you mean major-pentatonic or minor-pentatonic?" in result.output
+    assert len([line for line in result.output.splitlines() if line.strip()]) == 1

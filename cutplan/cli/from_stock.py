@@ -85,7 +85,7 @@ def _design_stock(path, materials_dirs):
             scale)
 
 
-_OPTION_OF_KEY = (("set[1].section", "--stock-size/--tube/--rod/--bar"), ("set[1].material", "--material"),
+_OPTION_OF_KEY = (("set[1].section.stock", "--stock-size"), ("set[1].section", "--stock-size/--tube/--rod/--bar"), ("set[1].material", "--material"),
                   ("set[1].ends", "--ends"), ("set[1]", "--kind"), ("stock.lengths", "--have"),
                   ("stock.kerf", "--kerf"), ("stock.end_trim", "--end-trim"), ("stock.allowance", "--allowance"),
                   ("tuning.a4", "--a4"), ("tuning.temperament", "--temperament"))
@@ -100,7 +100,7 @@ def _option_error(error):
     return f"{option}: {shown}{error.allowed}"
 
 
-def _render(result):
+def _render(result, heard=False):
     from cutplan.units import format_length
 
     units = result.units
@@ -128,6 +128,8 @@ def _render(result):
             out.append(f"    {label:10} {length(piece)} from {length(start)}")
         out.append(f"    {'offcut':10} {length(offcut)}")
     out += [f"note: {n}" for n in result.notes]
+    if heard:
+        out.append("note: roots and notes are strike notes (the pitch heard, about half the mode-4 frequency)")
     out += ["", CAUTION]
     return "\n".join(out) + "\n"
 
@@ -150,6 +152,9 @@ def _render(result):
 @click.option("--rod", help='Rod diameter, e.g. "12 mm".')
 @click.option("--bar", "bar_size", help='Bar "WIDTH x THICKNESS", e.g. "38 mm x 19 mm".')
 @click.option("--ends", type=click.Choice(["open-open", "closed-open"]), help="Air column ends.")
+@click.option("--target", type=click.Choice(["fundamental", "strike-note"]),
+              help="Chimes and bars: name each piece by its lowest mode (default) or by the strike note you "
+                   "hear (chimes ring at about half their mode-4 frequency), so the root is the note heard.")
 @click.option("--scale", "scales", multiple=True,
               help="Scale to try (repeatable to compare; default major-pentatonic, or the --design file's scale).")
 @click.option("--count", type=int, help="Notes in the set: find the lowest root that fits.")
@@ -168,7 +173,7 @@ def _render(result):
 @click.option("--force", is_flag=True, help="Overwrite the --output file if it exists.")
 @MATERIALS_OPTION
 def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, material, stock_size, tube, rod, bar_size,
-                       ends, scales, count, most, least_waste, lowest, highest, a4, temperament, units, top, fmt,
+                       ends, target, scales, count, most, least_waste, lowest, highest, a4, temperament, units, top, fmt,
                        output, force, materials_dirs):
     """Find the set of a scale that fits the stock on hand, and write it as a design.
 
@@ -178,6 +183,7 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
       cutplan from-stock --have "10 ft x 2" --have "600 mm x 3" --tube "1 in x 0.065 in" \\
           --material aluminum-6063-t5 --most --scale major --scale major-pentatonic
       cutplan from-stock --design porch.toml --count 5 -o porch-5.toml
+      cutplan from-stock --have "10 ft x 1" --stock-size emt-3/4 --count 5 --target strike-note
     """
     from pathlib import Path
 
@@ -213,6 +219,8 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
             base_set["material"] = material
     if ends:
         base_set["ends"] = ends
+    if target:
+        base_set["target"] = target
     objective = "most" if most else ("waste" if least_waste else "lowest")
     try:
         result = fit_stock.search(
@@ -229,7 +237,7 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
 
         click.echo(json.dumps(fit_output.result_dict(result), indent=1))
     else:
-        click.echo(_render(result), nl=False)
+        click.echo(_render(result, heard=target == "strike-note"), nl=False)
     if output:
         c = result.chosen
         text = fit_output.design_toml(result.design, header=(

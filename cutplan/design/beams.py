@@ -15,7 +15,8 @@ def material(raw, key, default_name, library, col):
     """The set's Material (named, from its stock size, or inline), or None after noting why."""
     value = raw.get("material", default_name or None)
     if value is None:
-        col.add(key, None, "is missing; name one from `cutplan materials` or give { modulus, density }")
+        if default_name is not None:  # None: the stock size that names the material was already refused
+            col.add(key, None, "is missing; name one from `cutplan materials` or give { modulus, density }")
         return None
     if isinstance(value, dict):
         try:

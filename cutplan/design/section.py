@@ -38,7 +38,9 @@ def _from_stock(raw, key, library, col):
     if library is None:
         return None, ""
     if not isinstance(name, str) or name not in library.stock:
-        examples = ", ".join(closest_names(name, library.stock))
+        from cutplan.spelling import stock_size_names
+
+        examples = ", ".join(stock_size_names(name, library.stock) or closest_names(name, library.stock))
         col.add(f"{key}.stock", name, f"is not a stock size; did you mean {examples}? (`cutplan materials` lists them)")
         return None, ""
     item = library.stock[name]

@@ -74,6 +74,8 @@ def one_set(raw, index, a4, temperament, library, col):
         section, stock_material = None, ""
     else:
         section, stock_material = read_section(raw["section"], f"{key}.section", kind, library, col)
+        if section is None and isinstance(raw["section"], dict) and "stock" in raw["section"]:
+            stock_material = None  # the stock size was wrong: its material is unknown, not missing
     tolerances = {}
     if isinstance(stock_material, tuple):
         stock_material, tolerances["outer_tolerance"], tolerances["wall_tolerance"] = stock_material
