@@ -127,6 +127,75 @@ def note_name(midi):
     return f"{_SHARP_NAMES[midi % 12]}{midi // 12 - 1}"
 
 
+_FLAT_NAMES = ["C", "Db", "D", "Eb", "E", "F", "Gb", "G", "Ab", "A", "Bb", "B"]
+_LETTER_ORDER = "CDEFGAB"
+SPELLINGS = ("auto", "sharps", "flats")
+"""How scale notes are spelled: from the key (flats in flat keys), or always sharps or flats."""
+_MODE_OF_MAJOR = {"major": 0, "ionian": 0, "major-pentatonic": 0, "dorian": 2, "phrygian": 4, "lydian": 5,
+                  "mixolydian": 7, "natural-minor": 9, "aeolian": 9, "harmonic-minor": 9, "minor-pentatonic": 9,
+                  "blues": 9, "locrian": 11}
+"""Semitones from the major key whose signature a scale uses up to its root: a mode of C major
+is written with no sharps or flats; the minor scales use the relative major's signature
+(standard music theory: Kostka, Payne & Almen, Tonal Harmony, ch. 1, key signatures; from memory)."""
+_FLAT_MAJOR_KEYS = {5, 10, 3, 8, 1}
+"""Pitch classes of the major keys written with flats: F, Bb, Eb, Ab, Db (one to five flats).
+F#/Gb (six) is written with sharps unless the root is written with a flat (same source)."""
+
+
+def _prefers_flats(root_midi, scale, root_text, spelling):
+    if spelling in ("sharps", "flats"):
+        return spelling == "flats"
+    text = (root_text or "").strip().replace("♭", "b").replace("♯", "#")
+    if len(text) > 1 and text[1] in "b#":
+        return text[1] == "b"
+    major = (root_midi - _MODE_OF_MAJOR.get(scale, 0)) % 12
+    return major in _FLAT_MAJOR_KEYS
+
+
+def _letter_name(midi, letter):
+    """``midi`` written on the note letter ``letter`` ('Bb3', 'Cb5', 'E#4'), or None past a double accidental."""
+    natural = _LETTERS[letter]
+    shift = (midi - natural + 6) % 12 - 6
+    if abs(shift) > 1:
+        return None
+    octave = (midi - shift - natural) // 12 - 1
+    return f"{letter}{'#' if shift > 0 else 'b' * -shift}{octave}"
+
+
+def spelled_names(root_midi, offsets, scale, root_text=None, spelling="auto"):
+    """Names of the notes ``root_midi + offset``, spelled from the key: every letter once in a
+    seven-note scale; other scales take the letters of the major key whose signature they use.
+
+    >>> spelled_names(53, [0, 2, 4, 5, 7, 9, 11, 12], "major")  # F major: one flat
+    ['F3', 'G3', 'A3', 'Bb3', 'C4', 'D4', 'E4', 'F4']
+    >>> spelled_names(62, [0, 2, 3, 5, 7, 8, 11], "harmonic-minor")  # the raised seventh stays sharp
+    ['D4', 'E4', 'F4', 'G4', 'A4', 'Bb4', 'C#5']
+    """
+    flats = _prefers_flats(root_midi, scale, root_text, spelling)
+    plain = _FLAT_NAMES if flats else _SHARP_NAMES
+    if spelling == "auto" and scale in _MODE_OF_MAJOR:
+        tonic = (root_midi - _MODE_OF_MAJOR[scale]) % 12
+        text = (root_text or "").strip()
+        letter0 = plain[tonic][0]
+        if text and text[0].upper() in _LETTERS:  # the root's own letter decides the key's letters
+            letter0 = _LETTER_ORDER[(_LETTER_ORDER.index(text[0].upper()) - _DEGREE[_MODE_OF_MAJOR[scale]]) % 7]
+        key_letters = {(tonic + step) % 12: _LETTER_ORDER[(_LETTER_ORDER.index(letter0) + i) % 7]
+                       for i, step in enumerate(SCALES["major"])}
+        if scale == "harmonic-minor":  # the raised seventh sits on the letter of the natural seventh
+            key_letters[(root_midi + 11) % 12] = key_letters.pop((root_midi + 10) % 12)
+    else:
+        key_letters = {}
+    named = [(root_midi + off, key_letters.get((root_midi + off) % 12)) for off in offsets]
+    out = [_letter_name(m, letter) if letter else f"{plain[m % 12]}{m // 12 - 1}" for m, letter in named]
+    if None in out:  # a key past seven sharps or flats (A# major): plain names read better
+        out = [f"{plain[m % 12]}{m // 12 - 1}" for m, _ in named]
+    return out
+
+
+_DEGREE = {0: 0, 2: 1, 4: 2, 5: 3, 7: 4, 9: 5, 11: 6}
+"""Scale degree (0-6) of each step of the major scale, for the modes' letters."""
+
+
 def midi_frequency(midi, a4=A4_FREQUENCY):
     """Equal-tempered frequency [Hz] of a (possibly fractional) MIDI number: 440 * 2^((m-69)/12)."""
     return a4 * 2.0 ** ((midi - A4_MIDI) / 12.0)
@@ -223,16 +292,15 @@ def scale_offsets(scale, count):
     return [12 * (i // len(steps)) + steps[i % len(steps)] for i in range(count)]
 
 
-def scale_targets(root, scale, count, temperament="equal", a4=A4_FREQUENCY):
-    """``count`` notes of a named scale from ``root`` upwards."""
+def scale_targets(root, scale, count, temperament="equal", a4=A4_FREQUENCY, spelling="auto"):
+    """``count`` notes of a named scale from ``root`` upwards, spelled from the key (see :func:`spelled_names`)."""
     root_midi = parse_note(root) if isinstance(root, str) else int(root)
-    return [
-        Target(note_name(root_midi + off), degree_frequency(root_midi, off, temperament, a4))
-        for off in scale_offsets(scale, count)
-    ]
+    offsets = scale_offsets(scale, count)
+    names = spelled_names(root_midi, offsets, scale, root if isinstance(root, str) else None, spelling)
+    return [Target(name, degree_frequency(root_midi, off, temperament, a4)) for name, off in zip(names, offsets)]
 
 
-def range_targets(low, high, scale="chromatic", temperament="equal", a4=A4_FREQUENCY):
+def range_targets(low, high, scale="chromatic", temperament="equal", a4=A4_FREQUENCY, spelling="auto"):
     """Notes from ``low`` to ``high`` inclusive that belong to ``scale`` built on ``low``.
 
     >>> [t.name for t in range_targets("C4", "C5", "major")][-3:]
@@ -244,11 +312,9 @@ def range_targets(low, high, scale="chromatic", temperament="equal", a4=A4_FREQU
     if scale not in SCALES:
         raise PitchError(scale, scale_forms(scale))
     steps = set(SCALES[scale])
-    return [
-        Target(note_name(m), degree_frequency(lo, m - lo, temperament, a4))
-        for m in range(lo, hi + 1)
-        if (m - lo) % 12 in steps
-    ]
+    offsets = [m - lo for m in range(lo, hi + 1) if (m - lo) % 12 in steps]
+    names = spelled_names(lo, offsets, scale, low, spelling)
+    return [Target(name, degree_frequency(lo, off, temperament, a4)) for name, off in zip(names, offsets)]
 
 
 def note_targets(notes, root=None, temperament="equal", a4=A4_FREQUENCY):
@@ -258,15 +324,21 @@ def note_targets(notes, root=None, temperament="equal", a4=A4_FREQUENCY):
     base = parse_note(root) if root else (min(midis) if midis else 60)
     kind, _ = parse_temperament(temperament)
     out = []
-    for m in midis:
+    for n, m in zip(notes, midis, strict=True):
         offset = m - base
         if kind in ("just", "pythagorean") and offset < 0:
             octaves = (-offset + 11) // 12
             freq = degree_frequency(base - 12 * octaves, offset + 12 * octaves, temperament, a4)
         else:
             freq = degree_frequency(base, offset, temperament, a4)
-        out.append(Target(note_name(m), freq))
+        out.append(Target(_written(n, m), freq))
     return out
+
+
+def _written(text, midi):
+    """A note as the builder wrote it, tidied ('bb3' -> 'Bb3', 'E♭4' -> 'Eb4'); sharps for odd forms."""
+    clean = text.strip().replace("♯", "#").replace("♭", "b")
+    return clean[0].upper() + clean[1:] if re.fullmatch(r"[A-Ga-g](#|b)?-?\d{1,2}", clean) else note_name(midi)
 
 
 def parse_scale_spec(spec):

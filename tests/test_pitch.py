@@ -59,7 +59,8 @@ def test_equal_19_maps_degrees_to_nearest_step():
     [
         ("major-pentatonic", ["D5", "E5", "F#5", "A5", "B5"]),
         ("minor-pentatonic", ["D5", "F5", "G5", "A5", "C6"]),
-        ("blues", ["D5", "F5", "G5", "G#5", "A5", "C6"]),
+        # the blues scale is 1 b3 4 b5 5 b7 (common practice): its fifth note is a flattened fifth, Ab
+        ("blues", ["D5", "F5", "G5", "Ab5", "A5", "C6"]),
         ("dorian", ["D5", "E5", "F5", "G5", "A5", "B5", "C6"]),
         ("whole-tone", ["D5", "E5", "F#5", "G#5", "A#5", "C6"]),
     ],
@@ -89,3 +90,43 @@ def test_scale_spec():
     assert [t.name for t in pitch.spec_targets("D5 major-pentatonic 5")] == ["D5", "E5", "F#5", "A5", "B5"]
     with pytest.raises(pitch.PitchError):
         pitch.spec_targets("D5 lydianish 5")
+
+
+@pytest.mark.parametrize(
+    ("root", "scale", "names"),
+    [
+        # key signatures (Kostka, Payne & Almen, Tonal Harmony, ch. 1; from memory): F major has one
+        # flat, Bb; Bb major two, Bb and Eb; D minor is the relative minor of F major (one flat)
+        ("F3", "major", ["F3", "G3", "A3", "Bb3", "C4", "D4", "E4", "F4"]),
+        ("Bb3", "major", ["Bb3", "C4", "D4", "Eb4", "F4", "G4", "A4", "Bb4"]),
+        ("D4", "natural-minor", ["D4", "E4", "F4", "G4", "A4", "Bb4", "C5", "D5"]),
+        # harmonic minor raises the seventh of the natural minor (same text): C#, not Db, in D minor
+        ("D4", "harmonic-minor", ["D4", "E4", "F4", "G4", "A4", "Bb4", "C#5", "D5"]),
+        # Gb major has six flats, Cb among them (same text); sharp keys stay sharp
+        ("Gb4", "major", ["Gb4", "Ab4", "Bb4", "Cb5", "Db5", "Eb5", "F5", "Gb5"]),
+        ("E4", "major", ["E4", "F#4", "G#4", "A4", "B4", "C#5", "D#5", "E5"]),
+        # a mode uses its parent major's signature: G dorian is a mode of F major (same text)
+        ("G4", "dorian", ["G4", "A4", "Bb4", "C5", "D5", "E5", "F5", "G5"]),
+        ("C4", "minor-pentatonic", ["C4", "Eb4", "F4", "G4", "Bb4", "C5"]),
+    ],
+)
+def test_notes_are_spelled_from_the_key(root, scale, names):
+    assert [t.name for t in pitch.scale_targets(root, scale, len(names))] == names
+
+
+def test_spelling_setting_and_written_notes():
+    assert [t.name for t in pitch.scale_targets("F3", "major", 4, spelling="sharps")][-1] == "A#3"
+    assert [t.name for t in pitch.scale_targets("E4", "major", 2, spelling="flats")][-1] == "Gb4"
+    assert [t.name for t in pitch.note_targets(["bb3", "E♭4", "F#4"])] == ["Bb3", "Eb4", "F#4"]  # as written
+
+
+def test_an_f_major_design_shows_b_flat(tmp_path):
+    import cutplan
+
+    design = {"set": [{"kind": "chime", "scale": "major", "root": "F4", "count": 4,
+                       "material": "aluminum-6063-t5", "section": {"stock": "al-1.000x0.065"}}]}
+    assert [p.note for p in cutplan.plan(cutplan.design_from_mapping(design)).pieces][-1] == "Bb4"
+    sharp = {**design, "tuning": {"spelling": "sharps"}}
+    assert [p.note for p in cutplan.plan(cutplan.design_from_mapping(sharp)).pieces][-1] == "A#4"
+    with pytest.raises(cutplan.design.DesignErrors, match='tuning.spelling: "flat" must be "auto"'):
+        cutplan.design_from_mapping({**design, "tuning": {"spelling": "flat"}})

@@ -50,7 +50,7 @@ __all__ = [
 ]
 
 TOP_KEYS = {"title", "units", "paper", "tuning", "set", "stock", "material_dirs"}
-TUNING_KEYS = {"a4", "temperament"}
+TUNING_KEYS = {"a4", "temperament", "spelling"}
 MAX_TITLE = 120
 
 
@@ -102,6 +102,15 @@ def _tuning(tuning, col):
     return a4, temperament
 
 
+def _spelling(tuning, col):
+    """How scale notes are spelled: "auto" (from the key: flats in flat keys), "sharps" or "flats"."""
+    value = tuning.get("spelling", "auto") if isinstance(tuning, dict) else "auto"
+    if value not in pitch.SPELLINGS:
+        col.add("tuning.spelling", value, 'must be "auto" (flats in flat keys, the default), "sharps" or "flats"')
+        return "auto"
+    return value
+
+
 def _material_dirs(value, base, col):
     if isinstance(value, str):
         value = [value]
@@ -117,7 +126,7 @@ def _material_dirs(value, base, col):
     return out
 
 
-def _sets(raw_sets, a4, temperament, library, col):
+def _sets(raw_sets, a4, temperament, library, col, spelling="auto"):
     sets = []
     if raw_sets is None:
         col.add("set", None, "is missing; add at least one [[set]] table")
@@ -128,7 +137,7 @@ def _sets(raw_sets, a4, temperament, library, col):
     else:
         for i, raw in enumerate(raw_sets, start=1):
             try:
-                spec = one_set(raw, i, a4, temperament, library, col)
+                spec = one_set(raw, i, a4, temperament, library, col, spelling)
             except (TypeError, OverflowError, ArithmeticError, RecursionError) as exc:
                 col.add(f"set[{i}]", None, f"could not be read: a value has the wrong type or size ({exc})")
                 spec = None
@@ -166,7 +175,7 @@ def design_from_mapping(data, library_loader, path="(design)", base_dir=None):
         except MaterialError as exc:
             col.add("material_dirs", exc.value, f"could not be read: {exc}")
     stock = stock_table(data.get("stock"), "stock", col) if "stock" in data else None
-    sets = _sets(data.get("set"), a4, temperament, library, col)
+    sets = _sets(data.get("set"), a4, temperament, library, col, _spelling(data.get("tuning", {}), col))
     if col.errors:
         raise DesignErrors(col.errors)
     return Design(

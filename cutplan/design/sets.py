@@ -43,10 +43,10 @@ def _resonator(raw, key, col):
     return serves
 
 
-def _pitches(raw, key, a4, temperament, col):
+def _pitches(raw, key, a4, temperament, col, spelling="auto"):
     if "serves" in raw:
         col.add(f"{key}.serves", None, "applies to resonator sets only")
-    found = target_rules.targets(raw, key, a4, temperament, col)
+    found = target_rules.targets(raw, key, a4, temperament, col, spelling)
     low, high = target_rules.FREQUENCY_RANGE
     bad = [t for t in found if not (math.isfinite(t.frequency) and low <= t.frequency <= high)]
     if bad:
@@ -55,7 +55,7 @@ def _pitches(raw, key, a4, temperament, col):
     return found
 
 
-def one_set(raw, index, a4, temperament, library, col):
+def one_set(raw, index, a4, temperament, library, col, spelling="auto"):
     """SetSpec of the index-th set (from 1), or None after noting every problem."""
     key = f"set[{index}]"
     col.unknown(raw, SET_KEYS, key)
@@ -87,7 +87,7 @@ def one_set(raw, index, a4, temperament, library, col):
         fields["serves"] = _resonator(raw, key, col)
         found = []
     else:
-        found = _pitches(raw, key, a4, temperament, col)
+        found = _pitches(raw, key, a4, temperament, col, spelling)
     if "stock" in raw:
         fields["stock"] = stock_table(raw["stock"], f"{key}.stock", col)
     if section is None:

@@ -73,7 +73,7 @@ def _relative(value, key, how, base, a4, col):
     return out
 
 
-def targets(raw, key, a4, temperament, col):
+def targets(raw, key, a4, temperament, col, spelling="auto"):
     """Targets of one set, or [] after noting why they cannot be read."""
     given = [k for k in TARGET_KEYS if k in raw]
     if "range" in raw and "scale" in raw:
@@ -110,7 +110,7 @@ def targets(raw, key, a4, temperament, col):
             if isinstance(count, bool) or not isinstance(count, int) or not 1 <= count <= MAX_PIECES_PER_SET:
                 col.add(f"{key}.count", count, f"must be a whole number from 1 to {MAX_PIECES_PER_SET}")
                 return []
-            return pitch.scale_targets(root, value, count, temperament, a4)
+            return pitch.scale_targets(root, value, count, temperament, a4, spelling)
         if how == "range":
             scale = raw.get("scale", "chromatic")
             if not isinstance(value, str) or ".." not in value:
@@ -120,7 +120,7 @@ def targets(raw, key, a4, temperament, col):
                 col.add(f"{key}.scale", scale, 'must be a scale name in quotes such as "major"')
                 return []
             low, _, high = value.partition("..")
-            out = pitch.range_targets(low.strip(), high.strip(), scale, temperament, a4)
+            out = pitch.range_targets(low.strip(), high.strip(), scale, temperament, a4, spelling)
             if len(out) > MAX_PIECES_PER_SET:
                 col.add(f"{key}.range", value, f"has {len(out)} notes; at most {MAX_PIECES_PER_SET} per set")
                 return []

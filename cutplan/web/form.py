@@ -25,7 +25,7 @@ from cutplan.web.service import WebErrors, error
 MAX_SETS = 12
 """Sets the form offers [-] (a design with more is planned through the API or a file)."""
 TOP_FIELDS = ("title", "units", "paper")
-TUNING_FIELDS = ("a4", "temperament")
+TUNING_FIELDS = ("a4", "temperament", "spelling")
 STOCK_FIELDS = ("lengths", "kerf", "end_trim", "allowance")
 SECTION_FIELDS = ("stock", "shape", "outer", "wall", "diameter", "width", "thickness")
 PITCH_FIELDS = ("notes", "scale", "root", "count", "range")
@@ -248,8 +248,9 @@ def mapping_from_form(form):
     tuning = {}
     if _get(form, "tuning.a4"):
         tuning["a4"] = _number_or_text(_get(form, "tuning.a4"))
-    if _get(form, "tuning.temperament"):
-        tuning["temperament"] = _get(form, "tuning.temperament")
+    for k in TUNING_FIELDS[1:]:
+        if _get(form, f"tuning.{k}"):
+            tuning[k] = _get(form, f"tuning.{k}")
     if tuning:
         data["tuning"] = tuning
     data["set"] = [_set_from_form(form, i) for i in range(1, set_count(form) + 1)]
@@ -338,7 +339,7 @@ def form_from_mapping(data):
 
 FIELD_LABELS = {
     "title": "Title", "units": "Units shown first", "paper": "Paper", "tuning.a4": "A4",
-    "tuning.temperament": "Temperament", "stock": "Stock on hand", "stock.lengths": "Lengths on hand",
+    "tuning.temperament": "Temperament", "tuning.spelling": "Note names", "stock": "Stock on hand", "stock.lengths": "Lengths on hand",
     "stock.kerf": "Saw kerf", "stock.end_trim": "End trim", "stock.allowance": "Trim allowance",
 }
 """The page's label for each field outside the sets (the page shows these words)."""
