@@ -9,7 +9,7 @@ from cutplan.cli.common import MATERIALS_OPTION, fail
 
 @click.command("serve")
 @click.option("--port", type=click.IntRange(0, 65535), default=8750, show_default=True,
-              help="TCP port (0: any free port).")
+              help="TCP port (0: any free port). When the default is busy, a free port is chosen and shown.")
 @click.option("--host", default="127.0.0.1", show_default=True,
               help="Address to listen on; anything but loopback lets other machines in (a warning is printed).")
 @click.option("--open", "open_browser", is_flag=True, help="Open the page in the default browser.")
@@ -34,7 +34,13 @@ def serve_command(port, host, open_browser, workers, materials_dirs):
     warning = exposure_warning(host)
     if warning:
         click.echo(warning, err=True)
+    import errno
+
+    chosen = click.get_current_context().get_parameter_source("port") != click.core.ParameterSource.DEFAULT
     try:
-        serve(host, port, open_browser, materials_dirs, echo=lambda line: click.echo(line, err=True), workers=workers)
+        serve(host, port, open_browser, materials_dirs, echo=lambda line: click.echo(line, err=True), workers=workers,
+              any_port_if_busy=not chosen)
     except OSError as exc:
-        fail(f"--host/--port: cannot listen on {host}:{port} ({exc.strerror or exc})")
+        hint = ("; another program (perhaps another cutplan serve) has it: choose another with --port N, "
+                "or --port 0 for any free port") if exc.errno == errno.EADDRINUSE else ""
+        fail(f"--host/--port: cannot listen on {host}:{port} ({exc.strerror or exc}){hint}")

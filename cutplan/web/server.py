@@ -68,13 +68,35 @@ def default_workers():
     return max(1, min(THREADS, os.cpu_count() or 1))
 
 
-def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_dirs=(), echo=print, workers=None):
-    """Serve the page until interrupted (blocks)."""
+def listening_socket(host, port, any_port_if_busy=False, echo=print):
+    """A bound socket on ``port``; with ``any_port_if_busy``, a free port (said in one line) when
+    that one is taken, e.g. by a second ``cutplan serve``."""
+    import errno
+
+    try:
+        return _listening_socket(host, port)
+    except OSError as exc:
+        if not any_port_if_busy or port == 0 or exc.errno != errno.EADDRINUSE:
+            raise
+    sock = _listening_socket(host, 0)
+    echo(f"port {port} is busy (another cutplan serve?); using port {sock.getsockname()[1]} instead "
+         "(choose one with --port N)")
+    return sock
+
+
+def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_dirs=(), echo=print, workers=None,
+          any_port_if_busy=False):
+    """Serve the page until interrupted (blocks). With ``any_port_if_busy``, a busy ``port`` gives way
+    to a free one (the default port, when the builder did not name one)."""
     from waitress import create_server
 
     workers = default_workers() if workers is None else workers
-    app = create_app(materials_dirs, loopback_only=is_loopback(host), workers=workers)
-    sock = _listening_socket(host, port)
+    sock = listening_socket(host, port, any_port_if_busy, echo)
+    try:
+        app = create_app(materials_dirs, loopback_only=is_loopback(host), workers=workers)
+    except BaseException:
+        sock.close()
+        raise
     try:
         server = create_server(app, sockets=[sock], threads=THREADS, max_request_body_size=MAX_UPLOAD_BYTES,
                                ident="cutplan", clear_untrusted_proxy_headers=True)

@@ -63,3 +63,38 @@ def test_worker_processes_plan_the_same_as_the_server_process():
         assert [e["key"] for e in caught.value.errors] == ["set[1].notes"]
     finally:
         pool.close()
+
+
+def test_a_busy_port_named_by_the_builder_suggests_another():
+    with socket.socket() as busy:
+        busy.bind(("127.0.0.1", 0))
+        busy.listen()
+        port = busy.getsockname()[1]
+        result = CliRunner().invoke(cli, ["serve", "--port", str(port)])
+    assert result.exit_code == 2
+    assert "--port 0 for any free port" in result.output
+
+
+def test_a_busy_default_port_gives_way_to_a_free_one():
+    # a second `cutplan serve` without --port: the first holds the port, the second takes another
+    lines = []
+    with socket.socket() as busy:
+        busy.bind(("127.0.0.1", 0))
+        busy.listen()
+        port = busy.getsockname()[1]
+        sock = server.listening_socket("127.0.0.1", port, any_port_if_busy=True, echo=lines.append)
+        try:
+            other = sock.getsockname()[1]
+        finally:
+            sock.close()
+    assert other not in (port, 0)
+    assert lines == [f"port {port} is busy (another cutplan serve?); using port {other} instead "
+                     "(choose one with --port N)"]
+
+
+def test_the_default_port_is_the_one_that_may_move(monkeypatch):
+    calls = []
+    monkeypatch.setattr(server, "serve", lambda *args, **kw: calls.append(kw["any_port_if_busy"]))
+    CliRunner().invoke(cli, ["serve"])
+    CliRunner().invoke(cli, ["serve", "--port", "8750"])
+    assert calls == [True, False]
