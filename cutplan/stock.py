@@ -354,6 +354,8 @@ def _shortage(items, types, kerf, end_trim):
     have = sum(t.count or 0 for t in types)
     longest = max(t.length for t in types)
     extra = max(1, len(need) - have) if need else 1
+    from cutplan.units import format_length
+
+    more = "1 more stick of {} is" if extra == 1 else f"{extra} more sticks of {{}} are"
     return (f"the stock on hand ({have} stick{'s' if have != 1 else ''}) cannot hold all {len(items)} "
-            f"pieces; about {extra} more stick{'s' if extra != 1 else ''} of {longest * 1000:.0f} mm "
-            "are needed")
+            f"pieces; about {more.format(format_length(longest))} needed")
