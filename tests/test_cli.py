@@ -141,3 +141,12 @@ def test_usage_errors_are_one_line_with_exit_code_2():
         assert result.exit_code == 2, args
         lines = [line for line in result.output.splitlines() if line.strip()]
         assert len(lines) == 1 and lines[0].startswith("error: "), (args, result.output)
+
+
+def test_materials_listing_fits_100_columns_and_names_each_source_once():
+    # 100 columns: the widest terminal line the project's style allows (common practice for CLI text)
+    listing = run("materials").output
+    assert max(len(line) for line in listing.splitlines()) <= 100
+    entry = run("materials", "aluminum-6063-t5").output
+    assert max(len(line) for line in entry.splitlines()) <= 100
+    assert entry.count("source of") == 1 and "source of modulus, density, poisson" in entry

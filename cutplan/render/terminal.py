@@ -139,12 +139,27 @@ def render_stock(cut_list, units="mm"):
     return out
 
 
+LIST_WIDTH = 100
+"""Widest line of the materials listing [characters]."""
+
+
+def _wrapped(head, text, indent=None):
+    """``head`` + ``text`` in lines of at most :data:`LIST_WIDTH`, continued under the text (or ``indent``)."""
+    import textwrap
+
+    pad = " " * (len(head) if indent is None else indent)
+    if len(pad) > LIST_WIDTH // 2:
+        pad = " " * 6
+    return textwrap.wrap(head + text, LIST_WIDTH, subsequent_indent=pad, break_on_hyphens=False) or [head.rstrip()]
+
+
 def render_library(lib):
     """Every material and stock size, one line each, with the kind of source."""
     out = ["Materials (E, density, source):"]
     for key, m in sorted(lib.materials.items()):
         src = dict(m.provenance).get("modulus")
-        out.append(f"  {key:22} {m.modulus / 1e9:7.2f} GPa {m.density:7.0f} kg/m3  [{src.kind}] {m.description}")
+        head = f"  {key:22} {m.modulus / 1e9:7.2f} GPa {m.density:7.0f} kg/m3  [{src.kind}] "
+        out += _wrapped(head, m.description)
     out.append("")
     out.append("Stock sizes (outside diameter x wall):")
     for key, s in sorted(lib.stock.items()):
@@ -163,9 +178,12 @@ def render_library_entry(lib, name):
                f"  density        {m.density:.0f} kg/m3, spread {m.density_spread * 100:.1f} %",
                f"  Poisson        {m.poisson:.3f}",
                f"  shear modulus  {m.shear_modulus_for('timoshenko') / 1e9:.3f} GPa (as used by the shear-corrected model)"]
+        same = {}  # one line per source: properties from the same sheet share it
         for prop, prov in m.provenance:
-            cite = lib.sources.get(prov.source, {}).get("citation", prov.source)
-            out.append(f"  source of {prop}: [{prov.kind}] {cite}; {prov.where}")
+            same.setdefault((prov.kind, prov.source, prov.where), []).append(prop)
+        for (kind, source, where), props in same.items():
+            cite = lib.sources.get(source, {}).get("citation", source)
+            out += _wrapped(f"  source of {', '.join(props)}: ", f"[{kind}] {cite}; {where}", indent=4)
         return "\n".join(out) + "\n"
     if name in lib.stock:
         s = lib.stock[name]
@@ -176,6 +194,6 @@ def render_library_entry(lib, name):
                f"  wall             {sec.wall / MM:.2f} mm ({sec.wall / INCH:.3f} in) +/- {s.wall_tolerance * 100:.0f} %",
                f"  bore for air     {sec.air_radius * 2 / MM:.2f} mm ({sec.air_radius * 2 / INCH:.3f} in)",
                f"  default material {s.material}",
-               f"  source: [{s.provenance.kind}] {cite}"]
+               *_wrapped("  source: ", f"[{s.provenance.kind}] {cite}", indent=4)]
         return "\n".join(out) + "\n"
     return None
