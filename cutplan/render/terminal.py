@@ -143,7 +143,7 @@ LIST_WIDTH = 100
 """Widest line of the materials listing [characters]."""
 
 
-def _wrapped(head, text, indent=None):
+def _listed(head, text, indent=None):
     """``head`` + ``text`` in lines of at most :data:`LIST_WIDTH`, continued under the text (or ``indent``)."""
     import textwrap
 
@@ -159,7 +159,7 @@ def render_library(lib):
     for key, m in sorted(lib.materials.items()):
         src = dict(m.provenance).get("modulus")
         head = f"  {key:22} {m.modulus / 1e9:7.2f} GPa {m.density:7.0f} kg/m3  [{src.kind}] "
-        out += _wrapped(head, m.description)
+        out += _listed(head, m.description)
     out.append("")
     out.append("Stock sizes (outside diameter x wall):")
     for key, s in sorted(lib.stock.items()):
@@ -183,7 +183,7 @@ def render_library_entry(lib, name):
             same.setdefault((prov.kind, prov.source, prov.where), []).append(prop)
         for (kind, source, where), props in same.items():
             cite = lib.sources.get(source, {}).get("citation", source)
-            out += _wrapped(f"  source of {', '.join(props)}: ", f"[{kind}] {cite}; {where}", indent=4)
+            out += _listed(f"  source of {', '.join(props)}: ", f"[{kind}] {cite}; {where}", indent=4)
         return "\n".join(out) + "\n"
     if name in lib.stock:
         s = lib.stock[name]
@@ -194,6 +194,6 @@ def render_library_entry(lib, name):
                f"  wall             {sec.wall / MM:.2f} mm ({sec.wall / INCH:.3f} in) +/- {s.wall_tolerance * 100:.0f} %",
                f"  bore for air     {sec.air_radius * 2 / MM:.2f} mm ({sec.air_radius * 2 / INCH:.3f} in)",
                f"  default material {s.material}",
-               *_wrapped("  source: ", f"[{s.provenance.kind}] {cite}", indent=4)]
+               *_listed("  source: ", f"[{s.provenance.kind}] {cite}", indent=4)]
         return "\n".join(out) + "\n"
     return None
