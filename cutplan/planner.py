@@ -202,6 +202,8 @@ def _set_summary(spec: SetSpec, units="mm"):
                            if model == "timoshenko" else "slender (Euler-Bernoulli) free-free beam")
         if spec.target_mode == "strike-note":
             assumptions.append("tuned to the strike note: half the mode-4 frequency")
+        if spec.kind == "chime" and mat.material_class == "plastic":
+            assumptions.append(PLASTIC_SUSTAIN)
         if spec.undercut is not None:
             u = spec.undercut
             ratio_text = ":".join(f"{r:g}" for r in (1,) + u.ratios)
@@ -215,6 +217,13 @@ def _set_summary(spec: SetSpec, units="mm"):
     sec = spec.section
     return SetPlan(name=spec.name, kind=spec.kind, material=material, section=sec, model=model, pieces=(),
                    assumptions=tuple(assumptions))
+
+
+PLASTIC_SUSTAIN = ("plastic tubes ring briefly: a struck PVC or acrylic chime dies away in about a second, "
+                   "metal rings on for many; tune it by ear or tuner right after the strike")
+"""Why a plastic chime sounds short: the loss factor of rigid plastics (about 0.01 to 0.05) is
+some hundred times that of aluminium or brass (about 1e-4) (Cremer, Heckl and Petersson,
+Structure-Borne Sound, 3rd ed., 2005, table of loss factors; from memory)."""
 
 
 def bars_to_solve(design: Design):

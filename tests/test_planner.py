@@ -172,3 +172,17 @@ def test_mass_of_a_tube(tmp_path):
     piece = p.pieces[0]
     area = math.pi * (0.025**2 - 0.022**2) / 4
     assert piece.mass == pytest.approx(2700 * area * piece.length)
+
+
+def test_a_plastic_chime_set_says_it_rings_briefly():
+    # rigid PVC damps some hundred times more than aluminium (loss factor about 0.01-0.05 against
+    # about 1e-4: Cremer, Heckl & Petersson, Structure-Borne Sound, 3rd ed., 2005; from memory)
+    import cutplan
+    from cutplan.planner import PLASTIC_SUSTAIN
+
+    def assumptions(stock):
+        design = {"set": [{"kind": "chime", "notes": ["C5"], "section": {"stock": stock}}]}
+        return cutplan.plan(cutplan.design_from_mapping(design)).sets[0].assumptions
+
+    assert PLASTIC_SUSTAIN in assumptions("pvc-sch40-1")
+    assert PLASTIC_SUSTAIN not in assumptions("al-1.000x0.065")
