@@ -31,6 +31,23 @@ PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
 in inch sizes (common practice)."""
 
 
+def round_in_unit(metres, shown="mm"):
+    """A suggested size as a round number in the plan's units [m]: to 1/4 in (1 in past a foot), or
+    to 5 mm (10 mm past 300 mm). Suggestions are starting points, so a metric choice such as a
+    120 mm plate reads 4-3/4 in in an inch plan, not 4-23/32 in.
+
+    >>> round(round_in_unit(0.120, "in") / 0.0254, 3), round(round_in_unit(0.6, "in") / 0.0254, 3)
+    (4.75, 24.0)
+    >>> round(round_in_unit(0.1183, "mm") * 1000, 1)
+    120.0
+    """
+    if shown == "in":
+        step = units.INCH if metres > 12 * units.INCH else units.INCH / 4
+    else:
+        step = 10 * units.MM if metres > 300 * units.MM else 5 * units.MM
+    return max(step, round(metres / step) * step)
+
+
 def plate_material(shown="mm"):
     """What a hanging plate is usually made of, in the plan's units (common practice; a suggestion)."""
     wood, metal = (units.format_length(t, shown) for t in PLATE_THICKNESS.get(shown, PLATE_THICKNESS["mm"]))
@@ -181,8 +198,9 @@ def _chime_items(s, rows, shown="mm"):
     plate = hanging_plate(s)
     row = hang_hole_for(s.outer, rows) if s.shape in ("tube", "rod") else None
     line = row.line if row else "braided polyester line"
-    items = [Item("hanging", f"hanging line for {s.name}: {line}", None, None, n * LINE_PER_PIECE,
-                  f"about {units.format_length(LINE_PER_PIECE, shown)} per tube", suggestion=True)]
+    per_tube = round_in_unit(LINE_PER_PIECE, shown)
+    items = [Item("hanging", f"hanging line for {s.name}: {line}", None, None, n * per_tube,
+                  f"about {units.format_length(per_tube, shown)} per tube", suggestion=True)]
     if row is not None:
         items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, row.drill, None,
                           "through both walls, at the hang-hole mark"))
@@ -239,7 +257,8 @@ def shopping_list(plan, rows=None):
             items += _bar_items(s)
         else:
             items += _air_items(s)
-    return tuple(items)
+    return tuple(replace(it, each=round_in_unit(it.each, plan.units)) if it.suggestion and it.each is not None
+                 and it.group != "stock" else it for it in items)
 
 
 def with_shop_lists(plan):

@@ -60,3 +60,22 @@ def test_the_plate_hangs_by_three_holes_inside_its_edge():
     for x, y in plate.suspension:
         r = (x * x + y * y) ** 0.5
         assert plate.pitch_radius_mm < r < plate.diameter_mm / 2 - plate.hole_mm
+
+
+def test_suggested_sizes_are_round_in_the_plans_units_and_a_plate_is_not_a_board():
+    # 1 in = 25.4 mm exactly (international inch, 1959). A 120 mm plate suggestion in an inch plan
+    # is 4.724 in; the nearest quarter inch is 4-3/4 in. "1 x 4-3/4 in" would read as lumber.
+    import cutplan
+    from cutplan.render.pdf.cover import _amount
+    from cutplan.shopping import round_in_unit, shopping_list
+
+    assert round_in_unit(0.120, "in") == pytest.approx(4.75 * 0.0254)
+    assert round_in_unit(0.120, "mm") == pytest.approx(0.120)
+    plan = cutplan.plan(cutplan.load_design(ROOT / "examples" / "porch-chimes.toml"))
+    assert plan.units == "in"
+    items = {it.what: it for it in shopping_list(plan)}
+    plate = items["hanging plate for porch"]
+    assert (plate.each / 0.0254 * 4) == pytest.approx(round(plate.each / 0.0254 * 4))  # whole quarter inches
+    assert not _amount(plan, plate).startswith("1 x")
+    line = next(it for w, it in items.items() if w.startswith("hanging line"))
+    assert "about 24 in" in line.note and line.total == pytest.approx(5 * 24 * 0.0254)

@@ -88,7 +88,8 @@ def cover(packet):
 def _amount(plan, item):
     parts = []
     if item.count is not None:
-        parts.append(f"{item.count} x" if item.each is not None else f"{item.count}")
+        if item.each is None or item.count != 1 or item.group == "stock":  # "1 x 5 in" reads as a board size
+            parts.append(f"{item.count} x" if item.each is not None else f"{item.count}")
     if item.each is not None:
         parts.append(length(plan, item.each))
     text = " ".join(parts)
