@@ -303,7 +303,7 @@ def _slots(fields):
         p = f"set[{i}]"
         slots.update({p, f"{p}.section", f"{p}.more", f"{p}.stock", f"{p}.pitch", f"{p}.stock.lengths"})
         slots.update(f"{p}.{k}" for k in webform.SET_FIELDS)
-        slots.update(f"{p}.{k}" for k in (*webform.EXTRA_KEYS, *webform.TABLES))
+        slots.update(f"{p}.{k}" for k in webform.EXTRA_KEYS)  # a whole-table error goes beside the set
         slots.update(f"{p}.section.{k}" for k in webform.SECTION_FIELDS)
         slots.update(f"{p}.stock.{k}" for k in webform.STOCK_FIELDS)
     return slots

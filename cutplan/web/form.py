@@ -120,7 +120,7 @@ SET_EXTRAS = (
     SetField("humidity", "Humidity [%]", AIR, "air", placeholder="50", read=_number_or_text),
     SetField("end_correction", "End correction", AIR, "air", 'per open end: "unflanged", "flanged", "none" '
              "or a factor of the bore radius", placeholder="unflanged", read=_number_or_text),
-    SetField("max_length", "Longest tube", AIR, "air", "longer ones are folded or flagged", placeholder="1 m"),
+    SetField("max_length", "Longest tube", AIR, "air", "a resonator longer than this is flagged", placeholder="1.2 m"),
     SetField("temperature_range", "Temperature range", ("resonator",), "air",
              'for the stopper travel, e.g. "12 C to 28 C"', read=_two_texts, show=_two_texts_text),
 )
@@ -277,9 +277,10 @@ def _stock_to_form(stock, prefix, fields, more):
         more["stock"] = stock
 
 
-def _extras_to_form(k, v, p, fields):
-    """Put set key ``k`` into its :data:`SET_EXTRAS` fields; False when it cannot be shown there."""
-    found = {f.key: f for f in SET_EXTRAS}
+def _extras_to_form(k, v, p, fields, kind=None):
+    """Put set key ``k`` into its :data:`SET_EXTRAS` fields; False when it cannot be shown there
+    (then it rides in ``more``, so the design still says where it does not apply)."""
+    found = {f.key: f for f in SET_EXTRAS if not isinstance(kind, str) or kind in f.kinds}
     if k in TABLES:
         if not isinstance(v, dict) or not v or any(f"{k}.{s}" not in found for s in v):
             return False
@@ -308,7 +309,7 @@ def _set_to_form(raw, i, fields):
                 fields[f"{p}.section.{s}"] = x
         elif k == "stock" and isinstance(v, dict):
             _stock_to_form(v, f"{p}.stock", fields, more)
-        elif not _extras_to_form(k, v, p, fields):
+        elif not _extras_to_form(k, v, p, fields, raw.get("kind")):
             more[k] = v
     if more:
         fields[f"{p}.more"] = json.dumps(more, ensure_ascii=False)

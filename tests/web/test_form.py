@@ -140,3 +140,14 @@ def test_a_new_set_key_is_one_line_in_the_form_module(app):
     finally:
         form.SET_EXTRAS = saved
     assert dataclasses.is_dataclass(extra)
+
+
+def test_a_key_on_a_set_it_does_not_apply_to_still_reaches_the_check(client):
+    # an undercut on a chime set: the form keeps it (hidden) so the design's own check refuses it
+    data = {"set": [{"kind": "chime", "notes": ["D5"], "section": {"stock": "al-1.000x0.065"},
+                     "undercut": {"ratios": [4.0]}}]}
+    fields = form_from_mapping(data)
+    assert "set[1].undercut.ratios" not in fields
+    assert mapping_from_form(fields) == data
+    res = client.post("/preview", data=fields).get_json()
+    assert any("applies to bar sets only" in m for m in res["errors"]["set[1]"])  # beside the set, shown for any kind
