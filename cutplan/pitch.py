@@ -370,9 +370,9 @@ def parse_scale_spec(spec):
     return {"root": root, "scale": scale, "count": count}
 
 
-def spec_targets(spec, temperament="equal", a4=A4_FREQUENCY):
+def spec_targets(spec, temperament="equal", a4=A4_FREQUENCY, spelling="auto"):
     """Targets for a scale spec string (see :func:`parse_scale_spec`)."""
     parsed = parse_scale_spec(spec)
     if "low" in parsed:
-        return range_targets(parsed["low"], parsed["high"], parsed["scale"], temperament, a4)
-    return scale_targets(parsed["root"], parsed["scale"], parsed["count"], temperament, a4)
+        return range_targets(parsed["low"], parsed["high"], parsed["scale"], temperament, a4, spelling)
+    return scale_targets(parsed["root"], parsed["scale"], parsed["count"], temperament, a4, spelling)

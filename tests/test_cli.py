@@ -150,3 +150,12 @@ def test_materials_listing_fits_100_columns_and_names_each_source_once():
     entry = run("materials", "aluminum-6063-t5").output
     assert max(len(line) for line in entry.splitlines()) <= 100
     assert entry.count("source of") == 1 and "source of modulus, density, poisson" in entry
+
+
+def test_scale_spells_flats_in_flat_keys_and_suggests_scales():
+    # F major has one flat, Bb (key signatures: Kostka, Payne & Almen, Tonal Harmony, ch. 1; from memory)
+    out = run("scale", "F3 major 4").output
+    assert "Bb3" in out and "A#3" not in out
+    assert "A#3" in run("scale", "F3 major 4", "--spelling", "sharps").output
+    bad = run("scale", "D4 pentatonic")
+    assert bad.exit_code == 2 and "did you mean major-pentatonic or minor-pentatonic?" in bad.output

@@ -23,7 +23,9 @@ from cutplan.cli.common import (
 @click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
 @click.option("--temperament", default="equal", show_default=True,
               help='"equal", "equal-N", "just" or "pythagorean" (just/pythagorean relative to the root).')
-def scale_command(spec, a4, temperament):
+@click.option("--spelling", type=click.Choice(["auto", "sharps", "flats"]), default="auto", show_default=True,
+              help="Note names: from the key (flats in flat keys: Bb3 in F major), or always sharps or flats.")
+def scale_command(spec, a4, temperament, spelling):
     """List the notes and frequencies of a scale.
 
     \b
@@ -36,7 +38,7 @@ def scale_command(spec, a4, temperament):
     if not 400 <= a4 <= 480:
         fail(f"--a4: {a4} must be between 400 and 480 Hz")
     try:
-        targets = pitch.spec_targets(spec, temperament, a4)
+        targets = pitch.spec_targets(spec, temperament, a4, spelling)
     except pitch.PitchError as exc:
         fail(f"scale: {exc.text!r} is not {exc.accepted}")
     click.echo(f"{'note':6} {'Hz':>10} {'cents from ET':>14}")
