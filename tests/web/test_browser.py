@@ -320,3 +320,28 @@ def test_add_an_undercut_on_the_page_and_get_the_files_plan(browser, server, tmp
 
     _wait(d, lambda drv: _settled(drv) and _rows(drv) != uniform and same(drv))
     assert same(d)
+
+
+def test_at_1280_px_the_tables_need_no_sideways_scrolling_and_labels_fit(browser, server):
+    """1280 px: a common laptop width (common practice). The marimba's bar table has the most columns."""
+    d = browser
+    d.set_window_size(1280, 1000)
+    try:
+        d.get(server + "/?example=music-room-marimba")
+        _wait(d, lambda drv: _rows(drv))
+        widths = d.execute_script(
+            "return Array.from(document.querySelectorAll('#preview .table-wrap'))"
+            ".map(function (e) { return [e.scrollWidth, e.clientWidth]; });")
+        assert widths and all(scroll <= client for scroll, client in widths), widths
+        # every option of every select is as wide as its box at most (no "(default: shear-correc")
+        cut = d.execute_script(
+            "var c = document.createElement('canvas').getContext('2d'); var out = [];"
+            "document.querySelectorAll('form select').forEach(function (s) {"
+            " if (!s.offsetParent) { return; } var st = getComputedStyle(s); c.font = st.font;"
+            " var room = s.clientWidth - parseFloat(st.paddingLeft) - parseFloat(st.paddingRight) - 16;"
+            " Array.from(s.options).forEach(function (o) {"
+            "  if (c.measureText(o.text).width > room) { out.push(s.id + ': ' + o.text); } }); });"
+            "return out;")
+        assert cut == []
+    finally:
+        d.set_window_size(1400, 1000)
