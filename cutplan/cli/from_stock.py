@@ -85,7 +85,8 @@ def _design_stock(path, materials_dirs):
             scale)
 
 
-_OPTION_OF_KEY = (("set[1].section.stock", "--stock-size"), ("set[1].section", "--stock-size/--tube/--rod/--bar"), ("set[1].material", "--material"),
+_OPTION_OF_KEY = (("set[1].section.stock", "--stock-size"), ("set[1].section", "--stock-size/--tube/--rod/--bar"),
+                  ("set[1].material", "--material"),
                   ("set[1].ends", "--ends"), ("set[1]", "--kind"), ("stock.lengths", "--have"),
                   ("stock.kerf", "--kerf"), ("stock.end_trim", "--end-trim"), ("stock.allowance", "--allowance"),
                   ("tuning.a4", "--a4"), ("tuning.temperament", "--temperament"))
@@ -173,8 +174,8 @@ def _render(result, heard=False):
 @click.option("--force", is_flag=True, help="Overwrite the --output file if it exists.")
 @MATERIALS_OPTION
 def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, material, stock_size, tube, rod, bar_size,
-                       ends, target, scales, count, most, least_waste, lowest, highest, a4, temperament, units, top, fmt,
-                       output, force, materials_dirs):
+                       ends, target, scales, count, most, least_waste, lowest, highest, a4, temperament, units, top,
+                       fmt, output, force, materials_dirs):
     """Find the set of a scale that fits the stock on hand, and write it as a design.
 
     \b

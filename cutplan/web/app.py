@@ -296,7 +296,8 @@ def _both_units(text):
 
 def _slots(fields):
     """Every place a message can appear: the fields, each set, its section, the stock, the form."""
-    slots = {"form", "open", "stock", "title", "units", "paper", "tuning.a4", "tuning.temperament", "tuning.spelling", "more",
+    slots = {"form", "open", "stock", "title", "units", "paper", "tuning.a4", "tuning.temperament", "tuning.spelling",
+             "more",
              "trim.piece", "trim.measured", "trim.recording", "trim.length_now"}
     slots.update(f"stock.{k}" for k in webform.STOCK_FIELDS)
     for i in range(1, webform.set_count(fields) + 1):

@@ -340,7 +340,8 @@ def form_from_mapping(data):
 
 FIELD_LABELS = {
     "title": "Title", "units": "Units shown first", "paper": "Paper", "tuning.a4": "A4",
-    "tuning.temperament": "Temperament", "tuning.spelling": "Note names", "stock": "Stock on hand", "stock.lengths": "Lengths on hand",
+    "tuning.temperament": "Temperament", "tuning.spelling": "Note names", "stock": "Stock on hand",
+    "stock.lengths": "Lengths on hand",
     "stock.kerf": "Saw kerf", "stock.end_trim": "End trim", "stock.allowance": "Trim allowance",
 }
 """The page's label for each field outside the sets (the page shows these words)."""
