@@ -1,7 +1,7 @@
 """Quick answers to "do these pieces fit the sticks on hand?" before the exact packer runs.
 
 :class:`StockRoom` holds the stock on hand in the optimiser's terms (a stick of length S holds
-pieces l_i when sum(l_i + kerf) <= S - end_trim + kerf; see :mod:`cutplan.stock`) and gives
+pieces l_i when sum(l_i + kerf) <= S - 2 end_trim + kerf; see :mod:`cutplan.stock`) and gives
 bounds that prove a set cannot fit, and a first-fit-decreasing layout that proves it can.
 Only when neither settles it does the search call the exact packer.
 """
@@ -25,10 +25,10 @@ class StockRoom:
         self.kerf, self.end_trim = stock.kerf, stock.end_trim
         self.types = [optimiser.StockType(x.length, x.count, x.price) for x in stock.lengths]
         self.longest = max(t.length for t in self.types)
-        cap = [t.length - stock.end_trim + stock.kerf for t in self.types]
+        cap = [optimiser.usable_length(t.length, stock.end_trim) + stock.kerf for t in self.types]
         self.total_cap = sum(math.inf if t.count is None else t.count * c for t, c in zip(self.types, cap, strict=True))
         self.sticks_on_hand = sum(math.inf if t.count is None else t.count for t in self.types)
-        self.cap_longest = self.longest - stock.end_trim + stock.kerf
+        self.cap_longest = optimiser.usable_length(self.longest, stock.end_trim) + stock.kerf
         self.caps = sorted(set(cap))
         self.room_above = {t: sum(math.inf if x.count is None else x.count * c
                                   for x, c in zip(self.types, cap, strict=True) if c > t) for t in self.caps}
@@ -48,7 +48,7 @@ class StockRoom:
         and the Martello-Toth L2 bound (sticks needed if all were the longest) against the
         number of sticks.
         """
-        if max(cuts) > self.longest - self.end_trim + TOL:
+        if max(cuts) > optimiser.usable_length(self.longest, self.end_trim) + TOL:
             return True
         sizes = self.sizes(cuts)
         if sum(sizes) > self.total_cap + TOL:
@@ -148,7 +148,7 @@ class StockRoom:
         except _Undecided:
             return None
         used = sorted(set(where))
-        return [(caps[b] + self.end_trim - self.kerf, [order[i] for i in range(len(sizes)) if where[i] == b])
+        return [(caps[b] + 2 * self.end_trim - self.kerf, [order[i] for i in range(len(sizes)) if where[i] == b])
                 for b in used]
 
 

@@ -170,7 +170,7 @@ class _Search:
     def practical_range(self):
         """(lowest, highest) note names of the pieces this section makes on this stock: the
         lowest whose piece fits the longest stick, the highest without a stubby-piece warning."""
-        room = self.longest - self.stock.end_trim + optimiser.FIT_TOLERANCE
+        room = optimiser.usable_length(self.longest, self.stock.end_trim) + optimiser.FIT_TOLERANCE
         ok = [self.freqs[k] for k, cut in self.table.items() if not math.isnan(cut) and cut <= room]
         if not ok:
             return None
@@ -463,7 +463,7 @@ def _nothing_fits(found, scales, count, objective, counts):
         c = found.most_notes(s, [k for k in range(1, (count or max(counts)) + 1)])
         if c is not None and (best is None or c > best[1]):
             best = (s, c, found.lowest_root(s, c))
-    longest = found.longest - found.stock.end_trim
+    longest = optimiser.usable_length(found.longest, found.stock.end_trim)
     if best is None:
         usable = [v for v in found.table.values() if not math.isnan(v)]
         if not usable:

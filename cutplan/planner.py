@@ -268,12 +268,13 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
         if stock and stock.lengths:
             longest = max(s.length for s in stock.lengths)
             for p in pieces:
-                need = p.cut_length + stock.end_trim
+                need = p.cut_length + 2 * stock.end_trim  # both factory ends squared
                 if need > longest:
                     errors.append(DesignError(
                         design.path, f"set[{spec.index}]", p.note,
-                        f"needs {p.label} cut at {format_length(need, design.units)} with end trim, longer than the "
-                        f"longest stock ({format_length(longest, design.units)}); add longer stock or raise the note"))
+                        f"needs {p.label} cut at {format_length(need, design.units)} with end trim at both ends, "
+                        f"longer than the longest stock ({format_length(longest, design.units)}); add longer stock or "
+                        "raise the note"))
         pieces = [_with_shop_facts(p, spec) for p in pieces]
         done = SetPlan(**{**summary.__dict__, "pieces": tuple(pieces),
                           "allowance_rule": allowance_rule(stock, design.units)})

@@ -1,15 +1,16 @@
 """Cut-list optimisation: lay the pieces out on stock sticks with the fewest sticks (or least cost).
 
-Kerf accounting.  A stick of length S first loses ``end_trim`` (squaring the factory end,
-the cut included).  Each piece then takes its cut length plus one kerf, except that the last
-piece needs no cut when it ends exactly at the far end.  So pieces l_1..l_n fit on a stick when
+Kerf accounting.  A stick of length S loses ``end_trim`` at each end (squaring both factory
+ends, the cut included: a piece never ends at a raw far end).  Each piece takes its cut length
+plus one kerf, except that the last piece needs no separating cut when it ends exactly where
+the far end is squared.  So pieces l_1..l_n fit on a stick when
 
-    sum(l_i) + kerf * (n - 1) <= S - end_trim,
+    sum(l_i) + kerf * (n - 1) <= S - 2 * end_trim,
 
 which is ordinary bin packing with item sizes ``l_i + kerf`` and capacity
-``S - end_trim + kerf``.  Marks are measured from the stick's factory end: piece i starts at
+``S - 2 * end_trim + kerf``.  Marks are measured from the stick's factory end: piece i starts at
 ``end_trim + sum_{j<i} (l_j + kerf)``.  The offcut is what is left after the last piece and its
-separating cut.
+separating cut (the far end's squaring included).
 
 Method.  A first-fit-decreasing heuristic with an improvement pass gives a layout at once; the
 Martello-Toth L2 bound says how good it is.  When they differ, the Gilmore-Gomory linear
@@ -155,8 +156,13 @@ def lower_bound_l2(sizes, capacity):
     return best
 
 
+def usable_length(stock_length, end_trim):
+    """Length of a stick that pieces may use [m]: both factory ends squared (common practice)."""
+    return stock_length - 2 * end_trim
+
+
 def _capacity(stock_length, kerf, end_trim):
-    return stock_length - end_trim + kerf
+    return usable_length(stock_length, end_trim) + kerf
 
 
 def _fits(load, size, capacity):
@@ -298,7 +304,7 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
         if not _fits(0.0, it.length + kerf, _capacity(longest.length, kerf, end_trim)):
             raise StockError(
                 f"{it.label} ({it.length * 1000:.0f} mm) is longer than the longest stock "
-                f"({longest.length * 1000:.0f} mm) after {end_trim * 1000:.0f} mm end trim")
+                f"({longest.length * 1000:.0f} mm) after {end_trim * 1000:.0f} mm end trim at each end")
     from cutplan.stock_columns import _cheaper_mixes, _column_generation
 
     work = _Work(effort, time_limit)

@@ -48,12 +48,15 @@ def test_piece_that_fits_exactly_without_kerf():
     assert len(layout(items(500, 500), [StockType(1.0)], kerf=0.001).sticks) == 2
 
 
-def test_end_trim_is_taken_from_the_factory_end():
-    out = layout(items(990), [StockType(1.0)], kerf=0.003, end_trim=0.010)
+def test_end_trim_is_taken_from_both_factory_ends():
+    # Both factory ends of a stick are squared before use (common practice): a piece never ends at
+    # the raw far end. By hand: 1000 mm - 2 x 10 mm = 980 mm for pieces; the last piece needs no
+    # separating cut when it ends where the far end is squared, so 980 mm fits and 981 mm does not.
+    out = layout(items(980), [StockType(1.0)], kerf=0.003, end_trim=0.010)
     assert out.sticks[0].cuts[0][1] == pytest.approx(0.010)
-    assert out.sticks[0].offcut == 0.0
-    with pytest.raises(StockError):
-        layout(items(991), [StockType(1.0)], kerf=0.003, end_trim=0.010)
+    assert out.sticks[0].offcut == pytest.approx(0.010 - 0.003)  # the far end's squaring, less its cut
+    with pytest.raises(StockError, match="end trim at each end"):
+        layout(items(981), [StockType(1.0)], kerf=0.003, end_trim=0.010)
 
 
 def test_offcut_accounts_for_the_separating_cut():
