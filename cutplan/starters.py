@@ -24,7 +24,7 @@ section = { stock = "al-1.000x0.065" }  # or { shape = "tube", outer = "1 in", w
 [stock]
 lengths = [{ length = "8 ft", count = 1 }]
 kerf = "1/16 in"          # saw blade width
-end_trim = "1/8 in"       # squaring the factory end
+end_trim = "1/8 in"       # squared off each factory end of a stick
 allowance = "risk 5 %"    # cut long enough that 1 piece in 20 at most comes out sharp;
                           # or a fixed "0.5 %" or "3 mm" (the plan then states its chance)
 '''

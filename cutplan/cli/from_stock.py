@@ -142,7 +142,7 @@ def _render(result, heard=False):
               help="Use this design file's [stock], units and tuning instead of --have; and its first set's "
                    "kind, material and section unless section options are given.")
 @click.option("--kerf", default="1.6 mm", show_default=True, help="Saw kerf.")
-@click.option("--end-trim", default="0 mm", show_default=True, help="Squared off each stick's factory end.")
+@click.option("--end-trim", default="0 mm", show_default=True, help="Squared off each factory end of every stick.")
 @click.option("--allowance", default="risk 5 %", show_default=True,
               help='Rough-cut allowance: "risk 5 %" (chance of coming out sharp), "0.5 %" or "3 mm".')
 @click.option("--kind", type=click.Choice(["chime", "bar", "air-column"]),
