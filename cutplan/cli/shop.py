@@ -145,14 +145,16 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
 
     \b
     With several partials of one piece (or pieces of several lengths) the stiffness E and the
-    shear modulus G are fitted separately; with one partial, E alone.
+    shear modulus G are fitted separately; with one partial, E alone. Test pieces must be
+    uniform (a bar before undercutting): a fit that misses any partial by more than 15 cents,
+    or gives E or E/G outside the material's class, is refused and nothing is written.
     \b
     Examples:
       cutplan calibrate --material aluminum-6063-t5 --stock al-1.000x0.065 \\
           --piece "503.9 mm @ 591.2" -o my-materials/al-tube.toml
       cutplan calibrate --kind bar --material maple-sugar --bar "50 mm x 22 mm" \\
-          --piece "420 mm @ 1180.0, 3105.5, 5702.0" -o my-materials/maple.toml
-      cutplan calibrate --kind air-column --stock pvc-sch40-1 --piece "190 mm @ 426.7" --fit speed
+          --piece "440 mm @ 495.8, 1300.3, 2383.5" -o my-materials/maple.toml
+      cutplan calibrate --kind air-column --stock pvc-sch40-1 --piece "185 mm @ 444.4" --fit speed
       cutplan calibrate --kind air-column --two-resonance "160 mm, 495 mm @ 512"
     """
     dirs = material_folders(materials_dirs, design_path)
