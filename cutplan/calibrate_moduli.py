@@ -107,6 +107,14 @@ def _plausible_moduli(material):
     return min(r[0] for r in ranges), max(r[1] for r in ranges)
 
 
+def _shear_ratio_range(material):
+    """(low, high) E / G [-] plausible for the material's class, or :data:`SHEAR_RATIO_RANGE`."""
+    from cutplan import plausibility
+
+    cls = getattr(material, "material_class", None)
+    return plausibility.shear_ratio_range(cls) if cls else SHEAR_RATIO_RANGE
+
+
 def partial_hint(material, section, model, length, measured_hz, modes=5):
     """"this looks like partial N ..." when one frequency sits near an overtone of the expected
     fundamental rather than near the fundamental itself; "" otherwise."""
@@ -182,7 +190,7 @@ def fit_moduli(measurements, material, section, model="timoshenko", shear="auto"
             sol = least_squares(miss, [math.log(scale), math.log(scale)], x_scale=[0.01, 0.05], xtol=1e-12,
                                 ftol=1e-12, gtol=1e-12, diff_step=1e-6)
             e_fit, g_fit = e0 * math.exp(sol.x[0]), g0 * math.exp(sol.x[1])
-            lo, hi = SHEAR_RATIO_RANGE
+            lo, hi = _shear_ratio_range(material)
             if lo <= e_fit / g_fit <= hi:
                 e, g, how = e_fit, g_fit, "fitted"
             else:

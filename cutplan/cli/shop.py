@@ -181,7 +181,7 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
     try:
         fit = fit_moduli(measured, mat, sec, model)
     except CalibrationError as exc:
-        fail(f"calibrate: {exc}")
+        fail(f"--piece {'; '.join(pieces)}: {exc}; nothing written")
     lengths = sorted({length for length, _, _ in measured})
     click.echo(f"{len(lengths)} test piece(s), {len(measured)} partial(s) of {material}, {sec.describe()}, {model} model")
     for (length, mode, f), pred, res in zip(measured, fit.table_hz, fit.residuals_cents, strict=True):
