@@ -166,6 +166,15 @@ def identify(partials, kind="any", near=None, ratios=None):
     ``ratios``, if given, are the partial ratios expected for this very piece (for instance the
     planned partials of a cut piece); they replace the kind's patterns, so that a missing
     fundamental is estimated from the right ratio.
+
+    Examples
+    --------
+    A struck undercut bar of our own at D5, partials 1 : 3.93 : 9.1, reads as a tuned bar:
+
+    >>> from cutplan.audio.partials import Partial
+    >>> m = identify([Partial(587.3, 0.0, 1.5), Partial(2308.1, -6.0, 0.4), Partial(5344.4, -6.0, 0.15)])
+    >>> round(m.fundamental_hz, 1), m.pattern, m.modes
+    (587.3, 'tuned-bar', (1, 2, 3))
     """
     partials = tuple(p if isinstance(p, Partial) else Partial(float(p[0]), float(p[1]), None) for p in partials)
     if ratios is not None:

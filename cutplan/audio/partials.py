@@ -74,7 +74,13 @@ class Partial:
 
 
 def blackman_harris(n):
-    """Four-term Blackman-Harris window of ``n`` samples (Harris 1978, periodic form)."""
+    """Four-term Blackman-Harris window of ``n`` samples (Harris 1978, periodic form).
+
+    The coefficients sum to 1 at the centre:
+
+    >>> float(blackman_harris(8)[4])
+    1.0
+    """
     k = 2 * np.pi * np.arange(n) / n
     a0, a1, a2, a3 = BH4
     return a0 - a1 * np.cos(k) + a2 * np.cos(2 * k) - a3 * np.cos(3 * k)

@@ -174,7 +174,7 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
     mat, sec = spec.material, spec.section
 
     def ratios(length):
-        f = _partial_frequencies(mat, sec, model, mat.modulus_for(model), mat.shear_modulus_for(model), length, 4)
+        f = _partial_frequencies(mat, sec, model, mat.modulus_for(model), mat.shear_modulus_for(model), length, 6)
         return [x / f[0] for x in f]
 
     measured = _parse_beam_pieces(pieces, kind, ratios)

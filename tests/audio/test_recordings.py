@@ -80,6 +80,19 @@ def test_equal_loud_partials_of_an_undercut_bar_are_all_listed_and_read_as_a_tun
     assert abs(cents(m.fundamental_hz, D5)) < 0.5
 
 
+def test_the_window_has_the_published_side_lobe_level():
+    # Harris 1978, Table 1: four-term (-92 dB) Blackman-Harris, highest side lobe -92 dB, main
+    # lobe half-width 4 bins (first zero of the transform at 4 bins)
+    from cutplan.audio.partials import blackman_harris
+
+    n, pad = 64, 256
+    mag = np.abs(np.fft.rfft(blackman_harris(n), n * pad))
+    db = 20 * np.log10(mag / mag[0] + 1e-300)
+    first_min = int(np.argmax(np.diff(db) > 0))  # the main lobe ends at its first minimum
+    assert first_min / pad == pytest.approx(4.0, abs=0.25)
+    assert db[first_min:].max() == pytest.approx(-92.0, abs=0.5)
+
+
 def test_a_steady_tone_is_one_partial_without_side_lobes():
     # oracle: one sine at 587.33 Hz that does not decay; Harris 1978: side lobes 92 dB down
     x = tone([D5], [0.8], [1e9], 2.0, RATE)
