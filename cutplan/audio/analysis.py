@@ -189,8 +189,8 @@ def identify(partials, kind="any", near=None, ratios=None):
         if unconstrained:
             top = unconstrained[0]
             said = f"; they read as {_describe(top, _fundamental(top, partials, patterns[top.pattern][0])[0])}"
-        asked = "the expected" if ratios is not None else "--near"
-        raise RecordingError(f"no partial within half an octave of {asked} {near:.1f} Hz; the recording's strongest "
+        asked = f"the expected {near:.1f} Hz" if ratios is not None else f"{near:.1f} Hz (--near)"
+        raise RecordingError(f"no partial within half an octave of {asked}; the recording's strongest "
                              f"partials are {strongest} Hz{said}: is this the right piece?")
     best = ranked[0]
     pattern_ratios = patterns[best.pattern][0]

@@ -107,15 +107,19 @@ def strike_segment(samples, rate):
     return seg
 
 
-def _band_floor(mag, bin_hz, f_min):
-    """Median level [dB] of the third-octave band each bin lies in."""
+def _band_floor(mag, bin_hz, f_min, lobe_hz):
+    """Median level [dB] of the third-octave band each bin lies in, the band widened to at least
+    ten main-lobe widths so that one peak never fills it."""
     floor = np.full(mag.size, np.inf)
     lo = f_min
     while lo < mag.size * bin_hz:
-        a, b = int(lo / bin_hz), min(mag.size, int(lo * 2 ** (1 / 3) / bin_hz) + 1)
+        hi = lo * 2 ** (1 / 3)
+        extra = max(0.0, 5 * lobe_hz - (hi - lo) / 2)
+        a, b = int(lo / bin_hz), min(mag.size, int(hi / bin_hz) + 1)
+        wa, wb = max(0, int((lo - extra) / bin_hz)), min(mag.size, int((hi + extra) / bin_hz) + 1)
         if b > a:
-            floor[a:b] = np.median(mag[a:b])
-        lo *= 2 ** (1 / 3)
+            floor[a:b] = np.median(mag[wa:wb])
+        lo = hi
     return floor
 
 
@@ -125,6 +129,7 @@ class _Spectrum:
     bin_hz: float
     mag_db: np.ndarray
     lobe_hz: float
+    floor_db: np.ndarray
 
     def peak_near(self, f, within):
         """Interpolated (frequency, dB) of the highest sample within ``within`` Hz of ``f``."""
@@ -135,6 +140,8 @@ class _Spectrum:
         i = a + int(np.argmax(self.mag_db[a:b]))
         if i in (a, b - 1) and b - a > 2:
             return None  # still rising at the edge: not a peak of this partial
+        if self.mag_db[i] < self.floor_db[i] + PROMINENCE_DB:
+            return None  # the partial does not stand out in this stretch (it starts later, or is gone)
         return self._interpolate(i)
 
     def _interpolate(self, i):
@@ -150,7 +157,8 @@ def _spectrum(seg, rate, n):
     size = next_fast_len(PAD * n, real=True)
     spec = np.abs(rfft(seg[:n] * blackman_harris(n), size))
     mag = 20 * np.log10(spec + 1e-300)
-    return _Spectrum(n / rate, rate / size, mag, MAIN_LOBE_BINS * rate / n)
+    lobe = MAIN_LOBE_BINS * rate / n
+    return _Spectrum(n / rate, rate / size, mag, lobe, _band_floor(mag, rate / size, AUDIBLE_HZ[0], lobe))
 
 
 def _peaks(sp, f_lo, f_hi):
@@ -164,7 +172,7 @@ def _peaks(sp, f_lo, f_hi):
     idx = np.flatnonzero((mag[lo:hi] >= top[lo:hi]) & (mag[lo:hi] > mag[lo - 1:hi - 1])) + lo
     if idx.size == 0:
         return []
-    idx = idx[mag[idx] > _band_floor(mag, sp.bin_hz, f_lo)[idx] + PROMINENCE_DB]
+    idx = idx[mag[idx] > sp.floor_db[idx] + PROMINENCE_DB]
     idx = idx[mag[idx] > mag[idx].max() - STRONG_DB - 20] if idx.size else idx
     return [sp._interpolate(int(i))[0] for i in idx]
 
@@ -247,6 +255,9 @@ def _refine(spectra, f, tau, neighbour_hz):
     """The frequency read from the spectrum that best suits a partial's decay and neighbours."""
     want = 2.5 * tau if tau else math.inf
     usable = [sp for sp in spectra if 2 * sp.lobe_hz < neighbour_hz] or spectra[-1:]
-    best = min(usable, key=lambda sp: abs(math.log(sp.seconds / want)) if want < math.inf else -sp.seconds)
-    got = best.peak_near(f, best.lobe_hz)
-    return float(got[0]) if got else float(f)
+    usable.sort(key=lambda sp: abs(math.log(sp.seconds / want)) if want < math.inf else -sp.seconds)
+    for sp in usable:
+        got = sp.peak_near(f, sp.lobe_hz)
+        if got:
+            return float(got[0])
+    return float(f)
