@@ -106,3 +106,13 @@ def test_a_calibrated_material_keeps_its_class_and_plan_checks_it(tmp_path):
                                  "--piece", "440 mm @ 495.8", "-o", str(out)])
     assert r.exit_code == 0, r.output
     assert load_library([out.parent]).materials["maple-sugar-calibrated"].material_class == "wood"
+
+
+def test_e_over_g_outside_the_class_is_named():
+    # isotropic metals have E/G = 2 (1 + nu), about 2.66 for aluminium with nu = 0.33 (Timoshenko &
+    # Goodier, Theory of Elasticity, 3rd ed., 1970, ch. 1, from memory); E/G = 5 is no metal
+    from cutplan.plausibility import problems
+
+    assert problems(69e9, 2700.0, "metal", 69e9 / 2.66) == []
+    (line,) = problems(69e9, 2700.0, "metal", 69e9 / 5)
+    assert "E/G 5" in line and "2-3.2" in line
