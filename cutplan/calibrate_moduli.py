@@ -31,10 +31,9 @@ with room either side (common practice)."""
 PARTIAL_HINT_CENTS = 120.0
 """A single frequency this close to a predicted overtone is called that overtone [cents]."""
 RESIDUAL_LIMIT_CENTS = 15.0
-"""Largest miss of any partial after the fit [cents].  A uniform piece read with a tuner or from a
-clean recording fits to a few cents with the shear-corrected model; a miss beyond this means the
-piece is not uniform (undercut), a partial was misread, or the length or section is wrong, and a
-material fitted from it would mis-cut every piece (common practice)."""
+"""Largest miss of any partial after the fit [cents]: the limit
+:data:`cutplan.plausibility.FIT_RESIDUAL_LIMIT_CENTS`, which ``plan`` applies to calibrated
+materials read from ``--materials`` folders (common practice; see there)."""
 FREE_FREE_RATIO_2 = 2.7565
 """f2 / f1 of a slender uniform free-free bar, (4.7300 / 7.8532)^-2 (Blevins, Formulas for Natural
 Frequency and Mode Shape, 1979, Table 8-1); shear only lowers it, so no uniform bar exceeds it."""
@@ -333,6 +332,7 @@ def calibrated_moduli_toml(name, material, model, fit, source_text):
     ]
     if getattr(material, "material_class", None):
         lines.append(f'class = "{material.material_class}"')
+    lines.append(f"fit_residual_cents = {max(abs(r) for r in fit.residuals_cents):.2f}")
     if fit.shear in ("fitted", "held"):
         where = "cutplan calibrate, fitted with E" if fit.shear == "fitted" else "earlier calibration, held"
         lines.append(f'shear_modulus = {{ value = "{fit.shear_modulus / 1e9:.6f} GPa", kind = "measured", '

@@ -39,6 +39,12 @@ it (common practice)."""
 ANY_SHEAR_RATIO = (2.0, 40.0)
 """E / G plausible for a material of unknown class: the union of the classes."""
 
+FIT_RESIDUAL_LIMIT_CENTS = 15.0
+"""Largest miss of any partial in the fit a calibrated material came from [cents].  A uniform
+piece read with a tuner or from a clean recording fits to a few cents with the shear-corrected
+model; a miss beyond this means the piece was not uniform (undercut), a partial was misread, or
+the length or section was wrong, and the material would mis-cut every piece (common practice)."""
+
 
 def modulus_range(material_class=None):
     """(low, high) Young's modulus [Pa] plausible for a class ("metal", "wood", ...) or any.
@@ -94,4 +100,10 @@ def material_problems(material):
     if getattr(material, "unusual", False):
         return []
     shear = material.shear_modulus or (material.shear_ratio and material.shear_ratio * material.modulus) or None
-    return problems(material.modulus, material.density, getattr(material, "material_class", None), shear)
+    out = problems(material.modulus, material.density, getattr(material, "material_class", None), shear)
+    residual = getattr(material, "fit_residual_cents", None)
+    if residual is not None and residual > FIT_RESIDUAL_LIMIT_CENTS:
+        out.append(f"fit_residual_cents {residual:g}: it was calibrated from partials that miss its fit by more than "
+                   f"{FIT_RESIDUAL_LIMIT_CENTS:g} cents (not a uniform test piece, or a misread partial); calibrate "
+                   "again from a uniform blank")
+    return out

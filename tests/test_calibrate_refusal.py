@@ -105,7 +105,26 @@ def test_a_calibrated_material_keeps_its_class_and_plan_checks_it(tmp_path):
     r = CliRunner().invoke(cli, ["calibrate", "--kind", "bar", "--material", "maple-sugar", "--bar", "50 mm x 22 mm",
                                  "--piece", "440 mm @ 495.8", "-o", str(out)])
     assert r.exit_code == 0, r.output
-    assert load_library([out.parent]).materials["maple-sugar-calibrated"].material_class == "wood"
+    cal = load_library([out.parent]).materials["maple-sugar-calibrated"]
+    assert cal.material_class == "wood" and cal.fit_residual_cents < 0.01  # one partial fits exactly
+
+
+def test_plan_and_trim_refuse_a_material_calibrated_from_a_bad_fit(tmp_path):
+    # a material file whose calibration missed a partial by 583 cents (the undercut-bar readings
+    # above, as an older cutplan wrote them) is refused before anything is cut
+    mats = tmp_path / "mats"
+    mats.mkdir()
+    (mats / "padauk.toml").write_text(
+        '["padauk-calibrated"]\nclass = "wood"\nmodulus = "3.9 GPa"\ndensity = "750 kg/m3"\npoisson = 0.4\n'
+        "shear_ratio = 0.1\nfit_residual_cents = 583.0\n", encoding="utf-8")
+    design = tmp_path / "d.toml"
+    design.write_text('title = "Porch bars"\nunits = "mm"\n[[set]]\nname = "bars"\nkind = "bar"\nnotes = ["C5"]\n'
+                      'material = "padauk-calibrated"\n'
+                      'section = { shape = "bar", width = "40 mm", thickness = "20 mm" }\n', encoding="utf-8")
+    for args in (["plan", str(design)], ["trim", str(design), "bars-1", "--measured", "523.3"]):
+        r = CliRunner().invoke(cli, [*args, "--materials", str(mats)])
+        assert r.exit_code == 2, r.output
+        assert len(r.output.strip().splitlines()) == 1 and "uniform blank" in r.output
 
 
 def test_e_over_g_outside_the_class_is_named():
