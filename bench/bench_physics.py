@@ -117,7 +117,7 @@ def measuring():
 
     rate = 44100
     x = tone([587.33 * r for r in (1, 2.677, 4.967, 7.939)], [1, 0.7, 0.5, 0.3], [2, 1, 0.5, 0.3], 5.0, rate)
-    t = timed(lambda: measure(x, rate, "chime"))
+    t = timed(lambda: measure(x, rate))
     print(f"\n{'measure a 5 s recording (44.1 kHz)':44} {t:9.4f}")
 
 

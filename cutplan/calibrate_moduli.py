@@ -30,6 +30,13 @@ wood (USDA FPL Wood Handbook, FPL-GTR-190, 2010, Table 5-1 gives G_LR / E_L of 0
 with room either side (common practice)."""
 PARTIAL_HINT_CENTS = 120.0
 """A single frequency this close to a predicted overtone is called that overtone [cents]."""
+RESIDUAL_LIMIT_CENTS = 15.0
+"""Largest miss of any partial after the fit [cents]: the limit
+:data:`cutplan.plausibility.FIT_RESIDUAL_LIMIT_CENTS`, which ``plan`` applies to calibrated
+materials read from ``--materials`` folders (common practice; see there)."""
+FREE_FREE_RATIO_2 = 2.7565
+"""f2 / f1 of a slender uniform free-free bar, (4.7300 / 7.8532)^-2 (Blevins, Formulas for Natural
+Frequency and Mode Shape, 1979, Table 8-1); shear only lowers it, so no uniform bar exceeds it."""
 
 
 @dataclass(frozen=True)
@@ -97,6 +104,14 @@ def _plausible_moduli(material):
               if e[0] <= material.modulus <= e[1] and d[0] <= material.density <= d[1]]
     ranges = ranges or [plausibility.ANY_RANGE[0]]
     return min(r[0] for r in ranges), max(r[1] for r in ranges)
+
+
+def _shear_ratio_range(material):
+    """(low, high) E / G [-] plausible for the material's class, or :data:`SHEAR_RATIO_RANGE`."""
+    from cutplan import plausibility
+
+    cls = getattr(material, "material_class", None)
+    return plausibility.shear_ratio_range(cls) if cls else SHEAR_RATIO_RANGE
 
 
 def partial_hint(material, section, model, length, measured_hz, modes=5):
@@ -174,7 +189,7 @@ def fit_moduli(measurements, material, section, model="timoshenko", shear="auto"
             sol = least_squares(miss, [math.log(scale), math.log(scale)], x_scale=[0.01, 0.05], xtol=1e-12,
                                 ftol=1e-12, gtol=1e-12, diff_step=1e-6)
             e_fit, g_fit = e0 * math.exp(sol.x[0]), g0 * math.exp(sol.x[1])
-            lo, hi = SHEAR_RATIO_RANGE
+            lo, hi = _shear_ratio_range(material)
             if lo <= e_fit / g_fit <= hi:
                 e, g, how = e_fit, g_fit, "fitted"
             else:
@@ -189,7 +204,21 @@ def fit_moduli(measurements, material, section, model="timoshenko", shear="auto"
             sol = least_squares(lambda v: miss(v, g_fixed=g0), [math.log(scale)], x_scale=[0.01], xtol=1e-12,
                                 ftol=1e-12, gtol=1e-12, diff_step=1e-6)
             e, g, how = e0 * math.exp(sol.x[0]), g0, "held"
+    fitted = _model_hz(material, section, model, measurements, e, g)
+    residuals = tuple(_cents(p, f) for p, (_, _, f) in zip(fitted, measurements, strict=True))
+    if max(abs(r) for r in residuals) > RESIDUAL_LIMIT_CENTS:
+        shown = "/".join(f"{r:+.0f}" for r in residuals)
+        raise CalibrationError(f"the partials miss the best fit by {shown} cents (at most {RESIDUAL_LIMIT_CENTS:g} "
+                               f"allowed): {_diagnosis(measurements, material, section, model)}")
     lo, hi = _plausible_moduli(material)
+    cls = getattr(material, "material_class", None)
+    if lo <= e <= hi and cls and not getattr(material, "unusual", False):
+        from cutplan import plausibility
+
+        found = plausibility.problems(e, material.density, cls, g)
+        if found:
+            raise CalibrationError(f"the fit gives {'; '.join(found)}: " + _diagnosis(measurements, material, section,
+                                                                                    model))
     if not lo <= e <= hi:
         length, mode, f = measurements[0]
         hint = partial_hint(material, section, model, length, f) if mode == 1 else ""
@@ -200,11 +229,59 @@ def fit_moduli(measurements, material, section, model="timoshenko", shear="auto"
         hint = partial_hint(material, section, model, measurements[0][0], measurements[0][2])
         if hint:
             notes.append(hint)
-    fitted = _model_hz(material, section, model, measurements, e, g)
-    residuals = tuple(_cents(p, f) for p, (_, _, f) in zip(fitted, measurements, strict=True))
     return ModuliFit(modulus=e, shear_modulus=g, table_modulus=e0, table_shear_modulus=g0, shear=how,
                      measurements=measurements, table_hz=tuple(table), residuals_cents=residuals,
                      shear_error=g_err, notes=tuple(notes))
+
+
+def _diagnosis(measurements, material, section, model):
+    """What to do about partials no uniform piece fits: an undercut bar, a misread partial, or else."""
+    by_length = {}
+    for length, mode, f in measurements:
+        by_length.setdefault(length, {})[mode] = f
+    for length, modes in by_length.items():
+        if 1 in modes and 2 in modes and modes[2] / modes[1] > FREE_FREE_RATIO_2 * 1.03:
+            return (f"the {length * 1000:.1f} mm piece has f2/f1 = {modes[2] / modes[1]:.2f}, which no uniform bar gives "
+                    f"(at most {FREE_FREE_RATIO_2:.2f}); an undercut or tuned bar gives this: calibrate from a uniform "
+                    "blank (a plain bar of the same board, before undercutting)")
+    if len(measurements) >= 3:
+        for k, (length, mode, f) in enumerate(measurements):
+            rest = measurements[:k] + measurements[k + 1:]
+            e0, g0 = material.modulus_for(model), material.shear_modulus_for(model)
+            table = _model_hz(material, section, model, rest, e0, g0)
+            logs = [math.log(m / p) for (_, _, m), p in zip(rest, table, strict=True)]
+            mean = sum(logs) / len(logs)
+            if max(abs(x - mean) for x in logs) * 1200 / math.log(2) < RESIDUAL_LIMIT_CENTS:
+                return (f"partial {mode} of the {length * 1000:.1f} mm piece ({f:.1f} Hz) looks misread (the others "
+                        "agree without it): check that the partials are listed in mode order and are bending "
+                        "partials (not twisting or sideways ones), or leave it out")
+    return ("no uniform piece of this section and length sounds these partials: check the length, the section and "
+            "that the partials are in mode order; calibrate from a uniform blank")
+
+
+def recorded_modes(partials, fundamental, ratios, tolerance=0.06):
+    """((mode, frequency [Hz]), ...) of a recording's strong partials, matched to a uniform piece's
+    ratios ``ratios`` (f_n / f_1, 1.0 first) on ``fundamental`` [Hz], and the frequencies that
+    match no mode.
+
+    Raises CalibrationError when strong partials above the fundamental fit no mode while mode 2
+    is missing: the piece is not uniform (an undercut bar), so a fit would drop them silently.
+    """
+    found, unexplained = {1: float(fundamental)}, []
+    for f in sorted(partials):
+        if abs(f / fundamental - 1) < 1e-9:
+            continue
+        n = min(range(len(ratios)), key=lambda k: abs(math.log(f / (fundamental * ratios[k]))))
+        if abs(f / (fundamental * ratios[n]) - 1) <= tolerance and n > 0 and n + 1 not in found:
+            found[n + 1] = float(f)
+        elif f > fundamental:
+            unexplained.append(float(f))
+    if unexplained and 2 not in found:
+        shown = ", ".join(f"{f:.1f} Hz ({f / fundamental:.2f} x f1)" for f in unexplained[:3])
+        raise CalibrationError(f"the recording's strong partials {shown} fit no partial of a uniform piece of this "
+                               f"section (expected {', '.join(f'{r:.2f}' for r in ratios[1:])} x f1): an undercut or "
+                               "tuned bar, or another piece ringing; calibrate from a uniform blank")
+    return tuple(sorted(found.items())), tuple(unexplained)
 
 
 def _shear_error(miss, log_e, log_g, count, step=1e-4):
@@ -253,6 +330,9 @@ def calibrated_moduli_toml(name, material, model, fit, source_text):
         'spread = "0 %" }',
         f"poisson = {material.poisson}",
     ]
+    if getattr(material, "material_class", None):
+        lines.append(f'class = "{material.material_class}"')
+    lines.append(f"fit_residual_cents = {max(abs(r) for r in fit.residuals_cents):.2f}")
     if fit.shear in ("fitted", "held"):
         where = "cutplan calibrate, fitted with E" if fit.shear == "fitted" else "earlier calibration, held"
         lines.append(f'shear_modulus = {{ value = "{fit.shear_modulus / 1e9:.6f} GPa", kind = "measured", '

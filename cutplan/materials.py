@@ -28,7 +28,8 @@ WOOD_BENDING_TO_TRUE_MODULUS = 1.10
 modulus E_L [-]. USDA FPL Wood Handbook, FPL-GTR-190, 2010, Table 5-3a footnote (from memory:
 "increase by about 10 %")."""
 
-_MATERIAL_KEYS = {"description", "modulus", "density", "poisson", "shear_modulus", "shear_ratio", "class", "unusual"}
+_MATERIAL_KEYS = {"description", "modulus", "density", "poisson", "shear_modulus", "shear_ratio", "class", "unusual",
+                  "fit_residual_cents"}
 _VALUE_KEYS = {"value", "source", "where", "kind", "spread", "basis"}
 _STOCK_HEADER_KEYS = {"standard", "source", "where", "kind", "shape", "material", "bore", "wall_factor"}
 _STOCK_KEYS = {"description", "outer", "wall", "inner", "outer_tolerance", "wall_tolerance", "material",
@@ -75,6 +76,7 @@ class Material:
     provenance: tuple = field(default=(), compare=False)
     material_class: str | None = None
     unusual: bool = False
+    fit_residual_cents: float | None = None
 
     def modulus_for(self, model):
         """E [Pa] to use with ``model`` ("timoshenko" or "slender"); see the woods.toml header."""
@@ -208,8 +210,13 @@ def material_from_table(name, table, path="(inline)", sources=None):
     if basis not in ("dynamic", "static-bending"):
         raise MaterialError(path, f"{name}.modulus.basis", basis, "must be dynamic or static-bending")
     material_class, unusual = _class_of(path, name, table)
+    residual = table.get("fit_residual_cents")
+    if residual is not None and (isinstance(residual, bool) or not isinstance(residual, (int, float)) or residual < 0):
+        raise MaterialError(path, f"{name}.fit_residual_cents", residual,
+                            "must be a number of cents, 0 or more (the largest miss of a calibration's fit)")
     return Material(
         material_class=material_class, unusual=unusual,
+        fit_residual_cents=None if residual is None else float(residual),
         name=name, modulus=modulus, density=density, poisson=poisson,
         description=str(table.get("description", "")), shear_modulus=shear, shear_ratio=shear_ratio,
         modulus_basis=basis, modulus_spread=s_mod, density_spread=s_den, provenance=tuple(provs),

@@ -23,6 +23,28 @@ CLASS_RANGES = {
 ANY_RANGE = ((0.1e9, 450e9), (150.0, 22000.0))
 """Range for a material of unknown class: the union of the classes."""
 
+SHEAR_RATIO_RANGES = {
+    # class: (E / G low, high) [-]
+    "metal": (2.0, 3.2),
+    "wood": (5.0, 40.0),
+    "plastic": (2.0, 3.2),
+    "glass": (2.0, 3.2),
+}
+"""Plausible E / G by class.  Isotropic solids have E / G = 2 (1 + nu), 2.4 to 2.9 for Poisson's
+ratios 0.2 to 0.45 (Timoshenko & Goodier, Theory of Elasticity, 3rd ed., 1970, ch. 1, from
+memory), with room either side; along the grain of wood G_LR / E_L is 0.05 to 0.11, E / G of 9 to 20
+(USDA FPL Wood Handbook, FPL-GTR-190, 2010, Table 5-1), with room for boards and species outside
+it (common practice)."""
+
+ANY_SHEAR_RATIO = (2.0, 40.0)
+"""E / G plausible for a material of unknown class: the union of the classes."""
+
+FIT_RESIDUAL_LIMIT_CENTS = 15.0
+"""Largest miss of any partial in the fit a calibrated material came from [cents].  A uniform
+piece read with a tuner or from a clean recording fits to a few cents with the shear-corrected
+model; a miss beyond this means the piece was not uniform (undercut), a partial was misread, or
+the length or section was wrong, and the material would mis-cut every piece (common practice)."""
+
 
 def modulus_range(material_class=None):
     """(low, high) Young's modulus [Pa] plausible for a class ("metal", "wood", ...) or any.
@@ -38,7 +60,16 @@ def density_range(material_class=None):
     return CLASS_RANGES.get(material_class, ANY_RANGE)[1]
 
 
-def problems(modulus, density, material_class=None):
+def shear_ratio_range(material_class=None):
+    """(low, high) E / G [-] plausible for a class, or for any material.
+
+    >>> shear_ratio_range("wood")
+    (5.0, 40.0)
+    """
+    return SHEAR_RATIO_RANGES.get(material_class, ANY_SHEAR_RATIO)
+
+
+def problems(modulus, density, material_class=None, shear_modulus=None):
     """Lines saying which of ``modulus`` [Pa] and ``density`` [kg/m^3] is implausible (empty: fine).
 
     >>> problems(68.9e6, 2700.0, "metal")
@@ -56,6 +87,11 @@ def problems(modulus, density, material_class=None):
         slip = "kg/m3, not g/cm3" if density > hi else "g/cm3, not kg/m3"
         out.append(f"density {density:.4g} kg/m3 is outside {lo:g}-{hi:g} kg/m3, plausible for {what} "
                    f"(a unit slip? {slip})")
+    if shear_modulus:
+        lo, hi = shear_ratio_range(material_class)
+        if not lo <= modulus / shear_modulus <= hi:
+            out.append(f"E/G {modulus / shear_modulus:.3g} (shear modulus {shear_modulus / 1e9:.3g} GPa) is outside "
+                       f"{lo:g}-{hi:g}, plausible for {what}")
     return out
 
 
@@ -63,4 +99,11 @@ def material_problems(material):
     """:func:`problems` for a Material, honouring its class and ``unusual`` flag (empty: fine)."""
     if getattr(material, "unusual", False):
         return []
-    return problems(material.modulus, material.density, getattr(material, "material_class", None))
+    shear = material.shear_modulus or (material.shear_ratio and material.shear_ratio * material.modulus) or None
+    out = problems(material.modulus, material.density, getattr(material, "material_class", None), shear)
+    residual = getattr(material, "fit_residual_cents", None)
+    if residual is not None and residual > FIT_RESIDUAL_LIMIT_CENTS:
+        out.append(f"fit_residual_cents {residual:g}: it was calibrated from partials that miss its fit by more than "
+                   f"{FIT_RESIDUAL_LIMIT_CENTS:g} cents (not a uniform test piece, or a misread partial); calibrate "
+                   "again from a uniform blank")
+    return out

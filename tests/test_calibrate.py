@@ -64,10 +64,12 @@ def test_air_column_fit_recovers_speed_and_end_correction():
     assert fit.end_correction == pytest.approx(delta, rel=1e-6)
 
 
-def test_one_resonance_example_from_the_issue():
-    # a closed column 0.190 m deep resonating at 426.7 Hz with no end correction implies 324.3 m/s
-    fit = fit_air_column([(0.190, 426.7, 1)], "closed-open", end_correction=0.0)
-    assert fit.speed == pytest.approx(324.3, abs=0.05)
+def test_one_resonance_gives_the_speed_of_sound():
+    # closed-open formula f = c / (4 L) (Fletcher & Rossing, The Physics of Musical Instruments, 2nd
+    # ed. 1998, ch. 8, chapter from memory): a closed column 0.185 m deep resonating at 463.8 Hz with
+    # no end correction implies c = 4 x 0.185 x 463.8 = 343.21 m/s
+    fit = fit_air_column([(0.185, 463.8, 1)], "closed-open", end_correction=0.0)
+    assert fit.speed == pytest.approx(343.21, abs=0.005)
 
 
 class _Piece:
@@ -182,15 +184,15 @@ def test_calibrate_command_for_air_columns():
     # A worked example of our own, computed from the closed-open formula f = c / (4 L)
     # (Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed. 1998, ch. 8, chapter from
     # memory):
-    # 0.190 m closed column at 426.7 Hz, no end correction -> 324.3 m/s
-    one = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--piece", "190 mm @ 426.7", "--fit", "speed"])
-    assert one.exit_code == 0 and "324.3 m/s" in one.output
+    # 0.185 m closed column at 463.8 Hz, no end correction -> c = 4 x 0.185 x 463.8 = 343.2 m/s
+    one = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--piece", "185 mm @ 463.8", "--fit", "speed"])
+    assert one.exit_code == 0 and "343.2 m/s" in one.output
     # standard lab method (L2 - L1 = lambda/2 from the same closed-open formula; a worked example
     # of our own, computed): c = 2 f (L2 - L1) = 2 x 512 x 0.335 = 343.0 m/s,
     # end correction (L2 - 3 L1) / 2 = 7.5 mm
     two = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--two-resonance", "160 mm, 495 mm @ 512"])
     assert two.exit_code == 0 and "343.0 m/s" in two.output and "7.5 mm" in two.output
-    both = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--fit", "both", "--piece", "190 mm @ 426.7"])
+    both = CliRunner().invoke(cli, ["calibrate", "--kind", "air-column", "--fit", "both", "--piece", "185 mm @ 463.8"])
     assert both.exit_code == 2 and "two or more different lengths" in both.output
 
 

@@ -1,18 +1,13 @@
-"""Find the partials of a struck piece in a recording and name its fundamental.
+"""Name the fundamental of a struck piece from its partials, weighing the kinds' patterns.
 
-Method: the recording is made mono, its loudest stretch after the strike is taken, weighted
-with a Hann window, zero-padded eight times and transformed; each spectral peak is located to
-a fraction of a bin by fitting a parabola to the log magnitude of the three highest samples
-(for a Hann-windowed sinusoid the log-magnitude peak is nearly parabolic).  The fundamental is
-then chosen as the candidate whose predicted pattern of partials (free-free 1 : 2.756 : 5.404 :
-8.933, with room for shear lowering the upper ones; odd harmonics for a closed column; all
-harmonics for an open one) explains the most spectral energy, so a weak or missing fundamental
-is still named right.
-
-References
-----------
-.. [1] Smith, J. O., Spectral Audio Signal Processing, W3K Publishing, 2011, "Quadratic
-   Interpolation of Spectral Peaks" (from memory for the section title).
+The partials come from :func:`cutplan.audio.partials.find_partials` (every strong partial, with
+level and decay).  Each kind of piece has its own pattern of partials (below); every pattern is
+tried on every plausible fundamental and the readings are ranked by how much of the sound they
+explain, how complete the pattern is, and whether the fundamental itself is in the recording.
+A reading whose fundamental is not in the recording is only taken when it explains two or more
+partials, and is then reported as estimated, with a warning; so is a reading that another, with
+a different fundamental, nearly matches (low confidence).  ``--kind`` narrows the patterns tried;
+``--near`` the fundamentals.
 """
 
 from __future__ import annotations
@@ -20,202 +15,216 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-import numpy as np
-
+from cutplan.audio.partials import Partial, find_partials
 from cutplan.audio.wav import RecordingError
 
 PATTERNS = {
-    # ratios of partials to the fundamental, and how far each may fall below its nominal value
-    "chime": ((1.0, 2.7565, 5.4039, 8.9330, 13.3443), 0.25),
-    "bar": ((1.0, 2.7565, 5.4039, 8.9330, 13.3443), 0.30),
-    "tuned-bar": ((1.0, 4.0, 10.0), 0.04),
-    "xylophone-bar": ((1.0, 3.0, 6.0), 0.04),
-    "closed-open": ((1.0, 3.0, 5.0, 7.0, 9.0), 0.04),
-    "open-open": ((1.0, 2.0, 3.0, 4.0, 5.0, 6.0), 0.04),
+    # ratios of partials to the fundamental, and how far the highest listed may fall below nominal
+    "free-free": ((1.0, 2.7565, 5.4039, 8.9330, 13.3443, 18.6380), 0.30),
+    "chime": ((1.0, 2.7565, 5.4039, 8.9330, 13.3443, 18.6380), 0.30),
+    "bar": ((1.0, 2.7565, 5.4039, 8.9330, 13.3443, 18.6380), 0.30),
+    "tuned-bar": ((1.0, 4.0, 10.0), 0.12),
+    "xylophone-bar": ((1.0, 3.0, 6.0), 0.12),
+    "open-open": ((1.0, 2.0, 3.0, 4.0, 5.0, 6.0, 7.0, 8.0), 0.04),
+    "closed-open": ((1.0, 3.0, 5.0, 7.0, 9.0, 11.0), 0.04),
 }
-"""Partial patterns by kind: nominal ratios (Euler-Bernoulli free-free ratios 1 : 2.756 : 5.404 :
-8.933, Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed., 1998, ch. 2 (from memory
-for the chapter); tuned bars 1:4:10 and 1:3:6, the same book's chapter on bars (from memory);
-odd and all harmonics for closed and open air columns) and the
-largest fractional drop allowed for the highest listed partial (shear lowers the upper free-free
-partials of real pieces; common practice from our solver's range of pieces)."""
+"""Partial patterns by kind: nominal ratios and the largest fractional drop allowed for the highest
+listed partial.  Free-free bars and tubes 1 : 2.756 : 5.404 : 8.933 : 13.34 : 18.64, the squares of
+the roots of cos x cosh x = 1 over the first (Euler-Bernoulli; Fletcher & Rossing, The Physics of
+Musical Instruments, 2nd ed., 1998, ch. 2, from memory for the chapter); shear lowers the upper
+partials of real pieces by up to about 30 % (common practice, from our solver's range of pieces).
+Tuned (marimba) bars 1 : 4 : 10 and xylophone bars 1 : 3 : 6 (same book, the chapter on bars, from
+memory); undercut bars at the bench miss the upper targets by several percent (common practice).
+Open air columns all harmonics, closed ones the odd harmonics (same book, ch. 8, from memory)."""
 
-MIN_SECONDS = 0.05
-"""Shortest recording measured [s]."""
-PEAK_PROMINENCE_DB = 25.0
-"""How far a partial must rise above the median spectral level [dB]; white noise peaks reach
-about 12 dB, a ringing partial 40 dB or more."""
-LOCAL_PROMINENCE_DB = 20.0
-"""How far a partial must rise above the median level of its own third-octave band [dB]: a
-click or a thump has a broad spectrum whose ripples stand out from the whole spectrum's median
-but not from their neighbours (common practice for telling tones from transients)."""
+KIND_PATTERNS = {
+    "any": ("free-free", "tuned-bar", "xylophone-bar", "open-open", "closed-open"),
+    "chime": ("chime",),
+    "bar": ("bar", "tuned-bar", "xylophone-bar"),
+    "tuned-bar": ("tuned-bar",),
+    "xylophone-bar": ("xylophone-bar",),
+    "air-column": ("open-open", "closed-open"),
+    "open-open": ("open-open",),
+    "closed-open": ("closed-open",),
+    "resonator": ("closed-open",),
+}
+"""Which patterns each ``--kind`` tries."""
+
+MATCH_TOLERANCE = 0.015
+"""How far a partial may lie above (and, beyond the allowed drop, below) its pattern's ratio [-]
+(a quarter of a semitone; common practice)."""
+ABSENT_FACTOR = 0.6
+"""Weight of a reading whose fundamental is not in the recording [-] (common practice: a struck
+piece almost always sounds its fundamental; prefer readings that hear it)."""
+LOW_CONFIDENCE = 0.5
+"""Below this confidence the reading is reported with a warning [-]."""
 MIN_FUNDAMENTAL_HZ = 20.0
 """Lowest fundamental reported [Hz]; anything lower is not a piece ringing."""
 
 
-def _band_floor(mag, bin_hz, f_min):
-    """Median level [dB] of the third-octave band each bin lies in."""
-    floor = np.full(mag.size, np.inf)
-    lo = f_min
-    while lo < mag.size * bin_hz:
-        a, b = int(lo / bin_hz), min(mag.size, int(lo * 2 ** (1 / 3) / bin_hz) + 1)
-        if b > a:
-            floor[a:b] = np.median(mag[a:b])
-        lo *= 2 ** (1 / 3)
-    return floor
+@dataclass(frozen=True)
+class Reading:
+    """One hypothesis: a pattern on a fundamental [Hz], its score 0..1, whether the fundamental
+    is in the recording, and ((partial index, mode), ...) it explains."""
+
+    pattern: str
+    fundamental_hz: float
+    score: float
+    heard: bool
+    modes: tuple
 
 
 @dataclass(frozen=True)
 class Measurement:
-    """What a recording says: fundamental [Hz], partials [Hz], confidence 0..1, kind pattern used."""
+    """What a recording says: the fundamental [Hz], every strong partial, the confidence 0..1,
+    the pattern used, whether the fundamental was heard, each partial's mode in that pattern
+    (None: not explained), the ranked readings and the warnings for the builder."""
 
     fundamental_hz: float
     partials_hz: tuple
     confidence: float
     pattern: str
     fundamental_heard: bool
+    partials: tuple = ()
+    modes: tuple = ()
+    readings: tuple = ()
+    warnings: tuple = ()
 
 
-def _segment(samples, rate):
-    """The part of the recording from just before the loudest moment, at most 8 s."""
-    x = np.asarray(samples, dtype=np.float64)
-    x = x - x.mean()
-    if x.size < MIN_SECONDS * rate:
-        raise RecordingError(f"the recording is {x.size / rate:.3f} s long; at least {MIN_SECONDS} s is needed")
-    peak = float(np.max(np.abs(x)))
-    if peak < 1e-4:
-        raise RecordingError("the recording is silent; strike the piece nearer the microphone")
-    clipped = np.mean(np.abs(x) > 0.999 * peak)
-    if peak > 0.99 and clipped > 0.2:
-        raise RecordingError("the recording is clipped throughout; record at a lower level")
-    hop = max(1, int(0.01 * rate))
-    energy = np.convolve(x * x, np.ones(hop), mode="same")
-    start = max(0, int(np.argmax(energy)) - hop)
-    end = min(x.size, start + int(8 * rate))
-    seg = x[start:end]
-    if seg.size < MIN_SECONDS * rate:
-        seg = x[-int(MIN_SECONDS * rate):]
-    return seg
+def _window(ratios, drop, k):
+    """(low, high) multiple of the fundamental where mode k + 1 of a pattern may lie."""
+    allowed = drop * (k / (len(ratios) - 1)) if len(ratios) > 1 else 0.0
+    return ratios[k] * (1 - allowed - MATCH_TOLERANCE), ratios[k] * (1 + MATCH_TOLERANCE)
 
 
-def spectrum_peaks(samples, rate, max_peaks=16, f_min=20.0):
-    """Spectral peaks [(frequency Hz, magnitude dB)] sorted by frequency, interpolated."""
-    seg = _segment(samples, rate)
-    n = seg.size
-    size = 1 << int(math.ceil(math.log2(n * 8)))
-    window = np.hanning(n)
-    spec = np.abs(np.fft.rfft(seg * window, size))
-    mag = 20 * np.log10(spec + 1e-300)
-    floor = float(np.median(mag[(np.arange(mag.size) * rate / size) > f_min]))
-    bin_hz = rate / size
-    lo = max(1, int(f_min / bin_hz))
-    local = (mag[lo:-1] > mag[lo - 1:-2]) & (mag[lo:-1] >= mag[lo + 1:])
-    idx = np.flatnonzero(local) + lo
-    idx = idx[mag[idx] > floor + PEAK_PROMINENCE_DB]
-    idx = idx[mag[idx] > _band_floor(mag, bin_hz, f_min)[idx] + LOCAL_PROMINENCE_DB]
-    if idx.size == 0:
-        raise RecordingError("no clear partials: the recording sounds like noise or hum, not a ringing piece")
-    # keep the strongest, at least 1/3 semitone apart (zero padding gives many small side maxima)
-    order = idx[np.argsort(-mag[idx])]
-    kept = []
-    for i in order:
-        f = i * bin_hz
-        if all(abs(math.log2(f / (k * bin_hz))) > 1 / 36 for k in kept):
-            kept.append(i)
-        if len(kept) >= max_peaks:
+def _reading(name, ratios, drop, f1, partials, heard_index=None):
+    """Score the pattern on fundamental ``f1``: share of the sound explained, completeness, heard."""
+    amps = [10 ** (p.level_db / 20) for p in partials]
+    used, modes = set(), []
+    top_hz = max(p.hz for p in partials) * 1.02
+    predicted = 0
+    for k in range(len(ratios)):
+        lo, hi = _window(ratios, drop, k)
+        if f1 * lo > top_hz:
             break
-    peaks = []
-    for i in kept:
-        a, b, c = mag[i - 1], mag[i], mag[i + 1]
-        denom = a - 2 * b + c
-        delta = 0.5 * (a - c) / denom if denom != 0 else 0.0
-        peaks.append(((i + delta) * bin_hz, b - 0.25 * (a - c) * delta))
-    top = max(m for _, m in peaks)
-    peaks = [(f, m) for f, m in peaks if m > top - 60]
-    return sorted(peaks), floor
-
-
-def _score(candidate, peaks, ratios, drop):
-    """Energy-weighted share of the peaks explained by the pattern on ``candidate``."""
-    weights = [10 ** (m / 20) for _, m in peaks]
-    total = sum(weights)
-    explained, matched = 0.0, []
-    for k, r in enumerate(ratios):
-        allowed = drop * (k / (len(ratios) - 1)) if len(ratios) > 1 else 0
-        lo, hi = candidate * r * (1 - allowed - 0.015), candidate * r * 1.015
-        hits = [(w, f) for (f, _), w in zip(peaks, weights, strict=True) if lo <= f <= hi]
+        predicted += 1
+        if k == 0 and heard_index is not None:
+            hits = [heard_index]
+        else:
+            hits = [i for i, p in enumerate(partials) if f1 * lo <= p.hz <= f1 * hi and i not in used]
         if hits:
-            w, f = max(hits)
-            explained += w
-            matched.append((k, f))
-    return explained / total, matched
+            i = max(hits, key=amps.__getitem__)
+            used.add(i)
+            modes.append((i, k + 1))
+    heard = any(m == 1 for _, m in modes)
+    share = sum(amps[i] for i, _ in modes) / sum(amps)
+    completeness = len(modes) / max(predicted, 1)
+    score = share * (0.7 + 0.3 * completeness) * (1.0 if heard else ABSENT_FACTOR)
+    return Reading(name, f1, score, heard, tuple(sorted(modes)))
 
 
-def identify(peaks, kind="chime", near=None, ratios=None):
-    """Choose the fundamental from the peaks for a kind's pattern; returns a Measurement.
-
-    ``ratios``, if given, are the partial ratios expected for this very piece (for instance the
-    planned partials of a cut piece); they replace the kind's nominal pattern, so that a missing
-    fundamental is estimated from the right ratio.
-    """
-    if ratios is not None:
-        return _identify(peaks, ["planned"], {"planned": (tuple(ratios), 0.03)}, near)
-    names = {"chime": ["chime"], "bar": ["bar", "tuned-bar", "xylophone-bar"],
-             "air-column": ["open-open", "closed-open"], "open-open": ["open-open"],
-             "closed-open": ["closed-open"], "resonator": ["closed-open"]}.get(kind, [kind])
-    return _identify(peaks, names, PATTERNS, near)
-
-
-def _identify(peaks, names, patterns, near):
-    best = None
+def readings(partials, names, patterns=PATTERNS, near=None):
+    """Every reading of the partials by the named patterns, best first (see the module docstring)."""
+    out = []
     for name in names:
         ratios, drop = patterns[name]
-        cands = set()
-        for f, _ in peaks:
-            for k, r in enumerate(ratios[:4]):
-                allowed = drop * (k / (len(ratios) - 1)) if len(ratios) > 1 else 0
-                for shrink in (0.0, allowed / 2, allowed):
-                    cands.add(f / (r * (1 - shrink)))
-        for cand in sorted(cands):
-            if near is not None and abs(math.log2(cand / near)) > 0.5:
-                continue
-            share, matched = _score(cand, peaks, ratios, drop)
-            heard = any(k == 0 for k, _ in matched)
-            count = len(matched)
-            # prefer: more energy explained, more partials matched, a heard fundamental, lower f
-            key = (round(share, 3), count, heard, -cand)
-            if count >= (1 if len(peaks) == 1 else 2) or (heard and len(peaks) == 1):
-                if best is None or key > best[0]:
-                    best = (key, cand, matched, name, share)
-    if best is None:
-        # a single clean peak (or nothing fits the pattern): call the strongest peak the fundamental
-        usable = [p for p in peaks if near is None or abs(math.log2(p[0] / near)) <= 0.5]
-        if not usable:
-            raise RecordingError(f"no partial within half an octave of {near:.1f} Hz (--near); "
-                                 "is this the right piece and note?")
-        f, _ = max(usable, key=lambda p: p[1])
-        return Measurement(float(f), tuple(float(p[0]) for p in peaks), 0.3, names[0], True)
-    _, cand, matched, name, share = best
-    exact = [f for k, f in matched if k == 0]
-    ratios = patterns[name][0]
-    if exact:
-        fundamental = exact[0]
-        heard = True
+        for i, p in enumerate(partials):
+            if near is None or abs(math.log2(p.hz / near)) <= 0.5:
+                out.append(_reading(name, ratios, drop, p.hz, partials, heard_index=i))
+            for k in range(1, min(len(ratios), 4)):
+                lo, hi = _window(ratios, drop, k)
+                for mult in sorted({ratios[k], (lo + hi) / 2, lo + MATCH_TOLERANCE * ratios[k]}):
+                    f1 = p.hz / mult
+                    if near is not None and abs(math.log2(f1 / near)) > 0.5:
+                        continue
+                    r = _reading(name, ratios, drop, f1, partials)
+                    if not r.heard and len(r.modes) >= 2:
+                        out.append(r)
+    out.sort(key=lambda r: (-r.score, not r.heard, r.fundamental_hz))
+    return out
+
+
+def _fundamental(reading, partials, ratios):
+    """The reading's fundamental [Hz]: the partial heard, or the lowest explained over its ratio."""
+    for i, mode in reading.modes:
+        if mode == 1:
+            return partials[i].hz, None
+    i, mode = min(reading.modes, key=lambda im: im[1])
+    return partials[i].hz / ratios[mode - 1], (i, mode)
+
+
+def _describe(reading, f1):
+    from cutplan.pitch import nearest_note
+
+    name, off = nearest_note(f1, 440.0)
+    return f"{f1:.1f} Hz ({name} {off:+.0f} cents) as {reading.pattern}"
+
+
+def identify(partials, kind="any", near=None, ratios=None):
+    """Choose the fundamental from the partials; returns a :class:`Measurement`.
+
+    ``ratios``, if given, are the partial ratios expected for this very piece (for instance the
+    planned partials of a cut piece); they replace the kind's patterns, so that a missing
+    fundamental is estimated from the right ratio.
+
+    Examples
+    --------
+    A struck undercut bar of our own at D5, partials 1 : 3.93 : 9.1, reads as a tuned bar:
+
+    >>> from cutplan.audio.partials import Partial
+    >>> m = identify([Partial(587.3, 0.0, 1.5), Partial(2308.1, -6.0, 0.4), Partial(5344.4, -6.0, 0.15)])
+    >>> round(m.fundamental_hz, 1), m.pattern, m.modes
+    (587.3, 'tuned-bar', (1, 2, 3))
+    """
+    partials = tuple(p if isinstance(p, Partial) else Partial(float(p[0]), float(p[1]), None) for p in partials)
+    if ratios is not None:
+        patterns, names = {"planned": (tuple(float(r) for r in ratios), 0.03)}, ["planned"]
     else:
-        # estimate from the lowest matched partial, using the measured ratio pattern's nominal value
-        k, f = min(matched)
-        fundamental = f / ratios[k]
-        heard = False
-    if fundamental < MIN_FUNDAMENTAL_HZ or (near is not None and abs(math.log2(fundamental / near)) > 0.5):
-        where = f"within half an octave of {near:.1f} Hz" if near is not None else f"above {MIN_FUNDAMENTAL_HZ:g} Hz"
-        raise RecordingError(f"no tonal fundamental {where}: the recording sounds like a click or thump; "
-                             "strike the piece and let it ring")
-    confidence = max(0.0, min(1.0, share * (len(matched) / min(len(ratios), 4)) ** 0.5 * (1.0 if heard else 0.7)))
-    return Measurement(float(fundamental), tuple(float(f) for _, f in sorted(matched)),
-                       round(float(confidence), 2), name, heard)
+        patterns, names = PATTERNS, KIND_PATTERNS.get(kind, (kind,))
+    ranked = readings(partials, names, patterns, near)
+    if not ranked:
+        strongest = ", ".join(f"{p.hz:.1f}" for p in sorted(partials, key=lambda p: -p.level_db)[:4])
+        unconstrained = readings(partials, names, patterns)
+        said = ""
+        if unconstrained:
+            top = unconstrained[0]
+            said = f"; they read as {_describe(top, _fundamental(top, partials, patterns[top.pattern][0])[0])}"
+        asked = f"the expected {near:.1f} Hz" if ratios is not None else f"{near:.1f} Hz (--near)"
+        raise RecordingError(f"no partial within half an octave of {asked}; the recording's strongest "
+                             f"partials are {strongest} Hz{said}: is this the right piece?")
+    best = ranked[0]
+    pattern_ratios = patterns[best.pattern][0]
+    f1, estimated_from = _fundamental(best, partials, pattern_ratios)
+    if f1 < MIN_FUNDAMENTAL_HZ:
+        raise RecordingError(f"no tonal fundamental above {MIN_FUNDAMENTAL_HZ:g} Hz: strike the piece and let it ring")
+    rivals = []
+    for r in ranked[1:]:
+        f_r = _fundamental(r, partials, patterns[r.pattern][0])[0]
+        if all(abs(1200 * math.log2(f_r / g)) > 50 for g in [f1] + [g for _, g in rivals]):
+            rivals.append((r, f_r))
+    runner = rivals[0][0].score if rivals else 0.0
+    confidence = round(max(0.0, min(1.0, best.score * (1 - 0.5 * runner / best.score))), 2)
+    warnings = []
+    if estimated_from is not None:
+        i, mode = estimated_from
+        warnings.append(f"the fundamental ({f1:.1f} Hz, {best.pattern}) is not in the recording: estimated from "
+                        f"partial {mode} at {partials[i].hz:.1f} Hz; strike the piece again (away from a node of "
+                        "mode 1), or give --kind and --near to confirm")
+    if confidence < LOW_CONFIDENCE:
+        others = "; ".join(_describe(r, f_r) for r, f_r in rivals[:2])
+        warnings.append(f"low confidence ({confidence:.2f}): " + (f"other readings fit nearly as well ({others}); "
+                        if others else "few partials fit the pattern; ") + "give --kind and --near to choose")
+    modes = dict(best.modes)
+    left = len(partials) - len(modes)
+    if left and kind != "any" and ratios is None:
+        warnings.append(f"{left} of the {len(partials)} strong partials fit no {kind} pattern: if this is another kind "
+                        "of piece, give that --kind (or --kind any)")
+    return Measurement(float(f1), tuple(p.hz for p in partials), confidence, best.pattern, estimated_from is None,
+                       partials, tuple(modes.get(i) for i in range(len(partials))), tuple(ranked[:5]),
+                       tuple(warnings))
 
 
-def measure(samples, rate, kind="chime", near=None, ratios=None):
+def measure(samples, rate, kind="any", near=None, ratios=None):
     """Fundamental and partials of a struck piece from its samples (see :func:`identify`).
 
     Numeric warnings stay inside; a recording with no tonal peak, or none near ``near`` [Hz],
@@ -223,5 +232,5 @@ def measure(samples, rate, kind="chime", near=None, ratios=None):
     """
     from cutplan.numeric import quiet
 
-    peaks, _floor = quiet(spectrum_peaks, samples, rate)
-    return quiet(identify, peaks, kind, near, ratios)
+    partials = quiet(find_partials, samples, rate)
+    return quiet(identify, partials, kind, near, ratios)

@@ -12,7 +12,7 @@ import sys
 import click
 
 from cutplan import __version__
-from cutplan.cli import examples, from_stock, pieces, plans, serve, shop
+from cutplan.cli import examples, from_stock, measure, pieces, plans, serve, shop
 
 
 class OneLineGroup(click.Group):
@@ -50,7 +50,7 @@ def cli():
 
 
 for _command in (plans.plan_command, plans.cutlist_command, pieces.scale_command, pieces.materials_command,
-                 pieces.length_command, pieces.new_command, shop.measure_command, shop.calibrate_command,
+                 pieces.length_command, pieces.new_command, measure.measure_command, shop.calibrate_command,
                  shop.trim_command, shop.listen_command, serve.serve_command):
     cli.add_command(_command)
 cli.add_command(from_stock.from_stock_command)

@@ -20,70 +20,7 @@ from cutplan.cli.common import (
     write_file,
     write_folder,
 )
-
-MEASURE_KINDS = ["chime", "bar", "air-column", "open-open", "closed-open"]
-
-
-def _measure_file(recording, kind, near_hz, ratios=None):
-    """Measurement of a WAV file, or exit 2 with one line saying why it cannot be used."""
-    from cutplan.audio.analysis import measure
-    from cutplan.audio.wav import RecordingError, read_wav
-
-    try:
-        samples, rate = read_wav(recording)
-        return measure(samples, rate, kind, near_hz, ratios)
-    except RecordingError as exc:
-        fail(f"{recording}: {exc}")
-
-
-@click.command("measure")
-@click.argument("recording", required=False, type=click.Path(dir_okay=False))
-@click.option("--frequency", type=float, help="A frequency read from a tuner instead of a recording [Hz].")
-@click.option("--kind", type=click.Choice(MEASURE_KINDS), default="chime", show_default=True,
-              help="What was struck: sets the pattern of partials used to name the fundamental.")
-@click.option("--near", help='Expected note, e.g. "D5": only fundamentals within half an octave are considered.')
-@click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
-@click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text", show_default=True,
-              help="What to print.")
-def measure_command(recording, frequency, kind, near, a4, fmt):
-    """Measure the pitch and partials of a struck piece from a WAV recording.
-
-    \b
-    Examples:
-      cutplan measure porch-1.wav --near D5
-      cutplan measure pipe.wav --kind closed-open --format json
-      cutplan measure --frequency 583.1
-    """
-    import json
-
-    from cutplan import pitch
-
-    if (recording is None) == (frequency is None):
-        fail("measure: give a RECORDING or --frequency (one of them)")
-    if not 400 <= a4 <= 480:
-        fail(f"--a4: {a4} must be between 400 and 480 Hz")
-    near_hz = None
-    if near:
-        try:
-            near_hz = pitch.note_frequency(near, a4)
-        except pitch.PitchError as exc:
-            fail(f"--near: {exc.text!r} is not {exc.accepted}")
-    if frequency is not None:
-        if not 10 <= frequency <= 30000:
-            fail(f"--frequency: {frequency} must be between 10 and 30000 Hz")
-        fundamental, partials, confidence = frequency, [frequency], 1.0
-    else:
-        m = _measure_file(recording, kind, near_hz)
-        fundamental, partials, confidence = m.fundamental_hz, list(m.partials_hz), m.confidence
-    name, off = pitch.nearest_note(fundamental, a4)
-    if fmt == "json":
-        click.echo(json.dumps({"fundamental_hz": round(fundamental, 4), "note": name, "cents": off,
-                               "partials_hz": [round(f, 3) for f in partials], "confidence": confidence}))
-        return
-    click.echo(f"fundamental {fundamental:.3f} Hz = {name} {off:+.2f} cents (confidence {confidence:.2f})")
-    if len(partials) > 1:
-        click.echo("partials: " + ", ".join(f"{f:.1f}" for f in partials) + " Hz")
-
+from cutplan.cli.measure import _measure_file
 
 def _parse_pieces(texts, kind, near_hz=None):
     """[(length m, frequency Hz, harmonic)] from --piece "LENGTH @ FREQ-or-WAV [#N]"."""
@@ -156,18 +93,29 @@ def _parse_beam_pieces(texts, kind, partial_ratios):
 
 
 def _recorded_partials(recording, kind, ratios):
-    """((mode, Hz), ...) of a recording, the modes found with the planned ratios."""
-    from cutplan.audio.analysis import identify, spectrum_peaks
+    """((mode, Hz), ...) of a recording of a uniform test piece: every strong partial, each matched
+    to a mode of the table model (``ratios``); exit 2 when strong partials fit no mode."""
+    from cutplan.audio.analysis import measure
     from cutplan.audio.wav import RecordingError, read_wav
-    from cutplan.calibrate_moduli import partials_from_peaks
+    from cutplan.calibrate import CalibrationError
+    from cutplan.calibrate_moduli import recorded_modes
 
     try:
         samples, rate = read_wav(recording)
-        peaks, _floor = spectrum_peaks(samples, rate)
+        m = measure(samples, rate, kind, None, ratios)
     except RecordingError as exc:
         fail(f"{recording}: {exc}")
-    fundamental = identify(peaks, kind, None, ratios).fundamental_hz
-    return partials_from_peaks(peaks, fundamental, ratios)
+    if not m.fundamental_heard:
+        fail(f"{recording}: the fundamental is not in the recording (estimated {m.fundamental_hz:.1f} Hz); "
+             "strike the test piece again, away from a node of mode 1")
+    try:
+        found, unexplained = recorded_modes(m.partials_hz, m.fundamental_hz, ratios)
+    except CalibrationError as exc:
+        fail(f"{recording}: {exc}")
+    if unexplained:
+        click.echo(f"! {recording}: not used, fit no bending partial: "
+                   + ", ".join(f"{f:.1f} Hz" for f in unexplained) + " (twisting or sideways modes?)")
+    return found
 
 
 @click.command("calibrate")
@@ -197,14 +145,16 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
 
     \b
     With several partials of one piece (or pieces of several lengths) the stiffness E and the
-    shear modulus G are fitted separately; with one partial, E alone.
+    shear modulus G are fitted separately; with one partial, E alone. Test pieces must be
+    uniform (a bar before undercutting): a fit that misses any partial by more than 15 cents,
+    or gives E or E/G outside the material's class, is refused and nothing is written.
     \b
     Examples:
       cutplan calibrate --material aluminum-6063-t5 --stock al-1.000x0.065 \\
           --piece "503.9 mm @ 591.2" -o my-materials/al-tube.toml
       cutplan calibrate --kind bar --material maple-sugar --bar "50 mm x 22 mm" \\
-          --piece "420 mm @ 1180.0, 3105.5, 5702.0" -o my-materials/maple.toml
-      cutplan calibrate --kind air-column --stock pvc-sch40-1 --piece "190 mm @ 426.7" --fit speed
+          --piece "440 mm @ 495.8, 1300.3, 2383.5" -o my-materials/maple.toml
+      cutplan calibrate --kind air-column --stock pvc-sch40-1 --piece "185 mm @ 444.4" --fit speed
       cutplan calibrate --kind air-column --two-resonance "160 mm, 495 mm @ 512"
     """
     dirs = material_folders(materials_dirs, design_path)
@@ -224,14 +174,14 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
     mat, sec = spec.material, spec.section
 
     def ratios(length):
-        f = _partial_frequencies(mat, sec, model, mat.modulus_for(model), mat.shear_modulus_for(model), length, 4)
+        f = _partial_frequencies(mat, sec, model, mat.modulus_for(model), mat.shear_modulus_for(model), length, 6)
         return [x / f[0] for x in f]
 
     measured = _parse_beam_pieces(pieces, kind, ratios)
     try:
         fit = fit_moduli(measured, mat, sec, model)
     except CalibrationError as exc:
-        fail(f"calibrate: {exc}")
+        fail(f"--piece {'; '.join(pieces)}: {exc}; nothing written")
     lengths = sorted({length for length, _, _ in measured})
     click.echo(f"{len(lengths)} test piece(s), {len(measured)} partial(s) of {material}, {sec.describe()}, {model} model")
     for (length, mode, f), pred, res in zip(measured, fit.table_hz, fit.residuals_cents, strict=True):

@@ -256,7 +256,7 @@ def speed_from_resonance(frequency, length, correction=0.0):
 
     Examples
     --------
-    >>> round(speed_from_resonance(426.7, 0.190), 1)
-    324.3
+    >>> round(speed_from_resonance(463.8, 0.185), 1)
+    343.2
     """
     return 4.0 * (length + correction) * frequency

@@ -93,7 +93,9 @@ def test_cli_measure_json(tmp_path):
 
     data = json.loads(result.output)
     assert data["note"] == "D5" and abs(data["cents"]) < 0.5
-    assert set(data) == {"fundamental_hz", "note", "cents", "partials_hz", "confidence"}
+    assert set(data) == {"fundamental_hz", "note", "cents", "partials_hz", "confidence", "pattern",
+                         "fundamental_heard", "partials", "readings", "warnings"}
+    assert set(data["partials"][0]) == {"hz", "level_db", "decay_s", "mode"}
 
 
 def test_cli_measure_typed_frequency():

@@ -51,8 +51,8 @@ def test_closed_column_speed_from_one_resonance():
     # A worked example of our own, computed from the closed-open formula f = c / (4 L)
     # (Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed. 1998, ch. 8, chapter from
     # memory):
-    # 0.190 m closed column at 426.7 Hz, no end correction -> c = 4 x 426.7 x 0.190 = 324.3 m/s
-    assert ac.speed_from_resonance(426.7, 0.190) == pytest.approx(324.3, abs=0.05)
+    # 0.185 m closed column at 463.8 Hz, no end correction -> c = 4 x 463.8 x 0.185 = 343.21 m/s
+    assert ac.speed_from_resonance(463.8, 0.185) == pytest.approx(343.21, abs=0.005)
 
 
 def test_two_resonance_method_recovers_speed_and_end_correction():

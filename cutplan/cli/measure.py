@@ -1,0 +1,104 @@
+"""The ``measure`` command: every strong partial of a recording, and the fundamental named from them."""
+
+from __future__ import annotations
+
+import click
+
+from cutplan.cli.common import fail
+
+MEASURE_KINDS = ["any", "chime", "bar", "tuned-bar", "xylophone-bar", "air-column", "open-open", "closed-open"]
+
+
+def _measure_file(recording, kind, near_hz, ratios=None):
+    """Measurement of a WAV file, or exit 2 with one line saying why it cannot be used."""
+    from cutplan.audio.analysis import measure
+    from cutplan.audio.wav import RecordingError, read_wav
+
+    try:
+        samples, rate = read_wav(recording)
+        return measure(samples, rate, kind, near_hz, ratios)
+    except RecordingError as exc:
+        fail(f"{recording}: {exc}")
+
+
+@click.command("measure")
+@click.argument("recording", required=False, type=click.Path(dir_okay=False))
+@click.option("--frequency", type=float, help="A frequency read from a tuner instead of a recording [Hz].")
+@click.option("--kind", type=click.Choice(MEASURE_KINDS), default="any", show_default=True,
+              help="What was struck: the partial patterns tried when naming the fundamental (any: all of them; "
+                   "bar: plain, tuned and xylophone bars; air-column: open and closed).")
+@click.option("--near", help='Expected note, e.g. "D5": only fundamentals within half an octave are considered.')
+@click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
+@click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text", show_default=True,
+              help="What to print.")
+def measure_command(recording, frequency, kind, near, a4, fmt):
+    """Measure the pitch and partials of a struck piece from a WAV recording.
+
+    \b
+    Every partial within 30 dB of the strongest is listed with its level and decay time; the
+    fundamental is named from the partials in the sound, weighing the patterns of the kinds of
+    piece, and a doubtful reading says so.
+    \b
+    Examples:
+      cutplan measure porch-1.wav --near D5
+      cutplan measure pipe.wav --kind closed-open --format json
+      cutplan measure --frequency 583.1
+    """
+    import json
+
+    from cutplan import pitch
+
+    if (recording is None) == (frequency is None):
+        fail("measure: give a RECORDING or --frequency (one of them)")
+    if not 400 <= a4 <= 480:
+        fail(f"--a4: {a4} must be between 400 and 480 Hz")
+    near_hz = None
+    if near:
+        try:
+            near_hz = pitch.note_frequency(near, a4)
+        except pitch.PitchError as exc:
+            fail(f"--near: {exc.text!r} is not {exc.accepted}")
+    if frequency is not None:
+        if not 10 <= frequency <= 30000:
+            fail(f"--frequency: {frequency} must be between 10 and 30000 Hz")
+        from cutplan.audio.analysis import Measurement
+        from cutplan.audio.partials import Partial
+
+        m = Measurement(frequency, (frequency,), 1.0, "tuner", True, (Partial(frequency, 0.0, None),), (1,))
+    else:
+        m = _measure_file(recording, kind, near_hz)
+    name, off = pitch.nearest_note(m.fundamental_hz, a4)
+    if fmt == "json":
+        click.echo(json.dumps(_measurement_json(m, name, off, a4)))
+        return
+    click.echo(f"fundamental {m.fundamental_hz:.3f} Hz = {name} {off:+.2f} cents (confidence {m.confidence:.2f}"
+               + (f", {m.pattern} pattern)" if m.pattern != "tuner" else ")")
+               + ("" if m.fundamental_heard else " - estimated, not in the recording"))
+    if recording is not None:
+        click.echo("partials (level at the strike, decay time to 1/e, mode in that pattern):")
+        for p, mode in zip(m.partials, m.modes, strict=True):
+            decay = "rings on" if p.decay_s is None else f"{p.decay_s:6.3f} s"
+            click.echo(f"  {p.hz:10.2f} Hz  x{p.hz / m.fundamental_hz:6.3f}  {p.level_db:6.1f} dB  {decay:>9}  "
+                       + (f"mode {mode}" if mode else "not in the pattern"))
+    for line in m.warnings:
+        click.echo(f"! {line}")
+
+
+def _measurement_json(m, name, off, a4):
+    """The JSON record of a measurement (fundamental, every partial, the readings weighed, warnings)."""
+    from cutplan import pitch
+
+    def reading(r):
+        note, cents = pitch.nearest_note(r.fundamental_hz, a4)
+        return {"pattern": r.pattern, "fundamental_hz": round(r.fundamental_hz, 3), "note": note, "cents": cents,
+                "fundamental_heard": r.heard, "score": round(r.score, 3)}
+
+    return {"fundamental_hz": round(m.fundamental_hz, 4), "note": name, "cents": off,
+            "partials_hz": [round(f, 3) for f in m.partials_hz], "confidence": m.confidence,
+            "pattern": m.pattern, "fundamental_heard": m.fundamental_heard,
+            "partials": [{"hz": round(p.hz, 3), "level_db": p.level_db,
+                          "decay_s": None if p.decay_s is None else round(p.decay_s, 4), "mode": mode}
+                         for p, mode in zip(m.partials, m.modes, strict=True)],
+            "readings": [reading(r) for r in m.readings], "warnings": list(m.warnings)}
+
+
