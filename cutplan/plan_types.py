@@ -89,6 +89,8 @@ class SetPlan:
     pieces: tuple
     assumptions: tuple = ()
     allowance_rule: str = ""
+    hanging: object = None  # cutplan.hanging.Hanging for a chime set
+    material_class: str = ""  # "metal", "wood", "plastic", "glass", ... from the material table
 
     @property
     def section_text(self):

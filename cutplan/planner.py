@@ -267,7 +267,12 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                         f"longest stock ({format_length(longest, design.units)}); add longer stock or raise the note"))
         pieces = [_with_shop_facts(p, spec) for p in pieces]
         done = SetPlan(**{**summary.__dict__, "pieces": tuple(pieces),
-                          "allowance_rule": allowance_rule(stock, design.units)})
+                          "allowance_rule": allowance_rule(stock, design.units),
+                          "material_class": getattr(spec.material, "material_class", None) or ""})
+        if spec.kind == "chime":
+            from cutplan.hanging import hanging_for  # noqa: I001 (the assembly: plate, striker, sail, lines)
+
+            done = SetPlan(**{**done.__dict__, "hanging": hanging_for(done, spec.hanging, spec.target_mode)})
         by_name[spec.name] = done
         sets.append(done)
     if errors:

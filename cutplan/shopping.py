@@ -12,20 +12,11 @@ and ``cautions.toml`` (cautions by kind, shape and material, each with where it 
 from __future__ import annotations
 
 import fnmatch
-import math
 import tomllib
 from dataclasses import dataclass, replace
 
 from cutplan import units
 
-HOLE_DIAMETER = 4.0e-3
-"""Hole for the hanging lines in a chime plate [m] (suits 1.5-2 mm line; common practice)."""
-PLATE_EDGE = 20.0e-3
-"""Plate material left outside the hole circle [m] (common practice)."""
-TUBE_GAP = 20.0e-3
-"""Clear gap between neighbouring tubes hung from a plate [m] (common practice)."""
-LINE_PER_PIECE = 0.6
-"""Hanging line per chime, both ends tied, with room to adjust [m] (common practice)."""
 PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
 """Usual hanging-plate thickness [m]: plywood or hardwood, aluminium sheet, as sold in metric and
 in inch sizes (common practice)."""
@@ -88,8 +79,10 @@ class Plate:
     diameter_mm: float
     pitch_radius_mm: float
     holes: tuple
-    hole_mm: float = HOLE_DIAMETER * 1000
+    hole_mm: float = 4.0
     suspension: tuple = ()  # (x, y) [mm] of the three holes the plate hangs by
+    striker_mm: float = 0.0  # striker disc diameter [mm], drawn round the centre
+    tube_mm: float = 0.0  # tube outside diameter [mm], drawn round each tube's hole
 
 
 def _shop_dir():
@@ -134,24 +127,13 @@ def cautions_for(plan, table=None):
 
 
 def hanging_plate(set_plan):
-    """Plate for a chime set: one hole per tube on a pitch circle, a centre hole for the striker.
-
-    The pitch circle leaves ``TUBE_GAP`` between neighbouring tubes of the set's diameter.
-    """
-    n = len(set_plan.pieces)
-    tube = set_plan.outer * 1000
-    radius = 0.0 if n == 1 else max(40.0, (tube + TUBE_GAP * 1000) / (2 * math.sin(math.pi / n)))
-    holes = []
-    for k, p in enumerate(set_plan.pieces):
-        angle = math.pi / 2 - 2 * math.pi * k / n  # first tube at the top, then clockwise
-        holes.append((radius * math.cos(angle), radius * math.sin(angle), p.label))
-    edge = max(PLATE_EDGE * 1000, tube / 2 + 5)
-    diameter = 2 * (radius + edge)
-    ring = radius + edge / 2 if radius else edge * 0.6
-    offset = math.pi / n if n > 1 else 0.0  # between tubes, so the lines clear them
-    suspension = tuple((ring * math.cos(math.pi / 2 + offset + 2 * math.pi * k / 3),
-                        ring * math.sin(math.pi / 2 + offset + 2 * math.pi * k / 3)) for k in range(3))
-    return Plate(round(diameter, 1), radius, tuple(holes), suspension=suspension)
+    """Plate for a chime set [mm], from the set's planned hanging (cutplan.hanging): one hole per
+    tube on the hole circle, a centre hole for the striker line, three for the plate's own lines."""
+    h = set_plan.hanging
+    holes = tuple((x * 1000, y * 1000, label) for x, y, label in h.holes)
+    return Plate(round(h.plate_diameter * 1000, 1), h.hole_circle_diameter * 500, holes,
+                 hole_mm=h.hole_diameter * 1000, suspension=tuple((x * 1000, y * 1000) for x, y in h.suspension),
+                 striker_mm=h.striker_diameter * 1000, tube_mm=h.tube_outer * 1000)
 
 
 def _stock_items(plan):
@@ -177,25 +159,34 @@ def _stock_items(plan):
 
 
 def _chime_items(s, rows, shown="mm"):
-    n = len(s.pieces)
-    plate = hanging_plate(s)
+    from cutplan.hanging import SAIL_DROP
+    from cutplan.hanging_load import buy_text, mass_text
+
+    h = s.hanging
+    load = h.load
     row = hang_hole_for(s.outer, rows) if s.shape in ("tube", "rod") else None
-    line = row.line if row else "braided polyester line"
-    items = [Item("hanging", f"hanging line for {s.name}: {line}", None, None, n * LINE_PER_PIECE,
-                  f"about {units.format_length(LINE_PER_PIECE, shown)} per tube", suggestion=True)]
+    names = sorted({line.row.what for line in load.lines})
+    items = [Item("hanging", f"hanging line for {s.name}: {' and '.join(names)}", None, None, load.line_to_buy(shown),
+                  f"{units.format_length(load.line_total, shown)} cut with knots (see the plate page); buy "
+                  f"{buy_text(load.line_to_buy(shown), shown)}; chosen for {load.safety_factor:g} x the load "
+                  f"({load.safety_source}); ratings from memory, check the maker's label", suggestion=True)]
     if row is not None:
-        items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, row.drill, None,
-                          "through both walls, at the hang-hole mark"))
+        drill = max(row.drill, h.hole_diameter if h.hole_diameter > 0.0045 else 0.0)
+        items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, drill, None,
+                          "through both walls, at the hang-hole mark (one hole per tube)"))
+    hook = load.hook.what if load.hook is not None else "a fixing designed for the load by a qualified person"
     items += [
-        Item("hanging", f"hanging plate for {s.name}", 1, plate.diameter_mm / 1000, None,
+        Item("hanging", f"hanging plate for {s.name}", 1, h.plate_diameter, None,
              f"across; {plate_material(shown)}", suggestion=True),
-        Item("hanging", "top ring or swivel and 3 lines to hang the plate", 1, None, None,
-             f"{PLATE_HANGING}; rated for the whole set's weight with a generous margin", suggestion=True),
-        Item("hanging", "striker disc", 1, plate.diameter_mm / 2000, None,
-             "across, hardwood, hung on the centre line at the height of the hang holes' lower third",
-             suggestion=True),
-        Item("hanging", "wind sail", 1, None, None, "thin plywood or acrylic, about the plate's size, "
-             "on the striker line below the tubes", suggestion=True),
+        Item("hanging", "top ring or swivel and the fixing it hangs from", 1, None, None,
+             f"whole set {mass_text(load.mass)}: rated {load.hook_rating:.0f} kg or more "
+             f"({load.safety_factor:g} x); {hook}; {PLATE_HANGING}"),
+        Item("hanging", "striker disc", 1, h.striker_diameter, None,
+             f"across, {units.format_length(h.striker_thickness, shown)} hardwood, on the centre line "
+             f"{units.format_length(h.striker_height, shown)} below the tube tops", suggestion=True),
+        Item("hanging", "wind sail", 1, h.sail.side, None,
+             f"square, 3 mm acrylic or thin plywood, on the striker line "
+             f"{units.format_length(SAIL_DROP, shown)} below the longest tube", suggestion=True),
     ]
     return items
 

@@ -130,6 +130,7 @@ class SetSpec:
     wall_tolerance: float = 0.0
     undercut: Undercut | None = None
     temperature_range: tuple | None = None
+    hanging: object = None  # cutplan.design.hanging.HangingSpec, or None for the defaults
 
 
 @dataclass(frozen=True)

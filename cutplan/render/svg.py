@@ -177,11 +177,16 @@ def render_plate_svg(plan, set_plan, colours=None):
     doc.text(f"{plan.title}: hanging plate for {set_plan.name}, {plate.diameter_mm:.0f} mm across",
              (MARGIN, MARGIN + 3), 4)
     doc.text("Print or cut at 100 %; check the rulers. Drill all holes "
-             f"{plate.hole_mm:.0f} mm; S: the plate's own hanging lines; the centre hole carries the striker line.",
+             f"{plate.hole_mm:g} mm; S: the plate's own hanging lines; the centre hole carries the striker line.",
              (MARGIN, MARGIN + 9), 2.5)
+    doc.text("Dotted: the striker disc and the tubes hanging below, at full size.", (MARGIN, MARGIN + 13), 2.5)
     doc.circle((cx, cy), plate.diameter_mm / 2, role="cut")
     if plate.pitch_radius_mm:
         doc.circle((cx, cy), plate.pitch_radius_mm, role="mark", dash=[2, 2])
+    # outlines of the striker and of each tube hanging below its hole: any clash shows
+    doc.circle((cx, cy), plate.striker_mm / 2, role="mark", dash=[1, 1])
+    for x, y, _label in plate.holes:
+        doc.circle((cx + x, cy - y), plate.tube_mm / 2, role="mark", dash=[1, 1])
     holes = list(plate.holes) + [(0.0, 0.0, "striker")] + [(x, y, "S") for x, y in plate.suspension]
     for x, y, label in holes:
         hx, hy = cx + x, cy - y

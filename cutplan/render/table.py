@@ -85,6 +85,11 @@ def plan_dict(plan):
         ],
         "pieces": [piece_dict(p) for p in plan.pieces],
     }
+    for entry, s in zip(out["sets"], plan.sets, strict=True):
+        if getattr(s, "hanging", None) is not None:
+            from cutplan.render.hanging import hanging_dict  # noqa: I001 (chime sets only)
+
+            entry["hanging"] = hanging_dict(s.hanging, plan.units)
     if plan.cut_list is not None:
         out["stock"] = cut_list_dict(plan.cut_list)
     return out
