@@ -134,6 +134,8 @@ class Plan:
     inch_denominator: int = INCH_DENOMINATOR
     shopping: tuple = ()  # cutplan.shopping.Item, ...
     cautions: tuple = ()  # cutplan.shopping.Caution, ...
+    classroom: bool = False  # the design is for a classroom (supervision notes)
+    copies: int = 1  # identical kits: the cut list and shopping list hold all of them
 
     @property
     def pieces(self):

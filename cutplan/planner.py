@@ -288,4 +288,5 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
     from cutplan.shopping import with_shop_lists  # noqa: I001 (shopping list and cautions)
     return with_shop_lists(Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
-                temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts))
+                temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts,
+                classroom=design.classroom, copies=design.copies))

@@ -108,17 +108,32 @@ def hang_hole_for(outer, rows):
     return next((r for r in rows if outer <= r.max_outer + 1e-9), None)
 
 
+def _material_matches(row, s):
+    """A row's material keys: a name pattern, a material class (so inline materials match too)
+    or a stock-size pattern; any one of those given is enough."""
+    keys = [k for k in ("materials", "classes", "stocks") if k in row]
+    if not keys:
+        return True
+    stock = getattr(s.section, "name", "") or ""
+    return (any(fnmatch.fnmatch(s.material, p) for p in row.get("materials", ()))
+            or getattr(s, "material_class", "") in row.get("classes", ())
+            or any(fnmatch.fnmatch(stock, p) for p in row.get("stocks", ())))
+
+
 def cautions_for(plan, table=None):
-    """Cautions that apply to the plan's kinds, shapes and materials, in table order, then codes."""
+    """Cautions that apply to the plan's kinds, shapes and materials (by name, class or stock
+    size), and the classroom notes for a classroom design, in table order, then codes."""
     table = table if table is not None else _read("cautions.toml")
     out = []
     for row in table["caution"]:
+        if row.get("classroom", False) and not getattr(plan, "classroom", False):
+            continue
         for s in plan.sets:
             if "kinds" in row and s.kind not in row["kinds"]:
                 continue
             if "shapes" in row and s.shape not in row["shapes"]:
                 continue
-            if "materials" in row and not any(fnmatch.fnmatch(s.material, p) for p in row["materials"]):
+            if not _material_matches(row, s):
                 continue
             out.append(Caution(row["text"], row.get("source", ""), row.get("where", ""), row["kind"]))
             break

@@ -146,6 +146,8 @@ class Design:
     sets: tuple = ()
     stock: StockSpec | None = None
     material_dirs: tuple = field(default=())
+    classroom: bool = False  # a design for a classroom: supervision notes in the cautions
+    copies: int = 1  # identical kits planned together
 
 
 def is_number(value):

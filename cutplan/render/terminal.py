@@ -103,6 +103,12 @@ def render_table(plan):
         for p in s.pieces:
             for w in p.warnings:
                 out.extend(_wrapped(f"! {p.label}: {w}"))
+        if getattr(s, "hanging", None) is not None:
+            from cutplan.render.hanging import hanging_lines  # noqa: I001 (chime sets only)
+
+            out.append("  hanging:")
+            for line in hanging_lines(s.hanging, units):
+                out.extend(_wrapped(line, "    "))
         out.append("")
     if plan.cut_list is not None:
         out.extend(render_stock(plan.cut_list, units))

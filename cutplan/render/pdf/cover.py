@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from reportlab.lib import colors
 
+from cutplan.render.hanging import weight_text
 from cutplan.render.pdf.base import (
     BOLD,
     FONT,
@@ -56,6 +57,8 @@ def cover(packet):
             notes = ", ".join(p.note for p in s.pieces[:12]) + (" and more" if len(s.pieces) > 12 else "")
             y = paragraph(c, x, y, f"{s.name}: {len(s.pieces)} x {s.kind} in {s.material}, {s.section_label(plan.units)}. "
                           f"Notes: {notes}.", 10, width)
+            if getattr(s, "hanging", None) is not None:
+                y = paragraph(c, x, y, weight_text(s.hanging)[0].upper() + weight_text(s.hanging)[1:] + ".", 10, width)
             y -= 1 * mm
         y -= 3 * mm
         c.setFont(BOLD, 12)
