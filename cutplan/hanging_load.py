@@ -19,6 +19,9 @@ KNOT = 0.10
 RING_HEIGHT_MIN = 0.10
 """Least height of the ring above the plate [m]; otherwise as high as the lines' ring radius,
 so they rise at 45 degrees or steeper (common practice)."""
+KNOT_EFFICIENCY = 0.5
+"""Share of a line's breaking strength left at a knot [-] (from memory: common knots keep about
+half to two thirds; the lower figure is used)."""
 LBF = 4.4482216152605
 """One pound-force [N] (exact by definition: 0.45359237 kg x 9.80665 m/s^2)."""
 BUY_STEP = {"mm": 1.0, "in": 5 * 0.3048}
@@ -150,10 +153,11 @@ def load_table(table=None):
 
 
 def pick_line(mass, table, count=1.0):
-    """The weakest line whose breaking strength is at least the safety factor times the weight
-    of ``mass`` [kg] shared by ``count`` lines (the strongest row when none is enough)."""
+    """The weakest line whose breaking strength at a knot (KNOT_EFFICIENCY) is at least the
+    safety factor times the weight of ``mass`` [kg] shared by ``count`` lines (the strongest row
+    when none is enough)."""
     need = table.safety_factor * mass * GRAVITY / count
-    return next((r for r in table.lines if r.breaking >= need), table.lines[-1])
+    return next((r for r in table.lines if r.breaking * KNOT_EFFICIENCY >= need), table.lines[-1])
 
 
 def load_for(geometry, masses, heaviest_tube, table):

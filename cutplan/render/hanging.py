@@ -4,7 +4,7 @@ number is a field of the set's ``hanging`` (cutplan.hanging)."""
 
 from __future__ import annotations
 
-from cutplan.hanging_load import buy_text, mass_text
+from cutplan.hanging_load import KNOT_EFFICIENCY, buy_text, mass_text
 from cutplan.units import format_length
 
 MODE_WORDS = {(1,): "the fundamental", (1, 4, 5, 6): "the fundamental and modes 4-6 (the strike note)"}
@@ -43,7 +43,8 @@ def hanging_dict(h, shown="mm"):
                  "too_light": sail.too_light},
         "lines": [{"role": line.role, "count": line.count, "each_mm": _mm(line.each, 0),
                    "line": line.row.what, "load_n": round(line.load, 2),
-                   "breaking_n": round(line.row.breaking, 0), "kind": line.row.kind} for line in load.lines],
+                   "breaking_n": round(line.row.breaking, 0), "knotted_n": round(line.row.breaking * KNOT_EFFICIENCY, 0),
+                   "kind": line.row.kind} for line in load.lines],
         "line_total_mm": _mm(load.line_total, 0),
         "line_to_buy_mm": _mm(load.line_to_buy(shown), 0),
         "mass_g": round(load.mass * 1000, 1),
