@@ -30,7 +30,7 @@ from cutplan.physics import swing
 STRIKER_MIN_DIAMETER = (0.050, 2.5)
 """Smallest striker disc: 50 mm, and at least 2.5 tube diameters [m, -] (common practice: a
 smaller, lighter disc is a poor target and gives large tubes too weak a blow)."""
-STRIKER_THICKNESS = ((0.033, 0.019), (math.inf, 0.025))
+STRIKER_THICKNESS = ((0.033, 0.01905), (math.inf, 0.0254))
 """Striker disc thickness by tube outside diameter [m]: 3/4 in (19 mm) hardwood up to 1-1/4 in
 tubes, 1 in (25 mm) above (common practice: heavier tubes want a heavier blow)."""
 HARDWOOD_DENSITY = 706.0

@@ -124,10 +124,10 @@ class Load:
         """All the lines cut, knots included [m]."""
         return sum(line.total for line in self.lines)
 
-    def line_to_buy(self, shown="mm"):
-        """The line to buy, rounded up to what a shop sells [m]."""
+    def line_to_buy(self, shown="mm", copies=1):
+        """The line to buy for ``copies`` sets, rounded up to what a shop sells [m]."""
         step = BUY_STEP.get(shown, BUY_STEP["mm"])
-        return math.ceil(self.line_total / step - 1e-9) * step
+        return math.ceil(copies * self.line_total / step - 1e-9) * step
 
     @property
     def hook_rating(self):

@@ -280,9 +280,10 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
     order = {s.name: i for i, s in enumerate(design.sets)}
     sets.sort(key=lambda s: order[s.name])
     from cutplan import cutlist, stock
+    from cutplan.kits import kit_sets
 
     try:
-        cuts = cutlist.lay_out(sets, {s.name: s for s in design.sets}, design.stock, stock_override,
+        cuts = cutlist.lay_out(kit_sets(sets, design.copies), {s.name: s for s in design.sets}, design.stock, stock_override,
                               units=design.units)
     except stock.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None

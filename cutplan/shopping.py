@@ -16,6 +16,7 @@ import tomllib
 from dataclasses import dataclass, replace
 
 from cutplan import units
+from cutplan.kits import kit_label
 
 PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
 """Usual hanging-plate thickness [m]: plywood or hardwood, aluminium sheet, as sold in metric and
@@ -50,6 +51,9 @@ class Item:
     total: float | None = None
     note: str = ""
     suggestion: bool = False
+    cost: float | None = None  # price of this line, in the stock table's prices (None: not priced)
+    per_kit: bool = True  # with copies = N, bought N times (False: once for all kits, e.g. a drill bit)
+    buy: str = ""  # how a shop sells it, where that differs from the length ("52 m", "170 ft")
 
 
 @dataclass(frozen=True)
@@ -161,19 +165,21 @@ def _stock_items(plan):
             materials = sorted({s.material for s in plan.sets if s.section_text in g.group})
             what = f"{', '.join(materials)}: {g.group}" if materials else g.group
             for length, n in sorted(counts.items()):
-                items.append(Item("stock", what, n, length, n * length, "sticks, from the stock layout"))
+                prices = [s.price for s in g.sticks if s.stock_length == length]
+                cost = None if any(p is None for p in prices) else float(sum(prices))
+                items.append(Item("stock", what, n, length, n * length, "sticks, from the stock layout", cost=cost))
     listed = {p.label for s in plan.cut_list.sticks for p in s.cuts} if plan.cut_list is not None else set()
     for s in plan.sets:
-        rest = [p for p in s.pieces if p.label not in listed]
+        rest = [p for p in s.pieces if p.label not in listed and kit_label(1, p.label) not in listed]
         if rest:
-            total = sum(p.cut_length for p in rest)
+            total = sum(p.cut_length for p in rest) * max(1, getattr(plan, "copies", 1))
             items.append(Item("stock", f"{s.material}, {s.section_text}", None, None, total,
                               "the pieces' cut lengths added up; the design lists no stock, so buy this "
                               "plus saw kerf and end trim", suggestion=True))
     return items
 
 
-def _chime_items(s, rows, shown="mm"):
+def _chime_items(s, rows, shown="mm", copies=1):
     from cutplan.hanging import SAIL_DROP
     from cutplan.hanging_load import buy_text, mass_text
 
@@ -181,14 +187,17 @@ def _chime_items(s, rows, shown="mm"):
     load = h.load
     row = hang_hole_for(s.outer, rows) if s.shape in ("tube", "rod") else None
     names = sorted({line.row.what for line in load.lines})
-    items = [Item("hanging", f"hanging line for {s.name}: {' and '.join(names)}", None, None, load.line_to_buy(shown),
-                  f"{units.format_length(load.line_total, shown)} cut with knots (see the plate page); buy "
-                  f"{buy_text(load.line_to_buy(shown), shown)}; chosen for {load.safety_factor:g} x the load "
-                  f"({load.safety_source}); ratings from memory, check the maker's label", suggestion=True)]
+    buy = load.line_to_buy(shown, copies)
+    each = f" per kit, {units.format_length(copies * load.line_total, shown)} for {copies} kits" if copies > 1 else ""
+    items = [Item("hanging", f"hanging line for {s.name}: {' and '.join(names)}", None, None, buy,
+                  f"{units.format_length(load.line_total, shown)} cut with knots{each} (see the Hanging page); buy "
+                  f"{buy_text(buy, shown)}; chosen for {load.safety_factor:g} x the load "
+                  f"({load.safety_source}); ratings from memory, check the maker's label", suggestion=True,
+                  buy=buy_text(buy, shown))]
     if row is not None:
         drill = max(row.drill, h.hole_diameter if h.hole_diameter > 0.0045 else 0.0)
         items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, drill, None,
-                          "through both walls, at the hang-hole mark (one hole per tube)"))
+                          "through both walls, at the hang-hole mark (one hole per tube)", per_kit=False))
     hook = load.hook.what if load.hook is not None else "a fixing designed for the load by a qualified person"
     items += [
         Item("hanging", f"hanging plate for {s.name}", 1, h.plate_diameter, None,
@@ -237,15 +246,42 @@ def _air_items(s):
 def shopping_list(plan, rows=None):
     """Every Item to buy for the plan: stock first, then hanging, supports and resonator parts."""
     rows = rows if rows is not None else hang_holes()
+    copies = max(1, getattr(plan, "copies", 1))
     items = _stock_items(plan)
+    parts = []
     for s in plan.sets:
         if s.kind == "chime":
-            items += _chime_items(s, rows, plan.units)
+            parts += _chime_items(s, rows, plan.units, copies)
         elif s.kind == "bar":
-            items += _bar_items(s)
+            parts += _bar_items(s)
         else:
-            items += _air_items(s)
+            parts += _air_items(s)
+    items += [_for_kits(i, copies) for i in parts]
+    items += _cost_items(items, copies)
     return tuple(items)
+
+
+def _for_kits(item, copies):
+    """The item bought for ``copies`` kits (the hanging line is already totalled for them)."""
+    if copies == 1 or not item.per_kit:
+        return item
+    count = None if item.count is None else item.count * copies
+    total = item.total if item.total is None or item.what.startswith("hanging line") else item.total * copies
+    return replace(item, count=count, total=total)
+
+
+def _cost_items(items, copies):
+    """Cost lines: the priced stock in all and, for kits, per kit (None when nothing is priced)."""
+    priced = [i.cost for i in items if i.group == "stock"]
+    if not priced or any(c is None for c in priced):
+        return []
+    total = float(sum(priced))
+    out = [Item("cost", "stock, priced from the stock table", None, None, None,
+                f"for {copies} kits" if copies > 1 else "for the whole set", cost=total, per_kit=False)]
+    if copies > 1:
+        out.append(Item("cost", "stock per kit", None, None, None, f"one kit of {copies}",
+                        cost=total / copies, per_kit=False))
+    return out
 
 
 def with_shop_lists(plan):

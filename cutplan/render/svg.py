@@ -113,7 +113,9 @@ def render_piece_svg(plan, piece, colours=None):
     height = 2 * MARGIN + 14 + label_h + strip_h + 12 + profile_h + 14
     doc = _Doc(width, height, colours)
     x0, y0 = MARGIN, MARGIN + 14 + label_h
-    doc.text(f"{plan.title}: {piece.label} ({piece.note}, {piece.target_hz:.2f} Hz)", (MARGIN, MARGIN + 3), 4)
+    kits = getattr(plan, "copies", 1)
+    doc.text(f"{plan.title}: {piece.label} ({piece.note}, {piece.target_hz:.2f} Hz)"
+             + (f", make {kits}" if kits > 1 else ""), (MARGIN, MARGIN + 3), 4)
     how = ("cut the tube to its cut length, tune with the stopper" if piece.stopper else
            "cut long, then trim to pitch (trimming raises the pitch)")
     doc.text(f"Print or cut at 100 % (actual size); check the rulers. {how[0].upper() + how[1:]}.",
@@ -174,7 +176,9 @@ def render_plate_svg(plan, set_plan, colours=None):
     height = plate.diameter_mm + 2 * MARGIN + 40
     doc = _Doc(size, height, colours)
     cx, cy = MARGIN + plate.diameter_mm / 2, MARGIN + 15 + plate.diameter_mm / 2
-    doc.text(f"{plan.title}: hanging plate for {set_plan.name}, {plate.diameter_mm:.0f} mm across",
+    kits = getattr(plan, "copies", 1)
+    doc.text(f"{plan.title}: hanging plate for {set_plan.name}, {plate.diameter_mm:.0f} mm across"
+             + (f", make {kits}" if kits > 1 else ""),
              (MARGIN, MARGIN + 3), 4)
     doc.text("Print or cut at 100 %; check the rulers. Drill all holes "
              f"{plate.hole_mm:g} mm; S: the plate's own hanging lines; the centre hole carries the striker line.",

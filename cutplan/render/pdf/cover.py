@@ -89,6 +89,8 @@ def cover(packet):
 
 
 def _amount(plan, item):
+    if getattr(item, "buy", ""):
+        return f"buy {item.buy}"
     parts = []
     if item.count is not None:
         parts.append(f"{item.count} x" if item.each is not None else f"{item.count}")
@@ -98,6 +100,8 @@ def _amount(plan, item):
     if item.total is not None and not (item.count == 1 and item.each is not None):
         about = "about " if item.suggestion else ""
         text = (text + "; " if text else "") + f"{about}{length(plan, item.total)} in all"
+    if getattr(item, "cost", None) is not None:
+        text = (text + "; " if text else "") + f"cost {item.cost:.2f}"
     return text or "-"
 
 
@@ -115,6 +119,9 @@ def shopping(packet):
     intro = ("Built from the plan, in its units. Lines marked SUGGESTION are not computed by the plan "
              "(cord, sails, mallets and the like): sizes there are starting points. Stock counts come from "
              "the stock layout, with saw kerf and end trim already allowed.")
+    if getattr(plan, "copies", 1) > 1:
+        intro += (f" For {plan.copies} identical kits: counts and totals are for all of them; "
+                  "one drill bit serves every kit.")
     room = h - 40 * mm - paragraph_height(intro, 9, width) - 20 * mm
     chunks = table_pages(header, rows, widths, 8.5, room)
     n = len(chunks)

@@ -26,7 +26,8 @@ def _plate_page(c, page, plan, s):
     plate = mk.hanging_plate(s)
     c.setFillColor(colors.black)
     c.setFont(BOLD, 11)
-    c.drawString(x, h - 19 * mm, f"Hanging plate and wrap guide: {s.name}")
+    kits = getattr(plan, "copies", 1)
+    c.drawString(x, h - 19 * mm, f"Hanging plate and wrap guide: {s.name}" + (f" (make {kits})" if kits > 1 else ""))
     y = h - 25 * mm
     if s.shape == "tube":
         circ = mk.wrap_guide_mm(s)
@@ -75,9 +76,12 @@ def _plate_page(c, page, plan, s):
     # dotted: the striker disc and the tubes hanging below (full size), so any clash shows
     c.setDash(1, 1.5)
     c.setLineWidth(0.3)
-    c.circle(cx, cy, plate.striker_mm / 2 * scale * mm)
-    for hx, hy, _label in plate.holes:
-        c.circle(cx + hx * scale * mm, cy + hy * scale * mm, plate.tube_mm / 2 * scale * mm)
+    outlines = [(cx, cy, plate.striker_mm / 2 * scale * mm)]
+    outlines += [(cx + hx * scale * mm, cy + hy * scale * mm, plate.tube_mm / 2 * scale * mm) for hx, hy, _ in plate.holes]
+    for ox, oy, r in outlines:
+        c.circle(ox, oy, r)
+        for a, b in _circle_segments(ox, oy, r, 36):
+            placer.line(a, b)
     c.setDash()
     holes = [(hx, hy, label) for hx, hy, label in plate.holes] + [(0.0, 0.0, "striker")]
     holes += [(hx, hy, "S") for hx, hy in plate.suspension]

@@ -291,7 +291,9 @@ def templates(packet):
     for group in pages:
         def draw(c, page, group=group):
             c.setFont(BOLD, 11)
-            c.drawString(TEMPLATE_MARGIN, h - 19 * mm, "Marking strips, full size")
+            kits = getattr(plan, "copies", 1)
+            c.drawString(TEMPLATE_MARGIN, h - 19 * mm, "Marking strips, full size"
+                         + (f": each printed once, make {kits} of every piece ({kits} kits)" if kits > 1 else ""))
             paragraph(c, TEMPLATE_MARGIN, h - 23.5 * mm, INSTRUCTION, 7.5, w - 2 * TEMPLATE_MARGIN)
             for tile, x, y_top in group:
                 draw_tile = draw_profile if tile.what == "profile" else draw_strip
