@@ -168,8 +168,9 @@ def _with_shop_facts(piece, spec):
     if piece.kind == "chime" and len(piece.partials_hz) >= STRIKE_NOTE_MODE:
         strike = piece.partials_hz[STRIKE_NOTE_MODE - 1] / 2
     kind = "resonator" if piece.kind == "resonator" else piece.kind
-    return replace(piece, strike_note_hz=strike, trim_end=advice.trim_from(kind, spec.ends),
-                   if_sharp=advice.sharp_action(kind))
+    stoppered = bool(piece.stopper)
+    return replace(piece, strike_note_hz=strike, trim_end=advice.trim_from(kind, spec.ends, stoppered),
+                   if_sharp=advice.sharp_action(kind, stoppered))
 
 
 def _set_summary(spec: SetSpec, units="mm"):

@@ -28,7 +28,7 @@ def stock_pages(packet):
         def draw(c, page, group=sticks[k:k + PER_PAGE], first=k):
             y = heading(c, page, "Stock layout")
             status = "proven optimal" if cut_list.proven_optimal else "best found (not proven optimal)"
-            y = paragraph(c, page.left, y, f"Layout {status}; lower bound {cut_list.lower_bound} sticks; "
+            y = paragraph(c, page.left, y, f"Layout {status}; lower bound {cut_list.lower_bound} stick{'' if cut_list.lower_bound == 1 else 's'}; "
                           f"utilisation {100 * cut_list.utilisation:.1f} %. Each cut is labelled with its piece "
                           "and where it starts, measured from the stick's factory end after squaring it; "
                           f"lengths in {'inches' if plan.units == 'in' else 'mm'} first.", 9, page.width)
