@@ -18,6 +18,8 @@ PDF.  svgwrite stays inside this module.
 
 from __future__ import annotations
 
+import math
+
 import svgwrite
 
 from cutplan.render import marks as mk
@@ -197,7 +199,12 @@ def render_plate_svg(plan, set_plan, colours=None):
         doc.circle((hx, hy), plate.hole_mm / 2, role="cut")
         doc.line((hx - 4, hy), (hx + 4, hy))
         doc.line((hx, hy - 4), (hx, hy + 4))
-        doc.text(label, (hx, hy + plate.hole_mm + 3), 2.5, anchor="middle")
+        r = math.hypot(x, y)
+        if label in ("S", "striker") or r == 0:
+            doc.text(label, (hx, hy + plate.hole_mm + 3), 2.5, anchor="middle")
+        else:  # a tube's label just outside its outline, away from the centre
+            out = plate.tube_mm / 2 + 4
+            doc.text(label, (hx + x / r * out, hy - y / r * out + 1), 2.5, anchor="middle")
     _rulers(doc, MARGIN, cy + plate.diameter_mm / 2 + 12)
     return doc.tostring()
 
