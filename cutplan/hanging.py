@@ -130,7 +130,7 @@ def _circle(n, outer, options):
     return radius, striker
 
 
-def _plate(set_plan, radius, outer, hole):
+def _plate(set_plan, radius, outer):
     n = len(set_plan.pieces)
     holes = []
     for k, p in enumerate(set_plan.pieces):
@@ -193,7 +193,7 @@ def hanging_for(set_plan, options=None, target_mode="fundamental", rows=None):
     rows = rows if rows is not None else hanging_load.load_table()
     tube_line = hanging_load.pick_line(max(p.mass or 0.0 for p in set_plan.pieces), rows)
     hole = max(HOLE_DIAMETER, tube_line.diameter + 0.0015)
-    diameter, holes, suspension = _plate(set_plan, radius, outer, hole)
+    diameter, holes, suspension = _plate(set_plan, radius, outer)
     plate_mass = HARDWOOD_DENSITY * math.pi * diameter**2 / 4 * PLATE_THICKNESS
     geometry = hanging_load.Geometry(
         tops_drop=TOP_DROP + PLATE_THICKNESS, hang_holes=tuple(p.nodes[0] for p in set_plan.pieces),
