@@ -225,7 +225,7 @@ def draw_strip(c, tile, x0, y_top, width_mm, units):
                 c.drawRightString(x - 0.5 * mm, y, m.label)
     c.setFont(BOLD, 7.5)
     if p.stopper:
-        what = f"cut tube {mk.length_text(p.cut_length / MM, units)}, tune with stopper; open end 0"
+        what = f"cut tube {mk.length_text(p.cut_length / MM, units)}, tune with the stopper; open end 0"
     else:
         what = f"finished {mk.length_text(length, units)}"
     title = f"{p.label}  {p.note}  sheet {tile.sheet} of {tile.sheets}:  {what}"
