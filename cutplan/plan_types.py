@@ -89,6 +89,8 @@ class SetPlan:
     pieces: tuple
     assumptions: tuple = ()
     allowance_rule: str = ""
+    hanging: object = None  # cutplan.hanging.Hanging for a chime set
+    material_class: str = ""  # "metal", "wood", "plastic", "glass", ... from the material table
 
     @property
     def section_text(self):
@@ -132,6 +134,8 @@ class Plan:
     inch_denominator: int = INCH_DENOMINATOR
     shopping: tuple = ()  # cutplan.shopping.Item, ...
     cautions: tuple = ()  # cutplan.shopping.Caution, ...
+    classroom: bool = False  # the design is for a classroom (supervision notes)
+    copies: int = 1  # identical kits: the cut list and shopping list hold all of them
 
     @property
     def pieces(self):

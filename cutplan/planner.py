@@ -168,8 +168,9 @@ def _with_shop_facts(piece, spec):
     if piece.kind == "chime" and len(piece.partials_hz) >= STRIKE_NOTE_MODE:
         strike = piece.partials_hz[STRIKE_NOTE_MODE - 1] / 2
     kind = "resonator" if piece.kind == "resonator" else piece.kind
-    return replace(piece, strike_note_hz=strike, trim_end=advice.trim_from(kind, spec.ends),
-                   if_sharp=advice.sharp_action(kind))
+    stoppered = bool(piece.stopper)
+    return replace(piece, strike_note_hz=strike, trim_end=advice.trim_from(kind, spec.ends, stoppered),
+                   if_sharp=advice.sharp_action(kind, stoppered))
 
 
 def _set_summary(spec: SetSpec, units="mm"):
@@ -277,7 +278,12 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                         "raise the note"))
         pieces = [_with_shop_facts(p, spec) for p in pieces]
         done = SetPlan(**{**summary.__dict__, "pieces": tuple(pieces),
-                          "allowance_rule": allowance_rule(stock, design.units)})
+                          "allowance_rule": allowance_rule(stock, design.units),
+                          "material_class": getattr(spec.material, "material_class", None) or ""})
+        if spec.kind == "chime":
+            from cutplan.hanging import hanging_for  # noqa: I001 (the assembly: plate, striker, sail, lines)
+
+            done = SetPlan(**{**done.__dict__, "hanging": hanging_for(done, spec.hanging, spec.target_mode)})
         by_name[spec.name] = done
         sets.append(done)
     if errors:
@@ -285,12 +291,14 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
     order = {s.name: i for i, s in enumerate(design.sets)}
     sets.sort(key=lambda s: order[s.name])
     from cutplan import cutlist, stock
+    from cutplan.kits import kit_sets
 
     try:
-        cuts = cutlist.lay_out(sets, {s.name: s for s in design.sets}, design.stock, stock_override,
+        cuts = cutlist.lay_out(kit_sets(sets, design.copies), {s.name: s for s in design.sets}, design.stock, stock_override,
                               units=design.units)
     except stock.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
     from cutplan.shopping import with_shop_lists  # noqa: I001 (shopping list and cautions)
     return with_shop_lists(Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
-                temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts))
+                temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts,
+                classroom=design.classroom, copies=design.copies))

@@ -12,20 +12,12 @@ and ``cautions.toml`` (cautions by kind, shape and material, each with where it 
 from __future__ import annotations
 
 import fnmatch
-import math
 import tomllib
 from dataclasses import dataclass, replace
 
 from cutplan import units
+from cutplan.kits import kit_label
 
-HOLE_DIAMETER = 4.0e-3
-"""Hole for the hanging lines in a chime plate [m] (suits 1.5-2 mm line; common practice)."""
-PLATE_EDGE = 20.0e-3
-"""Plate material left outside the hole circle [m] (common practice)."""
-TUBE_GAP = 20.0e-3
-"""Clear gap between neighbouring tubes hung from a plate [m] (common practice)."""
-LINE_PER_PIECE = 0.6
-"""Hanging line per chime, both ends tied, with room to adjust [m] (common practice)."""
 PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
 """Usual hanging-plate thickness [m]: plywood or hardwood, aluminium sheet, as sold in metric and
 in inch sizes (common practice)."""
@@ -76,6 +68,9 @@ class Item:
     total: float | None = None
     note: str = ""
     suggestion: bool = False
+    cost: float | None = None  # price of this line, in the stock table's prices (None: not priced)
+    per_kit: bool = True  # with copies = N, bought N times (False: once for all kits, e.g. a drill bit)
+    buy: str = ""  # how a shop sells it, where that differs from the length ("52 m", "170 ft")
 
 
 @dataclass(frozen=True)
@@ -105,8 +100,10 @@ class Plate:
     diameter_mm: float
     pitch_radius_mm: float
     holes: tuple
-    hole_mm: float = HOLE_DIAMETER * 1000
+    hole_mm: float = 4.0
     suspension: tuple = ()  # (x, y) [mm] of the three holes the plate hangs by
+    striker_mm: float = 0.0  # striker disc diameter [mm], drawn round the centre
+    tube_mm: float = 0.0  # tube outside diameter [mm], drawn round each tube's hole
 
 
 def _shop_dir():
@@ -132,17 +129,32 @@ def hang_hole_for(outer, rows):
     return next((r for r in rows if outer <= r.max_outer + 1e-9), None)
 
 
+def _material_matches(row, s):
+    """A row's material keys: a name pattern, a material class (so inline materials match too)
+    or a stock-size pattern; any one of those given is enough."""
+    keys = [k for k in ("materials", "classes", "stocks") if k in row]
+    if not keys:
+        return True
+    stock = getattr(s.section, "name", "") or ""
+    return (any(fnmatch.fnmatch(s.material, p) for p in row.get("materials", ()))
+            or getattr(s, "material_class", "") in row.get("classes", ())
+            or any(fnmatch.fnmatch(stock, p) for p in row.get("stocks", ())))
+
+
 def cautions_for(plan, table=None):
-    """Cautions that apply to the plan's kinds, shapes and materials, in table order, then codes."""
+    """Cautions that apply to the plan's kinds, shapes and materials (by name, class or stock
+    size), and the classroom notes for a classroom design, in table order, then codes."""
     table = table if table is not None else _read("cautions.toml")
     out = []
     for row in table["caution"]:
+        if row.get("classroom", False) and not getattr(plan, "classroom", False):
+            continue
         for s in plan.sets:
             if "kinds" in row and s.kind not in row["kinds"]:
                 continue
             if "shapes" in row and s.shape not in row["shapes"]:
                 continue
-            if "materials" in row and not any(fnmatch.fnmatch(s.material, p) for p in row["materials"]):
+            if not _material_matches(row, s):
                 continue
             out.append(Caution(row["text"], row.get("source", ""), row.get("where", ""), row["kind"]))
             break
@@ -151,24 +163,13 @@ def cautions_for(plan, table=None):
 
 
 def hanging_plate(set_plan):
-    """Plate for a chime set: one hole per tube on a pitch circle, a centre hole for the striker.
-
-    The pitch circle leaves ``TUBE_GAP`` between neighbouring tubes of the set's diameter.
-    """
-    n = len(set_plan.pieces)
-    tube = set_plan.outer * 1000
-    radius = 0.0 if n == 1 else max(40.0, (tube + TUBE_GAP * 1000) / (2 * math.sin(math.pi / n)))
-    holes = []
-    for k, p in enumerate(set_plan.pieces):
-        angle = math.pi / 2 - 2 * math.pi * k / n  # first tube at the top, then clockwise
-        holes.append((radius * math.cos(angle), radius * math.sin(angle), p.label))
-    edge = max(PLATE_EDGE * 1000, tube / 2 + 5)
-    diameter = 2 * (radius + edge)
-    ring = radius + edge / 2 if radius else edge * 0.6
-    offset = math.pi / n if n > 1 else 0.0  # between tubes, so the lines clear them
-    suspension = tuple((ring * math.cos(math.pi / 2 + offset + 2 * math.pi * k / 3),
-                        ring * math.sin(math.pi / 2 + offset + 2 * math.pi * k / 3)) for k in range(3))
-    return Plate(round(diameter, 1), radius, tuple(holes), suspension=suspension)
+    """Plate for a chime set [mm], from the set's planned hanging (cutplan.hanging): one hole per
+    tube on the hole circle, a centre hole for the striker line, three for the plate's own lines."""
+    h = set_plan.hanging
+    holes = tuple((x * 1000, y * 1000, label) for x, y, label in h.holes)
+    return Plate(round(h.plate_diameter * 1000, 1), h.hole_circle_diameter * 500, holes,
+                 hole_mm=h.hole_diameter * 1000, suspension=tuple((x * 1000, y * 1000) for x, y in h.suspension),
+                 striker_mm=h.striker_diameter * 1000, tube_mm=h.tube_outer * 1000)
 
 
 def _stock_items(plan):
@@ -181,39 +182,52 @@ def _stock_items(plan):
             materials = sorted({s.material for s in plan.sets if s.section_text in g.group})
             what = f"{', '.join(materials)}: {g.group}" if materials else g.group
             for length, n in sorted(counts.items()):
-                items.append(Item("stock", what, n, length, n * length, "sticks, from the stock layout"))
+                prices = [s.price for s in g.sticks if s.stock_length == length]
+                cost = None if any(p is None for p in prices) else float(sum(prices))
+                items.append(Item("stock", what, n, length, n * length, "sticks, from the stock layout", cost=cost))
     listed = {p.label for s in plan.cut_list.sticks for p in s.cuts} if plan.cut_list is not None else set()
     for s in plan.sets:
-        rest = [p for p in s.pieces if p.label not in listed]
+        rest = [p for p in s.pieces if p.label not in listed and kit_label(1, p.label) not in listed]
         if rest:
-            total = sum(p.cut_length for p in rest)
+            total = sum(p.cut_length for p in rest) * max(1, getattr(plan, "copies", 1))
             items.append(Item("stock", f"{s.material}, {s.section_text}", None, None, total,
                               "the pieces' cut lengths added up; the design lists no stock, so buy this "
                               "plus saw kerf and end trim", suggestion=True))
     return items
 
 
-def _chime_items(s, rows, shown="mm"):
-    n = len(s.pieces)
-    plate = hanging_plate(s)
+def _chime_items(s, rows, shown="mm", copies=1):
+    from cutplan.hanging import SAIL_DROP
+    from cutplan.hanging_load import buy_text, mass_text
+
+    h = s.hanging
+    load = h.load
     row = hang_hole_for(s.outer, rows) if s.shape in ("tube", "rod") else None
-    line = row.line if row else "braided polyester line"
-    per_tube = round_in_unit(LINE_PER_PIECE, shown)
-    items = [Item("hanging", f"hanging line for {s.name}: {line}", None, None, n * per_tube,
-                  f"about {units.format_length(per_tube, shown)} per tube", suggestion=True)]
+    names = sorted({line.row.what for line in load.lines})
+    buy = load.line_to_buy(shown, copies)
+    each = f" per kit, {units.format_length(copies * load.line_total, shown)} for {copies} kits" if copies > 1 else ""
+    items = [Item("hanging", f"hanging line for {s.name}: {' and '.join(names)}", None, None, buy,
+                  f"{units.format_length(load.line_total, shown)} cut with knots{each} (see the Hanging page); buy "
+                  f"{buy_text(buy, shown)}; chosen for {load.safety_factor:g} x the load "
+                  f"({load.safety_source}); ratings from memory, check the maker's label", suggestion=True,
+                  buy=buy_text(buy, shown))]
     if row is not None:
-        items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, row.drill, None,
-                          "through both walls, at the hang-hole mark"))
+        drill = max(row.drill, h.hole_diameter if h.hole_diameter > 0.0045 else 0.0)
+        items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, drill, None,
+                          "through both walls, at the hang-hole mark (one hole per tube)", per_kit=False))
+    hook = load.hook.what if load.hook is not None else "a fixing designed for the load by a qualified person"
     items += [
-        Item("hanging", f"hanging plate for {s.name}", 1, plate.diameter_mm / 1000, None,
+        Item("hanging", f"hanging plate for {s.name}", 1, h.plate_diameter, None,
              f"across; {plate_material(shown)}", suggestion=True),
-        Item("hanging", "top ring or swivel and 3 lines to hang the plate", 1, None, None,
-             f"{PLATE_HANGING}; rated for the whole set's weight with a generous margin", suggestion=True),
-        Item("hanging", "striker disc", 1, plate.diameter_mm / 2000, None,
-             "across, hardwood, hung on the centre line at the height of the hang holes' lower third",
-             suggestion=True),
-        Item("hanging", "wind sail", 1, None, None, "thin plywood or acrylic, about the plate's size, "
-             "on the striker line below the tubes", suggestion=True),
+        Item("hanging", "top ring or swivel and the fixing it hangs from", 1, None, None,
+             f"whole set {mass_text(load.mass)}: rated {load.hook_rating:.0f} kg or more "
+             f"({load.safety_factor:g} x); {hook}; {PLATE_HANGING}"),
+        Item("hanging", "striker disc", 1, h.striker_diameter, None,
+             f"across, {units.format_length(h.striker_thickness, shown)} hardwood, on the centre line "
+             f"{units.format_length(h.striker_height, shown)} below the tube tops", suggestion=True),
+        Item("hanging", "wind sail", 1, h.sail.side, None,
+             f"square, 3 mm acrylic or thin plywood, on the striker line "
+             f"{units.format_length(SAIL_DROP, shown)} below the longest tube", suggestion=True),
     ]
     return items
 
@@ -249,16 +263,45 @@ def _air_items(s):
 def shopping_list(plan, rows=None):
     """Every Item to buy for the plan: stock first, then hanging, supports and resonator parts."""
     rows = rows if rows is not None else hang_holes()
+    copies = max(1, getattr(plan, "copies", 1))
     items = _stock_items(plan)
+    parts = []
     for s in plan.sets:
         if s.kind == "chime":
-            items += _chime_items(s, rows, plan.units)
+            parts += _chime_items(s, rows, plan.units, copies)
         elif s.kind == "bar":
-            items += _bar_items(s)
+            parts += _bar_items(s)
         else:
-            items += _air_items(s)
+            parts += _air_items(s)
+    items += [_for_kits(i, copies) for i in parts]
+    items += _cost_items(items, copies)
+    # suggested sizes read as round numbers; the hanging parts are the plan's own computed sizes
+    # (the plate template is drawn at them), so they are shown as computed
     return tuple(replace(it, each=round_in_unit(it.each, plan.units)) if it.suggestion and it.each is not None
-                 and it.group != "stock" else it for it in items)
+                 and it.group not in ("stock", "hanging") else it for it in items)
+
+
+def _for_kits(item, copies):
+    """The item bought for ``copies`` kits (the hanging line is already totalled for them)."""
+    if copies == 1 or not item.per_kit:
+        return item
+    count = None if item.count is None else item.count * copies
+    total = item.total if item.total is None or item.what.startswith("hanging line") else item.total * copies
+    return replace(item, count=count, total=total)
+
+
+def _cost_items(items, copies):
+    """Cost lines: the priced stock in all and, for kits, per kit (None when nothing is priced)."""
+    priced = [i.cost for i in items if i.group == "stock"]
+    if not priced or any(c is None for c in priced):
+        return []
+    total = float(sum(priced))
+    out = [Item("cost", "stock, priced from the stock table", None, None, None,
+                f"for {copies} kits" if copies > 1 else "for the whole set", cost=total, per_kit=False)]
+    if copies > 1:
+        out.append(Item("cost", "stock per kit", None, None, None, f"one kit of {copies}",
+                        cost=total / copies, per_kit=False))
+    return out
 
 
 def with_shop_lists(plan):

@@ -42,6 +42,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
+from cutplan.kits import natural_key
+
 FIT_TOLERANCE = 1e-9
 """Slack allowed when checking that pieces fit [m] (a nanometre: float rounding only)."""
 DEFAULT_TIME_LIMIT = None
@@ -170,7 +172,7 @@ def _fits(load, size, capacity):
 
 
 def _ordered(items):
-    return sorted(range(len(items)), key=lambda i: (-items[i].length, items[i].label))
+    return sorted(range(len(items)), key=lambda i: (-items[i].length, natural_key(items[i].label)))
 
 
 def _heuristic(items, types, kerf, end_trim, by_cost):
@@ -230,7 +232,7 @@ def _heuristic(items, types, kerf, end_trim, by_cost):
         key = (lambda t: (types[t].price or 0, caps[t])) if by_cost else (lambda t: caps[t])
         b[0] = min(choices, key=key)
         left[b[0]] -= 1
-    return [(b[0], sorted(b[1], key=lambda i: (-items[i].length, items[i].label))) for b in bins]
+    return [(b[0], sorted(b[1], key=lambda i: (-items[i].length, natural_key(items[i].label)))) for b in bins]
 
 
 def _achievable_cost_bound(lp_value, prices, upper):

@@ -21,6 +21,7 @@ import math
 
 import numpy as np
 
+from cutplan.kits import natural_key
 from cutplan.stock import (
     FIT_TOLERANCE,
     StockType,
@@ -206,7 +207,7 @@ def _column_generation(items, types, kerf, end_trim, by_cost, seed_patterns, wor
             if not take or (t in counts and counts[t] <= 0):
                 continue
             taken.update(take)
-            chosen.append((t, sorted(take, key=lambda i: (-items[i].length, items[i].label))))
+            chosen.append((t, sorted(take, key=lambda i: (-items[i].length, natural_key(items[i].label)))))
             if t in counts:
                 counts[t] -= 1
         left = [i for i in left if i not in taken]
@@ -227,7 +228,7 @@ def _round_and_fill(items, types, kerf, end_trim, sizes, caps, x, keys):
                 or (counts[t] is not None and counts[t] <= 0)):
             continue
         taken.update(members)
-        chosen.append((t, sorted(members, key=lambda i: (-items[i].length, items[i].label))))
+        chosen.append((t, sorted(members, key=lambda i: (-items[i].length, natural_key(items[i].label)))))
         if counts[t] is not None:
             counts[t] -= 1
     rest = [i for i in range(len(items)) if i not in taken]

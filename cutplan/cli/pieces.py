@@ -119,6 +119,9 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
                f"{format_length(p.allowance, units)} ({the_plan.sets[0].allowance_rule}), then trim to pitch")
     for i, x in enumerate(p.nodes, start=1):
         what = "hang hole" if kind == "chime" else "support"
+        if kind == "chime" and i > 1:  # one hang hole per chime; the lower node is not drilled
+            click.echo(f"  node {i} (no hole)  {format_length(x, units)} from the end")
+            continue
         click.echo(f"  {what} {i}  {format_length(x, units)} from the end")
     click.echo(f"  trimming    {p.cents_per_mm:.2f} cents per mm")
     if kind != "air-column":

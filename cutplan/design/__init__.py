@@ -49,7 +49,9 @@ __all__ = [
     "read_design_file", "stock_from_options",
 ]
 
-TOP_KEYS = {"title", "units", "paper", "tuning", "set", "stock", "material_dirs"}
+TOP_KEYS = {"title", "units", "paper", "tuning", "set", "stock", "material_dirs", "classroom", "copies"}
+MAX_COPIES = 100
+"""Most identical kits planned at once [-] (a large class; more is a typing error)."""
 TUNING_KEYS = {"a4", "temperament", "spelling"}
 MAX_TITLE = 120
 
@@ -126,6 +128,19 @@ def _material_dirs(value, base, col):
     return out
 
 
+def _kits(data, col):
+    """``classroom = true`` (supervision notes) and ``copies = N`` identical kits."""
+    classroom = data.get("classroom", False)
+    if not isinstance(classroom, bool):
+        col.add("classroom", classroom, "must be true or false")
+        classroom = False
+    copies = data.get("copies", 1)
+    if isinstance(copies, bool) or not isinstance(copies, int) or not 1 <= copies <= MAX_COPIES:
+        col.add("copies", copies, f"must be a whole number of kits from 1 to {MAX_COPIES}")
+        copies = 1
+    return classroom, copies
+
+
 def _sets(raw_sets, a4, temperament, library, col, spelling="auto"):
     sets = []
     if raw_sets is None:
@@ -176,9 +191,11 @@ def design_from_mapping(data, library_loader, path="(design)", base_dir=None):
             col.add("material_dirs", exc.value, f"could not be read: {exc}")
     stock = stock_table(data.get("stock"), "stock", col) if "stock" in data else None
     sets = _sets(data.get("set"), a4, temperament, library, col, _spelling(data.get("tuning", {}), col))
+    classroom, copies = _kits(data, col)
     if col.errors:
         raise DesignErrors(col.errors)
     return Design(
         path=str(path), title=title, units=shown_units, paper=paper, a4=a4,
         temperament=temperament, sets=tuple(sets), stock=stock, material_dirs=tuple(dirs),
+        classroom=classroom, copies=copies,
     ), library

@@ -130,6 +130,7 @@ class SetSpec:
     wall_tolerance: float = 0.0
     undercut: Undercut | None = None
     temperature_range: tuple | None = None
+    hanging: object = None  # cutplan.design.hanging.HangingSpec, or None for the defaults
 
 
 @dataclass(frozen=True)
@@ -145,6 +146,8 @@ class Design:
     sets: tuple = ()
     stock: StockSpec | None = None
     material_dirs: tuple = field(default=())
+    classroom: bool = False  # a design for a classroom: supervision notes in the cautions
+    copies: int = 1  # identical kits planned together
 
 
 def is_number(value):

@@ -9,6 +9,7 @@ from cutplan.design import targets as target_rules
 from cutplan.design.air import air_fields
 from cutplan.design.beams import beam_fields
 from cutplan.design.contract import KINDS, SetSpec
+from cutplan.design.hanging import hanging_options
 from cutplan.design.section import section as read_section
 from cutplan.design.stocktable import stock_table
 from cutplan.design.text import unprintable, unsafe_name
@@ -16,7 +17,7 @@ from cutplan.design.text import unprintable, unsafe_name
 SET_KEYS = {
     "name", "kind", "notes", "scale", "root", "count", "frequencies", "cents", "ratios", "range",
     "material", "section", "model", "target", "ends", "end_correction", "temperature",
-    "humidity", "serves", "max_length", "stock", "undercut", "temperature_range",
+    "humidity", "serves", "max_length", "stock", "undercut", "temperature_range", "hanging",
 }
 MAX_NAME = 40
 
@@ -88,6 +89,8 @@ def one_set(raw, index, a4, temperament, library, col, spelling="auto"):
         found = []
     else:
         found = _pitches(raw, key, a4, temperament, col, spelling)
+    if "hanging" in raw:
+        fields["hanging"] = hanging_options(raw["hanging"], f"{key}.hanging", kind, col)
     if "stock" in raw:
         fields["stock"] = stock_table(raw["stock"], f"{key}.stock", col)
     if section is None:

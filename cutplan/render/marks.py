@@ -34,6 +34,7 @@ STYLES = {
     "end": Style(0.28, (), 2.0),
     "cut-tube": Style(0.28, (), 2.0),
     "node": Style(0.09, (), 1.0),
+    "lower-node": Style(0.09, (0.4, 0.4), 1.0),  # a chime's lower node: shown, never drilled
     "centre": Style(0.09, (0.7, 0.5), 0.0),
     "rough-cut": Style(0.09, (0.3, 0.4), 1.0),
     "stopper": Style(0.09, (1.0, 0.4), 1.0),
@@ -48,7 +49,7 @@ class Mark:
     """A mark across a marking strip: position from the reference end [mm], kind, label."""
 
     at_mm: float
-    kind: str  # "end", "centre", "node", "rough-cut", "stopper", "cut-tube"
+    kind: str  # "end", "centre", "node", "lower-node", "rough-cut", "stopper", "cut-tube"
     label: str
 
 
@@ -79,7 +80,11 @@ def piece_marks(piece, units="mm"):
     if piece.kind in ("chime", "bar"):
         marks.append(Mark(length / 2, "centre", "centre"))
     for i, x in enumerate(piece.nodes, start=1):
-        marks.append(Mark(x / MM, "node", f"{node_word} {i}: {length_text(x / MM, units)}"))
+        if piece.kind == "chime":  # one hang hole, at the top node; the lower node is only shown
+            kind, label = ("node", "hang hole") if i == 1 else ("lower-node", "lower node (no hole)")
+            marks.append(Mark(x / MM, kind, f"{label}: {length_text(x / MM, units)}"))
+        else:
+            marks.append(Mark(x / MM, "node", f"{node_word} {i}: {length_text(x / MM, units)}"))
     cut = piece.cut_length / MM
     if cut > length + 0.05:
         marks.append(Mark(cut, "rough-cut", f"rough cut {length_text(cut, units)}"))

@@ -18,6 +18,8 @@ PDF.  svgwrite stays inside this module.
 
 from __future__ import annotations
 
+import math
+
 import svgwrite
 
 from cutplan.render import marks as mk
@@ -113,7 +115,9 @@ def render_piece_svg(plan, piece, colours=None):
     height = 2 * MARGIN + 14 + label_h + strip_h + 12 + profile_h + 14
     doc = _Doc(width, height, colours)
     x0, y0 = MARGIN, MARGIN + 14 + label_h
-    doc.text(f"{plan.title}: {piece.label} ({piece.note}, {piece.target_hz:.2f} Hz)", (MARGIN, MARGIN + 3), 4)
+    kits = getattr(plan, "copies", 1)
+    doc.text(f"{plan.title}: {piece.label} ({piece.note}, {piece.target_hz:.2f} Hz)"
+             + (f", make {kits}" if kits > 1 else ""), (MARGIN, MARGIN + 3), 4)
     how = ("cut the tube to its cut length, tune with the stopper" if piece.stopper else
            "cut long, then trim to pitch (trimming raises the pitch)")
     doc.text(f"Print or cut at 100 % (actual size); check the rulers. {how[0].upper() + how[1:]}.",
@@ -174,21 +178,33 @@ def render_plate_svg(plan, set_plan, colours=None):
     height = plate.diameter_mm + 2 * MARGIN + 40
     doc = _Doc(size, height, colours)
     cx, cy = MARGIN + plate.diameter_mm / 2, MARGIN + 15 + plate.diameter_mm / 2
-    doc.text(f"{plan.title}: hanging plate for {set_plan.name}, {plate.diameter_mm:.0f} mm across",
+    kits = getattr(plan, "copies", 1)
+    doc.text(f"{plan.title}: hanging plate for {set_plan.name}, {plate.diameter_mm:.0f} mm across"
+             + (f", make {kits}" if kits > 1 else ""),
              (MARGIN, MARGIN + 3), 4)
     doc.text("Print or cut at 100 %; check the rulers. Drill all holes "
-             f"{plate.hole_mm:.0f} mm; S: the plate's own hanging lines; the centre hole carries the striker line.",
+             f"{plate.hole_mm:g} mm; S: the plate's own hanging lines; the centre hole carries the striker line.",
              (MARGIN, MARGIN + 9), 2.5)
+    doc.text("Dotted: the striker disc and the tubes hanging below, at full size.", (MARGIN, MARGIN + 13), 2.5)
     doc.circle((cx, cy), plate.diameter_mm / 2, role="cut")
     if plate.pitch_radius_mm:
         doc.circle((cx, cy), plate.pitch_radius_mm, role="mark", dash=[2, 2])
+    # outlines of the striker and of each tube hanging below its hole: any clash shows
+    doc.circle((cx, cy), plate.striker_mm / 2, role="mark", dash=[1, 1])
+    for x, y, _label in plate.holes:
+        doc.circle((cx + x, cy - y), plate.tube_mm / 2, role="mark", dash=[1, 1])
     holes = list(plate.holes) + [(0.0, 0.0, "striker")] + [(x, y, "S") for x, y in plate.suspension]
     for x, y, label in holes:
         hx, hy = cx + x, cy - y
         doc.circle((hx, hy), plate.hole_mm / 2, role="cut")
         doc.line((hx - 4, hy), (hx + 4, hy))
         doc.line((hx, hy - 4), (hx, hy + 4))
-        doc.text(label, (hx, hy + plate.hole_mm + 3), 2.5, anchor="middle")
+        r = math.hypot(x, y)
+        if label in ("S", "striker") or r == 0:
+            doc.text(label, (hx, hy + plate.hole_mm + 3), 2.5, anchor="middle")
+        else:  # a tube's label just outside its outline, away from the centre
+            out = plate.tube_mm / 2 + 4
+            doc.text(label, (hx + x / r * out, hy - y / r * out + 1), 2.5, anchor="middle")
     _rulers(doc, MARGIN, cy + plate.diameter_mm / 2 + 12)
     return doc.tostring()
 

@@ -85,6 +85,11 @@ def plan_dict(plan):
         ],
         "pieces": [piece_dict(p) for p in plan.pieces],
     }
+    for entry, s in zip(out["sets"], plan.sets, strict=True):
+        if getattr(s, "hanging", None) is not None:
+            from cutplan.render.hanging import hanging_dict  # noqa: I001 (chime sets only)
+
+            entry["hanging"] = hanging_dict(s.hanging, plan.units)
     if plan.cut_list is not None:
         out["stock"] = cut_list_dict(plan.cut_list)
     return out
@@ -149,6 +154,7 @@ CSV_COLUMNS = (
     "set", "label", "note", "target_hz", "predicted_hz", "length_mm", "length_in", "cut_length_mm",
     "cut_length_in", "node_1_mm", "node_2_mm", "node_1_in", "node_2_in", "mass_g", "cents_per_mm",
     "partial_2_hz", "partial_3_hz", "partial_4_hz", "model", "shear_correction_cents", "warnings",
+    "stopper_depths_mm",
 )
 
 
@@ -170,6 +176,7 @@ def render_csv(plan):
             "" if p.mass is None else f"{p.mass * 1000:.1f}", f"{p.cents_per_mm:.2f}",
             *[f"{f:.1f}" for f in p.partials_hz[1:4]], p.model, f"{p.shear_correction_cents:.2f}",
             "; ".join(p.warnings),
+            "; ".join(f"{t - 273.15:.0f} C: {d / MM:.1f}" for t, d in p.stopper),
         ])
     return buf.getvalue()
 

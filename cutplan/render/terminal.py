@@ -79,6 +79,11 @@ def render_table(plan):
     """Readable plan in the plan's units: one block per set, then the cut list."""
     units = plan.units
     out = [plan.title, "=" * len(plan.title), f"A4 = {plan.a4:g} Hz, {plan.temperament} temperament", ""]
+    if getattr(plan, "copies", 1) > 1:
+        out[-1:] = [f"{plan.copies} identical kits: the tables show one kit; the stock layout holds all of them", ""]
+    for item in getattr(plan, "shopping", ()):
+        if item.group == "cost":
+            out.insert(-1, f"{item.what}: {item.cost:.2f} ({item.note})")
     for s in plan.sets:
         out.append(f"{s.name}: {len(s.pieces)} x {s.kind}, {s.material}, {s.section_label(units)}")
         for a in s.assumptions:
@@ -103,6 +108,12 @@ def render_table(plan):
         for p in s.pieces:
             for w in p.warnings:
                 out.extend(_wrapped(f"! {p.label}: {w}"))
+        if getattr(s, "hanging", None) is not None:
+            from cutplan.render.hanging import hanging_lines  # noqa: I001 (chime sets only)
+
+            out.append("  hanging:")
+            for line in hanging_lines(s.hanging, units):
+                out.extend(_wrapped(line, "    "))
         out.append("")
     if plan.cut_list is not None:
         out.extend(render_stock(plan.cut_list, units))

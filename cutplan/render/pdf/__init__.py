@@ -9,7 +9,7 @@ Every length is in the plan's units first.  The same plan gives a byte-identical
 
 from __future__ import annotations
 
-from cutplan.render.pdf import charts, cover, stock, tables, templates
+from cutplan.render.pdf import assembly, charts, cover, stock, tables, templates
 from cutplan.render.pdf.base import A4, MARGIN, TEMPLATE_MARGIN, Packet, letter, mm
 from cutplan.render.pdf.rulers import RULER_TOP
 from cutplan.render.pdf.templates import OVERLAP_MM, STRIP_H_MM
@@ -23,6 +23,7 @@ def render_pdf(plan, paper=None):
     packet = Packet(plan, paper or plan.paper)
     cover.cover(packet)
     cover.shopping(packet)
+    assembly.assembly_pages(packet)
     tables.cut_list(packet)
     tables.tuning(packet)
     charts.charts(packet)

@@ -33,14 +33,28 @@ def nice_step(raw):
     return float(min((m * power for m in (1, 2, 5, 10)), key=lambda v: abs(v - raw)))
 
 
-def _round_hz(f_lo, f_hi):
-    """Round frequencies (1, 2, 5 x 10^n Hz) inside the range, for the pitch axis."""
+ROUND_HZ_STEPS = ((1, 2, 5), (1, 2, 3, 5, 7), (1, 1.5, 2, 3, 4, 5, 6, 7, 8, 9))
+"""Mantissas tried for the pitch axis, coarsest first, until it has MIN_HZ_TICKS ticks."""
+MIN_HZ_TICKS = 4
+
+
+def _round_hz(f_lo, f_hi, min_gap=0.0):
+    """Round frequencies (1, 2, 5 x 10^n Hz, finer when that gives fewer than MIN_HZ_TICKS) inside
+    the range, for the pitch axis; neighbours at least ``min_gap`` apart in log10 units.
+
+    >>> _round_hz(230.0, 1200.0)
+    [300.0, 500.0, 700.0, 1000.0]
+    """
     out = []
-    for power in range(int(math.floor(math.log10(f_lo))), int(math.ceil(math.log10(f_hi))) + 1):
-        for m in (1, 2, 5):
-            f = m * 10.0 ** power
-            if f_lo <= f <= f_hi:
-                out.append(f)
+    for steps in ROUND_HZ_STEPS:
+        out = []
+        for power in range(int(math.floor(math.log10(f_lo))), int(math.ceil(math.log10(f_hi))) + 1):
+            for m in steps:
+                f = m * 10.0 ** power
+                if f_lo <= f <= f_hi and (not out or math.log10(f / out[-1]) >= min_gap):
+                    out.append(f)
+        if len(out) >= MIN_HZ_TICKS:
+            return out
     return out
 
 
@@ -87,7 +101,7 @@ def _length_chart(c, page, plan, y_top, chart_h):
         c.line(x0, yy, x0 + width, yy)
         placer.line((x0, yy), (x0 + width, yy))
         placer.place(c, [(x0 - 2, yy - 2, f"{val:g}", "end")], 7)
-    for f in _round_hz(f_lo, f_hi):
+    for f in _round_hz(f_lo, f_hi, math.log10(f_hi / f_lo) * 16 * mm / width):  # labels 16 mm apart or more
         xx = _log_x(f, f_lo, f_hi, x0, width)
         c.setStrokeColor(LIGHT)
         c.line(xx, base, xx, base + chart_h)
@@ -132,7 +146,10 @@ def _length_chart(c, page, plan, y_top, chart_h):
     for px, py, note in points:
         placer.place(c, [(px + 3, py + 3, note, "start"), (px - 3, py - 8, note, "end"),
                          (px + 3, py - 8, note, "start"), (px - 3, py + 3, note, "end"),
-                         (px, py + 5, note, "middle"), (px, py - 10, note, "middle")], 6.5)
+                         (px, py + 5, note, "middle"), (px, py - 10, note, "middle"),
+                         (px, py + 11, note, "middle"), (px, py - 16, note, "middle"),
+                         (px + 6, py - 3, note, "start"), (px - 6, py - 3, note, "end"),
+                         (px + 5, py + 9, note, "start"), (px - 5, py - 14, note, "end")], 6.5)
     return base - 34
 
 

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from reportlab.lib import colors
 
+from cutplan.render.hanging import weight_text
 from cutplan.render.pdf.base import (
     BOLD,
     FONT,
@@ -56,6 +57,8 @@ def cover(packet):
             notes = ", ".join(p.note for p in s.pieces[:12]) + (" and more" if len(s.pieces) > 12 else "")
             y = paragraph(c, x, y, f"{s.name}: {len(s.pieces)} x {s.kind} in {s.material}, {s.section_label(plan.units)}. "
                           f"Notes: {notes}.", 10, width)
+            if getattr(s, "hanging", None) is not None:
+                y = paragraph(c, x, y, weight_text(s.hanging)[0].upper() + weight_text(s.hanging)[1:] + ".", 10, width)
             y -= 1 * mm
         y -= 3 * mm
         c.setFont(BOLD, 12)
@@ -86,6 +89,8 @@ def cover(packet):
 
 
 def _amount(plan, item):
+    if getattr(item, "buy", ""):
+        return f"buy {item.buy}"
     parts = []
     if item.count is not None:
         if item.each is None or item.count != 1 or item.group == "stock":  # "1 x 5 in" reads as a board size
@@ -96,6 +101,8 @@ def _amount(plan, item):
     if item.total is not None and not (item.count == 1 and item.each is not None):
         about = "about " if item.suggestion else ""
         text = (text + "; " if text else "") + f"{about}{length(plan, item.total)} in all"
+    if getattr(item, "cost", None) is not None:
+        text = (text + "; " if text else "") + f"cost {item.cost:.2f}"
     return text or "-"
 
 
@@ -113,6 +120,9 @@ def shopping(packet):
     intro = ("Built from the plan, in its units. Lines marked SUGGESTION are not computed by the plan "
              "(cord, sails, mallets and the like): sizes there are starting points. Stock counts come from "
              "the stock layout, with saw kerf and end trim already allowed.")
+    if getattr(plan, "copies", 1) > 1:
+        intro += (f" For {plan.copies} identical kits: counts and totals are for all of them; "
+                  "one drill bit serves every kit.")
     room = h - 40 * mm - paragraph_height(intro, 9, width) - 20 * mm
     chunks = table_pages(header, rows, widths, 8.5, room)
     n = len(chunks)

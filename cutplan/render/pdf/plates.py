@@ -7,6 +7,7 @@ import math
 from reportlab.lib import colors
 
 from cutplan.render import marks as mk
+from cutplan.render.hanging import clearance_text
 from cutplan.render.pdf.base import BOLD, FONT, SAFE, TEMPLATE_MARGIN, Placer, mm, paragraph
 from cutplan.render.pdf.rulers import RULER_TOP, RULERS_HEIGHT, rulers
 from cutplan.shopping import PLATE_HANGING, plate_material
@@ -25,7 +26,8 @@ def _plate_page(c, page, plan, s):
     plate = mk.hanging_plate(s)
     c.setFillColor(colors.black)
     c.setFont(BOLD, 11)
-    c.drawString(x, h - 19 * mm, f"Hanging plate and wrap guide: {s.name}")
+    kits = getattr(plan, "copies", 1)
+    c.drawString(x, h - 19 * mm, f"Hanging plate and wrap guide: {s.name}" + (f" (make {kits})" if kits > 1 else ""))
     y = h - 25 * mm
     if s.shape == "tube":
         circ = mk.wrap_guide_mm(s)
@@ -48,7 +50,8 @@ def _plate_page(c, page, plan, s):
     units = plan.units
     note = (f"Plate {format_length(plate.diameter_mm * MM, units)} across, {plate_material(units)} (a suggestion). Drill "
             f"the line holes {format_length(plate.hole_mm * MM, units)} on the "
-            f"{format_length(2 * plate.pitch_radius_mm * MM, units)} circle, one per tube; {PLATE_HANGING}.")
+            f"{format_length(2 * plate.pitch_radius_mm * MM, units)} circle, one per tube; {PLATE_HANGING}. "
+            f"Dotted: {clearance_text(s.hanging, units)}.")
     y = paragraph(c, x, y, note, 7.5, width)
     room = (y - bottom) / mm - 8
     fits = plate.diameter_mm <= min(width / mm, room)
@@ -70,6 +73,16 @@ def _plate_page(c, page, plan, s):
         c.setDash()
         for a, b in _circle_segments(cx, cy, plate.pitch_radius_mm * scale * mm):
             placer.line(a, b)
+    # dotted: the striker disc and the tubes hanging below (full size), so any clash shows
+    c.setDash(1, 1.5)
+    c.setLineWidth(0.3)
+    outlines = [(cx, cy, plate.striker_mm / 2 * scale * mm)]
+    outlines += [(cx + hx * scale * mm, cy + hy * scale * mm, plate.tube_mm / 2 * scale * mm) for hx, hy, _ in plate.holes]
+    for ox, oy, r in outlines:
+        c.circle(ox, oy, r)
+        for a, b in _circle_segments(ox, oy, r, 36):
+            placer.line(a, b)
+    c.setDash()
     holes = [(hx, hy, label) for hx, hy, label in plate.holes] + [(0.0, 0.0, "striker")]
     holes += [(hx, hy, "S") for hx, hy in plate.suspension]
     r_hole = plate.hole_mm / 2 * scale * mm

@@ -70,6 +70,8 @@ def cut_list(packet):
         what = STOPPER_WORDS if stoppered else TRIM_WORDS
         intro = (f"{s.kind}, {s.material}, {s.section_label(plan.units)}; longest first. Cut at the '{cut_head}' length: "
                  f"{what}.")
+        if getattr(plan, "copies", 1) > 1:
+            intro = f"One kit of {plan.copies}: make {plan.copies} of each piece (the stock layout holds all of them). " + intro
         if s.kind == "bar":
             intro += " Both support positions are measured from end A."
         _chunked(packet, f"Cut list: {s.name}", intro, header, rows, widths, 9)

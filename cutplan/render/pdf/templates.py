@@ -36,6 +36,10 @@ STRIP_H_MM = 16.0
 LANE_MM = 3.4
 """Height of one label lane above a strip [mm]."""
 LABEL_PT = 6.5
+NUMBER_PT = 6.5
+"""Tick numbers and the thickness left under an arch [pt] (6.5 pt: readable at the bench)."""
+TITLE_PT = (7.5, 6.0)
+"""A tile's title [pt]: its size, and the least it shrinks to before it is shortened."""
 BELOW_MM = 10.5
 """Room under a strip for the joining marks and the tile's title [mm]."""
 GAP_MM = 2.5
@@ -166,9 +170,18 @@ def _join(c, tile, X, y_join, y_numbers, y_bar, number_clear):
             clear = all(abs(j.at - x) >= TICK_NUMBER_CLEAR_MM for x in number_clear)
             inside = tile.start + 3 <= j.at <= tile.end - 3
             if j.number and j.at > 0 and clear and inside:
-                c.setFont(FONT, 5.5)
+                c.setFont(FONT, NUMBER_PT)
                 c.drawCentredString(X(j.at), y_numbers, f"{j.at:.0f}")
     c.setDash()
+
+
+def _tile_title(c, x, y, title, width):
+    """A tile's title: smaller type (down to TITLE_PT[1]) before any word is cut short."""
+    size = TITLE_PT[0]
+    while size > TITLE_PT[1] and text_width(title, size, BOLD) > width:
+        size -= 0.25
+    c.setFont(BOLD, size)
+    c.drawString(x, y, fit(title, size, width, BOLD))
 
 
 def draw_strip(c, tile, x0, y_top, width_mm, units):
@@ -212,11 +225,11 @@ def draw_strip(c, tile, x0, y_top, width_mm, units):
                 c.drawRightString(x - 0.5 * mm, y, m.label)
     c.setFont(BOLD, 7.5)
     if p.stopper:
-        what = f"cut the tube to {mk.length_text(p.cut_length / MM, units)}, tune with the stopper; open end at 0"
+        what = f"cut tube {mk.length_text(p.cut_length / MM, units)}, tune with the stopper; open end 0"
     else:
         what = f"finished {mk.length_text(length, units)}"
     title = f"{p.label}  {p.note}  sheet {tile.sheet} of {tile.sheets}:  {what}"
-    c.drawString(x0 + 1 * mm, y0 - 8 * mm, fit(title, 7.5, (tile.end - tile.start - 2) * mm, BOLD))
+    _tile_title(c, x0 + 1 * mm, y0 - 8 * mm, title, (tile.end - tile.start - 2) * mm)
 
 
 def draw_profile(c, tile, x0, y_top, width_mm, units):
@@ -255,29 +268,31 @@ def draw_profile(c, tile, x0, y_top, width_mm, units):
     # joining marks and numbered ticks above the top face, as on the strips
     _join(c, tile, X, top, top + 4.8 * mm, top + 8 * mm, [])
     # thickness left at each station, below the blank's underside, alternating rows when crowded
-    c.setFont(FONT, 5.5)
+    c.setFont(FONT, NUMBER_PT)
     _style(c, "tick")
     last_x = {0: -1e9, 1: -1e9}
-    for x, hh in arch.stations:
-        for at in sorted({x / MM, length - x / MM}):
-            if not tile.start - 1e-6 <= at <= tile.end + 1e-6:
-                continue
-            c.line(X(at), under, X(at), under - 1.5 * mm)
-            if not tile.start + 2 <= at <= tile.end - 2:
-                continue
-            text = f"{hh / MM:.1f}"
-            half = text_width(text, 5.5) / 2 + 1
-            row = 0 if X(at) - half > last_x[0] else 1
-            if X(at) - half <= last_x[row]:
-                continue
-            c.drawCentredString(X(at), under - (4 if row == 0 else 6.4) * mm, text)
-            last_x[row] = X(at) + half
-            if row == 1:
-                c.line(X(at), under - 1.5 * mm, X(at), under - 4.3 * mm)
+    # every station on both halves, left to right, so crowding is judged in order along the bar
+    # (the deepest point, at the centre, keeps its number on a middle sheet too)
+    spots = sorted({(round(at, 6), hh) for x, hh in arch.stations for at in (x / MM, length - x / MM)})
+    for at, hh in spots:
+        if not tile.start - 1e-6 <= at <= tile.end + 1e-6:
+            continue
+        c.line(X(at), under, X(at), under - 1.5 * mm)
+        if not tile.start + 2 <= at <= tile.end - 2:
+            continue
+        text = f"{hh / MM:.1f}"
+        half = text_width(text, NUMBER_PT) / 2 + 1
+        row = 0 if X(at) - half > last_x[0] else 1
+        if X(at) - half <= last_x[row]:
+            continue
+        c.drawCentredString(X(at), under - (4 if row == 0 else 6.6) * mm, text)
+        last_x[row] = X(at) + half
+        if row == 1:
+            c.line(X(at), under - 1.5 * mm, X(at), under - 4.3 * mm)
     c.setFont(BOLD, 7.5)
     title = (f"{p.label} side profile, full size: arch {mk.length_text(arch.depth / MM, units)} deep; "
              f"numbers are the thickness left (mm)   sheet {tile.sheet} of {tile.sheets}")
-    c.drawString(x0 + 1 * mm, under - 10 * mm, fit(title, 7.5, (tile.end - tile.start - 2) * mm, BOLD))
+    _tile_title(c, x0 + 1 * mm, under - 10 * mm, title, (tile.end - tile.start - 2) * mm)
 
 
 def templates(packet):
@@ -291,7 +306,9 @@ def templates(packet):
     for group in pages:
         def draw(c, page, group=group):
             c.setFont(BOLD, 11)
-            c.drawString(TEMPLATE_MARGIN, h - 19 * mm, "Marking strips, full size")
+            kits = getattr(plan, "copies", 1)
+            c.drawString(TEMPLATE_MARGIN, h - 19 * mm, "Marking strips, full size"
+                         + (f": each printed once, make {kits} of every piece ({kits} kits)" if kits > 1 else ""))
             paragraph(c, TEMPLATE_MARGIN, h - 23.5 * mm, INSTRUCTION, 7.5, w - 2 * TEMPLATE_MARGIN)
             for tile, x, y_top in group:
                 draw_tile = draw_profile if tile.what == "profile" else draw_strip
