@@ -60,6 +60,9 @@ HOLE_DIAMETER = 0.004
 """Line holes in the plate [m] (common practice: suits lines to 2.5 mm; larger line, line + 1.5 mm)."""
 STEP = 0.0005
 """Plate geometry is rounded to 0.5 mm [m] (what a compass and rule mark)."""
+PLATE_STEP = {"mm": 0.005, "in": 0.0254 / 4}
+"""The plate's diameter is rounded up to a size a builder buys or marks in the plan's units [m]:
+5 mm, or 1/4 in (common practice)."""
 
 
 @dataclass(frozen=True)
@@ -130,14 +133,14 @@ def _circle(n, outer, options):
     return radius, striker
 
 
-def _plate(set_plan, radius, outer):
+def _plate(set_plan, radius, outer, units="mm"):
     n = len(set_plan.pieces)
     holes = []
     for k, p in enumerate(set_plan.pieces):
         angle = math.pi / 2 - 2 * math.pi * k / n  # first tube at the top, then clockwise
         holes.append((radius * math.cos(angle), radius * math.sin(angle), p.label))
     edge = max(PLATE_EDGE, outer / 2 + 0.005)
-    diameter = 2 * _up(radius + edge)
+    diameter = _up(2 * _up(radius + edge), PLATE_STEP.get(units, PLATE_STEP["mm"]))
     ring = radius + edge / 2
     offset = math.pi / n  # between tubes, so the plate's own lines clear them
     suspension = tuple((ring * math.cos(math.pi / 2 + offset + 2 * math.pi * k / 3),
@@ -173,7 +176,7 @@ def _sail(striker_mass, clearance, line_to_striker, breeze):
                 contact_push=push, lightest_breeze=swing.breeze_for(push, area), too_light=too_light)
 
 
-def hanging_for(set_plan, options=None, target_mode="fundamental", rows=None):
+def hanging_for(set_plan, options=None, target_mode="fundamental", rows=None, units="mm"):
     """The Hanging of a chime set (its pieces planned), or None for a set with no pieces.
 
     ``options``: HangingSpec (defaults when None); ``rows``: the line and hardware table
@@ -193,7 +196,7 @@ def hanging_for(set_plan, options=None, target_mode="fundamental", rows=None):
     rows = rows if rows is not None else hanging_load.load_table()
     tube_line = hanging_load.pick_line(max(p.mass or 0.0 for p in set_plan.pieces), rows)
     hole = max(HOLE_DIAMETER, tube_line.diameter + 0.0015)
-    diameter, holes, suspension = _plate(set_plan, radius, outer)
+    diameter, holes, suspension = _plate(set_plan, radius, outer, units)
     plate_mass = HARDWOOD_DENSITY * math.pi * diameter**2 / 4 * PLATE_THICKNESS
     geometry = hanging_load.Geometry(
         tops_drop=TOP_DROP + PLATE_THICKNESS, hang_holes=tuple(p.nodes[0] for p in set_plan.pieces),

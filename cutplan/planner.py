@@ -283,7 +283,8 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
         if spec.kind == "chime":
             from cutplan.hanging import hanging_for  # noqa: I001 (the assembly: plate, striker, sail, lines)
 
-            done = SetPlan(**{**done.__dict__, "hanging": hanging_for(done, spec.hanging, spec.target_mode)})
+            done = SetPlan(**{**done.__dict__, "hanging": hanging_for(done, spec.hanging, spec.target_mode,
+                                                                        units=design.units)})
         by_name[spec.name] = done
         sets.append(done)
     if errors:

@@ -78,4 +78,5 @@ def test_suggested_sizes_are_round_in_the_plans_units_and_a_plate_is_not_a_board
     assert (plate.each / 0.0254 * 4) == pytest.approx(round(plate.each / 0.0254 * 4))  # whole quarter inches
     assert not _amount(plan, plate).startswith("1 x")
     line = next(it for w, it in items.items() if w.startswith("hanging line"))
-    assert "about 24 in" in line.note and line.total == pytest.approx(5 * 24 * 0.0254)
+    # the line is bought in whole feet in an inch plan (1 ft = 12 in = 0.3048 m exactly)
+    assert line.total / 0.3048 == pytest.approx(round(line.total / 0.3048))
