@@ -130,6 +130,7 @@ class SetSpec:
     wall_tolerance: float = 0.0
     undercut: Undercut | None = None
     temperature_range: tuple | None = None
+    grain: str = "unknown"  # a bar's sawing: "flat", "quarter" or "unknown" (cutplan.grain)
 
 
 @dataclass(frozen=True)
