@@ -52,8 +52,10 @@ def piece_other_modes(spec, piece):
 
 
 def _bar_modes(spec, piece):
-    """[("sideways", freqs), ("twisting", freqs)] of a bar: the 3-D model for an arched bar, the
-    orthotropic beam and Saint-Venant models for a uniform one (constants for the set's grain)."""
+    """[("sideways", freqs), ("twisting", freqs)] of a bar, with the constants of the set's sawing:
+    the 3-D model for an arched bar; for a uniform one the shear-corrected beam sideways and
+    Saint-Venant twisting (for wood, stiffened by warping as fitted once per section to the 3-D
+    model, :func:`cutplan.physics.side_modes.twisting_stiffening`)."""
     from cutplan import grain
 
     mat, sec, length = spec.material, spec.section, piece.length
@@ -70,8 +72,12 @@ def _bar_modes(spec, piece):
                                                MAX_MODES)
     except ValueError:  # wider than about half its length: no beam model sideways; nothing to list
         side = ()
-    twist = side_modes.twisting_frequencies_bar_orthotropic(length, sec.width, sec.thickness, g_xy, g_xz,
-                                                            mat.density, MAX_MODES)
+    if grain.is_orthotropic(mat):  # wood: Saint-Venant with the warping stiffening the 3-D model gives
+        twist = side_modes.twisting_frequencies_bar_solid(length, sec.width, sec.thickness,
+                                                          grain.solid_constants(mat, sawing), mat.density, MAX_MODES)
+    else:
+        twist = side_modes.twisting_frequencies_bar_orthotropic(length, sec.width, sec.thickness, g_xy, g_xz,
+                                                                mat.density, MAX_MODES)
     return [("sideways", side), ("twisting", twist)]
 
 
