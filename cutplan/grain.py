@@ -207,3 +207,21 @@ def unknown_grain_ratios(spec, ratios, length):
     from cutplan.uncertainty import _draws
 
     return ratios * 2.0 ** (_draws()[1][0] * cents / 1200)
+
+
+def assumptions(spec):
+    """The plan's assumption lines about a wood bar set's sawing ([] for other sets)."""
+    mat, sec = spec.material, spec.section
+    if sec is None or sec.shape != "bar" or not is_orthotropic(mat):
+        return []
+    sawing = getattr(spec, "grain", "unknown")
+    thick, side = bending_plane_constants(mat, sawing)
+    where = {"flat": "flat-sawn (thickness radial, width tangential)",
+             "quarter": "quarter-sawn (thickness tangential, width radial)",
+             "unknown": "sawing unknown (constants midway between flat- and quarter-sawn)"}[sawing]
+    line = (f"grain: {where}; bends on its face with G = {thick.shear_modulus / 1e9:.2f} GPa, sideways with "
+            f"G = {side.shear_modulus / 1e9:.2f} GPa; E across {thick.modulus_across / 1e9:.2f} GPa (thickness), "
+            f"{side.modulus_across / 1e9:.2f} GPa (width)")
+    if sawing == "unknown":
+        line += "; wider side-mode warnings and allowance: give grain = \"flat\" or \"quarter\""
+    return [line]

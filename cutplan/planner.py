@@ -198,6 +198,7 @@ def _set_summary(spec: SetSpec, units="mm"):
             f"E = {e / 1e9:.2f} GPa, G = {mat.shear_modulus_for(model) / 1e9:.2f} GPa, "
             f"density {mat.density:.0f} kg/m3, Poisson {mat.poisson:.2f}"
         )
+        assumptions += grain.assumptions(spec)
         if mat.modulus_basis == "static-bending":
             assumptions.append("wood: table modulus is a static-bending value"
                                + ("; raised 10 % to the true E for the shear-corrected model" if model == "timoshenko" else ""))
