@@ -97,11 +97,11 @@ def _half_length_axis(length, arch_fraction, n):
     return np.concatenate([np.linspace(0.0, a, n_end + 1), np.linspace(a, length / 2, n_arch + 1)[1:]])
 
 
-def _mesh(xs, width_edges, thickness, h):
+def _mesh(xs, width_edges, thickness, h, nz):
     """Structured hex mesh; z of each node follows the remaining thickness h(x) (top face flat)."""
     from skfem import MeshHex
 
-    zeta = np.linspace(0.0, 1.0, _mesh.nz + 1)
+    zeta = np.linspace(0.0, 1.0, nz + 1)
     mesh = MeshHex.init_tensor(xs, width_edges, zeta)
     p = mesh.p.copy()
     p[2] = thickness - h(p[0]) * (1.0 - p[2])
@@ -197,10 +197,9 @@ def solve_side_modes(length, width, thickness, h, constants, density, arch_fract
     from cutplan.physics.blas import single_thread
 
     nx, ny, nz = mesh
-    _mesh.nz = nz
     half_x = _half_length_axis(length, arch_fraction, nx)
     xs = half_x if symmetry else np.concatenate([half_x, (length - half_x[::-1])[1:]])
-    m = _mesh(xs, _axis(width / 2, ny), thickness, h)
+    m = _mesh(xs, _axis(width / 2, ny), thickness, h, nz)
     basis = Basis(m, {"hex27": ElementHex2, "hex20": ElementHexS2}[element](), intorder=4)
     with single_thread():
         k, mm = _assemble(basis, constants, density)
@@ -208,13 +207,14 @@ def solve_side_modes(length, width, thickness, h, constants, density, arch_fract
     plane = basis.get_dofs(lambda p: np.isclose(p[1], 0.0)).all()
     fixed = [3 * plane, 3 * plane + 2]
     rigid = 3  # y shift, rotation about x, rotation about z
-    cases = [("whole", [], rigid)]
+    cases = [([], rigid)]
     if symmetry:
         mid = basis.get_dofs(lambda p: np.isclose(p[0], length / 2)).all()
-        cases = [("even", [3 * mid], 2), ("odd", [3 * mid + 1, 3 * mid + 2], 1)]
+        # even about mid-length (u_x = 0 there): y shift and x rotation are rigid; odd: z rotation
+        cases = [([3 * mid], 2), ([3 * mid + 1, 3 * mid + 2], 1)]
     scale = _frequency_scale(length, width, thickness, constants, density)
     side, twist, ceiling = [], [], math.inf
-    for _, extra, n_rigid in cases:
+    for extra, n_rigid in cases:
         d = np.unique(np.concatenate(fixed + extra))
         free = np.setdiff1d(np.arange(k.shape[0]), d)
         kf, mf = k[free][:, free], mm[free][:, free]
