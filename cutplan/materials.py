@@ -29,7 +29,12 @@ modulus E_L [-]. USDA FPL Wood Handbook, FPL-GTR-190, 2010, Table 5-3a footnote 
 "increase by about 10 %")."""
 
 _MATERIAL_KEYS = {"description", "modulus", "density", "poisson", "shear_modulus", "shear_ratio", "class", "unusual",
+                  "radial_ratio", "tangential_ratio", "shear_ratio_lt", "shear_ratio_rt", "poisson_lt", "poisson_rt",
                   "fit_residual_cents"}
+GRAIN_KEYS = ("radial_ratio", "tangential_ratio", "shear_ratio_lt", "shear_ratio_rt", "poisson_lt", "poisson_rt")
+"""A wood's constants across the grain, as ratios to E_L (USDA FPL Wood Handbook, FPL-GTR-190, 2010,
+Table 5-1: E_R/E_L, E_T/E_L, G_LT/E_L, G_RT/E_L) and Poisson ratios (Table 5-2: nu_LT, nu_RT); the
+along-grain pair is ``shear_ratio`` (G_LR/E_L) and ``poisson`` (nu_LR). See :mod:`cutplan.grain`."""
 _VALUE_KEYS = {"value", "source", "where", "kind", "spread", "basis"}
 _STOCK_HEADER_KEYS = {"standard", "source", "where", "kind", "shape", "material", "bore", "wall_factor"}
 _STOCK_KEYS = {"description", "outer", "wall", "inner", "outer_tolerance", "wall_tolerance", "material",
@@ -77,6 +82,12 @@ class Material:
     material_class: str | None = None
     unusual: bool = False
     fit_residual_cents: float | None = None
+    radial_ratio: float | None = None
+    tangential_ratio: float | None = None
+    shear_ratio_lt: float | None = None
+    shear_ratio_rt: float | None = None
+    poisson_lt: float | None = None
+    poisson_rt: float | None = None
 
     def modulus_for(self, model):
         """E [Pa] to use with ``model`` ("timoshenko" or "slender"); see the woods.toml header."""
@@ -206,6 +217,13 @@ def material_from_table(name, table, path="(inline)", sources=None):
     if "shear_ratio" in table:
         shear_ratio, p_r, _, _ = _value(path, f"{name}.shear_ratio", table["shear_ratio"], _plain_number, sources)
         provs.append(("shear_ratio", p_r))
+    across = {}
+    for key in GRAIN_KEYS:
+        if key in table:
+            across[key], p_k, _, _ = _value(path, f"{name}.{key}", table[key], _plain_number, sources)
+            provs.append((key, p_k))
+            if key.startswith("poisson") and not across[key] < 1.0:
+                raise MaterialError(path, f"{name}.{key}", across[key], "must be between 0 and 1")
     basis = basis or "dynamic"
     if basis not in ("dynamic", "static-bending"):
         raise MaterialError(path, f"{name}.modulus.basis", basis, "must be dynamic or static-bending")
@@ -219,7 +237,7 @@ def material_from_table(name, table, path="(inline)", sources=None):
         fit_residual_cents=None if residual is None else float(residual),
         name=name, modulus=modulus, density=density, poisson=poisson,
         description=str(table.get("description", "")), shear_modulus=shear, shear_ratio=shear_ratio,
-        modulus_basis=basis, modulus_spread=s_mod, density_spread=s_den, provenance=tuple(provs),
+        modulus_basis=basis, modulus_spread=s_mod, density_spread=s_den, provenance=tuple(provs), **across,
     )
 
 

@@ -36,23 +36,10 @@ def piece_other_modes(spec, piece):
         return ()
     mat, sec = spec.material, spec.section
     model = "timoshenko" if spec.model == "slender" else spec.model
-    e, g, rho = mat.modulus_for(model), mat.shear_modulus_for(model), mat.density
+    g, rho = mat.shear_modulus_for(model), mat.density
     length = piece.length
     if sec.shape == "bar":
-        kappa = sec.shear_coefficient(mat.poisson)
-        arch = piece.arch
-        if arch is not None:
-            side = side_modes.sideways_frequencies_arched(length, sec.width, sec.thickness, arch.depth,
-                                                          arch.arch_width, arch.exponent, e, g, rho, kappa, MAX_MODES)
-            twist = side_modes.twisting_frequencies_arched(length, sec.width, sec.thickness, arch.depth,
-                                                           arch.arch_width, arch.exponent, g, rho, MAX_MODES)
-        else:
-            try:
-                side = side_modes.sideways_frequencies(length, sec.width, sec.thickness, e, g, rho, kappa, MAX_MODES)
-            except ValueError:  # wider than about half its length: no beam model sideways; nothing to list
-                side = ()
-            twist = side_modes.twisting_frequencies_bar(length, sec.width, sec.thickness, g, rho, MAX_MODES)
-        found = [("sideways", side), ("twisting", twist)]
+        found = _bar_modes(spec, piece)
     else:
         found = [("twisting", side_modes.twisting_frequencies_tube(length, sec.outer, sec.inner, g, rho, MAX_MODES))]
     top = max(piece.partials_hz) * REPORT_ABOVE if piece.partials_hz else 0.0
@@ -64,6 +51,36 @@ def piece_other_modes(spec, piece):
     return tuple(out)
 
 
+def _bar_modes(spec, piece):
+    """[("sideways", freqs), ("twisting", freqs)] of a bar, with the constants of the set's sawing:
+    the 3-D model for an arched bar; for a uniform one the shear-corrected beam sideways and
+    Saint-Venant twisting (for wood, stiffened by warping as fitted once per section to the 3-D
+    model, :func:`cutplan.physics.side_modes.twisting_stiffening`)."""
+    from cutplan import grain
+
+    mat, sec, length = spec.material, spec.section, piece.length
+    sawing = getattr(spec, "grain", "unknown")
+    arch = piece.arch
+    if arch is not None:
+        modes = side_modes.solid_side_modes(length, sec.width, sec.thickness, arch.depth, arch.arch_width,
+                                            arch.exponent, grain.solid_constants(mat, sawing), mat.density, MAX_MODES)
+        return [("sideways", modes.sideways), ("twisting", modes.twisting)]
+    e_x, _, _, g_xy, g_xz, _, nu_xy, _, _ = grain.axis_constants(mat, sawing)
+    kappa = sec.shear_coefficient(nu_xy)
+    try:
+        side = side_modes.sideways_frequencies(length, sec.width, sec.thickness, e_x, g_xy, mat.density, kappa,
+                                               MAX_MODES)
+    except ValueError:  # wider than about half its length: no beam model sideways; nothing to list
+        side = ()
+    if grain.is_orthotropic(mat):  # wood: Saint-Venant with the warping stiffening the 3-D model gives
+        twist = side_modes.twisting_frequencies_bar_solid(length, sec.width, sec.thickness,
+                                                          grain.solid_constants(mat, sawing), mat.density, MAX_MODES)
+    else:
+        twist = side_modes.twisting_frequencies_bar_orthotropic(length, sec.width, sec.thickness, g_xy, g_xz,
+                                                                mat.density, MAX_MODES)
+    return [("sideways", side), ("twisting", twist)]
+
+
 def tuned_partials(spec, piece):
     """Mode numbers (1-based) of the partials that are tuned or heard as the note, see the module notes."""
     if piece.arch is not None:
@@ -73,27 +90,48 @@ def tuned_partials(spec, piece):
     return (1, 2)
 
 
-def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2)):
+_ORDINALS = ("first", "second", "third", "fourth", "fifth", "sixth", "seventh", "eighth")
+
+
+def _ordinal(n):
+    return _ORDINALS[n - 1] if 1 <= n <= len(_ORDINALS) else f"{n}th"
+
+
+def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2), spread_cents=None):
     """Warnings naming each other mode below the fundamental or within ``clearance_cents`` of a
-    tuned partial (mode numbers ``tuned``)."""
+    tuned partial (mode numbers ``tuned``), in a builder's words.
+
+    ``spread_cents`` ({kind: cents}) widens the window for a mode whose place is uncertain (a bar
+    of unknown sawing, :func:`cutplan.grain.grain_spread_cents`)."""
     out = []
+    spread_cents = spread_cents or {}
     fundamental = piece.fundamental_hz or (piece.partials_hz[0] if piece.partials_hz else 0.0)
     for kind, n, f in other:
-        name = f"{kind} mode {n} ({f:.0f} Hz)"
+        name = f"the {'bar' if piece.kind == 'bar' else 'piece'}'s {_ordinal(n)} {kind} mode ({f:.0f} Hz)"
         if fundamental and f < fundamental:
             fix = ("make the bar wider than it is thick" if kind == "sideways"
                    else "a narrower bar twists higher against its note")
-            out.append(f"{name} is below the fundamental ({fundamental:.0f} Hz): a glancing or off-centre "
-                       f"strike can sound it; {fix}")
+            out.append(f"{kind} mode {n}: {name} is below the fundamental ({fundamental:.0f} Hz): a glancing or "
+                       f"off-centre strike can sound it; {fix}")
             continue
+        extra = spread_cents.get(kind, 0.0)
         for k, p in enumerate(piece.partials_hz, start=1):
             if k not in tuned:
                 continue
             off = _cents(f, p)
-            if abs(off) <= clearance_cents:
-                out.append(f"{name} is {abs(off):.0f} cent{'' if round(abs(off)) == 1 else 's'} {'above' if off > 0 else 'below'} partial {k} "
-                           f"({p:.0f} Hz): the two can beat or buzz; a few mm more or less "
-                           f"{'width' if kind == 'sideways' else 'width or thickness'} moves it away")
+            if abs(off) > clearance_cents + extra:
+                continue
+            tuned_word = "tuned " if piece.arch is not None else ""
+            partial = ("fundamental (partial 1" if k == 1
+                       else f"{tuned_word}{_ordinal(k)} partial (partial {k}, {p / fundamental:.1f} x f1")
+            cents = f"{abs(off):.0f} cent{'' if round(abs(off)) == 1 else 's'} {'above' if off > 0 else 'below'}"
+            move = "width" if kind == "sideways" else "width or thickness"
+            text = (f"{kind} mode {n}: {name} lies {cents} the {partial}, {p:.0f} Hz): "
+                    f"expect a buzz or a beat; a few mm more or less {move} moves it away")
+            if extra:
+                text += (f"; the sawing is not given, so this mode may lie up to {extra:.0f} cents either side: "
+                         'give grain = "flat" or "quarter" to narrow it')
+            out.append(text)
     return out
 
 
@@ -111,6 +149,32 @@ def with_other_modes(spec, pieces, clearance_cents=None):
         if not other:
             out.append(p)
             continue
-        warnings = tuple(p.warnings) + tuple(mode_warnings(p, other, clearance_cents, tuned_partials(spec, p)))
+        spread = _grain_spread(spec, p)
+        warnings = tuple(p.warnings) + tuple(mode_warnings(p, other, clearance_cents, tuned_partials(spec, p),
+                                                           spread))
         out.append(dataclasses.replace(p, other_modes=other, warnings=warnings))
     return out
+
+
+def _grain_spread(spec, piece):
+    """{kind: cents} the warning window widens by for a bar of unknown sawing; {} otherwise.
+
+    Twisting: half the flat-to-quarter spread of the blank's Saint-Venant twisting
+    (:func:`cutplan.grain.grain_spread_cents`).  Sideways: half the spread of the blank's
+    sideways mode 1, whose shear part alone feels the sawing."""
+    from cutplan import grain
+
+    sawing = getattr(spec, "grain", "unknown")
+    sec, mat = spec.section, spec.material
+    if sec is None or sec.shape != "bar" or sawing != "unknown" or not grain.is_orthotropic(mat):
+        return {}
+    twist = grain.grain_spread_cents(mat, sawing, sec.width, sec.thickness)
+    side = []
+    for g in ("flat", "quarter"):
+        e_x, _, _, g_xy, _, _, nu_xy, _, _ = grain.axis_constants(mat, g)
+        try:
+            side.append(side_modes.sideways_frequencies(piece.length, sec.width, sec.thickness, e_x, g_xy,
+                                                        mat.density, sec.shear_coefficient(nu_xy), 1)[0])
+        except ValueError:
+            return {"twisting": twist, "sideways": twist}
+    return {"twisting": twist, "sideways": abs(_cents(side[0], side[1])) / 2}

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from cutplan import advice, air_stock, other_modes, pitch, uncertainty
+from cutplan import advice, air_stock, grain, other_modes, pitch, uncertainty
 from cutplan.allowance import allowance_rule, allowances, risk_warning
 from cutplan.design import Design, DesignError, DesignErrors, SetSpec
 from cutplan.models import (
@@ -48,6 +48,8 @@ def _plan_beam_set(spec: SetSpec, design: Design, stock):
     targets = np.array([t.frequency for t in spec.targets])
     # the whole set at once: lengths, modes, nodes, allowances (closed-form determinant, arrays)
     lengths = f_at.lengths_for(targets)
+    # a bar of unknown sawing: the shortest (most shear-sensitive) bar's spread widens the allowance
+    ratios_uncal = grain.unknown_grain_ratios(spec, ratios_uncal, float(np.min(lengths)))
     modes = max(PARTIAL_COUNT, STRIKE_NOTE_MODE) if strike else PARTIAL_COUNT
     g, s2 = timoshenko.uniform_parameters(lengths, ei, mu, kga, rho_i)
     to_hz = np.sqrt(ei / mu) / (2 * np.pi * lengths[:, None] ** 2)
@@ -140,7 +142,8 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
         def f_local(x, f0=float(r.frequencies[0]), length=r.length, k=k):
             return f0 * (length / x) ** k
 
-        cut_length, a_uncal, a_cal, risk = allowances(spec, stock, f_local, r.length, t.frequency, ratios_uncal,
+        cut_length, a_uncal, a_cal, risk = allowances(spec, stock, f_local, r.length, t.frequency,
+                                                       grain.unknown_grain_ratios(spec, ratios_uncal, r.length),
                                                        ratios_cal)
         warnings = risk_warning(risk)
         if r.length / sec.thickness < STUBBY_RATIO:
@@ -196,6 +199,7 @@ def _set_summary(spec: SetSpec, units="mm"):
             f"E = {e / 1e9:.2f} GPa, G = {mat.shear_modulus_for(model) / 1e9:.2f} GPa, "
             f"density {mat.density:.0f} kg/m3, Poisson {mat.poisson:.2f}"
         )
+        assumptions += grain.assumptions(spec)
         if mat.modulus_basis == "static-bending":
             assumptions.append("wood: table modulus is a static-bending value"
                                + ("; raised 10 % to the true E for the shear-corrected model" if model == "timoshenko" else ""))
@@ -242,7 +246,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
     sets, errors, by_name = [], [], {}
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
-        spec = air_stock.applied(spec)
+        spec = grain.applied(air_stock.applied(spec))  # a wood bar bends with G of its sawing's plane
         stock = spec.stock or design.stock
         summary = _set_summary(spec, design.units)
         if spec.kind in ("chime", "bar"):

@@ -67,6 +67,20 @@ def undercut(raw, key, section, col):
     return Undercut(tuple(float(r) for r in ratios), float(width), min_t)
 
 
+def grain(raw, key, section, col):
+    """How the bar was sawn: "flat", "quarter" or "unknown" (the default); see cutplan.grain."""
+    from cutplan.grain import GRAINS
+
+    value = raw.get("grain", "unknown")
+    if value not in GRAINS:
+        col.add(f"{key}.grain", value, 'must be "flat" (rings along the face), "quarter" (rings across the face) '
+                'or "unknown" (default)')
+        return "unknown"
+    if "grain" in raw and section is not None and section.shape != "bar":
+        col.add(f"{key}.grain", value, "applies to bars (a rectangular section), not tubes or rods")
+    return value
+
+
 def beam_fields(raw, key, kind, section, stock_material, library, col):
     """The SetSpec fields of a chime or bar set."""
     fields = {"material": material(raw, f"{key}.material", stock_material, library, col)}
@@ -78,6 +92,7 @@ def beam_fields(raw, key, kind, section, stock_material, library, col):
     if target not in ("fundamental", "strike-note"):
         col.add(f"{key}.target", target, 'must be "fundamental" (default) or "strike-note"')
     fields["target_mode"] = target if isinstance(target, str) else "fundamental"
+    fields["grain"] = grain(raw, key, section, col)
     for k in AIR_ONLY:
         if k in raw:
             col.add(f"{key}.{k}", None, f"applies to air-column and resonator sets, not {kind}")

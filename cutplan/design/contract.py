@@ -131,6 +131,7 @@ class SetSpec:
     undercut: Undercut | None = None
     temperature_range: tuple | None = None
     hanging: object = None  # cutplan.design.hanging.HangingSpec, or None for the defaults
+    grain: str = "unknown"  # a bar's sawing: "flat", "quarter" or "unknown" (cutplan.grain)
 
 
 @dataclass(frozen=True)

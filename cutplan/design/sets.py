@@ -17,7 +17,7 @@ from cutplan.design.text import unprintable, unsafe_name
 SET_KEYS = {
     "name", "kind", "notes", "scale", "root", "count", "frequencies", "cents", "ratios", "range",
     "material", "section", "model", "target", "ends", "end_correction", "temperature",
-    "humidity", "serves", "max_length", "stock", "undercut", "temperature_range", "hanging",
+    "humidity", "serves", "max_length", "stock", "undercut", "temperature_range", "hanging", "grain",
 }
 MAX_NAME = 40
 

@@ -159,7 +159,7 @@ _ORDER = {
     "": ("title", "units", "paper", "tuning", "set", "stock"),
     "tuning": ("a4", "temperament"),
     "set": ("name", "kind", "notes", "scale", "root", "count", "range", "frequencies", "cents", "ratios", "material",
-            "section", "model", "target", "ends", "end_correction", "temperature", "humidity", "serves",
+            "section", "model", "grain", "target", "ends", "end_correction", "temperature", "humidity", "serves",
             "max_length", "temperature_range", "undercut", "stock"),
     "section": ("stock", "shape", "outer", "wall", "inner", "diameter", "width", "thickness"),
     "stock": ("lengths", "kerf", "end_trim", "allowance"),
