@@ -146,12 +146,12 @@ def _mesh(xs, hs, nx, ny):
     length = xs[-1]
     # stations that are kinks of the profile become mesh lines when the mesh can afford it
     grid = np.linspace(0.0, length, nx + 1)
-    kinks = _kinks(xs, hs)
-    for k in kinks:
-        j = int(np.argmin(np.abs(grid - k)))
-        if 0 < j < nx:
-            grid[j] = k
-    grid = np.sort(grid)
+    moved = np.zeros(nx + 1, dtype=bool)
+    spacing = length / nx
+    for k in _kinks(xs, hs):
+        j = int(np.rint(k / spacing))
+        if 0 < j < nx and not moved[j]:
+            grid[j], moved[j] = k, True
     eta = np.linspace(0.0, 1.0, ny + 1)
     px = np.repeat(grid, ny + 1)
     py = np.tile(eta, nx + 1)
