@@ -134,6 +134,14 @@ def test_the_one_dimensional_design_stays_available_and_is_too_stiff(tmp_path):
     m = fine_modes(piece.arch.outline, (pc.modulus_along, pc.modulus_across, pc.shear_modulus, pc.poisson,
                                         pc.density), spec.section.width)
     assert cents(m.frequencies[0], piece.target_hz) < -15
+    # its trim rate keeps the arch where it is too: lower than with the arch scaled with the length
+    # (the 1-D arch search's own f(L)), by about a tenth for this bar
+    a, sec, mat = piece.arch, spec.section, spec.material
+    scaled = [undercut.bar_modes(piece.length + d, sec.width, a.thickness, a.depth, a.arch_width,
+                                 mat.modulus_for("timoshenko"), mat.shear_modulus_for("timoshenko"), mat.density,
+                                 sec.shear_coefficient(mat.poisson), a.exponent, modes=1).frequencies[0]
+              for d in (-0.5e-3, 0.5e-3)]
+    assert 0.8 * cents(*scaled) < piece.cents_per_mm < 0.95 * cents(*scaled)
 
 
 def test_trim_rate_keeps_the_arch_where_it_is(tmp_path):
