@@ -91,6 +91,7 @@ class SetPlan:
     allowance_rule: str = ""
     hanging: object = None  # cutplan.hanging.Hanging for a chime set
     material_class: str = ""  # "metal", "wood", "plastic", "glass", ... from the material table
+    elastic_constants: tuple = ()  # ((name, value in SI), ...) the model used, e.g. ("modulus_along", 2.1e10)
 
     @property
     def section_text(self):

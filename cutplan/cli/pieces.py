@@ -87,8 +87,8 @@ def materials_command(name, materials_dirs):
 @click.option("--ends", type=click.Choice(["open-open", "closed-open"]), default="open-open", show_default=True,
               help="Air column ends.")
 @click.option("--temperature", default="20 C", show_default=True, help="Air temperature for air columns.")
-@click.option("--model", type=click.Choice(["timoshenko", "slender"]), default="timoshenko", show_default=True,
-              help="Beam model for chimes and bars.")
+@click.option("--model", type=click.Choice(["timoshenko", "slender", "elastic-2d"]), default="timoshenko",
+              show_default=True, help="Beam model for chimes and bars (elastic-2d: bars only).")
 @click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
 @click.option("--units", type=click.Choice(["mm", "in"]), default="mm", show_default=True,
               help="Units shown first.")

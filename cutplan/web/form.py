@@ -99,11 +99,16 @@ class SetField:
     blank: str = ""
 
 
-MODEL_OPTIONS = (("timoshenko", "shear-corrected (timoshenko)"), ("slender", "slender"))
+MODEL_OPTIONS = (("timoshenko", "shear-corrected (timoshenko)"), ("slender", "slender"),
+                 ("elastic-2d", "2-D elastic body (bars)"))
 """The beam models a chime or bar set may name (the design's ``model`` key)."""
 BEAMS, AIR = ("chime", "bar"), ("air-column", "resonator")
 SET_EXTRAS = (
-    SetField("model", "Beam model", BEAMS, options=MODEL_OPTIONS, blank="(default: shear-corrected)"),
+    SetField("model", "Beam model", BEAMS, options=MODEL_OPTIONS,
+             blank="(default: shear-corrected; 2-D for undercut bars)"),
+    SetField("grain", "Sawing", ("bar",), options=(("flat", "flat-sawn"), ("quarter", "quarter-sawn"),
+                                                   ("unknown", "unknown")),
+             blank="(default: unknown; wood bars)"),
     SetField("target", "Tune", BEAMS, options=(("fundamental", "the lowest mode"), ("strike-note", "the strike note")),
              blank="(default: the lowest mode)"),
     SetField("ends", "Ends", ("air-column",), options=(("open-open", "open at both ends"),
