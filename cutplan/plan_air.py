@@ -33,8 +33,9 @@ def stopper_settings(spec, frequency, radius):
         temps.append(spec.temperature)
     out = []
     for t in sorted(temps):
-        speed = air_stock.speed(spec, float(t))
-        out.append((float(t), air_column.closed_open_length(frequency, radius, speed, correction=spec.end_correction)))
+        model = air_stock.column_model(spec, float(t))
+        model["ends"] = "closed-open"
+        out.append((float(t), air_column.column_length(frequency, **model)))
     return tuple(out)
 
 
@@ -43,20 +44,20 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock):
     speed = air_stock.speed(spec)
     radius = spec.section.air_radius
     closed = spec.ends == "closed-open"
-    length_of = air_column.closed_open_length if closed else air_column.open_open_length
-    freq_of = air_column.closed_open_frequency if closed else air_column.open_open_frequency
+    model = air_stock.column_model(spec)
     pieces, errors = [], []
     for i, t in enumerate(targets, start=1):
-        length = length_of(t.frequency, radius, speed, correction=spec.end_correction)
+        length = air_column.column_length(t.frequency, **model)
         label = f"{spec.name}-{i}"
         if length <= 2 * radius:
             errors.append(DesignError(design.path, f"set[{spec.index}]", t.name,
                                       f"is too high for a {format_length(2 * radius, design.units)} bore: the column would be "
                                       f"{format_length(length, design.units)} long ({label}); use a narrower tube"))
             continue
-        harmonics = [2 * n - 1 for n in range(1, PARTIAL_COUNT + 1)] if closed else list(range(1, PARTIAL_COUNT + 1))
-        f1 = float(freq_of(length, radius, speed, correction=spec.end_correction))
-        partials = [f1 * h for h in harmonics]
+        # each resonance with its own wall losses and end correction (no longer exact multiples)
+        partials = [float(air_column.column_frequency(length, harmonic=n, **model))
+                    for n in range(1, PARTIAL_COUNT + 1)]
+        f1 = partials[0]
         warnings = []
         if length < 2 * radius * 2:
             warnings.append("short column: under two bores long, the end correction dominates; cut long and trim")

@@ -176,12 +176,18 @@ def _set_summary(spec: SetSpec, units="mm"):
     assumptions = []
     if spec.kind in ("air-column", "resonator"):
         speed = air_stock.speed(spec)
-        hum = "dry air (ISO 9613-1)" if spec.humidity is None else f"{spec.humidity:.0f} % RH (Cramer 1993)"
-        assumptions.append(f"air at {spec.temperature - 273.15:.1f} C, {hum}: speed of sound {speed:.2f} m/s")
+        hum = (f"{air_stock.humidity(spec):.0f} % RH" + (" (assumed; give humidity to change it)"
+                                                         if spec.humidity is None else ""))
+        assumptions.append(f"air at {spec.temperature - 273.15:.1f} C, {hum}: speed of sound {speed:.2f} m/s "
+                           "in free air (Cramer 1993)")
         corr = spec.end_correction
-        corr_text = f"{corr} x inner radius" if isinstance(corr, (int, float)) else corr
+        corr_text = (f"{corr:.6g} x inner radius" if isinstance(corr, (int, float))
+                     else f"{corr}, falling with ka (Levine & Schwinger 1948 curve)" if corr != "none" else corr)
         assumptions.append(f"{spec.ends} column, end correction {corr_text} per open end, "
                            f"bore {format_length(spec.section.air_radius * 2, units)}")
+        if air_stock.wall_losses(spec):
+            assumptions.append("wall losses: viscous and thermal boundary layers slow sound in the pipe by "
+                               "about 1.6e-3 / (a sqrt f) (Kirchhoff; Keefe 1984), each note at its own frequency")
         assumptions += air_stock.assumptions(spec)
         if spec.temperature_range is not None:
             lo, hi = spec.temperature_range
