@@ -1,4 +1,5 @@
-"""The modes a piece is not tuned by: sideways bending of bars and twisting of bars and tubes.
+"""The modes a piece is not tuned by: sideways bending of bars, twisting of bars and tubes, and
+the ring (ovalling) modes of tubes.
 
 For each planned chime or bar this lists the sideways (bars) and twisting (bars and tubes) modes
 up to just above its highest reported partial, and warns, naming the mode, when one falls within
@@ -55,13 +56,29 @@ def piece_other_modes(spec, piece):
         found = [("sideways", side), ("twisting", twist)]
     else:
         found = [("twisting", side_modes.twisting_frequencies_tube(length, sec.outer, sec.inner, g, rho, MAX_MODES))]
+        found += _ring_modes(sec, e, rho, mat.poisson)
     top = max(piece.partials_hz) * REPORT_ABOVE if piece.partials_hz else 0.0
     out = []
     for kind, freqs in found:
-        for n, f in enumerate(freqs, start=1):
-            if n == 1 or f <= top:
+        first = RING_FIRST_LOBES if kind == "ring" else 1
+        for n, f in enumerate(freqs, start=first):
+            if n == first or f <= top:
                 out.append((kind, n, float(f)))
     return tuple(out)
+
+
+RING_FIRST_LOBES = 2
+"""Ring modes are numbered by their lobes around the circumference; the first (ovalling) has 2."""
+
+
+def _ring_modes(sec, modulus, density, poisson):
+    """[("ring", frequencies)] of a tube's ring (ovalling) modes, n = 2, 3, ...; [] for a rod."""
+    from cutplan.physics.ring_modes import ring_frequencies
+
+    inner = getattr(sec, "solid_inner", sec.inner)
+    if not inner > 0:
+        return []
+    return [("ring", ring_frequencies(sec.outer, inner, modulus, density, poisson, MAX_MODES))]
 
 
 def tuned_partials(spec, piece):
@@ -82,6 +99,7 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2)):
         name = f"{kind} mode {n} ({f:.0f} Hz)"
         if fundamental and f < fundamental:
             fix = ("make the bar wider than it is thick" if kind == "sideways"
+                   else "a thicker wall raises it" if kind == "ring"
                    else "a narrower bar twists higher against its note")
             out.append(f"{name} is below the fundamental ({fundamental:.0f} Hz): a glancing or off-centre "
                        f"strike can sound it; {fix}")
@@ -91,9 +109,11 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2)):
                 continue
             off = _cents(f, p)
             if abs(off) <= clearance_cents:
+                mover = ("a tube of another wall or diameter moves it away (ring modes do not change "
+                         "with length)" if kind == "ring" else
+                         f"a few mm more or less {'width' if kind == 'sideways' else 'width or thickness'} moves it away")
                 out.append(f"{name} is {abs(off):.0f} cent{'' if round(abs(off)) == 1 else 's'} {'above' if off > 0 else 'below'} partial {k} "
-                           f"({p:.0f} Hz): the two can beat or buzz; a few mm more or less "
-                           f"{'width' if kind == 'sideways' else 'width or thickness'} moves it away")
+                           f"({p:.0f} Hz): the two can beat or buzz; {mover}")
     return out
 
 

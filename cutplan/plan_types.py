@@ -41,7 +41,7 @@ class Piece:
     strike_note_hz: float | None = None
     trim_end: str = ""
     if_sharp: str = ""
-    other_modes: tuple = ()  # ((kind "sideways" | "twisting", mode, hz), ...): see other_modes.py
+    other_modes: tuple = ()  # ((kind "sideways" | "twisting" | "ring", mode, hz), ...): see other_modes.py
 
     @property
     def partial_ratios(self):
