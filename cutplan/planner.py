@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from cutplan import advice, air_stock, other_modes, pitch, uncertainty
+from cutplan import advice, air_stock, hang_holes, other_modes, pitch, uncertainty
 from cutplan.allowance import allowance_rule, allowances, risk_warning
 from cutplan.design import Design, DesignError, DesignErrors, SetSpec
 from cutplan.models import (
@@ -223,6 +223,13 @@ def _set_summary(spec: SetSpec, units="mm"):
                    assumptions=tuple(assumptions))
 
 
+def _hang_hole_rows():
+    """The shop table of hang-hole drills (read for each chime set)."""
+    from cutplan.shopping import hang_holes as rows
+
+    return rows()
+
+
 def bars_to_solve(design: Design):
     """How many arched bars a design has (each takes a small optimisation; for progress bars)."""
     return sum(len(s.targets) for s in design.sets if s.undercut is not None)
@@ -248,6 +255,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                 else:
                     pieces = _plan_beam_set(spec, design, stock)
                 pieces = other_modes.with_other_modes(spec, pieces)
+                pieces = hang_holes.with_hang_holes(spec, pieces, _hang_hole_rows(), design.units)
             except ValueError as exc:
                 errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}"))
                 continue

@@ -176,6 +176,28 @@ def _stock_items(plan):
     return items
 
 
+def _drill_for(s, row, shown="mm"):
+    """(drill [m], note): the table's drill, or a smaller one when the table's makes a piece's two
+    bending planes beat faster than the limit (``Piece.hang_hole``, planned by hang_holes.py)."""
+    splits = [p.hang_hole for p in s.pieces if getattr(p, "hang_hole", None) is not None]
+    fast = [h for h in splits if h.beat_hz > h_limit() and h.largest_drill > 0]
+    if not fast:
+        return row.drill, "through both walls, at the hang-hole mark"
+    from cutplan.hang_holes import drill_text
+
+    drill = min(h.largest_drill for h in fast)
+    return drill, (f"through both walls, at the hang-hole mark; {drill_text(drill, shown)}, smaller than the "
+                   f"table's {drill_text(row.drill, shown)}, so the hole's two bending planes beat slower than "
+                   f"{h_limit():g} Hz; use a line that fits it")
+
+
+def h_limit():
+    """The beat limit of hang holes [Hz] (:data:`cutplan.hang_holes.BEAT_LIMIT_HZ`)."""
+    from cutplan.hang_holes import BEAT_LIMIT_HZ
+
+    return BEAT_LIMIT_HZ
+
+
 def _chime_items(s, rows, shown="mm"):
     n = len(s.pieces)
     plate = hanging_plate(s)
@@ -184,8 +206,8 @@ def _chime_items(s, rows, shown="mm"):
     items = [Item("hanging", f"hanging line for {s.name}: {line}", None, None, n * LINE_PER_PIECE,
                   f"about {units.format_length(LINE_PER_PIECE, shown)} per tube", suggestion=True)]
     if row is not None:
-        items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, row.drill, None,
-                          "through both walls, at the hang-hole mark"))
+        drill, note = _drill_for(s, row, shown)
+        items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, drill, None, note))
     items += [
         Item("hanging", f"hanging plate for {s.name}", 1, plate.diameter_mm / 1000, None,
              f"across; {plate_material(shown)}", suggestion=True),
