@@ -21,11 +21,13 @@ STOPPER_STEP = 5.0
 """Temperature step of the stopper-setting table [K]."""
 
 
-def stopper_settings(spec, frequency, radius):
+def stopper_settings(spec, frequency, radius, bar_drift=0.0):
     """((temperature [K], depth from the open end to the stopper face [m]), ...) over the range.
 
     The closed end of a resonator is a movable stopper; as the air warms the speed of sound rises
-    and the column must be longer to stay in tune (c ~ sqrt(T), ISO 9613-1).
+    and the column must be longer to stay in tune (c ~ sqrt(T), ISO 9613-1).  The bar it serves
+    drifts too, by ``bar_drift`` = d ln f / dT [1/K] (thermal.py), and the column follows the
+    bar's pitch at each temperature (bar and resonator at the same temperature).
     """
     lo, hi = spec.temperature_range
     temps = list(np.arange(lo, hi, STOPPER_STEP)) + [hi]
@@ -35,11 +37,12 @@ def stopper_settings(spec, frequency, radius):
     for t in sorted(temps):
         model = air_stock.column_model(spec, float(t))
         model["ends"] = "closed-open"
-        out.append((float(t), air_column.column_length(frequency, **model)))
+        bar_hz = frequency * np.exp(bar_drift * (float(t) - spec.temperature))
+        out.append((float(t), air_column.column_length(bar_hz, **model)))
     return tuple(out)
 
 
-def plan_air_set(spec: SetSpec, design: Design, targets, stock):
+def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
     temperature = spec.temperature
     speed = air_stock.speed(spec)
     radius = spec.section.air_radius
@@ -80,7 +83,7 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock):
         warnings += risk_warning(risk)
         stopper = ()
         if spec.temperature_range is not None:
-            stopper = stopper_settings(spec, t.frequency, radius)
+            stopper = stopper_settings(spec, t.frequency, radius, bar_drift)
             deepest = max(depth for _, depth in stopper)
             cut = max(cut, deepest + STOPPER_MARGIN)
             if spec.kind == "resonator" and cut > spec.max_length:

@@ -8,9 +8,11 @@ sound at the set's temperature and the end corrections for air columns and reson
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 import numpy as np
 
-from cutplan import advice, air_stock, hang_holes, other_modes, pitch, uncertainty
+from cutplan import advice, air_stock, hang_holes, other_modes, pitch, thermal, uncertainty
 from cutplan.allowance import allowance_rule, allowances, risk_warning
 from cutplan.design import Design, DesignError, DesignErrors, SetSpec
 from cutplan.models import (
@@ -208,6 +210,9 @@ def _set_summary(spec: SetSpec, units="mm"):
                            if model == "timoshenko" else "slender (Euler-Bernoulli) free-free beam")
         if spec.target_mode == "strike-note":
             assumptions.append("tuned to the strike note: half the mode-4 frequency")
+        drift = thermal.assumption(mat)
+        if drift:
+            assumptions.append(drift)
         if spec.undercut is not None:
             u = spec.undercut
             ratio_text = ":".join(f"{r:g}" for r in (1,) + u.ratios)
@@ -266,9 +271,15 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                     errors.append(DesignError(design.path, f"set[{spec.index}].serves", spec.serves, "could not be planned"))
                     continue
                 targets = [pitch.Target(p.note, p.fundamental_hz) for p in served.pieces]
+                bar_drift = thermal.drift_for(next(s.material for s in design.sets if s.name == spec.serves))
+                if bar_drift is not None and spec.temperature_range is not None:
+                    summary = replace(summary, assumptions=summary.assumptions + (
+                        f"stopper table follows the served pieces' own drift ({bar_drift.cents_per_kelvin:+.2f} "
+                        "cents per kelvin): tune bar and resonator at the same temperature",))
             else:
-                targets = list(spec.targets)
-            pieces, errs = plan_air_set(spec, design, targets, stock)
+                targets, bar_drift = list(spec.targets), None
+            pieces, errs = plan_air_set(spec, design, targets, stock,
+                                        bar_drift=bar_drift.per_kelvin if bar_drift is not None else 0.0)
             errors.extend(errs)
         if stock and stock.lengths:
             longest = max(s.length for s in stock.lengths)

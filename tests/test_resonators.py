@@ -45,27 +45,42 @@ def _quarter_wave(kelvin, f, a=0.022):
     return v / (4 * f), air_column.end_correction_dalmont_nederveen_2001(2 * math.pi * f * a / c) * a
 
 
-def test_stopper_depth_follows_the_speed_of_sound(res_piece):
-    # closed column L = v / (4 f) - delta at each temperature of the table, a = 22 mm
+def _bar_hz(kelvin, f):
+    """The aluminium bar's pitch at ``kelvin``: d ln f / dT = (e + alpha) / 2 (f ~ (t / L^2)
+    sqrt(E / rho), every length growing by alpha dT), e = (1/E) dE/dT (values from memory)."""
+    from cutplan.thermal import DRIFTS
+
+    drift = dict(DRIFTS)["aluminum"]
+    return f * math.exp(0.5 * (drift.modulus + drift.expansion) * (kelvin - 293.15))
+
+
+def test_stopper_depth_follows_the_speed_of_sound_and_the_bar(res_piece):
+    # closed column L = v / (4 f) - delta at each temperature of the table, a = 22 mm, f the
+    # bar's own pitch at that temperature (bar and resonator tuned together)
     f = res_piece.target_hz
     for kelvin, depth in res_piece.stopper:
-        quarter, delta = _quarter_wave(kelvin, f)
+        quarter, delta = _quarter_wave(kelvin, _bar_hz(kelvin, f))
         assert depth == pytest.approx(quarter - delta, rel=1e-9)
+    assert dict(res_piece.stopper)[293.15] == pytest.approx(res_piece.length, rel=1e-12)
 
 
 def test_stopper_travel_for_twenty_degrees(res_piece):
     # c ~ sqrt(T) in dry air (ISO 9613-1:1993, Formula A.5): lambda/4 at 30 C over lambda/4 at
     # 10 C would be sqrt(303.15 / 283.15) = 1.03472.  At a constant 50 % RH the warm air holds more
-    # water, which adds 0.21 % (Cramer 1993, Table III; computed); the wall losses barely move it
+    # water, which adds 0.21 % (Cramer 1993, Table III; computed); the wall losses barely move it;
+    # the aluminium bar going flat as it warms (-0.41 cents/K) adds 0.48 % more
     depths = dict(res_piece.stopper)
     f = res_piece.target_hz
-    quarter_10 = depths[283.15] + _quarter_wave(283.15, f)[1]
-    quarter_30 = depths[303.15] + _quarter_wave(303.15, f)[1]
-    assert quarter_30 / quarter_10 == pytest.approx(_quarter_wave(303.15, f)[0] / _quarter_wave(283.15, f)[0],
-                                                    rel=1e-9)
-    assert quarter_30 / quarter_10 / math.sqrt(303.15 / 283.15) == pytest.approx(1.0021, abs=2e-4)
-    # about 3.7 % of the quarter wavelength: ~7.2 mm for A4
-    assert (depths[303.15] - depths[283.15]) * 1000 == pytest.approx(7.2, abs=0.3)
+    f10, f30 = _bar_hz(283.15, f), _bar_hz(303.15, f)
+    quarter_10 = depths[283.15] + _quarter_wave(283.15, f10)[1]
+    quarter_30 = depths[303.15] + _quarter_wave(303.15, f30)[1]
+    air = _quarter_wave(303.15, f30)[0] / _quarter_wave(283.15, f10)[0]
+    assert quarter_30 / quarter_10 == pytest.approx(air, rel=1e-9)
+    assert _quarter_wave(303.15, f)[0] / _quarter_wave(283.15, f)[0] / math.sqrt(303.15 / 283.15) == pytest.approx(
+        1.0021, abs=2e-4)
+    assert f10 / f30 == pytest.approx(2 ** (20 * 0.41 / 1200), abs=2e-4)
+    # about 4.2 % of the quarter wavelength: ~8.2 mm for A4
+    assert (depths[303.15] - depths[283.15]) * 1000 == pytest.approx(8.2, abs=0.3)
 
 
 def test_tube_is_cut_for_the_warmest_setting(res_piece):
