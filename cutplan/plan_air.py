@@ -69,8 +69,8 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
                             f"{format_length(spec.max_length, design.units)}; use a folded tube or a wider bore")
         ka = 2 * np.pi * t.frequency / speed * radius
         if ka > 0.5:
-            warnings.append(f"wide bore for this pitch (ka = {ka:.2f}): the end correction shrinks at high "
-                            "frequency, so the column may sound flat; trim to tune")
+            warnings.append(f"wide bore for this pitch (ka = {ka:.2f}): the end correction, modelled as falling "
+                            "with ka, is less certain here; cut long and trim to tune")
         mass = spec.material.density * spec.section.area * length if spec.material is not None else None
         f_at = air_frequency_function(spec)
         factor = air_column.end_correction(1.0, spec.end_correction)
