@@ -16,9 +16,10 @@ import math
 from cutplan.physics.hang_hole import hang_hole_shifts
 from cutplan.plan_types import HangHoleSplit
 
-BEAT_LIMIT_HZ = 1.0
-"""Fastest beat between the two bending planes accepted without a warning [Hz] (common practice:
-one beat a second or slower is heard as a gentle swell in a ringing chime, not a wobble)."""
+BEAT_LIMIT_HZ = 1.5
+"""Fastest beat between the two bending planes accepted without a warning [Hz] (common practice,
+a judgement: a slower beat is heard as a gentle swell in a ringing chime, a faster one as a
+wobble; the usual 1/8-3/16 in holes in 1 in tube up to the sixth octave stay under it)."""
 
 DRILL_STEP = 0.0254 / 64
 """Fractional drill sizes go up in 1/64 in steps [m] (common practice, jobber drill sets)."""

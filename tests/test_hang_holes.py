@@ -40,10 +40,10 @@ def test_each_chime_states_its_hang_hole_split_and_beat():
 
 
 def test_a_fast_beat_warns_and_the_shopping_list_takes_a_smaller_drill():
-    # 2 in x 0.035 in tube at E7 with the table's 3/16 in drill (common-practice table): the
-    # beat passes the 1 Hz limit, so the warning names a smaller drill and the shopping list
+    # 2 in x 0.035 in tube at C8 with the table's 3/16 in drill (common-practice table): the
+    # beat passes the 1.5 Hz limit, so the warning names a smaller drill and the shopping list
     # buys that one
-    plan = _chime("2 in", "0.035 in", "E7")
+    plan = _chime("2 in", "0.035 in", "C8")
     (p,) = plan.pieces
     assert p.hang_hole.beat_hz > hang_holes.BEAT_LIMIT_HZ
     assert 0 < p.hang_hole.largest_drill < p.hang_hole.drill
@@ -53,7 +53,7 @@ def test_a_fast_beat_warns_and_the_shopping_list_takes_a_smaller_drill():
 
 
 def test_largest_drill_keeps_the_beat_under_the_limit():
-    plan = _chime("2 in", "0.035 in", "E7")
+    plan = _chime("2 in", "0.035 in", "C8")
     (p,) = plan.pieces
     h = p.hang_hole
     inner = (2 - 0.07) * 0.0254
