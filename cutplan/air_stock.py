@@ -77,7 +77,7 @@ def speed(spec, temperature=None):
     >>> cal = dataclasses.replace(sec, air_calibration=AirCalibration(345.0, 293.15, 0.009))
     >>> spec = NS(kind="air-column", section=cal, temperature=293.15, humidity=50.0)
     >>> round(speed(spec), 2), round(speed(spec, 303.15) / speed(spec), 5)
-    (345.0, 1.01691)
+    (345.0, 1.01838)
     """
     t = spec.temperature if temperature is None else temperature
     c = air_column.speed_of_sound(t, humidity(spec))
