@@ -9,7 +9,8 @@ import cutplan
 from cutplan import hang_holes
 from cutplan.physics.hang_hole import hang_hole_shifts
 from cutplan.render.table import plan_dict
-from cutplan.shopping import hang_hole_for, hang_holes as shop_rows
+from cutplan.shopping import hang_hole_for
+from cutplan.shopping import hang_holes as shop_rows
 
 ROOT = Path(__file__).resolve().parent.parent
 
