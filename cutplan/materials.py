@@ -38,7 +38,7 @@ along-grain pair is ``shear_ratio`` (G_LR/E_L) and ``poisson`` (nu_LR). See :mod
 _VALUE_KEYS = {"value", "source", "where", "kind", "spread", "basis"}
 _STOCK_HEADER_KEYS = {"standard", "source", "where", "kind", "shape", "material", "bore", "wall_factor"}
 _STOCK_KEYS = {"description", "outer", "wall", "inner", "outer_tolerance", "wall_tolerance", "material",
-               "speed_of_sound", "measured_at", "end_correction", "calibration_note"}
+               "speed_of_sound", "measured_at", "end_correction", "calibration_note", "measured_frequency"}
 _AIR_KEYS = ("speed_of_sound", "measured_at", "end_correction")
 
 
@@ -333,8 +333,15 @@ def _air_calibration(path, name, row):
     if not 0.0 <= values["end_correction"] < 0.5:
         raise MaterialError(path, f"sizes.{name}.end_correction", row["end_correction"],
                             "must be from 0 to 500 mm per open end")
+    frequency = 0.0
+    if "measured_frequency" in row:
+        try:
+            frequency = units.parse_frequency(row["measured_frequency"])
+        except units.UnitError as exc:
+            raise MaterialError(path, f"sizes.{name}.measured_frequency", row["measured_frequency"],
+                                f"is not {exc.accepted}") from None
     return AirCalibration(values["speed_of_sound"], values["measured_at"], values["end_correction"],
-                          str(row.get("calibration_note", "")))
+                          str(row.get("calibration_note", "")), frequency)
 
 
 def load_library(extra_dirs=(), include_packaged=True):

@@ -72,11 +72,8 @@ def beam_frequency_function(material, section, model, strike=False):
 
 def air_frequency_function(spec):
     """f(L) [Hz] of an air-column or resonator set's fundamental at its temperature."""
-    spec = air_stock.applied(spec)
-    speed = air_stock.speed(spec)
-    radius = spec.section.air_radius
-    freq_of = air_column.closed_open_frequency if spec.ends == "closed-open" else air_column.open_open_frequency
-    return lambda x: float(freq_of(x, radius, speed, correction=spec.end_correction))
+    model = air_stock.column_model(spec)
+    return lambda x: float(air_column.column_frequency(x, **model))
 
 
 def plane_constants(mat, sawing="unknown"):

@@ -1,4 +1,5 @@
-"""The modes a piece is not tuned by: sideways bending of bars and twisting of bars and tubes.
+"""The modes a piece is not tuned by: sideways bending of bars, twisting of bars and tubes, and
+the ring (ovalling) modes of tubes.
 
 For each planned chime or bar this lists the sideways (bars) and twisting (bars and tubes) modes
 up to just above its highest reported partial, and warns, naming the mode, when one falls within
@@ -42,11 +43,13 @@ def piece_other_modes(spec, piece):
         found = _bar_modes(spec, piece)
     else:
         found = [("twisting", side_modes.twisting_frequencies_tube(length, sec.outer, sec.inner, g, rho, MAX_MODES))]
+        found += _ring_modes(sec, mat.modulus_for(model), rho, mat.poisson)
     top = max(piece.partials_hz) * REPORT_ABOVE if piece.partials_hz else 0.0
     out = []
     for kind, freqs in found:
-        for n, f in enumerate(freqs, start=1):
-            if n == 1 or f <= top:
+        first = RING_FIRST_LOBES if kind == "ring" else 1
+        for n, f in enumerate(freqs, start=first):
+            if n == first or f <= top:
                 out.append((kind, n, float(f)))
     return tuple(out)
 
@@ -81,6 +84,20 @@ def _bar_modes(spec, piece):
     return [("sideways", side), ("twisting", twist)]
 
 
+RING_FIRST_LOBES = 2
+"""Ring modes are numbered by their lobes around the circumference; the first (ovalling) has 2."""
+
+
+def _ring_modes(sec, modulus, density, poisson):
+    """[("ring", frequencies)] of a tube's ring (ovalling) modes, n = 2, 3, ...; [] for a rod."""
+    from cutplan.physics.ring_modes import ring_frequencies
+
+    inner = getattr(sec, "solid_inner", sec.inner)
+    if not inner > 0:
+        return []
+    return [("ring", ring_frequencies(sec.outer, inner, modulus, density, poisson, MAX_MODES))]
+
+
 def tuned_partials(spec, piece):
     """Mode numbers (1-based) of the partials that are tuned or heard as the note, see the module notes."""
     if piece.arch is not None:
@@ -110,6 +127,7 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2), s
         name = f"the {'bar' if piece.kind == 'bar' else 'piece'}'s {_ordinal(n)} {kind} mode ({f:.0f} Hz)"
         if fundamental and f < fundamental:
             fix = ("make the bar wider than it is thick" if kind == "sideways"
+                   else "a thicker wall raises it" if kind == "ring"
                    else "a narrower bar twists higher against its note")
             out.append(f"{kind} mode {n}: {name} is below the fundamental ({fundamental:.0f} Hz): a glancing or "
                        f"off-centre strike can sound it; {fix}")
@@ -125,9 +143,11 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2), s
             partial = ("fundamental (partial 1" if k == 1
                        else f"{tuned_word}{_ordinal(k)} partial (partial {k}, {p / fundamental:.1f} x f1")
             cents = f"{abs(off):.0f} cent{'' if round(abs(off)) == 1 else 's'} {'above' if off > 0 else 'below'}"
-            move = "width" if kind == "sideways" else "width or thickness"
+            move = ("a tube of another wall or diameter moves it away (ring modes do not change with length)"
+                    if kind == "ring" else
+                    f"a few mm more or less {'width' if kind == 'sideways' else 'width or thickness'} moves it away")
             text = (f"{kind} mode {n}: {name} lies {cents} the {partial}, {p:.0f} Hz): "
-                    f"expect a buzz or a beat; a few mm more or less {move} moves it away")
+                    f"expect a buzz or a beat; {move}")
             if extra:
                 text += (f"; the sawing is not given, so this mode may lie up to {extra:.0f} cents either side: "
                          'give grain = "flat" or "quarter" to narrow it')

@@ -21,11 +21,13 @@ STOPPER_STEP = 5.0
 """Temperature step of the stopper-setting table [K]."""
 
 
-def stopper_settings(spec, frequency, radius):
+def stopper_settings(spec, frequency, radius, bar_drift=0.0):
     """((temperature [K], depth from the open end to the stopper face [m]), ...) over the range.
 
     The closed end of a resonator is a movable stopper; as the air warms the speed of sound rises
-    and the column must be longer to stay in tune (c ~ sqrt(T), ISO 9613-1).
+    and the column must be longer to stay in tune (c ~ sqrt(T), ISO 9613-1).  The bar it serves
+    drifts too, by ``bar_drift`` = d ln f / dT [1/K] (thermal.py), and the column follows the
+    bar's pitch at each temperature (bar and resonator at the same temperature).
     """
     lo, hi = spec.temperature_range
     temps = list(np.arange(lo, hi, STOPPER_STEP)) + [hi]
@@ -33,30 +35,32 @@ def stopper_settings(spec, frequency, radius):
         temps.append(spec.temperature)
     out = []
     for t in sorted(temps):
-        speed = air_stock.speed(spec, float(t))
-        out.append((float(t), air_column.closed_open_length(frequency, radius, speed, correction=spec.end_correction)))
+        model = air_stock.column_model(spec, float(t))
+        model["ends"] = "closed-open"
+        bar_hz = frequency * np.exp(bar_drift * (float(t) - spec.temperature))
+        out.append((float(t), air_column.column_length(bar_hz, **model)))
     return tuple(out)
 
 
-def plan_air_set(spec: SetSpec, design: Design, targets, stock):
+def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
     temperature = spec.temperature
     speed = air_stock.speed(spec)
     radius = spec.section.air_radius
     closed = spec.ends == "closed-open"
-    length_of = air_column.closed_open_length if closed else air_column.open_open_length
-    freq_of = air_column.closed_open_frequency if closed else air_column.open_open_frequency
+    model = air_stock.column_model(spec)
     pieces, errors = [], []
     for i, t in enumerate(targets, start=1):
-        length = length_of(t.frequency, radius, speed, correction=spec.end_correction)
+        length = air_column.column_length(t.frequency, **model)
         label = f"{spec.name}-{i}"
         if length <= 2 * radius:
             errors.append(DesignError(design.path, f"set[{spec.index}]", t.name,
                                       f"is too high for a {format_length(2 * radius, design.units)} bore: the column would be "
                                       f"{format_length(length, design.units)} long ({label}); use a narrower tube"))
             continue
-        harmonics = [2 * n - 1 for n in range(1, PARTIAL_COUNT + 1)] if closed else list(range(1, PARTIAL_COUNT + 1))
-        f1 = float(freq_of(length, radius, speed, correction=spec.end_correction))
-        partials = [f1 * h for h in harmonics]
+        # each resonance with its own wall losses and end correction (no longer exact multiples)
+        partials = [float(air_column.column_frequency(length, harmonic=n, **model))
+                    for n in range(1, PARTIAL_COUNT + 1)]
+        f1 = partials[0]
         warnings = []
         if length < 2 * radius * 2:
             warnings.append("short column: under two bores long, the end correction dominates; cut long and trim")
@@ -65,8 +69,8 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock):
                             f"{format_length(spec.max_length, design.units)}; use a folded tube or a wider bore")
         ka = 2 * np.pi * t.frequency / speed * radius
         if ka > 0.5:
-            warnings.append(f"wide bore for this pitch (ka = {ka:.2f}): the end correction shrinks at high "
-                            "frequency, so the column may sound flat; trim to tune")
+            warnings.append(f"wide bore for this pitch (ka = {ka:.2f}): the end correction, modelled as falling "
+                            "with ka, is less certain here; cut long and trim to tune")
         mass = spec.material.density * spec.section.area * length if spec.material is not None else None
         f_at = air_frequency_function(spec)
         factor = air_column.end_correction(1.0, spec.end_correction)
@@ -79,7 +83,7 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock):
         warnings += risk_warning(risk)
         stopper = ()
         if spec.temperature_range is not None:
-            stopper = stopper_settings(spec, t.frequency, radius)
+            stopper = stopper_settings(spec, t.frequency, radius, bar_drift)
             deepest = max(depth for _, depth in stopper)
             cut = max(cut, deepest + STOPPER_MARGIN)
             if spec.kind == "resonator" and cut > spec.max_length:

@@ -12,6 +12,21 @@ PARTIAL_COUNT = 4
 
 
 @dataclass(frozen=True)
+class HangHoleSplit:
+    """What a chime's hang hole does to the mode it is tuned by (beam estimate; see hang_holes.py):
+    the drill [m], the mode, the pitch change of bending in the hole's plane and across it
+    [cents], the beat between the two [Hz], and the largest drill that keeps the beat under the
+    limit [m] (0 when none does)."""
+
+    drill: float
+    mode: int
+    in_plane_cents: float
+    across_cents: float
+    beat_hz: float
+    largest_drill: float
+
+
+@dataclass(frozen=True)
 class Piece:
     """One piece to cut. Lengths in m, frequencies in Hz, mass in kg (SI; renderers convert)."""
 
@@ -41,7 +56,8 @@ class Piece:
     strike_note_hz: float | None = None
     trim_end: str = ""
     if_sharp: str = ""
-    other_modes: tuple = ()  # ((kind "sideways" | "twisting", mode, hz), ...): see other_modes.py
+    other_modes: tuple = ()  # ((kind "sideways" | "twisting" | "ring", mode, hz), ...): see other_modes.py
+    hang_hole: HangHoleSplit | None = None  # a chime tube's hang hole and the beat it makes
 
     @property
     def partial_ratios(self):

@@ -8,9 +8,11 @@ sound at the set's temperature and the end corrections for air columns and reson
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 import numpy as np
 
-from cutplan import advice, air_stock, grain, other_modes, pitch, plan_elastic, uncertainty
+from cutplan import advice, air_stock, grain, hang_holes, other_modes, pitch, plan_elastic, thermal, uncertainty
 from cutplan.allowance import allowance_rule, allowances, risk_warning
 from cutplan.design import Design, DesignError, DesignErrors, SetSpec
 from cutplan.models import (
@@ -184,12 +186,18 @@ def _set_summary(spec: SetSpec, units="mm"):
     assumptions, constants = [], ()
     if spec.kind in ("air-column", "resonator"):
         speed = air_stock.speed(spec)
-        hum = "dry air (ISO 9613-1)" if spec.humidity is None else f"{spec.humidity:.0f} % RH (Cramer 1993)"
-        assumptions.append(f"air at {spec.temperature - 273.15:.1f} C, {hum}: speed of sound {speed:.2f} m/s")
+        hum = (f"{air_stock.humidity(spec):.0f} % RH" + (" (assumed; give humidity to change it)"
+                                                         if spec.humidity is None else ""))
+        assumptions.append(f"air at {spec.temperature - 273.15:.1f} C, {hum}: speed of sound {speed:.2f} m/s "
+                           "in free air (Cramer 1993)")
         corr = spec.end_correction
-        corr_text = f"{corr} x inner radius" if isinstance(corr, (int, float)) else corr
+        corr_text = (f"{corr:.6g} x inner radius" if isinstance(corr, (int, float))
+                     else f"{corr}, falling with ka (Levine & Schwinger 1948 curve)" if corr != "none" else corr)
         assumptions.append(f"{spec.ends} column, end correction {corr_text} per open end, "
                            f"bore {format_length(spec.section.air_radius * 2, units)}")
+        if air_stock.wall_losses(spec):
+            assumptions.append("wall losses: viscous and thermal boundary layers slow sound in the pipe by "
+                               "about 1.6e-3 / (a sqrt f) (Kirchhoff; Keefe 1984), each note at its own frequency")
         assumptions += air_stock.assumptions(spec)
         if spec.temperature_range is not None:
             lo, hi = spec.temperature_range
@@ -221,6 +229,9 @@ def _set_summary(spec: SetSpec, units="mm"):
             assumptions.append("tuned to the strike note: half the mode-4 frequency")
         if spec.kind == "chime" and mat.material_class == "plastic":
             assumptions.append(PLASTIC_SUSTAIN)
+        drift = thermal.assumption(mat)
+        if drift:
+            assumptions.append(drift)
         if spec.undercut is not None:
             u = spec.undercut
             ratio_text = ":".join(f"{r:g}" for r in (1,) + u.ratios)
@@ -243,6 +254,13 @@ PLASTIC_SUSTAIN = ("plastic tubes ring briefly: a struck PVC or acrylic chime di
 """Why a plastic chime sounds short: the loss factor of rigid plastics (about 0.01 to 0.05) is
 some hundred times that of aluminium or brass (about 1e-4) (Cremer, Heckl and Petersson,
 Structure-Borne Sound, 3rd ed., 2005, table of loss factors; from memory)."""
+
+
+def _hang_hole_rows():
+    """The shop table of hang-hole drills (read for each chime set)."""
+    from cutplan.shopping import hang_holes as rows
+
+    return rows()
 
 
 def bars_to_solve(design: Design):
@@ -272,6 +290,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                 else:
                     pieces = _plan_beam_set(spec, design, stock)
                 pieces = other_modes.with_other_modes(spec, pieces)
+                pieces = hang_holes.with_hang_holes(spec, pieces, _hang_hole_rows(), design.units)
             except ValueError as exc:
                 errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}"))
                 continue
@@ -282,9 +301,15 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                     errors.append(DesignError(design.path, f"set[{spec.index}].serves", spec.serves, "could not be planned"))
                     continue
                 targets = [pitch.Target(p.note, p.fundamental_hz) for p in served.pieces]
+                bar_drift = thermal.drift_for(next(s.material for s in design.sets if s.name == spec.serves))
+                if bar_drift is not None and spec.temperature_range is not None:
+                    summary = replace(summary, assumptions=summary.assumptions + (
+                        f"stopper table follows the served pieces' own drift ({bar_drift.cents_per_kelvin:+.2f} "
+                        "cents per kelvin): tune bar and resonator at the same temperature",))
             else:
-                targets = list(spec.targets)
-            pieces, errs = plan_air_set(spec, design, targets, stock)
+                targets, bar_drift = list(spec.targets), None
+            pieces, errs = plan_air_set(spec, design, targets, stock,
+                                        bar_drift=bar_drift.per_kelvin if bar_drift is not None else 0.0)
             errors.extend(errs)
         if stock and stock.lengths:
             longest = max(s.length for s in stock.lengths)

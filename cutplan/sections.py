@@ -68,18 +68,32 @@ class Section:
     air_calibration: object = None  # an air_stock.AirCalibration measured on this stock, if any
 
     @property
+    def solid_inner(self):
+        """Inner diameter of the material itself [m]: the bore an air column sees when one is set.
+
+        One wall for bending and bore: stock tabled by its minimum wall (ASTM D1785 PVC) has an
+        average bore set halfway into the plus-only tolerance, and the chime made of it bends
+        with that same average wall, so a piece's stiffness and its column agree.
+
+        >>> pvc = tube(0.840 * 0.0254, 0.109 * 0.0254, bore=(0.840 - 2 * 1.06 * 0.109) * 0.0254)
+        >>> round(pvc.solid_inner / 0.0254, 4), round(pvc.wall / 0.0254, 3)
+        (0.6089, 0.109)
+        """
+        return (self.bore or self.inner) if self.shape == "tube" else self.inner
+
+    @property
     def area(self):
         """Cross-section area A [m^2]."""
         if self.shape == "bar":
             return self.width * self.thickness
-        return math.pi * (self.outer**2 - self.inner**2) / 4
+        return math.pi * (self.outer**2 - self.solid_inner**2) / 4
 
     @property
     def second_moment(self):
         """Second moment of area about the bending axis I [m^4]."""
         if self.shape == "bar":
             return self.width * self.thickness**3 / 12
-        return math.pi * (self.outer**4 - self.inner**4) / 64
+        return math.pi * (self.outer**4 - self.solid_inner**4) / 64
 
     @property
     def radius_of_gyration(self):
@@ -93,7 +107,8 @@ class Section:
 
     @property
     def wall(self):
-        """Wall thickness of a tube [m] (half the outside diameter for a rod)."""
+        """Wall thickness of a tube as tabled or given [m] (half the outside diameter for a rod);
+        see :attr:`solid_inner` for the wall the physics uses."""
         return (self.outer - self.inner) / 2
 
     @property
@@ -105,7 +120,7 @@ class Section:
         """Cowper's (1966) shear coefficient kappa for this shape [-]."""
         if self.shape == "bar":
             return shear_coefficient_cowper_rectangle(poisson)
-        return shear_coefficient_cowper_hollow_circle(poisson, self.inner / self.outer)
+        return shear_coefficient_cowper_hollow_circle(poisson, self.solid_inner / self.outer)
 
     def describe(self, units="mm"):
         """Short description, the chosen unit first; inches as decimals, as stock is sold.

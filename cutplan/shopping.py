@@ -196,6 +196,28 @@ def _stock_items(plan):
     return items
 
 
+def _drill_for(s, row, shown="mm"):
+    """(drill [m], note): the table's drill, or a smaller one when the table's makes a piece's two
+    bending planes beat faster than the limit (``Piece.hang_hole``, planned by hang_holes.py)."""
+    splits = [p.hang_hole for p in s.pieces if getattr(p, "hang_hole", None) is not None]
+    fast = [h for h in splits if h.beat_hz > h_limit() and h.largest_drill > 0]
+    if not fast:
+        return row.drill, "through both walls, at the hang-hole mark"
+    from cutplan.hang_holes import drill_text
+
+    drill = min(h.largest_drill for h in fast)
+    return drill, (f"through both walls, at the hang-hole mark; {drill_text(drill, shown)}, smaller than the "
+                   f"table's {drill_text(row.drill, shown)}, so the hole's two bending planes beat slower than "
+                   f"{h_limit():g} Hz; use a line that fits it")
+
+
+def h_limit():
+    """The beat limit of hang holes [Hz] (:data:`cutplan.hang_holes.BEAT_LIMIT_HZ`)."""
+    from cutplan.hang_holes import BEAT_LIMIT_HZ
+
+    return BEAT_LIMIT_HZ
+
+
 def _chime_items(s, rows, shown="mm", copies=1):
     from cutplan.hanging import SAIL_DROP
     from cutplan.hanging_load import buy_text, mass_text
@@ -212,9 +234,12 @@ def _chime_items(s, rows, shown="mm", copies=1):
                   f"({load.safety_source}); ratings from memory, check the maker's label", suggestion=True,
                   buy=buy_text(buy, shown))]
     if row is not None:
-        drill = max(row.drill, h.hole_diameter if h.hole_diameter > 0.0045 else 0.0)
+        drill, note = _drill_for(s, row, shown)
+        line_hole = h.hole_diameter if h.hole_diameter > 0.0045 else 0.0  # a heavy set's thicker line must pass
+        if line_hole > drill:
+            drill, note = line_hole, "through both walls, at the hang-hole mark; sized for the line this set needs"
         items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, drill, None,
-                          "through both walls, at the hang-hole mark (one hole per tube)", per_kit=False))
+                          f"{note} (one hole per tube)", per_kit=False))
     hook = load.hook.what if load.hook is not None else "a fixing designed for the load by a qualified person"
     items += [
         Item("hanging", f"hanging plate for {s.name}", 1, h.plate_diameter, None,

@@ -69,7 +69,7 @@ section = { stock = "pvc-sch40-1-1/4" }  # measured bore? add inner = "35.1 mm"
 ends = "open-open"          # or "closed-open" (a capped pipe sounds an octave lower)
 end_correction = "unflanged" # "flanged", "none", or a factor of the inner radius
 temperature = "18 C"        # pitch of air columns rises about 3 cents per degree C
-humidity = 60               # percent; leave out for dry air
+humidity = 60               # percent; leave out for 50 %, 0 for dry air
 
 [stock]
 lengths = [{ length = "10 ft" }]

@@ -66,12 +66,12 @@ def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, cali
     if section.shape in ("tube", "rod") and (outer_tolerance or wall_tolerance):
         outer = section.outer + outer_tolerance * u[0]
         if section.shape == "tube":
-            wall = section.wall * (1 + wall_tolerance * u[1])
+            wall = (section.outer - section.solid_inner) / 2 * (1 + wall_tolerance * u[1])
             inner = np.clip(outer - 2 * wall, 0.0, None)
         else:
             inner = 0.0
         rg = np.sqrt(outer**2 + inner**2)
-        ratio = ratio * rg / np.hypot(section.outer, section.inner)
+        ratio = ratio * rg / np.hypot(section.outer, section.solid_inner)
     return ratio
 
 

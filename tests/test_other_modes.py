@@ -1,7 +1,10 @@
 """Sideways and twisting modes on the plan: JSON, terminal, and the warnings that name them."""
 
 import json
+import math
 from pathlib import Path
+
+import pytest
 
 import cutplan
 from cutplan.render.table import plan_dict
@@ -54,10 +57,33 @@ def test_twisting_mode_near_partial_2_is_named_in_a_warning():
     assert any(w.startswith("twisting mode 1") and "partial 2" in w for w in piece.warnings)
 
 
-def test_chime_tubes_report_twisting_only():
+def test_chime_tubes_report_twisting_and_ring_modes_never_sideways():
+    # a round tube bends alike in every plane (no separate sideways mode); it twists, and its wall
+    # ovals (ring modes n = 2, 3, ...; Blevins 1979, ch. 12), listed from the first of each
     plan = cutplan.plan(cutplan.load_design(ROOT / "examples" / "porch-chimes.toml"))
     for p in plan.pieces:
-        assert p.other_modes and {kind for kind, _, _ in p.other_modes} == {"twisting"}
+        assert p.other_modes and {kind for kind, _, _ in p.other_modes} == {"twisting", "ring"}
+        assert min(n for kind, n, _ in p.other_modes if kind == "ring") == 2
+
+
+def test_ring_mode_near_the_strike_partial_of_a_big_thin_tube_is_named():
+    # 3-1/4 in x 0.100 in aluminium (6063-T5, E 68.9 GPa; ASM/MatWeb typical), whose ovalling mode
+    # lies near 1.05 kHz (thin-ring formula, Blevins 1979, ch. 12, checked in tests/physics);
+    # tuned to C5 by its strike note (half of mode 4), mode 4 is near 1046.5 Hz, a few cents
+    # from the ring mode: the warning must name it
+    from cutplan.physics.ring_modes import ring_frequencies
+
+    ring = ring_frequencies(3.25 * 0.0254, 3.05 * 0.0254, 68.9e9, 2700.0, 0.33, modes=1)[0]
+    plan = _plan([{"name": "big", "kind": "chime", "notes": ["C5"], "material": "aluminum-6063-t5",
+                   "section": {"shape": "tube", "outer": "3.25 in", "wall": "0.100 in"},
+                   "target": "strike-note"}])
+    (piece,) = plan.pieces
+    (f_ring,) = [f for kind, n, f in piece.other_modes if kind == "ring" and n == 2]
+    assert f_ring == pytest.approx(ring, rel=1e-9)
+    mode4 = piece.partials_hz[3]
+    assert abs(1200 * math.log2(f_ring / mode4)) <= 30
+    assert any(w.startswith("ring mode 2") and "partial 4" in w and "ring modes do not change" in w
+               for w in piece.warnings)
 
 
 def test_air_columns_have_no_other_modes():

@@ -6,7 +6,7 @@ import pytest
 
 from cutplan.design import load_design
 from cutplan.materials import load_library
-from cutplan.physics import air_column
+from cutplan.physics import air_column, wall_losses
 from cutplan.planner import plan
 
 TEXT = """
@@ -35,23 +35,52 @@ def res_piece(tmp_path_factory):
     return [p for p in plan(design).pieces if p.set == "res"][0]
 
 
-def test_stopper_depth_follows_the_speed_of_sound(res_piece):
-    # ISO 9613-1:1993 Formula A.5: c = 343.2 sqrt(T / 293.15) m/s; closed column
-    # L = c / (4 f) - 0.6133 a (Levine & Schwinger 1948), a = 22 mm
+def _quarter_wave(kelvin, f, a=0.022):
+    """lambda/4 in the pipe and the end correction: Cramer 1993 (JASA 93(5) 2510, Eq. 15) speed
+    at the default 50 % RH, slowed by the wall losses (Keefe 1984, JASA 75(1) 58), and the
+    unflanged end correction at ka (Dalmont et al. 2001, J. Sound Vib. 244, 505, fitting
+    Levine & Schwinger 1948)."""
+    c = air_column.speed_of_sound_cramer_1993(kelvin, 50.0)
+    v = wall_losses.phase_speed(c, f, a, kelvin)
+    return v / (4 * f), air_column.end_correction_dalmont_nederveen_2001(2 * math.pi * f * a / c) * a
+
+
+def _bar_hz(kelvin, f):
+    """The aluminium bar's pitch at ``kelvin``: d ln f / dT = (e + alpha) / 2 (f ~ (t / L^2)
+    sqrt(E / rho), every length growing by alpha dT), e = (1/E) dE/dT (values from memory)."""
+    from cutplan.thermal import DRIFTS
+
+    drift = dict(DRIFTS)["aluminum"]
+    return f * math.exp(0.5 * (drift.modulus + drift.expansion) * (kelvin - 293.15))
+
+
+def test_stopper_depth_follows_the_speed_of_sound_and_the_bar(res_piece):
+    # closed column L = v / (4 f) - delta at each temperature of the table, a = 22 mm, f the
+    # bar's own pitch at that temperature (bar and resonator tuned together)
     f = res_piece.target_hz
     for kelvin, depth in res_piece.stopper:
-        c = 343.2 * math.sqrt(kelvin / 293.15)
-        assert depth == pytest.approx(c / (4 * f) - 0.6133 * 0.022, rel=1e-9)
+        quarter, delta = _quarter_wave(kelvin, _bar_hz(kelvin, f))
+        assert depth == pytest.approx(quarter - delta, rel=1e-9)
+    assert dict(res_piece.stopper)[293.15] == pytest.approx(res_piece.length, rel=1e-12)
 
 
 def test_stopper_travel_for_twenty_degrees(res_piece):
-    # from c ~ sqrt(T): lambda/4 at 30 C over lambda/4 at 10 C = sqrt(303.15 / 283.15) = 1.03472
+    # c ~ sqrt(T) in dry air (ISO 9613-1:1993, Formula A.5): lambda/4 at 30 C over lambda/4 at
+    # 10 C would be sqrt(303.15 / 283.15) = 1.03472.  At a constant 50 % RH the warm air holds more
+    # water, which adds 0.21 % (Cramer 1993, Table III; computed); the wall losses barely move it;
+    # the aluminium bar going flat as it warms (-0.41 cents/K) adds 0.48 % more
     depths = dict(res_piece.stopper)
-    quarter_10 = depths[283.15] + 0.6133 * 0.022
-    quarter_30 = depths[303.15] + 0.6133 * 0.022
-    assert quarter_30 / quarter_10 == pytest.approx(math.sqrt(303.15 / 283.15), rel=1e-9)
-    # about 3.5 % of the quarter wavelength: ~6.7 mm for A4
-    assert (depths[303.15] - depths[283.15]) * 1000 == pytest.approx(6.8, abs=0.3)
+    f = res_piece.target_hz
+    f10, f30 = _bar_hz(283.15, f), _bar_hz(303.15, f)
+    quarter_10 = depths[283.15] + _quarter_wave(283.15, f10)[1]
+    quarter_30 = depths[303.15] + _quarter_wave(303.15, f30)[1]
+    air = _quarter_wave(303.15, f30)[0] / _quarter_wave(283.15, f10)[0]
+    assert quarter_30 / quarter_10 == pytest.approx(air, rel=1e-9)
+    assert _quarter_wave(303.15, f)[0] / _quarter_wave(283.15, f)[0] / math.sqrt(303.15 / 283.15) == pytest.approx(
+        1.0021, abs=2e-4)
+    assert f10 / f30 == pytest.approx(2 ** (20 * 0.41 / 1200), abs=2e-4)
+    # about 4.2 % of the quarter wavelength: ~8.2 mm for A4
+    assert (depths[303.15] - depths[283.15]) * 1000 == pytest.approx(8.2, abs=0.3)
 
 
 def test_tube_is_cut_for_the_warmest_setting(res_piece):

@@ -217,7 +217,7 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
         kelvin = parse_temperature(temperature)
     except UnitError as exc:
         fail(f"--temperature: {exc.text!r} is not {exc.accepted}")
-    speed_t = air_column.speed_of_sound(kelvin)
+    speed_t = air_column.speed_of_sound(kelvin, air_column.DEFAULT_HUMIDITY)
     if two_res:
         import re
 
@@ -232,14 +232,16 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
             speed, corr = air_column.two_resonance(float(match.group(3)), l1, l2)
         except ValueError as exc:
             fail(f"--two-resonance: {exc}")
-        click.echo(f"speed of sound {speed:.1f} m/s (expected {speed_t:.1f} m/s at {temperature}); "
+        click.echo(f"speed of sound {speed:.1f} m/s in the pipe (free air {speed_t:.1f} m/s at {temperature}, "
+                   f"{air_column.DEFAULT_HUMIDITY:.0f} % RH; wall losses slow it in a pipe); "
                    f"end correction {corr * 1000:.1f} mm")
         if corr < 0:
             click.echo("! a negative end correction means the two readings disagree; measure again")
             if output:
                 fail(f"{output}: not written; a negative end correction cannot be saved")
         _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr,
-                  f"two-resonance reading {two_res}", f"two-resonance reading at {temperature}")
+                  f"two-resonance reading {two_res}", f"two-resonance reading at {temperature}",
+                  frequency=float(match.group(3)))
         return
     if not pieces:
         fail("calibrate: give --piece or --two-resonance")
@@ -249,11 +251,25 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
         des = _one_piece_design("calibrate", "air-column", None, 440.0, None, stock_name, tube, None, None,
                                 ends=ends, temperature=temperature, materials_dirs=dirs)
         radius = des.sets[0].section.air_radius
+    reference = 0.0
+    fitted = measured
+    if radius:
+        # take each pipe's wall losses out, so the fit finds the free-air speed (Keefe 1984); the
+        # speed saved is the one in the first pipe, with its frequency, for the planner
+        from cutplan.physics.wall_losses import wall_loss_fraction
+
+        reference = measured[0][1]
+        fitted = [(length, f / (1 - wall_loss_fraction(f, radius, kelvin)), n) for length, f, n in measured]
     try:
-        fit = fit_air_column_choice(measured, ends, fit_what, speed_t, radius)
+        fit = fit_air_column_choice(fitted, ends, fit_what, speed_t, radius)
     except CalibrationError as exc:
         fail(f"calibrate: {exc}")
-    click.echo(f"speed of sound {fit.speed:.1f} m/s (table {speed_t:.1f} m/s at {temperature}); "
+    if reference:
+        from dataclasses import replace as _replace
+
+        fit = _replace(fit, speed=fit.speed * (1 - wall_loss_fraction(reference, radius, kelvin)))
+    where = f" in the pipe at {reference:.1f} Hz" if reference else ""
+    click.echo(f"speed of sound {fit.speed:.1f} m/s{where} (free air {speed_t:.1f} m/s at {temperature}); "
                f"end correction {fit.end_correction * 1000:.2f} mm per open end"
                + (f" = {fit.end_correction / radius:.3f} x inner radius" if radius else ""))
     for (length, f, n), res in zip(measured, fit.residuals_cents, strict=True):
@@ -262,10 +278,11 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
         click.echo(f'use it in a design with end_correction = {fit.end_correction / radius:.3f}')
     text = "; ".join(f"{length * 1000:.1f} mm @ {f:.2f} Hz #{n}" for length, f, n in measured)
     _save_air(output, force, name, stock_name, dirs, fit.speed, kelvin, fit.end_correction,
-              f"{ends} pipes {text} (fit: {fit_what})", f"{len(measured)} {ends} pipe resonance(s) at {temperature}")
+              f"{ends} pipes {text} (fit: {fit_what})", f"{len(measured)} {ends} pipe resonance(s) at {temperature}",
+              frequency=reference)
 
 
-def _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr, note, header_note):
+def _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr, note, header_note, frequency=0.0):
     """Write the stock calibration file when --output is given (needs a named --stock)."""
     if output is None:
         return
@@ -283,7 +300,7 @@ def _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr, note, 
     if Path(output).exists() and not force:
         fail(f"{output}: already exists; use --force to overwrite it")
     name = name or (stock_name if stock_name.endswith("-calibrated") else f"{stock_name}-calibrated")
-    write_file(output, stock_toml(name, stock, speed, kelvin, corr, note.replace('"', "'"), header_note))
+    write_file(output, stock_toml(name, stock, speed, kelvin, corr, note.replace('"', "'"), header_note, frequency))
     click.echo(f'wrote {output}; plan air columns and resonators with section = {{ stock = "{name}" }} '
                f"and --materials {Path(output).parent or '.'}")
 

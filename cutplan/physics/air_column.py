@@ -13,6 +13,8 @@ import math
 
 import numpy as np
 
+from cutplan.physics import wall_losses
+
 SPEED_OF_SOUND_20C = 343.2
 """Speed of sound in dry air at 20 C and 101.325 kPa [m/s]. ISO 9613-1:1993, Formula A.5."""
 
@@ -21,6 +23,11 @@ STANDARD_PRESSURE = 101325.0
 
 CO2_MOLE_FRACTION = 400e-6
 """CO2 mole fraction of outdoor air assumed by default [-] (about 400 ppm; common practice)."""
+
+DEFAULT_HUMIDITY = 50.0
+"""Relative humidity assumed when a design gives none [%]: the standard conditioning atmosphere
+23 C / 50 % RH of ISO 554:1976 (from memory), a typical indoor value.  Against dry air it puts
+pipes about 3 cents sharp (Cramer 1993 at 20 C: 343.99 against 343.36 m/s)."""
 
 END_CORRECTION_UNFLANGED = 0.6133
 """Low-frequency end correction of an unflanged thin-walled circular pipe, per unit inner radius
@@ -153,7 +160,58 @@ def speed_of_sound(temperature, humidity=None, pressure=STANDARD_PRESSURE):
     return speed_of_sound_cramer_1993(temperature, humidity, pressure)
 
 
-def end_correction(radius, kind="unflanged"):
+def end_correction_dalmont_nederveen_2001(ka):
+    r"""End correction of an unflanged thin-walled pipe per unit radius, :math:`\delta / a` [-],
+    as a function of ka (fit to Levine & Schwinger's exact result, for ka < 1.5).
+
+    .. math:: \frac{\delta}{a} = 0.6133 \left[\frac{1 + 0.044 (ka)^2}{1 + 0.19 (ka)^2}
+              - 0.02 \sin^2(2ka)\right]
+
+    Parameters
+    ----------
+    ka : float or array
+        Wavenumber times inner radius [-].
+
+    Examples
+    --------
+    About 2 % under the low-frequency value at ka = 0.3:
+
+    >>> round(end_correction_dalmont_nederveen_2001(0.3), 4)
+    0.6015
+
+    References
+    ----------
+    .. [1] Dalmont, J.-P., Nederveen, C. J. and Joly, N., "Radiation impedance of tubes with
+       different flanges: numerical and experimental investigations", J. Sound Vib. 244(3)
+       505-534, 2001 (unflanged fit).
+    .. [2] Levine & Schwinger 1948 (the exact curve it fits; see :data:`END_CORRECTION_UNFLANGED`).
+    """
+    x = np.asarray(ka, dtype=float)
+    out = END_CORRECTION_UNFLANGED * ((1 + 0.044 * x * x) / (1 + 0.19 * x * x) - 0.02 * np.sin(2 * x) ** 2)
+    return _plain(out)
+
+
+def end_correction_norris_sheng_1989(ka):
+    r"""End correction of a pipe in an infinite flange per unit radius, :math:`\delta / a` [-],
+    as a function of ka (fit for ka < 3.5).
+
+    .. math:: \frac{\delta}{a} = 0.8216 \left[1 + \frac{(0.77 ka)^2}{1 + 0.77 ka}\right]^{-1}
+
+    Examples
+    --------
+    >>> round(end_correction_norris_sheng_1989(0.3), 4)
+    0.7875
+
+    References
+    ----------
+    .. [1] Norris & Sheng 1989, J. Sound Vib. 135, 85-93, as fitted in Dalmont, Nederveen &
+       Joly 2001, J. Sound Vib. 244(3) 505-534.
+    """
+    x = 0.77 * np.asarray(ka, dtype=float)
+    return _plain(END_CORRECTION_FLANGED / (1 + x * x / (1 + x)))
+
+
+def end_correction(radius, kind="unflanged", ka=None):
     """End correction of one open end [m].
 
     Parameters
@@ -161,19 +219,100 @@ def end_correction(radius, kind="unflanged"):
     radius : float
         Inner radius a [m].
     kind : str or float
-        "unflanged" (0.6133 a), "flanged" (0.8216 a), "none" (0), or a factor times a.
+        "unflanged" (0.6133 a), "flanged" (0.8216 a), "none" (0), or a factor times a (a fixed
+        factor, such as a measured one, does not change with frequency).
+    ka : float or array, optional
+        Wavenumber times radius [-]; when given, the named corrections follow their curves
+        (:func:`end_correction_dalmont_nederveen_2001`, :func:`end_correction_norris_sheng_1989`);
+        when omitted, their low-frequency limits.
 
     Examples
     --------
     >>> round(end_correction(0.0125), 6)
     0.007666
+    >>> round(end_correction(0.0125, ka=0.3), 6)
+    0.007518
     """
     if isinstance(kind, (int, float)) and not isinstance(kind, bool):
         return float(kind) * radius
     factors = {"unflanged": END_CORRECTION_UNFLANGED, "flanged": END_CORRECTION_FLANGED, "none": 0.0}
     if kind not in factors:
         raise ValueError(f"end correction {kind!r}: use unflanged, flanged, none or a number")
-    return factors[kind] * radius
+    if ka is None or kind == "none":
+        return factors[kind] * radius
+    curve = end_correction_dalmont_nederveen_2001 if kind == "unflanged" else end_correction_norris_sheng_1989
+    return _plain(curve(ka) * radius)
+
+
+def column_length(frequency, radius, speed, ends="open-open", harmonic=1, correction="unflanged",
+                  temperature=None, pressure=STANDARD_PRESSURE):
+    r"""Length [m] of an air column whose n-th resonance is ``frequency``, with wall losses and the
+    end correction at the note's ka.
+
+    .. math:: L = \frac{n\, v(f)}{2 f} - 2\delta(ka) \text{ (open-open)},\qquad
+              L = \frac{(2n-1)\, v(f)}{4 f} - \delta(ka) \text{ (closed-open)}
+
+    where :math:`v(f)` is the phase speed in the pipe (:func:`wall_losses.phase_speed`) and
+    :math:`k = 2\pi f / c`.
+
+    Parameters
+    ----------
+    frequency : float or array
+        f [Hz].
+    radius : float
+        Inner radius a [m].
+    speed : float
+        Speed of sound in free air c [m/s].
+    ends : str
+        "open-open" or "closed-open".
+    harmonic : int
+        n [-] (the n-th resonance; odd harmonic 2n-1 of a closed column).
+    correction : str or float
+        End correction of each open end (see :func:`end_correction`).
+    temperature : float, optional
+        Air temperature [K] for the wall losses; None leaves them out.
+    pressure : float
+        Atmospheric pressure [Pa].
+
+    Examples
+    --------
+    A4 in a 25 mm bore, c = 343.2 m/s: 2.4 mm shorter than the lossless, low-frequency 0.37467 m.
+
+    >>> round(column_length(440.0, 0.0125, 343.2, temperature=293.15), 5)
+    0.3723
+    """
+    f = np.asarray(frequency, dtype=float)
+    c = speed if temperature is None else wall_losses.phase_speed(speed, f, radius, temperature, pressure)
+    delta = end_correction(radius, correction, ka=2 * np.pi * f * radius / speed)
+    if ends == "closed-open":
+        return _plain((2 * harmonic - 1) * c / (4.0 * f) - delta)
+    return _plain(harmonic * c / (2.0 * f) - 2.0 * delta)
+
+
+def column_frequency(length, radius, speed, ends="open-open", harmonic=1, correction="unflanged",
+                     temperature=None, pressure=STANDARD_PRESSURE):
+    """Resonance [Hz] of the n-th mode of an air column: the inverse of :func:`column_length`.
+
+    Wall losses and the end correction depend on the frequency, so the resonance is found by
+    fixed-point iteration from the lossless value (each step shrinks the error more than
+    a hundredfold for musical pipes; ten steps reach machine precision).
+
+    Examples
+    --------
+    >>> f = column_frequency(column_length(440.0, 0.0125, 343.2, temperature=293.15), 0.0125, 343.2,
+    ...                      temperature=293.15)
+    >>> round(f, 9)
+    440.0
+    """
+    length = np.asarray(length, dtype=float)
+    closed = ends == "closed-open"
+    wave = (2 * harmonic - 1) / 4.0 if closed else harmonic / 2.0
+    ends_open = 1 if closed else 2
+    f = wave * speed / (length + ends_open * end_correction(radius, correction))
+    for _ in range(10):
+        c = speed if temperature is None else wall_losses.phase_speed(speed, f, radius, temperature, pressure)
+        f = wave * c / (length + ends_open * end_correction(radius, correction, ka=2 * np.pi * f * radius / speed))
+    return _plain(f)
 
 
 def open_open_length(frequency, radius, speed, harmonic=1, correction="unflanged"):

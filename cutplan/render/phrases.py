@@ -8,7 +8,7 @@ from cutplan.units import format_length
 def other_modes_text(modes):
     """"sideways 1510, 4030 Hz; twisting 2210, 4420 Hz": the modes a piece is not tuned by, in short."""
     parts = []
-    for kind in ("sideways", "twisting"):
+    for kind in ("sideways", "twisting", "ring"):
         freqs = [f for k, _, f in modes if k == kind]
         if freqs:
             parts.append(f"{kind} " + ", ".join(f"{f:.0f}" for f in freqs) + " Hz")

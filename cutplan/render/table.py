@@ -50,6 +50,11 @@ def piece_dict(p):
         out["strike_note_hz"] = _r(p.strike_note_hz, 3)
     if getattr(p, "other_modes", ()):
         out["other_modes"] = [{"kind": kind, "mode": n, "hz": _r(f, 1)} for kind, n, f in p.other_modes]
+    if getattr(p, "hang_hole", None) is not None:
+        h = p.hang_hole
+        out["hang_hole"] = {"drill_mm": _r(h.drill / MM, 2), "mode": h.mode,
+                            "in_plane_cents": _r(h.in_plane_cents, 2), "across_cents": _r(h.across_cents, 2),
+                            "beat_hz": _r(h.beat_hz, 3), "largest_drill_mm": _r(h.largest_drill / MM, 2)}
     if p.arch is not None:
         a = p.arch
         out["undercut"] = {

@@ -88,3 +88,54 @@ def test_air_column_pitch_drift_is_about_three_cents_per_degree():
 
     c1, c2 = ac.speed_of_sound_iso9613(292.65), ac.speed_of_sound_iso9613(293.65)
     assert 1200 * math.log2(c2 / c1) == pytest.approx(2.95, abs=0.01)
+
+
+def _levine_schwinger_end_correction(ka):
+    """delta/a of an unflanged pipe from Levine & Schwinger's exact integrals (Phys. Rev. 73(4)
+    383, 1948), evaluated numerically: an independent model of the end-correction curve.
+
+    delta/a = (1/pi) int_0^ka ln[pi J1(x) sqrt(J1^2 + Y1^2)] / (x sqrt(k^2a^2 - x^2)) dx
+            + (1/pi) int_0^inf ln[1 / (2 I1(x) K1(x))] / (x sqrt(x^2 + k^2a^2)) dx
+    """
+    import numpy as np
+    from scipy import integrate
+    from scipy import special as sp
+
+    def first(theta):  # x = ka sin(theta) removes the inverse-square-root end point
+        x = ka * np.sin(theta)
+        if x < 1e-9:
+            return 0.0
+        return np.log(np.pi * sp.j1(x) * np.hypot(sp.j1(x), sp.y1(x))) / x
+
+    def second(x):
+        return np.log(1 / (2 * sp.ive(1, x) * sp.kve(1, x))) / (x * np.sqrt(x * x + ka * ka))
+
+    cuts = np.geomspace(1e-5, 1e3, 17)  # below 1e-5 (round-off there) adds under 3e-5 to delta/a
+    tail = sum(integrate.quad(second, a, b, limit=200)[0] for a, b in zip(cuts, cuts[1:], strict=False))
+    tail += (np.log(1e3) + 1) / 1e3  # int_X^inf ln(x) / x^2 dx, the integrand's large-x form
+    head = integrate.quad(first, 0, np.pi / 2, limit=200)[0] if ka > 0 else 0.0
+    return (head + tail) / np.pi
+
+
+def test_end_correction_curve_follows_levine_schwinger():
+    # Levine & Schwinger 1948, exact integrals (evaluated above) against the Dalmont, Nederveen &
+    # Joly 2001 (J. Sound Vib. 244, 505) fit, as ratios to the low-frequency limit: the fit is
+    # normalised to L & S's printed 0.6133, while the integrals evaluate to 0.6127 here, so the
+    # shape is compared (within 0.3 % for ka <= 1.5, the fit's stated range)
+    zero = _levine_schwinger_end_correction(0.0)
+    assert zero == pytest.approx(0.6133, abs=1e-3)
+    for ka in (0.1, 0.3, 0.5, 1.0, 1.5):
+        exact = _levine_schwinger_end_correction(ka) / zero
+        fit = ac.end_correction_dalmont_nederveen_2001(ka) / ac.END_CORRECTION_UNFLANGED
+        assert fit == pytest.approx(exact, abs=3e-3)
+    # the issue's figure: about 2 % smaller at ka = 0.3 (Levine & Schwinger's curve)
+    assert _levine_schwinger_end_correction(0.3) / zero == pytest.approx(0.979, abs=2e-3)
+
+
+def test_flanged_end_correction_curve_starts_at_norris_sheng_and_falls():
+    # Norris & Sheng 1989, J. Sound Vib. 135, 85: 0.8216 a at low frequency; the fit (Dalmont et
+    # al. 2001) falls with ka like the unflanged curve, faster (more radiation mass is lost)
+    assert ac.end_correction_norris_sheng_1989(0.0) == pytest.approx(0.8216)
+    values = [ac.end_correction_norris_sheng_1989(x) for x in (0.1, 0.5, 1.0, 2.0)]
+    assert values == sorted(values, reverse=True)
+    assert ac.end_correction(1.0, 0.7, ka=1.0) == 0.7  # a fixed (measured) factor stays fixed
