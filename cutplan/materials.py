@@ -195,14 +195,20 @@ def material_from_table(name, table, path="(inline)", sources=None):
     poisson, p_nu = 0.33, Provenance("", "default 0.33", "from memory")
     if "poisson" in table:
         poisson, p_nu, _, _ = _value(path, f"{name}.poisson", table["poisson"], _plain_number, sources)
-        if not poisson < 0.5:
+        if not -1.0 < poisson < 0.5:
             raise MaterialError(path, f"{name}.poisson", poisson, "must be between 0 and 0.5")
     shear, shear_ratio, provs = None, None, [("modulus", p_mod), ("density", p_den), ("poisson", p_nu)]
     if "shear_modulus" in table:
         shear, p_g, _, _ = _value(path, f"{name}.shear_modulus", table["shear_modulus"], units.parse_modulus, sources)
+        if not 0.001 * modulus <= shear <= modulus:  # G = E / 2(1 + nu) <= E; G/E about 0.1 for wood
+            raise MaterialError(path, f"{name}.shear_modulus", table["shear_modulus"],
+                                "must be between 1/1000 of the modulus and the modulus itself")
         provs.append(("shear_modulus", p_g))
     if "shear_ratio" in table:
         shear_ratio, p_r, _, _ = _value(path, f"{name}.shear_ratio", table["shear_ratio"], _plain_number, sources)
+        if not 0.001 <= shear_ratio <= 1.0:  # G / E: 1/3 to 1/2 for isotropic solids, about 0.1 for wood
+            raise MaterialError(path, f"{name}.shear_ratio", table["shear_ratio"],
+                                "must be a ratio G / E from 0.001 to 1 (about 0.38 for metals, 0.1 for wood)")
         provs.append(("shear_ratio", p_r))
     basis = basis or "dynamic"
     if basis not in ("dynamic", "static-bending"):

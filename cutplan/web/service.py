@@ -86,12 +86,15 @@ class Planner:
         """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers)."""
         import cutplan
         from cutplan.design import DesignErrors
+        from cutplan.numeric import NumericError, checked_plan
 
         design = self.design(data)
         try:
-            return design, cutplan.plan(design)
+            return design, checked_plan(lambda: cutplan.plan(design), DESIGN_NAME)
         except DesignErrors as exc:
             raise WebErrors(design_errors(exc)) from None
+        except NumericError as exc:  # an absurd or overflowing result: the design's numbers are to blame
+            raise WebErrors([error("(design)", str(exc).removeprefix(f"{DESIGN_NAME}: "))]) from None
 
     def _in_worker(self, data):
         from concurrent.futures.process import BrokenProcessPool
