@@ -58,9 +58,10 @@ def _starter():
     return tomllib.loads(CHIME)
 
 
-def create_app(materials_dirs=(), loopback_only=True, workers=0):
+def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     """The Flask application. ``materials_dirs`` are the server's extra material folders;
-    ``workers`` > 0 plans in that many worker processes (stop them with ``app.planner.close()``)."""
+    ``workers`` > 0 plans in that many worker processes (stop them with ``app.planner.close()``);
+    ``host``: the loopback address it is bound to (127.0.0.2, ::1), accepted as a Host header."""
     from cutplan import pitch
     from cutplan.materials import load_library
 
@@ -68,8 +69,9 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
     app.request_class = MemoryRequest
     app.config.update(MAX_CONTENT_LENGTH=MAX_UPLOAD_BYTES, MAX_FORM_MEMORY_SIZE=MAX_DESIGN_BYTES,
                       MAX_FORM_PARTS=2000)
-    if loopback_only:
-        app.config["TRUSTED_HOSTS"] = LOOPBACK_NAMES
+    # a loopback server answers only its own names (a page on another site cannot rebind a name
+    # of its own to 127.0.0.1 and read the answers); werkzeug's TRUSTED_HOSTS cannot hold ::1
+    trusted = {_bare_host(h) for h in LOOPBACK_NAMES + ([host] if host else [])} if loopback_only else None
     planner = Planner(materials_dirs, workers=workers)
     app.planner = planner
     library = load_library(list(materials_dirs))
@@ -85,14 +87,21 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
     @app.before_request
     def _limits():
         g.started = time.perf_counter()
+        if trusted is not None and _bare_host(request.headers.get("Host", "")) not in trusted:
+            return jsonify(errors=[error("(request)", "names a host this page is not served as; open the "
+                                         "address `cutplan serve` printed")]), 400
         if request.path not in UPLOAD_ROUTES:
             request.max_content_length = MAX_DESIGN_BYTES
+        if request.method == "POST" and not same_origin(request):
+            return jsonify(errors=[error("(request)", "comes from another web site; the page answers only "
+                                         "its own forms and scripts")]), 403
+        return None
 
     @app.after_request
     def _headers(resp):
         resp.headers["Content-Security-Policy"] = CSP
         resp.headers["X-Content-Type-Options"] = "nosniff"
-        resp.headers["Referrer-Policy"] = "no-referrer"
+        resp.headers["Referrer-Policy"] = "same-origin"  # never sent to another site; its own posts carry their Origin
         resp.headers["Cache-Control"] = "no-store" if not request.path.startswith("/static/") else "max-age=3600"
         if "started" in g:
             resp.headers["Server-Timing"] = f"app;dur={1000 * (time.perf_counter() - g.started):.1f}"
@@ -118,7 +127,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
 
     def plan_form(fields):
         data = webform.mapping_from_form(fields)
-        return data, planner.plan(data)
+        return data, planner.plan(data, gone=_gone())
 
     @app.get("/")
     def index():
@@ -126,7 +135,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
         data = tomllib.loads(examples[name].read_text(encoding="utf-8")) if name in examples else _starter()
         fields = webform.form_from_mapping(data)
         try:
-            return page(fields, plan_pair=planner.plan(data))
+            return page(fields, plan_pair=planner.plan(data, gone=_gone()))
         except WebErrors as exc:
             return page(fields, 422, exc.errors)
 
@@ -172,7 +181,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
             return page(fields, 422, [error("open", problem)])
         fields = webform.form_from_mapping(data)
         try:
-            return page(fields, plan_pair=planner.plan(data))
+            return page(fields, plan_pair=planner.plan(data, gone=_gone()))
         except WebErrors as exc:
             return page(fields, 422, exc.errors)
 
@@ -244,7 +253,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
 
         try:
             data = _json_design()
-            _design, the_plan = planner.plan(data)
+            _design, the_plan = planner.plan(data, gone=_gone())
         except WebErrors as exc:
             return jsonify(errors=exc.errors), 422
         return app.response_class(_dumps(plan_dict(the_plan)), mimetype="application/json")
@@ -253,12 +262,38 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
     def api_packet():
         try:
             data = _json_design()
-            _design, the_plan = planner.plan(data)
+            _design, the_plan = planner.plan(data, gone=_gone())
         except WebErrors as exc:
             return jsonify(errors=exc.errors), 422
         return _attachment(packet_zip(the_plan, data), "application/zip", "packet.zip")
 
     return app
+
+
+def _bare_host(value):
+    """The host of a Host header or address, without port or brackets, lower case ("[::1]:80" -> "::1")."""
+    value = value.strip().lower()
+    if value.startswith("["):
+        return value[1:].partition("]")[0]
+    return value.rpartition(":")[0] if value.count(":") == 1 else value
+
+
+def same_origin(req):
+    """Whether a POST comes from the page itself (or from a script, which sends no Origin).
+
+    Browsers name the sending site in ``Sec-Fetch-Site`` and ``Origin`` on every POST, forms
+    included; a post from any other site (or a sandboxed "null" origin) is refused, so another
+    web site cannot make this page work or hand its answers over."""
+    site = req.headers.get("Sec-Fetch-Site")
+    if site is not None and site not in ("same-origin", "none"):
+        return False
+    origin = req.headers.get("Origin")
+    return origin is None or origin == req.host_url.rstrip("/")
+
+
+def _gone():
+    """A callable that is true once the client has disconnected (waitress tells), or None."""
+    return request.environ.get("waitress.client_disconnected")
 
 
 def _json_design():
