@@ -3,7 +3,7 @@
 A request takes an idle worker process (waiting at most :data:`QUEUE_WAIT` for one), hands it
 the job and waits for the answer.  When the request's time limit passes, or its client has
 gone away (the browser dropped a stale preview), that worker is killed and a fresh one takes
-its place at the next request, so a few heavy designs cannot hold every worker and an
+its place at once, so a few heavy designs cannot hold every worker and an
 abandoned request never keeps one busy.  Workers are clean interpreters (``spawn``), as on
 Windows; forking a threaded server is unsafe.
 """
@@ -35,6 +35,9 @@ def _worker_main(conn):
     import signal
 
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl+C is the server's; it stops the workers
+    import cutplan.planner  # noqa: F401  (warm up before the first job arrives)
+    import cutplan.web.service  # noqa: F401
+
     while True:
         try:
             fn, args = conn.recv()
@@ -104,6 +107,7 @@ class WorkerPool:
                               else "gone" if gone is not None and gone() else None)
                     if reason:
                         worker.stop()
+                        self._give_back(_Worker(self._ctx))  # its successor warms up now, not at the next job
                         raise Stopped(reason)
                 result = worker.conn.recv()
             except (EOFError, OSError):
