@@ -18,7 +18,8 @@ from flask import Flask, Request, g, jsonify, render_template, request
 
 from cutplan.web import form as webform
 from cutplan.web import view
-from cutplan.web.service import MAX_DESIGN_BYTES, Planner, WebErrors, error, packet_pdf, packet_zip, piece_wav
+from cutplan.web.service import (MAX_DESIGN_BYTES, Planner, WebErrors, error, packet_pdf, packet_zip, piece_wav,
+                                 plain_problem)
 from cutplan.web.trim import trim_answer
 
 MAX_UPLOAD_BYTES = 16 * 1024 * 1024
@@ -113,6 +114,17 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
         return jsonify(errors=[error("(request)", f"is over {limit} bytes; a design is a few kB, "
                                      f"a recording of one strike well under {MAX_UPLOAD_BYTES // 2**20} MB")]), 413
 
+    @app.errorhandler(Exception)
+    def _unexpected(exc):
+        from werkzeug.exceptions import HTTPException
+
+        if isinstance(exc, HTTPException):
+            return exc
+        app.logger.exception("unexpected error on %s", request.path)  # the server's log keeps the detail
+        line = " ".join(f"{type(exc).__name__}: {exc}".split())[:200]
+        return jsonify(errors=[error("(request)", f"could not be handled ({line}); the input that caused "
+                                     "it is worth reporting")]), 422
+
     def page(fields, status=200, errors=(), plan_pair=None, trim=None):
         slots = _slots(fields)
         placed = view.place_errors(errors, slots, _own_stock(fields))
@@ -177,8 +189,13 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
                 problem = "is not UTF-8 text (is it a design file?)"
             except tomllib.TOMLDecodeError as exc:
                 problem = f"is not valid TOML ({exc})"
+            except RecursionError:
+                problem = "nests tables or lists too deeply to be a design"
         if problem:
             return page(fields, 422, [error("open", problem)])
+        found = plain_problem(data)
+        if found:
+            return page(fields, 422, [error("open", found["message"])])
         fields = webform.form_from_mapping(data)
         try:
             return page(fields, plan_pair=planner.plan(data, gone=_gone()))
@@ -298,7 +315,10 @@ def _gone():
 
 def _json_design():
     """The request's design mapping, or WebErrors when the body is not JSON."""
-    data = request.get_json(silent=True)
+    try:
+        data = request.get_json(silent=True)
+    except RecursionError:
+        raise WebErrors([error("(design)", "nests tables or lists too deeply to be a design")]) from None
     if data is None:
         raise WebErrors([error("(design)", "the body must be a design as JSON (the design file's keys)")])
     return data

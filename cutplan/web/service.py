@@ -51,6 +51,31 @@ def design_errors(exc):
             for e in exc.errors]
 
 
+MAX_DEPTH = 12
+"""Deepest nesting of tables and lists a design may have [-] (a design nests four deep)."""
+
+
+def plain_problem(value, key="(design)", depth=0):
+    """The first error record for a value no design can hold (a date, or nesting deeper than
+    :data:`MAX_DEPTH`), or None.  Checked before validation, so that nothing downstream meets it."""
+    if depth > MAX_DEPTH:
+        return error(key, f"nests tables or lists more than {MAX_DEPTH} deep; a design nests four deep")
+    if isinstance(value, dict):
+        for k, v in value.items():
+            found = plain_problem(v, str(k) if key == "(design)" else f"{key}.{k}", depth + 1)
+            if found:
+                return found
+    elif isinstance(value, list):
+        for i, v in enumerate(value, start=1):
+            found = plain_problem(v, f"{key}[{i}]", depth + 1)
+            if found:
+                return found
+    elif value is not None and not isinstance(value, (str, int, float, bool)):
+        return error(key, f"is a {type(value).__name__} ({value}); design values are text, numbers, true/false, "
+                     "lists and tables")
+    return None
+
+
 def _cache_key(data):
     return json.dumps(data, sort_keys=True, ensure_ascii=False, default=str)
 
@@ -82,6 +107,9 @@ class Planner:
 
         if not isinstance(data, dict):
             raise WebErrors([error("(design)", "must be a table (JSON object) of design keys")])
+        problem = plain_problem(data)
+        if problem:
+            raise WebErrors([problem])
         if "material_dirs" in data:
             raise WebErrors([error("material_dirs", "is not accepted from the page or the API; material "
                                    "folders are given to the server (cutplan serve --materials DIR)")])
@@ -125,6 +153,9 @@ class Planner:
         """(Design, Plan) for a design mapping, or :class:`WebErrors`. Repeated designs are cached.
 
         ``gone``: a callable, true once the client has gone away (its worker is then stopped)."""
+        problem = plain_problem(data) if isinstance(data, dict) else None
+        if problem:
+            raise WebErrors([problem])
         key = _cache_key(data)
         with self._lock:
             if key in self._cache:

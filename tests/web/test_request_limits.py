@@ -106,3 +106,49 @@ def test_an_absurd_plan_on_the_page_is_a_422_naming_the_design():
     with pytest.raises(WebErrors) as caught:
         Planner().plan(data)
     assert "30 m" in caught.value.errors[0]["message"]
+
+
+def _porch_form():
+    from cutplan.web import form as webform
+
+    return webform.form_from_mapping(example_mapping(PORCH))
+
+
+@pytest.mark.parametrize("body", ['{"title": ' + "[" * 5000 + "]" * 5000 + "}",
+                                  '{"tuning": {"a4": ' + "9" * 5000 + "}}"])
+def test_hostile_json_is_a_422_not_a_500(client, body):
+    resp = client.post("/api/plan", data=body, content_type="application/json")
+    assert resp.status_code == 422 and resp.get_json()["errors"][0]["key"] == "(design)"
+
+
+@pytest.mark.parametrize("text, words", [(b"a = " + b"[" * 3000 + b"]" * 3000 + b"\n", "deep"),
+                                         (b'title = 1979-05-27\n', "date")])
+def test_a_design_file_no_design_can_be_is_a_422(client, text, words):
+    import io
+
+    resp = client.post("/", data={"action": "open", "design_file": (io.BytesIO(text), "d.toml")},
+                       content_type="multipart/form-data")
+    assert resp.status_code == 422 and words in resp.get_data(as_text=True)
+
+
+def test_listening_to_a_set_of_two_dozen_pieces(client):
+    # the arpeggio's start times round either way; none may run one sample past the end
+    from cutplan.web import form as webform
+
+    data = example_mapping(PORCH)
+    data["set"][0].pop("scale", None)
+    data["set"][0].pop("root", None)
+    data["set"][0].pop("count", None)
+    data["set"][0]["notes"] = [f"{n}{o}" for o in (5, 6, 7) for n in "CDEFGAB"] + ["C8", "D4", "E4"]
+    data["stock"]["lengths"] = [{"length": "8 ft"}]
+    fields = webform.form_from_mapping(data)
+    fields["listen"] = data["set"][0]["name"]
+    resp = client.post("/listen", data=fields)
+    assert resp.status_code == 200 and resp.data[:4] == b"RIFF"
+
+
+def test_a_length_now_far_from_the_piece_is_named(client):
+    fields = _porch_form()
+    fields.update({"trim.piece": "porch-1", "trim.measured": "600", "trim.length_now": "1e308 m"})
+    resp = client.post("/api/trim", data=fields)
+    assert resp.status_code == 422 and "trim.length_now" in resp.get_json()["errors"]
