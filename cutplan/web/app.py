@@ -64,7 +64,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     ``workers`` > 0 plans in that many worker processes (stop them with ``app.planner.close()``);
     ``host``: the loopback address it is bound to (127.0.0.2, ::1), accepted as a Host header."""
     from cutplan import pitch
-    from cutplan.materials import load_library
+    from cutplan.web.service import library as server_library
 
     app = Flask(__name__)
     app.request_class = MemoryRequest
@@ -75,7 +75,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     trusted = {_bare_host(h) for h in LOOPBACK_NAMES + ([host] if host else [])} if loopback_only else None
     planner = Planner(materials_dirs, workers=workers)
     app.planner = planner
-    library = load_library(list(materials_dirs))
+    library = server_library(materials_dirs)  # read once per process; the planners share it
     examples = _examples()
     app.jinja_env.filters["both"] = _both_units
     choices = {

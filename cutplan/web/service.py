@@ -76,6 +76,22 @@ def plain_problem(value, key="(design)", depth=0):
     return None
 
 
+_LIBRARIES = {}
+_LIBRARY_LOCK = threading.Lock()
+
+
+def library(materials_dirs=()):
+    """The material library of the server's folders, read once per process (so answers do not
+    change while the server runs, and no request waits for the folders to be read again)."""
+    from cutplan.materials import load_library
+
+    key = tuple(str(d) for d in materials_dirs)
+    with _LIBRARY_LOCK:
+        if key not in _LIBRARIES:
+            _LIBRARIES[key] = load_library(list(materials_dirs))
+        return _LIBRARIES[key]
+
+
 def _cache_key(data):
     return json.dumps(data, sort_keys=True, ensure_ascii=False, default=str)
 
@@ -101,7 +117,6 @@ class Planner:
 
     def design(self, data):
         """A validated Design, or :class:`WebErrors`."""
-        import cutplan
         from cutplan.design import DesignErrors
         from cutplan.materials import MaterialError
 
@@ -113,8 +128,10 @@ class Planner:
         if "material_dirs" in data:
             raise WebErrors([error("material_dirs", "is not accepted from the page or the API; material "
                                    "folders are given to the server (cutplan serve --materials DIR)")])
+        from cutplan.design import design_from_mapping
+
         try:
-            return cutplan.design_from_mapping(data, self.materials_dirs, name=DESIGN_NAME)
+            return design_from_mapping(data, lambda _dirs: library(self.materials_dirs), DESIGN_NAME, ".")[0]
         except DesignErrors as exc:
             raise WebErrors(design_errors(exc)) from None
         except MaterialError as exc:  # a broken server-side folder, not the request's fault

@@ -1,0 +1,99 @@
+"""Damaged material folders and plausible inputs that used to crash: every one is a single line
+naming the file or key, exit code 2, never a traceback or a hang.
+
+The oracle is the design-file contract (one line: file, key, value, what is allowed); the
+numbers are our own demo values (a garden chime, a workshop tube table)."""
+
+from __future__ import annotations
+
+import os
+import sys
+
+import pytest
+from click.testing import CliRunner
+
+from cutplan.cli import cli
+
+
+def _run(*args):
+    return CliRunner().invoke(cli, [str(a) for a in args])
+
+
+def _one_line(result, *words):
+    assert result.exit_code == 2, result.output
+    lines = [ln for ln in result.output.splitlines() if ln.strip()]
+    assert len(lines) == 1 and lines[0].startswith("error: ") and "Traceback" not in result.output, result.output
+    for w in words:
+        assert w in lines[0], lines[0]
+    return lines[0]
+
+
+def _folder(tmp_path, name, make):
+    folder = tmp_path / "tables"
+    folder.mkdir()
+    make(folder / name)
+    return folder
+
+
+@pytest.mark.skipif(sys.platform == "win32", reason="pipes, devices and symbolic links as POSIX has them")
+@pytest.mark.parametrize("kind, words", [
+    ("fifo", "not a regular file"), ("device", "not a regular file"), ("folder", "is a folder"),
+    ("loop", "cannot be read"),
+])
+def test_a_table_that_is_not_a_regular_file_is_refused_without_hanging(tmp_path, kind, words):
+    def make(path):
+        if kind == "fifo":
+            os.mkfifo(path)  # reading it would wait for ever
+        elif kind == "device":
+            path.symlink_to("/dev/zero")  # reading it would never end
+        elif kind == "folder":
+            path.mkdir()
+        else:
+            path.symlink_to(path.name)  # a link to itself
+
+    folder = _folder(tmp_path, "metals.toml", make)
+    _one_line(_run("materials", "--materials", folder), "metals.toml", words)
+
+
+@pytest.mark.parametrize("text, key", [
+    ('[table]\nwall_factor = "abc"\n[sizes.x]\nouter = "1 in"\nwall = "0.065 in"\n', "table.wall_factor"),
+    ('sizes = { x = 5 }\n', "sizes.x"),
+    ('table = 3\n[sizes.x]\nouter = "1 in"\nwall = "0.065 in"\n', "table"),
+    ('[sizes.x]\nouter = "1 in"\nwall = "0.065 in"\ninner = "2 in"\n', "sizes.x.inner"),
+    ('[sizes.x]\nouter = "1 in"\nwall = "0.065 in"\ninner = "wide"\n', "sizes.x.inner"),
+    ('[brass]\nmodulus = "100 GPa"\ndensity = "8500 kg/m3"\nshear_ratio = "inf"\n', "brass.shear_ratio"),
+])
+def test_a_damaged_table_is_one_line_naming_file_and_key(tmp_path, text, key):
+    folder = _folder(tmp_path, "shop.toml", lambda p: p.write_text(text))
+    _one_line(_run("materials", "--materials", folder), "shop.toml", key)
+
+
+def test_from_stock_reads_a_designs_pitch_given_with_its_unit(tmp_path):
+    design = tmp_path / "garden.toml"
+    design.write_text('[tuning]\na4 = "440 Hz"\n[[set]]\nkind = "chime"\nnotes = ["D5", "E5"]\n'
+                      'section = { stock = "al-1.000x0.065" }\n[stock]\nlengths = [{ length = "8 ft", count = 1 }]\n')
+    result = _run("from-stock", "--design", design, "--count", 5)
+    assert result.exit_code == 0, result.output
+    design.write_text(design.read_text().replace('"440 Hz"', '"loud"'))
+    result = _run("from-stock", "--design", design, "--count", 5)
+    assert result.exit_code == 2 and "Traceback" not in result.output and "a4" in result.output
+
+
+def test_the_page_reads_its_material_folders_once(tmp_path, monkeypatch):
+    from cutplan import materials
+    from cutplan.web import service
+
+    folder = tmp_path / "tables"
+    folder.mkdir()
+    (folder / "shop.toml").write_text('[shop-brass]\nmodulus = "100 GPa"\ndensity = "8500 kg/m3"\nclass = "metal"\n')
+    calls = []
+    real = materials.load_library
+    monkeypatch.setattr(materials, "load_library", lambda *a, **k: calls.append(a) or real(*a, **k))
+    monkeypatch.setattr(service, "_LIBRARIES", {})
+    planner = service.Planner([folder])
+    data = {"set": [{"kind": "chime", "notes": ["D5"], "material": "shop-brass",
+                     "section": {"shape": "tube", "outer": "1 in", "wall": "0.065 in"}}]}
+    planner.design(data)
+    (folder / "shop.toml").write_text("this is no longer TOML")  # changed while serving: not re-read
+    planner.design(data)
+    assert len(calls) == 1
