@@ -97,3 +97,25 @@ def test_the_page_reads_its_material_folders_once(tmp_path, monkeypatch):
     (folder / "shop.toml").write_text("this is no longer TOML")  # changed while serving: not re-read
     planner.design(data)
     assert len(calls) == 1
+
+
+def test_an_air_column_fit_outside_what_air_can_do_is_refused_and_nothing_written(tmp_path):
+    # closed-open columns: f = c / 4 (L + delta) (Kinsler, Frey, Coppens and Sanders, Fundamentals
+    # of Acoustics, 4th ed., 2000, ch. 10, from memory).  190 mm at 426.7 Hz and 300 mm at 900 Hz
+    # cannot both hold: the longer pipe sounds higher, so the fitted speed comes out negative
+    out = tmp_path / "pvc.toml"
+    result = _run("calibrate", "--kind", "air-column", "--stock", "pvc-sch40-1", "--piece", "190 mm @ 426.7",
+                  "--piece", "300 mm @ 900", "--fit", "both", "-o", out)
+    _one_line(result, "speed of sound")
+    assert not out.exists() and not list(tmp_path.iterdir())
+
+
+def test_a_consistent_air_column_fit_is_still_accepted():
+    from cutplan.calibrate import fit_air_column_choice
+
+    # two closed-open pipes built from c = 343.2 m/s (20 C) and delta = 0.6133 a, a = 13.3 mm
+    # (Levine and Schwinger 1948, unflanged end; from memory)
+    c, delta = 343.2, 0.6133 * 0.0133
+    pieces = [(length, c / (4 * (length + delta)), 1) for length in (0.19, 0.30)]
+    fit = fit_air_column_choice(pieces, "closed-open", "both", c, radius=0.0133)
+    assert abs(fit.speed - c) < 1e-6 and abs(fit.end_correction - delta) < 1e-9
