@@ -255,6 +255,7 @@ def write_file_whole(path, data, force=False):
         raise FolderError(f"{path}: is a folder; give a file name")
     payload = data.encode("utf-8") if isinstance(data, str) else bytes(data)
     tmp = None
+    made = [q for q in [path.parent, *path.parent.parents] if not os.path.lexists(q)]  # folders this call creates
     try:
         path.parent.mkdir(parents=True, exist_ok=True)
         fd, tmp = tempfile.mkstemp(prefix=f".{path.name}{_TEMP_TAG}", dir=path.parent)
@@ -266,6 +267,14 @@ def write_file_whole(path, data, force=False):
         os.replace(tmp, path)
         tmp = None
     except OSError as exc:
+        if tmp is not None:
+            Path(tmp).unlink(missing_ok=True)
+            tmp = None
+        for folder in made:  # innermost first: leave no empty folder behind
+            try:
+                os.rmdir(folder)
+            except OSError:
+                break
         raise FolderError(f"{path}: cannot write the file ({_why(exc)}); nothing was changed") from None
     finally:
         if tmp is not None:

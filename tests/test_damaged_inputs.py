@@ -119,3 +119,13 @@ def test_a_consistent_air_column_fit_is_still_accepted():
     pieces = [(length, c / (4 * (length + delta)), 1) for length in (0.19, 0.30)]
     fit = fit_air_column_choice(pieces, "closed-open", "both", c, radius=0.0133)
     assert abs(fit.speed - c) < 1e-6 and abs(fit.end_correction - delta) < 1e-9
+
+
+@pytest.mark.parametrize("temperature", ["-20 C", "50 C", "-4 F"])
+def test_the_ends_of_the_air_temperature_range_are_inside_it(tmp_path, temperature):
+    # -20 C = 253.15 K = -4 F exactly (ISO 80000-5: T = t + 273.15 K; t_F = 9/5 t_C + 32)
+    design = tmp_path / "pipes.toml"
+    design.write_text(f'[[set]]\nkind = "air-column"\nnotes = ["C5"]\nsection = {{ stock = "pvc-sch40-1" }}\n'
+                      f'temperature = "{temperature}"\n')
+    result = _run("plan", design)
+    assert result.exit_code == 0, result.output

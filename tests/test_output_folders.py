@@ -252,3 +252,13 @@ def test_twenty_concurrent_pairs_into_one_folder_lose_nothing(tmp_path):
         assert run.returncode == 0, err.decode(errors="replace")
     assert (out / "mine.txt").read_text() == "only copy"
     assert sorted(p.name for p in tmp_path.iterdir() if p.name.startswith(".packet")) == []
+
+
+def test_a_file_that_cannot_be_written_leaves_no_new_folder_behind(tmp_path, monkeypatch):
+    def full(path, payload):
+        raise OSError(28, "No space left on device")
+
+    monkeypatch.setattr(folder, "write_bytes", full)
+    with pytest.raises(folder.FolderError, match="disk is full"):
+        folder.write_file_whole(tmp_path / "new" / "deeper" / "al.toml", "x = 1\n")
+    assert list(tmp_path.iterdir()) == []

@@ -327,7 +327,7 @@ def _json_design():
 def _dumps(data):
     import json
 
-    return json.dumps(data, indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False) + "\n"  # strict JSON: never NaN or Infinity
 
 
 def _attachment(payload, mimetype, name, inline=False):
