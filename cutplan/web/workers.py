@@ -14,7 +14,7 @@ import contextlib
 import threading
 import time
 
-TIME_LIMIT = 60.0
+TIME_LIMIT = 120.0
 """Longest a page request may plan [s]; past it the worker is stopped and the request gets one line."""
 QUEUE_WAIT = 30.0
 """Longest a request waits for a free worker [s]."""
