@@ -129,3 +129,23 @@ def test_the_ends_of_the_air_temperature_range_are_inside_it(tmp_path, temperatu
                       f'temperature = "{temperature}"\n')
     result = _run("plan", design)
     assert result.exit_code == 0, result.output
+
+
+def test_a_stereo_take_with_one_channel_wired_backwards_is_not_silent(tmp_path):
+    import struct
+
+    import numpy as np
+
+    # 440 Hz in both channels, the right one inverted: their mean is exactly zero
+    rate, f = 44100, 440.0
+    t = np.arange(int(0.8 * rate)) / rate
+    ring = 0.5 * np.sin(2 * np.pi * f * t) * np.exp(-t / 0.6)
+    left = np.round(ring * 32767).astype("<i2")
+    frames = np.column_stack([left, -left]).tobytes()
+    header = b"RIFF" + struct.pack("<I", 36 + len(frames)) + b"WAVEfmt " + struct.pack(
+        "<IHHIIHH", 16, 1, 2, rate, rate * 4, 4, 16) + b"data" + struct.pack("<I", len(frames))
+    path = tmp_path / "take.wav"
+    path.write_bytes(header + frames)
+    result = _run("measure", path)
+    assert result.exit_code == 0, result.output
+    assert "440." in result.output
