@@ -156,3 +156,16 @@ def test_from_stock_never_hands_the_optimiser_a_clock(monkeypatch):
     result = _run("from-stock", "--have", "8 ft x 2", "--stock-size", "al-1.000x0.065", "--count", 8)
     assert result.exit_code == 0, result.output
     assert limits and set(limits) == {None}
+
+
+def test_a_cut_list_stopped_early_states_its_bound(tmp_path, monkeypatch):
+    import cutplan.stock as stock
+
+    design = tmp_path / "porch.toml"
+    design.write_text('[[set]]\nname = "porch"\nkind = "chime"\nnotes = ["C5", "D5", "E5", "F5", "G5", "A5", "B5", '
+                      '"C6", "D6", "E6", "F6", "G6"]\nsection = { stock = "al-1.000x0.065" }\n'
+                      '[stock]\nlengths = [{ length = "6 ft", price = 9.5 }, { length = "8 ft", price = 12 }]\n')
+    monkeypatch.setattr(stock, "DEFAULT_OPS", 1)  # no work at all beyond first fit decreasing
+    result = _run("cutlist", design)
+    assert result.exit_code == 0, result.output
+    assert "best found, not proven optimal" in result.output and "no layout costs less than" in result.output
