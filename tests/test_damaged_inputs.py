@@ -149,3 +149,17 @@ def test_a_stereo_take_with_one_channel_wired_backwards_is_not_silent(tmp_path):
     result = _run("measure", path)
     assert result.exit_code == 0, result.output
     assert "440." in result.output
+
+
+def test_a_fundamental_measured_with_little_confidence_is_not_reported(tmp_path, monkeypatch):
+    from cutplan.audio import analysis
+    from cutplan.cli import shop
+
+    take = tmp_path / "take.wav"
+    take.write_bytes(b"")  # never read: the measurement is replaced below
+    monkeypatch.setattr(shop, "_measure_file", lambda *a, **k: analysis.Measurement(523.3, (523.3,), 0.08,
+                                                                                    "chime", False))
+    _one_line(_run("measure", take), "confidence 0.08", "too unsure")
+    monkeypatch.setattr(shop, "_measure_file", lambda *a, **k: analysis.Measurement(523.3, (523.3,), 0.9,
+                                                                                    "chime", True))
+    assert _run("measure", take).exit_code == 0

@@ -75,6 +75,10 @@ def measure_command(recording, frequency, kind, near, a4, fmt):
     else:
         m = _measure_file(recording, kind, near_hz)
         fundamental, partials, confidence = m.fundamental_hz, list(m.partials_hz), m.confidence
+        if confidence < MIN_CONFIDENCE:
+            fail(f"{recording}: the strongest pattern ({fundamental:.1f} Hz) has confidence {confidence:.2f}, under "
+                 f"{MIN_CONFIDENCE}: too unsure to report; record one clear strike close to the piece, or give "
+                 "--near NOTE")
     name, off = pitch.nearest_note(fundamental, a4)
     if fmt == "json":
         click.echo(json.dumps({"fundamental_hz": round(fundamental, 4), "note": name, "cents": off,
@@ -83,6 +87,11 @@ def measure_command(recording, frequency, kind, near, a4, fmt):
     click.echo(f"fundamental {fundamental:.3f} Hz = {name} {off:+.2f} cents (confidence {confidence:.2f})")
     if len(partials) > 1:
         click.echo("partials: " + ", ".join(f"{f:.1f}" for f in partials) + " Hz")
+
+
+MIN_CONFIDENCE = 0.2
+"""Least confidence (0..1) a measured fundamental needs to be reported (common practice: below it
+the partials found fit the piece's pattern too poorly to trust the pitch)."""
 
 
 def _parse_pieces(texts, kind, near_hz=None):
