@@ -152,3 +152,33 @@ def test_a_length_now_far_from_the_piece_is_named(client):
     fields.update({"trim.piece": "porch-1", "trim.measured": "600", "trim.length_now": "1e308 m"})
     resp = client.post("/api/trim", data=fields)
     assert resp.status_code == 422 and "trim.length_now" in resp.get_json()["errors"]
+
+
+def test_two_hundred_slow_connections_do_not_lock_out_a_real_visitor():
+    # loopback only, bounded in count (200) and time (each socket times out in 20 s)
+    import re
+    import socket
+    import subprocess
+    import sys
+    import urllib.request
+    from pathlib import Path
+
+    root = Path(__file__).resolve().parents[2]
+    proc = subprocess.Popen([sys.executable, "-c", "from cutplan.cli import cli; cli()", "serve", "--port", "0",
+                             "--workers", "1"], cwd=root, stderr=subprocess.PIPE, text=True)
+    slow = []
+    try:
+        line = proc.stderr.readline()
+        port = int(re.search(r":(\d+)/", line).group(1))
+        for _ in range(200):
+            s = socket.create_connection(("127.0.0.1", port), timeout=20)
+            s.sendall(b"POST /preview HTTP/1.1\r\nHost: 127.0.0.1\r\n")  # and never the rest
+            slow.append(s)
+        with urllib.request.urlopen(f"http://127.0.0.1:{port}/static/cutplan.css", timeout=20) as resp:
+            assert resp.status == 200
+    finally:
+        for s in slow:
+            s.close()
+        proc.kill()
+        proc.wait(timeout=20)
+        proc.stderr.close()
