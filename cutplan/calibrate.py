@@ -173,12 +173,45 @@ def fit_air_column_choice(pieces, ends, what, speed, radius=None):
     if what == "auto":
         what = "both" if len({length for length, _, _ in pieces}) >= 2 else "end-correction"
     if what == "both":
-        return fit_air_column(pieces, ends)
-    if what == "speed":
+        fit = fit_air_column(pieces, ends)
+    elif what == "speed":
         from cutplan.physics.air_column import end_correction
 
-        return fit_air_column(pieces, ends, end_correction=0.0 if radius is None else end_correction(radius))
-    return fit_air_column(pieces, ends, speed=speed)
+        fit = fit_air_column(pieces, ends, end_correction=0.0 if radius is None else end_correction(radius))
+    else:
+        fit = fit_air_column(pieces, ends, speed=speed)
+    _check_air_fit(fit, radius)
+    return fit
+
+
+AIR_SPEED_RANGE = (250.0, 450.0)
+"""Speeds of sound a fit may give [m/s]: air from about -100 C to 230 C (the ideal-gas speed
+331.3 sqrt(T / 273.15 K) m/s; from memory), the range a stock table accepts."""
+END_FACTOR_RANGE = (0.0, 1.5)
+"""End corrections a fit may give, as a factor of the inner radius [-]: unflanged 0.6133 and
+flanged 0.8216 (Levine, H. and Schwinger, J., Phys. Rev. 73 (1948) 383; from memory), with room
+for a measurement; the range a design accepts."""
+MAX_RESIDUAL_CENTS = 25.0
+"""Largest miss of one measured resonance against the fitted line [cents]: more means the
+measurements disagree (a wrong length, a harmonic miscounted)."""
+
+
+def _check_air_fit(fit, radius):
+    """Refuse a fit no later command would accept (CalibrationError), so nothing useless is written."""
+    lo, hi = AIR_SPEED_RANGE
+    if not lo <= fit.speed <= hi:
+        raise CalibrationError(f"the measurements give a speed of sound of {fit.speed:.0f} m/s, outside the "
+                               f"{lo:.0f}-{hi:.0f} m/s of air; check the lengths, the frequencies and the "
+                               "resonance numbers (#N)")
+    lo, hi = END_FACTOR_RANGE
+    if radius and not lo <= fit.end_correction / radius <= hi:
+        raise CalibrationError(f"the measurements give an end correction of {fit.end_correction * 1000:.1f} mm = "
+                               f"{fit.end_correction / radius:.2f} x inner radius, outside {lo:g} to {hi:g} x; "
+                               "check the lengths, the frequencies and the resonance numbers (#N)")
+    worst = max((abs(r) for r in fit.residuals_cents), default=0.0)
+    if worst > MAX_RESIDUAL_CENTS:
+        raise CalibrationError(f"the measurements disagree: one misses the fitted line by {worst:.0f} cents "
+                               f"(more than {MAX_RESIDUAL_CENTS:g}); check each length and frequency")
 
 
 @dataclass(frozen=True)

@@ -45,6 +45,9 @@ class CutGroup:
     cost: float | None = None
     kerf: float = 0.0
     end_trim: float = 0.0
+    cost_lower_bound: float | None = None
+    """Least any layout of the group can cost (priced stock), so the gap of a layout not proven
+    optimal is stated."""
 
 
 @dataclass(frozen=True)
@@ -85,6 +88,12 @@ class CutList:
         """Total price of the sticks, or None when any group has no prices."""
         costs = [g.cost for g in self.groups]
         return None if any(c is None for c in costs) else float(sum(costs))
+
+    @property
+    def cost_lower_bound(self):
+        """Least any layout can cost in total, or None when any group has no prices or no bound."""
+        bounds = [g.cost_lower_bound for g in self.groups]
+        return None if any(b is None for b in bounds) else float(sum(bounds))
 
     @property
     def utilisation(self):
@@ -140,5 +149,5 @@ def lay_out(sets, specs, design_stock, override=None, time_limit=optimiser.DEFAU
                         s.offcut, name, s.price)
             for s in result.sticks)
         out.append(CutGroup(name, sticks, result.lower_bound, bool(result.proven_optimal), result.method,
-                            result.cost, stock.kerf, stock.end_trim))
+                            result.cost, stock.kerf, stock.end_trim, result.cost_lower_bound))
     return CutList(tuple(out))

@@ -40,9 +40,10 @@ SEARCH_HIGH = "C8"
 """Highest note tried when no upper limit is given (top of the piano's range)."""
 MAX_COUNT = 24
 """Most notes ``objective="most"`` tries [-] (two octaves of a 12-note scale)."""
-PACK_TIME_LIMIT = 2.0
-"""Seconds the cut-list optimiser may take per candidate set [s] (its default, as in a plan).
-Whether a set fits is settled by bounds, first fit and an exhaustive search with a node limit
+PACK_OPS = 2_000_000
+"""Work the cut-list optimiser may do per candidate set [operations, see cutplan.stock._Work]
+(about 2 CPU s; a tenth of a plan's): bounded by work, never by the clock, so the table is the
+same on a busy machine.  Whether a set fits is settled by bounds, first fit and an exhaustive search with a node limit
 (:mod:`cutplan.fit_pack`); the optimiser decides only sets too big for that, and lays out the
 sets shown."""
 ROWS_PER_SCALE = 4
@@ -233,7 +234,7 @@ class _Search:
         self.stats["sets_packed"] += 1
         items = [optimiser.Item(f"{self.name}-{i}", c) for i, c in enumerate(cuts, start=1)]
         try:
-            out = optimiser.layout(items, self.types, self.stock.kerf, self.stock.end_trim, PACK_TIME_LIMIT)
+            out = optimiser.layout(items, self.types, self.stock.kerf, self.stock.end_trim, None, ops=PACK_OPS)
         except optimiser.StockError:
             out = None
         self.stats["pack_s"] += time.process_time() - start

@@ -6,7 +6,12 @@ previous packet as it was, and a reader never sees a folder mixing two runs.
 
 A small manifest (:data:`MANIFEST`) lists what cutplan wrote. With ``force``, a later run
 replaces exactly those files, including any it no longer writes (a 5-chime plan re-planned as 3
-chimes loses the two old templates), and keeps every other file, which is the user's own.
+chimes loses the two old templates), and keeps every other thing, which is the user's own:
+files (hard-linked: contents, modes and owners stay), folders with their modes, empty folders
+and symbolic links (kept as links, never followed).  What may be replaced, and what is refused
+with one line, is decided by :mod:`cutplan.folder_guard`; so is the lock that lets one run at a
+time write a folder.  A run clears only temporaries whose run is no longer alive; where the
+system has no atomic exchange, a previous folder set aside by a run that died is put back.
 Files are created with the usual permissions (0666 less the umask), like any other program's.
 A full disk or read-only folder becomes one :class:`FolderError` line.
 """
@@ -19,11 +24,12 @@ import errno
 import json
 import os
 import shutil
+import stat
 import tempfile
 from pathlib import Path
 
-MANIFEST = ".cutplan-files.json"
-"""Name of the manifest inside a written folder."""
+from cutplan.folder_guard import MANIFEST, inspect, locked, pid_alive, remove_tree
+
 _TEMP_TAG = ".cutplan-"
 _RENAME_EXCHANGE = 2
 
@@ -63,19 +69,9 @@ def _exchange(a, b):
 
 def read_manifest(folder):
     """Relative names cutplan wrote into ``folder`` last time (empty if none recorded)."""
-    try:
-        data = json.loads((Path(folder) / MANIFEST).read_text(encoding="utf-8"))
-        return {str(n) for n in data.get("files", []) if isinstance(n, str)}
-    except (OSError, ValueError, AttributeError):
-        return set()
+    from cutplan.folder_guard import read_manifest as listed
 
-
-def _existing_files(folder):
-    out = []
-    for root, _dirs, files in os.walk(folder):
-        for name in files:
-            out.append(os.path.relpath(os.path.join(root, name), folder))
-    return out
+    return listed(folder) or set()
 
 
 def _safe_relative(name):
@@ -93,23 +89,77 @@ def write_bytes(path, payload):
         os.fsync(fh.fileno())
 
 
-def _clean_stale(target):
-    """Remove temporary folders an interrupted earlier run left beside ``target``."""
-    for old in target.parent.glob(f".{target.name}{_TEMP_TAG}*"):
-        shutil.rmtree(old, ignore_errors=True)
+def _temp_owner(path, target):
+    """Process id in a temporary's name (``.NAME.cutplan-[old-]PID-xxxx``), or 0 for an older name."""
+    rest = path.name[len(f".{target.name}{_TEMP_TAG}"):]
+    if rest.startswith("old-"):
+        rest = rest[4:]
+    head = rest.split("-", 1)[0]
+    return int(head) if head.isdigit() else 0
 
 
-def check_target(target, force):
-    """None when ``target`` may be written, else the one-line reason it may not."""
+def _recover(target):
+    """Put back a previous folder that a run which died set aside; clear dead runs' temporaries.
+
+    Called under the folder's lock.  A set-aside folder (``old-``) is the only copy of the user's
+    files when the target is missing, so it is renamed back, never deleted.
+    """
+    leftovers = [p for p in sorted(target.parent.glob(f".{target.name}{_TEMP_TAG}*"))
+                 if not p.name.endswith("lock") and not pid_alive(_temp_owner(p, target))]
+    for old in [p for p in leftovers if p.name.startswith(f".{target.name}{_TEMP_TAG}old-")]:
+        if not os.path.lexists(target):
+            os.rename(old, target)
+            leftovers.remove(old)
+    for old in leftovers:
+        if old.name.startswith(f".{target.name}{_TEMP_TAG}old-") and not _kept_in(old, target):
+            continue  # it may hold the only copy of a user's file: leave it
+        remove_tree(old)
+
+
+def _kept_in(old, target):
+    """Whether every user file of the set-aside folder ``old`` is the same file in ``target``."""
+    ours = read_manifest(old) | {MANIFEST}
+    for root, _dirs, names in os.walk(old, followlinks=False):
+        for name in names:
+            full = os.path.join(root, name)
+            rel = os.path.relpath(full, old)
+            if rel in ours or not os.path.isfile(full) or os.path.islink(full):
+                continue
+            try:
+                if not os.path.samefile(full, target / rel):
+                    return False
+            except OSError:
+                return False
+    return True
+
+
+def _pid_prefix(target, old=False):
+    return f".{target.name}{_TEMP_TAG}{'old-' if old else ''}{os.getpid()}-"
+
+
+def check_target(target, force, new_names=None):
+    """None when ``target`` may be written, else the one-line reason it may not.
+
+    ``new_names`` (the files a run will write), when given, also settles whether a forced run
+    may replace what is there (see :func:`cutplan.folder_guard.inspect`).
+    """
     target = Path(target)
+    if target.is_symlink():
+        return f"{target}: is a symbolic link; give the folder itself"
     if target.exists() and not target.is_dir():
         return f"{target}: the output must be a folder, and this is a file"
     here, full = Path.cwd().resolve(), target.resolve()
     if full == here or full in here.parents:
         return (f"{target}: the output folder holds the current folder; give a folder of its own, "
                 "such as -o packet, so that it can be swapped in whole")
-    if target.is_dir() and not force and any(p.name != MANIFEST for p in target.iterdir()):
+    if not target.is_dir():
+        return None
+    if not force and any(p.name != MANIFEST for p in target.iterdir()):
         return f"{target}: the folder is not empty; use --force to replace what cutplan wrote there"
+    if os.path.ismount(target):
+        return f"{target}: a file system is mounted here; give a folder inside it"
+    if new_names is not None:
+        return inspect(target, set(new_names))[1]
     return None
 
 
@@ -119,69 +169,85 @@ def write_folder(target, files, force=False):
     Returns the list of names written. Raises :class:`FolderError` (one line) when the folder
     cannot be written; the previous folder is then left exactly as it was.
     """
+    names = {str(_safe_relative(n)): d for n, d in files.items()}
     problem = check_target(target, force)
     if problem:
         raise FolderError(problem)
-    shown_target, target = target, Path(target).resolve()
-    names = {str(_safe_relative(n)): d for n, d in files.items()}
+    shown_target, target = target, Path(os.path.abspath(target))
     parent = target.parent
     tmp = None
     try:
         parent.mkdir(parents=True, exist_ok=True)
-        _clean_stale(target)
-        tmp = Path(tempfile.mkdtemp(prefix=f".{target.name}{_TEMP_TAG}", dir=parent))
-        os.chmod(tmp, (os.stat(target).st_mode & 0o7777) if target.is_dir() else 0o777 & ~_umask())
-        if target.is_dir():
-            _keep_user_files(target, tmp, set(names))
-        for name, data in names.items():
-            dest = tmp / name
-            dest.parent.mkdir(parents=True, exist_ok=True)
-            write_bytes(dest, data.encode("utf-8") if isinstance(data, str) else bytes(data))
-        manifest = json.dumps({"written_by": "cutplan", "files": sorted(names)}, indent=1) + "\n"
-        write_bytes(tmp / MANIFEST, manifest.encode("utf-8"))
-        _swap_in(tmp, target)
-        tmp = None
+        with locked(parent, target.name):
+            _recover(target)
+            problem = check_target(target, force, names)
+            if problem:
+                raise FolderError(problem)
+            tmp = Path(tempfile.mkdtemp(prefix=_pid_prefix(target), dir=parent))
+            keep = None
+            if target.is_dir():
+                keep, problem = inspect(target, set(names))
+                if problem:
+                    raise FolderError(problem)
+                _keep_user_things(target, tmp, keep)
+            for name, data in names.items():
+                dest = tmp / name
+                dest.parent.mkdir(parents=True, exist_ok=True)
+                write_bytes(dest, data.encode("utf-8") if isinstance(data, str) else bytes(data))
+            manifest = json.dumps({"written_by": "cutplan", "files": sorted(names)}, indent=1) + "\n"
+            write_bytes(tmp / MANIFEST, manifest.encode("utf-8"))
+            for rel, mode in sorted((keep.dirs if keep else {}).items(), key=lambda kv: -len(kv[0])):
+                os.chmod(tmp / rel, mode)
+            os.chmod(tmp, stat.S_IMODE(os.stat(target).st_mode) if target.is_dir() else 0o777 & ~_umask())
+            _swap_in(tmp, target)
+            tmp = None
+    except FolderError:
+        raise
     except OSError as exc:
         raise FolderError(f"{shown_target}: cannot write the folder ({_why(exc)}); nothing was changed") from None
     finally:
         if tmp is not None:
-            shutil.rmtree(tmp, ignore_errors=True)
+            remove_tree(tmp)
     return sorted(names)
 
 
-def _keep_user_files(target, tmp, new_names):
-    """Hard-link (or copy) into ``tmp`` every file of ``target`` that cutplan did not write."""
-    ours = read_manifest(target) | {MANIFEST}
-    if not (target / MANIFEST).exists():
-        ours |= new_names  # a folder from before manifests: only same-named files are ours
-    for rel in _existing_files(target):
-        if rel in ours or rel in new_names:
-            continue
+def _keep_user_things(target, tmp, keep):
+    """Recreate in ``tmp`` the user's folders and links; hard-link (or copy) the user's files."""
+    for rel in sorted(keep.dirs):
+        (tmp / rel).mkdir(parents=True, exist_ok=True)
+    for rel, link in keep.links.items():
+        os.symlink(link, tmp / rel)
+    for rel in keep.files:
         src, dest = target / rel, tmp / rel
         dest.parent.mkdir(parents=True, exist_ok=True)
         try:
             os.link(src, dest, follow_symlinks=False)
         except OSError:
-            shutil.copy2(src, dest)
+            shutil.copy2(src, dest, follow_symlinks=False)
 
 
 def _swap_in(tmp, target):
-    if not target.exists():
+    if not os.path.lexists(target):
         os.rename(tmp, target)
         return
     if _exchange(tmp, target):
-        shutil.rmtree(tmp, ignore_errors=True)  # tmp now holds the previous folder
+        remove_tree(tmp)  # tmp now holds the previous folder; the user's files are linked in the new
         return
-    old = Path(tempfile.mkdtemp(prefix=f".{target.name}{_TEMP_TAG}old-", dir=target.parent))
+    # no atomic exchange: set the old folder aside, rename the new one in, put the old back on failure
+    old = Path(tempfile.mkdtemp(prefix=_pid_prefix(target, old=True), dir=target.parent))
     os.rmdir(old)
     os.rename(target, old)
-    os.rename(tmp, target)
-    shutil.rmtree(old, ignore_errors=True)
+    try:
+        os.rename(tmp, target)
+    except BaseException:
+        os.rename(old, target)
+        raise
+    remove_tree(old)
 
 
 def write_file_whole(path, data, force=False):
     """One file written completely or not at all (temporary file beside it, then rename),
-    with the usual permissions. Raises :class:`FolderError` (one line)."""
+    with the usual permissions, or the replaced file's own. Raises :class:`FolderError` (one line)."""
     path = Path(path)
     if path.exists() and not force:
         raise FolderError(f"{path}: already exists; use --force to overwrite it")
@@ -189,15 +255,26 @@ def write_file_whole(path, data, force=False):
         raise FolderError(f"{path}: is a folder; give a file name")
     payload = data.encode("utf-8") if isinstance(data, str) else bytes(data)
     tmp = None
+    made = [q for q in [path.parent, *path.parent.parents] if not os.path.lexists(q)]  # folders this call creates
     try:
         path.parent.mkdir(parents=True, exist_ok=True)
         fd, tmp = tempfile.mkstemp(prefix=f".{path.name}{_TEMP_TAG}", dir=path.parent)
         os.close(fd)
         os.unlink(tmp)
         write_bytes(tmp, payload)
+        if path.is_file() and not path.is_symlink():
+            os.chmod(tmp, stat.S_IMODE(os.stat(path).st_mode))  # a private 0600 file stays private
         os.replace(tmp, path)
         tmp = None
     except OSError as exc:
+        if tmp is not None:
+            Path(tmp).unlink(missing_ok=True)
+            tmp = None
+        for folder in made:  # innermost first: leave no empty folder behind
+            try:
+                os.rmdir(folder)
+            except OSError:
+                break
         raise FolderError(f"{path}: cannot write the file ({_why(exc)}); nothing was changed") from None
     finally:
         if tmp is not None:

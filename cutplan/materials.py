@@ -145,9 +145,17 @@ def packaged_dir():
 
 
 def _read_toml(path):
+    """A table file's TOML: a regular file of at most a design file's size (never a pipe, a device,
+    a folder or a link loop), or MaterialError naming the file."""
+    from cutplan.design.contract import DesignErrors
+    from cutplan.design.reader import read_bytes_checked
+
     try:
-        with open(path, "rb") as fh:
-            return tomllib.load(fh)
+        raw = read_bytes_checked(path, what="a material or stock table")
+    except DesignErrors as exc:
+        raise MaterialError(path, "(file)", "", exc.errors[0].allowed) from None
+    try:
+        return tomllib.loads(raw.decode("utf-8").removeprefix("\ufeff"))
     except tomllib.TOMLDecodeError as exc:
         raise MaterialError(path, "(file)", "", f"is not valid TOML: {exc}") from None
     except UnicodeDecodeError:
@@ -209,14 +217,20 @@ def material_from_table(name, table, path="(inline)", sources=None):
     poisson, p_nu = 0.33, Provenance("", "default 0.33", "from memory")
     if "poisson" in table:
         poisson, p_nu, _, _ = _value(path, f"{name}.poisson", table["poisson"], _plain_number, sources)
-        if not poisson < 0.5:
+        if not -1.0 < poisson < 0.5:
             raise MaterialError(path, f"{name}.poisson", poisson, "must be between 0 and 0.5")
     shear, shear_ratio, provs = None, None, [("modulus", p_mod), ("density", p_den), ("poisson", p_nu)]
     if "shear_modulus" in table:
         shear, p_g, _, _ = _value(path, f"{name}.shear_modulus", table["shear_modulus"], units.parse_modulus, sources)
+        if not 0.001 * modulus <= shear <= modulus:  # G = E / 2(1 + nu) <= E; G/E about 0.1 for wood
+            raise MaterialError(path, f"{name}.shear_modulus", table["shear_modulus"],
+                                "must be between 1/1000 of the modulus and the modulus itself")
         provs.append(("shear_modulus", p_g))
     if "shear_ratio" in table:
         shear_ratio, p_r, _, _ = _value(path, f"{name}.shear_ratio", table["shear_ratio"], _plain_number, sources)
+        if not 0.001 <= shear_ratio <= 1.0:  # G / E: 1/3 to 1/2 for isotropic solids, about 0.1 for wood
+            raise MaterialError(path, f"{name}.shear_ratio", table["shear_ratio"],
+                                "must be a ratio G / E from 0.001 to 1 (about 0.38 for metals, 0.1 for wood)")
         provs.append(("shear_ratio", p_r))
     across = {}
     for key in GRAIN_KEYS:
@@ -258,6 +272,8 @@ def _class_of(path, name, table):
 
 def _stock_file(path, data, sources, stock):
     header = data.get("table", {})
+    if not isinstance(header, dict):
+        raise MaterialError(path, "table", header, "must be a table ([table]) of the file's common keys")
     unknown = set(header) - _STOCK_HEADER_KEYS
     if unknown:
         raise MaterialError(path, f"table.{sorted(unknown)[0]}", "", f"is not a known key; use {sorted(_STOCK_HEADER_KEYS)}")
@@ -267,11 +283,16 @@ def _stock_file(path, data, sources, stock):
     if sources is not None and source and source not in sources:
         raise MaterialError(path, "table.source", source, "is not a key in sources.toml")
     prov = Provenance(source, header.get("where", ""), header.get("kind", "standard"))
-    wall_factor = float(header.get("wall_factor", 1.0))
+    wall_factor = header.get("wall_factor", 1.0)
+    if isinstance(wall_factor, bool) or not isinstance(wall_factor, (int, float)) or not 1.0 <= wall_factor <= 1.5:
+        raise MaterialError(path, "table.wall_factor", wall_factor, "must be a number from 1.0 to 1.5 (the real "
+                            "wall over the minimum wall)")
     sizes = data.get("sizes", {})
     if not isinstance(sizes, dict) or not sizes:
         raise MaterialError(path, "sizes", "", "must hold at least one [sizes.\"name\"] table")
     for name, row in sizes.items():
+        if not isinstance(row, dict):
+            raise MaterialError(path, f"sizes.{name}", row, "must be a table of outer, wall and the like")
         unknown = set(row) - _STOCK_KEYS
         if unknown:
             raise MaterialError(path, f"sizes.{name}.{sorted(unknown)[0]}", "", f"is not a known key; use {sorted(_STOCK_KEYS)}")
@@ -288,7 +309,13 @@ def _stock_file(path, data, sources, stock):
             raise MaterialError(path, f"sizes.{name}.wall", row["wall"], "must be positive and under half the outside diameter")
         bore = outer - 2 * wall * wall_factor
         if "inner" in row:
-            bore = units.parse_length(row["inner"])
+            try:
+                bore = units.parse_length(row["inner"])
+            except units.UnitError as exc:
+                raise MaterialError(path, f"sizes.{name}.inner", exc.text, f"is not {exc.accepted}") from None
+            if not 0 < bore < outer:
+                raise MaterialError(path, f"sizes.{name}.inner", row["inner"], "must be positive and less than "
+                                    "the outside diameter")
         section = tube(outer, wall, name=name, bore=bore)
         if any(k in row for k in _AIR_KEYS):
             section = replace(section, air_calibration=_air_calibration(path, name, row))
@@ -359,15 +386,26 @@ def load_library(extra_dirs=(), include_packaged=True):
             if path.name == "sources.toml":
                 continue
             files.append(path)
-            data = _read_toml(path)
-            if "sizes" in data or "table" in data:
-                _stock_file(path, data, sources, stock)
-                continue
-            for name, table in data.items():
-                if not isinstance(table, dict):
-                    raise MaterialError(path, name, table, "must be a table of properties")
-                materials[name] = material_from_table(name, table, path, sources)
+            try:
+                _read_table_file(path, sources, materials, stock)
+            except MaterialError:
+                raise
+            except (TypeError, ValueError, AttributeError, KeyError, OverflowError) as exc:
+                detail = " ".join(str(exc).split())[:160]
+                raise MaterialError(path, "(file)", "", f"is not a material or stock table as cutplan reads "
+                                    f"them ({type(exc).__name__}: {detail})") from None
     return Library(materials=materials, stock=stock, sources=sources, files=tuple(files))
+
+
+def _read_table_file(path, sources, materials, stock):
+    data = _read_toml(path)
+    if "sizes" in data or "table" in data:
+        _stock_file(path, data, sources, stock)
+        return
+    for name, table in data.items():
+        if not isinstance(table, dict):
+            raise MaterialError(path, name, table, "must be a table of properties")
+        materials[name] = material_from_table(name, table, path, sources)
 
 
 def closest_names(value, choices, count=3):

@@ -21,8 +21,18 @@ def quiet(fn, *args, **kwargs):
             return fn(*args, **kwargs)
 
 
+LENGTH_RANGE = (1e-4, 30.0)
+"""Lengths a planned piece may have [m]: 0.1 mm to 30 m (common practice: an open pipe for the
+lowest audible 16 Hz is about 10 m).  Outside it no shop can cut the piece and a full-scale
+template would never end, so the plan is refused with one line."""
+
+
 def _bad_length(x):
     return x is None or not math.isfinite(x) or x <= 0
+
+
+def _absurd_length(x):
+    return not LENGTH_RANGE[0] <= x <= LENGTH_RANGE[1]
 
 
 def plan_problem(plan):
@@ -33,6 +43,10 @@ def plan_problem(plan):
         for what, x in checks:
             if _bad_length(x):
                 return f"piece {p.label}: the solver gave a {what} of {x!r}"
+        if _absurd_length(p.cut_length) or _absurd_length(p.length):
+            lo, hi = LENGTH_RANGE
+            return (f"piece {p.label}: its length would be {p.cut_length * 1000:.4g} mm, outside the "
+                    f"{lo * 1000:g} mm to {hi:g} m any piece can have")
         if not all(math.isfinite(f) and f > 0 for f in p.partials_hz):
             return f"piece {p.label}: the solver gave a partial that is not a positive finite frequency"
     cut_list = getattr(plan, "cut_list", None)

@@ -45,6 +45,13 @@ piece read with a tuner or from a clean recording fits to a few cents with the s
 model; a miss beyond this means the piece was not uniform (undercut), a partial was misread, or
 the length or section was wrong, and the material would mis-cut every piece (common practice)."""
 
+PHYSICAL_RANGE = ((0.1e6, 1.2e12), (1.0, 23000.0))
+"""What any solid can be, ``unusual`` or not: modulus from a soft foam (0.1 MPa) to diamond
+(about 1.05-1.2 TPa, from memory); density from an aerogel (about 1 kg/m3, from memory) to
+osmium (22,590 kg/m3; Haynes, W. M. (ed.), CRC Handbook of Chemistry and Physics, 95th ed.,
+2014, sec. 4).  Outside it the lengths computed would be absurd (a chime longer than the
+Earth), so such values are refused even with ``unusual = true``."""
+
 
 def modulus_range(material_class=None):
     """(low, high) Young's modulus [Pa] plausible for a class ("metal", "wood", ...) or any.
@@ -95,10 +102,28 @@ def problems(modulus, density, material_class=None, shear_modulus=None):
     return out
 
 
+def physical_problems(modulus, density):
+    """Lines saying which of ``modulus`` [Pa] and ``density`` [kg/m^3] no solid can have (empty: fine).
+
+    >>> physical_problems(3.7e78, 2700.0)
+    ['modulus 3.7e+69 GPa is outside 0.0001-1200 GPa, possible for any solid (unusual = true does not cover it)']
+    """
+    out = []
+    (e_lo, e_hi), (d_lo, d_hi) = PHYSICAL_RANGE
+    if not e_lo <= modulus <= e_hi:
+        out.append(f"modulus {modulus / 1e9:.3g} GPa is outside {e_lo / 1e9:g}-{e_hi / 1e9:g} GPa, possible for "
+                   "any solid (unusual = true does not cover it)")
+    if not d_lo <= density <= d_hi:
+        out.append(f"density {density:.4g} kg/m3 is outside {d_lo:g}-{d_hi:g} kg/m3, possible for any solid "
+                   "(unusual = true does not cover it)")
+    return out
+
+
 def material_problems(material):
-    """:func:`problems` for a Material, honouring its class and ``unusual`` flag (empty: fine)."""
+    """:func:`problems` for a Material, honouring its class and ``unusual`` flag (empty: fine);
+    an ``unusual`` material is still held to :data:`PHYSICAL_RANGE`."""
     if getattr(material, "unusual", False):
-        return []
+        return physical_problems(material.modulus, material.density)
     shear = material.shear_modulus or (material.shear_ratio and material.shear_ratio * material.modulus) or None
     out = problems(material.modulus, material.density, getattr(material, "material_class", None), shear)
     residual = getattr(material, "fit_residual_cents", None)

@@ -51,6 +51,11 @@ DEFAULT_TIME_LIMIT = None
 DEFAULT_EFFORT = 4000
 """Most master LP solves one layout may take [-] (every seeded bench instance up to 80 pieces
 needs under 600)."""
+DEFAULT_OPS = 20_000_000
+"""Most operations one layout may take [-] (see _Work; about 20 CPU s on a 2020s laptop core,
+measured in bench/bench_stock_scaling.py; every bench instance up to 80 pieces needs under 4e6)."""
+LP_FIXED_OPS = 5_000
+"""Fixed operations charged per master LP solve (setting up the solver) [-]."""
 
 
 class StockError(ValueError):
@@ -66,25 +71,43 @@ class _OutOfWork(Exception):
 
 
 class _Work:
-    """Counts master LP solves against a budget; checks the optional wall-clock limit."""
+    """Counts the search's work against a budget; checks the optional wall-clock limit.
 
-    def __init__(self, effort, time_limit):
+    Two counts, both independent of the machine: master LP solves (``effort``) and operations
+    (``ops``), an estimate of the arithmetic each step does (an LP over n pieces and m patterns
+    costs about n * (m + n) plus a fixed part, a knapsack over n pieces and c grid cells n * c /
+    200), so that a search over many pieces stops after about the same CPU time as a small one
+    may take, not after the same number of ever larger solves."""
+
+    def __init__(self, effort, time_limit, ops=None):
         import time
 
         self.left = effort
         self.used = 0
+        self.ops_left = DEFAULT_OPS if ops is None else ops
+        self.out = False
         self._clock = time.perf_counter
         self.deadline = None if time_limit is None else self._clock() + time_limit
         self.time_limit = time_limit
 
-    def spend(self):
+    def spend(self, ops=0):
+        """One master LP solve of about ``ops`` operations."""
         if self.deadline is not None and self._clock() > self.deadline:
             raise StockTimeout(f"the cut-list search passed its time limit of {self.time_limit:g} s before it "
                                "finished; run it without a time limit (the result does not depend on it)")
         if self.left <= 0:
+            self.out = True
             raise _OutOfWork
         self.left -= 1
         self.used += 1
+        self.charge(LP_FIXED_OPS + ops)
+
+    def charge(self, ops):
+        """Count ``ops`` operations; stop the search when the budget is spent."""
+        self.ops_left -= ops
+        if self.ops_left < 0:
+            self.out = True
+            raise _OutOfWork
 
 
 @dataclass(frozen=True)
@@ -279,12 +302,14 @@ def _cost(sticks):
     return float(sum(s.price for s in sticks))
 
 
-def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, effort=DEFAULT_EFFORT):
+def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, effort=DEFAULT_EFFORT, ops=None):
     """Lay ``items`` out on ``types`` of stock. Raises StockError when they cannot all be cut.
 
     ``effort`` bounds the work (master LP solves), so the result never depends on the machine or
-    its load.  ``time_limit`` [s], if given, only stops a run that is still going at that time,
-    with :class:`StockTimeout`; it never changes a result.
+    its load; so does ``ops`` (operations, see :class:`_Work`; DEFAULT_OPS when None).
+    ``time_limit`` [s], if given, only stops a run that is still going at that time,
+    with :class:`StockTimeout`; it never changes a result.  Stock too short in total (or too
+    few sticks for the pieces longer than half a stick) is refused before any search.
 
     Examples
     --------
@@ -309,10 +334,14 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
                 f"({longest.length * 1000:.0f} mm) after {end_trim * 1000:.0f} mm end trim at each end")
     from cutplan.stock_columns import _cheaper_mixes, _column_generation
 
-    work = _Work(effort, time_limit)
+    work = _Work(effort, time_limit, ops)
     by_cost = all(t.price is not None for t in types) and any(t.price for t in types)
     sizes = [it.length + kerf for it in items]
     bound = lower_bound_l2(sizes, _capacity(longest.length, kerf, end_trim))
+    if all(t.count is not None for t in types) and (
+            sum(sizes) > sum(t.count * _capacity(t.length, kerf, end_trim) for t in types) + FIT_TOLERANCE
+            or bound > sum(t.count for t in types)):
+        raise StockError(_shortage(items, types, kerf, end_trim))  # the total-length bound: no search
     heur = _heuristic(items, types, kerf, end_trim, by_cost)
     if heur is not None and not by_cost and len(heur) == bound:
         return Layout(_sticks(items, types, kerf, end_trim, heur), bound, True, "first fit decreasing (meets the bound)",
@@ -334,6 +363,10 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
         candidates.append(("first fit decreasing", _sticks(items, types, kerf, end_trim, heur)))
     if exact is not None:
         candidates.append(("column generation + HiGHS", _sticks(items, types, kerf, end_trim, exact)))
+    if not candidates and work.out:
+        raise StockError(
+            f"the optimiser found no layout of all {len(items)} pieces on the stock on hand within its "
+            "work limit (none was ruled out either); add a stick, or split the pieces into smaller groups")
     if not candidates:
         raise StockError(_shortage(items, types, kerf, end_trim))
 

@@ -123,7 +123,7 @@ def _generate(items_idx, sizes, caps, types, cost, limited, columns, work, round
                     rounding == "floor" or sizes[list(k[1])].sum() <= caps[k[0]] + FIT_TOLERANCE):
                 keys.append(k)
         seen = len(pool)
-        work.spend()
+        work.spend(len(items_idx) * (len(keys) + len(items_idx)))
         local_keys = [(t, tuple(local[i] for i in m)) for t, m in keys]
         value, x, pi, mu, art = _master_lp(local_keys, len(items_idx), types, cost, limited, big)
         if value is None:
@@ -133,6 +133,7 @@ def _generate(items_idx, sizes, caps, types, cost, limited, columns, work, round
             # several disjoint improving patterns per round: fewer LP solves
             prices = pi.copy()
             for k in range(PATTERNS_PER_ROUND):
+                work.charge(len(items_idx) * grid_caps[t] // 200)
                 best, chosen = _knapsack(prices, grid, grid_caps[t])
                 if k == 0:
                     top = max(top, best / cost[t])
@@ -243,6 +244,9 @@ def _round_and_fill(items, types, kerf, end_trim, sizes, caps, x, keys):
 
 MAX_MIXES = 2000
 """Most stick mixes examined for a priced layout [-]."""
+MAX_MIX_NODES = 200_000
+"""Most partial mixes the enumeration visits [-] (it grows as a power of the number of stock
+lengths; past this the list is incomplete and the layout is not claimed optimal)."""
 
 
 def _mixes(types, sizes_total, caps, below):
@@ -250,10 +254,12 @@ def _mixes(types, sizes_total, caps, below):
     cheapest first. Returns (mixes, complete): complete is False when there were too many."""
     out = []
     complete = True
+    visited = 0
 
     def walk(t, counts, cost, room):
-        nonlocal complete
-        if len(out) >= MAX_MIXES:
+        nonlocal complete, visited
+        visited += 1
+        if len(out) >= MAX_MIXES or visited > MAX_MIX_NODES:
             complete = False
             return
         if t == len(types):
@@ -286,15 +292,20 @@ def _cheaper_mixes(items, types, kerf, end_trim, best_cost, work):
     longest_piece = max(it.length + kerf for it in items)
     mixes, complete = _mixes(types, sizes_total, caps, best_cost)
     bound = None
+    all_sizes = [it.length + kerf for it in items]
+    l2 = {}  # the L2 bound depends only on the longest stick of a mix
     for mix_cost, counts in mixes:
         sub = [StockType(types[t].length, k, types[t].price) for t, k in enumerate(counts) if k > 0]
         if not sub or max(_capacity(st.length, kerf, end_trim) for st in sub) < longest_piece - FIT_TOLERANCE:
             continue
         most = sum(st.count for st in sub)
         longest_cap = max(_capacity(st.length, kerf, end_trim) for st in sub)
-        if lower_bound_l2([it.length + kerf for it in items], longest_cap) > most:
+        if longest_cap not in l2:
+            l2[longest_cap] = lower_bound_l2(all_sizes, longest_cap)
+        if l2[longest_cap] > most:
             continue  # ruled out at once: not even that many of the longest sticks would do
         try:
+            work.charge(len(items) * len(sub) * 20)  # the first fit tried on this mix
             if len(sub) == 1:
                 assignment, infeasible = _one_length(items, sub[0], kerf, end_trim, work)
             elif (quick := _heuristic(items, sub, kerf, end_trim, False)) is not None:

@@ -52,7 +52,8 @@ def arpeggio(pieces, step_s=0.6, ring_s=3.0, rate=RATE, strike_at=0.1):
     out = np.zeros(total)
     for k, p in enumerate(pieces):
         x = piece_preview(p, ring_s, rate, strike_at)
-        start = int(k * step_s * rate)
-        out[start:start + x.size] += x
+        start = min(int(k * step_s * rate), out.size)
+        end = min(start + x.size, out.size)  # k * step_s * rate rounds either way: never one sample over
+        out[start:end] += x[:end - start]
     peak = np.max(np.abs(out)) or 1.0
     return 0.8 * out / peak

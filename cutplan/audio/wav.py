@@ -113,7 +113,15 @@ def _decode(raw, code, bits, channels):
         if code == 1:
             data /= float(2 ** (bits - 1))
     data = data.reshape(-1, channels)
-    return data.mean(axis=1) if channels > 1 else data[:, 0]
+    if channels == 1:
+        return data[:, 0]
+    mixed = data.mean(axis=1)
+    # channels in opposite phase (a microphone wired backwards) cancel in the mix: then take the
+    # loudest channel alone rather than call the recording silent
+    loudest = data[:, int(np.argmax(np.sum(data.astype(float) ** 2, axis=0)))]
+    if np.sum(mixed.astype(float) ** 2) < 0.01 * np.sum(loudest.astype(float) ** 2):
+        return loudest
+    return mixed
 
 
 def read_wav(path):

@@ -223,6 +223,13 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
     if target:
         base_set["target"] = target
     objective = "most" if most else ("waste" if least_waste else "lowest")
+    if a4 is None and isinstance(tuning.get("a4"), str):  # the design file may say a4 = "440 Hz"
+        from cutplan.units import UnitError, parse_frequency
+
+        try:
+            tuning["a4"] = parse_frequency(tuning["a4"])
+        except UnitError as exc:
+            fail(f"{design_file}: tuning.a4: {exc.text!r} is not {exc.accepted}")
     try:
         result = fit_stock.search(
             base_set, stock, scales or ("major-pentatonic",), count=count, objective=objective, lowest=lowest,

@@ -9,6 +9,11 @@ from cutplan.cli.common import fail
 MEASURE_KINDS = ["any", "chime", "bar", "tuned-bar", "xylophone-bar", "air-column", "open-open", "closed-open"]
 
 
+MIN_CONFIDENCE = 0.2
+"""Least confidence (0..1) a measured fundamental needs to be reported (common practice: below it
+the partials found fit the piece's pattern too poorly to trust the pitch)."""
+
+
 def _measure_file(recording, kind, near_hz, ratios=None):
     """Measurement of a WAV file, or exit 2 with one line saying why it cannot be used."""
     from cutplan.audio.analysis import measure
@@ -67,6 +72,10 @@ def measure_command(recording, frequency, kind, near, a4, fmt):
         m = Measurement(frequency, (frequency,), 1.0, "tuner", True, (Partial(frequency, 0.0, None),), (1,))
     else:
         m = _measure_file(recording, kind, near_hz)
+        if m.confidence < MIN_CONFIDENCE:
+            fail(f"{recording}: the strongest pattern ({m.fundamental_hz:.1f} Hz) has confidence {m.confidence:.2f}, "
+                 f"under {MIN_CONFIDENCE}: too unsure to report; record one clear strike close to the piece, or give "
+                 "--near NOTE or --kind")
     name, off = pitch.nearest_note(m.fundamental_hz, a4)
     if fmt == "json":
         click.echo(json.dumps(_measurement_json(m, name, off, a4)))

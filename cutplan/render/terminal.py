@@ -146,7 +146,10 @@ def render_stock(cut_list, units="mm"):
     by_length = ", ".join(f"{n} x {_length(length, units)}" for length, n in cut_list.sticks_by_length)
     out.append(f"  sticks: {by_length}; fewest possible {cut_list.lower_bound}; "
                f"utilisation {100 * cut_list.utilisation:.1f} %"
-               + (f"; cost {cut_list.cost:.2f}" if cut_list.cost is not None else ""))
+               + (f"; cost {cut_list.cost:.2f}" if cut_list.cost is not None else "")
+               + (f" (no layout costs less than {cut_list.cost_lower_bound:.2f})"
+                  if not cut_list.proven_optimal and cut_list.cost is not None
+                  and cut_list.cost_lower_bound is not None else ""))
     return out
 
 

@@ -18,7 +18,8 @@ from flask import Flask, Request, g, jsonify, render_template, request
 
 from cutplan.web import form as webform
 from cutplan.web import view
-from cutplan.web.service import MAX_DESIGN_BYTES, Planner, WebErrors, error, packet_pdf, packet_zip, piece_wav
+from cutplan.web.service import (MAX_DESIGN_BYTES, Planner, WebErrors, error, packet_pdf, packet_zip, piece_wav,
+                                 plain_problem)
 from cutplan.web.trim import trim_answer
 
 MAX_UPLOAD_BYTES = 16 * 1024 * 1024
@@ -58,21 +59,23 @@ def _starter():
     return tomllib.loads(CHIME)
 
 
-def create_app(materials_dirs=(), loopback_only=True, workers=0):
+def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     """The Flask application. ``materials_dirs`` are the server's extra material folders;
-    ``workers`` > 0 plans in that many worker processes (stop them with ``app.planner.close()``)."""
+    ``workers`` > 0 plans in that many worker processes (stop them with ``app.planner.close()``);
+    ``host``: the loopback address it is bound to (127.0.0.2, ::1), accepted as a Host header."""
     from cutplan import pitch
-    from cutplan.materials import load_library
+    from cutplan.web.service import library as server_library
 
     app = Flask(__name__)
     app.request_class = MemoryRequest
     app.config.update(MAX_CONTENT_LENGTH=MAX_UPLOAD_BYTES, MAX_FORM_MEMORY_SIZE=MAX_DESIGN_BYTES,
                       MAX_FORM_PARTS=2000)
-    if loopback_only:
-        app.config["TRUSTED_HOSTS"] = LOOPBACK_NAMES
+    # a loopback server answers only its own names (a page on another site cannot rebind a name
+    # of its own to 127.0.0.1 and read the answers); werkzeug's TRUSTED_HOSTS cannot hold ::1
+    trusted = {_bare_host(h) for h in LOOPBACK_NAMES + ([host] if host else [])} if loopback_only else None
     planner = Planner(materials_dirs, workers=workers)
     app.planner = planner
-    library = load_library(list(materials_dirs))
+    library = server_library(materials_dirs)  # read once per process; the planners share it
     examples = _examples()
     app.jinja_env.filters["both"] = _both_units
     choices = {
@@ -86,14 +89,21 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
     @app.before_request
     def _limits():
         g.started = time.perf_counter()
+        if trusted is not None and _bare_host(request.headers.get("Host", "")) not in trusted:
+            return jsonify(errors=[error("(request)", "names a host this page is not served as; open the "
+                                         "address `cutplan serve` printed")]), 400
         if request.path not in UPLOAD_ROUTES:
             request.max_content_length = MAX_DESIGN_BYTES
+        if request.method == "POST" and not same_origin(request):
+            return jsonify(errors=[error("(request)", "comes from another web site; the page answers only "
+                                         "its own forms and scripts")]), 403
+        return None
 
     @app.after_request
     def _headers(resp):
         resp.headers["Content-Security-Policy"] = CSP
         resp.headers["X-Content-Type-Options"] = "nosniff"
-        resp.headers["Referrer-Policy"] = "no-referrer"
+        resp.headers["Referrer-Policy"] = "same-origin"  # never sent to another site; its own posts carry their Origin
         resp.headers["Cache-Control"] = "no-store" if not request.path.startswith("/static/") else "max-age=3600"
         if "started" in g:
             resp.headers["Server-Timing"] = f"app;dur={1000 * (time.perf_counter() - g.started):.1f}"
@@ -104,6 +114,17 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
         limit = request.max_content_length or MAX_UPLOAD_BYTES
         return jsonify(errors=[error("(request)", f"is over {limit} bytes; a design is a few kB, "
                                      f"a recording of one strike well under {MAX_UPLOAD_BYTES // 2**20} MB")]), 413
+
+    @app.errorhandler(Exception)
+    def _unexpected(exc):
+        from werkzeug.exceptions import HTTPException
+
+        if isinstance(exc, HTTPException):
+            return exc
+        app.logger.exception("unexpected error on %s", request.path)  # the server's log keeps the detail
+        line = " ".join(f"{type(exc).__name__}: {exc}".split())[:200]
+        return jsonify(errors=[error("(request)", f"could not be handled ({line}); the input that caused "
+                                     "it is worth reporting")]), 422
 
     def page(fields, status=200, errors=(), plan_pair=None, trim=None):
         slots = _slots(fields)
@@ -119,7 +140,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
 
     def plan_form(fields):
         data = webform.mapping_from_form(fields)
-        return data, planner.plan(data)
+        return data, planner.plan(data, gone=_gone())
 
     @app.get("/")
     def index():
@@ -127,7 +148,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
         data = tomllib.loads(examples[name].read_text(encoding="utf-8")) if name in examples else _starter()
         fields = webform.form_from_mapping(data)
         try:
-            return page(fields, plan_pair=planner.plan(data))
+            return page(fields, plan_pair=planner.plan(data, gone=_gone()))
         except WebErrors as exc:
             return page(fields, 422, exc.errors)
 
@@ -169,11 +190,16 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
                 problem = "is not UTF-8 text (is it a design file?)"
             except tomllib.TOMLDecodeError as exc:
                 problem = f"is not valid TOML ({exc})"
+            except RecursionError:
+                problem = "nests tables or lists too deeply to be a design"
         if problem:
             return page(fields, 422, [error("open", problem)])
+        found = plain_problem(data)
+        if found:
+            return page(fields, 422, [error("open", found["message"])])
         fields = webform.form_from_mapping(data)
         try:
-            return page(fields, plan_pair=planner.plan(data))
+            return page(fields, plan_pair=planner.plan(data, gone=_gone()))
         except WebErrors as exc:
             return page(fields, 422, exc.errors)
 
@@ -245,7 +271,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
 
         try:
             data = _json_design()
-            _design, the_plan = planner.plan(data)
+            _design, the_plan = planner.plan(data, gone=_gone())
         except WebErrors as exc:
             return jsonify(errors=exc.errors), 422
         return app.response_class(_dumps(plan_dict(the_plan)), mimetype="application/json")
@@ -254,7 +280,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
     def api_packet():
         try:
             data = _json_design()
-            _design, the_plan = planner.plan(data)
+            _design, the_plan = planner.plan(data, gone=_gone())
         except WebErrors as exc:
             return jsonify(errors=exc.errors), 422
         return _attachment(packet_zip(the_plan, data), "application/zip", "packet.zip")
@@ -262,9 +288,38 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0):
     return app
 
 
+def _bare_host(value):
+    """The host of a Host header or address, without port or brackets, lower case ("[::1]:80" -> "::1")."""
+    value = value.strip().lower()
+    if value.startswith("["):
+        return value[1:].partition("]")[0]
+    return value.rpartition(":")[0] if value.count(":") == 1 else value
+
+
+def same_origin(req):
+    """Whether a POST comes from the page itself (or from a script, which sends no Origin).
+
+    Browsers name the sending site in ``Sec-Fetch-Site`` and ``Origin`` on every POST, forms
+    included; a post from any other site (or a sandboxed "null" origin) is refused, so another
+    web site cannot make this page work or hand its answers over."""
+    site = req.headers.get("Sec-Fetch-Site")
+    if site is not None and site not in ("same-origin", "none"):
+        return False
+    origin = req.headers.get("Origin")
+    return origin is None or origin == req.host_url.rstrip("/")
+
+
+def _gone():
+    """A callable that is true once the client has disconnected (waitress tells), or None."""
+    return request.environ.get("waitress.client_disconnected")
+
+
 def _json_design():
     """The request's design mapping, or WebErrors when the body is not JSON."""
-    data = request.get_json(silent=True)
+    try:
+        data = request.get_json(silent=True)
+    except RecursionError:
+        raise WebErrors([error("(design)", "nests tables or lists too deeply to be a design")]) from None
     if data is None:
         raise WebErrors([error("(design)", "the body must be a design as JSON (the design file's keys)")])
     return data
@@ -273,7 +328,7 @@ def _json_design():
 def _dumps(data):
     import json
 
-    return json.dumps(data, indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False) + "\n"  # strict JSON: never NaN or Infinity
 
 
 def _attachment(payload, mimetype, name, inline=False):

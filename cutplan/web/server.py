@@ -16,7 +16,14 @@ from cutplan.web.app import MAX_UPLOAD_BYTES, create_app
 DEFAULT_HOST = "127.0.0.1"
 DEFAULT_PORT = 8750
 THREADS = 4
-"""Worker threads [-]: enough for a classroom on one laptop; planning is CPU-bound anyway."""
+"""Planning processes at most [-]: enough for a classroom on one laptop; planning is CPU-bound."""
+SPARE_THREADS = 4
+"""Server threads beyond the planning workers [-], so pages, static files and quick answers are
+served while every worker plans."""
+CONNECTION_LIMIT = 400
+"""Open connections at most [-] (slow clients beyond it wait; they never hold a thread)."""
+IDLE_TIMEOUT = 20
+"""Seconds a connection may stay silent before it is closed [s]."""
 
 
 def is_loopback(host):
@@ -93,13 +100,17 @@ def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_di
     workers = default_workers() if workers is None else workers
     sock = listening_socket(host, port, any_port_if_busy, echo)
     try:
-        app = create_app(materials_dirs, loopback_only=is_loopback(host), workers=workers)
+        app = create_app(materials_dirs, loopback_only=is_loopback(host), workers=workers, host=host)
     except BaseException:
         sock.close()
         raise
     try:
-        server = create_server(app, sockets=[sock], threads=THREADS, max_request_body_size=MAX_UPLOAD_BYTES,
-                               ident="cutplan", clear_untrusted_proxy_headers=True)
+        # channel_request_lookahead: waitress then tells the app when a client has gone away
+        server = create_server(app, sockets=[sock], threads=max(workers, 1) + SPARE_THREADS,
+                               max_request_body_size=MAX_UPLOAD_BYTES, ident="cutplan",
+                               clear_untrusted_proxy_headers=True, channel_request_lookahead=1,
+                               connection_limit=CONNECTION_LIMIT, channel_timeout=IDLE_TIMEOUT,
+                               cleanup_interval=5)
     except BaseException:
         sock.close()
         app.planner.close()

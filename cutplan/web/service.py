@@ -19,6 +19,14 @@ MAX_DESIGN_BYTES = 1_000_000
 """Largest design accepted [bytes], as for a design file (a design is a few kB)."""
 CACHE_SIZE = 16
 """Plans kept for repeated requests of the same design (play, trim, download after a preview)."""
+STOPPED = {
+    "time": "took longer than the page allows for one plan; plan a design this large with `cutplan plan` "
+            "at the terminal, or split it into smaller sets",
+    "gone": "the page stopped waiting for this plan (a newer edit replaced it)",
+    "busy": "every planning process is busy; try again in a moment",
+    "died": "the planning process stopped (out of memory?); try a smaller design",
+}
+"""Why a plan in a worker did not finish, as the page shows it."""
 ZIP_TIME = (1980, 1, 1, 0, 0, 0)
 """Timestamp of every zip entry, so the same design gives the same zip bytes."""
 
@@ -43,6 +51,47 @@ def design_errors(exc):
             for e in exc.errors]
 
 
+MAX_DEPTH = 12
+"""Deepest nesting of tables and lists a design may have [-] (a design nests four deep)."""
+
+
+def plain_problem(value, key="(design)", depth=0):
+    """The first error record for a value no design can hold (a date, or nesting deeper than
+    :data:`MAX_DEPTH`), or None.  Checked before validation, so that nothing downstream meets it."""
+    if depth > MAX_DEPTH:
+        return error(key, f"nests tables or lists more than {MAX_DEPTH} deep; a design nests four deep")
+    if isinstance(value, dict):
+        for k, v in value.items():
+            found = plain_problem(v, str(k) if key == "(design)" else f"{key}.{k}", depth + 1)
+            if found:
+                return found
+    elif isinstance(value, list):
+        for i, v in enumerate(value, start=1):
+            found = plain_problem(v, f"{key}[{i}]", depth + 1)
+            if found:
+                return found
+    elif value is not None and not isinstance(value, (str, int, float, bool)):
+        return error(key, f"is a {type(value).__name__} ({value}); design values are text, numbers, true/false, "
+                     "lists and tables")
+    return None
+
+
+_LIBRARIES = {}
+_LIBRARY_LOCK = threading.Lock()
+
+
+def library(materials_dirs=()):
+    """The material library of the server's folders, read once per process (so answers do not
+    change while the server runs, and no request waits for the folders to be read again)."""
+    from cutplan.materials import load_library
+
+    key = tuple(str(d) for d in materials_dirs)
+    with _LIBRARY_LOCK:
+        if key not in _LIBRARIES:
+            _LIBRARIES[key] = load_library(list(materials_dirs))
+        return _LIBRARIES[key]
+
+
 def _cache_key(data):
     return json.dumps(data, sort_keys=True, ensure_ascii=False, default=str)
 
@@ -53,7 +102,9 @@ class Planner:
     ``materials_dirs`` are the server's extra material folders (``cutplan serve --materials``).
     With ``workers`` > 0, plans are computed in that many worker processes, so that several
     requests use several cores (planning holds the interpreter lock) and the server stays
-    responsive; with 0 they are computed in the calling thread. Call :meth:`close` when done.
+    responsive; each has a time limit and is stopped when its client goes away
+    (:mod:`cutplan.web.workers`).  With 0 they are computed in the calling thread. Call
+    :meth:`close` when done.
     """
 
     def __init__(self, materials_dirs=(), cache_size=CACHE_SIZE, workers=0):
@@ -66,17 +117,21 @@ class Planner:
 
     def design(self, data):
         """A validated Design, or :class:`WebErrors`."""
-        import cutplan
         from cutplan.design import DesignErrors
         from cutplan.materials import MaterialError
 
         if not isinstance(data, dict):
             raise WebErrors([error("(design)", "must be a table (JSON object) of design keys")])
+        problem = plain_problem(data)
+        if problem:
+            raise WebErrors([problem])
         if "material_dirs" in data:
             raise WebErrors([error("material_dirs", "is not accepted from the page or the API; material "
                                    "folders are given to the server (cutplan serve --materials DIR)")])
+        from cutplan.design import design_from_mapping
+
         try:
-            return cutplan.design_from_mapping(data, self.materials_dirs, name=DESIGN_NAME)
+            return design_from_mapping(data, lambda _dirs: library(self.materials_dirs), DESIGN_NAME, ".")[0]
         except DesignErrors as exc:
             raise WebErrors(design_errors(exc)) from None
         except MaterialError as exc:  # a broken server-side folder, not the request's fault
@@ -86,38 +141,44 @@ class Planner:
         """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers)."""
         import cutplan
         from cutplan.design import DesignErrors
+        from cutplan.numeric import NumericError, checked_plan
 
         design = self.design(data)
         try:
-            return design, cutplan.plan(design)
+            return design, checked_plan(lambda: cutplan.plan(design), DESIGN_NAME)
         except DesignErrors as exc:
             raise WebErrors(design_errors(exc)) from None
+        except NumericError as exc:  # an absurd or overflowing result: the design's numbers are to blame
+            raise WebErrors([error("(design)", str(exc).removeprefix(f"{DESIGN_NAME}: "))]) from None
 
-    def _in_worker(self, data):
-        from concurrent.futures.process import BrokenProcessPool
+    def _in_worker(self, data, gone=None):
+        from cutplan.web.workers import Stopped, WorkerPool
 
         with self._lock:
             if self._pool is None:
-                self._pool = _worker_pool(self.workers)
+                self._pool = WorkerPool(self.workers)
             pool = self._pool
         try:
-            kind, value = pool.submit(_plan_in_worker, data, self.materials_dirs).result()
-        except BrokenProcessPool:  # a worker died (killed, out of memory): plan here instead
-            with self._lock:
-                self._pool = None
-            return self.compute(data)
+            kind, value = pool.run(_plan_in_worker, (data, self.materials_dirs), gone=gone)
+        except Stopped as exc:
+            raise WebErrors([error("(request)", STOPPED[exc.reason])]) from None
         if kind == "errors":
             raise WebErrors(value)
         return value
 
-    def plan(self, data):
-        """(Design, Plan) for a design mapping, or :class:`WebErrors`. Repeated designs are cached."""
+    def plan(self, data, gone=None):
+        """(Design, Plan) for a design mapping, or :class:`WebErrors`. Repeated designs are cached.
+
+        ``gone``: a callable, true once the client has gone away (its worker is then stopped)."""
+        problem = plain_problem(data) if isinstance(data, dict) else None
+        if problem:
+            raise WebErrors([problem])
         key = _cache_key(data)
         with self._lock:
             if key in self._cache:
                 self._cache.move_to_end(key)
                 return self._cache[key]
-        result = self._in_worker(data) if self.workers > 0 else self.compute(data)
+        result = self._in_worker(data, gone) if self.workers > 0 else self.compute(data)
         with self._lock:
             self._cache[key] = result
             while len(self._cache) > self.cache_size:
@@ -129,22 +190,7 @@ class Planner:
         with self._lock:
             pool, self._pool = self._pool, None
         if pool is not None:
-            pool.shutdown(wait=True, cancel_futures=True)
-
-
-def _quiet_worker():
-    """Workers leave Ctrl+C to the server, which stops them itself."""
-    import signal
-
-    signal.signal(signal.SIGINT, signal.SIG_IGN)
-
-
-def _worker_pool(workers):
-    import multiprocessing
-    from concurrent.futures import ProcessPoolExecutor
-
-    # spawn: a clean interpreter per worker (forking a threaded server is unsafe), as on Windows
-    return ProcessPoolExecutor(workers, mp_context=multiprocessing.get_context("spawn"), initializer=_quiet_worker)
+            pool.close()
 
 
 def _plan_in_worker(data, materials_dirs):

@@ -97,8 +97,12 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now=""):
             now = parse_length(length_now)
         except UnitError as exc:
             raise WebErrors([error("trim.length_now", f"{exc.text!r} is not {exc.accepted}")]) from None
-        if not now > 0:
-            raise WebErrors([error("trim.length_now", f"{length_now!r} must be positive")])
+        if not 0.5 * piece.length <= now <= 2 * piece.cut_length:  # the same range as `cutplan trim`
+            from cutplan.units import format_length
+
+            raise WebErrors([error("trim.length_now", f"{length_now!r} must be between half the planned length "
+                                   f"({format_length(0.5 * piece.length, plan.units)}) and twice the cut length "
+                                   f"({format_length(2 * piece.cut_length, plan.units)})")])
     try:
         advice = trim_advice(piece, piece_frequency_function(spec, piece), hz, now, plan.units)
     except CalibrationError as exc:

@@ -6,7 +6,7 @@
   if (!form || !window.fetch || !window.FormData) { return; }
   document.documentElement.classList.add("js");
   var preview = document.getElementById("preview");
-  var seq = 0, timer = null, player = null;
+  var seq = 0, timer = null, player = null, inflight = null;
 
   function designData() {
     var data = new FormData(form);
@@ -72,7 +72,11 @@
   function refresh() {
     var mine = ++seq;
     form.classList.add("busy");
-    fetch("/preview", {method: "POST", body: designData(), headers: {"Accept": "application/json"}})
+    // a newer edit makes the last preview stale: abort it, so the server stops planning it
+    if (inflight && window.AbortController) { inflight.abort(); }
+    inflight = window.AbortController ? new AbortController() : null;
+    fetch("/preview", {method: "POST", body: designData(), headers: {"Accept": "application/json"},
+                       signal: inflight ? inflight.signal : undefined})
       .then(function (r) { return r.json(); })
       .then(function (res) {
         if (mine !== seq) { return; }
