@@ -228,9 +228,9 @@ def _plain_report(plan, piece, spec, partials, confidence, questions, length_now
     else:
         action = "trim" if advice.remove > 0 else "sharp"
     supports = ()
-    if piece.nodes and piece.kind in ("bar", "chime"):
+    if piece.nodes and piece.kind == "bar":  # a chime hangs from its top node: trim_lines says where
         fractions = [x / piece.length for x in piece.nodes]
-        supports = tuple(abs(0.5 - f) * advice.length_needed for f in fractions)
+        supports = tuple(sorted({round(abs(0.5 - f) * advice.length_needed, 7) for f in fractions}))
     report = TrimReport(piece.label, piece.note, action, partials, advice.length_now, advice.length_needed,
                         predicted_after_hz=predicted, supports=supports, confidence=confidence, messages=questions)
     return _with_lines(report, trim_report_lines(piece, report, advice, plan.units))
