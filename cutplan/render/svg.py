@@ -119,7 +119,7 @@ def render_piece_svg(plan, piece, colours=None):
     doc.text(f"Print or cut at 100 % (actual size); check the rulers. {how[0].upper() + how[1:]}.",
              (MARGIN, MARGIN + 9), 2.5)
     body = piece.cut_length / MM if piece.stopper else piece.length / MM
-    doc.rect((x0, y0), (body, strip_h), role="cut")
+    doc.rect((x0 + piece.mark_offset / MM, y0), (body, strip_h), role="cut")
     near = [m.at_mm for m in mk.piece_marks(piece, units)]
     for j in mk.join_marks(0.0, length, 1, 1, 0.0):
         tick = 5 if j.number else 3
