@@ -119,7 +119,8 @@ def tuning(packet):
                      "strike, measure, repeat; a piece flat by 10 cents needs about the 'per 10 cents' shown. "
                      f"'Cut long by' is the one allowance this piece gets{' (' + rule + ')' if rule else ''}, "
                      "with its chance of coming out sharp; after one test piece is measured (cutplan calibrate) "
-                     "it shrinks to the last figure.")
+                     "it shrinks to the last figure (wood keeps a between-board spread until several blanks are "
+                     "calibrated).")
         if s.kind in ("air-column", "resonator"):
             intro += " Air columns go sharp as the air warms: tune at the temperature they are played in."
         warnings = _warning_lines(s.pieces)
