@@ -72,6 +72,10 @@ def _partial_frequencies(material, section, model, modulus, shear_modulus, lengt
     """Modes 1..``modes`` [Hz] of a uniform piece with the given E and G."""
     from cutplan.physics import beam, timoshenko
 
+    if model == "elastic-2d":
+        from cutplan.calibrate_elastic import partial_frequencies_2d
+
+        return partial_frequencies_2d(material, section, modulus, shear_modulus, length, modes)
     ei, mu = modulus * section.second_moment, material.density * section.area
     if model == "slender":
         return [float(beam.free_free_frequency(n, length, ei, mu)) for n in range(1, modes + 1)]
@@ -123,7 +127,7 @@ def fit_moduli(measurements, material, section, model="timoshenko", shear="auto"
         The table material the pieces are made of (its density is kept).
     section : Section
         Their cross-section.
-    model : "timoshenko" or "slender"
+    model : "timoshenko", "slender" or "elastic-2d" (bars)
     shear : "auto" or "scale"
         "auto" fits G when it is determined (see :data:`SHEAR_DETERMINED`) and otherwise holds a
         measured G or scales a table G with E; "scale" always scales G with E.

@@ -77,8 +77,9 @@ class Material:
     unusual: bool = False
 
     def modulus_for(self, model):
-        """E [Pa] to use with ``model`` ("timoshenko" or "slender"); see the woods.toml header."""
-        if self.modulus_basis == "static-bending" and model == "timoshenko":
+        """E [Pa] to use with ``model`` ("timoshenko", "elastic-2d" or "slender"); see the woods.toml
+        header (only the slender model keeps a static-bending table value as it is)."""
+        if self.modulus_basis == "static-bending" and model != "slender":
             return self.modulus * WOOD_BENDING_TO_TRUE_MODULUS
         return self.modulus
 

@@ -79,25 +79,65 @@ def air_frequency_function(spec):
     return lambda x: float(freq_of(x, radius, speed, correction=spec.end_correction))
 
 
-def undercut_frequency_function(spec, arch):
-    """f(L) [Hz] of mode 1 of an arched bar with this arch (depth and shape kept) at length L."""
-    from cutplan.physics import undercut
+def plane_constants(mat):
+    """Constants of the thickness plane for the 2-D model (E along, E across, G, Poisson, rho).
+
+    E along is the material's true modulus; E across is the material's across-grain modulus
+    where its record has one (``modulus_across``), else E along; G the material's shear modulus.
+    """
+    from cutplan.physics.undercut2d import PlaneConstants
+
+    e = mat.modulus_for("elastic-2d")
+    across = getattr(mat, "modulus_across", None) or e
+    return PlaneConstants(e, across, mat.shear_modulus_for("elastic-2d"), mat.poisson, mat.density)
+
+
+def undercut_frequency_function(spec, arch, length=None):
+    """f(L) [Hz] of mode 1 of an arched bar (1-D shear-corrected beam).
+
+    With ``length`` (the solved length [m]) the arch stays where it is and L changes by taking the
+    same off each end, as a builder trims; without it the arch scales with L (depth and shape
+    kept), as in the design search.
+    """
+    from cutplan.physics import beam_fe, undercut
 
     mat, sec = spec.material, spec.section
     e, g = mat.modulus_for("timoshenko"), mat.shear_modulus_for("timoshenko")
     kappa = sec.shear_coefficient(mat.poisson)
 
-    def f(length):
-        return float(undercut.bar_modes(length, sec.width, sec.thickness, arch.depth, arch.arch_width, e, g,
-                                        mat.density, kappa, arch.exponent, modes=1).frequencies[0])
+    def f(new_length):
+        if length is None:
+            return float(undercut.bar_modes(new_length, sec.width, sec.thickness, arch.depth, arch.arch_width, e, g,
+                                            mat.density, kappa, arch.exponent, modes=1).frequencies[0])
+        shift = (length - new_length) / 2
+
+        def h(x):
+            return undercut.arch_thickness(x + shift, length, sec.thickness, arch.depth, arch.arch_width,
+                                           arch.exponent)
+
+        edge = (1 - arch.arch_width) * length / 2 - shift
+        breaks = np.unique(np.concatenate([np.linspace(0.0, new_length, 33), [edge, new_length - edge]]))
+        breaks = breaks[(breaks >= 0) & (breaks <= new_length)]
+        breaks = breaks[np.concatenate([[True], np.diff(breaks) > 1e-6 * new_length])]
+        return float(beam_fe.free_free_modes(
+            new_length, lambda x: e * sec.width * h(x) ** 3 / 12, lambda x: kappa * g * sec.width * h(x),
+            lambda x: mat.density * sec.width * h(x), lambda x: mat.density * sec.width * h(x) ** 3 / 12,
+            modes=1, order=undercut.ORDER, breaks=breaks, symmetric=True).frequencies[0])
 
     return f
 
 
 def piece_frequency_function(spec, piece):
-    """f(L) [Hz] of the mode a planned piece is tuned by, with the plan's own model (for trimming)."""
+    """f(L) [Hz] of the mode a planned piece is tuned by, with the plan's own model (for trimming;
+    an arch stays where it is)."""
+    if piece.model == "elastic-2d":
+        from cutplan.plan_elastic import profile_frequency_function
+
+        stations = piece.arch.outline if piece.arch is not None else ((0.0, spec.section.thickness),
+                                                                     (piece.length, spec.section.thickness))
+        return profile_frequency_function(spec, stations)
     if piece.arch is not None:
-        return undercut_frequency_function(spec, piece.arch)
+        return undercut_frequency_function(spec, piece.arch, piece.length)
     if spec.kind in ("chime", "bar"):
         return beam_frequency_function(spec.material, spec.section, spec.model, spec.target_mode == "strike-note")
     return air_frequency_function(spec)

@@ -101,6 +101,7 @@ class SetPlan:
     pieces: tuple
     assumptions: tuple = ()
     allowance_rule: str = ""
+    elastic_constants: tuple = ()  # ((name, value in SI), ...) the model used, e.g. ("modulus_along", 2.1e10)
 
     @property
     def section_text(self):

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from cutplan import advice, air_stock, other_modes, pitch, uncertainty
+from cutplan import advice, air_stock, other_modes, pitch, plan_elastic, uncertainty
 from cutplan.allowance import allowance_rule, allowances, risk_warning
 from cutplan.design import Design, DesignError, DesignErrors, SetSpec
 from cutplan.models import (
@@ -63,6 +63,10 @@ def _plan_beam_set(spec: SetSpec, design: Design, stock):
         nodes = [(x * length, (1 - x) * length) for x, length in zip(xi, lengths, strict=True)]
     predicted = partials[:, STRIKE_NOTE_MODE - 1] / 2 if strike else partials[:, 0]
     shear_cents = 1200 * np.log2(timo[:, 0] / slender[:, 0])
+    default_cents = shear_cents
+    if model == "slender":  # the default model at the same lengths, with its own modulus (wood: the true E)
+        own = beam_frequency_function(spec.material, spec.section, "timoshenko", strike)
+        default_cents = 1200 * np.log2(own(lengths) / f_at(lengths))
     step = 0.5e-3  # cents per mm: central difference over +/- 0.5 mm, as cents_per_mm
     per_mm = 1200 * np.log2(f_at(lengths - step) / f_at(lengths + step))
     cuts, a_uncal, a_cal, risks = allowances(spec, stock, f_at, lengths, targets, ratios_uncal, ratios_cal)
@@ -76,10 +80,10 @@ def _plan_beam_set(spec: SetSpec, design: Design, stock):
                 f"stubby piece: length is {length / depth:.1f} x its depth; beam models are "
                 "approximate here, so cut a test piece and calibrate"
             )
-        if model == "slender" and abs(shear_cents[i]) > 5:
+        if model == "slender" and abs(default_cents[i]) > 5:
             warnings.append(
-                f"slender model: shear and rotary inertia would lower this piece by "
-                f"{-shear_cents[i]:.0f} cents; the default timoshenko model includes them"
+                f"slender model: the default timoshenko model (shear, rotary inertia and its own modulus) puts "
+                f"this piece {abs(default_cents[i]):.0f} cents {'higher' if default_cents[i] > 0 else 'lower'}"
             )
         warnings += risk_warning(float(risks[i]))
         if cut > COMMON_STOCK_LENGTH and not (stock and stock.lengths):
@@ -130,7 +134,7 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
         arch = Arch(thickness=sec.thickness, depth=r.depth, arch_width=r.arch_fraction, exponent=r.exponent,
                     stations=r.stations(11), ratios=cut.ratios, ratio_residuals_cents=r.ratio_residuals_cents,
                     outline=tuple((float(x), float(h)) for x, h in zip(xs, hs, strict=True)))
-        f_at = undercut_frequency_function(spec, arch)
+        f_at = undercut_frequency_function(spec, arch, r.length)  # the arch stays put as the ends are trimmed
         slender = undercut.bar_modes(r.length, sec.width, sec.thickness, r.depth, r.arch_fraction, e, g,
                                      mat.density, kappa, r.exponent, modes=1, slender=True).frequencies[0]
         per_mm = cents_per_mm(f_at, r.length)
@@ -173,7 +177,7 @@ def _with_shop_facts(piece, spec):
 
 
 def _set_summary(spec: SetSpec, units="mm"):
-    assumptions = []
+    assumptions, constants = [], ()
     if spec.kind in ("air-column", "resonator"):
         speed = air_stock.speed(spec)
         hum = "dry air (ISO 9613-1)" if spec.humidity is None else f"{spec.humidity:.0f} % RH (Cramer 1993)"
@@ -197,24 +201,34 @@ def _set_summary(spec: SetSpec, units="mm"):
         )
         if mat.modulus_basis == "static-bending":
             assumptions.append("wood: table modulus is a static-bending value"
-                               + ("; raised 10 % to the true E for the shear-corrected model" if model == "timoshenko" else ""))
-        assumptions.append("shear-corrected (Timoshenko) free-free beam, Cowper shear coefficient"
-                           if model == "timoshenko" else "slender (Euler-Bernoulli) free-free beam")
+                               + ("; raised 10 % to the true E for the shear-corrected and 2-D models" if model != "slender"
+                                  else ""))
+        assumptions.append({"timoshenko": "shear-corrected (Timoshenko) free-free beam, Cowper shear coefficient",
+                            "slender": "slender (Euler-Bernoulli) free-free beam",
+                            "elastic-2d": "2-D elastic body through the thickness (plane stress, quadratic finite "
+                                          "elements), free-free"}[model])
+        constants = plan_elastic.elastic_constants(spec)
+        if model == "elastic-2d":
+            across = dict(constants)["modulus_across"]
+            assumptions.append(f"E across the bar {across / 1e9:.2f} GPa"
+                               + (" (none tabled: taken equal to E along)" if across == e else ""))
         if spec.target_mode == "strike-note":
             assumptions.append("tuned to the strike note: half the mode-4 frequency")
         if spec.undercut is not None:
             u = spec.undercut
             ratio_text = ":".join(f"{r:g}" for r in (1,) + u.ratios)
             assumptions.append(f"undercut bars tuned {ratio_text}: arch over the middle {u.arch_width:g} of the length, "
-                               f"centre at least {format_length(u.min_thickness, units)} thick (non-uniform shear-corrected "
-                               "finite elements)")
-            model = "timoshenko-undercut"
+                               f"centre at least {format_length(u.min_thickness, units)} thick ("
+                               + ("2-D elastic body" if model == "elastic-2d" else
+                                  "non-uniform shear-corrected finite elements") + ")")
+            if model != "elastic-2d":
+                model = "timoshenko-undercut"
     material = spec.material.name if spec.material is not None else "(not given)"
     if material == "inline" and spec.material is not None:
         material = f"inline: E {spec.material.modulus / 1e9:.2f} GPa, {spec.material.density:.0f} kg/m3"
     sec = spec.section
     return SetPlan(name=spec.name, kind=spec.kind, material=material, section=sec, model=model, pieces=(),
-                   assumptions=tuple(assumptions))
+                   assumptions=tuple(assumptions), elastic_constants=constants)
 
 
 def bars_to_solve(design: Design):
@@ -237,7 +251,9 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
         summary = _set_summary(spec, design.units)
         if spec.kind in ("chime", "bar"):
             try:
-                if spec.undercut is not None:
+                if spec.model == "elastic-2d":
+                    pieces = plan_elastic.plan_set(spec, design, stock, progress)
+                elif spec.undercut is not None:
                     pieces = _plan_undercut_set(spec, design, stock, progress)
                 else:
                     pieces = _plan_beam_set(spec, design, stock)

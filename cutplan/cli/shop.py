@@ -178,8 +178,8 @@ def _recorded_partials(recording, kind, ratios):
                    '"LENGTH @ RECORDING.wav" (repeatable); for air columns add "#N" for the N-th resonance.')
 @click.option("--material", help="The table material the pieces started from (chime/bar).")
 @section_options
-@click.option("--model", type=click.Choice(["timoshenko", "slender"]), default="timoshenko", show_default=True,
-              help="Beam model to fit with (use the one you plan with).")
+@click.option("--model", type=click.Choice(["timoshenko", "slender", "elastic-2d"]), default="timoshenko",
+              show_default=True, help="Model to fit with (use the one you plan with; elastic-2d for bars).")
 @click.option("--ends", type=click.Choice(["open-open", "closed-open"]), default="closed-open", show_default=True,
               help="Air column ends.")
 @click.option("--temperature", default="20 C", show_default=True, help="Air temperature during the measurement.")

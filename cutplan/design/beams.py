@@ -69,9 +69,13 @@ def undercut(raw, key, section, col):
 def beam_fields(raw, key, kind, section, stock_material, library, col):
     """The SetSpec fields of a chime or bar set."""
     fields = {"material": material(raw, f"{key}.material", stock_material, library, col)}
-    model = raw.get("model", "timoshenko")
-    if model not in ("timoshenko", "slender"):
-        col.add(f"{key}.model", model, 'must be "timoshenko" (default) or "slender"')
+    arched = kind == "bar" and "undercut" in raw
+    model = raw.get("model", "elastic-2d" if arched else "timoshenko")
+    if model not in ("timoshenko", "slender", "elastic-2d"):
+        col.add(f"{key}.model", model, 'must be "timoshenko", "slender" or "elastic-2d" (the default is '
+                '"elastic-2d" for undercut bars, "timoshenko" otherwise)')
+    elif model == "elastic-2d" and (kind != "bar" or (section is not None and section.shape != "bar")):
+        col.add(f"{key}.model", model, "applies to bars of rectangular section only")
     fields["model"] = model if isinstance(model, str) else "timoshenko"
     target = raw.get("target", "fundamental")
     if target not in ("fundamental", "strike-note"):

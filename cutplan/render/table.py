@@ -59,6 +59,8 @@ def piece_dict(p):
             "arch_width": _r(a.arch_width, 4),
             "shape_exponent": _r(a.exponent, 4),
             "stations_mm": [[_r(x / MM, 1), _r(h / MM, 2)] for x, h in a.stations],
+            "profile_mm": [[_r(x / MM, 3), _r(h / MM, 3)] for x, h in a.outline],
+            "model": p.model,
             "ratios": list(a.ratios),
             "ratio_residuals_cents": [_r(r, 3) for r in a.ratio_residuals_cents],
         }
@@ -68,6 +70,13 @@ def piece_dict(p):
             "travel_mm": _r((max(d for _, d in p.stopper) - min(d for _, d in p.stopper)) / MM, 2),
         }
     return out
+
+
+def _constants(pairs):
+    """Elastic constants as numbers: moduli in GPa, density in kg/m3, Poisson ratio."""
+    units = {"modulus_along": ("modulus_along_gpa", 1e9), "modulus_across": ("modulus_across_gpa", 1e9),
+             "shear_modulus": ("shear_modulus_gpa", 1e9), "density": ("density_kg_m3", 1.0), "poisson": ("poisson", 1.0)}
+    return {units[k][0]: _r(v / units[k][1], 4) for k, v in pairs}
 
 
 def plan_dict(plan):
@@ -80,7 +89,8 @@ def plan_dict(plan):
         "units": plan.units,
         "sets": [
             {"name": s.name, "kind": s.kind, "material": s.material, "section": s.section_text,
-             "model": s.model, "assumptions": list(s.assumptions), "allowance": s.allowance_rule}
+             "model": s.model, "assumptions": list(s.assumptions), "allowance": s.allowance_rule,
+             **({"elastic_constants": _constants(s.elastic_constants)} if s.elastic_constants else {})}
             for s in plan.sets
         ],
         "pieces": [piece_dict(p) for p in plan.pieces],

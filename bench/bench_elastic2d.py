@@ -1,0 +1,121 @@
+"""Benchmark: arched bars designed on the 2-D elastic body, in CPU seconds, quiet and under load.
+
+Run: python bench/bench_elastic2d.py            (prints a table; never run as a test)
+
+Each row runs ``cutplan plan DESIGN --format json`` in a fresh process and reports the CPU
+seconds it used (user + system, from wait4): twice on a quiet machine, then twice with two busy
+loops (``python3 -c "while True: pass"``) competing for the two cores; the loops are killed
+afterwards.  All four outputs must be byte-identical.  A second table shows the 2-D solver alone
+(one bar, mesh sizes) and the mesh study of a deep arch.
+
+Targets: music-room marimba example <= 10 s; 49 undercut bars + 49 resonators <= 60 s.
+"""
+
+import hashlib
+import math
+import os
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(ROOT))
+
+FOUR_OCTAVES = """
+title = "Four-octave undercut set"
+[[set]]
+name = "bars"
+kind = "bar"
+range = "C3..C7"
+scale = "chromatic"
+material = "rosewood-honduras"
+section = { shape = "bar", width = "55 mm", thickness = "24 mm" }
+undercut = { ratios = [4.0], arch_width = 0.5, min_thickness = "5 mm" }
+[[set]]
+name = "res"
+kind = "resonator"
+serves = "bars"
+section = { stock = "pvc-sch40-1" }
+temperature_range = ["12 C", "28 C"]
+max_length = "1.2 m"
+"""
+
+
+def command():
+    """The ``cutplan`` command of this checkout (the installed script if there is one)."""
+    script = Path(sys.executable).with_name("cutplan")
+    if script.exists():
+        return [str(script)]
+    return [sys.executable, "-c", "import sys; from cutplan.cli import cli; cli(sys.argv[1:])"]
+
+
+def cpu_of(args):
+    """(CPU seconds of a child process, its stdout hash, wall seconds)."""
+    start = time.perf_counter()
+    env = {**os.environ, "PYTHONPATH": str(ROOT)}
+    with tempfile.TemporaryFile() as out:
+        proc = subprocess.Popen(args, stdout=out, stderr=subprocess.DEVNULL, cwd=ROOT, env=env)
+        _, status, usage = os.wait4(proc.pid, 0)
+        code = os.waitstatus_to_exitcode(status)
+        out.seek(0)
+        digest = hashlib.sha256(out.read()).hexdigest()[:12]
+    if code != 0:
+        raise SystemExit(f"{' '.join(args)} failed with exit code {code}")
+    return usage.ru_utime + usage.ru_stime, digest, time.perf_counter() - start
+
+
+def busy_loops(count=2):
+    return [subprocess.Popen([sys.executable, "-c", "while True: pass"]) for _ in range(count)]
+
+
+def plans():
+    with tempfile.TemporaryDirectory() as tmp:
+        four = Path(tmp) / "four-octaves.toml"
+        four.write_text(FOUR_OCTAVES)
+        rows = [
+            ("music-room marimba example", command() + ["plan", str(ROOT / "examples" / "music-room-marimba.toml"),
+                                                        "--format", "json"], 10.0),
+            ("49 undercut bars + 49 resonators", command() + ["plan", str(four), "--format", "json"], 60.0),
+        ]
+        print(f"{'plan --format json':34} {'target':>6} {'quiet cpu':>9} {'loaded cpu':>10} {'quiet wall':>10} "
+              f"{'loaded wall':>11}  identical")
+        for name, args, target in rows:
+            quiet = [cpu_of(args) for _ in range(2)]
+            loops = busy_loops()
+            try:
+                loaded = [cpu_of(args) for _ in range(2)]
+            finally:
+                for p in loops:
+                    p.kill()
+                    p.wait()
+            same = len({r[1] for r in quiet + loaded}) == 1
+            print(f"{name:34} {target:6.1f} {min(r[0] for r in quiet):9.2f} {min(r[0] for r in loaded):10.2f} "
+                  f"{min(r[2] for r in quiet):10.2f} {min(r[2] for r in loaded):11.2f}  {'yes' if same else 'NO'}")
+    print("(CPU seconds of the whole process, best of two runs; wall seconds for reference only)")
+
+
+def solver():
+    """One deep-arch bar (centre 6 mm of 22 mm): CPU per solve and cents from a 300 x 14 mesh."""
+    import numpy as np
+
+    from cutplan.physics import elastic2d, undercut
+
+    xs = np.linspace(0.0, 0.38, 201)
+    hs = undercut.arch_thickness(xs, 0.38, 0.022, 0.016, 0.6, 2.5)
+    args = (xs, hs, 0.06, 14e9, 14e9, 1.5e9, 0.4, 850.0)
+    ref = elastic2d.profile_modes(*args, modes=4, elements_along=300, elements_through=14).frequencies
+    print(f"\n{'mesh (along x through)':24} {'cpu s/solve':>11}  cents from 300 x 14, modes 1-4")
+    for along, through in ((40, 3), (elastic2d.ELEMENTS_ALONG, elastic2d.ELEMENTS_THROUGH), (120, 8)):
+        start = time.process_time()
+        for _ in range(5):
+            f = elastic2d.profile_modes(*args, modes=4, elements_along=along, elements_through=through).frequencies
+        cpu = (time.process_time() - start) / 5
+        print(f"{along:>10} x {through:<11} {cpu:11.3f}  " + "  ".join(f"{1200 * math.log2(a / b):+6.2f}"
+                                                                    for a, b in zip(f, ref, strict=True)))
+
+
+if __name__ == "__main__":
+    plans()
+    solver()

@@ -1,0 +1,184 @@
+"""Bar sets planned on the 2-D elastic body (``model = "elastic-2d"``).
+
+Arched bars are designed on it (:mod:`cutplan.physics.undercut2d`); uniform bars get the length
+whose 2-D mode 1 sounds the target.  Partials, nodes and the trim rate come from the same 2-D
+solves, the trim rate with the arch left where it is (a builder trims the ends, not the arch).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from cutplan import pitch, uncertainty
+from cutplan.allowance import allowances, risk_warning
+from cutplan.models import beam_frequency_function, partial_notes, plane_constants
+from cutplan.physics import beam
+from cutplan.physics.undercut2d import design_undercut_2d, trimmed_profile
+from cutplan.plan_types import PARTIAL_COUNT, Arch, Piece
+
+LENGTH_TOLERANCE_CENTS = 0.01
+"""A uniform bar's 2-D length search stops this close to the target [cents]."""
+TRIM_STEP = 0.5e-3
+"""Half the central-difference step of the trim rate [m] (as :func:`cutplan.models.cents_per_mm`)."""
+
+
+def profile_frequency_function(spec, stations):
+    """f(L) [Hz] of mode 1 in the 2-D model of a bar with this profile ((x, h) [m], end to end),
+    cut to length L by taking the same off each end: the arch stays where it is."""
+    plane, width = plane_constants(spec.material), spec.section.width
+
+    def f(length):
+        xs, hs = trimmed_profile(stations, float(length))
+        return float(plane.modes(xs, hs, width, modes=1).frequencies[0])
+
+    return f
+
+
+def _trim_rate(f_at, length):
+    """Cents the pitch rises per millimetre taken off (central difference, +/- 0.5 mm)."""
+    return pitch.cents(f_at(length - TRIM_STEP), f_at(length + TRIM_STEP))
+
+
+def _power_law(f0, length, per_mm):
+    """f(x) = f0 (length / x)^k near the solved length; k from the trim rate (saves 2-D solves)."""
+    k = per_mm * length * 1000 * math.log(2) / 1200
+    return lambda x: f0 * (length / x) ** k
+
+
+def _volume(stations, width):
+    xs = np.array([x for x, _ in stations])
+    hs = np.array([h for _, h in stations])
+    return width * float(np.sum((hs[1:] + hs[:-1]) / 2 * np.diff(xs)))
+
+
+def plan_undercut_set_2d(spec, design, stock, progress=None):
+    """Arched bars designed on the 2-D model, lowest note first (each starts from its neighbour)."""
+    mat, sec, cut = spec.material, spec.section, spec.undercut
+    plane = plane_constants(mat)
+    kappa = sec.shear_coefficient(mat.poisson)
+    ratios_uncal = uncertainty.beam_ratios(mat, sec, spec.outer_tolerance, spec.wall_tolerance)
+    ratios_cal = uncertainty.beam_ratios(mat, sec, calibrated=True)
+    guess = jacobian = offset = None
+    solved = {}
+    for i in sorted(range(len(spec.targets)), key=lambda i: spec.targets[i].frequency):
+        r = design_undercut_2d(spec.targets[i].frequency, cut.ratios, sec.width, sec.thickness, plane, kappa,
+                               cut.min_thickness, cut.arch_width, guess=guess, jacobian=jacobian, offset=offset)
+        guess, jacobian, offset = (r.length, r.depth, r.exponent), r.jacobian, r.offset_cents
+        solved[i] = r
+        if progress is not None:
+            progress(1)
+    pieces = []
+    for i, t in enumerate(spec.targets):
+        r = solved[i]
+        stations = r.stations()
+        half = [(x, h) for x, h in stations if x <= r.length / 2 + 1e-12]
+        picks = np.linspace(0, len(half) - 1, 11).round().astype(int)
+        arch = Arch(thickness=sec.thickness, depth=r.depth, arch_width=r.arch_fraction, exponent=r.exponent,
+                    stations=tuple(half[k] for k in picks), ratios=cut.ratios,
+                    ratio_residuals_cents=r.ratio_residuals_cents, outline=stations)
+        f0 = float(r.frequencies[0])
+        per_mm = _trim_rate(profile_frequency_function(spec, stations), r.length)
+        cut_length, a_uncal, a_cal, risk = allowances(spec, stock, _power_law(f0, r.length, per_mm), r.length,
+                                                      t.frequency, ratios_uncal, ratios_cal)
+        ei, mu = plane.modulus_along * sec.width * sec.thickness**3 / 12, mat.density * sec.width * sec.thickness
+        partials = r.frequencies[:PARTIAL_COUNT]
+        pieces.append(Piece(
+            set=spec.name, kind=spec.kind, label=f"{spec.name}-{i + 1}", note=t.name, target_hz=t.frequency,
+            predicted_hz=f0, length=r.length, cut_length=cut_length, nodes=tuple(r.nodes),
+            mass=mat.density * _volume(stations, sec.width), partials_hz=tuple(partials),
+            partial_notes=partial_notes(partials, design.a4), cents_per_mm=per_mm, model="elastic-2d",
+            shear_correction_cents=_against_slender(f0, r.length, sec, plane, ei, mu, stations),
+            warnings=tuple(risk_warning(risk)), fundamental_hz=f0, allowance_uncalibrated=a_uncal,
+            allowance_calibrated=a_cal, sharp_risk=risk, arch=arch))
+    return pieces
+
+
+def _against_slender(f0, length, sec, plane, ei, mu, stations=None):
+    """Cents between the 2-D mode 1 and the slender beam of the same profile and modulus."""
+    if stations is None:
+        return float(pitch.cents(f0, float(beam.free_free_frequency(1, length, ei, mu))))
+    from cutplan.physics import beam_fe
+
+    xs = np.array([x for x, _ in stations])
+    hs = np.array([h for _, h in stations])
+
+    def h(x):
+        return np.interp(x, xs, hs)
+
+    w, e, rho = sec.width, plane.modulus_along, plane.density
+    slender = beam_fe.free_free_modes(length, lambda x: e * w * h(x) ** 3 / 12, lambda x: 1e3 * e * w * h(x),
+                                      lambda x: rho * w * h(x), lambda x: 1e-3 * rho * w * h(x) ** 3 / 12,
+                                      modes=1, order=3, breaks=np.linspace(0.0, length, 33), symmetric=True)
+    return float(pitch.cents(f0, float(slender.frequencies[0])))
+
+
+def plan_uniform_set_2d(spec, design, stock):
+    """Uniform bars whose 2-D mode 1 sounds each target (a secant search from the Timoshenko length)."""
+    mat, sec = spec.material, spec.section
+    plane = plane_constants(mat)
+    ratios_uncal = uncertainty.beam_ratios(mat, sec, spec.outer_tolerance, spec.wall_tolerance)
+    ratios_cal = uncertainty.beam_ratios(mat, sec, calibrated=True)
+    start = beam_frequency_function(mat, sec, "timoshenko").lengths_for(np.array([t.frequency for t in spec.targets]))
+    ei, mu = plane.modulus_along * sec.second_moment, mat.density * sec.area
+    pieces = []
+    for i, t in enumerate(spec.targets):
+        length, modes = _uniform_length(t.frequency, float(start[i]), sec, plane)
+        f0 = float(modes.frequencies[0])
+
+        def f_at(x):
+            return float(plane.modes([0.0, x], [sec.thickness] * 2, sec.width, modes=1).frequencies[0])
+
+        per_mm = _trim_rate(f_at, length)
+        cut_length, a_uncal, a_cal, risk = allowances(spec, stock, _power_law(f0, length, per_mm), length,
+                                                      t.frequency, ratios_uncal, ratios_cal)
+        partials = modes.frequencies[:PARTIAL_COUNT]
+        pieces.append(Piece(
+            set=spec.name, kind=spec.kind, label=f"{spec.name}-{i + 1}", note=t.name, target_hz=t.frequency,
+            predicted_hz=f0, length=length, cut_length=cut_length, nodes=tuple(modes.nodes[0]),
+            mass=mat.density * sec.area * length, partials_hz=tuple(partials),
+            partial_notes=partial_notes(partials, design.a4), cents_per_mm=per_mm, model="elastic-2d",
+            shear_correction_cents=_against_slender(f0, length, sec, plane, ei, mu), warnings=tuple(risk_warning(risk)),
+            fundamental_hz=f0, allowance_uncalibrated=a_uncal, allowance_calibrated=a_cal, sharp_risk=risk))
+    return pieces
+
+
+def _uniform_length(target, length, sec, plane):
+    """(L [m], ProfileModes) of the uniform bar whose 2-D mode 1 sounds ``target``: secant on log f
+    against log L, starting from f ~ L^-2."""
+    def solve(x):
+        return plane.modes([0.0, x], [sec.thickness] * 2, sec.width, modes=PARTIAL_COUNT)
+
+    modes = solve(length)
+    slope, previous = -2.0, None
+    for _ in range(12):
+        miss = math.log(modes.frequencies[0] / target)
+        if abs(miss) * 1200 / math.log(2) < LENGTH_TOLERANCE_CENTS:
+            break
+        if previous is not None and previous[0] != length:
+            slope = (math.log(modes.frequencies[0]) - previous[1]) / (math.log(length) - math.log(previous[0]))
+        previous = (length, math.log(modes.frequencies[0]))
+        length = length * math.exp(-miss / slope)
+        modes = solve(length)
+    return length, modes
+
+
+def plan_set(spec, design, stock, progress=None):
+    """The pieces of a bar set with ``model = "elastic-2d"``, arched or uniform."""
+    if spec.undercut is not None:
+        return plan_undercut_set_2d(spec, design, stock, progress)
+    return plan_uniform_set_2d(spec, design, stock)
+
+
+def elastic_constants(spec):
+    """((name, value), ...) of the elastic constants a chime or bar set is planned with [SI]:
+    modulus (along), shear modulus, density, Poisson ratio; the 2-D model adds E across."""
+    mat, model = spec.material, spec.model
+    if spec.model == "elastic-2d":
+        p = plane_constants(mat)
+        return (("modulus_along", p.modulus_along), ("modulus_across", p.modulus_across),
+                ("shear_modulus", p.shear_modulus), ("poisson", p.poisson), ("density", p.density))
+    model = "timoshenko" if spec.undercut is not None else model  # the 1-D arch search is shear-corrected
+    return (("modulus_along", mat.modulus_for(model)), ("shear_modulus", mat.shear_modulus_for(model)),
+            ("poisson", mat.poisson), ("density", mat.density))
