@@ -42,13 +42,21 @@ def bar_data(spec):
 
 
 def support_distances(bar, xs, hs):
-    """Distances of the mode-1 nodes from the centre line [m] of the profile (1-D model's shapes)."""
-    from cutplan.physics import beam_fe
-    from cutplan.tuning.profile_model import _beam_fe_modes
+    """Distances of the mode-1 nodes from the centre line [m] of the profile (the model's own
+    nodes where it reports them, else the 1-D model's mode shape)."""
+    from cutplan.tuning.profile_model import profile_modes
 
-    modes = _beam_fe_modes(xs, hs, bar.width, bar.modulus_along, bar.shear_modulus, bar.poisson, bar.density, 1)
     length = float(xs[-1] - xs[0])
-    return tuple(sorted({round(abs(length / 2 - x), 6) for x in beam_fe.node_positions(modes, 1)}))
+    r = profile_modes(xs, hs, bar.width, bar.modulus_along, bar.modulus_across, bar.shear_modulus, bar.poisson,
+                      bar.density, modes=1)
+    nodes = getattr(r, "nodes", None)
+    if nodes:
+        found = nodes[0]
+    else:
+        from cutplan.physics import beam_fe
+
+        found = beam_fe.node_positions(r, 1)
+    return tuple(sorted({round(abs(length / 2 - (x - xs[0])), 6) for x in found}))
 
 
 def _profile_now(piece, entry, length_now, done, messages):

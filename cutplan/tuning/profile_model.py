@@ -11,13 +11,6 @@ from __future__ import annotations
 
 import numpy as np
 
-WOOD_ACROSS_RATIO = 0.13
-"""Modulus across the grain over the modulus along it, for wood [-]: USDA Forest Products
-Laboratory, Wood Handbook, FPL-GTR-190, 2010, Table 5-1, E_R/E_L = 0.132 (sugar maple), 0.154
-(red oak), 0.125 (white ash); the radial value, as bar blanks are usually quartersawn (common
-practice)."""
-
-
 def model_name():
     """Which model :func:`profile_modes` uses: "elastic-2d" or "beam-fe"."""
     try:
@@ -28,13 +21,12 @@ def model_name():
 
 
 def elastic_constants(material):
-    """(E along, E across, G, nu) [Pa, Pa, Pa, -] of a material for :func:`profile_modes`."""
-    e = material.modulus_for("timoshenko")
-    g = material.shear_modulus_for("timoshenko")
-    across = getattr(material, "modulus_across", None)
-    if not across:
-        across = WOOD_ACROSS_RATIO * e if getattr(material, "material_class", None) == "wood" else e
-    return e, across, g, material.poisson
+    """(E along, E across, G, nu) [Pa, Pa, Pa, -] of a material, the constants the plan designs
+    its undercut bars with (:func:`cutplan.models.plane_constants`), so trim and plan agree."""
+    from cutplan.models import plane_constants
+
+    c = plane_constants(material)
+    return c.modulus_along, c.modulus_across, c.shear_modulus, c.poisson
 
 
 def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_modulus, poisson, density, modes=4):

@@ -4,8 +4,8 @@ supports on the finished bar's nodes (within 1 mm).
 The procedure as the packet states it: cut the blank at the strip's rough-cut marks; lay the
 strip from the rough-cut end and mark the centre line and the supports (the cut list gives them
 from the centre line); trim half from each end to pitch.  The nodes are those of an independent
-model of the finished bar: the shear-corrected beam by finite elements on a fine uniform mesh
-(400 elements), not the planner's closed form (uniform bars) or its coarser arch mesh.
+model of the finished bar: the 2-D elastic body on a mesh twice as fine as the planner's, not
+the planner's closed form (uniform bars) or its own mesh (arched bars).
 """
 
 from __future__ import annotations
@@ -17,10 +17,9 @@ import numpy as np
 import pytest
 
 import cutplan
-from cutplan.physics import beam_fe
 from cutplan.render.marks import piece_marks
 from cutplan.tuning import trim_report
-from cutplan.tuning.profile_model import _beam_fe_modes, elastic_constants
+from cutplan.tuning.profile_model import elastic_constants
 
 ROOT = Path(__file__).resolve().parents[2]
 BAR_EXAMPLES = sorted(p.name for p in (ROOT / "examples").glob("*.toml")
@@ -30,10 +29,11 @@ TOLERANCE = 1.0e-3
 
 
 def _nodes(piece, spec, length):
-    """Mode-1 nodes [m from end A] of the bar at ``length`` by fine-mesh finite elements."""
-    e, _across, g, nu = elastic_constants(spec.material)
-    if spec.model == "slender":  # the planner's slender model: no shear, a trace of rotary inertia
-        g = 1e3 * g
+    """Mode-1 nodes [m from end A] of the bar at ``length``: the 2-D elastic body on a mesh twice
+    as fine as the default (uniform bars: a different method from the planner's closed form)."""
+    from cutplan.physics.elastic2d import profile_modes
+
+    e, across, g, nu = elastic_constants(spec.material)
     xs = np.linspace(0.0, length, 401)
     if piece.arch is None:
         hs = np.full(xs.size, spec.section.thickness)
@@ -43,8 +43,9 @@ def _nodes(piece, spec, length):
         a = piece.arch
         hs = arch_thickness(xs - (length - piece.length) / 2, piece.length, a.thickness, a.depth, a.arch_width,
                             a.exponent)
-    modes = _beam_fe_modes(xs, hs, spec.section.width, e, g, nu, spec.material.density, 1)
-    return sorted(beam_fe.node_positions(modes, 1))
+    r = profile_modes(xs, hs, spec.section.width, e, across, g, nu, spec.material.density, modes=1,
+                      elements_along=120, elements_through=6)
+    return sorted(r.nodes[0])
 
 
 @pytest.fixture(scope="module", params=BAR_EXAMPLES)

@@ -19,7 +19,8 @@ import pytest
 import cutplan
 from cutplan.physics.undercut import arch_thickness
 from cutplan.tuning import trim_report
-from cutplan.tuning.profile_model import elastic_constants, profile_modes
+from cutplan.physics.elastic2d import profile_modes
+from cutplan.tuning.profile_model import elastic_constants
 
 # a bar tuned 1 : 4 : 10 (Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed., 1998,
 # ch. 19: marimba bars, partials two octaves and three octaves and a major third above the first)
@@ -34,8 +35,9 @@ def _cents(a, b):
 
 
 class Bench:
-    """The real bar: its profile (xs, hs) [m] from end A and the wood it is made of (240 elements
-    in the oracle, five times finer than the tool's own model of the profile)."""
+    """The real bar: its profile (xs, hs) [m] from end A and the wood it is made of.  It is
+    "recorded" with the 2-D model on a mesh twice as fine along and half again through the bar
+    as the tool's, over the bar's own 240-segment profile (the tool models 48)."""
 
     def __init__(self, piece, spec, stiffness=1.03, shear=0.97):
         a = piece.arch
@@ -47,7 +49,8 @@ class Bench:
 
     def record(self):
         """Partials 1-3 of the bar as it is now [Hz] (the oracle)."""
-        return tuple(float(f) for f in profile_modes(self.xs, self.hs, *self.wood, modes=3).frequencies[:3])
+        r = profile_modes(self.xs, self.hs, *self.wood, modes=3, elements_along=120, elements_through=6)
+        return tuple(float(f) for f in r.frequencies[:3])
 
     def follow(self, report):
         """Make the cuts exactly as the report states them, then the end trims."""
