@@ -148,13 +148,20 @@ def sensitivities(bar, xs, hs, modes):
 
 
 def _bounded_solve(matrix, wanted, lower, upper):
-    """Bounded least squares with the small penalty on the unknowns (mm)."""
+    """Bounded least squares with the small penalties on the unknowns (mm); an unknown whose
+    bounds meet (no wood left there) stays at its bound."""
     from scipy.optimize import lsq_linear
 
-    n = matrix.shape[1]
-    a = np.vstack([matrix, math.sqrt(REGULARISATION) * np.ones((1, n)), math.sqrt(SMOOTHING) * np.eye(n)])
-    b = np.concatenate([wanted, np.zeros(n + 1)])
-    return lsq_linear(a, b, bounds=(lower, upper), method="bvls").x
+    lower, upper = np.asarray(lower, dtype=float), np.asarray(upper, dtype=float)
+    x = lower.copy()
+    free = upper > lower + 1e-9
+    n = int(free.sum())
+    if n == 0:
+        return x
+    a = np.vstack([matrix[:, free], math.sqrt(REGULARISATION) * np.ones((1, n)), math.sqrt(SMOOTHING) * np.eye(n)])
+    b = np.concatenate([wanted - matrix[:, ~free] @ lower[~free], np.zeros(n + 1)])
+    x[free] = lsq_linear(a, b, bounds=(lower[free], upper[free]), method="bvls").x
+    return x
 
 
 def advise_removal(bar, xs, hs, measured_hz, targets_hz, modes=4):

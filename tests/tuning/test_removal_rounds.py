@@ -118,3 +118,21 @@ def test_json_fields_of_the_removal_advice(planned):
     assert data["removal"] and all(0 <= r["x_mm"] <= piece.cut_length * 1e3 and r["depth_mm"] > 0
                                    for r in data["removal"])
     assert len(data["predicted_after_hz"]) == 3
+
+
+def test_a_sharp_bar_with_no_wood_left_to_remove_is_reported_unreachable(planned):
+    # trimming the ends only raises every partial (a shorter free-free bar is higher: Rayleigh,
+    # The Theory of Sound, 1877, vol. 1, sec. 171, f ~ 1/L^2); with the thickness already at the
+    # builder's minimum no cut can lower f1, so a sharp f1 cannot be reached by removal alone
+    from dataclasses import replace
+
+    from cutplan.tuning import removal
+    from cutplan.tuning.arched import bar_data, planned_profile
+
+    design, plan = planned
+    piece = plan.pieces[0]
+    xs, hs = planned_profile(piece, piece.length)
+    bar = replace(bar_data(design.sets[0]), min_thickness=float(max(hs)) + 1e-4)
+    advice = removal.advise_removal(bar, xs, hs, [piece.target_hz * 2 ** (20 / 1200)], [piece.target_hz])
+    assert advice.removal == () and advice.trim_each_end == 0.0
+    assert advice.unreachable == (1,)
