@@ -116,6 +116,8 @@ def render_piece_svg(plan, piece, colours=None):
     doc.text(f"{plan.title}: {piece.label} ({piece.note}, {piece.target_hz:.2f} Hz)", (MARGIN, MARGIN + 3), 4)
     how = ("cut the tube to its cut length, tune with the stopper" if piece.stopper else
            "cut long, then trim to pitch (trimming raises the pitch)")
+    if piece.mark_offset > 0:
+        how += ": rough cut at 0 and at the far dotted line, trim half from each end; supports from the centre line"
     doc.text(f"Print or cut at 100 % (actual size); check the rulers. {how[0].upper() + how[1:]}.",
              (MARGIN, MARGIN + 9), 2.5)
     body = piece.cut_length / MM if piece.stopper else piece.length / MM
