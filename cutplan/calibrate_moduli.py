@@ -319,7 +319,17 @@ def partials_from_peaks(peaks, fundamental, ratios, tolerance=0.04):
 
 
 def calibrated_moduli_toml(name, material, model, fit, source_text):
-    """A user material file (TOML text) with the fitted E and, when fitted or held, G."""
+    """A user material file (TOML text) with the fitted E and, when fitted or held, G.
+
+    Wood keeps a between-board spread unless several blanks were calibrated
+    (:func:`cutplan.uncertainty.wood_blank_spreads`); the material's class is carried over."""
+    from cutplan.uncertainty import SEVERAL_BLANKS, wood_blank_spreads
+
+    e_spread, rho_spread = fit.spread, 0.0
+    wood = getattr(material, "material_class", None) == "wood"
+    blanks = len({length for length, _, _ in fit.measurements})
+    if wood:
+        e_spread, rho_spread = wood_blank_spreads(material, blanks, fit.spread)
     lines = [
         f"# Calibrated by cutplan from {len(fit.measurements)} partial(s) of test pieces of {material.name} "
         f"({source_text}).",
@@ -329,13 +339,19 @@ def calibrated_moduli_toml(name, material, model, fit, source_text):
         f'["{name}"]',
         f'description = "{material.name.removesuffix("-calibrated")} calibrated from test pieces"',
         f'modulus = {{ value = "{fit.modulus / 1e9:.6f} GPa", kind = "measured", where = "cutplan calibrate", '
-        f'spread = "{100 * fit.spread:.2f} %", basis = "dynamic" }}',
+        f'spread = "{100 * e_spread:.2f} %", basis = "dynamic" }}',
         f'density = {{ value = "{material.density:.3f} kg/m3", kind = "derived", where = "table value kept", '
-        'spread = "0 %" }',
+        f'spread = "{100 * rho_spread:.2f} %" }}',
         f"poisson = {material.poisson}",
     ]
-    if getattr(material, "material_class", None):
-        lines.append(f'class = "{material.material_class}"')
+    if wood:
+        lines.insert(3, f"# Wood from {blanks} blank(s): " + (
+            "their scatter is the spread between boards." if blanks >= SEVERAL_BLANKS else
+            f"other boards still differ, so the table's between-board spread is kept until {SEVERAL_BLANKS} "
+            "or more blanks are calibrated."))
+    material_class = getattr(material, "material_class", None) or ("wood" if wood else None)
+    if material_class:
+        lines.append(f'class = "{material_class}"')
     lines.append(f"fit_residual_cents = {max(abs(r) for r in fit.residuals_cents):.2f}")
     if fit.shear in ("fitted", "held"):
         where = "cutplan calibrate, fitted with E" if fit.shear == "fitted" else "earlier calibration, held"

@@ -70,6 +70,18 @@ class Piece:
         return 10.0 / self.cents_per_mm * 1e-3 if self.cents_per_mm else None
 
     @property
+    def mark_offset(self):
+        """Where the finished piece's end A sits on the rough-cut blank [m]: half the allowance
+        for a bar (trimmed half from each end, so the supports stay on the nodes), 0 for pieces
+        trimmed from one end.  Strips and cut lists measure from the rough-cut end with it."""
+        return self.allowance / 2 if self.kind == "bar" and self.allowance > 0 else 0.0
+
+    @property
+    def supports_from_centre(self):
+        """Distances of a bar's supports from its centre line [m], one per symmetric pair."""
+        return tuple(sorted({round(abs(self.length / 2 - x), 9) for x in self.nodes}))
+
+    @property
     def allowance(self):
         """The allowance this piece is cut with [m]: cut length minus finished length, the one
         number the cut list, tuning sheet, templates and JSON state (for a stoppered resonator,

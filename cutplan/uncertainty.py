@@ -29,6 +29,16 @@ SEED = 20261201
 CALIBRATED_MODULUS_SPREAD = 0.005
 """Spread of E/rho left after a test piece from the same stock is measured [-] (one standard
 deviation; covers tuner error and piece-to-piece scatter within a stick; common practice)."""
+WOOD_MODULUS_CV = 0.22
+"""Coefficient of variation of the modulus of elasticity of wood between pieces of one species
+[-]: USDA Forest Products Laboratory, Wood Handbook: Wood as an Engineering Material,
+FPL-GTR-190, 2010, ch. 5, Table 5-6 (average coefficients of variation of clear wood), 22 % for
+static-bending MOE (from memory: not checked against a stored copy).  A test blank calibrates a
+species' mean; the next board still differs by this much, so the spread is not reduced to the
+blank's reading error (see :func:`calibrated_spreads`)."""
+SEVERAL_BLANKS = 3
+"""Blanks (test pieces of different boards) after which their own measured scatter stands for
+the between-board spread of wood [-] (three give a first standard deviation; common practice)."""
 TEMPERATURE_SPREAD = 2.0
 """Air temperature uncertainty between planning and tuning [K] (common practice)."""
 END_CORRECTION_SPREAD = 0.10
@@ -58,8 +68,10 @@ def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, cali
     """Samples of f_actual / f_planned for a chime or bar cut at its planned length."""
     z, u = _draws()
     if calibrated:
-        e = 1 + CALIBRATED_MODULUS_SPREAD * z[0]
-        return np.sqrt(np.clip(e, 0.5, None))
+        e_spread, rho_spread = calibrated_spreads(material)
+        e = 1 + e_spread * z[0]
+        rho = 1 + rho_spread * z[1]
+        return np.sqrt(np.clip(e, 0.5, None) / np.clip(rho, 0.5, None))
     e = 1 + material.modulus_spread * z[0]
     rho = 1 + material.density_spread * z[1]
     ratio = np.sqrt(np.clip(e, 0.2, None) / np.clip(rho, 0.2, None))
@@ -73,6 +85,34 @@ def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, cali
         rg = np.sqrt(outer**2 + inner**2)
         ratio = ratio * rg / np.hypot(section.outer, section.solid_inner)
     return ratio
+
+
+def calibrated_spreads(material):
+    """(E spread, density spread) [-] left for the other pieces once a test piece is measured.
+
+    Metal from one stock: the reading error and the scatter within a stick
+    (CALIBRATED_MODULUS_SPREAD).  Wood: the bars come from other boards, so the material's own
+    between-board spreads stay (its table spreads, at most WOOD_MODULUS_CV for E and never less
+    than CALIBRATED_MODULUS_SPREAD); a material calibrated from several blanks carries their
+    measured scatter as its spread.
+
+    >>> from cutplan.materials import Material
+    >>> calibrated_spreads(Material("maple", 12.6e9, 706.0, 0.42, modulus_spread=0.10, density_spread=0.06,
+    ...                             material_class="wood"))
+    (0.1, 0.06)
+    """
+    if getattr(material, "material_class", None) == "wood":
+        return (min(max(CALIBRATED_MODULUS_SPREAD, material.modulus_spread), WOOD_MODULUS_CV),
+                material.density_spread)
+    return CALIBRATED_MODULUS_SPREAD, 0.0
+
+
+def wood_blank_spreads(material, blanks, fitted_spread):
+    """(E spread, density spread) [-] to write into a wood calibrated from ``blanks`` blanks:
+    the fit's own scatter from SEVERAL_BLANKS on, the table's between-board spreads before."""
+    if blanks >= SEVERAL_BLANKS:
+        return max(CALIBRATED_MODULUS_SPREAD, fitted_spread), 0.0
+    return calibrated_spreads(material)
 
 
 def air_ratios(length, radius, correction_factor, open_ends, temperature, calibrated=False):

@@ -308,66 +308,76 @@ def _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr, note, 
 @click.command("trim")
 @click.argument("design", type=click.Path(dir_okay=False))
 @click.argument("label")
-@click.option("--measured", type=float, help="Frequency the piece sounds now [Hz] (from a tuner).")
+@click.option("--measured", help='What the piece sounds now [Hz] (a tuner): "583.1", or partials 1, 2, 3 of a bar '
+                                 'as "349.1, 1398.6, 3490.2".')
 @click.option("--recording", type=click.Path(dir_okay=False), help="Or a WAV recording of the piece.")
-@click.option("--length-now", help="Length of the piece now (default: its cut length on the cut sheet).")
+@click.option("--length-now", help="Length of the piece now (default: its cut length, or after the rounds on record).")
+@click.option("--done", is_flag=True, help="Undercut bars: the cuts advised last time were made.")
+@click.option("--state", "state_path", type=click.Path(dir_okay=False),
+              help="Undercut bars: the file keeping the rounds (default: DESIGN's name + .trim-state.json beside it).")
 @click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
+@click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text", show_default=True,
+              help="What to print.")
 @MATERIALS_OPTION
-def trim_command(design, label, measured, recording, length_now, units, materials_dirs):
-    """How much to trim a piece, and from which end, to bring it to pitch.
+def trim_command(design, label, measured, recording, length_now, done, state_path, units, fmt, materials_dirs):
+    """How much to trim a piece, and from which end, to bring it to pitch; for an undercut bar,
+    where and how deep to remove wood from the underside to tune its partials.
 
     \b
     Examples:
       cutplan trim examples/porch-chimes.toml porch-1 --measured 583.1
       cutplan trim examples/porch-chimes.toml porch-1 --recording porch-1.wav --length-now "505 mm"
+      cutplan trim examples/music-room-marimba.toml bars-1 --measured "255.2, 1049.8"
+      cutplan trim examples/music-room-marimba.toml bars-1 --measured "261.4, 1046.0" --done
     """
-    from cutplan.calibrate import CalibrationError, trim_advice
-    from cutplan.models import piece_frequency_function
-    from cutplan.units import UnitError, format_length, parse_length
+    import json
+
+    from cutplan.tuning import TrimError, parse_length_now, parse_measured, trim_report
+    from cutplan.tuning.trim_service import STATE_SUFFIX, find_piece, recorded_partials
 
     if (measured is None) == (recording is None):
         fail("trim: give --measured or --recording (one of them)")
-    if measured is not None and not 10 <= measured <= 30000:
-        fail(f"--measured: {measured} must be a frequency between 10 and 30000 Hz")
     des, _lib = _load(design, materials_dirs, units)
     the_plan = _plan(des)
-    units = the_plan.units
-    pieces = {p.label: p for p in the_plan.pieces}
-    if label not in pieces:
-        fail(f"trim: {label!r} is not a piece of {design}; labels are {', '.join(list(pieces)[:8])}...")
-    piece = pieces[label]
-    spec = next(s for s in des.sets if s.name == piece.set)
-    f_at = piece_frequency_function(spec, piece)
-    if recording:
-        kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
-        measured = _measure_file(recording, kind, piece.target_hz, list(piece.partial_ratios)).fundamental_hz
-    now = None
-    if length_now:
-        try:
-            now = parse_length(length_now)
-        except UnitError as exc:
-            fail(f"--length-now: {exc.text!r} is not {exc.accepted}")
-        if not 0.5 * piece.length <= now <= 2 * piece.cut_length:
-            fail(f"--length-now: {length_now!r} must be between half the planned length "
-                 f"({format_length(0.5 * piece.length, units)}) and twice the cut length "
-                 f"({format_length(2 * piece.cut_length, units)})")
-    from cutplan.numeric import quiet
-
     try:
-        advice = quiet(trim_advice, piece, f_at, measured, now, units)
-    except CalibrationError as exc:
-        fail(f"trim: {exc}")
-    except (ValueError, ArithmeticError):
-        fail(f"trim: no length between half and one and a half times the length now brings {piece.label} "
-             f"from {measured:.2f} Hz to {piece.target_hz:.2f} Hz; check the reading (another partial?) and the piece")
-    from cutplan.render.phrases import trim_lines
-
-    lines = trim_lines(piece, advice, measured, units)
-    lines = lines[:1] + ["  " + line for line in lines[1:]]
+        piece, spec = find_piece(des, the_plan, label)
+        now = parse_length_now(length_now, piece, the_plan.units, "--length-now") if length_now else None
+        if recording:
+            kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
+            m = _measure_file(recording, kind, piece.target_hz, list(piece.partial_ratios))
+            partials, confidence = recorded_partials(m, piece)
+        else:
+            partials, confidence = parse_measured(measured, "--measured"), 1.0
+        path = Path(state_path) if state_path else Path(design).with_name(Path(design).stem + STATE_SUFFIX)
+        state = _read_state(path) if piece.arch is not None else None
+        report = trim_report(des, the_plan, label, partials, confidence, bool(recording), now, state, done)
+    except TrimError as exc:
+        where = exc.key if str(exc.key).startswith("--") else "trim"
+        fail(f"{where}: {exc}")
+    if report.state is not None:
+        write_file(path, json.dumps(report.state, indent=1) + "\n")
+    if fmt == "json":
+        click.echo(json.dumps(report.as_dict()))
+        return
+    lines = report.lines[:1] + tuple("  " + line for line in report.lines[1:])
+    if report.state is not None and report.action in ("remove", "trim"):
+        lines += (f"  (rounds kept in {path}; after making these cuts, record again and add --done)",)
     for line in lines:
         indent = line[:len(line) - len(line.lstrip())]
         click.echo("\n".join(textwrap.wrap(line, 100, subsequent_indent=indent + "  ", break_on_hyphens=False,
                                            break_long_words=False)))
+
+
+def _read_state(path):
+    """The rounds on record for a design (None when there are none yet); exit 2 when unreadable."""
+    import json
+
+    if not path.exists():
+        return None
+    try:
+        return json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, UnicodeDecodeError, json.JSONDecodeError) as exc:
+        fail(f"{path}: not a trim-state file ({exc.__class__.__name__}); move it away to start the rounds afresh")
 
 
 @click.command("listen")

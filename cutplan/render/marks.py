@@ -61,7 +61,9 @@ def length_text(mm, units="mm"):
 def piece_marks(piece, units="mm"):
     """Marks along a piece from its reference end.
 
-    Chimes and bars: both ends, the centre, nodes (hang holes or supports), the rough cut.
+    Chimes: both ends, the centre, the hang holes, the rough cut beyond the bottom end.  Bars:
+    from a rough-cut end, half the allowance beyond each finished end, the centre line and the
+    supports measured from it (see :func:`_bar_marks`).
     Stoppered resonators: the open end, the stopper face per temperature, the tube's cut end.
     """
     length = piece.length / MM
@@ -73,11 +75,13 @@ def piece_marks(piece, units="mm"):
         marks.append(Mark(cut, "cut-tube", f"CUT TUBE {length_text(cut, units)} (stopper end)"))
         return sorted(marks, key=lambda m: m.at_mm)
     capped = piece.kind == "resonator" or piece.model == "closed-open"
-    top = {"chime": "TOP END", "bar": "END A"}.get(piece.kind, "OPEN END" if capped else "END")
+    if piece.kind == "bar":
+        return _bar_marks(piece, units)
+    top = {"chime": "TOP END"}.get(piece.kind, "OPEN END" if capped else "END")
     node_word = "hang hole" if piece.kind == "chime" else "support"
-    far = "CAPPED END" if capped and piece.kind not in ("chime", "bar") else "END"
+    far = "CAPPED END" if capped and piece.kind != "chime" else "END"
     marks = [Mark(0.0, "end", f"{top} 0"), Mark(length, "end", f"{far} {length_text(length, units)}")]
-    if piece.kind in ("chime", "bar"):
+    if piece.kind == "chime":
         marks.append(Mark(length / 2, "centre", "centre"))
     for i, x in enumerate(piece.nodes, start=1):
         if piece.kind == "chime":  # one hang hole, at the top node; the lower node is only shown
@@ -88,6 +92,25 @@ def piece_marks(piece, units="mm"):
     cut = piece.cut_length / MM
     if cut > length + 0.05:
         marks.append(Mark(cut, "rough-cut", f"rough cut {length_text(cut, units)}"))
+    return sorted(marks, key=lambda m: m.at_mm)
+
+
+def _bar_marks(piece, units):
+    """A bar's strip, laid from one rough-cut end: half the allowance beyond each finished end
+    (the tuning sheet trims half from each end), the centre line, and the supports measured from
+    the centre line, so that supports marked on the rough blank land on the finished bar's nodes."""
+    length = piece.length / MM
+    shift = piece.mark_offset / MM
+    centre = shift + length / 2
+    marks = [Mark(shift, "end", "END A"), Mark(shift + length, "end", f"END B {length_text(length, units)}"),
+             Mark(centre, "centre", "centre line")]
+    for i, x in enumerate(piece.nodes, start=1):
+        d = abs(length / 2 - x / MM)
+        marks.append(Mark(shift + x / MM, "node", f"support {i}: {length_text(d, units)} from centre"))
+    if shift > 0.025:
+        cut = piece.cut_length / MM
+        # the rough cut at 0 is the strip's own end (named in the strip's title): no label to crowd END A
+        marks += [Mark(0.0, "rough-cut", ""), Mark(cut, "rough-cut", f"rough cut {length_text(cut, units)}")]
     return sorted(marks, key=lambda m: m.at_mm)
 
 
@@ -191,7 +214,7 @@ def assign_lanes(marks, start, end, text_mm, lane_mm):
     the top of its line.
     """
     width = end - start
-    marks = [m for m in marks if start - 1e-6 <= m.at_mm <= end + 1e-6]
+    marks = [m for m in marks if m.label and start - 1e-6 <= m.at_mm <= end + 1e-6]
     placed, out = [], []
     for i, m in enumerate(marks):
         x = m.at_mm - start

@@ -29,3 +29,70 @@ def trim_lines(piece, advice, measured_hz, units="mm"):
                      + ", ".join(format_length(f * advice.length_needed, units) for f in fractions)
                      + " from the top/reference end")
     return lines
+
+
+def partial_lines(report):
+    """One line per partial read: "partial 2: 1401.3 Hz, target 1396.9 Hz, +5.4 cents"."""
+    out = []
+    for p in report.partials:
+        if p.target_hz is None:
+            out.append(f"partial {p.mode}: {p.measured_hz:.2f} Hz (not tuned)")
+        else:
+            out.append(f"partial {p.mode}: {p.measured_hz:.2f} Hz, target {p.target_hz:.2f} Hz, {p.cents:+.1f} cents")
+    return out
+
+
+def _supports_text(report, units):
+    if not report.supports:
+        return ""
+    shown = dict.fromkeys(format_length(s, units) for s in report.supports)
+    return ("support points for this length: " + ", ".join("+/-" + s for s in shown)
+            + " from the centre line (mark them from the centre line, after trimming)")
+
+
+def trim_report_lines(piece, report, advice, units="mm"):
+    """Lines of a plain trim answer (uniform bars, chimes, air columns)."""
+    lines = trim_lines(piece, advice, report.partials[0].measured_hz, units)
+    if piece.kind == "bar" and advice.remove > 0:
+        lines = [line for line in lines if not line.startswith("if not yet drilled")]
+        lines.append("if not yet drilled, " + _supports_text(report, units))
+    lines[2:2] = partial_lines(report)[1:]
+    if report.action == "re-record":
+        lines = [line for line in lines if not line.startswith("! ")]
+        lines = lines[:1] + [f"! {text}" for _, text in report.messages] + [
+            "nothing to cut until a clean reading confirms it; if one does: " + advice.action]
+    return lines
+
+
+def removal_lines(piece, report, units="mm"):
+    """Lines of an undercut bar's trim answer: partials, cuts in work order, what they leave."""
+    lines = [f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz), "
+             f"{format_length(report.length_now, units)} long now"]
+    lines += partial_lines(report)
+    lines += [f"! {text}" for code, text in report.messages if code in ("far-off", "low-confidence", "unreachable")]
+    lines += [text for code, text in report.messages if code not in ("far-off", "low-confidence", "unreachable")]
+    if report.action == "re-record":
+        lines.append("nothing to cut until a clean reading confirms it")
+        return lines
+    if report.action == "in-tune":
+        lines.append(f"every tuned partial is within {2:g} cents: leave it")
+        return lines
+    step = 1
+    if report.trim_each_end > 0.05e-3:
+        lines.append(f"{step}. trim {format_length(report.trim_each_end, units)} from each end (raises every partial)")
+        step += 1
+    if report.removal:
+        lines.append(f"{step}. cut from the underside, in this order, each cut blended to nothing "
+                     f"{format_length(report.blend, units)} either side of its stations (x from end A):")
+    pairs = {}
+    for x, depth, mode, raises in report.removal:
+        pairs.setdefault((depth, mode, raises), []).append(x)
+    for k, ((depth, mode, raises), xs) in enumerate(pairs.items(), start=1):
+        where = " and ".join(format_length(v, units) for v in xs)
+        lines.append(f"  {chr(96 + k) if k <= 26 else k}) {depth * 1e3:.2f} mm deep at {where} "
+                     f"(mostly {'raises' if raises else 'lowers'} partial {mode})")
+    lines.append("removal cannot be undone: take each cut in two or three passes and record between them")
+    lines.append("expected after: " + ", ".join(f"{f:.1f}" for f in report.predicted_after_hz) + " Hz")
+    if report.supports:
+        lines.append(_supports_text(report, units))
+    return lines

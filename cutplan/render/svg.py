@@ -120,10 +120,12 @@ def render_piece_svg(plan, piece, colours=None):
              + (f", make {kits}" if kits > 1 else ""), (MARGIN, MARGIN + 3), 4)
     how = ("cut the tube to its cut length, tune with the stopper" if piece.stopper else
            "cut long, then trim to pitch (trimming raises the pitch)")
+    if piece.mark_offset > 0:
+        how += ": rough cut at 0 and at the far dotted line, trim half from each end; supports from the centre line"
     doc.text(f"Print or cut at 100 % (actual size); check the rulers. {how[0].upper() + how[1:]}.",
              (MARGIN, MARGIN + 9), 2.5)
     body = piece.cut_length / MM if piece.stopper else piece.length / MM
-    doc.rect((x0, y0), (body, strip_h), role="cut")
+    doc.rect((x0 + piece.mark_offset / MM, y0), (body, strip_h), role="cut")
     near = [m.at_mm for m in mk.piece_marks(piece, units)]
     for j in mk.join_marks(0.0, length, 1, 1, 0.0):
         tick = 5 if j.number else 3

@@ -207,7 +207,8 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
         upload = request.files.get("trim.recording")
         recording = upload.read() if upload else b""
         return trim_answer(*pair, fields.get("trim.piece", ""), fields.get("trim.measured", ""), recording,
-                           fields.get("trim.length_now", ""))
+                           fields.get("trim.length_now", ""), fields.get("trim.state", ""),
+                           bool(fields.get("trim.done")))
 
     def _form_or_errors(make):
         """Run ``make(data, (design, plan))`` on the posted form; errors go back as the page (422)."""
@@ -353,7 +354,7 @@ def _slots(fields):
     """Every place a message can appear: the fields, each set, its section, the stock, the form."""
     slots = {"form", "open", "stock", "title", "units", "paper", "tuning.a4", "tuning.temperament", "tuning.spelling",
              "more",
-             "trim.piece", "trim.measured", "trim.recording", "trim.length_now"}
+             "trim.piece", "trim.measured", "trim.recording", "trim.length_now", "trim.state", "trim.done"}
     slots.update(f"stock.{k}" for k in webform.STOCK_FIELDS)
     for i in range(1, webform.set_count(fields) + 1):
         p = f"set[{i}]"

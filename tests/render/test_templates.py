@@ -100,7 +100,10 @@ def test_node_marks_print_where_the_plan_says(tmp_path):
     runs = dark_runs(gray[row])
     zero = (pdf_mod.TEMPLATE_MARGIN / pdf_mod.mm + x_mm) * PX_PER_MM
     piece = p.pieces[0]
-    expected = [0.0] + [x * 1000 for x in piece.nodes] + [piece.length * 1000]
+    # a bar's strip is laid from its rough-cut end: END A sits half the allowance in (the piece's
+    # mark_offset), so the marks are the plan's positions shifted by it
+    shift = piece.mark_offset * 1000
+    expected = [shift] + [shift + x * 1000 for x in piece.nodes] + [shift + piece.length * 1000]
     for want in expected:
         nearest = min(runs, key=lambda r: abs((r - zero) / PX_PER_MM - want))
         assert (nearest - zero) / PX_PER_MM == pytest.approx(want, abs=0.2), (want, runs)
@@ -127,7 +130,7 @@ def test_svg_node_and_ruler_marks_land_within_0_05_mm(tmp_path):
     ns = "{http://www.w3.org/2000/svg}"
     verticals = sorted({round(float(e.get("x1")), 4) for e in root.iter(f"{ns}line") if e.get("x1") == e.get("x2")})
     for x in piece.nodes:
-        want = svg_mod.MARGIN + x * 1000
+        want = svg_mod.MARGIN + piece.mark_offset * 1000 + x * 1000  # laid from the rough-cut end
         assert min(abs(v - want) for v in verticals) < 0.05
     assert min(abs(v - (svg_mod.MARGIN + 100)) for v in verticals) < 0.05  # 100 mm ruler end
     assert min(abs(v - (svg_mod.MARGIN + 115 + 101.6)) for v in verticals) < 0.05  # 4 in ruler end

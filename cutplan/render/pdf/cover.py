@@ -23,7 +23,8 @@ HOW_TO_USE = (
     "Buy what the shopping list names; the plan computes the stock, the rest are suggestions.",
     "Cut each piece long, at its 'cut at' length, never at the finished length: cut long, then trim to "
     "pitch (trimming raises the pitch).",
-    "Mark and drill hang holes or set supports at the positions measured from the reference end.",
+    "Chimes: mark the hang hole from the top end. Bars: mark the centre line on the rough blank and the supports "
+    "from it; trim half from each end so they stay on the nodes, and drill once the bar is at pitch.",
     "Strike the piece, measure its pitch with a tuner or `cutplan measure`, and record it on the tuning sheet.",
     "Flat (too low): trim a little from the trim end, using 'per 10 cents' as a guide, in small steps.",
     "Sharp (too high): see 'if sharp' on the tuning sheet.",

@@ -53,14 +53,17 @@ def cut_list(packet):
     widths = [width * f for f in (0.12, 0.06, 0.08, 0.13, 0.15, 0.15, 0.07, 0.08, 0.08, 0.08)]
     for s in plan.sets:
         pieces = sorted(s.pieces, key=lambda p: -p.length)
-        node_head = {"chime": "hang hole from top", "bar": "supports from end A"}.get(s.kind, "-")
+        node_head = {"chime": "hang hole from top", "bar": "supports from centre"}.get(s.kind, "-")
         stoppered = _stoppered(s)
         cut_head = "cut tube at" if stoppered else "cut at (allowance)"
         header = ["label", "note", "Hz", "finished", cut_head, node_head, "mass", "cut", "drilled", "tuned"]
         rows = []
         for p in pieces:
-            shown = p.nodes[:1] if s.kind == "chime" else p.nodes  # a chime hangs from its top node
-            nodes = "\n".join(length_lines(plan, x) for x in shown) if shown else "-"
+            if s.kind == "bar":  # both supports, the same distance either side of the centre line
+                nodes = "\n".join("+/-" + length_lines(plan, d) for d in p.supports_from_centre) or "-"
+            else:
+                shown = p.nodes[:1] if s.kind == "chime" else p.nodes  # a chime hangs from its top node
+                nodes = "\n".join(length_lines(plan, x) for x in shown) if shown else "-"
             mass = f"{p.mass * 1000:.0f} g" if p.mass is not None else "-"
             cut = length_lines(plan, p.cut_length)
             if not stoppered:
@@ -73,7 +76,9 @@ def cut_list(packet):
         if getattr(plan, "copies", 1) > 1:
             intro = f"One kit of {plan.copies}: make {plan.copies} of each piece (the stock layout holds all of them). " + intro
         if s.kind == "bar":
-            intro += " Both support positions are measured from end A."
+            intro += (" Mark the centre line on the rough blank and measure both supports from it; trim half from "
+                      "each end, so the supports stay on the nodes. If a bar finishes at another length, "
+                      "cutplan trim gives the supports for it.")
         _chunked(packet, f"Cut list: {s.name}", intro, header, rows, widths, 9)
 
 
@@ -116,7 +121,8 @@ def tuning(packet):
                      "strike, measure, repeat; a piece flat by 10 cents needs about the 'per 10 cents' shown. "
                      f"'Cut long by' is the one allowance this piece gets{' (' + rule + ')' if rule else ''}, "
                      "with its chance of coming out sharp; after one test piece is measured (cutplan calibrate) "
-                     "it shrinks to the last figure.")
+                     "it shrinks to the last figure (wood keeps a between-board spread until several blanks are "
+                     "calibrated).")
         if s.kind in ("air-column", "resonator"):
             intro += " Air columns go sharp as the air warms: tune at the temperature they are played in."
         warnings = _warning_lines(s.pieces)

@@ -46,7 +46,7 @@ GAP_MM = 2.5
 """Space between tile frames [mm]."""
 INSTRUCTION = ("Cut out each tile on its dashed frame; tape neighbours where the grey bars and crosses match, "
                "aligning the numbered ticks (mm along the piece). Lay the strip along the piece, end 0 at its "
-               "reference end.")
+               "reference end (a bar's strip: at the rough-cut end; its supports are measured from the centre line).")
 TOP_SPACE_MM = 30.0
 """Page top to the first frame [mm] (header, heading and instruction)."""
 TICK_NUMBER_CLEAR_MM = 5.0
@@ -196,7 +196,8 @@ def draw_strip(c, tile, x0, y_top, width_mm, units):
         return x0 + (at_mm - tile.start) * mm
 
     length = p.length / MM
-    lo, hi = max(tile.start, 0.0), min(tile.end, length if not p.stopper else p.cut_length / MM)
+    off = p.mark_offset / MM  # a bar's finished body starts half its allowance in from the rough cut
+    lo, hi = max(tile.start, off), min(tile.end, off + length if not p.stopper else p.cut_length / MM)
     c.setLineWidth(0.4)
     c.setStrokeColor(colors.black)
     if hi > lo:
@@ -228,6 +229,8 @@ def draw_strip(c, tile, x0, y_top, width_mm, units):
         what = f"cut tube {mk.length_text(p.cut_length / MM, units)}, tune with the stopper; open end 0"
     else:
         what = f"finished {mk.length_text(length, units)}"
+        if off > 0:
+            what += "; rough cut at 0, trim half from each end; supports from the centre line"
     title = f"{p.label}  {p.note}  sheet {tile.sheet} of {tile.sheets}:  {what}"
     _tile_title(c, x0 + 1 * mm, y0 - 8 * mm, title, (tile.end - tile.start - 2) * mm)
 

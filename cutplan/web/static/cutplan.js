@@ -184,7 +184,15 @@
         var box = document.createElement("div");
         box.className = "trim-answer";
         box.appendChild(head); box.appendChild(ul);
+        if (t.drawing) {
+          /* the server's own SVG text (numbers and escaped labels only, no external assets) */
+          var fig = document.createElement("div");
+          fig.className = "trim-drawing"; fig.innerHTML = t.drawing; box.appendChild(fig);
+        }
         answer.appendChild(box);
+        var st = document.getElementById("trim.state"), done = document.getElementById("trim.done");
+        if (st) { st.value = t.state || ""; }
+        if (done) { done.checked = false; }
       });
   }
 

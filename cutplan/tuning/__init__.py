@@ -1,0 +1,5 @@
+"""The bench: trim advice and removal advice for undercut bars, one service for every front end."""
+
+from cutplan.tuning.trim_service import TrimError, TrimReport, parse_length_now, parse_measured, trim_report
+
+__all__ = ["TrimError", "TrimReport", "parse_length_now", "parse_measured", "trim_report"]
