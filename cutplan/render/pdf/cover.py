@@ -9,6 +9,7 @@ from cutplan.render.pdf.base import (
     BOLD,
     FONT,
     MARGIN,
+    Page,
     draw_table,
     fit,
     heading,
@@ -38,55 +39,79 @@ def _caution_source(caution):
     return f" [{caution.kind}]" if caution.kind else ""
 
 
+BOTTOM = 15 * mm
+"""Lowest a cover line may reach [pt]: above the footer and the printers' unprintable band."""
+
+
+class _DryRun:
+    """A canvas that draws nothing: lays the cover out once to learn where it ends."""
+
+    def __getattr__(self, _name):
+        return lambda *args, **kwargs: None
+
+
+def _front(c, page, plan):
+    """What is built, the assumptions and the cautions; returns the y below them."""
+    x, width = page.left, page.width
+    y = page.h - 30 * mm
+    c.setFont(BOLD, 22)
+    c.drawString(x, y, fit(plan.title, 22, width, BOLD))
+    y -= 10 * mm
+    c.setFont(FONT, 11)
+    c.drawString(x, y, f"Shop packet: {len(plan.pieces)} pieces in {len(plan.sets)} set(s); "
+                 f"lengths in {'inches' if plan.units == 'in' else 'millimetres'} first")
+    y -= 10 * mm
+    c.setFont(BOLD, 12)
+    c.drawString(x, y, "What is being built")
+    y -= 6 * mm
+    for s in plan.sets:
+        notes = ", ".join(p.note for p in s.pieces[:12]) + (" and more" if len(s.pieces) > 12 else "")
+        y = paragraph(c, x, y, f"{s.name}: {len(s.pieces)} x {s.kind} in {s.material}, {s.section_label(plan.units)}. "
+                      f"Notes: {notes}.", 10, width)
+        if getattr(s, "hanging", None) is not None:
+            y = paragraph(c, x, y, weight_text(s.hanging)[0].upper() + weight_text(s.hanging)[1:] + ".", 10, width)
+        y -= 1 * mm
+    y -= 3 * mm
+    c.setFont(BOLD, 12)
+    c.drawString(x, y, "The lengths depend on these assumptions")
+    y -= 6 * mm
+    y = paragraph(c, x, y, f"Reference pitch A4 = {plan.a4:g} Hz; {plan.temperament} temperament.", 10, width)
+    for s in plan.sets:
+        for a in s.assumptions:
+            y = paragraph(c, x, y, f"{s.name}: {a}.", 10, width)
+    y -= 4 * mm
+    box_top = y + 4 * mm
+    c.setFont(BOLD, 12)
+    c.drawString(x + 3 * mm, y - 2 * mm, "Cautions")
+    y -= 8 * mm
+    for caution in plan.cautions:
+        y = paragraph(c, x + 3 * mm, y, "- " + caution.text + _caution_source(caution), 9, width - 6 * mm)
+    c.setStrokeColor(colors.black)
+    c.setLineWidth(1.2)
+    c.rect(x, y, width, box_top - y)
+    return y - 8 * mm
+
+
+def _how_to_use(c, page, y):
+    c.setFont(BOLD, 12)
+    c.drawString(page.left, y, "How to use this packet")
+    y -= 6 * mm
+    for i, line in enumerate(HOW_TO_USE, start=1):
+        y = paragraph(c, page.left, y, f"{i}. {line}", 10, page.width)
+    return y
+
+
 def cover(packet):
+    """The cover; "How to use this packet" goes on a page of its own when the cover is full."""
     plan = packet.plan
+    layout = Page(packet.size, False)
+    end = _how_to_use(_DryRun(), layout, _front(_DryRun(), layout, plan))
 
-    def draw(c, page):
-        x, width = page.left, page.width
-        y = page.h - 30 * mm
-        c.setFont(BOLD, 22)
-        c.drawString(x, y, fit(plan.title, 22, width, BOLD))
-        y -= 10 * mm
-        c.setFont(FONT, 11)
-        c.drawString(x, y, f"Shop packet: {len(plan.pieces)} pieces in {len(plan.sets)} set(s); "
-                     f"lengths in {'inches' if plan.units == 'in' else 'millimetres'} first")
-        y -= 10 * mm
-        c.setFont(BOLD, 12)
-        c.drawString(x, y, "What is being built")
-        y -= 6 * mm
-        for s in plan.sets:
-            notes = ", ".join(p.note for p in s.pieces[:12]) + (" and more" if len(s.pieces) > 12 else "")
-            y = paragraph(c, x, y, f"{s.name}: {len(s.pieces)} x {s.kind} in {s.material}, {s.section_label(plan.units)}. "
-                          f"Notes: {notes}.", 10, width)
-            if getattr(s, "hanging", None) is not None:
-                y = paragraph(c, x, y, weight_text(s.hanging)[0].upper() + weight_text(s.hanging)[1:] + ".", 10, width)
-            y -= 1 * mm
-        y -= 3 * mm
-        c.setFont(BOLD, 12)
-        c.drawString(x, y, "The lengths depend on these assumptions")
-        y -= 6 * mm
-        y = paragraph(c, x, y, f"Reference pitch A4 = {plan.a4:g} Hz; {plan.temperament} temperament.", 10, width)
-        for s in plan.sets:
-            for a in s.assumptions:
-                y = paragraph(c, x, y, f"{s.name}: {a}.", 10, width)
-        y -= 4 * mm
-        box_top = y + 4 * mm
-        c.setFont(BOLD, 12)
-        c.drawString(x + 3 * mm, y - 2 * mm, "Cautions")
-        y -= 8 * mm
-        for caution in plan.cautions:
-            y = paragraph(c, x + 3 * mm, y, "- " + caution.text + _caution_source(caution), 9, width - 6 * mm)
-        c.setStrokeColor(colors.black)
-        c.setLineWidth(1.2)
-        c.rect(x, y, width, box_top - y)
-        y -= 8 * mm
-        c.setFont(BOLD, 12)
-        c.drawString(x, y, "How to use this packet")
-        y -= 6 * mm
-        for i, line in enumerate(HOW_TO_USE, start=1):
-            y = paragraph(c, x, y, f"{i}. {line}", 10, width)
-
-    packet.add(draw)
+    if end >= BOTTOM:
+        packet.add(lambda c, page: _how_to_use(c, page, _front(c, page, plan)))
+        return
+    packet.add(lambda c, page: _front(c, page, plan))
+    packet.add(lambda c, page: _how_to_use(c, page, page.h - 22 * mm))
 
 
 def _amount(plan, item):
