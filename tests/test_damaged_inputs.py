@@ -163,3 +163,11 @@ def test_a_fundamental_measured_with_little_confidence_is_not_reported(tmp_path,
     monkeypatch.setattr(shop, "_measure_file", lambda *a, **k: analysis.Measurement(523.3, (523.3,), 0.9,
                                                                                     "chime", True))
     assert _run("measure", take).exit_code == 0
+
+
+def test_a_broken_materials_option_folder_is_not_blamed_on_the_design(tmp_path):
+    folder = _folder(tmp_path, "shop.toml", lambda p: p.write_text("sizes = { x = 5 }\n"))
+    design = tmp_path / "garden.toml"
+    design.write_text('[[set]]\nkind = "chime"\nnotes = ["D5"]\nsection = { stock = "al-1.000x0.065" }\n')
+    line = _one_line(_run("plan", design, "--materials", folder), "--materials", "shop.toml")
+    assert "garden.toml" not in line

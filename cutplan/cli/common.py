@@ -72,8 +72,13 @@ def _load(design_path, materials_dirs=(), units=None):
     from dataclasses import replace
 
     from cutplan.design import DesignErrors, load_design
-    from cutplan.materials import MaterialError
+    from cutplan.materials import MaterialError, load_library
 
+    if materials_dirs:  # a broken --materials folder is the option's fault, not the design's
+        try:
+            load_library(list(materials_dirs))
+        except MaterialError as exc:
+            fail(f"--materials: {exc}")
     try:
         des, lib = load_design(design_path, _library_loader(materials_dirs))
         return (replace(des, units=units) if units else des), lib
