@@ -121,9 +121,20 @@ def design_undercut_2d(target, ratios, width, thickness, plane, kappa, min_thick
     three = len(ratios) >= 2
     goal = np.zeros(1 + len(ratios)) if offset is None or len(offset) != 1 + len(ratios) else np.array(offset)
     shifted = [target * 2 ** (-goal[0] / 1200)] + [r * 2 ** (-o / 1200) for r, o in zip(ratios, goal[1:], strict=True)]
-    start = undercut.design_undercut(shifted[0], shifted[1:], width, thickness, plane.modulus_along,
-                                     plane.shear_modulus, plane.density, kappa, min_thickness, arch_fraction,
-                                     guess=guess, jacobian=jacobian)
+    def one_d(aim, ratios_aimed):
+        return undercut.design_undercut(aim, ratios_aimed, width, thickness, plane.modulus_along,
+                                        plane.shear_modulus, plane.density, kappa, min_thickness, arch_fraction,
+                                        guess=guess, jacobian=jacobian)
+
+    try:
+        start = one_d(shifted[0], shifted[1:])
+    except undercut.UndercutError:
+        if not np.any(goal):
+            raise
+        # the neighbour's 2-D offset aims the 1-D start where no 1-D arch reaches: start from the
+        # asked-for tuning itself (an error then names the builder's ratios, not the aimed-off ones)
+        goal = np.zeros_like(goal)
+        start = one_d(target, ratios)
     max_depth = thickness - min_thickness
     lower = np.array([-np.inf, 0.0] + ([1.0] if three else []))
     upper = np.array([np.inf, 1.0] + ([10.0] if three else []))
