@@ -149,8 +149,8 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2), s
             text = (f"{kind} mode {n}: {name} lies {cents} the {partial}, {p:.0f} Hz): "
                     f"expect a buzz or a beat; {move}")
             if extra:
-                text += (f"; the sawing is not given, so this mode may lie up to {extra:.0f} cents either side: "
-                         'give grain = "flat" or "quarter" to narrow it')
+                text += (f"; sawing unknown: it may lie up to {extra:.0f} cents either side "
+                         '(give grain = "flat" or "quarter")')
             out.append(text)
     return out
 
