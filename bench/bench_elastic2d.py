@@ -23,25 +23,11 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-FOUR_OCTAVES = """
-title = "Four-octave undercut set"
-[[set]]
-name = "bars"
-kind = "bar"
-range = "C3..C7"
-scale = "chromatic"
-material = "rosewood-honduras"
-grain = "flat"  # of this section, only a flat-sawn C7 reaches 1:4 with 5 mm left (unknown grain: 36 cents short)
-section = { shape = "bar", width = "55 mm", thickness = "24 mm" }
-undercut = { ratios = [4.0], arch_width = 0.5, min_thickness = "5 mm" }
-[[set]]
-name = "res"
-kind = "resonator"
-serves = "bars"
-section = { stock = "pvc-sch40-1" }
-temperature_range = ["12 C", "28 C"]
-max_length = "1.2 m"
-"""
+sys.path.insert(0, str(ROOT / "bench"))
+from bench_plan import FOUR_OCTAVES as _ONE_D  # noqa: E402 (the same set as bench_plan's, on the 2-D model)
+
+FOUR_OCTAVES = _ONE_D.replace('model = "timoshenko"\n', "")
+"""bench_plan's four-octave set (flat-sawn) with the default model for undercut bars, the 2-D body."""
 
 
 def command():
