@@ -15,7 +15,8 @@ Rows per inventory (demo scenarios):
 
 import time
 
-from cutplan import fit_stock, pitch
+from cutplan import pitch
+from cutplan.fromstock import search as fit_stock
 
 SCALES = ("major", "natural-minor", "major-pentatonic", "minor-pentatonic", "blues")
 COUNTS = tuple(range(3, 13))

@@ -12,7 +12,7 @@ from pathlib import Path
 import numpy as np
 
 from cutplan.physics import beam, beam_fe, timoshenko
-from cutplan.sections import tube
+from cutplan.physics.sections import tube
 
 ROOT = Path(__file__).resolve().parent.parent
 
@@ -124,7 +124,7 @@ def measuring():
 def undercut_solves():
     """Finite-element solves and CPU per arched bar, four octaves (one BLAS thread)."""
     from cutplan.physics import undercut
-    from cutplan.sections import shear_coefficient_cowper_rectangle
+    from cutplan.physics.sections import shear_coefficient_cowper_rectangle
 
     e, rho, nu = 13.86e9, 706.0, 0.424
     g, kappa = 0.111 * e, shear_coefficient_cowper_rectangle(nu)

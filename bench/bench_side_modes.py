@@ -12,7 +12,7 @@ import subprocess
 import sys
 import time
 
-from cutplan import grain
+from cutplan.planning import grain
 from cutplan.materials import load_library
 from cutplan.physics import side_modes, solid3d, undercut
 

@@ -14,7 +14,7 @@ import subprocess
 import sys
 import time
 
-from cutplan.stock import Item, StockType, layout
+from cutplan.layout.optimiser import Item, StockType, layout
 
 INCH = 0.0254
 

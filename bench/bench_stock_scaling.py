@@ -18,8 +18,8 @@ import subprocess
 import sys
 import time
 
-from cutplan import stock
-from cutplan.stock import Item, StockError, StockType, layout
+from cutplan.layout import optimiser as stock
+from cutplan.layout.optimiser import Item, StockError, StockType, layout
 
 INCH = 0.0254
 KERF, TRIM = 1.6e-3, 3.2e-3

@@ -50,6 +50,6 @@ def design_from_mapping(data, materials_dirs=(), name="(design)", base_dir=None)
 
 def plan(design, progress=None, stock_override=None):
     """Plan a validated design: every piece and the cut list. Raises ``DesignErrors``."""
-    from cutplan.planner import plan as _plan
+    from cutplan.planning.planner import plan as _plan
 
     return _plan(design, progress=progress, stock_override=stock_override)

@@ -16,7 +16,7 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from cutplan import units
-from cutplan.sections import Section, tube
+from cutplan.physics.sections import Section, tube
 
 SOURCE_KINDS = (
     "handbook", "standard", "paper", "datasheet", "measured", "derived", "common practice",
@@ -34,7 +34,7 @@ _MATERIAL_KEYS = {"description", "modulus", "density", "poisson", "shear_modulus
 GRAIN_KEYS = ("radial_ratio", "tangential_ratio", "shear_ratio_lt", "shear_ratio_rt", "poisson_lt", "poisson_rt")
 """A wood's constants across the grain, as ratios to E_L (USDA FPL Wood Handbook, FPL-GTR-190, 2010,
 Table 5-1: E_R/E_L, E_T/E_L, G_LT/E_L, G_RT/E_L) and Poisson ratios (Table 5-2: nu_LT, nu_RT); the
-along-grain pair is ``shear_ratio`` (G_LR/E_L) and ``poisson`` (nu_LR). See :mod:`cutplan.grain`."""
+along-grain pair is ``shear_ratio`` (G_LR/E_L) and ``poisson`` (nu_LR). See :mod:`cutplan.planning.grain`."""
 _VALUE_KEYS = {"value", "source", "where", "kind", "spread", "basis"}
 _STOCK_HEADER_KEYS = {"standard", "source", "where", "kind", "shape", "material", "bore", "wall_factor"}
 _STOCK_KEYS = {"description", "outer", "wall", "inner", "outer_tolerance", "wall_tolerance", "material",
@@ -340,7 +340,7 @@ def _parse_speed(text):
 
 def _air_calibration(path, name, row):
     """The measured speed of sound and end correction of a stock size (all three keys together)."""
-    from cutplan.air_stock import AirCalibration
+    from cutplan.planning.air_calibrated import AirCalibration
 
     missing = [k for k in _AIR_KEYS if k not in row]
     if missing:

@@ -73,7 +73,7 @@ def test_calibrated_speed_follows_the_designs_temperature(tmp_path):
 def test_calibrated_speed_reproduces_its_test_pipe_exactly(tmp_path):
     # two-resonance method: the first two resonances of a closed tube at one frequency, L1 and L2
     # (L2 - L1 = lambda / 2); with every model on, the calibrated stock must put both back at 512 Hz
-    from cutplan import air_stock
+    from cutplan.planning import air_calibrated as air_stock
 
     mats = tmp_path / "mats"
     _run(["calibrate", "--kind", "air-column", "--stock", "pvc-sch40-1", "--two-resonance",

@@ -11,10 +11,10 @@ import numpy as np
 import pytest
 
 import cutplan
-from cutplan import uncertainty
-from cutplan.calibrate_moduli import _partial_frequencies, calibrated_moduli_toml, fit_moduli
+from cutplan.planning import uncertainty
+from cutplan.tuning.calibrate_moduli import _partial_frequencies, calibrated_moduli_toml, fit_moduli
 from cutplan.materials import load_library
-from cutplan.sections import Section
+from cutplan.physics.sections import Section
 
 ROOT = Path(__file__).resolve().parents[1]
 

@@ -14,9 +14,9 @@ import time
 import pytest
 from click.testing import CliRunner
 
-import cutplan.stock_columns as columns
+import cutplan.layout.columns as columns
 from cutplan.cli import cli
-from cutplan.stock import Item, StockError, StockType, layout
+from cutplan.layout.optimiser import Item, StockError, StockType, layout
 
 INCH = 0.0254  # exact by definition (international inch, 1959)
 
@@ -144,7 +144,7 @@ def test_material_ratios_have_ranges(tmp_path, key, value):
 def test_from_stock_never_hands_the_optimiser_a_clock(monkeypatch):
     # the optimiser's own result does not depend on the clock (tests/test_stock.py); from-stock
     # must not add a wall-clock limit that turns a slow machine's sets into "not offered"
-    from cutplan import fit_stock
+    from cutplan.fromstock import search as fit_stock
 
     real, limits = fit_stock.optimiser.layout, []
 
@@ -159,7 +159,7 @@ def test_from_stock_never_hands_the_optimiser_a_clock(monkeypatch):
 
 
 def test_a_cut_list_stopped_early_states_its_bound(tmp_path, monkeypatch):
-    import cutplan.stock as stock
+    import cutplan.layout.optimiser as stock
 
     design = tmp_path / "porch.toml"
     design.write_text('[[set]]\nname = "porch"\nkind = "chime"\nnotes = ["C5", "D5", "E5", "F5", "G5", "A5", "B5", '

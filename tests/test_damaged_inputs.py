@@ -111,7 +111,7 @@ def test_an_air_column_fit_outside_what_air_can_do_is_refused_and_nothing_writte
 
 
 def test_a_consistent_air_column_fit_is_still_accepted():
-    from cutplan.calibrate import fit_air_column_choice
+    from cutplan.tuning.calibrate import fit_air_column_choice
 
     # two closed-open pipes built from c = 343.2 m/s (20 C) and delta = 0.6133 a, a = 13.3 mm
     # (Levine and Schwinger 1948, unflanged end; from memory)

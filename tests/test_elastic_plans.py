@@ -13,9 +13,9 @@ from click.testing import CliRunner
 from cutplan.cli import cli
 from cutplan.design import load_design
 from cutplan.materials import load_library
-from cutplan.models import plane_constants
+from cutplan.planning.frequency import plane_constants
 from cutplan.physics import elastic2d, timoshenko, undercut
-from cutplan.planner import plan
+from cutplan.planning.planner import plan
 from cutplan.render.table import plan_dict
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -208,7 +208,7 @@ def test_slender_warning_compares_with_the_default_model_at_its_own_modulus(tmp_
     # which outweighs shear for these bars, so it puts them higher, not lower.  Reference: the
     # exact Timoshenko beam at the slender model's length with the default model's constants.
     design, p = make_plan(tmp_path, UNIFORM.format(model="slender"))
-    from cutplan import grain
+    from cutplan.planning import grain
 
     spec = grain.applied(design.sets[0])  # the default model bends a wood bar with G of its sawing's plane
     mat, sec = spec.material, spec.section

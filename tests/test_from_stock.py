@@ -1,4 +1,4 @@
-"""Build from what you have: `cutplan from-stock` and :mod:`cutplan.fit_stock`.
+"""Build from what you have: `cutplan from-stock` and :mod:`cutplan.fromstock.search`.
 
 Every "fits" below is checked the way a builder would: the written design file is planned with
 `cutplan plan`, whose cut list lays the pieces on the stock on hand.
@@ -13,7 +13,10 @@ import pytest
 from click.testing import CliRunner
 
 import cutplan
-from cutplan import fit_pack, fit_stock, fit_table, pitch
+from cutplan import pitch
+from cutplan.fromstock import pack as fit_pack
+from cutplan.fromstock import search as fit_stock
+from cutplan.fromstock import table as fit_table
 from cutplan.cli import cli
 from cutplan.design import StockLength, StockSpec
 

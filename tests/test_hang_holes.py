@@ -6,11 +6,11 @@ from pathlib import Path
 import pytest
 
 import cutplan
-from cutplan import hang_holes
+from cutplan.planning import hang_holes
 from cutplan.physics.hang_hole import hang_hole_shifts
 from cutplan.render.table import plan_dict
-from cutplan.shopping import hang_hole_for
-from cutplan.shopping import hang_holes as shop_rows
+from cutplan.planning.shopping import hang_hole_for
+from cutplan.planning.shopping import hang_holes as shop_rows
 
 ROOT = Path(__file__).resolve().parent.parent
 

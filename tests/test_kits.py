@@ -8,7 +8,7 @@ from click.testing import CliRunner
 
 import cutplan
 from cutplan.cli import cli
-from cutplan.kits import natural_key
+from cutplan.layout.kits import natural_key
 
 KITS = """
 title = "Classroom chime kits"

@@ -101,7 +101,7 @@ def test_wide_short_plate_warns_that_twisting_is_below_the_fundamental():
 
 
 def test_the_clearance_can_be_chosen():
-    from cutplan.other_modes import with_other_modes
+    from cutplan.planning.other_modes import with_other_modes
 
     design = cutplan.design_from_mapping({"title": "t", "set": [
         {"name": "b", "kind": "bar", "notes": ["F4"], "material": "maple-sugar", "grain": "quarter",

@@ -9,7 +9,7 @@ import pytest
 from cutplan.design import load_design
 from cutplan.materials import load_library
 from cutplan.physics import air_column, beam_fe
-from cutplan.planner import plan
+from cutplan.planning.planner import plan
 from cutplan.render.table import plan_dict
 
 INLINE = """
@@ -52,7 +52,7 @@ def test_default_model_reproduces_the_finite_element_solver(tmp_path):
     # the planned (transfer-matrix) length, put through the independent FE solver, sounds the target
     p = make_plan(tmp_path, INLINE.format(model="timoshenko"))
     e, rho, nu = 70e9, 2700.0, 0.33
-    from cutplan.sections import tube
+    from cutplan.physics.sections import tube
 
     s = tube(0.025, 0.0015)
     g = e / (2 * (1 + nu))
@@ -213,7 +213,7 @@ def test_a_plastic_chime_set_says_it_rings_briefly():
     # rigid PVC damps some hundred times more than aluminium (loss factor about 0.01-0.05 against
     # about 1e-4: Cremer, Heckl & Petersson, Structure-Borne Sound, 3rd ed., 2005; from memory)
     import cutplan
-    from cutplan.planner import PLASTIC_SUSTAIN
+    from cutplan.planning.planner import PLASTIC_SUSTAIN
 
     def assumptions(stock):
         design = {"set": [{"kind": "chime", "notes": ["C5"], "section": {"stock": stock}}]}

@@ -7,7 +7,7 @@ import pytest
 from cutplan.design import load_design
 from cutplan.materials import load_library
 from cutplan.physics import air_column, wall_losses
-from cutplan.planner import plan
+from cutplan.planning.planner import plan
 
 TEXT = """
 [[set]]
@@ -48,7 +48,7 @@ def _quarter_wave(kelvin, f, a=0.022):
 def _bar_hz(kelvin, f):
     """The aluminium bar's pitch at ``kelvin``: d ln f / dT = (e + alpha) / 2 (f ~ (t / L^2)
     sqrt(E / rho), every length growing by alpha dT), e = (1/E) dE/dT (values from memory)."""
-    from cutplan.thermal import DRIFTS
+    from cutplan.planning.thermal import DRIFTS
 
     drift = dict(DRIFTS)["aluminum"]
     return f * math.exp(0.5 * (drift.modulus + drift.expansion) * (kelvin - 293.15))

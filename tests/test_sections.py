@@ -4,7 +4,7 @@ import math
 
 import pytest
 
-from cutplan import sections
+from cutplan.physics import sections
 
 
 def test_tube_radius_of_gyration():

@@ -7,7 +7,7 @@ import pytest
 from click.testing import CliRunner
 
 from cutplan.cli import cli
-from cutplan.stock import Item, StockError, StockType, layout, lower_bound_l2
+from cutplan.layout.optimiser import Item, StockError, StockType, layout, lower_bound_l2
 
 
 def items(*lengths_mm):
@@ -263,7 +263,7 @@ def test_same_layout_however_slow_the_clock(monkeypatch):
 def test_a_time_limit_stops_with_a_message_never_a_different_layout(monkeypatch):
     import time
 
-    from cutplan.stock import StockTimeout
+    from cutplan.layout.optimiser import StockTimeout
 
     its, types = seeded_priced_instance()
     ticks = [0.0]

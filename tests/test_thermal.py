@@ -5,7 +5,7 @@ import math
 import pytest
 
 import cutplan
-from cutplan import thermal
+from cutplan.planning import thermal
 from cutplan.physics import beam
 
 

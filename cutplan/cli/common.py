@@ -102,7 +102,7 @@ def _plan(design, stock_override=None):
     """The plan, or exit 2 with one line per problem; numeric warnings never reach the user."""
     from cutplan.design import DesignErrors
     from cutplan.numeric import NumericError, checked_plan
-    from cutplan.planner import bars_to_solve, plan
+    from cutplan.planning.planner import bars_to_solve, plan
 
     def run(progress=None):
         return checked_plan(lambda: plan(design, progress=progress, stock_override=stock_override), design.path)

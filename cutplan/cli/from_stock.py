@@ -1,4 +1,4 @@
-"""``cutplan from-stock``: the sets of a scale that fit the stock on hand (see :mod:`cutplan.fit_stock`)."""
+"""``cutplan from-stock``: the sets of a scale that fit the stock on hand (see :mod:`cutplan.fromstock.search`)."""
 
 from __future__ import annotations
 
@@ -188,7 +188,8 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
     """
     from pathlib import Path
 
-    from cutplan import fit_output, fit_stock
+    from cutplan.fromstock import output as fit_output
+    from cutplan.fromstock import search as fit_stock
     from cutplan.design import DesignErrors
 
     if bool(have) == bool(design_file):

@@ -97,8 +97,8 @@ def _recorded_partials(recording, kind, ratios):
     to a mode of the table model (``ratios``); exit 2 when strong partials fit no mode."""
     from cutplan.audio.analysis import measure
     from cutplan.audio.wav import RecordingError, read_wav
-    from cutplan.calibrate import CalibrationError
-    from cutplan.calibrate_moduli import recorded_modes
+    from cutplan.tuning.calibrate import CalibrationError
+    from cutplan.tuning.calibrate_moduli import recorded_modes
 
     try:
         samples, rate = read_wav(recording)
@@ -165,8 +165,8 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
         fail("calibrate: give at least one --piece")
     if not material:
         fail("calibrate: --material is needed: the table material the test pieces are made of")
-    from cutplan.calibrate import CalibrationError
-    from cutplan.calibrate_moduli import _partial_frequencies, calibrated_moduli_toml, fit_moduli
+    from cutplan.tuning.calibrate import CalibrationError
+    from cutplan.tuning.calibrate_moduli import _partial_frequencies, calibrated_moduli_toml, fit_moduli
 
     des = _one_piece_design("calibrate", kind, None, 440.0, material, stock_name, tube, rod, bar_size, model=model,
                             materials_dirs=dirs)
@@ -209,7 +209,7 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
 
 def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res, name=None, output=None, force=False,
                    dirs=()):
-    from cutplan.calibrate import CalibrationError, fit_air_column_choice
+    from cutplan.tuning.calibrate import CalibrationError, fit_air_column_choice
     from cutplan.physics import air_column
     from cutplan.units import UnitError, parse_length, parse_temperature
 
@@ -288,7 +288,7 @@ def _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr, note, 
         return
     if not stock_name:
         fail("calibrate: saving an air-column calibration needs --stock, the stock size it was measured on")
-    from cutplan.air_stock import stock_toml
+    from cutplan.planning.air_calibrated import stock_toml
     from cutplan.materials import MaterialError, load_library
 
     try:

@@ -68,8 +68,8 @@ def undercut(raw, key, section, col):
 
 
 def grain(raw, key, section, col):
-    """How the bar was sawn: "flat", "quarter" or "unknown" (the default); see cutplan.grain."""
-    from cutplan.grain import GRAINS
+    """How the bar was sawn: "flat", "quarter" or "unknown" (the default); see cutplan.planning.grain."""
+    from cutplan.planning.grain import GRAINS
 
     value = raw.get("grain", "unknown")
     if value not in GRAINS:

@@ -11,7 +11,7 @@ from dataclasses import dataclass, field
 
 from cutplan import pitch, units
 from cutplan.design.text import shown
-from cutplan.sections import Section
+from cutplan.physics.sections import Section
 
 KINDS = ("chime", "bar", "air-column", "resonator")
 MAX_PIECES_PER_SET = 128
@@ -131,7 +131,7 @@ class SetSpec:
     undercut: Undercut | None = None
     temperature_range: tuple | None = None
     hanging: object = None  # cutplan.design.hanging.HangingSpec, or None for the defaults
-    grain: str = "unknown"  # a bar's sawing: "flat", "quarter" or "unknown" (cutplan.grain)
+    grain: str = "unknown"  # a bar's sawing: "flat", "quarter" or "unknown" (cutplan.planning.grain)
 
 
 @dataclass(frozen=True)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from cutplan import units
 from cutplan.materials import closest_names
-from cutplan.sections import Section, bar, rod, tube
+from cutplan.physics.sections import Section, bar, rod, tube
 
 SECTION_KEYS = {"shape", "outer", "wall", "inner", "diameter", "width", "thickness", "stock"}
 MAX_SIZE = 0.5

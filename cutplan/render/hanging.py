@@ -1,10 +1,10 @@
 """How a chime set's hanging is worded and listed: the JSON ``hanging`` object and the phrases
 the terminal, the cover, the shopping list and the plate template share.  Formatting only: every
-number is a field of the set's ``hanging`` (cutplan.hanging)."""
+number is a field of the set's ``hanging`` (cutplan.planning.hanging)."""
 
 from __future__ import annotations
 
-from cutplan.hanging_load import KNOT_EFFICIENCY, buy_text, mass_text
+from cutplan.planning.hanging_load import KNOT_EFFICIENCY, buy_text, mass_text
 from cutplan.units import format_length
 
 MODE_WORDS = {(1,): "the fundamental", (1, 4, 5, 6): "the fundamental and modes 4-6 (the strike note)"}

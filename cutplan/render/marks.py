@@ -11,7 +11,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from cutplan.shopping import hanging_plate  # noqa: F401 (the plate geometry, re-exported for renderers)
+from cutplan.planning.shopping import hanging_plate  # noqa: F401 (the plate geometry, re-exported for renderers)
 from cutplan.units import MM, format_length
 
 TICK_STEP_MM = 10

@@ -169,7 +169,7 @@ def tuned_targets(piece, count):
 
 def _questioned(piece, cents1, confidence, from_recording):
     """((code, text), ...) when the reading must be confirmed before any cut."""
-    from cutplan.calibrate import FAR_OFF_CENTS
+    from cutplan.tuning.calibrate import FAR_OFF_CENTS
 
     out = []
     if abs(cents1) > FAR_OFF_CENTS:
@@ -205,8 +205,8 @@ def trim_report(design, plan, label, measured_hz, confidence=1.0, from_recording
 
 def _plain_report(plan, piece, spec, partials, confidence, questions, length_now):
     """Uniform bars, chimes and air columns: the length to trim (and the supports for it)."""
-    from cutplan.calibrate import CalibrationError, trim_advice
-    from cutplan.models import piece_frequency_function
+    from cutplan.tuning.calibrate import CalibrationError, trim_advice
+    from cutplan.planning.frequency import piece_frequency_function
     from cutplan.numeric import quiet
     from cutplan.render.phrases import trim_report_lines
 

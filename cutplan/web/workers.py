@@ -35,7 +35,7 @@ def _worker_main(conn):
     import signal
 
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl+C is the server's; it stops the workers
-    import cutplan.planner  # noqa: F401  (warm up before the first job arrives)
+    import cutplan.planning.planner  # noqa: F401  (warm up before the first job arrives)
     import cutplan.web.service  # noqa: F401
 
     while True:

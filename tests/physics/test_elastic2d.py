@@ -7,7 +7,7 @@ import numpy as np
 import pytest
 
 from cutplan.physics import elastic2d, timoshenko, undercut
-from cutplan.sections import shear_coefficient_cowper_rectangle
+from cutplan.physics.sections import shear_coefficient_cowper_rectangle
 
 # Sugar maple along the grain (USDA Wood Handbook FPL-GTR-190, 2010, key wood-handbook-2010:
 # Table 5-3a MOE 12.6 GPa x 1.10 (the shear allowance of its footnote, from memory), Table 5-1

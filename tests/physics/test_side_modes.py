@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 from cutplan.physics import side_modes, timoshenko, torsion
-from cutplan.sections import shear_coefficient_cowper_rectangle
+from cutplan.physics.sections import shear_coefficient_cowper_rectangle
 
 E, G, RHO = 69e9, 26e9, 2700.0  # aluminium 6061-T6, Aluminum Association typical values
 KAPPA = shear_coefficient_cowper_rectangle(0.33)  # Cowper 1966, Table 1: 10(1+nu)/(12+11nu)

@@ -8,7 +8,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from cutplan.physics import beam, beam_fe, timoshenko
-from cutplan.sections import bar, shear_coefficient_cowper_rectangle, tube
+from cutplan.physics.sections import bar, shear_coefficient_cowper_rectangle, tube
 
 INCH = 0.0254
 

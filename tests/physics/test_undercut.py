@@ -9,7 +9,7 @@ from click.testing import CliRunner
 
 from cutplan.cli import cli
 from cutplan.physics import beam_fe, timoshenko, undercut
-from cutplan.sections import shear_coefficient_cowper_rectangle
+from cutplan.physics.sections import shear_coefficient_cowper_rectangle
 
 ROOT = Path(__file__).resolve().parents[2]
 # Sugar maple along the grain (USDA Wood Handbook FPL-GTR-190, 2010, key wood-handbook-2010:

@@ -10,7 +10,7 @@ from pypdf import PdfReader
 
 from cutplan.design import load_design
 from cutplan.materials import load_library
-from cutplan.planner import plan
+from cutplan.planning.planner import plan
 from cutplan.render import pdf as pdf_mod
 from cutplan.render import svg as svg_mod
 from cutplan.render.packet import packet_files

@@ -15,7 +15,7 @@ SIDE_VIEW_SCALES = (1, 2, 2.5, 4, 5, 8, 10, 15, 20, 25, 40, 50)
 def _side_view(c, plan, s, x, y_top, width, height):
     """The set seen from the side, at the largest 1:n scale that fits (x, y_top, box in points)."""
     h = s.hanging
-    from cutplan.hanging import SAIL_DROP
+    from cutplan.planning.hanging import SAIL_DROP
 
     tall = h.plate_thickness + 0.04 + max(p.length for p in s.pieces) + SAIL_DROP + h.sail.side + 0.15
     wide = h.plate_diameter

@@ -72,7 +72,7 @@ def speed(spec, temperature=None):
     its frequency is recorded (see the module notes), carried to ``temperature``.
 
     >>> from types import SimpleNamespace as NS
-    >>> from cutplan.sections import tube
+    >>> from cutplan.physics.sections import tube
     >>> sec = tube(0.0334, 0.0034)
     >>> cal = dataclasses.replace(sec, air_calibration=AirCalibration(345.0, 293.15, 0.009))
     >>> spec = NS(kind="air-column", section=cal, temperature=293.15, humidity=50.0)

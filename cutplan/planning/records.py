@@ -117,7 +117,7 @@ class SetPlan:
     pieces: tuple
     assumptions: tuple = ()
     allowance_rule: str = ""
-    hanging: object = None  # cutplan.hanging.Hanging for a chime set
+    hanging: object = None  # cutplan.planning.hanging.Hanging for a chime set
     material_class: str = ""  # "metal", "wood", "plastic", "glass", ... from the material table
     elastic_constants: tuple = ()  # ((name, value in SI), ...) the model used, e.g. ("modulus_along", 2.1e10)
 
@@ -161,8 +161,8 @@ class Plan:
     cut_list: object = None
     warnings: tuple = field(default=())
     inch_denominator: int = INCH_DENOMINATOR
-    shopping: tuple = ()  # cutplan.shopping.Item, ...
-    cautions: tuple = ()  # cutplan.shopping.Caution, ...
+    shopping: tuple = ()  # cutplan.planning.shopping.Item, ...
+    cautions: tuple = ()  # cutplan.planning.shopping.Caution, ...
     classroom: bool = False  # the design is for a classroom (supervision notes)
     copies: int = 1  # identical kits: the cut list and shopping list hold all of them
 

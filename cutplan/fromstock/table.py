@@ -71,7 +71,7 @@ def cut_length_table(frequencies, base_set, top=None, materials_dirs=()):
 def stubby_below(spec):
     """Shortest length [m] the planner plans without a "stubby piece" warning (beams), or the
     shortest air column it plans without a "short column" warning; 0 when neither applies."""
-    from cutplan.planner import STUBBY_RATIO
+    from cutplan.planning.planner import STUBBY_RATIO
 
     if spec.kind in ("chime", "bar"):
         return STUBBY_RATIO * spec.section.depth

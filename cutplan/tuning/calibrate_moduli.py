@@ -16,7 +16,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from cutplan.calibrate import BeamFit, CalibrationError
+from cutplan.tuning.calibrate import BeamFit, CalibrationError
 
 SHEAR_DETERMINED = 0.10
 """Largest standard error of a fitted shear modulus, as a fraction, for G to count as determined
@@ -80,7 +80,7 @@ def _partial_frequencies(material, section, model, modulus, shear_modulus, lengt
     from cutplan.physics import beam, timoshenko
 
     if model == "elastic-2d":
-        from cutplan.calibrate_elastic import partial_frequencies_2d
+        from cutplan.tuning.calibrate_elastic import partial_frequencies_2d
 
         return partial_frequencies_2d(material, section, modulus, shear_modulus, length, modes)
     ei, mu = modulus * section.second_moment, material.density * section.area
@@ -155,7 +155,7 @@ def fit_moduli(measurements, material, section, model="timoshenko", shear="auto"
     One partial fits E alone, as a tuner reading always did:
 
     >>> from cutplan.materials import Material
-    >>> from cutplan.sections import bar
+    >>> from cutplan.physics.sections import bar
     >>> al = Material("al", 69e9, 2700.0)
     >>> f1 = _partial_frequencies(al, bar(0.03, 0.01), "timoshenko", 1.02 * 69e9, 1.02 * 69e9 / 2.66, 0.4, 1)[0]
     >>> fit = fit_moduli([(0.4, 1, f1)], al, bar(0.03, 0.01))
@@ -322,8 +322,8 @@ def calibrated_moduli_toml(name, material, model, fit, source_text):
     """A user material file (TOML text) with the fitted E and, when fitted or held, G.
 
     Wood keeps a between-board spread unless several blanks were calibrated
-    (:func:`cutplan.uncertainty.wood_blank_spreads`); the material's class is carried over."""
-    from cutplan.uncertainty import SEVERAL_BLANKS, wood_blank_spreads
+    (:func:`cutplan.planning.uncertainty.wood_blank_spreads`); the material's class is carried over."""
+    from cutplan.planning.uncertainty import SEVERAL_BLANKS, wood_blank_spreads
 
     e_spread, rho_spread = fit.spread, 0.0
     wood = getattr(material, "material_class", None) == "wood"

@@ -1,7 +1,7 @@
 """Quick answers to "do these pieces fit the sticks on hand?" before the exact packer runs.
 
 :class:`StockRoom` holds the stock on hand in the optimiser's terms (a stick of length S holds
-pieces l_i when sum(l_i + kerf) <= S - 2 end_trim + kerf; see :mod:`cutplan.stock`) and gives
+pieces l_i when sum(l_i + kerf) <= S - 2 end_trim + kerf; see :mod:`cutplan.layout.optimiser`) and gives
 bounds that prove a set cannot fit, and a first-fit-decreasing layout that proves it can.
 Only when neither settles it does the search call the exact packer.
 """
@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 
-from cutplan import stock as optimiser
+from cutplan.layout import optimiser
 
 TOL = optimiser.FIT_TOLERANCE
 NODE_LIMIT = 200_000

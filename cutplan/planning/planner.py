@@ -12,10 +12,18 @@ from dataclasses import replace
 
 import numpy as np
 
-from cutplan import advice, air_stock, grain, hang_holes, other_modes, pitch, plan_elastic, thermal, uncertainty
-from cutplan.allowance import allowance_rule, allowances, risk_warning
+from cutplan import pitch
+from cutplan.tuning import advice
+from cutplan.planning import air_calibrated as air_stock
+from cutplan.planning import grain
+from cutplan.planning import hang_holes
+from cutplan.planning import other_modes
+from cutplan.planning import elastic as plan_elastic
+from cutplan.planning import thermal
+from cutplan.planning import uncertainty
+from cutplan.planning.allowance import allowance_rule, allowances, risk_warning
 from cutplan.design import Design, DesignError, DesignErrors, SetSpec
-from cutplan.models import (
+from cutplan.planning.frequency import (
     STRIKE_NOTE_MODE,
     beam_constants,
     beam_frequency_function,
@@ -24,8 +32,8 @@ from cutplan.models import (
     undercut_frequency_function,
 )
 from cutplan.physics import beam, timoshenko
-from cutplan.plan_air import plan_air_set
-from cutplan.plan_types import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
+from cutplan.planning.air import plan_air_set
+from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
 from cutplan.units import format_length
 
 __all__ = ["Arch", "Piece", "Plan", "SetPlan", "bars_to_solve", "plan"]
@@ -258,7 +266,7 @@ Structure-Borne Sound, 3rd ed., 2005, table of loss factors; from memory)."""
 
 def _hang_hole_rows():
     """The shop table of hang-hole drills (read for each chime set)."""
-    from cutplan.shopping import hang_holes as rows
+    from cutplan.planning.shopping import hang_holes as rows
 
     return rows()
 
@@ -326,7 +334,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                           "allowance_rule": allowance_rule(stock, design.units),
                           "material_class": getattr(spec.material, "material_class", None) or ""})
         if spec.kind == "chime":
-            from cutplan.hanging import hanging_for  # noqa: I001 (the assembly: plate, striker, sail, lines)
+            from cutplan.planning.hanging import hanging_for  # noqa: I001 (the assembly: plate, striker, sail, lines)
 
             done = SetPlan(**{**done.__dict__, "hanging": hanging_for(done, spec.hanging, spec.target_mode,
                                                                         units=design.units)})
@@ -336,15 +344,16 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
         raise DesignErrors(errors)
     order = {s.name: i for i, s in enumerate(design.sets)}
     sets.sort(key=lambda s: order[s.name])
-    from cutplan import cutlist, stock
-    from cutplan.kits import kit_sets
+    from cutplan.layout import cutlist
+    from cutplan.layout import optimiser as stock
+    from cutplan.layout.kits import kit_sets
 
     try:
         cuts = cutlist.lay_out(kit_sets(sets, design.copies), {s.name: s for s in design.sets}, design.stock, stock_override,
                               units=design.units)
     except stock.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
-    from cutplan.shopping import with_shop_lists  # noqa: I001 (shopping list and cautions)
+    from cutplan.planning.shopping import with_shop_lists  # noqa: I001 (shopping list and cautions)
     return with_shop_lists(Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
                 temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts,
                 classroom=design.classroom, copies=design.copies))

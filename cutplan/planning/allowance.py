@@ -5,7 +5,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from cutplan import uncertainty
+from cutplan.planning import uncertainty
 from cutplan.design import DEFAULT_SHARP_RISK
 from cutplan.units import format_length
 

@@ -15,7 +15,7 @@ Geometry (tubes hang with their axes on the hole circle, the striker on the cent
 - sail: square, sized so its drag at the design breeze is SAIL_MARGIN times the push that swings
   striker and sail out to the tubes.
 
-Loads, lines and hardware are in :mod:`cutplan.hanging_load`.
+Loads, lines and hardware are in :mod:`cutplan.planning.hanging_load`.
 """
 
 from __future__ import annotations
@@ -23,7 +23,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from cutplan import hanging_load
+from cutplan.planning import hanging_load
 from cutplan.design.hanging import HangingSpec
 from cutplan.physics import swing
 
@@ -107,7 +107,7 @@ class Hanging:
     tube_gap_min: float
     tube_gap: float | None
     sail: Sail
-    load: object  # cutplan.hanging_load.Load
+    load: object  # cutplan.planning.hanging_load.Load
 
     @property
     def mass(self):
@@ -180,7 +180,7 @@ def hanging_for(set_plan, options=None, target_mode="fundamental", rows=None, un
     """The Hanging of a chime set (its pieces planned), or None for a set with no pieces.
 
     ``options``: HangingSpec (defaults when None); ``rows``: the line and hardware table
-    (:func:`cutplan.hanging_load.load_table`, read when None).
+    (:func:`cutplan.planning.hanging_load.load_table`, read when None).
     """
     if not set_plan.pieces:
         return None

@@ -2,14 +2,14 @@
 
 :func:`search` tries roots on every semitone of the practical range, the counts asked for and
 each scale, and keeps the sets whose cut pieces have a proven layout on the sticks on hand
-(the cut-list optimiser of :mod:`cutplan.stock`).  The chosen set is written as a design (the
+(the cut-list optimiser of :mod:`cutplan.layout.optimiser`).  The chosen set is written as a design (the
 design file's keys, with the stock on hand as its ``[stock]``) and confirmed with
 :func:`cutplan.plan`, so what the search promises is what ``cutplan plan`` shows.
 
 How it stays fast
 -----------------
 - A piece's cut length depends only on its pitch, so every pitch is solved once
-  (:mod:`cutplan.fit_table`); a candidate set is a lookup.
+  (:mod:`cutplan.fromstock.table`); a candidate set is a lookup.
 - Bounds rule a set out before any packing: its longest piece against the longest stick, the
   pieces plus kerfs against all the stock, and the Martello-Toth L2 bound against the number of
   sticks.
@@ -30,9 +30,11 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from cutplan import fit_pack, fit_table, pitch
-from cutplan import stock as optimiser
-from cutplan.fit_output import SET_NAMES, design_mapping
+from cutplan import pitch
+from cutplan.fromstock import pack as fit_pack
+from cutplan.fromstock import table as fit_table
+from cutplan.layout import optimiser
+from cutplan.fromstock.output import SET_NAMES, design_mapping
 
 SEARCH_LOW = "C1"
 """Lowest root tried when no lower limit is given (a piece this low rarely fits any stick)."""
@@ -41,10 +43,10 @@ SEARCH_HIGH = "C8"
 MAX_COUNT = 24
 """Most notes ``objective="most"`` tries [-] (two octaves of a 12-note scale)."""
 PACK_OPS = 2_000_000
-"""Work the cut-list optimiser may do per candidate set [operations, see cutplan.stock._Work]
+"""Work the cut-list optimiser may do per candidate set [operations, see cutplan.layout.optimiser._Work]
 (about 2 CPU s; a tenth of a plan's): bounded by work, never by the clock, so the table is the
 same on a busy machine.  Whether a set fits is settled by bounds, first fit and an exhaustive search with a node limit
-(:mod:`cutplan.fit_pack`); the optimiser decides only sets too big for that, and lays out the
+(:mod:`cutplan.fromstock.pack`); the optimiser decides only sets too big for that, and lays out the
 sets shown."""
 ROWS_PER_SCALE = 4
 """Roots shown per scale and count in the ranked table [-]."""

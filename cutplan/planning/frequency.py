@@ -5,7 +5,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from cutplan import air_stock, pitch
+from cutplan import pitch
+from cutplan.planning import air_calibrated as air_stock
 from cutplan.physics import air_column, beam, timoshenko
 
 STRIKE_NOTE_MODE = 4
@@ -81,11 +82,11 @@ def plane_constants(mat, sawing="unknown"):
 
     E along is the material's true modulus. For a wood whose table gives the across-grain
     constants, E across the thickness, G of the length-thickness plane and Poisson's ratio are
-    those of the bar's sawing (:func:`cutplan.grain.bending_plane_constants`; a calibrated or
+    those of the bar's sawing (:func:`cutplan.planning.grain.bending_plane_constants`; a calibrated or
     inline G is taken as that plane's G); otherwise E across is the record's ``modulus_across``
     where it has one, else E along, and G the material's shear modulus.
     """
-    from cutplan import grain
+    from cutplan.planning import grain
     from cutplan.physics.undercut2d import PlaneConstants
 
     e = mat.modulus_for("elastic-2d")
@@ -136,7 +137,7 @@ def piece_frequency_function(spec, piece):
     """f(L) [Hz] of the mode a planned piece is tuned by, with the plan's own model (for trimming;
     an arch stays where it is)."""
     if piece.model == "elastic-2d":
-        from cutplan.plan_elastic import profile_frequency_function
+        from cutplan.planning.elastic import profile_frequency_function
 
         stations = piece.arch.outline if piece.arch is not None else ((0.0, spec.section.thickness),
                                                                      (piece.length, spec.section.thickness))

@@ -11,17 +11,18 @@ import math
 
 import numpy as np
 
-from cutplan import pitch, uncertainty
-from cutplan.allowance import allowances, risk_warning
-from cutplan.models import beam_frequency_function, partial_notes, plane_constants
+from cutplan import pitch
+from cutplan.planning import uncertainty
+from cutplan.planning.allowance import allowances, risk_warning
+from cutplan.planning.frequency import beam_frequency_function, partial_notes, plane_constants
 from cutplan.physics import beam
 from cutplan.physics.undercut2d import design_undercut_2d, trimmed_profile
-from cutplan.plan_types import PARTIAL_COUNT, Arch, Piece
+from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece
 
 LENGTH_TOLERANCE_CENTS = 0.01
 """A uniform bar's 2-D length search stops this close to the target [cents]."""
 TRIM_STEP = 0.5e-3
-"""Half the central-difference step of the trim rate [m] (as :func:`cutplan.models.cents_per_mm`)."""
+"""Half the central-difference step of the trim rate [m] (as :func:`cutplan.planning.frequency.cents_per_mm`)."""
 
 
 def profile_frequency_function(spec, stations):

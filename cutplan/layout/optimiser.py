@@ -20,7 +20,7 @@ meets it.  With prices, every mix of sticks cheaper than the best layout is trie
 a mix whose relaxation cannot hold the pieces is ruled out, so the first mix that packs is the
 optimum.
 
-The exact part lives in :mod:`cutplan.stock_columns`.  Effort is bounded by work, never by
+The exact part lives in :mod:`cutplan.layout.columns`.  Effort is bounded by work, never by
 the clock: at most ``effort`` master LP solves per layout (and MAX_MIXES stick mixes).  Everything is ordered deterministically, so the same design gives
 the same layout on any machine and under any load; when the work runs out the best layout is
 reported with its bound, not proven.  An optional wall-clock ``time_limit`` only stops a run,
@@ -42,7 +42,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-from cutplan.kits import natural_key
+from cutplan.layout.kits import natural_key
 
 FIT_TOLERANCE = 1e-9
 """Slack allowed when checking that pieces fit [m] (a nanometre: float rounding only)."""
@@ -332,7 +332,7 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
             raise StockError(
                 f"{it.label} ({it.length * 1000:.0f} mm) is longer than the longest stock "
                 f"({longest.length * 1000:.0f} mm) after {end_trim * 1000:.0f} mm end trim at each end")
-    from cutplan.stock_columns import _cheaper_mixes, _column_generation
+    from cutplan.layout.columns import _cheaper_mixes, _column_generation
 
     work = _Work(effort, time_limit, ops)
     by_cost = all(t.price is not None for t in types) and any(t.price for t in types)

@@ -14,7 +14,7 @@ import dataclasses
 import math
 
 from cutplan.physics.hang_hole import hang_hole_shifts
-from cutplan.plan_types import HangHoleSplit
+from cutplan.planning.records import HangHoleSplit
 
 BEAT_LIMIT_HZ = 1.5
 """Fastest beat between the two bending planes accepted without a warning [Hz] (common practice,
@@ -89,7 +89,7 @@ def warning(split, units_text):
 def with_hang_holes(spec, pieces, rows, units="mm"):
     """The chime pieces with ``hang_hole`` filled in from the shop table ``rows`` (and a warning
     when the beat is over the limit); other pieces unchanged."""
-    from cutplan.shopping import hang_hole_for
+    from cutplan.planning.shopping import hang_hole_for
 
     if spec.kind != "chime" or spec.section.shape != "tube":
         return list(pieces)

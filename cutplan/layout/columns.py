@@ -1,4 +1,4 @@
-"""Column generation for the cut-list optimiser in :mod:`cutplan.stock` (its exact part).
+"""Column generation for the cut-list optimiser in :mod:`cutplan.layout.optimiser` (its exact part).
 
 The Gilmore-Gomory relaxation is solved by column generation: the master LP (HiGHS, through
 scipy) over the patterns found so far, and a 0/1 knapsack over a 0.5 mm grid to price new ones.
@@ -21,8 +21,8 @@ import math
 
 import numpy as np
 
-from cutplan.kits import natural_key
-from cutplan.stock import (
+from cutplan.layout.kits import natural_key
+from cutplan.layout.optimiser import (
     FIT_TOLERANCE,
     StockType,
     _capacity,

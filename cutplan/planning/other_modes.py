@@ -59,7 +59,7 @@ def _bar_modes(spec, piece):
     the 3-D model for an arched bar; for a uniform one the shear-corrected beam sideways and
     Saint-Venant twisting (for wood, stiffened by warping as fitted once per section to the 3-D
     model, :func:`cutplan.physics.side_modes.twisting_stiffening`)."""
-    from cutplan import grain
+    from cutplan.planning import grain
 
     mat, sec, length = spec.material, spec.section, piece.length
     sawing = getattr(spec, "grain", "unknown")
@@ -119,7 +119,7 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2), s
     tuned partial (mode numbers ``tuned``), in a builder's words.
 
     ``spread_cents`` ({kind: cents}) widens the window for a mode whose place is uncertain (a bar
-    of unknown sawing, :func:`cutplan.grain.grain_spread_cents`)."""
+    of unknown sawing, :func:`cutplan.planning.grain.grain_spread_cents`)."""
     out = []
     spread_cents = spread_cents or {}
     fundamental = piece.fundamental_hz or (piece.partials_hz[0] if piece.partials_hz else 0.0)
@@ -180,9 +180,9 @@ def _grain_spread(spec, piece):
     """{kind: cents} the warning window widens by for a bar of unknown sawing; {} otherwise.
 
     Twisting: half the flat-to-quarter spread of the blank's Saint-Venant twisting
-    (:func:`cutplan.grain.grain_spread_cents`).  Sideways: half the spread of the blank's
+    (:func:`cutplan.planning.grain.grain_spread_cents`).  Sideways: half the spread of the blank's
     sideways mode 1, whose shear part alone feels the sawing."""
-    from cutplan import grain
+    from cutplan.planning import grain
 
     sawing = getattr(spec, "grain", "unknown")
     sec, mat = spec.section, spec.material

@@ -199,12 +199,12 @@ def unknown_grain_cents(material, grain, section, length):
 def unknown_grain_ratios(spec, ratios, length):
     """Samples of f_actual / f_planned (``ratios``) widened for a bar of unknown sawing: each
     sample times 2^(u c / 1200), u uniform on [-1, 1] (the seeded draws of
-    :mod:`cutplan.uncertainty`, unused by bars otherwise) and c = :func:`unknown_grain_cents`.
+    :mod:`cutplan.planning.uncertainty`, unused by bars otherwise) and c = :func:`unknown_grain_cents`.
     Unchanged for any other set."""
     cents = unknown_grain_cents(spec.material, getattr(spec, "grain", "unknown"), spec.section, length)
     if not cents:
         return ratios
-    from cutplan.uncertainty import _draws
+    from cutplan.planning.uncertainty import _draws
 
     return ratios * 2.0 ** (_draws()[1][0] * cents / 1200)
 

@@ -16,7 +16,7 @@ import tomllib
 from dataclasses import dataclass, replace
 
 from cutplan import units
-from cutplan.kits import kit_label
+from cutplan.layout.kits import kit_label
 
 PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
 """Usual hanging-plate thickness [m]: plywood or hardwood, aluminium sheet, as sold in metric and
@@ -163,7 +163,7 @@ def cautions_for(plan, table=None):
 
 
 def hanging_plate(set_plan):
-    """Plate for a chime set [mm], from the set's planned hanging (cutplan.hanging): one hole per
+    """Plate for a chime set [mm], from the set's planned hanging (cutplan.planning.hanging): one hole per
     tube on the hole circle, a centre hole for the striker line, three for the plate's own lines."""
     h = set_plan.hanging
     holes = tuple((x * 1000, y * 1000, label) for x, y, label in h.holes)
@@ -203,7 +203,7 @@ def _drill_for(s, row, shown="mm"):
     fast = [h for h in splits if h.beat_hz > h_limit() and h.largest_drill > 0]
     if not fast:
         return row.drill, "through both walls, at the hang-hole mark"
-    from cutplan.hang_holes import drill_text
+    from cutplan.planning.hang_holes import drill_text
 
     drill = min(h.largest_drill for h in fast)
     return drill, (f"through both walls, at the hang-hole mark; {drill_text(drill, shown)}, smaller than the "
@@ -212,15 +212,15 @@ def _drill_for(s, row, shown="mm"):
 
 
 def h_limit():
-    """The beat limit of hang holes [Hz] (:data:`cutplan.hang_holes.BEAT_LIMIT_HZ`)."""
-    from cutplan.hang_holes import BEAT_LIMIT_HZ
+    """The beat limit of hang holes [Hz] (:data:`cutplan.planning.hang_holes.BEAT_LIMIT_HZ`)."""
+    from cutplan.planning.hang_holes import BEAT_LIMIT_HZ
 
     return BEAT_LIMIT_HZ
 
 
 def _chime_items(s, rows, shown="mm", copies=1):
-    from cutplan.hanging import SAIL_DROP
-    from cutplan.hanging_load import buy_text, mass_text
+    from cutplan.planning.hanging import SAIL_DROP
+    from cutplan.planning.hanging_load import buy_text, mass_text
 
     h = s.hanging
     load = h.load

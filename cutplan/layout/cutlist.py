@@ -1,7 +1,7 @@
 """Lay a plan's pieces on the stock on hand: the plan's cut list, in SI.
 
 Pieces are grouped by section and stock table (groups are named in the design's units) (one group per set's section, or per set with
-its own ``[set.stock]``); each group is laid out by the pure optimiser in :mod:`cutplan.stock`.
+its own ``[set.stock]``); each group is laid out by the pure optimiser in :mod:`cutplan.layout.optimiser`.
 The cut lengths are the pieces' own ``cut_length`` floats, so every renderer formats the same
 number the plan table shows.
 """
@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from cutplan import stock as optimiser
+from cutplan.layout import optimiser
 
 
 @dataclass(frozen=True)
@@ -131,7 +131,7 @@ def stock_groups(sets, specs, design_stock, override=None, units="mm"):
 def lay_out(sets, specs, design_stock, override=None, time_limit=optimiser.DEFAULT_TIME_LIMIT, units="mm"):
     """The CutList of planned sets, or None when no set has stock lengths.
 
-    Raises :class:`cutplan.stock.StockError` naming the group when stock runs out.
+    Raises :class:`cutplan.layout.optimiser.StockError` naming the group when stock runs out.
     """
     groups = stock_groups(sets, specs, design_stock, override, units)
     if not groups:

@@ -8,7 +8,7 @@ follows the fitted E unless the material tables its own value.
 
 from __future__ import annotations
 
-from cutplan.calibrate import CalibrationError
+from cutplan.tuning.calibrate import CalibrationError
 
 
 def partial_frequencies_2d(material, section, modulus, shear_modulus, length, modes):

@@ -1,0 +1,1 @@
+"""Laying a plan's pieces out on the stock: the cut list, its optimiser and identical kits."""

@@ -1,0 +1,1 @@
+"""Planning: a validated design -> a Plan (lengths, nodes, partials, allowances, hanging, shopping)."""
