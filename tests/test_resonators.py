@@ -94,3 +94,19 @@ def test_about_three_cents_per_degree(res_piece):
     # c ~ sqrt(T), ISO 9613-1:1993, Formula A.5)
     c1, c2 = air_column.speed_of_sound(292.65), air_column.speed_of_sound(293.65)
     assert 1200 * math.log2(c2 / c1) == pytest.approx(2.95, abs=0.01)
+
+
+def test_the_resonator_says_it_is_tuned_without_its_bar(tmp_path):
+    # No published end correction for a bar across the mouth of an unflanged pipe was found, so the
+    # lengths carry the open-end correction alone (Levine & Schwinger 1948) and the plan tells the
+    # builder to tune with the bar in place; the bar set itself does not carry the line
+    from cutplan.render.terminal import render_table
+
+    path = tmp_path / "d.toml"
+    path.write_text(TEXT)
+    design, _ = load_design(path, lambda d: load_library(d))
+    result = plan(design)
+    by_name = {s.name: s for s in result.sets}
+    assert any("bar in place" in a and "open mouth" in a for a in by_name["res"].assumptions)
+    assert not any("bar in place" in a for a in by_name["bars"].assumptions)
+    assert "bar in place" in " ".join(render_table(result).split())

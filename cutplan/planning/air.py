@@ -21,6 +21,16 @@ STOPPER_MARGIN = 0.010
 STOPPER_STEP = 5.0
 """Temperature step of the stopper-setting table [K]."""
 
+BAR_OVER_MOUTH = ("resonator lengths are for an open mouth: the bar over it adds to the end correction and "
+                  "lowers the resonator a little (not modelled); tune each resonator with its bar in place "
+                  "over it, shortening the tube or raising the stopper")
+"""The assumption every resonator set states.  A bar a few millimetres above the mouth crowds the
+air that moves at the open end, which lengthens the end correction; how much depends on the bar's
+width and its height above the mouth.  No published formula or table for that geometry (a strip
+across the mouth of an unflanged pipe) was found, so the planner does not guess one: the lengths
+carry the open-end correction alone (Levine & Schwinger 1948, through the Dalmont et al. 2001 fit),
+and the builder tunes with the bar in place, where the bar can only lower the resonator."""
+
 
 def stopper_settings(spec, frequency, radius, bar_drift=0.0):
     """((temperature [K], depth from the open end to the stopper face [m]), ...) over the range.

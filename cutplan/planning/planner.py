@@ -32,7 +32,7 @@ from cutplan.planning.frequency import (
     undercut_frequency_function,
 )
 from cutplan.physics import beam, timoshenko
-from cutplan.planning.air import plan_air_set
+from cutplan.planning.air import BAR_OVER_MOUTH, plan_air_set
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
 from cutplan.units import format_length
 
@@ -207,6 +207,8 @@ def _set_summary(spec: SetSpec, units="mm"):
             assumptions.append("wall losses: viscous and thermal boundary layers slow sound in the pipe by "
                                "about 1.6e-3 / (a sqrt f) (Kirchhoff; Keefe 1984), each note at its own frequency")
         assumptions += air_stock.assumptions(spec)
+        if spec.kind == "resonator":
+            assumptions.append(BAR_OVER_MOUTH)
         if spec.temperature_range is not None:
             lo, hi = spec.temperature_range
             assumptions.append(f"stopper travel covers {lo - 273.15:.0f} C to {hi - 273.15:.0f} C")
