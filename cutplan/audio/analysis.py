@@ -1,7 +1,7 @@
 """Name the fundamental of a struck piece from its partials, weighing the kinds' patterns.
 
 The partials come from :func:`cutplan.audio.partials.find_partials` (every strong partial, with
-level and decay).  Each kind of piece has its own pattern of partials (below); every pattern is
+level and decay; mains hum left out and named in a note).  Each kind of piece has its own pattern of partials (below); every pattern is
 tried on every plausible fundamental and the readings are ranked by how much of the sound they
 explain, how complete the pattern is, and whether the fundamental itself is in the recording.
 A reading whose fundamental is not in the recording is only taken when it explains two or more
@@ -13,9 +13,10 @@ a different fundamental, nearly matches (low confidence).  ``--kind`` narrows th
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
-from cutplan.audio.partials import Partial, find_partials
+from cutplan.audio.hum import hum_note
+from cutplan.audio.partials import Partial, find_partials_and_hum
 from cutplan.audio.wav import RecordingError
 
 PATTERNS = {
@@ -228,9 +229,10 @@ def measure(samples, rate, kind="any", near=None, ratios=None):
     """Fundamental and partials of a struck piece from its samples (see :func:`identify`).
 
     Numeric warnings stay inside; a recording with no tonal peak, or none near ``near`` [Hz],
-    raises :class:`RecordingError`.
+    raises :class:`RecordingError`.  Mains hum left out of the partials is named among the warnings.
     """
     from cutplan.numeric import quiet
 
-    partials = quiet(find_partials, samples, rate)
-    return quiet(identify, partials, kind, near, ratios)
+    partials, hum = quiet(find_partials_and_hum, samples, rate)
+    m = quiet(identify, partials, kind, near, ratios)
+    return replace(m, warnings=m.warnings + (hum_note(hum),)) if hum else m

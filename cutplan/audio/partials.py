@@ -16,7 +16,8 @@ Method
    envelope falls along a straight line for an exponentially decaying partial, whose slope gives
    the decay time and whose value at the strike gives the partial's level.
 4. Partials within :data:`STRONG_DB` of the strongest, ringing at least :data:`MIN_DECAY_S`, are
-   kept.  Each frequency is read from the spectrum whose length best suits its decay (about
+   kept; a line of mains hum (at a harmonic of 50 or 60 Hz, there before the strike and as loud
+   at the end; :mod:`cutplan.audio.hum`) is left out and reported apart.  Each frequency is read from the spectrum whose length best suits its decay (about
    2.5 decay times, long enough to separate it from its neighbours), to a fraction of a bin by a
    parabola through the log magnitude of the three highest samples [2]_.  The decay does not bias
    the peak: the spectrum of a real window times a decaying exponential is still symmetric about
@@ -39,6 +40,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from cutplan.audio.hum import hum_lines, is_hum
 from cutplan.audio.wav import RecordingError
 
 MIN_SECONDS = 0.05
@@ -61,6 +63,9 @@ BH4 = (0.35875, 0.48829, 0.14128, 0.01168)
 """Four-term Blackman-Harris window coefficients, Harris 1978 (see [1] above)."""
 MAIN_LOBE_BINS = 4.0
 """Main-lobe half-width of that window [bins], Harris 1978."""
+HUM_MATCH_HZ = 1.0
+"""A candidate this close to a hum line found before the strike is that line [Hz] (the line is
+read there from a stretch as short as 0.2 s, to about a third of a hertz)."""
 
 
 @dataclass(frozen=True)
@@ -88,6 +93,11 @@ def blackman_harris(n):
 
 def strike_segment(samples, rate):
     """The samples from just before the loudest moment on, at most :data:`MAX_SECONDS`, mean removed."""
+    return _strike(samples, rate)[2]
+
+
+def _strike(samples, rate):
+    """(the whole recording mean removed, the sample the strike segment starts at, the segment)."""
     x = np.asarray(samples, dtype=np.float64)
     x = x - x.mean()
     if x.size < MIN_SECONDS * rate:
@@ -103,8 +113,9 @@ def strike_segment(samples, rate):
     start = max(0, int(np.argmax(energy)) - hop)
     seg = x[start:start + int(MAX_SECONDS * rate)]
     if seg.size < MIN_SECONDS * rate:
-        seg = x[-int(MIN_SECONDS * rate):]
-    return seg
+        start = x.size - int(MIN_SECONDS * rate)
+        seg = x[start:]
+    return x, start, seg
 
 
 def _band_floor(mag, bin_hz, f_min, lobe_hz):
@@ -216,7 +227,14 @@ def find_partials(samples, rate):
 
     Raises RecordingError when nothing rings (silence, noise, a click, a clipped square).
     """
-    seg = strike_segment(samples, rate)
+    return find_partials_and_hum(samples, rate)[0]
+
+
+def find_partials_and_hum(samples, rate):
+    """(every strong partial as :func:`find_partials` finds them, the frequencies [Hz] of the mains
+    hum lines left out of them)."""
+    x, start, seg = _strike(samples, rate)
+    hum = hum_lines(x, rate, start)
     f_lo, f_hi = AUDIBLE_HZ[0], min(AUDIBLE_HZ[1], 0.45 * rate)
     lengths, n = [], int(rate / 8)
     while n < seg.size:
@@ -230,13 +248,16 @@ def find_partials(samples, rate):
             if all(abs(f - g) > sp.lobe_hz for g in cands):
                 cands.append(f)
     cands.sort()
-    found = []
+    found, dropped = [], []
     for k, f in enumerate(cands):
         others = [abs(f - g) for j, g in enumerate(cands) if j != k] + [2 * f]
         d = min(others)
         times, env = _envelope(seg, rate, f, d)
         tau, level = _decay(times, env)
         if tau is not None and tau < MIN_DECAY_S:
+            continue
+        if tau is None and is_hum(f, hum, max(spectra[-1].lobe_hz, HUM_MATCH_HZ)):
+            dropped.append((f, level))  # steady mains hum, not a partial of the piece
             continue
         found.append((f, level, tau, d))
     if not found:
@@ -248,7 +269,7 @@ def find_partials(samples, rate):
         if level < strongest - STRONG_DB:
             continue
         out.append(Partial(_refine(spectra, f, tau, d), round(float(level - strongest), 1), tau))
-    return tuple(out)
+    return tuple(out), tuple(float(f) for f, level in dropped if level >= strongest - STRONG_DB)
 
 
 def _refine(spectra, f, tau, neighbour_hz):

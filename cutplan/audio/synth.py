@@ -57,3 +57,14 @@ def arpeggio(pieces, step_s=0.6, ring_s=3.0, rate=RATE, strike_at=0.1):
         out[start:end] += x[:end - start]
     peak = np.max(np.abs(out)) or 1.0
     return 0.8 * out / peak
+
+
+def mains_hum(seconds, mains_hz=50.0, amplitudes=(1.0, 0.5, 0.25), rate=RATE):
+    """A steady mains hum: sines at ``mains_hz`` and its harmonics (amplitudes of the 1st, 2nd,
+    ... harmonic), unchanging from the first sample to the last, as a recorder picks it up from
+    nearby wiring [-]."""
+    t = np.arange(int(seconds * rate)) / rate
+    out = np.zeros_like(t)
+    for k, a in enumerate(amplitudes, start=1):
+        out += a * np.sin(2 * np.pi * k * mains_hz * t + 0.7 * k)
+    return out
