@@ -179,8 +179,8 @@ def _stock_items(plan):
             counts = {}
             for s in g.sticks:
                 counts[s.stock_length] = counts.get(s.stock_length, 0) + 1
-            materials = sorted({s.material for s in plan.sets if s.section_text in g.group})
-            what = f"{', '.join(materials)}: {g.group}" if materials else g.group
+            # keyed on the group's material id, never on its display text (named in the plan's units)
+            what = f"{g.material}: {g.group}" if g.material else g.group
             for length, n in sorted(counts.items()):
                 prices = [s.price for s in g.sticks if s.stock_length == length]
                 cost = None if any(p is None for p in prices) else float(sum(prices))
@@ -190,7 +190,7 @@ def _stock_items(plan):
         rest = [p for p in s.pieces if p.label not in listed and kit_label(1, p.label) not in listed]
         if rest:
             total = sum(p.cut_length for p in rest) * max(1, getattr(plan, "copies", 1))
-            items.append(Item("stock", f"{s.material}, {s.section_text}", None, None, total,
+            items.append(Item("stock", f"{s.material}, {s.section_label(plan.units)}", None, None, total,
                               "the pieces' cut lengths added up; the design lists no stock, so buy this "
                               "plus saw kerf and end trim", suggestion=True))
     return items
