@@ -154,3 +154,21 @@ def test_inch_denominator_reaches_the_cut_list_csv(den, tmp_path):
     cut = {c.label: c for s in plan.cut_list.sticks for c in s.cuts}
     for r in rows:
         assert r["length_in"] == f"{_inches(cut[r['label']].length, den)} in"
+
+
+def test_cut_list_groups_and_the_shopping_list_key_on_material_and_section_not_on_text(tmp_path):
+    # two sets of the same tube in two alloys: the same section text, but a 6061 piece cannot be
+    # cut from a 6063 stick, so they are two groups, and each stock line names its own alloy
+    path, data = _design(tmp_path, "porch-chimes.toml", units="in")
+    second = dict(data["set"][0], name="porch-b", material="aluminum-6061-t6", notes=["D6", "E6"])
+    data["set"].append(second)
+    path.write_text(_toml(data), encoding="utf-8")
+    plan = cutplan.plan(cutplan.load_design(path))
+    material_of = {p.label: s.material for s in plan.sets for p in s.pieces}
+    groups = plan.cut_list.groups
+    assert sorted(g.material for g in groups) == ["aluminum-6061-t6", "aluminum-6063-t5"]
+    for g in groups:
+        assert {material_of[c.label] for st in g.sticks for c in st.cuts} == {g.material}
+        assert g.material in g.group  # two groups that would read the same are told apart
+    stock = [i.what for i in plan.shopping if i.group == "stock"]
+    assert {w.split(":")[0] for w in stock} == {"aluminum-6061-t6", "aluminum-6063-t5"}, stock
