@@ -14,7 +14,7 @@ from dataclasses import dataclass
 from cutplan.layout.cutlist import STATUS_WORDS
 from cutplan.units import INCH_DENOMINATOR, LengthParts, length_parts
 
-__all__ = ["MARKS_FROM", "CutRow", "CutListView", "StickRow", "cut_list_view"]
+__all__ = ["MARKS_FROM", "CutRow", "CutListView", "StickRow", "cut_list_view", "stick_lines", "stick_rows"]
 
 MARKS_FROM = "marks measured from the stick's factory end"
 """Where every mark on a stick is measured from."""
@@ -92,18 +92,37 @@ class CutListView:
                 f"utilisation {self.utilisation_text}" + (f"; cost {cost}" if cost else ""))
 
 
-def cut_list_view(cut_list, units="mm", denominator=INCH_DENOMINATOR):
-    """The :class:`CutListView` of a cut list, lengths in ``units`` first, inches to 1/``denominator``."""
+def stick_rows(sticks, units="mm", denominator=INCH_DENOMINATOR):
+    """:class:`StickRow` per stick, numbered from 1; ``sticks`` are (stock length [m], ((label,
+    start [m], length [m]), ...), offcut [m], group) as the cut list and the from-stock search
+    hold them."""
 
     def q(metres):
         return length_parts(metres, units, denominator)
 
-    sticks = tuple(
-        StickRow(i, stick.group, q(stick.stock_length),
-                 tuple(CutRow(k, c.label, q(c.start), q(c.start + c.length), q(c.length))
-                       for k, c in enumerate(stick.cuts, start=1)),
-                 q(stick.offcut))
-        for i, stick in enumerate(cut_list.sticks, start=1))
+    return tuple(
+        StickRow(i, group, q(stock_length),
+                 tuple(CutRow(k, label, q(start), q(start + size), q(size))
+                       for k, (label, start, size) in enumerate(cuts, start=1)),
+                 q(offcut))
+        for i, (stock_length, cuts, offcut, group) in enumerate(sticks, start=1))
+
+
+def stick_lines(row, show=str, indent="", width=22):
+    """One stick as text lines: the stick, each cut from where to where (and its length), the
+    offcut; ``show`` turns a length's parts into text (``str`` for both units, or the table cell)."""
+    out = [f"{indent}stick {row.number}, {show(row.length)}:"]
+    for c in row.cuts:
+        out.append(f"{indent}  {c.label:<12} from {show(c.start):>{width}} to {show(c.end):>{width}}  "
+                   f"({show(c.length)})")
+    out.append(f"{indent}  offcut {show(row.offcut)}")
+    return out
+
+
+def cut_list_view(cut_list, units="mm", denominator=INCH_DENOMINATOR):
+    """The :class:`CutListView` of a cut list, lengths in ``units`` first, inches to 1/``denominator``."""
+    sticks = stick_rows(((s.stock_length, ((c.label, c.start, c.length) for c in s.cuts), s.offcut, s.group)
+                         for s in cut_list.sticks), units, denominator)
     return CutListView(sticks, bool(cut_list.proven_optimal), cut_list.lower_bound,
-                       tuple((n, q(length)) for length, n in cut_list.sticks_by_length),
+                       tuple((n, length_parts(length, units, denominator)) for length, n in cut_list.sticks_by_length),
                        100 * cut_list.utilisation, cut_list.cost, cut_list.cost_lower_bound)

@@ -6,7 +6,7 @@ import textwrap
 
 from cutplan.render.hanging import hanging_lines
 from cutplan.render.phrases import other_modes_text
-from cutplan.render.stock_layout import cut_list_view
+from cutplan.render.stock_layout import cut_list_view, stick_lines
 from cutplan.units import INCH, INCH_DENOMINATOR, MM, format_length, length_cell, length_heading
 
 SAFETY_LINE = (
@@ -138,10 +138,7 @@ def render_stock(cut_list, units="mm", denominator=INCH_DENOMINATOR):
         if stick.group != group:
             group = stick.group
             out.append(f"  {group}:")
-        out.append(f"    stick {stick.number}, {stick.length.cell}:")
-        for c in stick.cuts:
-            out.append(f"      {c.label:<12} from {c.start.cell:>22} to {c.end.cell:>22}  ({c.length.cell})")
-        out.append(f"      offcut {stick.offcut.cell}")
+        out.extend(stick_lines(stick, lambda q: q.cell, "    "))
     out.append(f"  {view.summary}")
     return out
 
