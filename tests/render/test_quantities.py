@@ -172,3 +172,30 @@ def test_cut_list_groups_and_the_shopping_list_key_on_material_and_section_not_o
         assert g.material in g.group  # two groups that would read the same are told apart
     stock = [i.what for i in plan.shopping if i.group == "stock"]
     assert {w.split(":")[0] for w in stock} == {"aluminum-6061-t6", "aluminum-6063-t5"}, stock
+
+
+def _denominators(text):
+    """Every denominator of a fraction of an inch written in ``text`` ("20-3/8 in", "under 1/8 in")."""
+    return {int(d) for d in re.findall(r"(?<![\d/])\d+/(\d+) in\b", text)}
+
+
+def test_inch_denominator_8_reaches_terminal_csv_pdf_svg_and_page(tmp_path):
+    path, data = _design(tmp_path, "porch-chimes.toml", units="in", inch_denominator=8)
+    runner = CliRunner()
+    out = tmp_path / "packet"
+    assert runner.invoke(cli, ["plan", str(path), "-o", str(out)]).exit_code == 0
+    table = runner.invoke(cli, ["plan", str(path)]).output
+    cells = set(re.findall(r"(?<![\d/])\d+/(\d+) \(", table))  # table cells: "20-1/8 (511.8)"
+    texts = {
+        "terminal": table, "plan.csv": (out / "plan.csv").read_text(encoding="utf-8"),
+        "cutlist.csv": (out / "cutlist.csv").read_text(encoding="utf-8"),
+        "pdf": "\n".join(page.extract_text() for page in pypdf.PdfReader(out / "packet.pdf").pages),
+        "svg": "\n".join(t.text or "" for f in (out / "templates").glob("*.svg")
+                         for t in ET.parse(f).getroot().iter("{http://www.w3.org/2000/svg}text")),
+    }
+    html = create_app().test_client().post("/", data=form_from_mapping(data)).get_data(as_text=True)
+    texts["page"] = html[html.index('<section class="set-plan"'):]  # the preview, not the form's choices
+    for where, text in texts.items():
+        found = _denominators(text)
+        assert found and found <= {2, 4, 8}, (where, found)
+    assert cells and {int(d) for d in cells} <= {2, 4, 8}, cells

@@ -48,7 +48,7 @@ def _plate_page(c, page, plan, s):
         y = y_wrap - 10 * mm
     bottom = RULER_TOP + RULERS_HEIGHT + 8 * mm
     units, den = plan.units, plan.inch_denominator
-    note = (f"Plate {format_length(plate.diameter_mm * MM, units, den)} across, {plate_material(units)} (a suggestion). "
+    note = (f"Plate {format_length(plate.diameter_mm * MM, units, den)} across, {plate_material(units, den)} (a suggestion). "
             f"Drill the line holes {format_length(plate.hole_mm * MM, units, den)} on the "
             f"{format_length(2 * plate.pitch_radius_mm * MM, units, den)} circle, one per tube; {PLATE_HANGING}. "
             f"Dotted: {clearance_text(s.hanging, units, den)}.")
