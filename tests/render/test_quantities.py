@@ -199,3 +199,21 @@ def test_inch_denominator_8_reaches_terminal_csv_pdf_svg_and_page(tmp_path):
         found = _denominators(text)
         assert found and found <= {2, 4, 8}, (where, found)
     assert cells and {int(d) for d in cells} <= {2, 4, 8}, cells
+
+
+def test_the_cut_list_on_stock_is_worded_once_in_terminal_pdf_and_page(tmp_path):
+    path, data = _design(tmp_path, "porch-chimes.toml")
+    runner = CliRunner()
+    out = tmp_path / "packet"
+    assert runner.invoke(cli, ["plan", str(path), "-o", str(out)]).exit_code == 0
+    plan = cutplan.plan(cutplan.load_design(path))
+    status = "proven optimal" if plan.cut_list.proven_optimal else "best found, not proven optimal"
+    heading = f"Cut list on stock ({status}; marks measured from the stick's factory end"
+    bound = f"fewest possible {plan.cut_list.lower_bound};"
+    pdf = " ".join(" ".join(page.extract_text().split()) for page in pypdf.PdfReader(out / "packet.pdf").pages)
+    html = create_app().test_client().post("/", data=form_from_mapping(data)).get_data(as_text=True)
+    outputs = {"terminal": runner.invoke(cli, ["plan", str(path)]).output, "pdf": pdf,
+               "page": html.replace("&#39;", "'")}
+    for where, text in outputs.items():
+        assert heading in text and bound in text.replace("Fewest", "fewest"), where
+        assert "lower bound" not in text and "(not proven optimal)" not in text, where
