@@ -4,6 +4,7 @@ CHIME = '''# cutplan design: a starter chime set. Edit, then run: cutplan plan T
 # Scenario: six aluminium tubes for a balcony, in a G major pentatonic scale.
 title = "Balcony chime"
 units = "in"              # lengths shown first in "mm" or "in"
+# inch_denominator = 16   # inches to the nearest 1/8, 1/16, 1/32 (the default) or 1/64
 paper = "letter"          # "letter" or "a4" for the PDF packet
 
 [tuning]

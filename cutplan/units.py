@@ -21,6 +21,7 @@ from __future__ import annotations
 
 import math
 import re
+from dataclasses import dataclass
 from fractions import Fraction
 
 MM = 1e-3
@@ -351,7 +352,12 @@ def format_inches(metres, denominator=16, show_error=True):
 
 
 INCH_DENOMINATOR = 32
-"""Fractional inches are shown to the nearest 1/32 in everywhere (CSV, JSON, terminal, PDF)."""
+"""Fractional inches are shown to the nearest 1/32 in unless a design sets ``inch_denominator``."""
+INCH_DENOMINATORS = (8, 16, 32, 64)
+"""The fractions of an inch a design may ask lengths to be shown to (``inch_denominator``)."""
+UNDER_MM = 0.05
+"""Shortest length shown as "under 1/N in" rather than "0 in" [mm]: anything that still shows as
+0.1 mm is an amount a builder should act on."""
 
 
 def mm_text(metres):
@@ -364,12 +370,73 @@ def mm_text(metres):
 
 
 def inch_text(metres, denominator=INCH_DENOMINATOR):
-    """Fractional inches as every output shows them, without the unit.
+    """Fractional inches to the nearest 1/``denominator``, without the unit (no "under" rule).
 
     >>> inch_text(0.51487)
     '20-9/32'
     """
     return format_inches(metres, denominator, show_error=False)[:-3]
+
+
+@dataclass(frozen=True)
+class LengthParts:
+    """One length as the parts every output shows: the value [m], the unit shown first ("mm" or
+    "in") and the fraction of an inch it is rounded to.  Renderers take the parts they need
+    (``first``, ``second``, ``mm``, ``inch``) instead of cutting formatted text apart.
+
+    >>> q = LengthParts(0.51487, "in", 16)
+    >>> q.inch, q.mm, q.first, q.second
+    ('20-1/4', '514.9', '20-1/4 in', '514.9 mm')
+    >>> str(q), q.cell
+    ('20-1/4 in (514.9 mm)', '20-1/4 (514.9)')
+    >>> LengthParts(0.0003, "in").first
+    'under 1/32 in'
+    """
+
+    metres: float
+    units: str = "mm"
+    denominator: int = INCH_DENOMINATOR
+
+    @property
+    def mm(self):
+        """Millimetres to 0.1 mm, without the unit: ``"514.9"``."""
+        return mm_text(self.metres)
+
+    @property
+    def inch(self):
+        """Fractional inches without the unit: ``"20-9/32"``, or ``"under 1/32"`` for an amount
+        that rounds to 0 in but not to 0.0 mm (never "0 in" for something a builder should remove)."""
+        text = inch_text(self.metres, self.denominator)
+        if text in ("0", "-0") and abs(self.metres) >= UNDER_MM * MM:
+            return f"under 1/{self.denominator}"
+        return text
+
+    def part(self, unit):
+        """The length in one unit, with the unit: ``"514.9 mm"`` or ``"20-9/32 in"``."""
+        return f"{self.inch} in" if unit == "in" else f"{self.mm} mm"
+
+    @property
+    def first(self):
+        """The length in the unit shown first."""
+        return self.part(self.units)
+
+    @property
+    def second(self):
+        """The length in the other unit."""
+        return self.part("mm" if self.units == "in" else "in")
+
+    @property
+    def cell(self):
+        """For a table column whose heading names the units (:func:`length_heading`)."""
+        return f"{self.inch} ({self.mm})" if self.units == "in" else f"{self.mm} ({self.inch})"
+
+    def __str__(self):
+        return f"{self.first} ({self.second})"
+
+
+def length_parts(metres, units="mm", denominator=INCH_DENOMINATOR):
+    """The :class:`LengthParts` of a length shown in ``units`` first, inches to 1/``denominator``."""
+    return LengthParts(float(metres), units, denominator)
 
 
 def format_length(metres, units="mm", denominator=INCH_DENOMINATOR):
@@ -382,12 +449,7 @@ def format_length(metres, units="mm", denominator=INCH_DENOMINATOR):
     >>> format_length(0.0003, "in")
     'under 1/32 in (0.3 mm)'
     """
-    inch, mm = inch_text(metres, denominator), mm_text(metres)
-    if inch in ("0", "-0") and abs(metres) >= 0.05 * MM:
-        inch = f"under 1/{denominator}"  # never "0 in" for an amount a builder should remove
-    if units == "in":
-        return f"{inch} in ({mm} mm)"
-    return f"{mm} mm ({inch} in)"
+    return str(length_parts(metres, units, denominator))
 
 
 def length_cell(metres, units="mm", denominator=INCH_DENOMINATOR):
@@ -395,9 +457,10 @@ def length_cell(metres, units="mm", denominator=INCH_DENOMINATOR):
 
     >>> length_cell(0.51487, "in")
     '20-9/32 (514.9)'
+    >>> length_cell(0.0003, "in", 16)
+    'under 1/16 (0.3)'
     """
-    inch, mm = inch_text(metres, denominator), mm_text(metres)
-    return f"{inch} ({mm})" if units == "in" else f"{mm} ({inch})"
+    return length_parts(metres, units, denominator).cell
 
 
 def length_heading(units="mm"):

@@ -7,6 +7,8 @@ import re
 import click
 
 from cutplan.cli.common import MATERIALS_OPTION, fail, write_file
+from cutplan.render.stock_layout import stick_lines, stick_rows
+from cutplan.units import INCH_DENOMINATOR, length_parts
 
 HAVE_FORMS = '"LENGTH [x COUNT]" with a unit, e.g. "8 ft x 2", "2.4 m" or "600 mm x 3"'
 _HAVE = re.compile(r"\s*(.+?)\s*(?:[x×*]\s*(-?\d+))?\s*")
@@ -102,12 +104,10 @@ def _option_error(error):
 
 
 def _render(result, heard=False):
-    from cutplan.units import format_length
-
     units = result.units
 
     def length(m):
-        return format_length(m, units, 32)
+        return str(length_parts(m, units, INCH_DENOMINATOR))
 
     head = ["#", "root", "scale", "notes", "lowest", "highest", "sticks", "offcut", "utilisation"]
     rows = [[str(i), c.root, c.scale, str(c.count), c.lowest, c.highest, str(c.sticks_used), length(c.offcut),
@@ -123,11 +123,8 @@ def _render(result, heard=False):
     c = result.chosen
     out += ["", f"chosen: {c.count} notes of {c.root} {c.scale} ({c.lowest} to {c.highest}), "
                 f"planned and laid out{' (layout proven optimal)' if c.proven_optimal else ''}:"]
-    for i, (stock_length, cuts, offcut) in enumerate(c.sticks, start=1):
-        out.append(f"  stick {i}, {length(stock_length)}:")
-        for label, start, piece in cuts:
-            out.append(f"    {label:10} {length(piece)} from {length(start)}")
-        out.append(f"    {'offcut':10} {length(offcut)}")
+    for row in stick_rows(((*stick, "") for stick in c.sticks), units, INCH_DENOMINATOR):
+        out.extend(stick_lines(row, str, "  ", 0))
     out += [f"note: {n}" for n in result.notes]
     if heard:
         out.append("note: roots and notes are strike notes (the pitch heard, about half the mode-4 frequency)")

@@ -88,8 +88,8 @@ def cutlist_command(design, stock_texts, kerf, end_trim, units, fmt, materials_d
     if fmt == "csv":
         from cutplan.render.table import render_cutlist_csv
 
-        click.echo(render_cutlist_csv(the_plan.cut_list), nl=False)
+        click.echo(render_cutlist_csv(the_plan.cut_list, the_plan.inch_denominator), nl=False)
         return
     from cutplan.render.terminal import render_stock
 
-    click.echo("\n".join(render_stock(the_plan.cut_list, the_plan.units)))
+    click.echo("\n".join(render_stock(the_plan.cut_list, the_plan.units, the_plan.inch_denominator)))

@@ -49,7 +49,8 @@ __all__ = [
     "read_design_file", "stock_from_options",
 ]
 
-TOP_KEYS = {"title", "units", "paper", "tuning", "set", "stock", "material_dirs", "classroom", "copies"}
+TOP_KEYS = {"title", "units", "inch_denominator", "paper", "tuning", "set", "stock", "material_dirs", "classroom",
+            "copies"}
 MAX_COPIES = 100
 """Most identical kits planned at once [-] (a large class; more is a typing error)."""
 TUNING_KEYS = {"a4", "temperament", "spelling"}
@@ -84,6 +85,16 @@ def _choice(data, key, choices, col):
         col.add(key, value, "must be " + " or ".join(f'"{c}"' for c in choices))
         return choices[0]
     return value
+
+
+def _inch_denominator(data, col):
+    """``inch_denominator = 16``: the fraction of an inch every output rounds inches to."""
+    value = data.get("inch_denominator", units.INCH_DENOMINATOR)
+    if isinstance(value, bool) or value not in units.INCH_DENOMINATORS:
+        allowed = ", ".join(str(d) for d in units.INCH_DENOMINATORS[:-1]) + f" or {units.INCH_DENOMINATORS[-1]}"
+        col.add("inch_denominator", value, f"must be {allowed} (inches shown to the nearest 1/N)")
+        return units.INCH_DENOMINATOR
+    return int(value)
 
 
 def _tuning(tuning, col):
@@ -178,6 +189,7 @@ def design_from_mapping(data, library_loader, path="(design)", base_dir=None):
     col.unknown(data, TOP_KEYS, "")
     title = _title(data, path, col)
     shown_units = _choice(data, "units", ("mm", "in"), col)
+    denominator = _inch_denominator(data, col)
     paper = _choice(data, "paper", ("letter", "a4"), col)
     a4, temperament = _tuning(data.get("tuning", {}), col)
     base = Path(base_dir) if base_dir is not None else Path(path).parent
@@ -195,7 +207,7 @@ def design_from_mapping(data, library_loader, path="(design)", base_dir=None):
     if col.errors:
         raise DesignErrors(col.errors)
     return Design(
-        path=str(path), title=title, units=shown_units, paper=paper, a4=a4,
+        path=str(path), title=title, units=shown_units, inch_denominator=denominator, paper=paper, a4=a4,
         temperament=temperament, sets=tuple(sets), stock=stock, material_dirs=tuple(dirs),
         classroom=classroom, copies=copies,
     ), library

@@ -10,6 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from cutplan import pitch, units
+from cutplan.units import INCH_DENOMINATOR
 from cutplan.design.text import shown
 from cutplan.physics.sections import Section
 
@@ -141,6 +142,7 @@ class Design:
     path: str
     title: str
     units: str = "mm"
+    inch_denominator: int = INCH_DENOMINATOR  # inches shown to the nearest 1/N (8, 16, 32 or 64)
     paper: str = "letter"
     a4: float = pitch.A4_FREQUENCY
     temperament: str = "equal"

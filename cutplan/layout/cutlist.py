@@ -1,7 +1,9 @@
 """Lay a plan's pieces on the stock on hand: the plan's cut list, in SI.
 
-Pieces are grouped by section and stock table (groups are named in the design's units) (one group per set's section, or per set with
-its own ``[set.stock]``); each group is laid out by the pure optimiser in :mod:`cutplan.layout.optimiser`.
+Pieces are grouped by data: the material id, the section (its stock id and sizes) and the stock
+table (the design's, or a set's own ``[set.stock]``), never by display text; a group is named
+in the design's units for the builder.  Each group is laid out by the pure optimiser in
+:mod:`cutplan.layout.optimiser`.
 The cut lengths are the pieces' own ``cut_length`` floats, so every renderer formats the same
 number the plan table shows.
 """
@@ -11,6 +13,9 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from cutplan.layout import optimiser
+
+STATUS_WORDS = {True: "proven optimal", False: "best found, not proven optimal"}
+"""How every output words whether a layout is proven optimal."""
 
 
 @dataclass(frozen=True)
@@ -48,6 +53,10 @@ class CutGroup:
     cost_lower_bound: float | None = None
     """Least any layout of the group can cost (priced stock), so the gap of a layout not proven
     optimal is stated."""
+    material: str = ""
+    """The material id every piece of the group is cut from (the shopping list names it)."""
+    sets: tuple = ()
+    """Names of the sets whose pieces the group holds."""
 
 
 @dataclass(frozen=True)
@@ -61,8 +70,7 @@ class CutList:
         """The layout in a few lines (mm), for a quick look from Python."""
         lines = []
         for g in self.groups:
-            proven = "proven optimal" if g.proven_optimal else "not proven optimal"
-            lines.append(f"{g.group}: {len(g.sticks)} stick(s), {proven}")
+            lines.append(f"{g.group}: {len(g.sticks)} stick(s), {STATUS_WORDS[g.proven_optimal]}")
             for i, s in enumerate(g.sticks, start=1):
                 cuts = ", ".join(f"{c.label} {c.length * 1000:.1f} at {c.start * 1000:.1f}" for c in s.cuts)
                 lines.append(f"  stick {i} ({s.stock_length * 1000:.1f} mm): {cuts}; offcut {s.offcut * 1000:.1f}")
@@ -111,21 +119,41 @@ class CutList:
         return tuple(sorted(counts.items()))
 
 
+def section_key(section):
+    """The data a cut-list group is keyed on for a section: its stock id, shape and sizes [m]."""
+    return (section.name, section.shape, section.outer, section.inner, section.width, section.thickness)
+
+
 def stock_groups(sets, specs, design_stock, override=None, units="mm"):
-    """{group name: (StockSpec, [pieces])} for the sets whose stock lists lengths."""
+    """{group name: (StockSpec, [pieces], material, (set names))} for the sets whose stock lists
+    lengths.  Sets share a group when they share the material, the section and the stock table;
+    the name is the section in ``units``, with the material or the owning set added only where
+    two groups would read the same."""
     groups = {}
+    labels = {}
     for s in sets:
         spec = specs[s.name]
         stock = override or spec.stock or design_stock
         if stock is None or not stock.lengths:
             continue
         own = spec.stock is not None and override is None
-        key = (s.section_label(units), s.name if own else "")
-        groups.setdefault(key, (stock, []))[1].extend(s.pieces)
-    texts = [text for text, _ in groups]
-    # a set with its own stock joins the name only where two groups would read the same
-    return {(text if texts.count(text) == 1 else f"{text} ({owner or 'shared stock'})"): value
-            for (text, owner), value in groups.items()}
+        key = (s.material, section_key(s.section), s.name if own else "")
+        labels.setdefault(key, s.section_label(units))
+        entry = groups.setdefault(key, (stock, [], []))
+        entry[1].extend(s.pieces)
+        entry[2].append(s.name)
+    out = {}
+    for key, (stock, pieces, names) in groups.items():
+        material, _, owner = key
+        same = [k for k in groups if labels[k] == labels[key]]
+        extra = []
+        if len({k[0] for k in same}) > 1:
+            extra.append(material)
+        if len({k[2] for k in same}) > 1:
+            extra.append(owner or "shared stock")
+        name = labels[key] + (f" ({', '.join(extra)})" if extra else "")
+        out[name] = (stock, pieces, material, tuple(names))
+    return out
 
 
 def lay_out(sets, specs, design_stock, override=None, time_limit=optimiser.DEFAULT_TIME_LIMIT, units="mm"):
@@ -137,7 +165,7 @@ def lay_out(sets, specs, design_stock, override=None, time_limit=optimiser.DEFAU
     if not groups:
         return None
     out = []
-    for name, (stock, pieces) in groups.items():
+    for name, (stock, pieces, material, names) in groups.items():
         items = [optimiser.Item(p.label, p.cut_length) for p in pieces]
         types = [optimiser.StockType(x.length, x.count, x.price) for x in stock.lengths]
         try:
@@ -149,5 +177,5 @@ def lay_out(sets, specs, design_stock, override=None, time_limit=optimiser.DEFAU
                         s.offcut, name, s.price)
             for s in result.sticks)
         out.append(CutGroup(name, sticks, result.lower_bound, bool(result.proven_optimal), result.method,
-                            result.cost, stock.kerf, stock.end_trim, result.cost_lower_bound))
+                            result.cost, stock.kerf, stock.end_trim, result.cost_lower_bound, material, names))
     return CutList(tuple(out))

@@ -356,6 +356,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
     except stock.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
     from cutplan.planning.shopping import with_shop_lists  # noqa: I001 (shopping list and cautions)
-    return with_shop_lists(Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
+    return with_shop_lists(Plan(title=design.title, units=design.units, inch_denominator=design.inch_denominator,
+                paper=design.paper, a4=design.a4,
                 temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts,
                 classroom=design.classroom, copies=design.copies))

@@ -40,9 +40,9 @@ def round_in_unit(metres, shown="mm"):
     return max(step, round(metres / step) * step)
 
 
-def plate_material(shown="mm"):
+def plate_material(shown="mm", den=units.INCH_DENOMINATOR):
     """What a hanging plate is usually made of, in the plan's units (common practice; a suggestion)."""
-    wood, metal = (units.format_length(t, shown) for t in PLATE_THICKNESS.get(shown, PLATE_THICKNESS["mm"]))
+    wood, metal = (units.format_length(t, shown, den) for t in PLATE_THICKNESS.get(shown, PLATE_THICKNESS["mm"]))
     return f"{wood} exterior plywood or hardwood, or {metal} aluminium sheet"
 
 
@@ -179,8 +179,8 @@ def _stock_items(plan):
             counts = {}
             for s in g.sticks:
                 counts[s.stock_length] = counts.get(s.stock_length, 0) + 1
-            materials = sorted({s.material for s in plan.sets if s.section_text in g.group})
-            what = f"{', '.join(materials)}: {g.group}" if materials else g.group
+            # keyed on the group's material id, never on its display text (named in the plan's units)
+            what = f"{g.material}: {g.group}" if g.material else g.group
             for length, n in sorted(counts.items()):
                 prices = [s.price for s in g.sticks if s.stock_length == length]
                 cost = None if any(p is None for p in prices) else float(sum(prices))
@@ -190,7 +190,7 @@ def _stock_items(plan):
         rest = [p for p in s.pieces if p.label not in listed and kit_label(1, p.label) not in listed]
         if rest:
             total = sum(p.cut_length for p in rest) * max(1, getattr(plan, "copies", 1))
-            items.append(Item("stock", f"{s.material}, {s.section_text}", None, None, total,
+            items.append(Item("stock", f"{s.material}, {s.section_label(plan.units)}", None, None, total,
                               "the pieces' cut lengths added up; the design lists no stock, so buy this "
                               "plus saw kerf and end trim", suggestion=True))
     return items
@@ -218,7 +218,7 @@ def h_limit():
     return BEAT_LIMIT_HZ
 
 
-def _chime_items(s, rows, shown="mm", copies=1):
+def _chime_items(s, rows, shown="mm", copies=1, den=units.INCH_DENOMINATOR):
     from cutplan.planning.hanging import SAIL_DROP
     from cutplan.planning.hanging_load import buy_text, mass_text
 
@@ -227,9 +227,9 @@ def _chime_items(s, rows, shown="mm", copies=1):
     row = hang_hole_for(s.outer, rows) if s.shape in ("tube", "rod") else None
     names = sorted({line.row.what for line in load.lines})
     buy = load.line_to_buy(shown, copies)
-    each = f" per kit, {units.format_length(copies * load.line_total, shown)} for {copies} kits" if copies > 1 else ""
+    each = f" per kit, {units.format_length(copies * load.line_total, shown, den)} for {copies} kits" if copies > 1 else ""
     items = [Item("hanging", f"hanging line for {s.name}: {' and '.join(names)}", None, None, buy,
-                  f"{units.format_length(load.line_total, shown)} cut with knots{each} (see the Hanging page); buy "
+                  f"{units.format_length(load.line_total, shown, den)} cut with knots{each} (see the Hanging page); buy "
                   f"{buy_text(buy, shown)}; chosen for {load.safety_factor:g} x the load "
                   f"({load.safety_source}); ratings from memory, check the maker's label", suggestion=True,
                   buy=buy_text(buy, shown))]
@@ -243,16 +243,16 @@ def _chime_items(s, rows, shown="mm", copies=1):
     hook = load.hook.what if load.hook is not None else "a fixing designed for the load by a qualified person"
     items += [
         Item("hanging", f"hanging plate for {s.name}", 1, h.plate_diameter, None,
-             f"across; {plate_material(shown)}", suggestion=True),
+             f"across; {plate_material(shown, den)}", suggestion=True),
         Item("hanging", "top ring or swivel and the fixing it hangs from", 1, None, None,
              f"whole set {mass_text(load.mass)}: rated {load.hook_rating:.0f} kg or more "
              f"({load.safety_factor:g} x); {hook}; {PLATE_HANGING}"),
         Item("hanging", "striker disc", 1, h.striker_diameter, None,
-             f"across, {units.format_length(h.striker_thickness, shown)} hardwood, on the centre line "
-             f"{units.format_length(h.striker_height, shown)} below the tube tops", suggestion=True),
+             f"across, {units.format_length(h.striker_thickness, shown, den)} hardwood, on the centre line "
+             f"{units.format_length(h.striker_height, shown, den)} below the tube tops", suggestion=True),
         Item("hanging", "wind sail", 1, h.sail.side, None,
              f"square, 3 mm acrylic or thin plywood, on the striker line "
-             f"{units.format_length(SAIL_DROP, shown)} below the longest tube", suggestion=True),
+             f"{units.format_length(SAIL_DROP, shown, den)} below the longest tube", suggestion=True),
     ]
     return items
 
@@ -293,7 +293,7 @@ def shopping_list(plan, rows=None):
     parts = []
     for s in plan.sets:
         if s.kind == "chime":
-            parts += _chime_items(s, rows, plan.units, copies)
+            parts += _chime_items(s, rows, plan.units, copies, plan.inch_denominator)
         elif s.kind == "bar":
             parts += _bar_items(s)
         else:

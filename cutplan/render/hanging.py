@@ -5,7 +5,7 @@ number is a field of the set's ``hanging`` (cutplan.planning.hanging)."""
 from __future__ import annotations
 
 from cutplan.planning.hanging_load import KNOT_EFFICIENCY, buy_text, mass_text
-from cutplan.units import format_length
+from cutplan.units import INCH_DENOMINATOR, format_length
 
 MODE_WORDS = {(1,): "the fundamental", (1, 4, 5, 6): "the fundamental and modes 4-6 (the strike note)"}
 
@@ -14,7 +14,7 @@ def _mm(x, nd=1):
     return None if x is None else round(float(x) * 1000, nd)
 
 
-def hanging_dict(h, shown="mm"):
+def hanging_dict(h, shown="mm", den=INCH_DENOMINATOR):
     """The set's ``hanging`` in the JSON contract (mm, g, N, m/s)."""
     sail = h.sail
     load = h.load
@@ -28,7 +28,7 @@ def hanging_dict(h, shown="mm"):
         "striker_thickness_mm": _mm(h.striker_thickness),
         "striker_mass_g": round(h.striker_mass * 1000, 1),
         "striker_height_mm": _mm(h.striker_height),
-        "striker_height_reason": height_reason(h, "mm"),
+        "striker_height_reason": height_reason(h, "mm", den),
         "strike_fractions": [round(x, 4) for x in h.strike_fractions],
         "strike_modes": list(h.strike_modes),
         "clearance_min_mm": _mm(h.clearance_min),
@@ -57,20 +57,20 @@ def hanging_dict(h, shown="mm"):
     }
 
 
-def height_reason(h, shown="mm"):
+def height_reason(h, shown="mm", den=INCH_DENOMINATOR):
     """One line: where the striker hangs and why."""
     lo, hi = min(h.strike_fractions), max(h.strike_fractions)
     modes = MODE_WORDS.get(tuple(h.strike_modes), f"modes {', '.join(map(str, h.strike_modes))}")
-    return (f"striker centre {format_length(h.striker_height, shown)} below the tube tops: it meets every "
+    return (f"striker centre {format_length(h.striker_height, shown, den)} below the tube tops: it meets every "
             f"tube at {lo * 100:.0f}-{hi * 100:.0f} % of its length, where {modes} moves at least "
             f"{h.strike_score * 100:.0f} % as much as at a free end, clear of the nodes "
             "(free-free beam mode shapes)")
 
 
-def sail_text(h, shown="mm"):
+def sail_text(h, shown="mm", den=INCH_DENOMINATOR):
     """One line: the sail and the breeze it is sized for."""
     s = h.sail
-    head = (f"sail {format_length(s.side, shown)} square, 3 mm acrylic ({s.mass * 1000:.0f} g), sized so a "
+    head = (f"sail {format_length(s.side, shown, den)} square, 3 mm acrylic ({s.mass * 1000:.0f} g), sized so a "
             f"{s.breeze:g} m/s breeze pushes {s.drag:.3f} N (1/2 rho Cd A v^2, Cd {s.drag_coefficient:g} for a "
             f"flat plate, Hoerner 1965), {s.drag / s.contact_push:.1f} x the {s.contact_push:.3f} N that swings "
             f"the striker to the tubes; it starts to strike at about {s.lightest_breeze:.1f} m/s")
@@ -87,32 +87,33 @@ def weight_text(h):
             f"top fixing rated {load.hook_rating:.0f} kg or more ({load.safety_factor:g} x the weight): {hook}")
 
 
-def lines_text(h, shown="mm"):
+def lines_text(h, shown="mm", den=INCH_DENOMINATOR):
     """One line: the lines to cut and what to buy."""
     load = h.load
-    parts = [f"{line.count} x {format_length(line.each, shown)} {line.role}" for line in load.lines]
-    return (f"lines: {'; '.join(parts)}; {format_length(load.line_total, shown)} in all with knots, "
+    parts = [f"{line.count} x {format_length(line.each, shown, den)} {line.role}" for line in load.lines]
+    return (f"lines: {'; '.join(parts)}; {format_length(load.line_total, shown, den)} in all with knots, "
             f"buy {buy_text(load.line_to_buy(shown), shown)}")
 
 
-def plate_text(h, shown="mm"):
+def plate_text(h, shown="mm", den=INCH_DENOMINATOR):
     """One line: plate, hole circle and striker sizes, and the clearances they leave."""
     gap = ("" if h.tube_gap is None
-           else f", tubes {format_length(h.tube_gap, shown)} apart (at least {format_length(h.tube_gap_min, shown)})")
-    return (f"plate {format_length(h.plate_diameter, shown)} across, holes on a "
-            f"{format_length(h.hole_circle_diameter, shown)} circle; striker disc "
-            f"{format_length(h.striker_diameter, shown)} x {format_length(h.striker_thickness, shown)} "
-            f"({h.striker_mass * 1000:.0f} g), {format_length(h.striker_clearance, shown)} clear of the tubes "
-            f"(at least {format_length(h.clearance_min, shown)}){gap}")
+           else f", tubes {format_length(h.tube_gap, shown, den)} apart (at least {format_length(h.tube_gap_min, shown, den)})")
+    return (f"plate {format_length(h.plate_diameter, shown, den)} across, holes on a "
+            f"{format_length(h.hole_circle_diameter, shown, den)} circle; striker disc "
+            f"{format_length(h.striker_diameter, shown, den)} x {format_length(h.striker_thickness, shown, den)} "
+            f"({h.striker_mass * 1000:.0f} g), {format_length(h.striker_clearance, shown, den)} clear of the tubes "
+            f"(at least {format_length(h.clearance_min, shown, den)}){gap}")
 
 
-def hanging_lines(h, shown="mm"):
+def hanging_lines(h, shown="mm", den=INCH_DENOMINATOR):
     """Every hanging phrase, in page order: plate and striker, striker height, sail, lines, weight."""
-    return (plate_text(h, shown), height_reason(h, shown), sail_text(h, shown), lines_text(h, shown), weight_text(h))
+    return (plate_text(h, shown, den), height_reason(h, shown, den), sail_text(h, shown, den), lines_text(h, shown, den),
+            weight_text(h))
 
 
-def clearance_text(h, shown="mm"):
+def clearance_text(h, shown="mm", den=INCH_DENOMINATOR):
     """Short: what the dotted outlines on the plate show, with the clearances."""
-    gap = "" if h.tube_gap is None else f"; tubes {format_length(h.tube_gap, shown)} apart"
-    return (f"the striker disc ({format_length(h.striker_diameter, shown)}) and the tubes below it, "
-            f"{format_length(h.striker_clearance, shown)} clear{gap}")
+    gap = "" if h.tube_gap is None else f"; tubes {format_length(h.tube_gap, shown, den)} apart"
+    return (f"the striker disc ({format_length(h.striker_diameter, shown, den)}) and the tubes below it, "
+            f"{format_length(h.striker_clearance, shown, den)} clear{gap}")

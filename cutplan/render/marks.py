@@ -12,7 +12,7 @@ import math
 from dataclasses import dataclass
 
 from cutplan.planning.shopping import hanging_plate  # noqa: F401 (the plate geometry, re-exported for renderers)
-from cutplan.units import MM, format_length
+from cutplan.units import INCH_DENOMINATOR, MM, format_length
 
 TICK_STEP_MM = 10
 """Ticks along a strip every 10 mm [mm]."""
@@ -53,12 +53,12 @@ class Mark:
     label: str
 
 
-def length_text(mm, units="mm"):
-    """"113.1 mm (4-7/16 in)": both units, the plan's first, as the shop reads them."""
-    return format_length(mm * MM, units, 32)
+def length_text(mm, units="mm", den=INCH_DENOMINATOR):
+    """"113.1 mm (4-7/16 in)": both units, the plan's first, inches to 1/``den``, as the shop reads them."""
+    return format_length(mm * MM, units, den)
 
 
-def piece_marks(piece, units="mm"):
+def piece_marks(piece, units="mm", den=INCH_DENOMINATOR):
     """Marks along a piece from its reference end.
 
     Chimes: both ends, the centre, the hang holes, the rough cut beyond the bottom end.  Bars:
@@ -70,47 +70,47 @@ def piece_marks(piece, units="mm"):
     if piece.stopper:
         marks = [Mark(0.0, "end", "OPEN END 0")]
         for t, depth in piece.stopper:
-            marks.append(Mark(depth / MM, "stopper", f"stopper {t - 273.15:.0f} C: {length_text(depth / MM, units)}"))
+            marks.append(Mark(depth / MM, "stopper", f"stopper {t - 273.15:.0f} C: {length_text(depth / MM, units, den)}"))
         cut = piece.cut_length / MM
-        marks.append(Mark(cut, "cut-tube", f"CUT TUBE {length_text(cut, units)} (stopper end)"))
+        marks.append(Mark(cut, "cut-tube", f"CUT TUBE {length_text(cut, units, den)} (stopper end)"))
         return sorted(marks, key=lambda m: m.at_mm)
     capped = piece.kind == "resonator" or piece.model == "closed-open"
     if piece.kind == "bar":
-        return _bar_marks(piece, units)
+        return _bar_marks(piece, units, den)
     top = {"chime": "TOP END"}.get(piece.kind, "OPEN END" if capped else "END")
     node_word = "hang hole" if piece.kind == "chime" else "support"
     far = "CAPPED END" if capped and piece.kind != "chime" else "END"
-    marks = [Mark(0.0, "end", f"{top} 0"), Mark(length, "end", f"{far} {length_text(length, units)}")]
+    marks = [Mark(0.0, "end", f"{top} 0"), Mark(length, "end", f"{far} {length_text(length, units, den)}")]
     if piece.kind == "chime":
         marks.append(Mark(length / 2, "centre", "centre"))
     for i, x in enumerate(piece.nodes, start=1):
         if piece.kind == "chime":  # one hang hole, at the top node; the lower node is only shown
             kind, label = ("node", "hang hole") if i == 1 else ("lower-node", "lower node (no hole)")
-            marks.append(Mark(x / MM, kind, f"{label}: {length_text(x / MM, units)}"))
+            marks.append(Mark(x / MM, kind, f"{label}: {length_text(x / MM, units, den)}"))
         else:
-            marks.append(Mark(x / MM, "node", f"{node_word} {i}: {length_text(x / MM, units)}"))
+            marks.append(Mark(x / MM, "node", f"{node_word} {i}: {length_text(x / MM, units, den)}"))
     cut = piece.cut_length / MM
     if cut > length + 0.05:
-        marks.append(Mark(cut, "rough-cut", f"rough cut {length_text(cut, units)}"))
+        marks.append(Mark(cut, "rough-cut", f"rough cut {length_text(cut, units, den)}"))
     return sorted(marks, key=lambda m: m.at_mm)
 
 
-def _bar_marks(piece, units):
+def _bar_marks(piece, units, den=INCH_DENOMINATOR):
     """A bar's strip, laid from one rough-cut end: half the allowance beyond each finished end
     (the tuning sheet trims half from each end), the centre line, and the supports measured from
     the centre line, so that supports marked on the rough blank land on the finished bar's nodes."""
     length = piece.length / MM
     shift = piece.mark_offset / MM
     centre = shift + length / 2
-    marks = [Mark(shift, "end", "END A"), Mark(shift + length, "end", f"END B {length_text(length, units)}"),
+    marks = [Mark(shift, "end", "END A"), Mark(shift + length, "end", f"END B {length_text(length, units, den)}"),
              Mark(centre, "centre", "centre line")]
     for i, x in enumerate(piece.nodes, start=1):
         d = abs(length / 2 - x / MM)
-        marks.append(Mark(shift + x / MM, "node", f"support {i}: {length_text(d, units)} from centre"))
+        marks.append(Mark(shift + x / MM, "node", f"support {i}: {length_text(d, units, den)} from centre"))
     if shift > 0.025:
         cut = piece.cut_length / MM
         # the rough cut at 0 is the strip's own end (named in the strip's title): no label to crowd END A
-        marks += [Mark(0.0, "rough-cut", ""), Mark(cut, "rough-cut", f"rough cut {length_text(cut, units)}")]
+        marks += [Mark(0.0, "rough-cut", ""), Mark(cut, "rough-cut", f"rough cut {length_text(cut, units, den)}")]
     return sorted(marks, key=lambda m: m.at_mm)
 
 

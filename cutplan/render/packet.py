@@ -23,6 +23,6 @@ def plan_files(plan, paper=None):
     packet.pdf and templates/*.svg."""
     files = {"plan.csv": render_csv(plan), "plan.json": render_json(plan)}
     if plan.cut_list is not None:
-        files["cutlist.csv"] = render_cutlist_csv(plan.cut_list)
+        files["cutlist.csv"] = render_cutlist_csv(plan.cut_list, plan.inch_denominator)
     files.update(packet_files(plan, paper))
     return files

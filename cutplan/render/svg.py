@@ -23,7 +23,7 @@ import math
 import svgwrite
 
 from cutplan.render import marks as mk
-from cutplan.units import MM
+from cutplan.units import INCH_DENOMINATOR, MM, format_length
 
 HAIRLINE = 0.1
 """Stroke width for cut and mark lines [mm]."""
@@ -103,10 +103,10 @@ def _rulers(doc, x, y):
 def render_piece_svg(plan, piece, colours=None):
     """Full-length marking strip for one piece (and an arched bar's side profile): ends, centre,
     nodes with cross-hairs, rough cut, or a stoppered tube's stopper depths and open end."""
-    units = plan.units
+    units, den = plan.units, plan.inch_denominator
     length = mk.strip_length_mm(piece)
     strip_h = 20.0
-    labels = mk.assign_lanes(mk.piece_marks(piece, units), 0.0, length,
+    labels = mk.assign_lanes(mk.piece_marks(piece, units, den), 0.0, length,
                              lambda t: len(t) * CHAR_WIDTH * LABEL, LANE)
     lanes = max((lane for _, lane, _ in labels), default=-1) + 1
     label_h = lanes * LANE + 3
@@ -126,14 +126,14 @@ def render_piece_svg(plan, piece, colours=None):
              (MARGIN, MARGIN + 9), 2.5)
     body = piece.cut_length / MM if piece.stopper else piece.length / MM
     doc.rect((x0 + piece.mark_offset / MM, y0), (body, strip_h), role="cut")
-    near = [m.at_mm for m in mk.piece_marks(piece, units)]
+    near = [m.at_mm for m in mk.piece_marks(piece, units, den)]
     for j in mk.join_marks(0.0, length, 1, 1, 0.0):
         tick = 5 if j.number else 3
         doc.line((x0 + j.at, y0 + strip_h), (x0 + j.at, y0 + strip_h - tick))
         if j.number and 0 < j.at < length - 3 and all(abs(j.at - x) >= 5 for x in near):
             doc.text(f"{j.at:.0f}", (x0 + j.at, y0 + strip_h - 6), 2, anchor="middle")
     lane_of = {(m.at_mm, m.kind): (lane, side) for m, lane, side in labels}
-    for m in mk.piece_marks(piece, units):
+    for m in mk.piece_marks(piece, units, den):
         x = x0 + m.at_mm
         lane, side = lane_of.get((m.at_mm, m.kind), (None, None))
         base = y0 - 1.2 - (lane or 0) * LANE
@@ -147,22 +147,24 @@ def render_piece_svg(plan, piece, colours=None):
                      anchor="start" if side == "right" else "end")
     y = y0 + strip_h + 12
     if piece.arch is not None:
-        _profile(doc, piece, x0, y + 4)
+        _profile(doc, piece, x0, y + 4, units, den)
         y += profile_h
     _rulers(doc, MARGIN, y + 2)
     return doc.tostring()
 
 
-def _profile(doc, piece, x0, top):
-    """Full-size side view of an arched bar: top face straight, underside following the arch."""
+def _profile(doc, piece, x0, top, units="mm", den=INCH_DENOMINATOR):
+    """Full-size side view of an arched bar: top face straight, underside following the arch
+    (the numbers under it are the thickness left at each station, in mm)."""
     a = piece.arch
     t = a.thickness / MM
     points = [(x0 + x / MM, top + h / MM) for x, h in a.outline]
     outline = [(x0, top)] + points + [(x0 + piece.length / MM, top)]
     doc.polyline(outline + [(x0, top)], role="cut")
     doc.line((x0, top + t), (x0 + piece.length / MM, top + t), kind="centre")
-    doc.text(f"side profile, full size: arch {a.depth / MM:.1f} mm deep, leaves "
-             f"{(a.thickness - a.depth) / MM:.1f} mm at the centre (dashed: the blank's underside)", (x0, top - 2), 2.5)
+    doc.text(f"side profile, full size: arch {format_length(a.depth, units, den)} deep, leaves "
+             f"{format_length(a.thickness - a.depth, units, den)} at the centre; numbers: the thickness left (mm) "
+             "(dashed: the blank's underside)", (x0, top - 2), 2.5)
     last = -1e9
     for x, h in a.stations[1:]:
         at = x0 + x / MM
@@ -181,12 +183,13 @@ def render_plate_svg(plan, set_plan, colours=None):
     doc = _Doc(size, height, colours)
     cx, cy = MARGIN + plate.diameter_mm / 2, MARGIN + 15 + plate.diameter_mm / 2
     kits = getattr(plan, "copies", 1)
-    doc.text(f"{plan.title}: hanging plate for {set_plan.name}, {plate.diameter_mm:.0f} mm across"
-             + (f", make {kits}" if kits > 1 else ""),
+    units, den = plan.units, plan.inch_denominator
+    doc.text(f"{plan.title}: hanging plate for {set_plan.name}, {format_length(plate.diameter_mm * MM, units, den)} "
+             "across" + (f", make {kits}" if kits > 1 else ""),
              (MARGIN, MARGIN + 3), 4)
     doc.text("Print or cut at 100 %; check the rulers. Drill all holes "
-             f"{plate.hole_mm:g} mm; S: the plate's own hanging lines; the centre hole carries the striker line.",
-             (MARGIN, MARGIN + 9), 2.5)
+             f"{format_length(plate.hole_mm * MM, units, den)}; S: the plate's own hanging lines; the centre hole "
+             "carries the striker line.", (MARGIN, MARGIN + 9), 2.5)
     doc.text("Dotted: the striker disc and the tubes hanging below, at full size.", (MARGIN, MARGIN + 13), 2.5)
     doc.circle((cx, cy), plate.diameter_mm / 2, role="cut")
     if plate.pitch_radius_mm:

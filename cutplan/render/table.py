@@ -6,13 +6,17 @@ import csv
 import io
 import json
 
-from cutplan.units import MM, inch_text, mm_text
+from cutplan.render.hanging import hanging_dict
+from cutplan.render.stock_layout import cut_list_view
+from cutplan.units import INCH_DENOMINATOR, MM, length_parts
 
 PLAN_FORMAT = "cutplan-plan/1"
 
 
-def _inch(metres):
-    return inch_text(metres) + " in"
+def _both(metres, den=INCH_DENOMINATOR):
+    """(mm, inches) cells of one length: ``("514.9", "20-9/32 in")``."""
+    q = length_parts(metres, "mm", den)
+    return q.mm, q.part("in")
 
 
 def _r(x, nd):
@@ -102,9 +106,7 @@ def plan_dict(plan):
     }
     for entry, s in zip(out["sets"], plan.sets, strict=True):
         if getattr(s, "hanging", None) is not None:
-            from cutplan.render.hanging import hanging_dict  # noqa: I001 (chime sets only)
-
-            entry["hanging"] = hanging_dict(s.hanging, plan.units)
+            entry["hanging"] = hanging_dict(s.hanging, plan.units, plan.inch_denominator)
     if plan.cut_list is not None:
         out["stock"] = cut_list_dict(plan.cut_list)
     return out
@@ -174,20 +176,19 @@ CSV_COLUMNS = (
 
 
 def render_csv(plan):
-    """One row per piece, lengths in both mm and fractional inches (to 1/32)."""
+    """One row per piece, lengths in both mm and fractional inches (to the plan's 1/N in)."""
     buf = io.StringIO()
     writer = _csv_writer(buf)
     writer.writerow(CSV_COLUMNS)
+    den = plan.inch_denominator
+    blank = ("", "")
     for p in plan.pieces:
-        nodes = list(p.nodes) + [None, None]
+        nodes = [_both(x, den) for x in p.nodes[:2]] + [blank, blank]
+        (length_mm, length_in), (cut_mm, cut_in) = _both(p.length, den), _both(p.cut_length, den)
         writer.writerow([
             p.set, p.label, p.note, f"{p.target_hz:.3f}", f"{p.predicted_hz:.3f}",
-            mm_text(p.length), _inch(p.length),
-            mm_text(p.cut_length), _inch(p.cut_length),
-            "" if nodes[0] is None else mm_text(nodes[0]),
-            "" if nodes[1] is None else mm_text(nodes[1]),
-            "" if nodes[0] is None else _inch(nodes[0]),
-            "" if nodes[1] is None else _inch(nodes[1]),
+            length_mm, length_in, cut_mm, cut_in,
+            nodes[0][0], nodes[1][0], nodes[0][1], nodes[1][1],
             "" if p.mass is None else f"{p.mass * 1000:.1f}", f"{p.cents_per_mm:.2f}",
             *[f"{f:.1f}" for f in p.partials_hz[1:4]], p.model, f"{p.shear_correction_cents:.2f}",
             "; ".join(p.warnings),
@@ -196,29 +197,21 @@ def render_csv(plan):
     return buf.getvalue()
 
 
-
-
 CUTLIST_COLUMNS = (
     "stick", "group", "stock_length_mm", "stock_length_in", "cut", "label", "start_mm", "start_in",
     "length_mm", "length_in", "end_mm", "end_in",
 )
 
 
-def render_cutlist_csv(cut_list):
+def render_cutlist_csv(cut_list, denominator=INCH_DENOMINATOR):
     """The cut list as CSV: one row per cut, marks measured from the stick's factory end."""
     buf = io.StringIO()
     writer = _csv_writer(buf)
     writer.writerow(CUTLIST_COLUMNS)
-    for i, stick in enumerate(cut_list.sticks, start=1):
-        length = stick.stock_length
-        for k, c in enumerate(stick.cuts, start=1):
-            start, size = c.start, c.length
-            writer.writerow([
-                i, stick.group, mm_text(length), _inch(length), k,
-                c.label, mm_text(start), _inch(start), mm_text(size),
-                _inch(size), mm_text(start + size),
-                _inch(start + size),
-            ])
-        writer.writerow([i, stick.group, mm_text(length), _inch(length),
-                         "offcut", "", "", "", mm_text(stick.offcut), _inch(stick.offcut), "", ""])
+    for stick in cut_list_view(cut_list, "mm", denominator).sticks:
+        head = [stick.number, stick.group, stick.length.mm, stick.length.part("in")]
+        for c in stick.cuts:
+            writer.writerow([*head, c.number, c.label, c.start.mm, c.start.part("in"), c.length.mm,
+                             c.length.part("in"), c.end.mm, c.end.part("in")])
+        writer.writerow([*head, "offcut", "", "", "", stick.offcut.mm, stick.offcut.part("in"), "", ""])
     return buf.getvalue()

@@ -4,8 +4,10 @@ from __future__ import annotations
 
 import textwrap
 
+from cutplan.render.hanging import hanging_lines
 from cutplan.render.phrases import other_modes_text
-from cutplan.units import INCH, MM, format_length, length_cell, length_heading
+from cutplan.render.stock_layout import cut_list_view, stick_lines
+from cutplan.units import INCH, INCH_DENOMINATOR, MM, format_length, length_cell, length_heading
 
 SAFETY_LINE = (
     "Safety: wear eye and hearing protection when cutting and striking; deburr cut tube; never "
@@ -24,8 +26,8 @@ def _wrapped(text, indent="  "):
                          break_on_hyphens=False, break_long_words=False)
 
 
-def _length(metres, units):
-    return length_cell(metres, units)
+def _length(metres, units, denominator=INCH_DENOMINATOR):
+    return length_cell(metres, units, denominator)
 
 
 def _table(headers, rows, left=2):
@@ -52,7 +54,7 @@ def _fitted(columns, rows, width=WIDTH):
     return _table(*pick(main)) + [""] + _table(*pick(extra), left=1)
 
 
-def _set_rows(s, units):
+def _set_rows(s, units, den=INCH_DENOMINATOR):
     unit_head = length_heading(units)
     node_head = "hang hole" if s.kind == "chime" else "support" if s.kind == "bar" else ""
     columns = [("label", False), ("note", False), ("target Hz", False), (f"length {unit_head}", False),
@@ -64,9 +66,10 @@ def _set_rows(s, units):
         columns.append(("shear c", True))
     rows = []
     for p in s.pieces:
-        row = [p.label, p.note, f"{p.target_hz:.2f}", _length(p.length, units), _length(p.cut_length, units)]
+        row = [p.label, p.note, f"{p.target_hz:.2f}", _length(p.length, units, den),
+               _length(p.cut_length, units, den)]
         if node_head:
-            row.append(_length(p.nodes[0], units) if p.nodes else "")
+            row.append(_length(p.nodes[0], units, den) if p.nodes else "")
         row += [f"{p.cents_per_mm:.2f}", f"{p.sharp_risk * 100:.0f} %",
                 " ".join(f"{f:.0f}" for f in p.partials_hz[1:])]
         if s.kind in ("chime", "bar"):
@@ -77,7 +80,7 @@ def _set_rows(s, units):
 
 def render_table(plan):
     """Readable plan in the plan's units: one block per set, then the cut list."""
-    units = plan.units
+    units, den = plan.units, plan.inch_denominator
     out = [plan.title, "=" * len(plan.title), f"A4 = {plan.a4:g} Hz, {plan.temperament} temperament", ""]
     if getattr(plan, "copies", 1) > 1:
         out[-1:] = [f"{plan.copies} identical kits: the tables show one kit; the stock layout holds all of them", ""]
@@ -90,33 +93,31 @@ def render_table(plan):
             out.extend(_wrapped(a))
         out.append(f"  allowance {s.allowance_rule}: cut long, then trim to pitch (trimming raises the pitch)")
         out.append("  sharp: the chance a piece comes out sharp (too short) at its cut length")
-        out.extend(_fitted(*_set_rows(s, units)))
+        out.extend(_fitted(*_set_rows(s, units, den)))
         for p in s.pieces:
             if getattr(p, "other_modes", ()):
                 out.extend(_wrapped(f"{p.label}: other modes " + other_modes_text(p.other_modes)))
             if p.arch is not None:
                 a = p.arch
                 res = ", ".join(f"{r:+.2f}" for r in a.ratio_residuals_cents)
-                out.extend(_wrapped(f"{p.label}: arch {format_length(a.depth, units)} deep at the centre (leaves "
-                           f"{format_length(a.thickness - a.depth, units)}), over the middle {a.arch_width:.2f} of "
+                out.extend(_wrapped(f"{p.label}: arch {format_length(a.depth, units, den)} deep at the centre (leaves "
+                           f"{format_length(a.thickness - a.depth, units, den)}), over the middle {a.arch_width:.2f} of "
                            f"the length, shape {a.exponent:.2f}; ratio residuals {res} cents"))
             if p.stopper:
                 lo, hi = p.stopper[0], p.stopper[-1]
-                out.extend(_wrapped(f"{p.label}: cut the tube {format_length(p.cut_length, units)} and tune with the "
-                           f"stopper: {format_length(lo[1], units)} from the open end at {lo[0] - 273.15:.0f} C, "
-                           f"{format_length(hi[1], units)} at {hi[0] - 273.15:.0f} C"))
+                out.extend(_wrapped(f"{p.label}: cut the tube {format_length(p.cut_length, units, den)} and tune with the "
+                           f"stopper: {format_length(lo[1], units, den)} from the open end at {lo[0] - 273.15:.0f} C, "
+                           f"{format_length(hi[1], units, den)} at {hi[0] - 273.15:.0f} C"))
         for p in s.pieces:
             for w in p.warnings:
                 out.extend(_wrapped(f"! {p.label}: {w}"))
         if getattr(s, "hanging", None) is not None:
-            from cutplan.render.hanging import hanging_lines  # noqa: I001 (chime sets only)
-
             out.append("  hanging:")
-            for line in hanging_lines(s.hanging, units):
+            for line in hanging_lines(s.hanging, units, den):
                 out.extend(_wrapped(line, "    "))
         out.append("")
     if plan.cut_list is not None:
-        out.extend(render_stock(plan.cut_list, units))
+        out.extend(render_stock(plan.cut_list, units, den))
         out.append("")
     cautions = getattr(plan, "cautions", ())
     if cautions:
@@ -128,28 +129,17 @@ def render_table(plan):
     return "\n".join(out) + "\n"
 
 
-def render_stock(cut_list, units="mm"):
+def render_stock(cut_list, units="mm", denominator=INCH_DENOMINATOR):
     """The cut list on stock: one block per stick with the marks measured from its end."""
-    status = "proven optimal" if cut_list.proven_optimal else "best found, not proven optimal"
-    out = [f"Cut list on stock ({status}; marks measured from the stick's factory end, "
-           f"{length_heading(units)})"]
+    view = cut_list_view(cut_list, units, denominator)
+    out = [view.heading(length_heading(units))]
     group = None
-    for i, stick in enumerate(cut_list.sticks, start=1):
+    for stick in view.sticks:
         if stick.group != group:
             group = stick.group
             out.append(f"  {group}:")
-        out.append(f"    stick {i}, {_length(stick.stock_length, units)}:")
-        for c in stick.cuts:
-            out.append(f"      {c.label:<12} from {_length(c.start, units):>22} "
-                       f"to {_length(c.start + c.length, units):>22}  ({_length(c.length, units)})")
-        out.append(f"      offcut {_length(stick.offcut, units)}")
-    by_length = ", ".join(f"{n} x {_length(length, units)}" for length, n in cut_list.sticks_by_length)
-    out.append(f"  sticks: {by_length}; fewest possible {cut_list.lower_bound}; "
-               f"utilisation {100 * cut_list.utilisation:.1f} %"
-               + (f"; cost {cut_list.cost:.2f}" if cut_list.cost is not None else "")
-               + (f" (no layout costs less than {cut_list.cost_lower_bound:.2f})"
-                  if not cut_list.proven_optimal and cut_list.cost is not None
-                  and cut_list.cost_lower_bound is not None else ""))
+        out.extend(stick_lines(stick, lambda q: q.cell, "    "))
+    out.append(f"  {view.summary}")
     return out
 
 

@@ -16,6 +16,7 @@ from pathlib import Path
 
 from flask import Flask, Request, g, jsonify, render_template, request
 
+from cutplan.units import LengthParts
 from cutplan.web import form as webform
 from cutplan.web import view
 from cutplan.web.service import (MAX_DESIGN_BYTES, Planner, WebErrors, error, packet_pdf, packet_zip, piece_wav,
@@ -340,19 +341,19 @@ def _attachment(payload, mimetype, name, inline=False):
     return resp
 
 
-def _both_units(text):
-    """ "20-1/32 in (508.6 mm)" with each unit's part kept on one line (the text stays the same)."""
+def _both_units(value):
+    """A length's two units, each kept on one line: "20-1/32 in (508.6 mm)" from its
+    :class:`~cutplan.units.LengthParts` (other text is shown as it is)."""
     from markupsafe import Markup
 
-    first, sep, second = str(text).partition(" (")
-    if not sep:
-        return Markup('<span class="nw">{}</span>').format(first)
-    return Markup('<span class="nw">{}</span> <span class="nw">({}</span>').format(first, second)
+    if not isinstance(value, LengthParts):
+        return Markup('<span class="nw">{}</span>').format(value)
+    return Markup('<span class="nw">{}</span> <span class="nw">({})</span>').format(value.first, value.second)
 
 
 def _slots(fields):
     """Every place a message can appear: the fields, each set, its section, the stock, the form."""
-    slots = {"form", "open", "stock", "title", "units", "paper", "tuning.a4", "tuning.temperament", "tuning.spelling",
+    slots = {"form", "open", "stock", "title", "units", "inch_denominator", "paper", "tuning.a4", "tuning.temperament", "tuning.spelling",
              "more",
              "trim.piece", "trim.measured", "trim.recording", "trim.length_now", "trim.state", "trim.done"}
     slots.update(f"stock.{k}" for k in webform.STOCK_FIELDS)

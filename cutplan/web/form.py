@@ -24,7 +24,7 @@ from cutplan.web.service import WebErrors, error
 
 MAX_SETS = 12
 """Sets the form offers [-] (a design with more is planned through the API or a file)."""
-TOP_FIELDS = ("title", "units", "paper")
+TOP_FIELDS = ("title", "units", "inch_denominator", "paper")
 TUNING_FIELDS = ("a4", "temperament", "spelling")
 STOCK_FIELDS = ("lengths", "kerf", "end_trim", "allowance")
 SECTION_FIELDS = ("stock", "shape", "outer", "wall", "diameter", "width", "thickness")
@@ -250,6 +250,8 @@ def _set_from_form(form, i):
 def mapping_from_form(form):
     """Form fields (name -> text) -> a design mapping with the design file's keys."""
     data = {k: _get(form, k) for k in TOP_FIELDS if _get(form, k)}
+    if "inch_denominator" in data:
+        data["inch_denominator"] = _number_or_text(data["inch_denominator"])
     tuning = {}
     if _get(form, "tuning.a4"):
         tuning["a4"] = _number_or_text(_get(form, "tuning.a4"))
@@ -344,7 +346,7 @@ def form_from_mapping(data):
 
 
 FIELD_LABELS = {
-    "title": "Title", "units": "Units shown first", "paper": "Paper", "tuning.a4": "A4",
+    "title": "Title", "units": "Units shown first", "inch_denominator": "Inches to the nearest", "paper": "Paper", "tuning.a4": "A4",
     "tuning.temperament": "Temperament", "tuning.spelling": "Note names", "stock": "Stock on hand",
     "stock.lengths": "Lengths on hand",
     "stock.kerf": "Saw kerf", "stock.end_trim": "End trim", "stock.allowance": "Trim allowance",

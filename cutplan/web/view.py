@@ -1,6 +1,7 @@
 """A Plan and its errors and warnings, shaped for the page's templates. Formatting only.
 
-Lengths use :func:`cutplan.units.format_length` in the chosen units first, to 1/32 in.
+Lengths are :class:`cutplan.units.LengthParts` in the chosen units first, inches to the plan's
+fraction (``inch_denominator``); the templates show them whole or part by part.
 Errors land beside the field whose name is the longest prefix of their key; warnings beside
 the field they concern (the allowance, the stock, the section or the notes of their set).
 """
@@ -9,15 +10,16 @@ from __future__ import annotations
 
 import re
 
-from cutplan.units import format_length
+from cutplan.render.stock_layout import cut_list_view
+from cutplan.units import INCH_DENOMINATOR, length_parts
 
 
-def _len(metres, units):
-    return format_length(metres, units)
+def piece_rows(set_plan, units, den=INCH_DENOMINATOR):
+    """One dict of display text (lengths as LengthParts) per piece of a set."""
 
+    def _len(metres, units):
+        return length_parts(metres, units, den)
 
-def piece_rows(set_plan, units):
-    """One dict of display text per piece of a set."""
     rows = []
     for p in set_plan.pieces:
         rows.append({
@@ -40,20 +42,9 @@ def node_heading(kind):
     return {"chime": "hang hole from top", "bar": "supports from end"}.get(kind, "")
 
 
-def stock_rows(cut_list, units):
-    """The cut list as display text: sticks with their cuts, marks from the factory end."""
-    if cut_list is None:
-        return None
-    sticks = []
-    for i, stick in enumerate(cut_list.sticks, start=1):
-        sticks.append({"number": i, "group": stick.group, "length": _len(stick.stock_length, units),
-                       "cuts": [{"label": c.label, "start": _len(c.start, units), "end": _len(c.start + c.length, units),
-                                 "length": _len(c.length, units)} for c in stick.cuts],
-                       "offcut": _len(stick.offcut, units)})
-    return {"sticks": sticks, "proven_optimal": cut_list.proven_optimal, "lower_bound": cut_list.lower_bound,
-            "utilisation": f"{100 * cut_list.utilisation:.1f} %",
-            "by_length": ", ".join(f"{n} x {_len(length, units)}" for length, n in cut_list.sticks_by_length),
-            "cost": None if cut_list.cost is None else f"{cut_list.cost:.2f}"}
+def stock_rows(cut_list, units, den=INCH_DENOMINATOR):
+    """The cut list for the page (:func:`cutplan.render.stock_layout.cut_list_view`), or None."""
+    return None if cut_list is None else cut_list_view(cut_list, units, den)
 
 
 def slot_for(key, slots):
@@ -147,8 +138,8 @@ def preview(plan, design, units=None):
                   "allowance_rule": getattr(s, "allowance_rule", ""),
                   "trim_end": s.pieces[0].trim_end if s.pieces else "",
                   "if_sharp": s.pieces[0].if_sharp if s.pieces else "",
-                  "pieces": piece_rows(s, units)} for s in plan.sets],
-        "stock": stock_rows(plan.cut_list, units),
+                  "pieces": piece_rows(s, units, plan.inch_denominator)} for s in plan.sets],
+        "stock": stock_rows(plan.cut_list, units, plan.inch_denominator),
         "chart": length_pitch_svg(plan, units),
         "templates": templates,
         "labels": [p.label for p in plan.pieces],

@@ -60,7 +60,7 @@ def _side_view(c, plan, s, x, y_top, width, height):
 def _page(c, page, plan, s):
     y = heading(c, page, f"Hanging the set: {s.name}")
     x, width = page.left, page.width
-    for line in hanging_lines(s.hanging, plan.units):
+    for line in hanging_lines(s.hanging, plan.units, plan.inch_denominator):
         y = paragraph(c, x, y, "- " + line[0].upper() + line[1:] + ".", 8.5, width)
     y = paragraph(c, x, y - 1 * mm, "Tube tops hang level; each tube's line loops through its hang hole and "
                   "both ends are tied above the plate. Line strengths are from the table in the shop data "

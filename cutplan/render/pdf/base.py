@@ -17,7 +17,7 @@ from reportlab.pdfbase.pdfmetrics import stringWidth
 from reportlab.pdfgen.canvas import Canvas
 from reportlab.platypus import Table, TableStyle
 
-from cutplan.units import format_length
+from cutplan.units import length_parts
 
 MARGIN = 15 * mm
 """Margin of text pages."""
@@ -38,15 +38,25 @@ def paper_size(paper):
     return A4 if paper == "a4" else letter
 
 
+def parts(plan, metres):
+    """One length's :class:`~cutplan.units.LengthParts` in the plan's units and fraction of an inch."""
+    return length_parts(metres, plan.units, plan.inch_denominator)
+
+
 def length(plan, metres):
     """One length in the plan's units first: "20-5/32 in (512.3 mm)" or "512.3 mm (20-5/32 in)"."""
-    return format_length(metres, plan.units, plan.inch_denominator)
+    return str(parts(plan, metres))
+
+
+def first(plan, metres):
+    """The plan's unit only ("20-5/32 in" or "512.3 mm"), for tight labels."""
+    return parts(plan, metres).first
 
 
 def length_lines(plan, metres):
     """The same length as two lines for a table cell, the plan's unit on top."""
-    first, _, second = length(plan, metres).partition(" (")
-    return f"{first}\n{second.rstrip(')')}"
+    q = parts(plan, metres)
+    return f"{q.first}\n{q.second}"
 
 
 def text_width(text, size, font=FONT):

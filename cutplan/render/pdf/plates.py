@@ -47,11 +47,11 @@ def _plate_page(c, page, plan, s):
             c.drawCentredString(xx, y_wrap - 5.5 * mm, label)
         y = y_wrap - 10 * mm
     bottom = RULER_TOP + RULERS_HEIGHT + 8 * mm
-    units = plan.units
-    note = (f"Plate {format_length(plate.diameter_mm * MM, units)} across, {plate_material(units)} (a suggestion). Drill "
-            f"the line holes {format_length(plate.hole_mm * MM, units)} on the "
-            f"{format_length(2 * plate.pitch_radius_mm * MM, units)} circle, one per tube; {PLATE_HANGING}. "
-            f"Dotted: {clearance_text(s.hanging, units)}.")
+    units, den = plan.units, plan.inch_denominator
+    note = (f"Plate {format_length(plate.diameter_mm * MM, units, den)} across, {plate_material(units, den)} (a suggestion). "
+            f"Drill the line holes {format_length(plate.hole_mm * MM, units, den)} on the "
+            f"{format_length(2 * plate.pitch_radius_mm * MM, units, den)} circle, one per tube; {PLATE_HANGING}. "
+            f"Dotted: {clearance_text(s.hanging, units, den)}.")
     y = paragraph(c, x, y, note, 7.5, width)
     room = (y - bottom) / mm - 8
     fits = plate.diameter_mm <= min(width / mm, room)

@@ -4,7 +4,8 @@ from __future__ import annotations
 
 from reportlab.lib import colors
 
-from cutplan.render.pdf.base import BOLD, LIGHT, SAFE, Placer, fit, heading, length, mm, paragraph, text_width
+from cutplan.render.pdf.base import BOLD, LIGHT, SAFE, Placer, fit, heading, mm, paragraph, text_width
+from cutplan.render.stock_layout import cut_list_view
 
 PER_PAGE = 7
 """Sticks drawn on one page."""
@@ -12,34 +13,27 @@ ROW = 30 * mm
 """Height of one stick's row (name, bar, labels below)."""
 
 
-def _first(plan, metres):
-    """The plan's unit only ("20-5/32 in" or "512.3 mm"), for tight labels."""
-    return length(plan, metres).split(" (")[0]
-
-
 def stock_pages(packet):
     plan = packet.plan
     cut_list = plan.cut_list
     if cut_list is None:
         return
+    view = cut_list_view(cut_list, plan.units, plan.inch_denominator)
     sticks = cut_list.sticks
     longest = max(s.stock_length for s in sticks)
     for k in range(0, len(sticks), PER_PAGE):
-        def draw(c, page, group=sticks[k:k + PER_PAGE], first=k):
+        def draw(c, page, group=sticks[k:k + PER_PAGE], rows=view.sticks[k:k + PER_PAGE]):
             y = heading(c, page, "Stock layout")
-            status = "proven optimal" if cut_list.proven_optimal else "best found (not proven optimal)"
-            sticks = f"{cut_list.lower_bound} stick{'s' if cut_list.lower_bound != 1 else ''}"
-            y = paragraph(c, page.left, y, f"Layout {status}; lower bound {sticks}; "
-                          f"utilisation {100 * cut_list.utilisation:.1f} %. Each cut is labelled with its piece "
-                          "and where it starts, measured from the stick's factory end after squaring it; "
-                          f"lengths in {'inches' if plan.units == 'in' else 'mm'} first.", 9, page.width)
+            y = paragraph(c, page.left, y, f"{view.heading()}. {view.summary[0].upper() + view.summary[1:]}. "
+                          "Each cut is labelled with its piece and where it starts, measured after squaring "
+                          f"the end; lengths in {'inches' if plan.units == 'in' else 'mm'} first.", 9, page.width)
             scale = page.width / longest
-            for i, stick in enumerate(group):
+            for i, (stick, row) in enumerate(zip(group, rows, strict=True)):
                 base = y - 12 * mm - i * ROW
                 placer = Placer((page.left, base - 18 * mm, page.w - SAFE, base + 12 * mm))
                 c.setFillColor(colors.black)
                 c.setFont(BOLD, 8)
-                title = fit(f"stick {first + i + 1}: {length(plan, stick.stock_length)}  {stick.group}", 8,
+                title = fit(f"stick {row.number}: {row.length}  {row.group}", 8,
                             page.width, BOLD)
                 c.drawString(page.left, base + 10 * mm, title)
                 c.setStrokeColor(colors.black)
@@ -62,10 +56,10 @@ def stock_pages(packet):
                 placer.line((end, base), (end, base + 8 * mm))
                 low = [base - k * mm for k in (3, 5.8, 8.6, 11.4, 14.2)]
                 missed, narrow = [], 0
-                for cut in stick.cuts:
+                for cut, shown in zip(stick.cuts, row.cuts, strict=True):
                     x = page.left + cut.start * scale
                     wd = cut.length * scale
-                    label, at = cut.label, f"at {_first(plan, cut.start)}"
+                    label, at = shown.label, f"at {shown.start.first}"
                     inside = text_width(label, 6.5) < wd - 3 and text_width(at, 6.5) < wd - 3
                     if inside:
                         placer.place(c, [(x + 1.5, base + 4.5 * mm, label, "start")], 6.5)
@@ -79,7 +73,7 @@ def stock_pages(packet):
                         cands += [(mid + dx, yy, text, "start") for yy in low for dx in (-2, 6, -tw - 6)]
                         if placer.place(c, cands, 6.5, leader_from=(x + wd / 2, base)) is None:
                             missed.append(text)
-                off = f"offcut {_first(plan, stick.offcut)}"
+                off = f"offcut {row.offcut.first}"
                 placer.place(c, [(end, yy, off, "end") for yy in low]
                              + [(page.left + page.width, yy, off, "end") for yy in low], 6.5)
                 if missed:  # no room beside the bar: listed under it instead

@@ -9,8 +9,8 @@ from __future__ import annotations
 from cutplan.render.pdf.base import (
     MARGIN,
     draw_table,
+    first,
     heading,
-    length,
     length_lines,
     mm,
     paragraph,
@@ -67,7 +67,7 @@ def cut_list(packet):
             mass = f"{p.mass * 1000:.0f} g" if p.mass is not None else "-"
             cut = length_lines(plan, p.cut_length)
             if not stoppered:
-                cut += f"\n(+{length(plan, allowance(p)).split(' (')[0]})"
+                cut += f"\n(+{first(plan, allowance(p))})"
             finished = "tuned with the stopper" if stoppered else length_lines(plan, p.length)
             rows.append([p.label, p.note, f"{p.target_hz:.2f}", finished, cut, nodes, mass, "", "", ""])
         what = STOPPER_WORDS if stoppered else TRIM_WORDS
@@ -106,7 +106,7 @@ def tuning(packet):
                 allow = STOPPER_WORDS
             else:
                 allow = (f"{length_lines(plan, allowance(p))}\nchance sharp {p.sharp_risk * 100:.0f} %\n"
-                         f"after a test piece: {length(plan, p.allowance_calibrated).split(' (')[0]}")
+                         f"after a test piece: {first(plan, p.allowance_calibrated)}")
             target = f"{p.target_hz:.2f}" + (f"\nstrike note {p.strike_note_hz:.1f}" if p.strike_note_hz else "")
             others = other_modes_text(p.other_modes).replace(" Hz", "") if getattr(p, "other_modes", ()) else "-"
             rows.append([p.label, p.note, target, f"{p.cents_per_mm:.2f}", per10, allow,

@@ -27,7 +27,7 @@ from cutplan.render.pdf.base import (
     text_width,
 )
 from cutplan.render.pdf.rulers import RULER_TOP, RULERS_HEIGHT, rulers
-from cutplan.units import MM
+from cutplan.units import INCH_DENOMINATOR, MM
 
 OVERLAP_MM = 20.0
 """Overlap of tiled template sheets [mm]."""
@@ -74,9 +74,9 @@ class Tile:
         return STRIP_H_MM + lanes * LANE_MM + 3.0 + BELOW_MM
 
 
-def assign_lanes(piece, start, end, units):
+def assign_lanes(piece, start, end, units, den=INCH_DENOMINATOR):
     """(Mark, lane, side) for every mark on the tile (see :func:`cutplan.render.marks.assign_lanes`)."""
-    return mk.assign_lanes(mk.piece_marks(piece, units), start, end, lambda t: text_width(t, LABEL_PT) / mm, LANE_MM)
+    return mk.assign_lanes(mk.piece_marks(piece, units, den), start, end, lambda t: text_width(t, LABEL_PT) / mm, LANE_MM)
 
 
 def layout(plan, size):
@@ -88,7 +88,7 @@ def layout(plan, size):
     for p in plan.pieces:
         parts = mk.tiles(mk.strip_length_mm(p), usable, OVERLAP_MM)
         for k, (a, b) in enumerate(parts, start=1):
-            tiles.append(Tile(p, a, b, k, len(parts), "strip", assign_lanes(p, a, b, plan.units)))
+            tiles.append(Tile(p, a, b, k, len(parts), "strip", assign_lanes(p, a, b, plan.units, plan.inch_denominator)))
         if p.arch is not None:
             parts = mk.tiles(p.length / MM, usable, OVERLAP_MM)
             for k, (a, b) in enumerate(parts, start=1):
@@ -184,7 +184,7 @@ def _tile_title(c, x, y, title, width):
     c.drawString(x, y, fit(title, size, width, BOLD))
 
 
-def draw_strip(c, tile, x0, y_top, width_mm, units):
+def draw_strip(c, tile, x0, y_top, width_mm, units, den=INCH_DENOMINATOR):
     """One tile of a marking strip inside its cut-out frame whose top is ``y_top`` (points)."""
     p = tile.piece
     lanes = max((lane for _, lane, _ in tile.labels), default=-1) + 1
@@ -202,7 +202,7 @@ def draw_strip(c, tile, x0, y_top, width_mm, units):
     c.setStrokeColor(colors.black)
     if hi > lo:
         c.rect(X(lo), y0, (hi - lo) * mm, STRIP_H_MM * mm)
-    marks = [m for m in mk.piece_marks(p, units) if tile.start - 1e-6 <= m.at_mm <= tile.end + 1e-6]
+    marks = [m for m in mk.piece_marks(p, units, den) if tile.start - 1e-6 <= m.at_mm <= tile.end + 1e-6]
     _join(c, tile, X, y0, y0 + 4.8 * mm, y0 - 3 * mm, [m.at_mm for m in marks])
     lane_of = {(m.at_mm, m.kind): (lane, side) for m, lane, side in tile.labels}
     for m in marks:
@@ -226,16 +226,16 @@ def draw_strip(c, tile, x0, y_top, width_mm, units):
                 c.drawRightString(x - 0.5 * mm, y, m.label)
     c.setFont(BOLD, 7.5)
     if p.stopper:
-        what = f"cut tube {mk.length_text(p.cut_length / MM, units)}, tune with the stopper; open end 0"
+        what = f"cut tube {mk.length_text(p.cut_length / MM, units, den)}, tune with the stopper; open end 0"
     else:
-        what = f"finished {mk.length_text(length, units)}"
+        what = f"finished {mk.length_text(length, units, den)}"
         if off > 0:
             what += "; rough cut at 0, trim half from each end; supports from the centre line"
     title = f"{p.label}  {p.note}  sheet {tile.sheet} of {tile.sheets}:  {what}"
     _tile_title(c, x0 + 1 * mm, y0 - 8 * mm, title, (tile.end - tile.start - 2) * mm)
 
 
-def draw_profile(c, tile, x0, y_top, width_mm, units):
+def draw_profile(c, tile, x0, y_top, width_mm, units, den=INCH_DENOMINATOR):
     """One tile of an arched bar's full-size side profile (top face up, arch below) in its frame."""
     p = tile.piece
     arch = p.arch
@@ -293,7 +293,7 @@ def draw_profile(c, tile, x0, y_top, width_mm, units):
         if row == 1:
             c.line(X(at), under - 1.5 * mm, X(at), under - 4.3 * mm)
     c.setFont(BOLD, 7.5)
-    title = (f"{p.label} side profile, full size: arch {mk.length_text(arch.depth / MM, units)} deep; "
+    title = (f"{p.label} side profile, full size: arch {mk.length_text(arch.depth / MM, units, den)} deep; "
              f"numbers are the thickness left (mm)   sheet {tile.sheet} of {tile.sheets}")
     _tile_title(c, x0 + 1 * mm, under - 10 * mm, title, (tile.end - tile.start - 2) * mm)
 
@@ -315,7 +315,7 @@ def templates(packet):
             paragraph(c, TEMPLATE_MARGIN, h - 23.5 * mm, INSTRUCTION, 7.5, w - 2 * TEMPLATE_MARGIN)
             for tile, x, y_top in group:
                 draw_tile = draw_profile if tile.what == "profile" else draw_strip
-                draw_tile(c, tile, TEMPLATE_MARGIN + x * mm, y_top * mm, width_mm, plan.units)
+                draw_tile(c, tile, TEMPLATE_MARGIN + x * mm, y_top * mm, width_mm, plan.units, plan.inch_denominator)
             rulers(c, TEMPLATE_MARGIN, RULER_TOP)
         packet.add(draw, template=True, size=size)
     plate_pages(packet)
