@@ -20,7 +20,7 @@ MAX_PIECES = 400
 """Largest design [-]."""
 MAX_FILE_BYTES = 1_000_000
 """Largest design file read [bytes]; a design is a few kB."""
-DEFAULT_TEMPERATURE = 293.15
+DEFAULT_TEMPERATURE = units.ROOM_TEMPERATURE
 """Air temperature assumed when a design gives none [K] (20 C, the usual reference)."""
 DEFAULT_SHARP_RISK = 0.05
 """Chance of a piece coming out sharp that the default cut allowance accepts [-]."""

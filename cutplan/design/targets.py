@@ -6,10 +6,9 @@ import math
 
 from cutplan import pitch, units
 from cutplan.design.contract import MAX_PIECES_PER_SET, is_number
+from cutplan.limits import FREQUENCY_RANGE, FREQUENCY_SPAN
 
 TARGET_KEYS = ("notes", "scale", "range", "frequencies", "cents", "ratios")
-FREQUENCY_RANGE = (10.0, 30000.0)
-"""Target frequencies accepted [Hz]: around the range of hearing."""
 
 
 def _named(f, a4):
@@ -43,7 +42,7 @@ def _frequencies(value, key, a4, col):
     out = []
     for j, v in enumerate(value, start=1):
         f = col.ranged(f"{key}.frequencies[{j}]", v, units.parse_frequency, *FREQUENCY_RANGE,
-                       "must be a frequency from 10 Hz to 30 kHz")
+                       f"must be a frequency from {FREQUENCY_SPAN}")
         if f is not None:
             out.append(_named(f, a4))
     return out
@@ -67,7 +66,7 @@ def _relative(value, key, how, base, a4, col):
                 continue
             f = base * r
         if not FREQUENCY_RANGE[0] <= f <= FREQUENCY_RANGE[1]:
-            col.add(f"{key}.{how}[{j}]", v, "gives a pitch outside 10 Hz to 30 kHz")
+            col.add(f"{key}.{how}[{j}]", v, f"gives a pitch outside {FREQUENCY_SPAN}")
             continue
         out.append(_named(f, a4))
     return out

@@ -34,7 +34,7 @@ from cutplan.planning.frequency import (
 from cutplan.physics import beam, timoshenko
 from cutplan.planning.air import plan_air_set
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
-from cutplan.units import format_length
+from cutplan.units import ZERO_CELSIUS, format_length
 
 __all__ = ["Arch", "Piece", "Plan", "SetPlan", "bars_to_solve", "plan"]
 
@@ -196,7 +196,7 @@ def _set_summary(spec: SetSpec, units="mm"):
         speed = air_stock.speed(spec)
         hum = (f"{air_stock.humidity(spec):.0f} % RH" + (" (assumed; give humidity to change it)"
                                                          if spec.humidity is None else ""))
-        assumptions.append(f"air at {spec.temperature - 273.15:.1f} C, {hum}: speed of sound {speed:.2f} m/s "
+        assumptions.append(f"air at {spec.temperature - ZERO_CELSIUS:.1f} C, {hum}: speed of sound {speed:.2f} m/s "
                            "in free air (Cramer 1993)")
         corr = spec.end_correction
         corr_text = (f"{corr:.6g} x inner radius" if isinstance(corr, (int, float))
@@ -209,7 +209,7 @@ def _set_summary(spec: SetSpec, units="mm"):
         assumptions += air_stock.assumptions(spec)
         if spec.temperature_range is not None:
             lo, hi = spec.temperature_range
-            assumptions.append(f"stopper travel covers {lo - 273.15:.0f} C to {hi - 273.15:.0f} C")
+            assumptions.append(f"stopper travel covers {lo - ZERO_CELSIUS:.0f} C to {hi - ZERO_CELSIUS:.0f} C")
         model = spec.ends
     else:
         mat = spec.material
