@@ -16,7 +16,7 @@ from __future__ import annotations
 from cutplan.units import ZERO_CELSIUS
 
 __all__ = ["A4_ALLOWED", "A4_RANGE", "FREQUENCY_RANGE", "FREQUENCY_SPAN", "TEMPERATURE_RANGE", "TEMPERATURE_RANGE_C",
-           "TEMPERATURE_SPAN", "IN_TUNE_CENTS", "AIR_SPEED_RANGE", "a4_ok", "hz_text"]
+           "TEMPERATURE_SPAN", "IN_TUNE_CENTS", "AIR_SPEED_RANGE", "CENTS_RANGE", "RATIO_RANGE", "a4_ok", "hz_text"]
 
 A4_RANGE = (400.0, 480.0)
 """Reference pitch A4 accepted [Hz], ends included (common practice: the pitches of A4 in use,
@@ -25,6 +25,11 @@ from about 415 Hz for old instruments to 466 Hz, lie inside; outside is a typing
 FREQUENCY_RANGE = (10.0, 30000.0)
 """Target frequencies and tuner readings accepted [Hz], ends included: around the range of hearing
 (from memory: about 20 Hz to 20 kHz, with room for subharmonic targets and high partials)."""
+
+CENTS_RANGE = (-4800.0, 9600.0)
+"""Pitches given in cents from a root accepted [cents]: four octaves down to eight up."""
+RATIO_RANGE = (1 / 64, 64.0)
+"""Pitches given as ratios to a root accepted [-]: six octaves either way."""
 
 TEMPERATURE_RANGE_C = (-20.0, 50.0)
 """Air temperatures accepted for air columns and resonators [C], ends included (common practice:
