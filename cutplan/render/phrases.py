@@ -21,8 +21,8 @@ STOPPER_RULE = "cut the tube to its cut length, tune with the stopper"
 """How a stoppered tube is cut and tuned."""
 CENTRE_OUT = "trim half from each end; supports from the centre line"
 """How a bar marked on a rough blank is trimmed and marked (so the supports stay on the nodes)."""
-SAFETY_HEADING = "Safety (the packet's cautions for these pieces and materials):"
-"""The line above the cautions in plain text."""
+SAFETY_HEADING = "Safety: the cautions for these pieces and materials"
+"""The heading above the cautions (terminal, from-stock, the page)."""
 
 
 def sentence(phrase):
