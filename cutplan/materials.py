@@ -16,6 +16,7 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from cutplan import units
+from cutplan.limits import AIR_SPEED_RANGE
 from cutplan.physics.sections import Section, tube
 
 SOURCE_KINDS = (
@@ -354,9 +355,10 @@ def _air_calibration(path, name, row):
             values[key] = parse(row[key])
         except units.UnitError as exc:
             raise MaterialError(path, f"sizes.{name}.{key}", row[key], f"is not {exc.accepted}") from None
-    if not 250.0 <= values["speed_of_sound"] <= 450.0:
+    if not AIR_SPEED_RANGE[0] <= values["speed_of_sound"] <= AIR_SPEED_RANGE[1]:
         raise MaterialError(path, f"sizes.{name}.speed_of_sound", row["speed_of_sound"],
-                            "must be between 250 and 450 m/s (the speed of sound in air)")
+                            f"must be between {AIR_SPEED_RANGE[0]:g} and {AIR_SPEED_RANGE[1]:g} m/s "
+                            "(the speed of sound in air)")
     if not 0.0 <= values["end_correction"] < 0.5:
         raise MaterialError(path, f"sizes.{name}.end_correction", row["end_correction"],
                             "must be from 0 to 500 mm per open end")

@@ -38,6 +38,10 @@ POUND = 0.45359237
 """One avoirdupois pound [kg], exact (1959 agreement)."""
 ZERO_CELSIUS = 273.15
 """0 degrees Celsius in kelvin [K], exact (SI definition)."""
+ROOM_TEMPERATURE = ZERO_CELSIUS + 20.0
+"""20 C in kelvin [K]: the usual reference temperature of handbook tables and the default air."""
+STANDARD_PRESSURE = 101325.0
+"""One standard atmosphere [Pa], exact by definition; the reference pressure of ISO 9613-1:1993."""
 
 
 class UnitError(ValueError):

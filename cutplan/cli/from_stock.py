@@ -7,15 +7,14 @@ import re
 import click
 
 from cutplan.cli.common import MATERIALS_OPTION, fail, write_file
+from cutplan.design.contract import MAX_STOCK_COUNT
+from cutplan.render.phrases import TRIM_RULE, caution_lines, sentence
 from cutplan.render.stock_layout import stick_lines, stick_rows
 from cutplan.units import INCH_DENOMINATOR, length_parts
 
 HAVE_FORMS = '"LENGTH [x COUNT]" with a unit, e.g. "8 ft x 2", "2.4 m" or "600 mm x 3"'
 _HAVE = re.compile(r"\s*(.+?)\s*(?:[x×*]\s*(-?\d+))?\s*")
 _HAS_UNIT = re.compile(r"[a-zA-Z'\"′″]")
-CAUTION = ("Cut long, then trim to pitch (trimming raises the pitch). Safety: wear eye and hearing protection; "
-           "deburr cut metal; never heat PVC and vacuum its dust; hang pieces overhead from rated hardware, "
-           "as local codes require.")
 
 
 def _have_lengths(texts):
@@ -36,8 +35,8 @@ def _have_lengths(texts):
         if not length > 0:
             fail(f"--have: {text!r}: the length must be more than zero, e.g. \"8 ft x 1\"")
         count = int(match.group(2)) if match.group(2) else 1
-        if not 1 <= count <= 1000:
-            fail(f"--have: {text!r}: the count must be a whole number from 1 to 1000, e.g. \"{length_text} x 1\"")
+        if not 1 <= count <= MAX_STOCK_COUNT:
+            fail(f"--have: {text!r}: the count must be a whole number from 1 to {MAX_STOCK_COUNT}, e.g. \"{length_text} x 1\"")
         out.append({"length": length_text, "count": count})
     return out
 
@@ -128,7 +127,7 @@ def _render(result, heard=False):
     out += [f"note: {n}" for n in result.notes]
     if heard:
         out.append("note: roots and notes are strike notes (the pitch heard, about half the mode-4 frequency)")
-    out += ["", CAUTION]
+    out += ["", sentence(TRIM_RULE), *caution_lines(result.plan.cautions)]
     return "\n".join(out) + "\n"
 
 
@@ -185,9 +184,9 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
     """
     from pathlib import Path
 
+    from cutplan.design import DesignErrors
     from cutplan.fromstock import output as fit_output
     from cutplan.fromstock import search as fit_stock
-    from cutplan.design import DesignErrors
 
     if bool(have) == bool(design_file):
         fail("from-stock: give the stock on hand with --have (repeatable) or --design FILE, one of the two")

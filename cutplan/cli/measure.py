@@ -5,6 +5,7 @@ from __future__ import annotations
 import click
 
 from cutplan.cli.common import fail
+from cutplan.limits import A4_ALLOWED, FREQUENCY_RANGE, FREQUENCY_SPAN, a4_ok
 
 MEASURE_KINDS = ["any", "chime", "bar", "tuned-bar", "xylophone-bar", "air-column", "open-open", "closed-open"]
 
@@ -55,8 +56,8 @@ def measure_command(recording, frequency, kind, near, a4, fmt):
 
     if (recording is None) == (frequency is None):
         fail("measure: give a RECORDING or --frequency (one of them)")
-    if not 400 <= a4 <= 480:
-        fail(f"--a4: {a4} must be between 400 and 480 Hz")
+    if not a4_ok(a4):
+        fail(f"--a4: {a4} {A4_ALLOWED}")
     near_hz = None
     if near:
         try:
@@ -64,8 +65,8 @@ def measure_command(recording, frequency, kind, near, a4, fmt):
         except pitch.PitchError as exc:
             fail(f"--near: {exc.text!r} is not {exc.accepted}")
     if frequency is not None:
-        if not 10 <= frequency <= 30000:
-            fail(f"--frequency: {frequency} must be between 10 and 30000 Hz")
+        if not FREQUENCY_RANGE[0] <= frequency <= FREQUENCY_RANGE[1]:
+            fail(f"--frequency: {frequency} must be a frequency from {FREQUENCY_SPAN}")
         from cutplan.audio.analysis import Measurement
         from cutplan.audio.partials import Partial
 

@@ -16,6 +16,7 @@ from cutplan.cli.common import (
     section_options,
     write_file,
 )
+from cutplan.limits import A4_ALLOWED, a4_ok
 
 
 @click.command("scale")
@@ -35,8 +36,8 @@ def scale_command(spec, a4, temperament, spelling):
     """
     from cutplan import pitch
 
-    if not 400 <= a4 <= 480:
-        fail(f"--a4: {a4} must be between 400 and 480 Hz")
+    if not a4_ok(a4):
+        fail(f"--a4: {a4} {A4_ALLOWED}")
     try:
         targets = pitch.spec_targets(spec, temperament, a4, spelling)
     except pitch.PitchError as exc:

@@ -22,6 +22,7 @@ from cutplan.cli.common import (
 )
 from cutplan.cli.measure import _measure_file
 
+
 def _parse_pieces(texts, kind, near_hz=None):
     """[(length m, frequency Hz, harmonic)] from --piece "LENGTH @ FREQ-or-WAV [#N]"."""
     import re
@@ -209,8 +210,8 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
 
 def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res, name=None, output=None, force=False,
                    dirs=()):
-    from cutplan.tuning.calibrate import CalibrationError, fit_air_column_choice
     from cutplan.physics import air_column
+    from cutplan.tuning.calibrate import CalibrationError, fit_air_column_choice
     from cutplan.units import UnitError, parse_length, parse_temperature
 
     try:
@@ -288,8 +289,8 @@ def _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr, note, 
         return
     if not stock_name:
         fail("calibrate: saving an air-column calibration needs --stock, the stock size it was measured on")
-    from cutplan.planning.air_calibrated import stock_toml
     from cutplan.materials import MaterialError, load_library
+    from cutplan.planning.air_calibrated import stock_toml
 
     try:
         stock = load_library(dirs).stock[stock_name]

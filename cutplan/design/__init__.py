@@ -40,6 +40,7 @@ from cutplan.design.reader import read_design_file
 from cutplan.design.sets import check_names, one_set
 from cutplan.design.stocktable import stock_from_options, stock_table
 from cutplan.design.text import unprintable
+from cutplan.limits import A4_ALLOWED, A4_RANGE
 from cutplan.materials import MaterialError
 
 __all__ = [
@@ -104,7 +105,7 @@ def _tuning(tuning, col):
         return a4, temperament
     col.unknown(tuning, TUNING_KEYS, "tuning")
     if "a4" in tuning:
-        value = col.ranged("tuning.a4", tuning["a4"], units.parse_frequency, 400, 480, "must be between 400 and 480 Hz")
+        value = col.ranged("tuning.a4", tuning["a4"], units.parse_frequency, *A4_RANGE, A4_ALLOWED)
         a4 = a4 if value is None else value
     if "temperament" in tuning:
         try:

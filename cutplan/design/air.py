@@ -8,10 +8,8 @@ import re
 from cutplan import units
 from cutplan.design.beams import material
 from cutplan.design.contract import is_number
+from cutplan.limits import TEMPERATURE_RANGE, TEMPERATURE_SPAN
 
-TEMPERATURE_RANGE = (253.15 - 1e-9, 323.15 + 1e-9)
-"""Air temperatures accepted [K]: -20 C to 50 C, ends included (a nanokelvin of slack, so that
-"-20 C" = -20 + 273.15 in floating point, 253.14999999999998, is inside)."""
 _HUMIDITY = re.compile(r"\s*([0-9]+(?:\.[0-9]*)?)\s*%?\s*")
 _END_CORRECTIONS = ("unflanged", "flanged", "none")
 
@@ -28,7 +26,7 @@ def _humidity(value):
 
 
 def _temperature_range(value, key, col):
-    allowed = 'must be two temperatures from -20 C to 50 C, such as ["10 C", "30 C"]'
+    allowed = f'must be two temperatures from {TEMPERATURE_SPAN}, such as ["10 C", "30 C"]'
     if not isinstance(value, list) or len(value) != 2:
         col.add(key, value, allowed)
         return None
@@ -67,7 +65,7 @@ def air_fields(raw, key, kind, stock_material, library, col):
         fields["end_correction"] = corr
     if "temperature" in raw:
         t = col.ranged(f"{key}.temperature", raw["temperature"], units.parse_temperature, *TEMPERATURE_RANGE,
-                       "must be between -20 C and 50 C")
+                       f"must be from {TEMPERATURE_SPAN}")
         if t is not None:
             fields["temperature"] = t
     if "humidity" in raw:

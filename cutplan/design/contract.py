@@ -10,9 +10,9 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from cutplan import pitch, units
-from cutplan.units import INCH_DENOMINATOR
 from cutplan.design.text import shown
 from cutplan.physics.sections import Section
+from cutplan.units import INCH_DENOMINATOR
 
 KINDS = ("chime", "bar", "air-column", "resonator")
 MAX_PIECES_PER_SET = 128
@@ -21,7 +21,7 @@ MAX_PIECES = 400
 """Largest design [-]."""
 MAX_FILE_BYTES = 1_000_000
 """Largest design file read [bytes]; a design is a few kB."""
-DEFAULT_TEMPERATURE = 293.15
+DEFAULT_TEMPERATURE = units.ROOM_TEMPERATURE
 """Air temperature assumed when a design gives none [K] (20 C, the usual reference)."""
 DEFAULT_SHARP_RISK = 0.05
 """Chance of a piece coming out sharp that the default cut allowance accepts [-]."""

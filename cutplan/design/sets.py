@@ -13,6 +13,7 @@ from cutplan.design.hanging import hanging_options
 from cutplan.design.section import section as read_section
 from cutplan.design.stocktable import stock_table
 from cutplan.design.text import unprintable, unsafe_name
+from cutplan.limits import FREQUENCY_RANGE, FREQUENCY_SPAN
 
 SET_KEYS = {
     "name", "kind", "notes", "scale", "root", "count", "frequencies", "cents", "ratios", "range",
@@ -48,10 +49,10 @@ def _pitches(raw, key, a4, temperament, col, spelling="auto"):
     if "serves" in raw:
         col.add(f"{key}.serves", None, "applies to resonator sets only")
     found = target_rules.targets(raw, key, a4, temperament, col, spelling)
-    low, high = target_rules.FREQUENCY_RANGE
+    low, high = FREQUENCY_RANGE
     bad = [t for t in found if not (math.isfinite(t.frequency) and low <= t.frequency <= high)]
     if bad:
-        col.add(key, bad[0].name, "gives a pitch outside 10 Hz to 30 kHz")
+        col.add(key, bad[0].name, f"gives a pitch outside {FREQUENCY_SPAN}")
         return []
     return found
 

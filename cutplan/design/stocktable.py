@@ -24,8 +24,8 @@ from cutplan.design.contract import (
 
 STOCK_KEYS = {"lengths", "kerf", "end_trim", "allowance"}
 LENGTH_ALLOWED = f"must be a stock length from {STOCK_LENGTH_RANGE[0] * 1000:g} mm to {STOCK_LENGTH_RANGE[1]:g} m"
-KERF_ALLOWED = "must be between 0 and 10 mm"
-END_TRIM_ALLOWED = "must be between 0 and 100 mm"
+KERF_ALLOWED = f"must be between {KERF_RANGE[0] * 1000:g} and {KERF_RANGE[1] * 1000:g} mm"
+END_TRIM_ALLOWED = f"must be between {END_TRIM_RANGE[0] * 1000:g} and {END_TRIM_RANGE[1] * 1000:g} mm"
 _ALLOWANCE_FORMS = ('must be "risk 5 %" (chance of coming out sharp), a percentage such as "0.5 %" '
                     "or a length up to 100 mm")
 

@@ -6,10 +6,9 @@ import math
 
 from cutplan import pitch, units
 from cutplan.design.contract import MAX_PIECES_PER_SET, is_number
+from cutplan.limits import CENTS_RANGE, FREQUENCY_RANGE, FREQUENCY_SPAN, RATIO_RANGE
 
 TARGET_KEYS = ("notes", "scale", "range", "frequencies", "cents", "ratios")
-FREQUENCY_RANGE = (10.0, 30000.0)
-"""Target frequencies accepted [Hz]: around the range of hearing."""
 
 
 def _named(f, a4):
@@ -43,7 +42,7 @@ def _frequencies(value, key, a4, col):
     out = []
     for j, v in enumerate(value, start=1):
         f = col.ranged(f"{key}.frequencies[{j}]", v, units.parse_frequency, *FREQUENCY_RANGE,
-                       "must be a frequency from 10 Hz to 30 kHz")
+                       f"must be a frequency from {FREQUENCY_SPAN}")
         if f is not None:
             out.append(_named(f, a4))
     return out
@@ -53,8 +52,8 @@ def _relative(value, key, how, base, a4, col):
     out = []
     for j, v in enumerate(value, start=1):
         if how == "cents":
-            if not is_number(v) or not -4800 <= v <= 9600:
-                col.add(f"{key}.cents[{j}]", v, "must be a number of cents from -4800 to 9600")
+            if not is_number(v) or not CENTS_RANGE[0] <= v <= CENTS_RANGE[1]:
+                col.add(f"{key}.cents[{j}]", v, f"must be a number of cents from {CENTS_RANGE[0]:g} to {CENTS_RANGE[1]:g}")
                 continue
             f = base * 2 ** (v / 1200)
         else:
@@ -62,12 +61,12 @@ def _relative(value, key, how, base, a4, col):
                 col.add(f"{key}.ratios[{j}]", v, 'must be a ratio such as "9/8", "3:2" or 1.5')
                 continue
             r = pitch.parse_ratio(v)
-            if not (math.isfinite(r) and 1 / 64 <= r <= 64):
-                col.add(f"{key}.ratios[{j}]", v, "must be a ratio from 1/64 to 64")
+            if not (math.isfinite(r) and 1 / RATIO_RANGE[1] <= r <= RATIO_RANGE[1]):
+                col.add(f"{key}.ratios[{j}]", v, f"must be a ratio from 1/{RATIO_RANGE[1]:g} to {RATIO_RANGE[1]:g}")
                 continue
             f = base * r
         if not FREQUENCY_RANGE[0] <= f <= FREQUENCY_RANGE[1]:
-            col.add(f"{key}.{how}[{j}]", v, "gives a pitch outside 10 Hz to 30 kHz")
+            col.add(f"{key}.{how}[{j}]", v, f"gives a pitch outside {FREQUENCY_SPAN}")
             continue
         out.append(_named(f, a4))
     return out

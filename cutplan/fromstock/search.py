@@ -33,8 +33,8 @@ import numpy as np
 from cutplan import pitch
 from cutplan.fromstock import pack as fit_pack
 from cutplan.fromstock import table as fit_table
-from cutplan.layout import optimiser
 from cutplan.fromstock.output import SET_NAMES, design_mapping
+from cutplan.layout import optimiser
 
 SEARCH_LOW = "C1"
 """Lowest root tried when no lower limit is given (a piece this low rarely fits any stick)."""

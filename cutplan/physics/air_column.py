@@ -14,12 +14,10 @@ import math
 import numpy as np
 
 from cutplan.physics import wall_losses
+from cutplan.units import ROOM_TEMPERATURE, STANDARD_PRESSURE, ZERO_CELSIUS
 
 SPEED_OF_SOUND_20C = 343.2
 """Speed of sound in dry air at 20 C and 101.325 kPa [m/s]. ISO 9613-1:1993, Formula A.5."""
-
-STANDARD_PRESSURE = 101325.0
-"""Standard atmosphere [Pa]. ISO 9613-1:1993 reference pressure."""
 
 CO2_MOLE_FRACTION = 400e-6
 """CO2 mole fraction of outdoor air assumed by default [-] (about 400 ppm; common practice)."""
@@ -56,7 +54,7 @@ def _plain(out):
 
 
 def speed_of_sound_iso9613(temperature):
-    r"""Speed of sound in dry air [m/s]: :math:`c = 343.2 \sqrt{T / 293.15}`.
+    r"""Speed of sound in dry air [m/s]: :math:`c = 343.2 \sqrt{T / T_{20}}` (T_20: 20 C in kelvin).
 
     Parameters
     ----------
@@ -73,7 +71,7 @@ def speed_of_sound_iso9613(temperature):
     .. [1] ISO 9613-1:1993, Acoustics - Attenuation of sound during propagation outdoors -
        Part 1, Formula A.5.
     """
-    return _plain(SPEED_OF_SOUND_20C * np.sqrt(np.asarray(temperature, dtype=float) / 293.15))
+    return _plain(SPEED_OF_SOUND_20C * np.sqrt(np.asarray(temperature, dtype=float) / ROOM_TEMPERATURE))
 
 
 def saturation_vapour_pressure_davis_1992(temperature):
@@ -105,7 +103,7 @@ def water_mole_fraction(temperature, humidity, pressure=STANDARD_PRESSURE):
     pressure : float
         Atmospheric pressure [Pa].
     """
-    t_c = temperature - 273.15
+    t_c = temperature - ZERO_CELSIUS
     enhancement = 1.00062 + 3.14e-8 * pressure + 5.6e-7 * t_c * t_c
     return humidity / 100.0 * enhancement * saturation_vapour_pressure_davis_1992(temperature) / pressure
 
@@ -140,7 +138,7 @@ def speed_of_sound_cramer_1993(temperature, humidity=0.0, pressure=STANDARD_PRES
     .. [1] Cramer 1993, Eq. 15 and Table III (see ``_CRAMER_1993``).
     """
     a = _CRAMER_1993
-    t = temperature - 273.15
+    t = temperature - ZERO_CELSIUS
     p = pressure
     xw = water_mole_fraction(temperature, humidity, pressure)
     xc = co2

@@ -44,6 +44,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from cutplan.units import ROOM_TEMPERATURE, STANDARD_PRESSURE, ZERO_CELSIUS
+
 GAMMA = 1.4
 """Ratio of specific heats of air [-] (dry air near room temperature; handbook value)."""
 
@@ -52,9 +54,9 @@ PRANDTL = 0.71
 Incropera & DeWitt, Fundamentals of Heat and Mass Transfer, Table A.4; 0.71 from memory)."""
 
 SUTHERLAND_MU0 = 1.716e-5
-"""Viscosity of air at 273.15 K [Pa s] (White, Viscous Fluid Flow, 1991, Table 1-2, Sutherland law)."""
+"""Viscosity of air at 0 C [Pa s] (White, Viscous Fluid Flow, 1991, Table 1-2, Sutherland law)."""
 
-SUTHERLAND_T0 = 273.15
+SUTHERLAND_T0 = ZERO_CELSIUS
 """Reference temperature of the Sutherland law [K] (White 1991, Table 1-2)."""
 
 SUTHERLAND_S = 110.4
@@ -86,7 +88,7 @@ def viscosity_sutherland(temperature):
     return float(out) if out.ndim == 0 else out
 
 
-def air_density(temperature, pressure=101325.0):
+def air_density(temperature, pressure=STANDARD_PRESSURE):
     """Density of dry air [kg/m^3] from the ideal-gas law, rho = p / (R T).
 
     >>> round(air_density(300.0), 4)
@@ -96,7 +98,7 @@ def air_density(temperature, pressure=101325.0):
     return float(out) if np.ndim(out) == 0 else out
 
 
-def wall_loss_fraction(frequency, radius, temperature=293.15, pressure=101325.0):
+def wall_loss_fraction(frequency, radius, temperature=ROOM_TEMPERATURE, pressure=STANDARD_PRESSURE):
     r"""Fraction by which wall losses slow sound in a pipe, :math:`\Delta c / c` [-].
 
     .. math:: \frac{\Delta c}{c} = \frac{1 + (\gamma - 1)/\sqrt{\mathrm{Pr}}}{a}
@@ -132,7 +134,7 @@ def wall_loss_fraction(frequency, radius, temperature=293.15, pressure=101325.0)
     return float(out) if np.ndim(out) == 0 else out
 
 
-def phase_speed(speed, frequency, radius, temperature=293.15, pressure=101325.0):
+def phase_speed(speed, frequency, radius, temperature=ROOM_TEMPERATURE, pressure=STANDARD_PRESSURE):
     """Phase speed of sound in a pipe [m/s]: the free-air ``speed`` slowed by wall losses.
 
     >>> round(phase_speed(343.36, 261.63, 0.0175), 2)
@@ -141,7 +143,7 @@ def phase_speed(speed, frequency, radius, temperature=293.15, pressure=101325.0)
     return speed * (1.0 - wall_loss_fraction(frequency, radius, temperature, pressure))
 
 
-def propagation_constant_zwikker_kosten(frequency, radius, speed, temperature=293.15, pressure=101325.0):
+def propagation_constant_zwikker_kosten(frequency, radius, speed, temperature=ROOM_TEMPERATURE, pressure=STANDARD_PRESSURE):
     r"""Exact (low reduced frequency) complex wavenumber in a rigid circular pipe [1/m].
 
     .. math:: k = \frac{\omega}{c} \sqrt{\frac{\gamma - (\gamma - 1) F(s\sqrt{\mathrm{Pr}})}{F(s)}},

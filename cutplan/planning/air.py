@@ -5,12 +5,12 @@ from __future__ import annotations
 
 import numpy as np
 
+from cutplan.design import Design, DesignError, SetSpec
+from cutplan.physics import air_column
 from cutplan.planning import air_calibrated as air_stock
 from cutplan.planning import uncertainty
 from cutplan.planning.allowance import allowances, risk_warning
-from cutplan.design import Design, DesignError, SetSpec
 from cutplan.planning.frequency import air_frequency_function, cents_per_mm, partial_notes
-from cutplan.physics import air_column
 from cutplan.planning.records import PARTIAL_COUNT, Piece
 from cutplan.units import format_length
 

@@ -22,6 +22,7 @@ from dataclasses import dataclass
 
 from cutplan.physics import air_column
 from cutplan.physics.wall_losses import wall_loss_fraction
+from cutplan.units import ZERO_CELSIUS
 
 
 @dataclass(frozen=True)
@@ -108,7 +109,7 @@ def assumptions(spec):
     losses = ("its wall losses taken out at that frequency and each note's own put back" if cal.frequency > 0
               else "used as measured, wall losses included (no frequency recorded)")
     return [f"stock calibrated by measurement: speed of sound {cal.speed:.2f} m/s at "
-            f"{cal.temperature - 273.15:.1f} C{at} (scaled to the design's air; {losses}), end correction "
+            f"{cal.temperature - ZERO_CELSIUS:.1f} C{at} (scaled to the design's air; {losses}), end correction "
             f"{cal.end_correction * 1000:.2f} mm per open end, fixed" + (f" ({cal.note})" if cal.note else "")]
 
 
@@ -131,7 +132,7 @@ def stock_toml(name, stock, speed_value, temperature, end_correction, note, head
         f'outer_tolerance = "{stock.outer_tolerance * 1000:.4f} mm"',
         f'wall_tolerance = "{stock.wall_tolerance * 100:.2f} %"',
         f'speed_of_sound = "{speed_value:.3f} m/s"',
-        f'measured_at = "{temperature - 273.15:.2f} C"',
+        f'measured_at = "{temperature - ZERO_CELSIUS:.2f} C"',
         f'end_correction = "{end_correction * 1000:.4f} mm"',
         *([f'measured_frequency = "{frequency:.3f} Hz"'] if frequency > 0 else []),
         f'calibration_note = "{note}"',

@@ -12,11 +12,11 @@ import math
 import numpy as np
 
 from cutplan import pitch
+from cutplan.physics import beam
+from cutplan.physics.undercut2d import design_undercut_2d, trimmed_profile
 from cutplan.planning import uncertainty
 from cutplan.planning.allowance import allowances, risk_warning
 from cutplan.planning.frequency import beam_frequency_function, partial_notes, plane_constants
-from cutplan.physics import beam
-from cutplan.physics.undercut2d import design_undercut_2d, trimmed_profile
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece
 
 LENGTH_TOLERANCE_CENTS = 0.01

@@ -6,8 +6,8 @@ from __future__ import annotations
 import numpy as np
 
 from cutplan import pitch
-from cutplan.planning import air_calibrated as air_stock
 from cutplan.physics import air_column, beam, timoshenko
+from cutplan.planning import air_calibrated as air_stock
 
 STRIKE_NOTE_MODE = 4
 """Mode whose half sets the strike note of a tubular bell: the strike pitch is about an octave
@@ -86,8 +86,8 @@ def plane_constants(mat, sawing="unknown"):
     inline G is taken as that plane's G); otherwise E across is the record's ``modulus_across``
     where it has one, else E along, and G the material's shear modulus.
     """
-    from cutplan.planning import grain
     from cutplan.physics.undercut2d import PlaneConstants
+    from cutplan.planning import grain
 
     e = mat.modulus_for("elastic-2d")
     if grain.is_orthotropic(mat):

@@ -13,16 +13,13 @@ from dataclasses import replace
 import numpy as np
 
 from cutplan import pitch
-from cutplan.tuning import advice
-from cutplan.planning import air_calibrated as air_stock
-from cutplan.planning import grain
-from cutplan.planning import hang_holes
-from cutplan.planning import other_modes
-from cutplan.planning import elastic as plan_elastic
-from cutplan.planning import thermal
-from cutplan.planning import uncertainty
-from cutplan.planning.allowance import allowance_rule, allowances, risk_warning
 from cutplan.design import Design, DesignError, DesignErrors, SetSpec
+from cutplan.physics import beam, timoshenko
+from cutplan.planning import air_calibrated as air_stock
+from cutplan.planning import elastic as plan_elastic
+from cutplan.planning import grain, hang_holes, other_modes, thermal, uncertainty
+from cutplan.planning.air import BAR_OVER_MOUTH, plan_air_set
+from cutplan.planning.allowance import allowance_rule, allowances, risk_warning
 from cutplan.planning.frequency import (
     STRIKE_NOTE_MODE,
     beam_constants,
@@ -31,10 +28,9 @@ from cutplan.planning.frequency import (
     partial_notes,
     undercut_frequency_function,
 )
-from cutplan.physics import beam, timoshenko
-from cutplan.planning.air import BAR_OVER_MOUTH, plan_air_set
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
-from cutplan.units import format_length
+from cutplan.tuning import advice
+from cutplan.units import ZERO_CELSIUS, format_length
 
 __all__ = ["Arch", "Piece", "Plan", "SetPlan", "bars_to_solve", "plan"]
 
@@ -196,7 +192,7 @@ def _set_summary(spec: SetSpec, units="mm"):
         speed = air_stock.speed(spec)
         hum = (f"{air_stock.humidity(spec):.0f} % RH" + (" (assumed; give humidity to change it)"
                                                          if spec.humidity is None else ""))
-        assumptions.append(f"air at {spec.temperature - 273.15:.1f} C, {hum}: speed of sound {speed:.2f} m/s "
+        assumptions.append(f"air at {spec.temperature - ZERO_CELSIUS:.1f} C, {hum}: speed of sound {speed:.2f} m/s "
                            "in free air (Cramer 1993)")
         corr = spec.end_correction
         corr_text = (f"{corr:.6g} x inner radius" if isinstance(corr, (int, float))
@@ -211,7 +207,7 @@ def _set_summary(spec: SetSpec, units="mm"):
             assumptions.append(BAR_OVER_MOUTH)
         if spec.temperature_range is not None:
             lo, hi = spec.temperature_range
-            assumptions.append(f"stopper travel covers {lo - 273.15:.0f} C to {hi - 273.15:.0f} C")
+            assumptions.append(f"stopper travel covers {lo - ZERO_CELSIUS:.0f} C to {hi - ZERO_CELSIUS:.0f} C")
         model = spec.ends
     else:
         mat = spec.material

@@ -162,6 +162,19 @@ def cautions_for(plan, table=None):
     return tuple(out)
 
 
+SELECTING_KEYS = ("kinds", "shapes", "materials", "classes", "stocks", "classroom")
+"""Keys of a caution row that choose the sets it applies to (see ``cautions.toml``)."""
+
+
+def general_cautions(table=None):
+    """The cautions that apply to every packet, whatever its pieces and materials (the rows that
+    choose no sets), then codes: what a page says before there is a plan to choose by."""
+    table = table if table is not None else _read("cautions.toml")
+    out = [Caution(row["text"], row.get("source", ""), row.get("where", ""), row["kind"])
+           for row in table["caution"] if not any(k in row for k in SELECTING_KEYS)]
+    return (*out, Caution(CODES))
+
+
 def hanging_plate(set_plan):
     """Plate for a chime set [mm], from the set's planned hanging (cutplan.planning.hanging): one hole per
     tube on the hole circle, a centre hole for the striker line, three for the plate's own lines."""

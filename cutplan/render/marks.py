@@ -12,7 +12,7 @@ import math
 from dataclasses import dataclass
 
 from cutplan.planning.shopping import hanging_plate  # noqa: F401 (the plate geometry, re-exported for renderers)
-from cutplan.units import INCH_DENOMINATOR, MM, format_length
+from cutplan.units import INCH_DENOMINATOR, MM, ZERO_CELSIUS, format_length
 
 TICK_STEP_MM = 10
 """Ticks along a strip every 10 mm [mm]."""
@@ -70,7 +70,7 @@ def piece_marks(piece, units="mm", den=INCH_DENOMINATOR):
     if piece.stopper:
         marks = [Mark(0.0, "end", "OPEN END 0")]
         for t, depth in piece.stopper:
-            marks.append(Mark(depth / MM, "stopper", f"stopper {t - 273.15:.0f} C: {length_text(depth / MM, units, den)}"))
+            marks.append(Mark(depth / MM, "stopper", f"stopper {t - ZERO_CELSIUS:.0f} C: {length_text(depth / MM, units, den)}"))
         cut = piece.cut_length / MM
         marks.append(Mark(cut, "cut-tube", f"CUT TUBE {length_text(cut, units, den)} (stopper end)"))
         return sorted(marks, key=lambda m: m.at_mm)

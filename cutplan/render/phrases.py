@@ -1,8 +1,49 @@
-"""Short phrases shared by the terminal table and the packet, so both say a fact the same way."""
+"""The fixed phrases every front end shares (terminal, PDF, SVG, the page, from-stock, the bench),
+so each fact is said one way and written once.
+
+The cautions themselves are not here: they are chosen from the set's kinds and materials by
+:func:`cutplan.planning.shopping.cautions_for` (the table ``materials/shop/cautions.toml``) and
+carried on the Plan; :func:`caution_lines` only lays them out.
+"""
 
 from __future__ import annotations
 
+import textwrap
+
+from cutplan.limits import IN_TUNE_CENTS
 from cutplan.units import format_length
+
+TRIM_RAISES = "trimming raises the pitch"
+"""Why every piece is cut long (a shorter piece sounds higher)."""
+TRIM_RULE = f"cut long, then trim to pitch ({TRIM_RAISES})"
+"""How a piece that is tuned by trimming is cut."""
+STOPPER_RULE = "cut the tube to its cut length, tune with the stopper"
+"""How a stoppered tube is cut and tuned."""
+CENTRE_OUT = "trim half from each end; supports from the centre line"
+"""How a bar marked on a rough blank is trimmed and marked (so the supports stay on the nodes)."""
+SAFETY_HEADING = "Safety: the cautions for these pieces and materials"
+"""The heading above the cautions (terminal, from-stock, the page)."""
+
+
+def sentence(phrase):
+    """A phrase as a sentence: capital first letter, full stop.
+
+    >>> sentence("cut long")
+    'Cut long.'
+    """
+    return phrase[:1].upper() + phrase[1:] + ("" if phrase.endswith(".") else ".")
+
+
+def caution_lines(cautions, width=100):
+    """The plan's cautions (:class:`cutplan.planning.shopping.Caution`) as plain-text lines no
+    wider than ``width``, under :data:`SAFETY_HEADING`; no lines when there are none."""
+    if not cautions:
+        return []
+    out = [SAFETY_HEADING]
+    for c in cautions:
+        out += textwrap.wrap(f"- {c.text}", width, subsequent_indent="  ", break_on_hyphens=False,
+                             break_long_words=False)
+    return out
 
 
 def other_modes_text(modes):
@@ -75,7 +116,7 @@ def removal_lines(piece, report, units="mm"):
         lines.append("nothing to cut until a clean reading confirms it")
         return lines
     if report.action == "in-tune":
-        lines.append(f"every tuned partial is within {2:g} cents: leave it")
+        lines.append(f"every tuned partial is within {IN_TUNE_CENTS:g} cents: leave it")
         return lines
     step = 1
     if report.trim_each_end > 0.05e-3:

@@ -23,6 +23,7 @@ import math
 import svgwrite
 
 from cutplan.render import marks as mk
+from cutplan.render.phrases import CENTRE_OUT, STOPPER_RULE, TRIM_RULE, sentence
 from cutplan.units import INCH_DENOMINATOR, MM, format_length
 
 HAIRLINE = 0.1
@@ -118,11 +119,10 @@ def render_piece_svg(plan, piece, colours=None):
     kits = getattr(plan, "copies", 1)
     doc.text(f"{plan.title}: {piece.label} ({piece.note}, {piece.target_hz:.2f} Hz)"
              + (f", make {kits}" if kits > 1 else ""), (MARGIN, MARGIN + 3), 4)
-    how = ("cut the tube to its cut length, tune with the stopper" if piece.stopper else
-           "cut long, then trim to pitch (trimming raises the pitch)")
+    how = STOPPER_RULE if piece.stopper else TRIM_RULE
     if piece.mark_offset > 0:
-        how += ": rough cut at 0 and at the far dotted line, trim half from each end; supports from the centre line"
-    doc.text(f"Print or cut at 100 % (actual size); check the rulers. {how[0].upper() + how[1:]}.",
+        how += f": rough cut at 0 and at the far dotted line, {CENTRE_OUT}"
+    doc.text(f"Print or cut at 100 % (actual size); check the rulers. {sentence(how)}",
              (MARGIN, MARGIN + 9), 2.5)
     body = piece.cut_length / MM if piece.stopper else piece.length / MM
     doc.rect((x0 + piece.mark_offset / MM, y0), (body, strip_h), role="cut")

@@ -8,7 +8,7 @@ import json
 
 from cutplan.render.hanging import hanging_dict
 from cutplan.render.stock_layout import cut_list_view
-from cutplan.units import INCH_DENOMINATOR, MM, length_parts
+from cutplan.units import INCH_DENOMINATOR, MM, ZERO_CELSIUS, length_parts
 
 PLAN_FORMAT = "cutplan-plan/1"
 
@@ -75,7 +75,7 @@ def piece_dict(p):
         }
     if p.stopper:
         out["stopper"] = {
-            "depths_mm": [{"temperature_c": _r(t - 273.15, 1), "depth_mm": _r(d / MM, 2)} for t, d in p.stopper],
+            "depths_mm": [{"temperature_c": _r(t - ZERO_CELSIUS, 1), "depth_mm": _r(d / MM, 2)} for t, d in p.stopper],
             "travel_mm": _r((max(d for _, d in p.stopper) - min(d for _, d in p.stopper)) / MM, 2),
         }
     return out
@@ -192,7 +192,7 @@ def render_csv(plan):
             "" if p.mass is None else f"{p.mass * 1000:.1f}", f"{p.cents_per_mm:.2f}",
             *[f"{f:.1f}" for f in p.partials_hz[1:4]], p.model, f"{p.shear_correction_cents:.2f}",
             "; ".join(p.warnings),
-            "; ".join(f"{t - 273.15:.0f} C: {d / MM:.1f}" for t, d in p.stopper),
+            "; ".join(f"{t - ZERO_CELSIUS:.0f} C: {d / MM:.1f}" for t, d in p.stopper),
         ])
     return buf.getvalue()
 

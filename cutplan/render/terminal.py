@@ -5,16 +5,9 @@ from __future__ import annotations
 import textwrap
 
 from cutplan.render.hanging import hanging_lines
-from cutplan.render.phrases import other_modes_text
+from cutplan.render.phrases import TRIM_RULE, caution_lines, other_modes_text
 from cutplan.render.stock_layout import cut_list_view, stick_lines
-from cutplan.units import INCH, INCH_DENOMINATOR, MM, format_length, length_cell, length_heading
-
-SAFETY_LINE = (
-    "Safety: wear eye and hearing protection when cutting and striking; deburr cut tube; never "
-    "heat or burn PVC and vacuum its dust; hang anything overhead from rated hardware with a "
-    "safety factor, as local codes require."
-)
-
+from cutplan.units import INCH, INCH_DENOMINATOR, MM, ZERO_CELSIUS, format_length, length_cell, length_heading
 
 WIDTH = 100
 """Widest line of a plan table [characters]; secondary columns move to a second table beyond it."""
@@ -91,7 +84,7 @@ def render_table(plan):
         out.append(f"{s.name}: {len(s.pieces)} x {s.kind}, {s.material}, {s.section_label(units)}")
         for a in s.assumptions:
             out.extend(_wrapped(a))
-        out.append(f"  allowance {s.allowance_rule}: cut long, then trim to pitch (trimming raises the pitch)")
+        out.append(f"  allowance {s.allowance_rule}: {TRIM_RULE}")
         out.append("  sharp: the chance a piece comes out sharp (too short) at its cut length")
         out.extend(_fitted(*_set_rows(s, units, den)))
         for p in s.pieces:
@@ -106,8 +99,8 @@ def render_table(plan):
             if p.stopper:
                 lo, hi = p.stopper[0], p.stopper[-1]
                 out.extend(_wrapped(f"{p.label}: cut the tube {format_length(p.cut_length, units, den)} and tune with the "
-                           f"stopper: {format_length(lo[1], units, den)} from the open end at {lo[0] - 273.15:.0f} C, "
-                           f"{format_length(hi[1], units, den)} at {hi[0] - 273.15:.0f} C"))
+                           f"stopper: {format_length(lo[1], units, den)} from the open end at {lo[0] - ZERO_CELSIUS:.0f} C, "
+                           f"{format_length(hi[1], units, den)} at {hi[0] - ZERO_CELSIUS:.0f} C"))
         for p in s.pieces:
             for w in p.warnings:
                 out.extend(_wrapped(f"! {p.label}: {w}"))
@@ -119,13 +112,7 @@ def render_table(plan):
     if plan.cut_list is not None:
         out.extend(render_stock(plan.cut_list, units, den))
         out.append("")
-    cautions = getattr(plan, "cautions", ())
-    if cautions:
-        out.append("Safety (the packet's cautions for these pieces and materials):")
-        for c in cautions:
-            out.extend(_wrapped(f"- {c.text}", ""))
-    else:
-        out.extend(_wrapped(SAFETY_LINE, ""))
+    out.extend(caution_lines(plan.cautions, WIDTH))
     return "\n".join(out) + "\n"
 
 

@@ -21,6 +21,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from cutplan.limits import AIR_SPEED_RANGE, IN_TUNE_CENTS
+from cutplan.render.phrases import TRIM_RAISES
 from cutplan.units import format_length
 
 
@@ -184,9 +186,6 @@ def fit_air_column_choice(pieces, ends, what, speed, radius=None):
     return fit
 
 
-AIR_SPEED_RANGE = (250.0, 450.0)
-"""Speeds of sound a fit may give [m/s]: air from about -100 C to 230 C (the ideal-gas speed
-331.3 sqrt(T / 273.15 K) m/s; from memory), the range a stock table accepts."""
 END_FACTOR_RANGE = (0.0, 1.5)
 """End corrections a fit may give, as a factor of the inner radius [-]: unflanged 0.6133 and
 flanged 0.8216 (Levine, H. and Schwinger, J., Phys. Rev. 73 (1948) 383; from memory), with room
@@ -281,13 +280,13 @@ def trim_advice(piece, frequency_at, measured_hz, length_now=None, units="mm"):
     length_needed = _length_for(miss, length_now)
     cents_off = 1200 * math.log2(measured_hz / piece.target_hz)
     remove = length_now - length_needed
-    if abs(cents_off) < 2:
-        action = "in tune (within 2 cents): leave it"
+    if abs(cents_off) < IN_TUNE_CENTS:
+        action = f"in tune (within {IN_TUNE_CENTS:g} cents): leave it"
     elif remove > 0:
         step = (f"take off about {format_length(remove / 3, units)} at a time" if remove >= 1.5e-3
                 else "file or sand it off a little at a time")
         action = (f"flat by {-cents_off:.1f} cents: remove {format_length(remove, units)} from "
-                  f"{piece.trim_end}; {step} and measure again (trimming raises the pitch)")
+                  f"{piece.trim_end}; {step} and measure again ({TRIM_RAISES})")
     else:
         action = f"sharp by {cents_off:.1f} cents: {format_length(-remove, units)} too short; {piece.if_sharp}"
     caution = ""

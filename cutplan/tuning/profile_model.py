@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import numpy as np
 
+
 def model_name():
     """Which model :func:`profile_modes` uses: "elastic-2d" or "beam-fe"."""
     try:

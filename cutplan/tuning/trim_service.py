@@ -24,16 +24,12 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from cutplan.limits import FREQUENCY_RANGE, FREQUENCY_SPAN, IN_TUNE_CENTS
 from cutplan.units import format_length
 
-MIN_HZ, MAX_HZ = 10.0, 30000.0
-"""Readings accepted [Hz]."""
 LOW_CONFIDENCE = 0.5
 """A recording read with less confidence than this is questioned before any advice [-]
 (the analysis's 0..1 score; common practice)."""
-IN_TUNE_CENTS = 2.0
-"""A tuned partial this close to its target needs nothing [cents] (about a good tuner's
-reading error; common practice)."""
 PARTIAL_MATCH = 0.06
 """A recorded peak within this fraction of fundamental x planned ratio is taken as that partial
 [-] (about 100 cents)."""
@@ -114,8 +110,8 @@ def parse_measured(text, key="measured"):
     if not values:
         raise TrimError(key, "give the frequency the piece sounds now, in Hz")
     for v in values:
-        if not MIN_HZ <= v <= MAX_HZ:
-            raise TrimError(key, f"{v:g} must be a frequency between {MIN_HZ:g} and {MAX_HZ:g} Hz")
+        if not FREQUENCY_RANGE[0] <= v <= FREQUENCY_RANGE[1]:
+            raise TrimError(key, f"{v:g} must be a frequency from {FREQUENCY_SPAN}")
     if any(b <= a for a, b in zip(values, values[1:], strict=False)):
         raise TrimError(key, f"{text!r}: partials must rise, in mode order (1, 2, 3)")
     return values
@@ -205,10 +201,10 @@ def trim_report(design, plan, label, measured_hz, confidence=1.0, from_recording
 
 def _plain_report(plan, piece, spec, partials, confidence, questions, length_now):
     """Uniform bars, chimes and air columns: the length to trim (and the supports for it)."""
-    from cutplan.tuning.calibrate import CalibrationError, trim_advice
-    from cutplan.planning.frequency import piece_frequency_function
     from cutplan.numeric import quiet
+    from cutplan.planning.frequency import piece_frequency_function
     from cutplan.render.phrases import trim_report_lines
+    from cutplan.tuning.calibrate import CalibrationError, trim_advice
 
     f1 = partials[0].measured_hz
     try:

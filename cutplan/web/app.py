@@ -16,11 +16,21 @@ from pathlib import Path
 
 from flask import Flask, Request, g, jsonify, render_template, request
 
+from cutplan.planning.shopping import general_cautions
+from cutplan.render.phrases import SAFETY_HEADING, TRIM_RULE
 from cutplan.units import LengthParts
 from cutplan.web import form as webform
 from cutplan.web import view
-from cutplan.web.service import (MAX_DESIGN_BYTES, Planner, WebErrors, error, packet_pdf, packet_zip, piece_wav,
-                                 plain_problem)
+from cutplan.web.service import (
+    MAX_DESIGN_BYTES,
+    Planner,
+    WebErrors,
+    error,
+    packet_pdf,
+    packet_zip,
+    piece_wav,
+    plain_problem,
+)
 from cutplan.web.trim import trim_answer
 
 MAX_UPLOAD_BYTES = 16 * 1024 * 1024
@@ -79,6 +89,8 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     library = server_library(materials_dirs)  # read once per process; the planners share it
     examples = _examples()
     app.jinja_env.filters["both"] = _both_units
+    app.jinja_env.globals.update(trim_rule=TRIM_RULE, safety_heading=SAFETY_HEADING,
+                                 general_cautions=[c.text for c in general_cautions()])
     choices = {
         "materials": sorted((n, m.description) for n, m in library.materials.items()),
         "stock_sizes": sorted((n, s.description) for n, s in library.stock.items()),

@@ -16,8 +16,6 @@ from dataclasses import dataclass
 
 from cutplan.web.service import WebErrors, error
 
-MIN_HZ, MAX_HZ = 10.0, 30000.0
-"""Tuner readings accepted [Hz] (the service's range)."""
 MAX_STATE_BYTES = 200_000
 """Largest rounds mapping accepted back from the page [bytes]."""
 

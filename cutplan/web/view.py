@@ -11,7 +11,7 @@ from __future__ import annotations
 import re
 
 from cutplan.render.stock_layout import cut_list_view
-from cutplan.units import INCH_DENOMINATOR, length_parts
+from cutplan.units import INCH_DENOMINATOR, ZERO_CELSIUS, length_parts
 
 
 def piece_rows(set_plan, units, den=INCH_DENOMINATOR):
@@ -31,7 +31,7 @@ def piece_rows(set_plan, units, den=INCH_DENOMINATOR):
             "cents_per_mm": f"{p.cents_per_mm:.2f}",
             "partials": " ".join(f"{f:.0f}" for f in p.partials_hz[1:]),
             "mass": "" if p.mass is None else f"{p.mass * 1000:.0f} g",
-            "stopper": [f"{t - 273.15:.0f} C: {_len(d, units)}" for t, d in p.stopper],
+            "stopper": [f"{t - ZERO_CELSIUS:.0f} C: {_len(d, units)}" for t, d in p.stopper],
             "warnings": list(p.warnings),
         })
     return rows
@@ -143,5 +143,6 @@ def preview(plan, design, units=None):
         "chart": length_pitch_svg(plan, units),
         "templates": templates,
         "labels": [p.label for p in plan.pieces],
+        "cautions": [c.text for c in plan.cautions],
         "set_names": [s.name for s in plan.sets],
     }

@@ -19,11 +19,11 @@ from cutplan.render.pdf.base import (
     paragraph_height,
     table_pages,
 )
+from cutplan.render.phrases import TRIM_RULE
 
 HOW_TO_USE = (
     "Buy what the shopping list names; the plan computes the stock, the rest are suggestions.",
-    "Cut each piece long, at its 'cut at' length, never at the finished length: cut long, then trim to "
-    "pitch (trimming raises the pitch).",
+    f"Cut each piece long, at its 'cut at' length, never at the finished length: {TRIM_RULE}.",
     "Chimes: mark the hang hole from the top end. Bars: mark the centre line on the rough blank and the supports "
     "from it; trim half from each end so they stay on the nodes, and drill once the bar is at pitch.",
     "Strike the piece, measure its pitch with a tuner or `cutplan measure`, and record it on the tuning sheet.",

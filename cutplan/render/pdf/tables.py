@@ -17,10 +17,8 @@ from cutplan.render.pdf.base import (
     paragraph_height,
     table_pages,
 )
-from cutplan.render.phrases import other_modes_text
-
-TRIM_WORDS = "cut long, then trim to pitch (trimming raises the pitch)"
-STOPPER_WORDS = "cut the tube to its cut length, tune with the stopper"
+from cutplan.render.phrases import STOPPER_RULE, TRIM_RULE, other_modes_text, sentence
+from cutplan.units import ZERO_CELSIUS
 
 
 def allowance(p):
@@ -70,7 +68,7 @@ def cut_list(packet):
                 cut += f"\n(+{first(plan, allowance(p))})"
             finished = "tuned with the stopper" if stoppered else length_lines(plan, p.length)
             rows.append([p.label, p.note, f"{p.target_hz:.2f}", finished, cut, nodes, mass, "", "", ""])
-        what = STOPPER_WORDS if stoppered else TRIM_WORDS
+        what = STOPPER_RULE if stoppered else TRIM_RULE
         intro = (f"{s.kind}, {s.material}, {s.section_label(plan.units)}; longest first. Cut at the '{cut_head}' length: "
                  f"{what}.")
         if getattr(plan, "copies", 1) > 1:
@@ -103,7 +101,7 @@ def tuning(packet):
         for p in s.pieces:
             per10 = length_lines(plan, p.trim_per_10_cents) if p.trim_per_10_cents else "-"
             if p.stopper:
-                allow = STOPPER_WORDS
+                allow = STOPPER_RULE
             else:
                 allow = (f"{length_lines(plan, allowance(p))}\nchance sharp {p.sharp_risk * 100:.0f} %\n"
                          f"after a test piece: {first(plan, p.allowance_calibrated)}")
@@ -113,11 +111,11 @@ def tuning(packet):
                          p.trim_end, p.if_sharp, others, "", ""])
         rule = s.allowance_rule
         if _stoppered(s):
-            intro = (f"{s.name}: {STOPPER_WORDS}: the cut length is the deepest stopper setting plus room for "
+            intro = (f"{s.name}: {STOPPER_RULE}: the cut length is the deepest stopper setting plus room for "
                      "the stopper (see the stopper table). Set the stopper for the room's temperature, strike, "
                      "measure, and move the stopper in small steps.")
         else:
-            intro = (f"{s.name}: {TRIM_WORDS}. Trim in small steps: take off a third of the computed amount, "
+            intro = (f"{s.name}: {TRIM_RULE}. Trim in small steps: take off a third of the computed amount, "
                      "strike, measure, repeat; a piece flat by 10 cents needs about the 'per 10 cents' shown. "
                      f"'Cut long by' is the one allowance this piece gets{' (' + rule + ')' if rule else ''}, "
                      "with its chance of coming out sharp; after one test piece is measured (cutplan calibrate) "
@@ -141,13 +139,13 @@ def stoppers(packet):
         if not pieces:
             continue
         temps = [t for t, _ in pieces[0].stopper]
-        header = ["label", "note", "cut tube at"] + [f"{t - 273.15:.0f} C" for t in temps]
+        header = ["label", "note", "cut tube at"] + [f"{t - ZERO_CELSIUS:.0f} C" for t in temps]
         widths = [width * x for x in [0.11, 0.06, 0.13] + [0.70 / len(temps)] * len(temps)]
         rows = []
         for p in pieces:
             rows.append([p.label, p.note, length_lines(plan, p.cut_length)]
                         + [length_lines(plan, d) for _, d in p.stopper])
-        intro = (f"{STOPPER_WORDS[0].upper() + STOPPER_WORDS[1:]}. Depth from the open end to the face of the "
+        intro = (f"{sentence(STOPPER_RULE)} Depth from the open end to the face of the "
                  "stopper, by air temperature. Warmer air carries sound faster, so the column must be longer to "
                  "stay in tune. Set the stopper for the temperature of the room the set is played in.")
         _chunked(packet, f"Resonator stopper settings: {s.name}", intro, header, rows, widths, 8)

@@ -27,6 +27,7 @@ from cutplan.render.pdf.base import (
     text_width,
 )
 from cutplan.render.pdf.rulers import RULER_TOP, RULERS_HEIGHT, rulers
+from cutplan.render.phrases import CENTRE_OUT
 from cutplan.units import INCH_DENOMINATOR, MM
 
 OVERLAP_MM = 20.0
@@ -230,7 +231,7 @@ def draw_strip(c, tile, x0, y_top, width_mm, units, den=INCH_DENOMINATOR):
     else:
         what = f"finished {mk.length_text(length, units, den)}"
         if off > 0:
-            what += "; rough cut at 0, trim half from each end; supports from the centre line"
+            what += f"; rough cut at 0, {CENTRE_OUT}"
     title = f"{p.label}  {p.note}  sheet {tile.sheet} of {tile.sheets}:  {what}"
     _tile_title(c, x0 + 1 * mm, y0 - 8 * mm, title, (tile.end - tile.start - 2) * mm)
 
