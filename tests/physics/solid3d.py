@@ -13,14 +13,19 @@ import numpy as np
 
 
 def vertical_bending(xs, hs, width, modulus, poisson, density, modes=3, along=40, across=2, through=3):
-    """Vertical bending frequencies [Hz] of a bar with a flat top and underside -h(x)."""
+    """Vertical bending frequencies [Hz] of a bar with a flat top and underside -h(x).
+
+    ``along`` is a count of equal elements along the bar, or the element edges themselves [m]
+    (fine at a step, coarse elsewhere).
+    """
     from scipy.sparse.linalg import eigsh
     from skfem import Basis, BilinearForm, ElementHex2, ElementVector, MeshHex, MeshHex2, asm
     from skfem.helpers import ddot, sym_grad, trace
 
     xs, hs = np.asarray(xs, float), np.asarray(hs, float)
     length = xs[-1]
-    box = MeshHex.init_tensor(np.linspace(0, length, along + 1), np.linspace(0, width / 2, across + 1),
+    edges = np.asarray(along, float) if np.ndim(along) else np.linspace(0, length, along + 1)
+    box = MeshHex.init_tensor(edges, np.linspace(0, width / 2, across + 1),
                               np.linspace(0, 1, through + 1))
     straight = MeshHex2.from_mesh(box)
     x, y, eta = straight.doflocs
