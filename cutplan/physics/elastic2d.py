@@ -197,7 +197,8 @@ def _assemble(xs, hs, width, e_along, e_across, shear, poisson, density, nx, ny,
     x, eta = straight.doflocs
     mesh = MeshQuad2(np.array([x, -eta * np.interp(x, xs, hs)]), straight.t)
     if width_constants is not None:
-        return _assemble_width(mesh, hs, width, e_along, e_across, shear, poisson, density, width_constants, order)
+        return _assemble_width(Basis(mesh, ElementQuad2(), intorder=4), hs, width, e_along, e_across, shear,
+                               poisson, density, width_constants, order)
     basis = Basis(mesh, ElementVector(ElementQuad2()), intorder=4)
     nu_across = poisson * e_across / e_along
     det = 1.0 - poisson * nu_across
@@ -224,11 +225,9 @@ def _assemble(xs, hs, width, e_along, e_across, shear, poisson, density, nx, ny,
     return k.tocsc(), m.tocsc(), dof_x, dof_y, (top, locs[0, top])
 
 
-def _assemble_width(mesh, hs, width, e_along, e_across, shear, poisson, density, constants, order):
-    """The width-resolved body (:mod:`width_terms`): DOFs of the mid-width fields pick the modes."""
-    from skfem import Basis, ElementQuad2
-
-    basis = Basis(mesh, ElementQuad2(), intorder=4)
+def _assemble_width(basis, hs, width, e_along, e_across, shear, poisson, density, constants, order):
+    """The width-resolved body (:mod:`width_terms`) on a scalar quadratic basis: DOFs of the
+    mid-width fields pick the modes."""
     try:
         k, m, fields = width_terms.assemble(basis, width, e_along, e_across, shear, poisson, density, constants,
                                             max(1, order))

@@ -93,7 +93,7 @@ def assemble(basis, width, e_along, e_thick, g_xz, nu_xz, density, w, order=WIDT
     Returns (K, M, fields): global DOF ``len(fields) * node + f`` for field ``f`` of
     :func:`field_terms`; K and M in CSC form.
     """
-    from scipy.sparse import coo_matrix
+    from scipy.sparse import coo_matrix  # here, not at the top: a plan without 2-D bars never loads scipy
 
     fields = field_terms(order)
     n_f = len(fields)

@@ -73,7 +73,7 @@ def plan_undercut_set_2d(spec, design, stock, progress=None):
     pieces = []
     for i, t in enumerate(spec.targets):
         r = solved[i]
-        stations = r.stations()
+        stations = r.outline()
         half = [(x, h) for x, h in stations if x <= r.length / 2 + 1e-12]
         picks = np.linspace(0, len(half) - 1, 11).round().astype(int)
         arch = Arch(thickness=sec.thickness, depth=r.depth, arch_width=r.arch_fraction, exponent=r.exponent,
