@@ -251,10 +251,12 @@ def _solve(xs, hs, k, m, dof_x, dof_y, top, e_along, density, modes, elements):
     sigma = -0.25 * omega1**2
     want = RIGID_MODES + modes + 2
     n = k.shape[0]
-    # shift-invert with one factorisation; minimum-degree ordering on the symmetric pattern
-    # factors the width-resolved matrices (several fields per node) several times faster
-    lu = splu((k - sigma * m).tocsc(), permc_spec="MMD_AT_PLUS_A")
-    op = LinearOperator(k.shape, matvec=lu.solve, dtype=float)
+    op = None
+    if n > 2 * (dof_x.size + dof_y.size):
+        # the width-resolved body (several fields per node): one factorisation with minimum-degree
+        # ordering on the symmetric pattern, several times faster than SuperLU's default ordering
+        lu = splu((k - sigma * m).tocsc(), permc_spec="MMD_AT_PLUS_A")
+        op = LinearOperator(k.shape, matvec=lu.solve, dtype=float)
     while True:
         count = min(want, n - 2)
         vals, vecs = eigsh(k, k=count, M=m, sigma=sigma, which="LM", v0=np.ones(n), OPinv=op)
