@@ -238,3 +238,22 @@ def test_elastic_constants_are_numbers_in_json(tmp_path):
     c = s["elastic_constants"]
     assert set(c) == {"modulus_along_gpa", "modulus_across_gpa", "shear_modulus_gpa", "poisson", "density_kg_m3"}
     assert all(isinstance(v, float) for v in c.values())
+
+
+@pytest.mark.parametrize("arched, width, thickness", [(False, "50 mm", "40 mm"), (True, "40 mm", "20 mm")])
+def test_a_stubby_bar_on_the_2d_model_is_warned_as_on_the_1d_model(tmp_path, arched, width, thickness):
+    # The warning threshold is common practice (length under 8 x the thickness); the 1-D paths
+    # warn there, and the 2-D path says the same thing.  C7 in rosewood: a uniform bar 40 mm
+    # thick, or an arched one 20 mm thick tuned 1:3, is under 8 x its thickness long.
+    text = THREE.format(note="C7", material="rosewood-honduras", width=width, thickness=thickness, ratios="3.0",
+                        arch=0.5, min_t="5 mm", extra="")
+    if not arched:
+        text = text.replace('undercut = { ratios = [3.0], arch_width = 0.5, min_thickness = "5 mm" }\n',
+                            'model = "elastic-2d"\n')
+    _, p = make_plan(tmp_path, text)
+    (piece,) = p.pieces
+    depth = float(thickness.split()[0]) / 1000
+    assert piece.model == "elastic-2d" and (piece.arch is not None) == arched
+    assert piece.length / depth < 8
+    stubby = [w for w in piece.warnings if w.startswith("stubby bar:")]
+    assert stubby == [f"stubby bar: length is {piece.length / depth:.1f} x its thickness; cut a test bar and calibrate"]

@@ -23,10 +23,12 @@ only the bending modes in the thickness plane are reported.
 A section that stays plane and a straight centre line are not assumed, so this solves the deep
 arch of a marimba bar, where a 1-D beam model is too stiff.
 
-Limit: plane stress lets the width contract freely.  Where Poisson's ratio across the width
-matters (an isotropic metal bar about twice as wide as thick), a 3-D solid is stiffer: by about
-12-16 cents for modes 1-3 of an arched bar 55 x 24 mm with nu = 0.3 (the 3-D test model in
-tests/physics/solid3d.py); with nu = 0 the two agree within about 1 cent.  Wood along the grain
+Plane stress lets the width contract freely.  Where Poisson's ratio across the width matters (a
+metal bar about twice as wide as thick, or the thin middle of an arch), the 3-D body is stiffer:
+by about 19 cents for modes 1-2 of an aluminium arch 55 x 24 mm cut to 6 mm (nu = 0.33).  Given
+``width_constants`` (:class:`cutplan.physics.width_terms.WidthConstants`), the width is resolved
+by polynomial terms across it (:mod:`cutplan.physics.width_terms`), which brings the model within
+about 1 cent of the 3-D body; without them the model is plane stress.  Wood along the grain
 couples the width only weakly (E across the width is a small fraction of E along).
 
 References
@@ -44,6 +46,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from cutplan.physics import width_terms
 from cutplan.physics.blas import single_thread
 
 ELEMENTS_ALONG = 60
@@ -80,7 +83,8 @@ class ProfileModes:
 
 
 def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_modulus, poisson, density,
-                  modes=4, elements_along=ELEMENTS_ALONG, elements_through=ELEMENTS_THROUGH):
+                  modes=4, elements_along=ELEMENTS_ALONG, elements_through=ELEMENTS_THROUGH, width_constants=None,
+                  width_order=width_terms.WIDTH_ORDER):
     """Free-free bending modes of a bar with a flat top and a profile cut from the underside.
 
     Parameters
@@ -90,7 +94,8 @@ def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_mod
     thickness : sequence of float
         Remaining thickness at each station [m]; piecewise linear between stations.
     width : float
-        Bar width b [m] (plane stress: the frequencies do not depend on it).
+        Bar width b [m] (plane stress: the frequencies do not depend on it; with
+        ``width_constants`` they do).
     modulus_along, modulus_across : float
         Young's moduli E_x along the bar and E_y across it, in the thickness plane [Pa].
     shear_modulus : float
@@ -103,6 +108,10 @@ def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_mod
         Bending modes wanted [-].
     elements_along, elements_through : int
         Mesh size [-] (the defaults are converged to well under 0.5 cent for modes 1-4).
+    width_constants : WidthConstants, optional
+        The constants of the width axis; given, the width is resolved (not plane stress).
+    width_order : int
+        Power pairs kept across the width when it is resolved [-].
 
     Returns
     -------
@@ -123,7 +132,8 @@ def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_mod
     with single_thread():
         stiffness, mass, dof_x, dof_y, top = _assemble(xs, hs, width, modulus_along, modulus_across,
                                                         shear_modulus, poisson, density,
-                                                        int(elements_along), int(elements_through))
+                                                        int(elements_along), int(elements_through),
+                                                        width_constants, int(width_order))
         return _solve(xs, hs, stiffness, mass, dof_x, dof_y, top, modulus_along, density, int(modes),
                       (int(elements_along), int(elements_through)))
 
@@ -177,7 +187,7 @@ def _kinks(xs, hs):
     return [float(x) for x, s in zip(xs[1:-1], turn, strict=True) if s > 0.05 * scale]
 
 
-def _assemble(xs, hs, width, e_along, e_across, shear, poisson, density, nx, ny):
+def _assemble(xs, hs, width, e_along, e_across, shear, poisson, density, nx, ny, width_constants=None, order=0):
     from skfem import Basis, BilinearForm, ElementQuad2, ElementVector, MeshQuad, MeshQuad2, asm
 
     p, t = _mesh(xs, hs, nx, ny)
@@ -186,6 +196,9 @@ def _assemble(xs, hs, width, e_along, e_across, shear, poisson, density, nx, ny)
     straight = MeshQuad2.from_mesh(MeshQuad(p, t))
     x, eta = straight.doflocs
     mesh = MeshQuad2(np.array([x, -eta * np.interp(x, xs, hs)]), straight.t)
+    if width_constants is not None:
+        return _assemble_width(Basis(mesh, ElementQuad2(), intorder=4), hs, width, e_along, e_across, shear,
+                               poisson, density, width_constants, order)
     basis = Basis(mesh, ElementVector(ElementQuad2()), intorder=4)
     nu_across = poisson * e_across / e_along
     det = 1.0 - poisson * nu_across
@@ -212,8 +225,24 @@ def _assemble(xs, hs, width, e_along, e_across, shear, poisson, density, nx, ny)
     return k.tocsc(), m.tocsc(), dof_x, dof_y, (top, locs[0, top])
 
 
+def _assemble_width(basis, hs, width, e_along, e_across, shear, poisson, density, constants, order):
+    """The width-resolved body (:mod:`width_terms`) on a scalar quadratic basis: DOFs of the
+    mid-width fields pick the modes."""
+    try:
+        k, m, fields = width_terms.assemble(basis, width, e_along, e_across, shear, poisson, density, constants,
+                                            max(1, order))
+    except ValueError as exc:
+        raise ProfileError(str(exc)) from None
+    n_f, nodes = len(fields), np.arange(basis.N)
+    dof_x, dof_y = n_f * nodes + fields.index((0, 0)), n_f * nodes + fields.index((2, 0))
+    locs = basis.doflocs
+    top = nodes[np.abs(locs[1]) < 1e-12 * max(1.0, float(np.max(hs)))]
+    top = top[np.argsort(locs[0, top])]
+    return k, m, dof_x, dof_y, (dof_y[top], locs[0, top])
+
+
 def _solve(xs, hs, k, m, dof_x, dof_y, top, e_along, density, modes, elements):
-    from scipy.sparse.linalg import eigsh
+    from scipy.sparse.linalg import LinearOperator, eigsh, splu
 
     length = float(xs[-1])
     h_min = float(np.min(hs))
@@ -222,9 +251,15 @@ def _solve(xs, hs, k, m, dof_x, dof_y, top, e_along, density, modes, elements):
     sigma = -0.25 * omega1**2
     want = RIGID_MODES + modes + 2
     n = k.shape[0]
+    op = None
+    if n > 2 * (dof_x.size + dof_y.size):
+        # the width-resolved body (several fields per node): one factorisation with minimum-degree
+        # ordering on the symmetric pattern, several times faster than SuperLU's default ordering
+        lu = splu((k - sigma * m).tocsc(), permc_spec="MMD_AT_PLUS_A")
+        op = LinearOperator(k.shape, matvec=lu.solve, dtype=float)
     while True:
         count = min(want, n - 2)
-        vals, vecs = eigsh(k, k=count, M=m, sigma=sigma, which="LM", v0=np.ones(n))
+        vals, vecs = eigsh(k, k=count, M=m, sigma=sigma, which="LM", v0=np.ones(n), OPinv=op)
         order = np.argsort(vals)
         vals, vecs = vals[order], vecs[:, order]
         elastic = vals > 1e-6 * omega1**2

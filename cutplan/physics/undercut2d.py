@@ -65,24 +65,16 @@ def arch_stations(length, thickness, depth, arch_fraction, exponent):
 
 
 @dataclass(frozen=True)
-class Undercut2d:
-    """A solved arch in the 2-D model: the 1-D shape record plus what the 2-D solve gives."""
+class Undercut2d(undercut.Undercut):
+    """A solved arch in the 2-D model: the 1-D record's fields (the frequencies and nodes those of
+    the 2-D solve, ``jacobian`` the 1-D start's), plus the 2-D minus 1-D residuals at the solution
+    (``offset_cents``: the next bar's starting shift)."""
 
-    length: float
-    depth: float
-    arch_fraction: float
-    exponent: float
-    thickness: float
-    frequencies: tuple
-    nodes: tuple
-    ratio_residuals_cents: tuple
-    fundamental_residual_cents: float
-    offset_cents: tuple  # 2-D minus 1-D residuals at the solution: the next bar's starting shift
-    jacobian: tuple = ()
-    solves: int = 0
+    offset_cents: tuple = ()
 
-    def stations(self):
-        """(x [m], remaining thickness [m]) along the whole bar: the profile that was solved."""
+    def outline(self):
+        """(x [m], remaining thickness [m]) along the whole bar, end A to end B: the profile that
+        was solved."""
         xs, hs = arch_stations(self.length, self.thickness, self.depth, self.arch_fraction, self.exponent)
         return tuple((float(x), float(h)) for x, h in zip(xs, hs, strict=True))
 

@@ -16,7 +16,7 @@ from cutplan.physics import beam
 from cutplan.physics.undercut2d import design_undercut_2d, trimmed_profile
 from cutplan.planning import uncertainty
 from cutplan.planning.allowance import allowances, risk_warning
-from cutplan.planning.frequency import beam_frequency_function, partial_notes, plane_constants
+from cutplan.planning.frequency import beam_frequency_function, partial_notes, plane_constants, stubby_bar_warnings
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece
 
 LENGTH_TOLERANCE_CENTS = 0.01
@@ -73,7 +73,7 @@ def plan_undercut_set_2d(spec, design, stock, progress=None):
     pieces = []
     for i, t in enumerate(spec.targets):
         r = solved[i]
-        stations = r.stations()
+        stations = r.outline()
         half = [(x, h) for x, h in stations if x <= r.length / 2 + 1e-12]
         picks = np.linspace(0, len(half) - 1, 11).round().astype(int)
         arch = Arch(thickness=sec.thickness, depth=r.depth, arch_width=r.arch_fraction, exponent=r.exponent,
@@ -91,7 +91,7 @@ def plan_undercut_set_2d(spec, design, stock, progress=None):
             mass=mat.density * _volume(stations, sec.width), partials_hz=tuple(partials),
             partial_notes=partial_notes(partials, design.a4), cents_per_mm=per_mm, model="elastic-2d",
             shear_correction_cents=_against_slender(f0, r.length, sec, plane, ei, mu, stations),
-            warnings=tuple(risk_warning(risk)), fundamental_hz=f0, allowance_uncalibrated=a_uncal,
+            warnings=tuple(risk_warning(risk) + stubby_bar_warnings(r.length, sec.thickness)), fundamental_hz=f0, allowance_uncalibrated=a_uncal,
             allowance_calibrated=a_cal, sharp_risk=risk, arch=arch))
     return pieces
 
@@ -140,7 +140,8 @@ def plan_uniform_set_2d(spec, design, stock):
             predicted_hz=f0, length=length, cut_length=cut_length, nodes=tuple(modes.nodes[0]),
             mass=mat.density * sec.area * length, partials_hz=tuple(partials),
             partial_notes=partial_notes(partials, design.a4), cents_per_mm=per_mm, model="elastic-2d",
-            shear_correction_cents=_against_slender(f0, length, sec, plane, ei, mu), warnings=tuple(risk_warning(risk)),
+            shear_correction_cents=_against_slender(f0, length, sec, plane, ei, mu),
+            warnings=tuple(risk_warning(risk) + stubby_bar_warnings(length, sec.thickness)),
             fundamental_hz=f0, allowance_uncalibrated=a_uncal, allowance_calibrated=a_cal, sharp_risk=risk))
     return pieces
 

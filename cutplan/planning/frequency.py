@@ -15,6 +15,18 @@ below mode 4 (Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed. 19
 the Wikipedia "Tubular bells" article; Rossing, Science of Percussion Instruments, 2000)."""
 
 
+STUBBY_RATIO = 8.0
+"""Length-to-depth ratio under which a bar's model is flagged as approximate [-] (common practice)."""
+
+
+def stubby_bar_warnings(length, thickness):
+    """The warning for an arched or 2-D-modelled bar shorter than :data:`STUBBY_RATIO` x its
+    thickness (a list: empty or one message)."""
+    if length / thickness >= STUBBY_RATIO:
+        return []
+    return [f"stubby bar: length is {length / thickness:.1f} x its thickness; cut a test bar and calibrate"]
+
+
 def partial_notes(freqs, a4):
     return tuple(pitch.nearest_note(float(f), a4) for f in freqs)
 

@@ -22,10 +22,12 @@ from cutplan.planning.air import BAR_OVER_MOUTH, plan_air_set
 from cutplan.planning.allowance import allowance_rule, allowances, risk_warning
 from cutplan.planning.frequency import (
     STRIKE_NOTE_MODE,
+    STUBBY_RATIO,
     beam_constants,
     beam_frequency_function,
     cents_per_mm,
     partial_notes,
+    stubby_bar_warnings,
     undercut_frequency_function,
 )
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
@@ -36,10 +38,6 @@ __all__ = ["Arch", "Piece", "Plan", "SetPlan", "bars_to_solve", "plan"]
 
 COMMON_STOCK_LENGTH = 3.66
 """Longest stick commonly sold [m] (12 ft; common practice): longer pieces get a warning."""
-
-
-STUBBY_RATIO = 8.0
-"""Length-to-depth ratio under which a beam model is flagged as approximate [-] (common practice)."""
 
 
 def _plan_beam_set(spec: SetSpec, design: Design, stock):
@@ -156,9 +154,7 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
                                                        grain.unknown_grain_ratios(spec, ratios_uncal, r.length),
                                                        ratios_cal)
         warnings = risk_warning(risk)
-        if r.length / sec.thickness < STUBBY_RATIO:
-            warnings.append(f"stubby bar: length is {r.length / sec.thickness:.1f} x its thickness; cut a test "
-                            "bar and calibrate")
+        warnings += stubby_bar_warnings(r.length, sec.thickness)
         volume = sec.width * (sec.thickness * r.length - undercut.arch_area(r.length, r.thickness, r.depth, r.arch_fraction, r.exponent))
         partials = r.frequencies[:PARTIAL_COUNT]
         pieces.append(Piece(

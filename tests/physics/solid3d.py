@@ -12,15 +12,23 @@ import math
 import numpy as np
 
 
-def vertical_bending(xs, hs, width, modulus, poisson, density, modes=3, along=40, across=2, through=3):
-    """Vertical bending frequencies [Hz] of a bar with a flat top and underside -h(x)."""
+def vertical_bending(xs, hs, width, modulus, poisson, density, modes=3, along=40, across=2, through=3,
+                     constants=None):
+    """Vertical bending frequencies [Hz] of a bar with a flat top and underside -h(x).
+
+    ``along`` is a count of equal elements along the bar, or the element edges themselves [m]
+    (fine at a step, coarse elsewhere).  ``constants`` (cutplan.physics.solid3d.Orthotropic, axes
+    x along, y across the width, z through the thickness) replaces the isotropic modulus and
+    Poisson's ratio.
+    """
     from scipy.sparse.linalg import eigsh
     from skfem import Basis, BilinearForm, ElementHex2, ElementVector, MeshHex, MeshHex2, asm
     from skfem.helpers import ddot, sym_grad, trace
 
     xs, hs = np.asarray(xs, float), np.asarray(hs, float)
     length = xs[-1]
-    box = MeshHex.init_tensor(np.linspace(0, length, along + 1), np.linspace(0, width / 2, across + 1),
+    edges = np.asarray(along, float) if np.ndim(along) else np.linspace(0, length, along + 1)
+    box = MeshHex.init_tensor(edges, np.linspace(0, width / 2, across + 1),
                               np.linspace(0, 1, through + 1))
     straight = MeshHex2.from_mesh(box)
     x, y, eta = straight.doflocs
@@ -33,6 +41,18 @@ def vertical_bending(xs, hs, width, modulus, poisson, density, modes=3, along=40
     def stiffness(u, v, _):
         eu, ev = sym_grad(u), sym_grad(v)
         return 2 * mu * ddot(eu, ev) + lam * trace(eu) * trace(ev)
+
+    if constants is not None:
+        normal = constants.normal_stiffness()
+        shears = ((0, 1, constants.g_xy), (0, 2, constants.g_xz), (1, 2, constants.g_yz))
+
+        @BilinearForm
+        def stiffness(u, v, _):  # noqa: F811 (the orthotropic body)
+            gu, gv = u.grad, v.grad
+            out = sum(normal[i, j] * gu[i, i] * gv[j, j] for i in range(3) for j in range(3))
+            for i, j, g in shears:
+                out = out + g * (gu[i, j] + gu[j, i]) * (gv[i, j] + gv[j, i])
+            return out
 
     @BilinearForm
     def mass(u, v, _):
