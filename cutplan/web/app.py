@@ -18,6 +18,7 @@ from flask import Flask, Request, g, jsonify, render_template, request
 
 from cutplan.web import form as webform
 from cutplan.web import view
+from cutplan.web.progress import ProgressBoard
 from cutplan.web.service import (MAX_DESIGN_BYTES, Planner, WebErrors, error, packet_pdf, packet_zip, piece_wav,
                                  plain_problem)
 from cutplan.web.trim import trim_answer
@@ -74,6 +75,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     trusted = {_bare_host(h) for h in LOOPBACK_NAMES + ([host] if host else [])} if loopback_only else None
     planner = Planner(materials_dirs, workers=workers)
     app.planner = planner
+    board = ProgressBoard()
     examples = _examples()
     app.jinja_env.filters["both"] = _both_units
     choices = {
@@ -135,9 +137,9 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
                                warnings=warnings, preview=preview, choices=choices, trim=trim, notes=notes)
         return html, status
 
-    def plan_form(fields):
+    def plan_form(fields, progress=None):
         data = webform.mapping_from_form(fields)
-        return data, planner.plan(data, gone=_gone())
+        return data, planner.plan(data, gone=_gone(), progress=progress)
 
     @app.get("/")
     def index():
@@ -234,14 +236,23 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
                 return jsonify(errors=exc.errors), 422
             return page(fields, 422, exc.errors)
 
+    @app.get("/progress")
+    def progress():
+        """How far the preview named ``job`` has got: {"done", "total"} (both 0 when unknown or finished)."""
+        done, total = board.get(request.args.get("job", "")) or (0, 0)
+        return jsonify(done=done, total=total)
+
     @app.post("/preview")
     def preview_fragment():
         fields = request.form.to_dict()
+        job = request.headers.get("X-Cutplan-Job", "")
         try:
-            _data, (design, the_plan) = plan_form(fields)
+            _data, (design, the_plan) = plan_form(fields, progress=board.reporter(job))
         except WebErrors as exc:
             return jsonify(ok=False, errors=view.place_errors(exc.errors, _slots(fields), _own_stock(fields)),
                            warnings={})
+        finally:
+            board.finish(job)
         pv = view.preview(the_plan, design, fields.get("units") or None)
         html = render_template("_preview.html", preview=pv, f=fields, choices=choices, trim=None)
         return jsonify(ok=True, html=html, errors={}, warnings=view.place_warnings(the_plan, design),

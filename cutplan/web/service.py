@@ -172,21 +172,34 @@ class Planner:
         except MaterialError as exc:  # a broken server-side folder, not the request's fault
             raise WebErrors([error("(materials)", str(exc))]) from None
 
-    def compute(self, data, lib=None):
-        """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers)."""
+    def compute(self, data, lib=None, progress=None):
+        """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers).
+
+        ``progress(done, total)``, if given, is called as the design's arched bars are solved."""
         import cutplan
         from cutplan.design import DesignErrors
         from cutplan.numeric import NumericError, checked_plan
+        from cutplan.planning.planner import bars_to_solve
 
         design = self.design(data, lib)
+        step = None
+        total = bars_to_solve(design) if progress is not None else 0
+        if total:
+            solved = [0]
+
+            def step(n=1):
+                solved[0] += n
+                progress(min(solved[0], total), total)
+
+            progress(0, total)
         try:
-            return design, checked_plan(lambda: cutplan.plan(design), DESIGN_NAME)
+            return design, checked_plan(lambda: cutplan.plan(design, progress=step), DESIGN_NAME)
         except DesignErrors as exc:
             raise WebErrors(design_errors(exc)) from None
         except NumericError as exc:  # an absurd or overflowing result: the design's numbers are to blame
             raise WebErrors([error("(design)", str(exc).removeprefix(f"{DESIGN_NAME}: "))]) from None
 
-    def _in_worker(self, data, lib, gone=None):
+    def _in_worker(self, data, lib, gone=None, progress=None):
         from cutplan.web.workers import Stopped, WorkerPool
 
         with self._lock:
@@ -194,17 +207,18 @@ class Planner:
                 self._pool = WorkerPool(self.workers)
             pool = self._pool
         try:
-            kind, value = pool.run(_plan_in_worker, (data, lib), gone=gone)
+            kind, value = pool.run(_plan_in_worker, (data, lib), gone=gone, progress=progress)
         except Stopped as exc:
             raise WebErrors([error("(request)", STOPPED[exc.reason])]) from None
         if kind == "errors":
             raise WebErrors(value)
         return value
 
-    def plan(self, data, gone=None):
+    def plan(self, data, gone=None, progress=None):
         """(Design, Plan) for a design mapping, or :class:`WebErrors`. Repeated designs are cached.
 
-        ``gone``: a callable, true once the client has gone away (its worker is then stopped)."""
+        ``gone``: a callable, true once the client has gone away (its worker is then stopped);
+        ``progress(done, total)``: called as arched bars are solved (not for a cached plan)."""
         problem = plain_problem(data) if isinstance(data, dict) else None
         if problem:
             raise WebErrors([problem])
@@ -215,7 +229,8 @@ class Planner:
             if key in self._cache:
                 self._cache.move_to_end(key)
                 return self._cache[key]
-        result = self._in_worker(data, lib, gone) if self.workers > 0 else self.compute(data, lib)
+        result = (self._in_worker(data, lib, gone, progress) if self.workers > 0
+                  else self.compute(data, lib, progress))
         with self._lock:
             if generation == self._generation:  # a plan on tables since re-read is not kept
                 self._cache[key] = result
@@ -231,11 +246,12 @@ class Planner:
             pool.close()
 
 
-def _plan_in_worker(data, lib):
+def _plan_in_worker(data, lib, report=None):
     """Runs in a worker process on the server's material library ``lib`` (so a worker plans on
-    the tables the server holds, re-read or not): ("plan", (Design, Plan)) or ("errors", [records])."""
+    the tables the server holds, re-read or not): ("plan", (Design, Plan)) or ("errors", [records]).
+    ``report(done, total)`` sends progress back to the server."""
     try:
-        return "plan", Planner(cache_size=0, lib=lib).compute(data)
+        return "plan", Planner(cache_size=0, lib=lib).compute(data, progress=report)
     except WebErrors as exc:
         return "errors", exc.errors
 
