@@ -4,6 +4,7 @@ a non-finite result in a solver becomes one clear line instead of a 0.0 mm or Na
 from __future__ import annotations
 
 import math
+import re
 import warnings
 
 import numpy as np
@@ -19,6 +20,29 @@ def quiet(fn, *args, **kwargs):
         warnings.simplefilter("ignore")
         with np.errstate(all="ignore"):
             return fn(*args, **kwargs)
+
+
+NUMERIC_VALUE_ERRORS = re.compile(r"math domain|math range|\bnan\b|\binf(inity)?\b", re.IGNORECASE)
+"""Words of a plain ``ValueError`` that the math module or numpy raise for a number out of range."""
+
+
+def _numeric_value_error(exc):
+    """True for a plain ValueError from arithmetic (not a subclass: those carry messages of their own,
+    such as a design's errors, each already one line)."""
+    return type(exc) is ValueError and NUMERIC_VALUE_ERRORS.search(str(exc)) is not None
+
+
+def quiet_numbers(fn, *args, **kwargs):
+    """``fn(*args, **kwargs)`` run :func:`quiet`ly; an overflow, a division by zero or an
+    impossible value inside becomes :class:`NumericError` (one line, for the caller to prefix)."""
+    try:
+        return quiet(fn, *args, **kwargs)
+    except (OverflowError, FloatingPointError, ZeroDivisionError, np.linalg.LinAlgError) as exc:
+        raise NumericError(f"the numbers overflowed in the solver ({' '.join(str(exc).split())})") from None
+    except ValueError as exc:
+        if not _numeric_value_error(exc):
+            raise
+        raise NumericError(f"the solver met an impossible value ({' '.join(str(exc).split())})") from None
 
 
 LENGTH_RANGE = (1e-4, 30.0)
@@ -66,7 +90,7 @@ def checked_plan(make, where):
         raise NumericError(f"{where}: the numbers overflowed in the solver ({exc}); "
                            "check the material's modulus and density and the section sizes") from None
     except ValueError as exc:
-        if "math domain" not in str(exc):
+        if not _numeric_value_error(exc):  # a design's own errors (DesignErrors) pass on, one line each
             raise
         raise NumericError(f"{where}: the solver met an impossible value ({exc}); "
                            "check the material's modulus and density and the section sizes") from None

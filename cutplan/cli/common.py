@@ -21,7 +21,9 @@ class BadInput(click.ClickException):
     def __init__(self, lines):
         from cutplan.design.text import shown
 
-        self.lines = [shown(line) for line in lines]  # escape codes are shown escaped, never sent
+        # several problems in one message (a collection's text) stay one line each, never a folded
+        # line with its newlines escaped; escape codes are shown escaped, never sent
+        self.lines = [shown(part) for line in lines for part in str(line).split("\n") if part.strip()]
         super().__init__("\n".join(self.lines))
 
     def show(self, file=None):

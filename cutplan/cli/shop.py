@@ -47,8 +47,29 @@ def _parse_pieces(texts, kind, near_hz=None):
             freq = _measure_file(what, kind, near_hz).fundamental_hz
         if not (length > 0 and freq > 0):
             fail(f"--piece: {text!r}: length and frequency must be positive")
+        _check_measurement(text, length, [freq])
         out.append((length, freq, int(match.group(3) or 1)))
     return out
+
+
+def _check_measurement(text, length, freqs):
+    """Exit 2 with one line when a --piece's length or frequencies are not a measurement at all
+    (infinite, absurd or vanishing), before any fit meets them."""
+    from cutplan.tuning.calibrate import measurement_problem
+
+    problem = measurement_problem(length, freqs)
+    if problem:
+        fail(f"--piece: {text!r}: {problem}")
+
+
+def _numbers(where, fn, *args):
+    """``fn(*args)`` with numeric warnings kept inside; an overflow or impossible value is one line."""
+    from cutplan.numeric import NumericError, quiet_numbers
+
+    try:
+        return quiet_numbers(fn, *args)
+    except NumericError as exc:
+        fail(f"{where}: {exc}; check the lengths, the frequencies and the section")
 
 
 def _parse_beam_pieces(texts, kind, partial_ratios):
@@ -85,10 +106,13 @@ def _parse_beam_pieces(texts, kind, partial_ratios):
                 fail(f"--piece: {what!r} is neither frequencies in Hz (partials in mode order) nor a WAV file")
             freqs = None
         if freqs is None:
-            out.extend((length, mode, f) for mode, f in _recorded_partials(what, kind, partial_ratios(length)))
+            _check_measurement(text, length, [])
+            found = _recorded_partials(what, kind, _numbers(f"--piece: {text!r}", partial_ratios, length))
+            out.extend((length, mode, f) for mode, f in found)
             continue
         if not all(f > 0 for f in freqs) or any(b <= a for a, b in zip(freqs, freqs[1:], strict=False)):
             fail(f"--piece: {text!r}: the partials must be positive and rising, in mode order")
+        _check_measurement(text, length, freqs)
         out.extend((length, mode, f) for mode, f in enumerate(freqs, start=first))
     return out
 
@@ -180,7 +204,7 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
 
     measured = _parse_beam_pieces(pieces, kind, ratios)
     try:
-        fit = fit_moduli(measured, mat, sec, model)
+        fit = _numbers(f"--piece {'; '.join(pieces)}", fit_moduli, measured, mat, sec, model)
     except CalibrationError as exc:
         fail(f"--piece {'; '.join(pieces)}: {exc}; nothing written")
     lengths = sorted({length for length, _, _ in measured})
@@ -211,7 +235,7 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
 def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res, name=None, output=None, force=False,
                    dirs=()):
     from cutplan.physics import air_column
-    from cutplan.tuning.calibrate import CalibrationError, fit_air_column_choice
+    from cutplan.tuning.calibrate import AIR_SPEED_RANGE, CalibrationError, fit_air_column_choice, measurement_problem
     from cutplan.units import UnitError, parse_length, parse_temperature
 
     try:
@@ -229,10 +253,18 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
             l1, l2 = parse_length(match.group(1)), parse_length(match.group(2))
         except UnitError as exc:
             fail(f"--two-resonance: {exc.text!r} is not {exc.accepted}")
+        for length in (l1, l2):
+            problem = measurement_problem(length, [float(match.group(3))])
+            if problem:
+                fail(f"--two-resonance: {two_res!r}: {problem}")
         try:
             speed, corr = air_column.two_resonance(float(match.group(3)), l1, l2)
         except ValueError as exc:
             fail(f"--two-resonance: {exc}")
+        lo, hi = AIR_SPEED_RANGE
+        if not lo <= speed <= hi:
+            fail(f"--two-resonance: {two_res!r} gives a speed of sound of {speed:.0f} m/s, outside the {lo:.0f}-"
+                 f"{hi:.0f} m/s of air; check the two depths and the frequency")
         click.echo(f"speed of sound {speed:.1f} m/s in the pipe (free air {speed_t:.1f} m/s at {temperature}, "
                    f"{air_column.DEFAULT_HUMIDITY:.0f} % RH; wall losses slow it in a pipe); "
                    f"end correction {corr * 1000:.1f} mm")
@@ -262,7 +294,7 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
         reference = measured[0][1]
         fitted = [(length, f / (1 - wall_loss_fraction(f, radius, kelvin)), n) for length, f, n in measured]
     try:
-        fit = fit_air_column_choice(fitted, ends, fit_what, speed_t, radius)
+        fit = _numbers("calibrate", fit_air_column_choice, fitted, ends, fit_what, speed_t, radius)
     except CalibrationError as exc:
         fail(f"calibrate: {exc}")
     if reference:

@@ -22,6 +22,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from cutplan.limits import AIR_SPEED_RANGE, IN_TUNE_CENTS
+from cutplan.numeric import LENGTH_RANGE
 from cutplan.render.phrases import TRIM_RAISES
 from cutplan.units import format_length
 
@@ -184,6 +185,26 @@ def fit_air_column_choice(pieces, ends, what, speed, radius=None):
         fit = fit_air_column(pieces, ends, speed=speed)
     _check_air_fit(fit, radius)
     return fit
+
+
+MEASURED_HZ = (10.0, 48_000.0)
+"""Frequencies a measurement may give [Hz]: below 10 Hz no tuner or recording of a struck piece
+reads a pitch, above 48 kHz no 96 kHz recording holds one (its Nyquist limit; common practice)."""
+
+
+def measurement_problem(length, frequencies):
+    """Why a test piece's ``length`` [m] and measured ``frequencies`` [Hz] cannot be calibrated
+    from (text), or None: each must be a finite number within the lengths a planned piece may
+    have (:data:`cutplan.numeric.LENGTH_RANGE`) and :data:`MEASURED_HZ`.  Checked before any fit,
+    so no solver meets an infinite, absurd or vanishing value."""
+    lo, hi = LENGTH_RANGE
+    if not (math.isfinite(length) and lo <= length <= hi):
+        return f"the length must be from {lo * 1000:g} mm to {hi:g} m"
+    lo, hi = MEASURED_HZ
+    for f in frequencies:
+        if not (math.isfinite(f) and lo <= f <= hi):
+            return f"{f:g} Hz is not a measured frequency: give {lo:g} Hz to {hi:g} Hz"
+    return None
 
 
 END_FACTOR_RANGE = (0.0, 1.5)

@@ -21,6 +21,7 @@ from cutplan.render.phrases import SAFETY_HEADING, TRIM_RULE
 from cutplan.units import LengthParts
 from cutplan.web import form as webform
 from cutplan.web import view
+from cutplan.web.progress import ProgressBoard
 from cutplan.web.service import (
     MAX_DESIGN_BYTES,
     Planner,
@@ -75,7 +76,6 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     ``workers`` > 0 plans in that many worker processes (stop them with ``app.planner.close()``);
     ``host``: the loopback address it is bound to (127.0.0.2, ::1), accepted as a Host header."""
     from cutplan import pitch
-    from cutplan.web.service import library as server_library
 
     app = Flask(__name__)
     app.request_class = MemoryRequest
@@ -86,14 +86,13 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     trusted = {_bare_host(h) for h in LOOPBACK_NAMES + ([host] if host else [])} if loopback_only else None
     planner = Planner(materials_dirs, workers=workers)
     app.planner = planner
-    library = server_library(materials_dirs)  # read once per process; the planners share it
+    board = ProgressBoard()
     examples = _examples()
     app.jinja_env.filters["both"] = _both_units
     app.jinja_env.globals.update(trim_rule=TRIM_RULE, safety_heading=SAFETY_HEADING,
                                  general_cautions=[c.text for c in general_cautions()])
     choices = {
-        "materials": sorted((n, m.description) for n, m in library.materials.items()),
-        "stock_sizes": sorted((n, s.description) for n, s in library.stock.items()),
+        **_library_choices(planner.library),  # read once per process (and on "re-read"); the planners share it
         "scales": [(s, s) for s in pitch.SCALES], "examples": list(examples),
         "temperaments": ["equal", "equal-19", "equal-24", "just", "pythagorean"],
         "set_extras": webform.SET_EXTRAS,
@@ -139,7 +138,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
         return jsonify(errors=[error("(request)", f"could not be handled ({line}); the input that caused "
                                      "it is worth reporting")]), 422
 
-    def page(fields, status=200, errors=(), plan_pair=None, trim=None):
+    def page(fields, status=200, errors=(), plan_pair=None, trim=None, notes=()):
         slots = _slots(fields)
         placed = view.place_errors(errors, slots, _own_stock(fields))
         warnings, preview = {}, None
@@ -148,12 +147,12 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
             warnings = view.place_warnings(the_plan, design)
             preview = view.preview(the_plan, design, fields.get("units") or None)
         html = render_template("page.html", f=fields, n_sets=webform.set_count(fields), errors=placed,
-                               warnings=warnings, preview=preview, choices=choices, trim=trim)
+                               warnings=warnings, preview=preview, choices=choices, trim=trim, notes=notes)
         return html, status
 
-    def plan_form(fields):
+    def plan_form(fields, progress=None):
         data = webform.mapping_from_form(fields)
-        return data, planner.plan(data, gone=_gone())
+        return data, planner.plan(data, gone=_gone(), progress=progress)
 
     @app.get("/")
     def index():
@@ -176,6 +175,8 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
             fields.setdefault(f"set[{fields['sets']}].kind", "chime")
         elif action.startswith("remove-set-"):
             fields = _remove_set(fields, action.removeprefix("remove-set-"))
+        elif action == "reload-materials":
+            return _reload_materials(fields)
         try:
             _data, pair = plan_form(fields)
         except WebErrors as exc:
@@ -187,6 +188,20 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
             except WebErrors as exc:
                 return page(fields, 422, exc.errors, plan_pair=pair)
         return page(fields, plan_pair=pair, trim=trim)
+
+    def _reload_materials(fields):
+        """Re-read the material folders, then show the form again with what happened."""
+        try:
+            lib = planner.reload()
+        except WebErrors as exc:
+            return page(fields, 422, exc.errors)
+        choices.update(_library_choices(lib))
+        note = (f"material tables re-read: {len(lib.materials)} materials and {len(lib.stock)} stock sizes "
+                f"from {len(lib.files)} files")
+        try:
+            return page(fields, plan_pair=plan_form(fields)[1], notes=[note])
+        except WebErrors as exc:
+            return page(fields, 422, exc.errors, notes=[note])
 
     def _open_file(fields):
         upload = request.files.get("design_file")
@@ -234,14 +249,23 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
                 return jsonify(errors=exc.errors), 422
             return page(fields, 422, exc.errors)
 
+    @app.get("/progress")
+    def progress():
+        """How far the preview named ``job`` has got: {"done", "total"} (both 0 when unknown or finished)."""
+        done, total = board.get(request.args.get("job", "")) or (0, 0)
+        return jsonify(done=done, total=total)
+
     @app.post("/preview")
     def preview_fragment():
         fields = request.form.to_dict()
+        job = request.headers.get("X-Cutplan-Job", "")
         try:
-            _data, (design, the_plan) = plan_form(fields)
+            _data, (design, the_plan) = plan_form(fields, progress=board.reporter(job))
         except WebErrors as exc:
             return jsonify(ok=False, errors=view.place_errors(exc.errors, _slots(fields), _own_stock(fields)),
                            warnings={})
+        finally:
+            board.finish(job)
         pv = view.preview(the_plan, design, fields.get("units") or None)
         html = render_template("_preview.html", preview=pv, f=fields, choices=choices, trim=None)
         return jsonify(ok=True, html=html, errors={}, warnings=view.place_warnings(the_plan, design),
@@ -300,6 +324,12 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
         return _attachment(packet_zip(the_plan, data), "application/zip", "packet.zip")
 
     return app
+
+
+def _library_choices(lib):
+    """The material and stock-size names the form offers, from a material library."""
+    return {"materials": sorted((n, m.description) for n, m in lib.materials.items()),
+            "stock_sizes": sorted((n, s.description) for n, s in lib.stock.items())}
 
 
 def _bare_host(value):
@@ -365,7 +395,7 @@ def _both_units(value):
 
 def _slots(fields):
     """Every place a message can appear: the fields, each set, its section, the stock, the form."""
-    slots = {"form", "open", "stock", "title", "units", "inch_denominator", "paper", "tuning.a4", "tuning.temperament", "tuning.spelling",
+    slots = {"form", "open", "stock", "title", "units", "inch_denominator", "(materials)", "paper", "tuning.a4", "tuning.temperament", "tuning.spelling",
              "more",
              "trim.piece", "trim.measured", "trim.recording", "trim.length_now", "trim.state", "trim.done"}
     slots.update(f"stock.{k}" for k in webform.STOCK_FIELDS)

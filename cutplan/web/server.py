@@ -9,7 +9,11 @@ import os
 import signal
 import socket
 import threading
+import time
 import webbrowser
+
+from waitress import create_server
+from waitress.channel import HTTPChannel
 
 from cutplan.web.app import MAX_UPLOAD_BYTES, create_app
 
@@ -24,6 +28,60 @@ CONNECTION_LIMIT = 400
 """Open connections at most [-] (slow clients beyond it wait; they never hold a thread)."""
 IDLE_TIMEOUT = 20
 """Seconds a connection may stay silent before it is closed [s]."""
+HEADER_TIMEOUT = 10
+"""Seconds a client has to send a request's headers, counted from their first byte [s]. A client
+that dribbles them out a byte at a time resets the idle clock with every byte; this one it cannot."""
+REQUEST_TIMEOUT = 120
+"""Seconds a client has to send a whole request, a recording included [s] (16 MB at 1 Mbit/s)."""
+CHECK_INTERVAL = 2
+"""How often the server looks for connections past a limit [s]."""
+
+
+class DeadlineChannel(HTTPChannel):
+    """A waitress connection that remembers when the request it is reading began, so the server
+    can cut off a client that never finishes its headers (waitress's own ``channel_timeout``
+    only closes connections that fall silent)."""
+
+    request_started = None
+
+    def received(self, data):
+        if data and self.request is None:
+            self.request_started = time.monotonic()
+        return super().received(data)
+
+    def overdue(self, now, header_timeout, request_timeout):
+        """True when the request being read has been arriving longer than its limit."""
+        req = self.request
+        if req is None or self.requests or self.request_started is None or req.completed:
+            return False
+        limit = request_timeout if req.headers_finished else header_timeout
+        return now - self.request_started > limit
+
+
+def make_server(app, sock, threads, header_timeout=HEADER_TIMEOUT, request_timeout=REQUEST_TIMEOUT,
+                idle_timeout=IDLE_TIMEOUT, check_interval=CHECK_INTERVAL):
+    """A waitress server for ``app`` on the bound socket ``sock`` with the page's limits: request
+    size, connection count, idle connections closed after ``idle_timeout`` s, and a request's
+    headers within ``header_timeout`` s and the whole request within ``request_timeout`` s of its
+    first byte. Slow clients never hold a thread (waitress reads requests in its main loop), and
+    past these limits they no longer hold a connection either."""
+    # channel_request_lookahead: waitress then tells the app when a client has gone away
+    server = create_server(app, sockets=[sock], threads=threads, max_request_body_size=MAX_UPLOAD_BYTES,
+                           ident="cutplan", clear_untrusted_proxy_headers=True, channel_request_lookahead=1,
+                           connection_limit=CONNECTION_LIMIT, channel_timeout=idle_timeout,
+                           cleanup_interval=check_interval)
+    server.channel_class = DeadlineChannel
+    idle_maintenance = server.maintenance
+
+    def maintenance(now):
+        idle_maintenance(now)
+        clock = time.monotonic()
+        for channel in list(server.active_channels.values()):
+            if isinstance(channel, DeadlineChannel) and channel.overdue(clock, header_timeout, request_timeout):
+                channel.will_close = True  # closed by the main loop, as waitress closes idle ones
+
+    server.maintenance = maintenance
+    return server
 
 
 def is_loopback(host):
@@ -95,8 +153,6 @@ def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_di
           any_port_if_busy=False):
     """Serve the page until interrupted (blocks). With ``any_port_if_busy``, a busy ``port`` gives way
     to a free one (the default port, when the builder did not name one)."""
-    from waitress import create_server
-
     workers = default_workers() if workers is None else workers
     sock = listening_socket(host, port, any_port_if_busy, echo)
     try:
@@ -105,12 +161,7 @@ def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_di
         sock.close()
         raise
     try:
-        # channel_request_lookahead: waitress then tells the app when a client has gone away
-        server = create_server(app, sockets=[sock], threads=max(workers, 1) + SPARE_THREADS,
-                               max_request_body_size=MAX_UPLOAD_BYTES, ident="cutplan",
-                               clear_untrusted_proxy_headers=True, channel_request_lookahead=1,
-                               connection_limit=CONNECTION_LIMIT, channel_timeout=IDLE_TIMEOUT,
-                               cleanup_interval=5)
+        server = make_server(app, sock, threads=max(workers, 1) + SPARE_THREADS)
     except BaseException:
         sock.close()
         app.planner.close()

@@ -107,16 +107,50 @@ class Planner:
     :meth:`close` when done.
     """
 
-    def __init__(self, materials_dirs=(), cache_size=CACHE_SIZE, workers=0):
+    def __init__(self, materials_dirs=(), cache_size=CACHE_SIZE, workers=0, lib=None):
         self.materials_dirs = tuple(materials_dirs)
         self.cache_size = cache_size
         self.workers = workers
         self._cache = OrderedDict()
         self._lock = threading.Lock()
         self._pool = None
+        self._library = lib
+        self._generation = 0
 
-    def design(self, data):
-        """A validated Design, or :class:`WebErrors`."""
+    @property
+    def library(self):
+        """The material library plans use now: the server's folders as read at start-up or at the
+        last :meth:`reload` that succeeded."""
+        with self._lock:
+            if self._library is None:
+                self._library = library(self.materials_dirs)
+            return self._library
+
+    def reload(self):
+        """Read the material folders again; the new tables serve every plan asked for from now on.
+
+        A broken folder raises :class:`WebErrors` naming the file (and changes nothing: the tables
+        read before keep serving). Plans already under way finish on the tables they started with
+        and are not kept for later requests."""
+        from cutplan.materials import MaterialError, load_library
+
+        try:
+            fresh = load_library(list(self.materials_dirs))
+        except MaterialError as exc:
+            raise WebErrors([error("(materials)", f"were not re-read: {exc}; the tables read before "
+                                   "still serve")]) from None
+        except OSError as exc:
+            raise WebErrors([error("(materials)", f"were not re-read: {exc.filename or ''} "
+                                   f"{exc.strerror or exc}; the tables read before still serve")]) from None
+        with self._lock:
+            self._library = fresh
+            self._generation += 1
+            self._cache.clear()
+        return fresh
+
+    def design(self, data, lib=None):
+        """A validated Design (on the material library ``lib``, default :attr:`library`), or
+        :class:`WebErrors`."""
         from cutplan.design import DesignErrors
         from cutplan.materials import MaterialError
 
@@ -130,28 +164,42 @@ class Planner:
                                    "folders are given to the server (cutplan serve --materials DIR)")])
         from cutplan.design import design_from_mapping
 
+        lib = self.library if lib is None else lib
         try:
-            return design_from_mapping(data, lambda _dirs: library(self.materials_dirs), DESIGN_NAME, ".")[0]
+            return design_from_mapping(data, lambda _dirs: lib, DESIGN_NAME, ".")[0]
         except DesignErrors as exc:
             raise WebErrors(design_errors(exc)) from None
         except MaterialError as exc:  # a broken server-side folder, not the request's fault
             raise WebErrors([error("(materials)", str(exc))]) from None
 
-    def compute(self, data):
-        """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers)."""
+    def compute(self, data, lib=None, progress=None):
+        """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers).
+
+        ``progress(done, total)``, if given, is called as the design's arched bars are solved."""
         import cutplan
         from cutplan.design import DesignErrors
         from cutplan.numeric import NumericError, checked_plan
+        from cutplan.planning.planner import bars_to_solve
 
-        design = self.design(data)
+        design = self.design(data, lib)
+        step = None
+        total = bars_to_solve(design) if progress is not None else 0
+        if total:
+            solved = [0]
+
+            def step(n=1):
+                solved[0] += n
+                progress(min(solved[0], total), total)
+
+            progress(0, total)
         try:
-            return design, checked_plan(lambda: cutplan.plan(design), DESIGN_NAME)
+            return design, checked_plan(lambda: cutplan.plan(design, progress=step), DESIGN_NAME)
         except DesignErrors as exc:
             raise WebErrors(design_errors(exc)) from None
         except NumericError as exc:  # an absurd or overflowing result: the design's numbers are to blame
             raise WebErrors([error("(design)", str(exc).removeprefix(f"{DESIGN_NAME}: "))]) from None
 
-    def _in_worker(self, data, gone=None):
+    def _in_worker(self, data, lib, gone=None, progress=None):
         from cutplan.web.workers import Stopped, WorkerPool
 
         with self._lock:
@@ -159,30 +207,35 @@ class Planner:
                 self._pool = WorkerPool(self.workers)
             pool = self._pool
         try:
-            kind, value = pool.run(_plan_in_worker, (data, self.materials_dirs), gone=gone)
+            kind, value = pool.run(_plan_in_worker, (data, lib), gone=gone, progress=progress)
         except Stopped as exc:
             raise WebErrors([error("(request)", STOPPED[exc.reason])]) from None
         if kind == "errors":
             raise WebErrors(value)
         return value
 
-    def plan(self, data, gone=None):
+    def plan(self, data, gone=None, progress=None):
         """(Design, Plan) for a design mapping, or :class:`WebErrors`. Repeated designs are cached.
 
-        ``gone``: a callable, true once the client has gone away (its worker is then stopped)."""
+        ``gone``: a callable, true once the client has gone away (its worker is then stopped);
+        ``progress(done, total)``: called as arched bars are solved (not for a cached plan)."""
         problem = plain_problem(data) if isinstance(data, dict) else None
         if problem:
             raise WebErrors([problem])
         key = _cache_key(data)
+        self.library  # noqa: B018  (read at the first plan, if not yet)
         with self._lock:
+            lib, generation = self._library, self._generation
             if key in self._cache:
                 self._cache.move_to_end(key)
                 return self._cache[key]
-        result = self._in_worker(data, gone) if self.workers > 0 else self.compute(data)
+        result = (self._in_worker(data, lib, gone, progress) if self.workers > 0
+                  else self.compute(data, lib, progress))
         with self._lock:
-            self._cache[key] = result
-            while len(self._cache) > self.cache_size:
-                self._cache.popitem(last=False)
+            if generation == self._generation:  # a plan on tables since re-read is not kept
+                self._cache[key] = result
+                while len(self._cache) > self.cache_size:
+                    self._cache.popitem(last=False)
         return result
 
     def close(self):
@@ -193,10 +246,12 @@ class Planner:
             pool.close()
 
 
-def _plan_in_worker(data, materials_dirs):
-    """Runs in a worker process: ("plan", (Design, Plan)) or ("errors", [records])."""
+def _plan_in_worker(data, lib, report=None):
+    """Runs in a worker process on the server's material library ``lib`` (so a worker plans on
+    the tables the server holds, re-read or not): ("plan", (Design, Plan)) or ("errors", [records]).
+    ``report(done, total)`` sends progress back to the server."""
     try:
-        return "plan", Planner(materials_dirs, cache_size=0).compute(data)
+        return "plan", Planner(cache_size=0, lib=lib).compute(data, progress=report)
     except WebErrors as exc:
         return "errors", exc.errors
 

@@ -40,10 +40,11 @@ def _worker_main(conn):
 
     while True:
         try:
-            fn, args = conn.recv()
+            fn, args, with_progress = conn.recv()
         except (EOFError, OSError):
             return
-        conn.send(fn(*args))
+        extra = {"report": lambda done, total: conn.send(("progress", (done, total)))} if with_progress else {}
+        conn.send(("done", fn(*args, **extra)))
 
 
 class _Worker:
@@ -89,27 +90,32 @@ class WorkerPool:
                 return
         worker.stop()
 
-    def run(self, fn, args, limit=None, gone=None, wait=None):
+    def run(self, fn, args, limit=None, gone=None, wait=None, progress=None):
         """``fn(*args)`` in a worker process; raises :class:`Stopped` when it cannot finish.
 
         ``limit`` [s] (default :data:`TIME_LIMIT`), ``gone``: a callable that is true once the
-        client has disconnected; ``wait`` [s]: longest wait for a free worker."""
+        client has disconnected; ``wait`` [s]: longest wait for a free worker; ``progress``: a
+        callable ``(done, total)``, then ``fn`` is called with ``report=`` that sends them here."""
         limit = TIME_LIMIT if limit is None else limit
         if not self._slots.acquire(timeout=QUEUE_WAIT if wait is None else wait):
             raise Stopped("busy")
         try:
             worker = self._take()
             try:
-                worker.conn.send((fn, args))
+                worker.conn.send((fn, args, progress is not None))
                 deadline = time.monotonic() + limit
-                while not worker.conn.poll(POLL):
-                    reason = ("died" if not worker.proc.is_alive() else "time" if time.monotonic() > deadline
-                              else "gone" if gone is not None and gone() else None)
-                    if reason:
-                        worker.stop()
-                        self._give_back(_Worker(self._ctx))  # its successor warms up now, not at the next job
-                        raise Stopped(reason)
-                result = worker.conn.recv()
+                while True:
+                    while not worker.conn.poll(POLL):
+                        reason = ("died" if not worker.proc.is_alive() else "time" if time.monotonic() > deadline
+                                  else "gone" if gone is not None and gone() else None)
+                        if reason:
+                            worker.stop()
+                            self._give_back(_Worker(self._ctx))  # its successor warms up now, not at the next job
+                            raise Stopped(reason)
+                    kind, result = worker.conn.recv()
+                    if kind == "done":
+                        break
+                    progress(*result)
             except (EOFError, OSError):
                 worker.stop()
                 raise Stopped("died") from None

@@ -345,3 +345,32 @@ def test_at_1280_px_the_tables_need_no_sideways_scrolling_and_labels_fit(browser
         assert cut == []
     finally:
         d.set_window_size(1400, 1000)
+
+
+ARCHED = {"title": "garden bars", "set[1].name": "garden", "set[1].kind": "bar", "set[1].notes": "C4 E4 G4",
+          "set[1].material": "maple-sugar", "set[1].section.shape": "bar", "set[1].section.width": "50 mm",
+          "set[1].section.thickness": "22 mm", "set[1].undercut.ratios": "4", "stock.lengths": "2.4 m"}
+"""Three undercut bars: each is a small optimisation, so the preview takes long enough to report."""
+
+
+def test_a_long_plan_shows_how_far_it_has_got(browser, server):
+    # the oracle for the count is the design itself: three notes, each an undercut bar to solve
+    d = browser
+    d.get(server + "/")
+    _wait(d, _settled)
+    d.execute_script(
+        "var want = arguments[0], form = document.getElementById('design');"
+        "window.cutplanSeen = [];"
+        "var box = document.getElementById('progress');"
+        "new MutationObserver(function () { if (!box.hidden) { window.cutplanSeen.push(box.textContent); } })"
+        "  .observe(box, {childList: true, characterData: true, subtree: true, attributes: true});"
+        "form.querySelectorAll('input[type=text], select').forEach(function (el) {"
+        "  if (/^set\\[1\\]\\./.test(el.name) || el.name in want) { el.value = want[el.name] || ''; } });"
+        "var kind = document.getElementById('set[1].kind');"
+        "kind.dispatchEvent(new Event('change', {bubbles: true}));"
+        "document.getElementById('title').dispatchEvent(new Event('input', {bubbles: true}));", ARCHED)
+    _wait(d, lambda drv: _settled(drv) and len(_rows(drv)) == 3 and _rows(drv)[0][0] == "garden-1")
+    seen = d.execute_script("return window.cutplanSeen;")
+    counts = [re.fullmatch(r"planning: (\d) of 3 arched bars solved", text) for text in seen]
+    assert seen and all(counts), seen
+    assert d.execute_script("return document.getElementById('progress').hidden;")  # gone once the preview is in

@@ -69,13 +69,49 @@
     });
   }
 
+  /* While a preview plans, ask the server how far it has got (arched bars solved) and say so. */
+  var progressBox = document.getElementById("progress"), watching = null;
+
+  function jobId() {
+    var a = new Uint8Array(12);
+    (window.crypto || {getRandomValues: function (x) {
+      for (var i = 0; i < x.length; i++) { x[i] = Math.floor(Math.random() * 256); } return x; }}).getRandomValues(a);
+    return Array.prototype.map.call(a, function (b) { return ("0" + b.toString(16)).slice(-2); }).join("");
+  }
+
+  function watchProgress(job, mine) {
+    clearTimeout(watching);
+    if (!progressBox) { return; }
+    function ask() {
+      fetch("/progress?job=" + job, {headers: {"Accept": "application/json"}})
+        .then(function (r) { return r.json(); })
+        .then(function (p) {
+          if (mine !== seq) { return; }
+          if (p.total > 0) {
+            progressBox.textContent = "planning: " + p.done + " of " + p.total + " arched bars solved";
+            progressBox.hidden = false;
+          }
+        })
+        .catch(function () { /* the preview itself reports a lost server */ })
+        .then(function () { if (mine === seq && form.classList.contains("busy")) { watching = setTimeout(ask, 500); } });
+    }
+    watching = setTimeout(ask, 300);
+  }
+
+  function stopProgress() {
+    clearTimeout(watching);
+    if (progressBox) { progressBox.hidden = true; progressBox.textContent = ""; }
+  }
+
   function refresh() {
-    var mine = ++seq;
+    var mine = ++seq, job = jobId();
     form.classList.add("busy");
     // a newer edit makes the last preview stale: abort it, so the server stops planning it
     if (inflight && window.AbortController) { inflight.abort(); }
     inflight = window.AbortController ? new AbortController() : null;
-    fetch("/preview", {method: "POST", body: designData(), headers: {"Accept": "application/json"},
+    watchProgress(job, mine);
+    fetch("/preview", {method: "POST", body: designData(),
+                       headers: {"Accept": "application/json", "X-Cutplan-Job": job},
                        signal: inflight ? inflight.signal : undefined})
       .then(function (r) { return r.json(); })
       .then(function (res) {
@@ -90,7 +126,7 @@
         }
       })
       .catch(function () { if (mine === seq) { preview.classList.add("stale"); } })
-      .then(function () { if (mine === seq) { form.classList.remove("busy"); } });
+      .then(function () { if (mine === seq) { form.classList.remove("busy"); stopProgress(); } });
   }
 
   function later() {

@@ -1,0 +1,102 @@
+"""A long plan reports how far it has got: the page asks ``GET /progress?job=ID`` while its
+preview (sent with ``X-Cutplan-Job: ID``) plans, in the server's thread or in a worker process.
+
+The oracle for the counts is the design: one solve per undercut bar, so two notes give 0, 1
+and 2 of 2 in order.
+"""
+
+from __future__ import annotations
+
+import threading
+import time
+
+import pytest
+
+from cutplan.web.app import create_app
+from cutplan.web.progress import MAX_JOBS, ProgressBoard
+from cutplan.web.service import Planner
+from cutplan.web.workers import WorkerPool
+
+TWO_BARS = {"title": "garden bars", "set": [{"name": "garden", "kind": "bar", "notes": ["C4", "G4"],
+                                             "material": "maple-sugar",
+                                             "section": {"shape": "bar", "width": "50 mm", "thickness": "22 mm"},
+                                             "undercut": {"ratios": [4.0]}}],
+            "stock": {"lengths": [{"length": "2.4 m"}]}}
+
+
+def counting(n, report):
+    """A job for a worker process: reports 1..n of n, then returns n."""
+    for k in range(1, n + 1):
+        report(k, n)
+    return n
+
+
+@pytest.mark.parametrize("workers", [0, 1])
+def test_a_plan_reports_each_arched_bar_solved(workers):
+    seen = []
+    planner = Planner(workers=workers)
+    try:
+        planner.plan(TWO_BARS, progress=lambda done, total: seen.append((done, total)))
+        again = []
+        planner.plan(TWO_BARS, progress=lambda done, total: again.append((done, total)))
+    finally:
+        planner.close()
+    assert seen == [(0, 2), (1, 2), (2, 2)]
+    assert again == []  # a cached plan has nothing to solve
+
+
+def test_a_worker_job_sends_its_progress_back_before_its_answer():
+    pool = WorkerPool(1)
+    seen = []
+    try:
+        assert pool.run(counting, (3,), progress=lambda done, total: seen.append((done, total))) == 3
+        assert pool.run(pow, (2, 5)) == 32  # a job without progress on the same worker
+    finally:
+        pool.close()
+    assert seen == [(1, 3), (2, 3), (3, 3)]
+
+
+def test_the_page_answers_progress_while_a_preview_plans(monkeypatch):
+    from cutplan.web import form as webform
+
+    app = create_app()
+    client = app.test_client()
+    job = "abcdef0123456789"
+    release, asked = threading.Event(), []
+    real = app.planner.compute
+
+    def slow_compute(data, lib=None, progress=None):
+        def held(done, total):
+            progress(done, total)
+            if done == 1:
+                assert release.wait(120)
+        return real(data, lib, held)
+
+    monkeypatch.setattr(app.planner, "compute", slow_compute)
+    body = webform.form_from_mapping(TWO_BARS)
+    out = {}
+    poster = threading.Thread(target=lambda: out.setdefault(
+        "resp", app.test_client().post("/preview", data=body, headers={"X-Cutplan-Job": job})))
+    poster.start()
+    try:
+        deadline = time.monotonic() + 120
+        while time.monotonic() < deadline and not asked:
+            answer = client.get(f"/progress?job={job}").get_json()
+            if answer["done"] == 1:
+                asked.append(answer)
+            time.sleep(0.05)
+    finally:
+        release.set()
+        poster.join(120)
+    assert asked == [{"done": 1, "total": 2}]
+    assert out["resp"].get_json()["ok"]
+    assert client.get(f"/progress?job={job}").get_json() == {"done": 0, "total": 0}  # forgotten when done
+
+
+def test_the_board_keeps_only_valid_ids_and_a_bounded_number_of_jobs():
+    board = ProgressBoard()
+    assert board.reporter("../x") is None and board.reporter("") is None
+    for k in range(MAX_JOBS + 5):
+        board.reporter(f"job-{k:08d}")(1, 2)
+    assert board.get("job-00000000") is None  # the oldest forgotten
+    assert board.get(f"job-{MAX_JOBS + 4:08d}") == (1, 2)
