@@ -15,13 +15,13 @@ from __future__ import annotations
 import numpy as np
 
 
-def _highs_core():
-    """The HiGHS interface bundled with scipy (scipy >= 1.15), or None (older or newer scipy: the LP
-    is then solved from scratch).  Imported on first use: the common plan path never needs scipy's
-    optimiser, and importing it costs about 0.4 s of start-up."""
+
+def _highs_interface():
+    """scipy's bundled HiGHS interface, or None. Imported only when a layout needs an LP: most
+    plans never do, and scipy.optimize costs start-up time the plain plan path does not pay."""
     try:
         from scipy.optimize._highspy import _core
-    except ImportError:  # pragma: no cover
+    except ImportError:  # pragma: no cover - a scipy without it: solve from scratch
         return None
     return _core
 
@@ -43,7 +43,7 @@ class Master:
         self.row_of_limit = {t: n_items + k for k, t in enumerate(self.limited)}
         self.keys = []
         self._model = None
-        _highs = _highs_core()
+        self._highs = _highs = _highs_interface()
         if _highs is not None:
             h = _highs._Highs()
             for name, value in (("output_flag", False), ("threads", 1), ("parallel", "off"),
@@ -79,7 +79,7 @@ class Master:
             index.extend(members)
             if t in self.row_of_limit:
                 index.append(self.row_of_limit[t])
-        inf = _highs_core().kHighsInf
+        inf = self._highs.kHighsInf
         self._model.addCols(len(keys), np.array([float(self.cost[t]) for t, _ in keys]), np.zeros(len(keys)),
                             np.full(len(keys), inf), len(index), np.array(starts, dtype=np.int32),
                             np.array(index, dtype=np.int32), np.ones(len(index)))
@@ -91,7 +91,7 @@ class Master:
             return self._from_scratch()
         h = self._model
         h.run()
-        if h.getModelStatus() != _highs_core().HighsModelStatus.kOptimal:
+        if h.getModelStatus() != self._highs.HighsModelStatus.kOptimal:
             return None
         info, sol = h.getInfo(), h.getSolution()
         iterations = max(0, int(info.simplex_iteration_count))  # this run's own count
