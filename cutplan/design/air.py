@@ -12,6 +12,9 @@ from cutplan.design.contract import is_number
 TEMPERATURE_RANGE = (253.15 - 1e-9, 323.15 + 1e-9)
 """Air temperatures accepted [K]: -20 C to 50 C, ends included (a nanokelvin of slack, so that
 "-20 C" = -20 + 273.15 in floating point, 253.14999999999998, is inside)."""
+MAX_LENGTH_RANGE = (0.01, 10.0)
+"""A resonator's max_length may be given from 10 mm to 10 m [m]."""
+
 _HUMIDITY = re.compile(r"\s*([0-9]+(?:\.[0-9]*)?)\s*%?\s*")
 _END_CORRECTIONS = ("unflanged", "flanged", "none")
 
@@ -77,7 +80,7 @@ def air_fields(raw, key, kind, stock_material, library, col):
         else:
             fields["humidity"] = h
     if "max_length" in raw:
-        m = col.ranged(f"{key}.max_length", raw["max_length"], units.parse_length, 0.01, 10.0,
+        m = col.ranged(f"{key}.max_length", raw["max_length"], units.parse_length, *MAX_LENGTH_RANGE,
                        "must be a length from 10 mm to 10 m")
         if m is not None:
             fields["max_length"] = m

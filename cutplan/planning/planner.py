@@ -22,7 +22,8 @@ from cutplan.planning import elastic as plan_elastic
 from cutplan.planning import thermal
 from cutplan.planning import uncertainty
 from cutplan.planning.allowance import allowance_rule, allowances, risk_warning
-from cutplan.design import Design, DesignError, DesignErrors, SetSpec
+from cutplan.design import Design, DesignError, DesignErrors, SetSpec, notices
+from cutplan.design.notices import Notice, set_key, stock_key
 from cutplan.planning.frequency import (
     STRIKE_NOTE_MODE,
     beam_constants,
@@ -88,18 +89,21 @@ def _plan_beam_set(spec: SetSpec, design: Design, stock):
         length, cut = float(lengths[i]), float(cuts[i])
         warnings = []
         if length / depth < STUBBY_RATIO:
-            warnings.append(
+            warnings.append(Notice(
+                notices.STUBBY, set_key(spec, "section"),
                 f"stubby piece: length is {length / depth:.1f} x its depth; beam models are "
                 "approximate here, so cut a test piece and calibrate"
-            )
+            ))
         if model == "slender" and abs(default_cents[i]) > 5:
-            warnings.append(
+            warnings.append(Notice(
+                notices.SLENDER_MODEL, set_key(spec, "model"),
                 f"slender model: the default timoshenko model (shear, rotary inertia and its own modulus) puts "
                 f"this piece {abs(default_cents[i]):.0f} cents {'higher' if default_cents[i] > 0 else 'lower'}"
-            )
-        warnings += risk_warning(float(risks[i]))
+            ))
+        warnings += risk_warning(float(risks[i]), spec)
         if cut > COMMON_STOCK_LENGTH and not (stock and stock.lengths):
-            warnings.append(f"longer than common stock ({COMMON_STOCK_LENGTH:.2f} m / 12 ft)")
+            warnings.append(Notice(notices.LONGER_THAN_COMMON_STOCK, stock_key(spec, "lengths"),
+                                   f"longer than common stock ({COMMON_STOCK_LENGTH:.2f} m / 12 ft)"))
         row = partials[i, :PARTIAL_COUNT]
         pieces.append(
             Piece(
@@ -159,10 +163,11 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
         cut_length, a_uncal, a_cal, risk = allowances(spec, stock, f_local, r.length, t.frequency,
                                                        grain.unknown_grain_ratios(spec, ratios_uncal, r.length),
                                                        ratios_cal)
-        warnings = risk_warning(risk)
+        warnings = risk_warning(risk, spec)
         if r.length / sec.thickness < STUBBY_RATIO:
-            warnings.append(f"stubby bar: length is {r.length / sec.thickness:.1f} x its thickness; cut a test "
-                            "bar and calibrate")
+            warnings.append(Notice(notices.STUBBY, set_key(spec, "section"),
+                                   f"stubby bar: length is {r.length / sec.thickness:.1f} x its thickness; cut a "
+                                   "test bar and calibrate"))
         volume = sec.width * (sec.thickness * r.length - undercut.arch_area(r.length, r.thickness, r.depth, r.arch_fraction, r.exponent))
         partials = r.frequencies[:PARTIAL_COUNT]
         pieces.append(Piece(
@@ -300,7 +305,8 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                 pieces = other_modes.with_other_modes(spec, pieces)
                 pieces = hang_holes.with_hang_holes(spec, pieces, _hang_hole_rows(), design.units)
             except ValueError as exc:
-                errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}"))
+                errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}",
+                                          notices.CANNOT_PLAN))
                 continue
         else:
             if spec.kind == "resonator":
@@ -328,7 +334,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                         design.path, f"set[{spec.index}]", p.note,
                         f"needs {p.label} cut at {format_length(need, design.units)} with end trim at both ends, "
                         f"longer than the longest stock ({format_length(longest, design.units)}); add longer stock or "
-                        "raise the note"))
+                        "raise the note", notices.LONGER_THAN_STOCK))
         pieces = [_with_shop_facts(p, spec) for p in pieces]
         done = SetPlan(**{**summary.__dict__, "pieces": tuple(pieces),
                           "allowance_rule": allowance_rule(stock, design.units),

@@ -107,7 +107,7 @@ def render_table(plan):
                            f"{format_length(hi[1], units)} at {hi[0] - 273.15:.0f} C"))
         for p in s.pieces:
             for w in p.warnings:
-                out.extend(_wrapped(f"! {p.label}: {w}"))
+                out.extend(_wrapped(f"! {p.label}: {w.message}"))
         if getattr(s, "hanging", None) is not None:
             from cutplan.render.hanging import hanging_lines  # noqa: I001 (chime sets only)
 

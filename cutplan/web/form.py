@@ -125,7 +125,7 @@ SET_EXTRAS = (
     SetField("humidity", "Humidity [%]", AIR, "air", placeholder="50", read=_number_or_text),
     SetField("end_correction", "End correction", AIR, "air", 'per open end: "unflanged", "flanged", "none" '
              "or a factor of the bore radius", placeholder="unflanged", read=_number_or_text),
-    SetField("max_length", "Longest tube", AIR, "air", "a resonator longer than this is flagged", placeholder="1.2 m"),
+    SetField("max_length", "Longest tube", AIR, "air", "a resonator that would be longer than this is refused", placeholder="1.2 m"),
     SetField("temperature_range", "Temperature range", ("resonator",), "air",
              'for the stopper travel, e.g. "12 C to 28 C"', read=_two_texts, show=_two_texts_text),
 )

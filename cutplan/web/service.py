@@ -13,6 +13,8 @@ import threading
 import zipfile
 from collections import OrderedDict
 
+from cutplan.design.notices import INVALID, Notice
+
 DESIGN_NAME = "design"
 """Name that stands for the design in error lines (there is no file)."""
 MAX_DESIGN_BYTES = 1_000_000
@@ -32,23 +34,22 @@ ZIP_TIME = (1980, 1, 1, 0, 0, 0)
 
 
 class WebErrors(ValueError):
-    """Problems with a request, each ``{"key": ..., "message": ...}`` (a design key or a form field)."""
+    """Problems with a request, each ``{"code": ..., "key": ..., "message": ...}`` (the key: a
+    design key or a form field)."""
 
     def __init__(self, errors):
         self.errors = list(errors)
         super().__init__("; ".join(e["message"] for e in self.errors))
 
 
-def error(key, message):
+def error(key, message, code=INVALID):
     """One error record; the message starts with the key, as a design-file error line does."""
-    return {"key": key, "message": f"{key}: {message}"}
+    return Notice(code, key, f"{key}: {message}").as_dict()
 
 
 def design_errors(exc):
     """``DesignErrors`` -> error records (the one-line messages without the design's name)."""
-    prefix = f"{DESIGN_NAME}: "
-    return [{"key": e.key, "message": str(e)[len(prefix):] if str(e).startswith(prefix) else str(e)}
-            for e in exc.errors]
+    return [e.record().as_dict() for e in exc.errors]
 
 
 MAX_DEPTH = 12
