@@ -48,7 +48,7 @@ def _temperature_range(value, key, col):
 def air_fields(raw, key, kind, stock_material, library, col):
     """The SetSpec fields of an air-column or resonator set."""
     fields = {}
-    for k in ("model", "target"):
+    for k in ("model", "target", "mode_clearance"):
         if k in raw:
             col.add(f"{key}.{k}", None, f"applies to chime and bar sets, not {kind}")
     if "material" in raw:

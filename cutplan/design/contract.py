@@ -140,6 +140,7 @@ class SetSpec:
     temperature_range: tuple | None = None
     hanging: object = None  # cutplan.design.hanging.HangingSpec, or None for the defaults
     grain: str = "unknown"  # a bar's sawing: "flat", "quarter" or "unknown" (cutplan.planning.grain)
+    mode_clearance: float | None = None  # window for flagging other modes near a tuned partial [cents]
 
 
 @dataclass(frozen=True)
