@@ -1,6 +1,8 @@
 """Design -> Plan: every piece's length, cut length, nodes, partials, mass and trim data.
 
-``plan(design)`` is a pure function of the validated design: no printing, no files.  Lengths
+``plan(design)`` is a pure function of the validated design and the shop tables: no printing,
+no file read per call (the packaged shop tables are read once per process, on first use, or
+passed in as ``tables``).  Lengths
 are solved with the set's model (shear-corrected Timoshenko by default, slender
 Euler-Bernoulli on request) for chimes and bars, and with the air-column formulas, the speed of
 sound at the set's temperature and the end corrections for air columns and resonators.
@@ -35,6 +37,7 @@ from cutplan.planning.frequency import (
 from cutplan.physics import beam, timoshenko
 from cutplan.planning.air import plan_air_set
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
+from cutplan.planning.shopping import shop_tables, with_shop_lists
 from cutplan.units import format_length
 
 __all__ = ["Arch", "Piece", "Plan", "SetPlan", "bars_to_solve", "plan"]
@@ -269,25 +272,21 @@ some hundred times that of aluminium or brass (about 1e-4) (Cremer, Heckl and Pe
 Structure-Borne Sound, 3rd ed., 2005, table of loss factors; from memory)."""
 
 
-def _hang_hole_rows():
-    """The shop table of hang-hole drills (read for each chime set)."""
-    from cutplan.planning.shopping import hang_holes as rows
-
-    return rows()
-
-
 def bars_to_solve(design: Design):
     """How many arched bars a design has (each takes a small optimisation; for progress bars)."""
     return sum(len(s.targets) for s in design.sets if s.undercut is not None)
 
 
-def plan(design: Design, progress=None, stock_override=None) -> Plan:
+def plan(design: Design, progress=None, stock_override=None, tables=None) -> Plan:
     """Plan every set of a validated design, with its cut list on the stock on hand.
 
     Raises DesignErrors for pieces that cannot be made or stock that cannot hold them.
     ``progress(n)``, if given, is called as arched bars are solved (for a progress bar);
-    ``stock_override`` (a StockSpec) lays the pieces out on other stock than the design's.
+    ``stock_override`` (a StockSpec) lays the pieces out on other stock than the design's;
+    ``tables`` (:class:`cutplan.planning.shopping.ShopTables`) are the shop tables, the packaged
+    ones (read once per process) when None.  Reads no file of its own.
     """
+    tables = tables if tables is not None else shop_tables()
     sets, errors, by_name = [], [], {}
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
@@ -303,7 +302,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                 else:
                     pieces = _plan_beam_set(spec, design, stock)
                 pieces = other_modes.with_other_modes(spec, pieces)
-                pieces = hang_holes.with_hang_holes(spec, pieces, _hang_hole_rows(), design.units)
+                pieces = hang_holes.with_hang_holes(spec, pieces, tables.hang_holes, design.units)
             except ValueError as exc:
                 errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}",
                                           notices.CANNOT_PLAN))
@@ -343,7 +342,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
             from cutplan.planning.hanging import hanging_for  # noqa: I001 (the assembly: plate, striker, sail, lines)
 
             done = SetPlan(**{**done.__dict__, "hanging": hanging_for(done, spec.hanging, spec.target_mode,
-                                                                        units=design.units)})
+                                                                        tables.lines, units=design.units)})
         by_name[spec.name] = done
         sets.append(done)
     if errors:
@@ -359,7 +358,6 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                               units=design.units)
     except stock.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
-    from cutplan.planning.shopping import with_shop_lists  # noqa: I001 (shopping list and cautions)
     return with_shop_lists(Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
                 temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts,
-                classroom=design.classroom, copies=design.copies))
+                classroom=design.classroom, copies=design.copies), tables)

@@ -14,6 +14,7 @@ import zipfile
 from collections import OrderedDict
 
 from cutplan.design.notices import INVALID, Notice
+from cutplan.planning.service import REFUSALS, guarded_plan, refusal_records
 
 DESIGN_NAME = "design"
 """Name that stands for the design in error lines (there is no file)."""
@@ -139,18 +140,13 @@ class Planner:
             raise WebErrors([error("(materials)", str(exc))]) from None
 
     def compute(self, data):
-        """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers)."""
-        import cutplan
-        from cutplan.design import DesignErrors
-        from cutplan.numeric import NumericError, checked_plan
-
+        """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers);
+        planned by the one guarded plan service, as the command line and from-stock are."""
         design = self.design(data)
         try:
-            return design, checked_plan(lambda: cutplan.plan(design), DESIGN_NAME)
-        except DesignErrors as exc:
-            raise WebErrors(design_errors(exc)) from None
-        except NumericError as exc:  # an absurd or overflowing result: the design's numbers are to blame
-            raise WebErrors([error("(design)", str(exc).removeprefix(f"{DESIGN_NAME}: "))]) from None
+            return design, guarded_plan(design, DESIGN_NAME)
+        except REFUSALS as exc:  # numbers that overflow or give an absurd piece: the design's are to blame
+            raise WebErrors([r.as_dict() for r in refusal_records(exc, DESIGN_NAME)]) from None
 
     def _in_worker(self, data, gone=None):
         from cutplan.web.workers import Stopped, WorkerPool
