@@ -113,7 +113,7 @@ def _over_max_length(spec, design, label, note, length, why=""):
     """The error for a resonator that cannot reach its pitch within the set's ``max_length``: it
     names the limit, the length the pitch needs and what would allow it."""
     return DesignError(
-        design.path, set_key(spec, "max_length"), format_length(spec.max_length, design.units),
-        f"is shorter than resonator {label} ({note}) needs{why}: {format_length(length, design.units)}; "
+        design.path, set_key(spec, "max_length"), None,
+        f"{format_length(spec.max_length, design.units)} is shorter than resonator {label} ({note}) needs{why}: {format_length(length, design.units)}; "
         f"give max_length of at least that (up to {MAX_LENGTH_RANGE[1]:g} m), a wider bore, or a folded tube",
         notices.UNREACHABLE)

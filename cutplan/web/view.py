@@ -76,7 +76,7 @@ def slot_for(key, slots):
 def _set_error_slot(key, code, slots, own_stock):
     """Errors keyed by a whole set that concern one group of its fields, by their code: the
     pitches or the stock."""
-    if code == notices.PITCH_CHOICE and f"{key}.pitch" in slots:
+    if code in (notices.PITCH_CHOICE, notices.UNREACHABLE) and f"{key}.pitch" in slots:
         return f"{key}.pitch"
     if code == notices.LONGER_THAN_STOCK:
         return f"{key}.stock.lengths" if key in own_stock else "stock.lengths"
