@@ -178,15 +178,6 @@ def with_other_modes(spec, pieces, clearance_cents=None):
     return out
 
 
-def ring_below_note(piece):
-    """The frequency of a tube's lowest ring (ovalling) mode when it lies below the bending
-    fundamental the piece is tuned by, else None.  Ring modes do not change with length, so such
-    a tube sounds its ovalling first: no length of it reaches the note as a bending chime."""
-    fundamental = piece.fundamental_hz or (piece.partials_hz[0] if piece.partials_hz else 0.0)
-    rings = [f for kind, _n, f in piece.other_modes if kind == "ring"]
-    return min(rings) if rings and fundamental and min(rings) < fundamental else None
-
-
 def _grain_spread(spec, piece):
     """{kind: cents} the warning window widens by for a bar of unknown sawing; {} otherwise.
 

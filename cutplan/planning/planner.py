@@ -185,22 +185,6 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
     return pieces
 
 
-def _ring_errors(spec, design, pieces):
-    """Errors for tube pieces whose ring (ovalling) mode lies below their note: no length of
-    that tube reaches the note as a bending chime (the lowest ring frequency is the limit)."""
-    out = []
-    for p in pieces:
-        ring = other_modes.ring_below_note(p)
-        if ring is not None:
-            out.append(DesignError(
-                design.path, set_key(spec), p.note,
-                f"cannot be reached by a bending chime of this tube ({p.label}): its ring (ovalling) mode at "
-                f"{ring:.0f} Hz lies below the note's {p.fundamental_hz or p.partials_hz[0]:.0f} Hz and would "
-                f"sound first (no length changes it); choose notes under {ring:.0f} Hz for this tube, or a "
-                "thicker wall", notices.UNREACHABLE))
-    return out
-
-
 def _with_shop_facts(piece, spec):
     """The piece with the shop facts every output states: strike note, trim end, what to do if
     it comes out sharp."""
@@ -327,10 +311,6 @@ def plan(design: Design, progress=None, stock_override=None, tables=None) -> Pla
             except ValueError as exc:
                 errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}",
                                           notices.CANNOT_PLAN))
-                continue
-            unreachable = _ring_errors(spec, design, pieces)
-            if unreachable:
-                errors.extend(unreachable)
                 continue
         else:
             if spec.kind == "resonator":
