@@ -49,7 +49,11 @@ def design_from_mapping(data, materials_dirs=(), name="(design)", base_dir=None)
 
 
 def plan(design, progress=None, stock_override=None):
-    """Plan a validated design: every piece and the cut list. Raises ``DesignErrors``."""
-    from cutplan.planning.planner import plan as _plan
+    """Plan a validated design: every piece and the cut list. Raises ``DesignErrors``.
 
-    return _plan(design, progress=progress, stock_override=stock_override)
+    Pure: no file is read per call (the packaged shop tables are read once per process).
+    Guarded as every front end's plan is: numeric warnings stay inside, and numbers that overflow
+    or give an absurd piece raise ``cutplan.numeric.NumericError`` (one line)."""
+    from cutplan.planning.service import guarded_plan
+
+    return guarded_plan(design, progress=progress, stock_override=stock_override)

@@ -10,6 +10,7 @@ Nothing is read at import time; :func:`load_library` is given the folders to rea
 
 from __future__ import annotations
 
+import functools
 import math
 import tomllib
 from dataclasses import dataclass, field, replace
@@ -134,6 +135,16 @@ class Library:
     stock: dict
     sources: dict
     files: tuple = ()
+
+
+@functools.cache
+def shop_table(name):
+    """A packaged shop table, ``materials/shop/NAME`` (e.g. ``"cautions.toml"``), as parsed TOML.
+
+    Read once per process, on first use, so that planning reads no file per call; callers only
+    read the mapping."""
+    with open(packaged_dir() / "shop" / name, "rb") as fh:
+        return tomllib.load(fh)
 
 
 def packaged_dir():

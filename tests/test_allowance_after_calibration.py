@@ -11,10 +11,10 @@ import numpy as np
 import pytest
 
 import cutplan
-from cutplan.planning import uncertainty
-from cutplan.tuning.calibrate_moduli import _partial_frequencies, calibrated_moduli_toml, fit_moduli
 from cutplan.materials import load_library
 from cutplan.physics.sections import Section
+from cutplan.planning import uncertainty
+from cutplan.tuning.calibrate_moduli import _partial_frequencies, calibrated_moduli_toml, fit_moduli
 
 ROOT = Path(__file__).resolve().parents[1]
 

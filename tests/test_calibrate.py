@@ -7,15 +7,15 @@ import numpy as np
 import pytest
 from click.testing import CliRunner
 
-from cutplan.planning import uncertainty
-from cutplan.tuning.calibrate import fit_air_column, fit_beam, trim_advice
 from cutplan.cli import cli
 from cutplan.design import load_design
 from cutplan.materials import load_library
-from cutplan.planning.frequency import beam_constants, beam_frequency_function
 from cutplan.physics import air_column, beam, timoshenko
-from cutplan.planning.planner import plan
 from cutplan.physics.sections import tube
+from cutplan.planning import uncertainty
+from cutplan.planning.frequency import beam_constants, beam_frequency_function
+from cutplan.planning.planner import plan
+from cutplan.tuning.calibrate import fit_air_column, fit_beam, trim_advice
 
 LIB = load_library()
 AL = LIB.materials["aluminum-6063-t5"]

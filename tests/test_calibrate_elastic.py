@@ -3,11 +3,11 @@
 import pytest
 from click.testing import CliRunner
 
-from cutplan.tuning.calibrate_moduli import fit_moduli
 from cutplan.cli import cli
 from cutplan.materials import Material
 from cutplan.physics import elastic2d
 from cutplan.physics.sections import bar
+from cutplan.tuning.calibrate_moduli import fit_moduli
 
 # Sugar maple along the grain (USDA Wood Handbook FPL-GTR-190, 2010: Table 5-3a MOE 12.6 GPa
 # x 1.10 (from memory for the factor), Table 5-1 G_LR/E_L = 0.111, nu_LR = 0.424, SG 0.63 ->

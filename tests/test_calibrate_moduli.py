@@ -6,12 +6,12 @@ from click.testing import CliRunner
 
 from cutplan.audio.synth import tone
 from cutplan.audio.wav import wav_bytes
-from cutplan.tuning.calibrate import CalibrationError, fit_beam
-from cutplan.tuning.calibrate_moduli import _partial_frequencies, fit_moduli, partials_from_peaks
 from cutplan.cli import cli
 from cutplan.materials import load_library
-from cutplan.planning.frequency import beam_frequency_function
 from cutplan.physics.sections import bar, rod, tube
+from cutplan.planning.frequency import beam_frequency_function
+from cutplan.tuning.calibrate import CalibrationError, fit_beam
+from cutplan.tuning.calibrate_moduli import _partial_frequencies, fit_moduli, partials_from_peaks
 
 LIB = load_library()
 MAPLE = LIB.materials["maple-sugar"]

@@ -13,8 +13,8 @@ from click.testing import CliRunner
 from cutplan.cli import cli
 from cutplan.design import load_design
 from cutplan.materials import load_library
-from cutplan.planning.frequency import plane_constants
 from cutplan.physics import elastic2d, timoshenko, undercut
+from cutplan.planning.frequency import plane_constants
 from cutplan.planning.planner import plan
 from cutplan.render.table import plan_dict
 
@@ -218,7 +218,7 @@ def test_slender_warning_compares_with_the_default_model_at_its_own_modulus(tmp_
         f = timoshenko.frequencies(piece.length, e * sec.second_moment, mat.density * sec.area,
                                    kappa * g * sec.area, mat.density * sec.second_moment, 1)[0]
         expected = cents(f, piece.partials_hz[0])
-        (line,) = [w for w in piece.warnings if w.startswith("slender model")]
+        (line,) = [w for w in (n.message for n in piece.warnings) if w.startswith("slender model")]
         assert f"{abs(expected):.0f} cents {'higher' if expected > 0 else 'lower'}" in line
 
 

@@ -14,11 +14,11 @@ from click.testing import CliRunner
 
 import cutplan
 from cutplan import pitch
+from cutplan.cli import cli
+from cutplan.design import StockLength, StockSpec
 from cutplan.fromstock import pack as fit_pack
 from cutplan.fromstock import search as fit_stock
 from cutplan.fromstock import table as fit_table
-from cutplan.cli import cli
-from cutplan.design import StockLength, StockSpec
 
 ROOT = Path(__file__).resolve().parent.parent
 EIGHT_FEET_MM = 2438.4  # 8 ft x 304.8 mm/ft (international foot, exact by definition since 1959)

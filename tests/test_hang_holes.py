@@ -6,11 +6,11 @@ from pathlib import Path
 import pytest
 
 import cutplan
-from cutplan.planning import hang_holes
 from cutplan.physics.hang_hole import hang_hole_shifts
-from cutplan.render.table import plan_dict
+from cutplan.planning import hang_holes
 from cutplan.planning.shopping import hang_hole_for
 from cutplan.planning.shopping import hang_holes as shop_rows
+from cutplan.render.table import plan_dict
 
 ROOT = Path(__file__).resolve().parent.parent
 
@@ -48,7 +48,7 @@ def test_a_fast_beat_warns_and_the_shopping_list_takes_a_smaller_drill():
     (p,) = plan.pieces
     assert p.hang_hole.beat_hz > hang_holes.BEAT_LIMIT_HZ
     assert 0 < p.hang_hole.largest_drill < p.hang_hole.drill
-    assert any(w.startswith("hang hole") and "beats at" in w for w in p.warnings)
+    assert any(w.startswith("hang hole") and "beats at" in w for w in (n.message for n in p.warnings))
     (drill,) = [i for i in plan.shopping if "drill bit" in i.what]
     assert drill.each == pytest.approx(p.hang_hole.largest_drill)
 

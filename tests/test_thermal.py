@@ -5,8 +5,8 @@ import math
 import pytest
 
 import cutplan
-from cutplan.planning import thermal
 from cutplan.physics import beam
+from cutplan.planning import thermal
 
 
 def test_drift_formula_matches_the_beam_formula_with_warmed_dimensions():

@@ -101,13 +101,13 @@ def _wants_progress():
 
 
 def _plan(design, stock_override=None):
-    """The plan, or exit 2 with one line per problem; numeric warnings never reach the user."""
-    from cutplan.design import DesignErrors
-    from cutplan.numeric import NumericError, checked_plan
-    from cutplan.planning.planner import bars_to_solve, plan
+    """The plan through the one guarded plan service (as the page and from-stock), or exit 2
+    with one line per problem; numeric warnings never reach the user."""
+    from cutplan.planning.planner import bars_to_solve
+    from cutplan.planning.service import REFUSALS, guarded_plan, refusal_lines
 
     def run(progress=None):
-        return checked_plan(lambda: plan(design, progress=progress, stock_override=stock_override), design.path)
+        return guarded_plan(design, progress=progress, stock_override=stock_override)
 
     try:
         count = bars_to_solve(design)
@@ -115,10 +115,8 @@ def _plan(design, stock_override=None):
             with click.progressbar(length=count, label="solving arched bars", file=sys.stderr) as bar:
                 return run(bar.update)
         return run()
-    except DesignErrors as exc:
-        fail([str(e) for e in exc.errors])
-    except NumericError as exc:
-        fail(str(exc))
+    except REFUSALS as exc:
+        fail(refusal_lines(exc))
 
 
 def _check_output_dir(output, force):

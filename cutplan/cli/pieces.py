@@ -132,7 +132,7 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
 
         click.echo(f"  other modes {other_modes_text(p.other_modes)}")
     for w in p.warnings:
-        click.echo(f"  ! {w}")
+        click.echo(f"  ! {w.message}")
 
 
 @click.command("new")

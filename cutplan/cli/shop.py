@@ -365,28 +365,22 @@ def trim_command(design, label, measured, recording, length_now, done, state_pat
     """
     import json
 
-    from cutplan.tuning import TrimError, parse_length_now, parse_measured, trim_report
-    from cutplan.tuning.trim_service import STATE_SUFFIX, find_piece, recorded_partials
+    from cutplan.audio.wav import read_wav
+    from cutplan.tuning import TrimError
+    from cutplan.tuning.trim_service import STATE_SUFFIX, trim_reading
 
     if (measured is None) == (recording is None):
         fail("trim: give --measured or --recording (one of them)")
     des, _lib = _load(design, materials_dirs, units)
     the_plan = _plan(des)
-    try:
-        piece, spec = find_piece(des, the_plan, label)
-        now = parse_length_now(length_now, piece, the_plan.units, "--length-now") if length_now else None
-        if recording:
-            kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
-            m = _measure_file(recording, kind, piece.target_hz, list(piece.partial_ratios))
-            partials, confidence = recorded_partials(m, piece)
-        else:
-            partials, confidence = parse_measured(measured, "--measured"), 1.0
-        path = Path(state_path) if state_path else Path(design).with_name(Path(design).stem + STATE_SUFFIX)
-        state = _read_state(path) if piece.arch is not None else None
-        report = trim_report(des, the_plan, label, partials, confidence, bool(recording), now, state, done)
+    path = Path(state_path) if state_path else Path(design).with_name(Path(design).stem + STATE_SUFFIX)
+    keys = {"piece": "trim", "measured": "--measured", "length_now": "--length-now", "recording": str(recording),
+            "state": "trim"}
+    try:  # the one trim service, with the page's checks
+        report = trim_reading(des, the_plan, label, measured or "", (lambda: read_wav(recording)) if recording else None,
+                              length_now or "", _read_state(path), done, keys, str(path)).report
     except TrimError as exc:
-        where = exc.key if str(exc.key).startswith("--") else "trim"
-        fail(f"{where}: {exc}")
+        fail(f"{exc.key}: {exc}")
     if report.state is not None:
         write_file(path, json.dumps(report.state, indent=1) + "\n")
     if fmt == "json":
@@ -402,14 +396,17 @@ def trim_command(design, label, measured, recording, length_now, done, state_pat
 
 
 def _read_state(path):
-    """The rounds on record for a design (None when there are none yet); exit 2 when unreadable."""
-    import json
+    """The text of the rounds on record for a design ('' when there are none yet); exit 2 when
+    unreadable. The trim service checks what it holds."""
+    from cutplan.tuning.trim_service import MAX_STATE_BYTES
 
     if not path.exists():
-        return None
+        return ""
     try:
-        return json.loads(path.read_text(encoding="utf-8"))
-    except (OSError, UnicodeDecodeError, json.JSONDecodeError) as exc:
+        with open(path, "rb") as fh:
+            raw = fh.read(MAX_STATE_BYTES + 1)
+        return raw.decode("utf-8") if len(raw) <= MAX_STATE_BYTES else raw.decode("utf-8", "replace")
+    except (OSError, UnicodeDecodeError) as exc:
         fail(f"{path}: not a trim-state file ({exc.__class__.__name__}); move it away to start the rounds afresh")
 
 

@@ -10,6 +10,9 @@ from cutplan.design.beams import material
 from cutplan.design.contract import is_number
 from cutplan.limits import TEMPERATURE_RANGE, TEMPERATURE_SPAN
 
+MAX_LENGTH_RANGE = (0.01, 10.0)
+"""A resonator's max_length may be given from 10 mm to 10 m [m]."""
+
 _HUMIDITY = re.compile(r"\s*([0-9]+(?:\.[0-9]*)?)\s*%?\s*")
 _END_CORRECTIONS = ("unflanged", "flanged", "none")
 
@@ -43,7 +46,7 @@ def _temperature_range(value, key, col):
 def air_fields(raw, key, kind, stock_material, library, col):
     """The SetSpec fields of an air-column or resonator set."""
     fields = {}
-    for k in ("model", "target"):
+    for k in ("model", "target", "mode_clearance"):
         if k in raw:
             col.add(f"{key}.{k}", None, f"applies to chime and bar sets, not {kind}")
     if "material" in raw:
@@ -75,7 +78,7 @@ def air_fields(raw, key, kind, stock_material, library, col):
         else:
             fields["humidity"] = h
     if "max_length" in raw:
-        m = col.ranged(f"{key}.max_length", raw["max_length"], units.parse_length, 0.01, 10.0,
+        m = col.ranged(f"{key}.max_length", raw["max_length"], units.parse_length, *MAX_LENGTH_RANGE,
                        "must be a length from 10 mm to 10 m")
         if m is not None:
             fields["max_length"] = m

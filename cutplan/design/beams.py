@@ -8,6 +8,11 @@ from cutplan.design.contract import Undercut, is_number
 from cutplan.materials import MaterialError, closest_names, material_from_table
 
 UNDERCUT_KEYS = {"ratios", "arch_width", "min_thickness"}
+MODE_CLEARANCE_RANGE = (1.0, 200.0)
+"""The window a set's ``mode_clearance`` may give [cents]: from 1 cent to two semitones (the
+default, 30 cents, is :data:`cutplan.planning.other_modes.CLEARANCE_CENTS`)."""
+MODE_CLEARANCE_ALLOWED = (f"must be a number of cents from {MODE_CLEARANCE_RANGE[0]:g} to {MODE_CLEARANCE_RANGE[1]:g}, "
+                          'such as 30 or "30 cents" (how near a tuned partial another mode is flagged)')
 AIR_ONLY = ("ends", "end_correction", "temperature", "humidity", "serves", "max_length", "temperature_range")
 
 
@@ -81,6 +86,24 @@ def grain(raw, key, section, col):
     return value
 
 
+def mode_clearance(raw, key, col):
+    """The set's window for flagging other modes near a tuned partial [cents], or None (the default)."""
+    if "mode_clearance" not in raw:
+        return None
+    value = raw["mode_clearance"]
+    cents = value if is_number(value) else None
+    if isinstance(value, str):
+        text = value.strip().removesuffix("cents").removesuffix("cent").strip()
+        try:
+            cents = float(text)
+        except ValueError:
+            cents = None
+    if cents is None or not MODE_CLEARANCE_RANGE[0] <= cents <= MODE_CLEARANCE_RANGE[1]:
+        col.add(f"{key}.mode_clearance", value, MODE_CLEARANCE_ALLOWED)
+        return None
+    return float(cents)
+
+
 def beam_fields(raw, key, kind, section, stock_material, library, col):
     """The SetSpec fields of a chime or bar set."""
     fields = {"material": material(raw, f"{key}.material", stock_material, library, col)}
@@ -97,6 +120,7 @@ def beam_fields(raw, key, kind, section, stock_material, library, col):
         col.add(f"{key}.target", target, 'must be "fundamental" (default) or "strike-note"')
     fields["target_mode"] = target if isinstance(target, str) else "fundamental"
     fields["grain"] = grain(raw, key, section, col)
+    fields["mode_clearance"] = mode_clearance(raw, key, col)
     for k in AIR_ONLY:
         if k in raw:
             col.add(f"{key}.{k}", None, f"applies to air-column and resonator sets, not {kind}")

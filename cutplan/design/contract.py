@@ -10,6 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from cutplan import pitch, units
+from cutplan.design.notices import INVALID, Notice
 from cutplan.design.text import shown
 from cutplan.physics.sections import Section
 from cutplan.units import INCH_DENOMINATOR
@@ -42,11 +43,18 @@ MAX_STOCK_COUNT = 1000
 class DesignError(ValueError):
     """One bad input value: file, key path, bad value, what is allowed. Prints as one line."""
 
-    def __init__(self, path, key, value, allowed):
-        self.path, self.key, self.value, self.allowed = str(path), key, value, allowed
+    def __init__(self, path, key, value, allowed, code=INVALID):
+        self.path, self.key, self.value, self.allowed, self.code = str(path), key, value, allowed, code
         text = "" if value is None else f"{show(value)} "
         head = f"{self.path}: " if self.path else ""
         super().__init__(shown(f"{head}{key}: {text}{allowed}"))
+
+    def record(self):
+        """This error as a :class:`~cutplan.design.notices.Notice`: code, key and the line
+        without the file's name (as the page shows it beside the field)."""
+        head = f"{self.path}: " if self.path else ""
+        line = str(self)
+        return Notice(self.code, self.key, line[len(head):] if line.startswith(head) else line)
 
 
 class DesignErrors(ValueError):
@@ -133,6 +141,7 @@ class SetSpec:
     temperature_range: tuple | None = None
     hanging: object = None  # cutplan.design.hanging.HangingSpec, or None for the defaults
     grain: str = "unknown"  # a bar's sawing: "flat", "quarter" or "unknown" (cutplan.planning.grain)
+    mode_clearance: float | None = None  # window for flagging other modes near a tuned partial [cents]
 
 
 @dataclass(frozen=True)
@@ -165,8 +174,8 @@ class Collector:
         self.path = path
         self.errors = []
 
-    def add(self, key, value, allowed):
-        self.errors.append(DesignError(self.path, key, value, allowed))
+    def add(self, key, value, allowed, code=INVALID):
+        self.errors.append(DesignError(self.path, key, value, allowed, code))
 
     def unknown(self, table, allowed, prefix):
         for key in table:

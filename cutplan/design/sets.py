@@ -19,6 +19,7 @@ SET_KEYS = {
     "name", "kind", "notes", "scale", "root", "count", "frequencies", "cents", "ratios", "range",
     "material", "section", "model", "target", "ends", "end_correction", "temperature",
     "humidity", "serves", "max_length", "stock", "undercut", "temperature_range", "hanging", "grain",
+    "mode_clearance",
 }
 MAX_NAME = 40
 

@@ -6,6 +6,7 @@ import math
 
 from cutplan import pitch, units
 from cutplan.design.contract import MAX_PIECES_PER_SET, is_number
+from cutplan.design.notices import PITCH_CHOICE
 from cutplan.limits import CENTS_RANGE, FREQUENCY_RANGE, FREQUENCY_SPAN, RATIO_RANGE
 
 TARGET_KEYS = ("notes", "scale", "range", "frequencies", "cents", "ratios")
@@ -79,7 +80,7 @@ def targets(raw, key, a4, temperament, col, spelling="auto"):
         given.remove("scale")  # with a range, scale only filters the notes
     if len(given) != 1:
         col.add(key, None, "needs exactly one of: notes, scale (with root and count), range, "
-                "frequencies, cents (with root), ratios (with root)")
+                "frequencies, cents (with root), ratios (with root)", PITCH_CHOICE)
         return []
     how = given[0]
     value = raw[how]

@@ -35,6 +35,7 @@ from cutplan.fromstock import pack as fit_pack
 from cutplan.fromstock import table as fit_table
 from cutplan.fromstock.output import SET_NAMES, design_mapping
 from cutplan.layout import optimiser
+from cutplan.planning.service import REFUSALS, guarded_plan
 
 SEARCH_LOW = "C1"
 """Lowest root tried when no lower limit is given (a piece this low rarely fits any stick)."""
@@ -438,13 +439,12 @@ def lowest_roots(base_set, stock, scales, counts, lowest=None, highest=None, a4=
 def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materials_dirs):
     """Plan the best candidate's design with the real planner; the first that plans is chosen."""
     import cutplan
-    from cutplan.design import DesignErrors
 
     for k, cand in enumerate(cands):
         mapping = design_mapping(base_set, stock, cand, units, a4, temperament, title, kind, materials_dirs)
-        try:
-            the_plan = cutplan.plan(cutplan.design_from_mapping(mapping, materials_dirs, name="from-stock"))
-        except DesignErrors:
+        try:  # the one guarded plan service, as the command line and the page
+            the_plan = guarded_plan(cutplan.design_from_mapping(mapping, materials_dirs, name="from-stock"))
+        except REFUSALS:
             continue
         if the_plan.cut_list is None:
             continue

@@ -14,6 +14,8 @@ import math
 
 import numpy as np
 
+from cutplan.planning.service import REFUSALS, guarded_plan
+
 PLAN_CHUNK = 128
 """Frequencies per set in one planning call (the design file's limit per set) [-]."""
 SETS_PER_PLAN = 3
@@ -23,7 +25,6 @@ SETS_PER_PLAN = 3
 def _planned_cut_lengths(base_set, top, frequencies, materials_dirs):
     """(lengths, cut lengths) [m] through ``cutplan.plan``; NaN where a pitch cannot be made."""
     import cutplan
-    from cutplan.design import DesignErrors
 
     freqs = [float(x) for x in frequencies]
     lengths = np.full(len(freqs), np.nan)
@@ -33,14 +34,14 @@ def _planned_cut_lengths(base_set, top, frequencies, materials_dirs):
     for batch in batches:
         try:
             _plan_batch(cutplan, base_set, top, freqs, batch, lengths, cuts, materials_dirs)
-        except DesignErrors:
+        except REFUSALS:
             # some pitch of the batch cannot be made (an air column too short for its bore):
             # plan each pitch alone so the others still count
             for chunk in batch:
                 for i in chunk:
                     try:
                         _plan_batch(cutplan, base_set, top, freqs, [[i]], lengths, cuts, materials_dirs)
-                    except DesignErrors:
+                    except REFUSALS:
                         pass
     return lengths, cuts
 
@@ -49,7 +50,7 @@ def _plan_batch(cutplan, base_set, top, freqs, batch, lengths, cuts, materials_d
     sets = [{**base_set, "name": f"pitch{k + 1}", "frequencies": [freqs[i] for i in chunk]}
             for k, chunk in enumerate(batch)]
     design = cutplan.design_from_mapping({**top, "set": sets}, materials_dirs)
-    planned = cutplan.plan(design)
+    planned = guarded_plan(design)  # the one guarded plan service, as the command line and the page
     for chunk, set_plan in zip(batch, planned.sets, strict=True):
         for i, piece in zip(chunk, set_plan.pieces, strict=True):
             lengths[i] = piece.length

@@ -15,7 +15,6 @@ from __future__ import annotations
 import numpy as np
 
 
-
 def _highs_interface():
     """scipy's bundled HiGHS interface, or None. Imported only when a layout needs an LP: most
     plans never do, and scipy.optimize costs start-up time the plain plan path does not pay."""

@@ -5,7 +5,9 @@ from __future__ import annotations
 
 import numpy as np
 
-from cutplan.design import Design, DesignError, SetSpec
+from cutplan.design import Design, DesignError, SetSpec, notices
+from cutplan.design.air import MAX_LENGTH_RANGE
+from cutplan.design.notices import Notice, set_key
 from cutplan.physics import air_column
 from cutplan.planning import air_calibrated as air_stock
 from cutplan.planning import uncertainty
@@ -74,14 +76,16 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
         f1 = partials[0]
         warnings = []
         if length < 2 * radius * 2:
-            warnings.append("short column: under two bores long, the end correction dominates; cut long and trim")
+            warnings.append(Notice(notices.SHORT_COLUMN, set_key(spec, "section"),
+                                   "short column: under two bores long, the end correction dominates; cut long and trim"))
         if spec.kind == "resonator" and length > spec.max_length:
-            warnings.append(f"resonator {format_length(length, design.units)} is longer than the limit "
-                            f"{format_length(spec.max_length, design.units)}; use a folded tube or a wider bore")
+            errors.append(_over_max_length(spec, design, label, t.name, length))
+            continue
         ka = 2 * np.pi * t.frequency / speed * radius
         if ka > 0.5:
-            warnings.append(f"wide bore for this pitch (ka = {ka:.2f}): the end correction, modelled as falling "
-                            "with ka, is less certain here; cut long and trim to tune")
+            warnings.append(Notice(notices.WIDE_BORE, set_key(spec, "section"),
+                                   f"wide bore for this pitch (ka = {ka:.2f}): the end correction, modelled as falling "
+                                   "with ka, is less certain here; cut long and trim to tune"))
         mass = spec.material.density * spec.section.area * length if spec.material is not None else None
         f_at = air_frequency_function(spec)
         factor = air_column.end_correction(1.0, spec.end_correction)
@@ -91,15 +95,15 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
             uncertainty.air_ratios(length, radius, factor, open_ends, temperature,
                                    calibrated=air_stock.calibration(spec) is not None),
             uncertainty.air_ratios(length, radius, factor, open_ends, temperature, calibrated=True))
-        warnings += risk_warning(risk)
+        warnings += risk_warning(risk, spec)
         stopper = ()
         if spec.temperature_range is not None:
             stopper = stopper_settings(spec, t.frequency, radius, bar_drift)
             deepest = max(depth for _, depth in stopper)
             cut = max(cut, deepest + STOPPER_MARGIN)
             if spec.kind == "resonator" and cut > spec.max_length:
-                warnings.append(f"with the stopper travel the tube is {format_length(cut, design.units)}, longer than the limit "
-                                f"{format_length(spec.max_length, design.units)}")
+                errors.append(_over_max_length(spec, design, label, t.name, cut, " with the stopper travel"))
+                continue
         pieces.append(
             Piece(
                 set=spec.name, kind=spec.kind, label=label, note=t.name, target_hz=t.frequency,
@@ -113,3 +117,13 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
             )
         )
     return pieces, errors
+
+
+def _over_max_length(spec, design, label, note, length, why=""):
+    """The error for a resonator that cannot reach its pitch within the set's ``max_length``: it
+    names the limit, the length the pitch needs and what would allow it."""
+    return DesignError(
+        design.path, set_key(spec, "max_length"), None,
+        f"{format_length(spec.max_length, design.units)} is shorter than resonator {label} ({note}) needs{why}: {format_length(length, design.units)}; "
+        f"give max_length of at least that (up to {MAX_LENGTH_RANGE[1]:g} m), a wider bore, or a folded tube",
+        notices.UNREACHABLE)

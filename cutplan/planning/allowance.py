@@ -6,6 +6,7 @@ from __future__ import annotations
 import numpy as np
 
 from cutplan.design import DEFAULT_SHARP_RISK
+from cutplan.design.notices import SHARP_RISK, Notice, allowance_key
 from cutplan.planning import uncertainty
 from cutplan.units import format_length
 
@@ -36,10 +37,12 @@ SHARP_RISK_WARNING = 0.10
 """Chance of coming out sharp above which a fixed allowance gets a warning [-]."""
 
 
-def risk_warning(risk):
+def risk_warning(risk, spec):
+    """[Notice] when a fixed allowance leaves more than SHARP_RISK_WARNING chance of a sharp
+    piece (keyed by the allowance the set ``spec`` is cut with); [] otherwise."""
     if risk > SHARP_RISK_WARNING:
-        return [f"the fixed allowance leaves a {risk * 100:.0f} % chance of cutting this piece too short; "
-                'allowance = "risk 5 %" sizes it from the material spreads']
+        return [Notice(SHARP_RISK, allowance_key(spec), f"the fixed allowance leaves a {risk * 100:.0f} % chance of cutting this piece too short; "
+                'allowance = "risk 5 %" sizes it from the material spreads')]
     return []
 
 

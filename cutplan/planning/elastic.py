@@ -12,6 +12,7 @@ import math
 import numpy as np
 
 from cutplan import pitch
+from cutplan.design.notices import set_key
 from cutplan.physics import beam
 from cutplan.physics.undercut2d import design_undercut_2d, trimmed_profile
 from cutplan.planning import uncertainty
@@ -91,7 +92,7 @@ def plan_undercut_set_2d(spec, design, stock, progress=None):
             mass=mat.density * _volume(stations, sec.width), partials_hz=tuple(partials),
             partial_notes=partial_notes(partials, design.a4), cents_per_mm=per_mm, model="elastic-2d",
             shear_correction_cents=_against_slender(f0, r.length, sec, plane, ei, mu, stations),
-            warnings=tuple(risk_warning(risk) + stubby_bar_warnings(r.length, sec.thickness)), fundamental_hz=f0, allowance_uncalibrated=a_uncal,
+            warnings=tuple(risk_warning(risk, spec) + stubby_bar_warnings(r.length, sec.thickness, set_key(spec, "section"))), fundamental_hz=f0, allowance_uncalibrated=a_uncal,
             allowance_calibrated=a_cal, sharp_risk=risk, arch=arch))
     return pieces
 
@@ -140,8 +141,7 @@ def plan_uniform_set_2d(spec, design, stock):
             predicted_hz=f0, length=length, cut_length=cut_length, nodes=tuple(modes.nodes[0]),
             mass=mat.density * sec.area * length, partials_hz=tuple(partials),
             partial_notes=partial_notes(partials, design.a4), cents_per_mm=per_mm, model="elastic-2d",
-            shear_correction_cents=_against_slender(f0, length, sec, plane, ei, mu),
-            warnings=tuple(risk_warning(risk) + stubby_bar_warnings(length, sec.thickness)),
+            shear_correction_cents=_against_slender(f0, length, sec, plane, ei, mu), warnings=tuple(risk_warning(risk, spec) + stubby_bar_warnings(length, sec.thickness, set_key(spec, "section"))),
             fundamental_hz=f0, allowance_uncalibrated=a_uncal, allowance_calibrated=a_cal, sharp_risk=risk))
     return pieces
 

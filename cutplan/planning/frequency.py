@@ -6,6 +6,7 @@ from __future__ import annotations
 import numpy as np
 
 from cutplan import pitch
+from cutplan.design.notices import STUBBY, Notice
 from cutplan.physics import air_column, beam, timoshenko
 from cutplan.planning import air_calibrated as air_stock
 
@@ -19,12 +20,13 @@ STUBBY_RATIO = 8.0
 """Length-to-depth ratio under which a bar's model is flagged as approximate [-] (common practice)."""
 
 
-def stubby_bar_warnings(length, thickness):
-    """The warning for an arched or 2-D-modelled bar shorter than :data:`STUBBY_RATIO` x its
-    thickness (a list: empty or one message)."""
+def stubby_bar_warnings(length, thickness, key=None):
+    """The warning for a bar shorter than :data:`STUBBY_RATIO` x its thickness, keyed by the
+    design key ``key`` of its section (a list: empty or one :class:`Notice`)."""
     if length / thickness >= STUBBY_RATIO:
         return []
-    return [f"stubby bar: length is {length / thickness:.1f} x its thickness; cut a test bar and calibrate"]
+    return [Notice(STUBBY, key, f"stubby bar: length is {length / thickness:.1f} x its thickness; cut a test bar and "
+                   "calibrate")]
 
 
 def partial_notes(freqs, a4):

@@ -13,6 +13,7 @@ from __future__ import annotations
 import dataclasses
 import math
 
+from cutplan.design.notices import HANG_HOLE_BEAT, Notice, set_key
 from cutplan.physics.hang_hole import hang_hole_shifts
 from cutplan.planning.records import HangHoleSplit
 
@@ -103,6 +104,6 @@ def with_hang_holes(spec, pieces, rows, units="mm"):
             out.append(p)
             continue
         text = warning(split, lambda m: drill_text(m, units))
-        warnings = tuple(p.warnings) + ((text,) if text else ())
+        warnings = tuple(p.warnings) + ((Notice(HANG_HOLE_BEAT, set_key(spec, "section"), text),) if text else ())
         out.append(dataclasses.replace(p, hang_hole=split, warnings=warnings))
     return out

@@ -8,10 +8,10 @@ hook or eye are chosen by load times a stated safety factor from ``materials/sho
 from __future__ import annotations
 
 import math
-import tomllib
 from dataclasses import dataclass
 
 from cutplan import units
+from cutplan.materials import shop_table
 from cutplan.physics.swing import GRAVITY
 
 KNOT = 0.10
@@ -135,17 +135,11 @@ class Load:
         return self.safety_factor * self.mass
 
 
-def _shop_file():
-    from cutplan.materials import packaged_dir
-
-    return packaged_dir() / "shop" / "hanging_lines.toml"
-
-
 def load_table(table=None):
-    """The line and hardware Table (``table``: the parsed TOML, read from the package when None)."""
+    """The line and hardware Table (``table``: the parsed TOML; the packaged one, read once per
+    process, when None)."""
     if table is None:
-        with open(_shop_file(), "rb") as fh:
-            table = tomllib.load(fh)
+        table = shop_table("hanging_lines.toml")
     lines = tuple(LineRow(r["what"], units.parse_length(r["diameter"]), float(r["breaking_lbf"]) * LBF,
                           r["kind"], r.get("note", "")) for r in table["line"])
     hooks = tuple(HookRow(r["what"], float(r["rated_kg"]), r["kind"]) for r in table["hook"])

@@ -16,6 +16,7 @@ from __future__ import annotations
 import dataclasses
 import math
 
+from cutplan.design.notices import MODE_BELOW_FUNDAMENTAL, MODE_NEAR_PARTIAL, Notice, set_key
 from cutplan.physics import side_modes
 
 CLEARANCE_CENTS = 30.0
@@ -114,8 +115,8 @@ def _ordinal(n):
     return _ORDINALS[n - 1] if 1 <= n <= len(_ORDINALS) else f"{n}th"
 
 
-def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2), spread_cents=None):
-    """Warnings naming each other mode below the fundamental or within ``clearance_cents`` of a
+def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2), spread_cents=None, key=None):
+    """Warnings (Notices keyed ``key``, the section that sets the modes) naming each other mode below the fundamental or within ``clearance_cents`` of a
     tuned partial (mode numbers ``tuned``), in a builder's words.
 
     ``spread_cents`` ({kind: cents}) widens the window for a mode whose place is uncertain (a bar
@@ -129,8 +130,9 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2), s
             fix = ("make the bar wider than it is thick" if kind == "sideways"
                    else "a thicker wall raises it" if kind == "ring"
                    else "a narrower bar twists higher against its note")
-            out.append(f"{kind} mode {n}: {name} is below the fundamental ({fundamental:.0f} Hz): a glancing or "
-                       f"off-centre strike can sound it; {fix}")
+            out.append(Notice(MODE_BELOW_FUNDAMENTAL, key,
+                              f"{kind} mode {n}: {name} is below the fundamental ({fundamental:.0f} Hz): a glancing "
+                              f"or off-centre strike can sound it; {fix}"))
             continue
         extra = spread_cents.get(kind, 0.0)
         for k, p in enumerate(piece.partials_hz, start=1):
@@ -151,7 +153,7 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2), s
             if extra:
                 text += (f"; sawing unknown: it may lie up to {extra:.0f} cents either side "
                          '(give grain = "flat" or "quarter")')
-            out.append(text)
+            out.append(Notice(MODE_NEAR_PARTIAL, key, text))
     return out
 
 
@@ -171,7 +173,7 @@ def with_other_modes(spec, pieces, clearance_cents=None):
             continue
         spread = _grain_spread(spec, p)
         warnings = tuple(p.warnings) + tuple(mode_warnings(p, other, clearance_cents, tuned_partials(spec, p),
-                                                           spread))
+                                                           spread, set_key(spec, "section")))
         out.append(dataclasses.replace(p, other_modes=other, warnings=warnings))
     return out
 

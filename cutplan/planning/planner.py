@@ -1,6 +1,8 @@
 """Design -> Plan: every piece's length, cut length, nodes, partials, mass and trim data.
 
-``plan(design)`` is a pure function of the validated design: no printing, no files.  Lengths
+``plan(design)`` is a pure function of the validated design and the shop tables: no printing,
+no file read per call (the packaged shop tables are read once per process, on first use, or
+passed in as ``tables``).  Lengths
 are solved with the set's model (shear-corrected Timoshenko by default, slender
 Euler-Bernoulli on request) for chimes and bars, and with the air-column formulas, the speed of
 sound at the set's temperature and the end corrections for air columns and resonators.
@@ -13,8 +15,10 @@ from dataclasses import replace
 import numpy as np
 
 from cutplan import pitch
-from cutplan.design import Design, DesignError, DesignErrors, SetSpec
+from cutplan.design import Design, DesignError, DesignErrors, SetSpec, notices
+from cutplan.design.notices import Notice, set_key, stock_key
 from cutplan.physics import beam, timoshenko
+from cutplan.physics.undercut import UndercutError
 from cutplan.planning import air_calibrated as air_stock
 from cutplan.planning import elastic as plan_elastic
 from cutplan.planning import grain, hang_holes, other_modes, thermal, uncertainty
@@ -31,6 +35,7 @@ from cutplan.planning.frequency import (
     undercut_frequency_function,
 )
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
+from cutplan.planning.shopping import shop_tables, with_shop_lists
 from cutplan.tuning import advice
 from cutplan.units import ZERO_CELSIUS, format_length
 
@@ -82,18 +87,21 @@ def _plan_beam_set(spec: SetSpec, design: Design, stock):
         length, cut = float(lengths[i]), float(cuts[i])
         warnings = []
         if length / depth < STUBBY_RATIO:
-            warnings.append(
+            warnings.append(Notice(
+                notices.STUBBY, set_key(spec, "section"),
                 f"stubby piece: length is {length / depth:.1f} x its depth; beam models are "
                 "approximate here, so cut a test piece and calibrate"
-            )
+            ))
         if model == "slender" and abs(default_cents[i]) > 5:
-            warnings.append(
+            warnings.append(Notice(
+                notices.SLENDER_MODEL, set_key(spec, "model"),
                 f"slender model: the default timoshenko model (shear, rotary inertia and its own modulus) puts "
                 f"this piece {abs(default_cents[i]):.0f} cents {'higher' if default_cents[i] > 0 else 'lower'}"
-            )
-        warnings += risk_warning(float(risks[i]))
+            ))
+        warnings += risk_warning(float(risks[i]), spec)
         if cut > COMMON_STOCK_LENGTH and not (stock and stock.lengths):
-            warnings.append(f"longer than common stock ({COMMON_STOCK_LENGTH:.2f} m / 12 ft)")
+            warnings.append(Notice(notices.LONGER_THAN_COMMON_STOCK, stock_key(spec, "lengths"),
+                                   f"longer than common stock ({COMMON_STOCK_LENGTH:.2f} m / 12 ft)"))
         row = partials[i, :PARTIAL_COUNT]
         pieces.append(
             Piece(
@@ -153,8 +161,8 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
         cut_length, a_uncal, a_cal, risk = allowances(spec, stock, f_local, r.length, t.frequency,
                                                        grain.unknown_grain_ratios(spec, ratios_uncal, r.length),
                                                        ratios_cal)
-        warnings = risk_warning(risk)
-        warnings += stubby_bar_warnings(r.length, sec.thickness)
+        warnings = risk_warning(risk, spec)
+        warnings += stubby_bar_warnings(r.length, sec.thickness, set_key(spec, "section"))
         volume = sec.width * (sec.thickness * r.length - undercut.arch_area(r.length, r.thickness, r.depth, r.arch_fraction, r.exponent))
         partials = r.frequencies[:PARTIAL_COUNT]
         pieces.append(Piece(
@@ -258,25 +266,21 @@ some hundred times that of aluminium or brass (about 1e-4) (Cremer, Heckl and Pe
 Structure-Borne Sound, 3rd ed., 2005, table of loss factors; from memory)."""
 
 
-def _hang_hole_rows():
-    """The shop table of hang-hole drills (read for each chime set)."""
-    from cutplan.planning.shopping import hang_holes as rows
-
-    return rows()
-
-
 def bars_to_solve(design: Design):
     """How many arched bars a design has (each takes a small optimisation; for progress bars)."""
     return sum(len(s.targets) for s in design.sets if s.undercut is not None)
 
 
-def plan(design: Design, progress=None, stock_override=None) -> Plan:
+def plan(design: Design, progress=None, stock_override=None, tables=None) -> Plan:
     """Plan every set of a validated design, with its cut list on the stock on hand.
 
     Raises DesignErrors for pieces that cannot be made or stock that cannot hold them.
     ``progress(n)``, if given, is called as arched bars are solved (for a progress bar);
-    ``stock_override`` (a StockSpec) lays the pieces out on other stock than the design's.
+    ``stock_override`` (a StockSpec) lays the pieces out on other stock than the design's;
+    ``tables`` (:class:`cutplan.planning.shopping.ShopTables`) are the shop tables, the packaged
+    ones (read once per process) when None.  Reads no file of its own.
     """
+    tables = tables if tables is not None else shop_tables()
     sets, errors, by_name = [], [], {}
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
@@ -292,9 +296,14 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                 else:
                     pieces = _plan_beam_set(spec, design, stock)
                 pieces = other_modes.with_other_modes(spec, pieces)
-                pieces = hang_holes.with_hang_holes(spec, pieces, _hang_hole_rows(), design.units)
+                pieces = hang_holes.with_hang_holes(spec, pieces, tables.hang_holes, design.units)
+            except UndercutError as exc:  # the arch cannot reach the ratios asked for
+                errors.append(DesignError(design.path, set_key(spec, "undercut.ratios"), list(spec.undercut.ratios),
+                                          f'cannot be reached in set "{spec.name}": {exc}', notices.UNREACHABLE))
+                continue
             except ValueError as exc:
-                errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}"))
+                errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}",
+                                          notices.CANNOT_PLAN))
                 continue
         else:
             if spec.kind == "resonator":
@@ -322,7 +331,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                         design.path, f"set[{spec.index}]", p.note,
                         f"needs {p.label} cut at {format_length(need, design.units)} with end trim at both ends, "
                         f"longer than the longest stock ({format_length(longest, design.units)}); add longer stock or "
-                        "raise the note"))
+                        "raise the note", notices.LONGER_THAN_STOCK))
         pieces = [_with_shop_facts(p, spec) for p in pieces]
         done = SetPlan(**{**summary.__dict__, "pieces": tuple(pieces),
                           "allowance_rule": allowance_rule(stock, design.units),
@@ -331,7 +340,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
             from cutplan.planning.hanging import hanging_for  # noqa: I001 (the assembly: plate, striker, sail, lines)
 
             done = SetPlan(**{**done.__dict__, "hanging": hanging_for(done, spec.hanging, spec.target_mode,
-                                                                        units=design.units)})
+                                                                        tables.lines, units=design.units)})
         by_name[spec.name] = done
         sets.append(done)
     if errors:
@@ -347,8 +356,7 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                               units=design.units)
     except stock.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
-    from cutplan.planning.shopping import with_shop_lists  # noqa: I001 (shopping list and cautions)
     return with_shop_lists(Plan(title=design.title, units=design.units, inch_denominator=design.inch_denominator,
                 paper=design.paper, a4=design.a4,
                 temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts,
-                classroom=design.classroom, copies=design.copies))
+                classroom=design.classroom, copies=design.copies), tables)

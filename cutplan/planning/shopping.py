@@ -12,11 +12,13 @@ and ``cautions.toml`` (cautions by kind, shape and material, each with where it 
 from __future__ import annotations
 
 import fnmatch
-import tomllib
+import functools
 from dataclasses import dataclass, replace
 
 from cutplan import units
 from cutplan.layout.kits import kit_label
+from cutplan.materials import shop_table
+from cutplan.planning import hanging_load
 
 PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
 """Usual hanging-plate thickness [m]: plywood or hardwood, aluminium sheet, as sold in metric and
@@ -106,20 +108,26 @@ class Plate:
     tube_mm: float = 0.0  # tube outside diameter [mm], drawn round each tube's hole
 
 
-def _shop_dir():
-    from cutplan.materials import packaged_dir
+@dataclass(frozen=True)
+class ShopTables:
+    """The packaged shop tables, parsed: hang-hole rows (:func:`hang_holes`), the line and
+    hardware Table (:func:`cutplan.planning.hanging_load.load_table`) and the caution rows."""
 
-    return packaged_dir() / "shop"
+    hang_holes: tuple
+    lines: object
+    cautions: dict
 
 
-def _read(name):
-    with open(_shop_dir() / name, "rb") as fh:
-        return tomllib.load(fh)
+@functools.cache
+def shop_tables():
+    """The packaged :class:`ShopTables`, read and parsed once per process (on first use)."""
+    return ShopTables(hang_holes(), hanging_load.load_table(), shop_table("cautions.toml"))
 
 
 def hang_holes(table=None):
-    """The hang-hole rows, smallest tube first (``table``: the parsed TOML, read when None)."""
-    table = table if table is not None else _read("hang_holes.toml")
+    """The hang-hole rows, smallest tube first (``table``: the parsed TOML; the packaged one,
+    read once per process, when None)."""
+    table = table if table is not None else shop_table("hang_holes.toml")
     return tuple(HangHole(units.parse_length(r["max_outer"]), units.parse_length(r["drill"]), r["line"], r["kind"])
                  for r in table["hole"])
 
@@ -144,7 +152,7 @@ def _material_matches(row, s):
 def cautions_for(plan, table=None):
     """Cautions that apply to the plan's kinds, shapes and materials (by name, class or stock
     size), and the classroom notes for a classroom design, in table order, then codes."""
-    table = table if table is not None else _read("cautions.toml")
+    table = table if table is not None else shop_table("cautions.toml")
     out = []
     for row in table["caution"]:
         if row.get("classroom", False) and not getattr(plan, "classroom", False):
@@ -169,7 +177,7 @@ SELECTING_KEYS = ("kinds", "shapes", "materials", "classes", "stocks", "classroo
 def general_cautions(table=None):
     """The cautions that apply to every packet, whatever its pieces and materials (the rows that
     choose no sets), then codes: what a page says before there is a plan to choose by."""
-    table = table if table is not None else _read("cautions.toml")
+    table = table if table is not None else shop_table("cautions.toml")
     out = [Caution(row["text"], row.get("source", ""), row.get("where", ""), row["kind"])
            for row in table["caution"] if not any(k in row for k in SELECTING_KEYS)]
     return (*out, Caution(CODES))
@@ -300,7 +308,7 @@ def _air_items(s):
 
 def shopping_list(plan, rows=None):
     """Every Item to buy for the plan: stock first, then hanging, supports and resonator parts."""
-    rows = rows if rows is not None else hang_holes()
+    rows = rows if rows is not None else shop_tables().hang_holes
     copies = max(1, getattr(plan, "copies", 1))
     items = _stock_items(plan)
     parts = []
@@ -342,6 +350,8 @@ def _cost_items(items, copies):
     return out
 
 
-def with_shop_lists(plan):
-    """The plan with its shopping list and cautions attached."""
-    return replace(plan, shopping=shopping_list(plan), cautions=cautions_for(plan))
+def with_shop_lists(plan, tables=None):
+    """The plan with its shopping list and cautions attached (``tables``: the :class:`ShopTables`;
+    the packaged ones when None)."""
+    tables = tables if tables is not None else shop_tables()
+    return replace(plan, shopping=shopping_list(plan, tables.hang_holes), cautions=cautions_for(plan, tables.cautions))

@@ -47,7 +47,8 @@ def piece_dict(p):
         "trim_end": p.trim_end,
         "if_sharp": p.if_sharp,
         "sharp_risk": _r(p.sharp_risk, 3),
-        "warnings": list(p.warnings),
+        "warnings": [w.message for w in p.warnings],
+        "warning_records": [w.as_dict() for w in p.warnings],
     }
     if p.strike_note_hz is not None:
         out["fundamental_hz"] = _r(p.fundamental_hz, 3)
@@ -191,7 +192,7 @@ def render_csv(plan):
             nodes[0][0], nodes[1][0], nodes[0][1], nodes[1][1],
             "" if p.mass is None else f"{p.mass * 1000:.1f}", f"{p.cents_per_mm:.2f}",
             *[f"{f:.1f}" for f in p.partials_hz[1:4]], p.model, f"{p.shear_correction_cents:.2f}",
-            "; ".join(p.warnings),
+            "; ".join(w.message for w in p.warnings),
             "; ".join(f"{t - ZERO_CELSIUS:.0f} C: {d / MM:.1f}" for t, d in p.stopper),
         ])
     return buf.getvalue()

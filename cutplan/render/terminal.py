@@ -103,7 +103,7 @@ def render_table(plan):
                            f"{format_length(hi[1], units, den)} at {hi[0] - ZERO_CELSIUS:.0f} C"))
         for p in s.pieces:
             for w in p.warnings:
-                out.extend(_wrapped(f"! {p.label}: {w}"))
+                out.extend(_wrapped(f"! {p.label}: {w.message}"))
         if getattr(s, "hanging", None) is not None:
             out.append("  hanging:")
             for line in hanging_lines(s.hanging, units, den):

@@ -19,6 +19,7 @@ piece on such a reading.
 
 from __future__ import annotations
 
+import json
 import math
 from dataclasses import dataclass, field
 
@@ -197,6 +198,83 @@ def trim_report(design, plan, label, measured_hz, confidence=1.0, from_recording
 
         return arched_report(design, plan, piece, spec, partials, confidence, questions, length_now, state, done)
     return _plain_report(plan, piece, spec, partials, confidence, questions, length_now)
+
+
+MAX_STATE_BYTES = 200_000
+"""Largest rounds mapping accepted from a file or from the page [bytes] (a bar's rounds are a few kB)."""
+KEYS = {"piece": "piece", "measured": "measured", "recording": "recording", "length_now": "length_now",
+        "state": "state"}
+"""The names a front end's inputs go by in :class:`TrimError` (the page: these; the command line
+gives its options)."""
+
+
+@dataclass(frozen=True)
+class TrimReading:
+    """What a reading gave: the report, the partials taken as modes 1, 2, ..., every partial
+    heard (a recording's peaks, or the tuner's values) and the confidence."""
+
+    report: TrimReport
+    partials: tuple
+    heard: tuple
+    confidence: float
+
+
+def parse_state(text, where="state", key="state"):
+    """The rounds mapping from JSON text ('' or None: no rounds yet), size-checked and checked
+    for its format, or :class:`TrimError`."""
+    text = str(text or "").strip()
+    if not text:
+        return None
+    if len(text.encode("utf-8")) > MAX_STATE_BYTES:
+        raise TrimError(key, f"{where}: the rounds are over {MAX_STATE_BYTES} bytes; move them away (or start "
+                             "the rounds afresh)")
+    try:
+        state = json.loads(text)
+    except (json.JSONDecodeError, RecursionError):
+        raise TrimError(key, f"{where}: not a {STATE_FORMAT} file (not readable JSON); move it away to start the "
+                             "rounds afresh") from None
+    return check_state(state, where)
+
+
+def trim_reading(design, plan, label, measured="", recording=None, length_now="", state="", done=False,
+                 keys=None, state_where="state"):
+    """The one trim service both front ends call: every check, then :func:`trim_report`.
+
+    ``measured``: a tuner reading as text ("583.1" or a bar's "349.1, 1398.6"); ``recording``: a
+    callable giving ``(samples, rate)`` of a WAV recording (give exactly one of the two);
+    ``length_now``: text (default: the cut length, or the length after the rounds); ``state``:
+    the rounds as JSON text (undercut bars only; ``state_where`` names it in errors); ``done``:
+    the last advice was made.  ``keys`` renames the inputs in errors (see :data:`KEYS`).
+    Returns a :class:`TrimReading`; raises :class:`TrimError` (key and one line) for bad input.
+    """
+    from cutplan.audio.analysis import measure
+    from cutplan.audio.wav import RecordingError
+
+    keys = {**KEYS, **(keys or {})}
+    measured = str(measured or "").strip()
+    if bool(measured) == (recording is not None):
+        raise TrimError(keys["measured"], "give a tuner reading or a recording (one of them)")
+    try:
+        piece, spec = find_piece(design, plan, label)
+    except TrimError as exc:
+        raise TrimError(keys["piece"], str(exc)) from None
+    text_now = str(length_now or "").strip()
+    now = parse_length_now(text_now, piece, plan.units, keys["length_now"]) if text_now else None
+    if recording is not None:
+        kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
+        try:
+            samples, rate = recording()
+            m = measure(samples, rate, kind, piece.target_hz, list(piece.partial_ratios))
+        except RecordingError as exc:
+            raise TrimError(keys["recording"], str(exc)) from None
+        partials, confidence = recorded_partials(m, piece)
+        heard = tuple(m.partials_hz)
+    else:
+        partials, confidence = parse_measured(measured, keys["measured"]), 1.0
+        heard = partials
+    rounds = parse_state(state, state_where, keys["state"]) if piece.arch is not None else None
+    report = trim_report(design, plan, label, partials, confidence, recording is not None, now, rounds, done)
+    return TrimReading(report, tuple(partials), tuple(heard), confidence)
 
 
 def _plain_report(plan, piece, spec, partials, confidence, questions, length_now):

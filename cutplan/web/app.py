@@ -144,7 +144,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
         warnings, preview = {}, None
         if plan_pair is not None:
             design, the_plan = plan_pair
-            warnings = view.place_warnings(the_plan, design)
+            warnings = view.place_warnings(the_plan, design, slots)
             preview = view.preview(the_plan, design, fields.get("units") or None)
         html = render_template("page.html", f=fields, n_sets=webform.set_count(fields), errors=placed,
                                warnings=warnings, preview=preview, choices=choices, trim=trim, notes=notes)
@@ -268,7 +268,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
             board.finish(job)
         pv = view.preview(the_plan, design, fields.get("units") or None)
         html = render_template("_preview.html", preview=pv, f=fields, choices=choices, trim=None)
-        return jsonify(ok=True, html=html, errors={}, warnings=view.place_warnings(the_plan, design),
+        return jsonify(ok=True, html=html, errors={}, warnings=view.place_warnings(the_plan, design, _slots(fields)),
                        labels=pv["labels"], sets=pv["set_names"])
 
     @app.post("/packet.zip")

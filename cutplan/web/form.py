@@ -109,6 +109,8 @@ SET_EXTRAS = (
     SetField("grain", "Sawing", ("bar",), options=(("flat", "flat-sawn"), ("quarter", "quarter-sawn"),
                                                    ("unknown", "unknown")),
              blank="(default: unknown; wood bars)"),
+    SetField("mode_clearance", "Side-mode window [cents]", BEAMS, hint="another mode this near a tuned partial "
+             "is flagged", placeholder="30", read=_number_or_text),
     SetField("target", "Tune", BEAMS, options=(("fundamental", "the lowest mode"), ("strike-note", "the strike note")),
              blank="(default: the lowest mode)"),
     SetField("ends", "Ends", ("air-column",), options=(("open-open", "open at both ends"),
@@ -125,7 +127,8 @@ SET_EXTRAS = (
     SetField("humidity", "Humidity [%]", AIR, "air", placeholder="50", read=_number_or_text),
     SetField("end_correction", "End correction", AIR, "air", 'per open end: "unflanged", "flanged", "none" '
              "or a factor of the bore radius", placeholder="unflanged", read=_number_or_text),
-    SetField("max_length", "Longest tube", AIR, "air", "a resonator longer than this is flagged", placeholder="1.2 m"),
+    SetField("max_length", "Longest tube", AIR, "air", "a resonator that would be longer than this is refused",
+             placeholder="1.2 m"),
     SetField("temperature_range", "Temperature range", ("resonator",), "air",
              'for the stopper travel, e.g. "12 C to 28 C"', read=_two_texts, show=_two_texts_text),
 )

@@ -13,6 +13,10 @@ import threading
 import zipfile
 from collections import OrderedDict
 
+from cutplan.design.notices import INVALID, Notice
+from cutplan.planning.planner import bars_to_solve
+from cutplan.planning.service import REFUSALS, guarded_plan, refusal_records
+
 DESIGN_NAME = "design"
 """Name that stands for the design in error lines (there is no file)."""
 MAX_DESIGN_BYTES = 1_000_000
@@ -32,23 +36,22 @@ ZIP_TIME = (1980, 1, 1, 0, 0, 0)
 
 
 class WebErrors(ValueError):
-    """Problems with a request, each ``{"key": ..., "message": ...}`` (a design key or a form field)."""
+    """Problems with a request, each ``{"code": ..., "key": ..., "message": ...}`` (the key: a
+    design key or a form field)."""
 
     def __init__(self, errors):
         self.errors = list(errors)
         super().__init__("; ".join(e["message"] for e in self.errors))
 
 
-def error(key, message):
+def error(key, message, code=INVALID):
     """One error record; the message starts with the key, as a design-file error line does."""
-    return {"key": key, "message": f"{key}: {message}"}
+    return Notice(code, key, f"{key}: {message}").as_dict()
 
 
 def design_errors(exc):
     """``DesignErrors`` -> error records (the one-line messages without the design's name)."""
-    prefix = f"{DESIGN_NAME}: "
-    return [{"key": e.key, "message": str(e)[len(prefix):] if str(e).startswith(prefix) else str(e)}
-            for e in exc.errors]
+    return [e.record().as_dict() for e in exc.errors]
 
 
 MAX_DEPTH = 12
@@ -173,14 +176,10 @@ class Planner:
             raise WebErrors([error("(materials)", str(exc))]) from None
 
     def compute(self, data, lib=None, progress=None):
-        """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers).
+        """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers);
+        planned by the one guarded plan service, as the command line and from-stock are.
 
         ``progress(done, total)``, if given, is called as the design's arched bars are solved."""
-        import cutplan
-        from cutplan.design import DesignErrors
-        from cutplan.numeric import NumericError, checked_plan
-        from cutplan.planning.planner import bars_to_solve
-
         design = self.design(data, lib)
         step = None
         total = bars_to_solve(design) if progress is not None else 0
@@ -193,11 +192,9 @@ class Planner:
 
             progress(0, total)
         try:
-            return design, checked_plan(lambda: cutplan.plan(design, progress=step), DESIGN_NAME)
-        except DesignErrors as exc:
-            raise WebErrors(design_errors(exc)) from None
-        except NumericError as exc:  # an absurd or overflowing result: the design's numbers are to blame
-            raise WebErrors([error("(design)", str(exc).removeprefix(f"{DESIGN_NAME}: "))]) from None
+            return design, guarded_plan(design, DESIGN_NAME, progress=step)
+        except REFUSALS as exc:  # numbers that overflow or give an absurd piece: the design's are to blame
+            raise WebErrors([r.as_dict() for r in refusal_records(exc, DESIGN_NAME)]) from None
 
     def _in_worker(self, data, lib, gone=None, progress=None):
         from cutplan.web.workers import Stopped, WorkerPool

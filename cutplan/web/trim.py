@@ -1,6 +1,6 @@
 """Trim at the bench on the page: a tuner reading or a recording of one piece -> the trim answer.
 
-The page is one more front end of :mod:`cutplan.tuning.trim_service`, the service the ``trim``
+The page is one more front end of :mod:`cutplan.tuning.trim_service` (:func:`trim_reading`), the service the ``trim``
 command calls: the same checks, messages and fields, and the same lines word for word.  A
 recording is read from memory, or from a private temporary folder under a fixed name: nothing
 from the request becomes a file path.  The rounds of an undercut bar travel with the page (the
@@ -44,33 +44,16 @@ class TrimAnswer:
                 "drawing": self.drawing, "state": self.state}
 
 
-def _recording(recording, kind, piece):
-    """The measurement of a WAV recording given as bytes, via a private temporary folder."""
-    from cutplan.audio.analysis import measure
-    from cutplan.audio.wav import RecordingError, read_wav
+def _samples(recording):
+    """(samples, rate) of a WAV recording given as bytes, read via a private temporary folder
+    (raises RecordingError, which the trim service turns into a one-line error)."""
+    from cutplan.audio.wav import read_wav
 
     with tempfile.TemporaryDirectory(prefix="cutplan-trim-") as folder:
         path = os.path.join(folder, "recording.wav")
         with open(path, "wb") as fh:
             fh.write(recording)
-        try:
-            samples, rate = read_wav(path)
-            return measure(samples, rate, kind, piece.target_hz, list(piece.partial_ratios))
-        except RecordingError as exc:
-            raise WebErrors([error("trim.recording", str(exc))]) from None
-
-
-def _state(text):
-    text = str(text or "").strip()
-    if not text:
-        return None
-    if len(text) > MAX_STATE_BYTES:
-        raise WebErrors([error("trim.measured", "the rounds sent back are too large; start the rounds afresh")])
-    try:
-        return json.loads(text)
-    except json.JSONDecodeError:
-        raise WebErrors([error("trim.measured", "the rounds sent back are not readable; start the rounds afresh")]) \
-            from None
+        return read_wav(path)
 
 
 def trim_answer(design, plan, label, measured="", recording=b"", length_now="", state="", done=False):
@@ -82,26 +65,15 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now="", 
     """
     from cutplan import pitch
     from cutplan.render.trim_drawing import trim_drawing
-    from cutplan.tuning import TrimError, parse_length_now, parse_measured, trim_report
-    from cutplan.tuning.trim_service import find_piece, recorded_partials
+    from cutplan.tuning import TrimError
+    from cutplan.tuning.trim_service import trim_reading
 
-    measured = str(measured or "").strip()
-    try:
-        piece, spec = find_piece(design, plan, label)
-        if bool(measured) == bool(recording):
-            raise TrimError("measured", "give a tuner reading or a recording (one of them)")
-        now = parse_length_now(length_now, piece, plan.units) if str(length_now or "").strip() else None
-        if recording:
-            kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
-            m = _recording(recording, kind, piece)
-            partials, confidence, found = *recorded_partials(m, piece), tuple(m.partials_hz)
-        else:
-            partials, confidence = parse_measured(measured), 1.0
-            found = partials
-        report = trim_report(design, plan, label, partials, confidence, bool(recording), now,
-                             _state(state) if piece.arch is not None else None, bool(done))
+    try:  # the one trim service, with the command line's checks
+        reading = trim_reading(design, plan, label, measured, (lambda: _samples(recording)) if recording else None,
+                               length_now, state, bool(done), state_where="the rounds sent back")
     except TrimError as exc:
         raise WebErrors([error(f"trim.{exc.key}", str(exc))]) from None
+    report, partials, confidence, found = reading.report, reading.partials, reading.confidence, reading.heard
     hz = partials[0]
     name, off = pitch.nearest_note(hz, plan.a4)
     lines = [f"measured {hz:.2f} Hz = {name} {off:+.1f} cents"

@@ -2,14 +2,17 @@
 
 Lengths are :class:`cutplan.units.LengthParts` in the chosen units first, inches to the plan's
 fraction (``inch_denominator``); the templates show them whole or part by part.
-Errors land beside the field whose name is the longest prefix of their key; warnings beside
-the field they concern (the allowance, the stock, the section or the notes of their set).
+Errors and warnings are records (code, design key, message) and land beside the field whose
+name is the longest prefix of their key (a warning with no key: beside its set's notes); an error
+keyed by a whole set goes by its code to the group of fields it concerns (the pitches or the
+stock). The words of a message never decide where it goes.
 """
 
 from __future__ import annotations
 
 import re
 
+from cutplan.design import notices
 from cutplan.render.stock_layout import cut_list_view
 from cutplan.units import INCH_DENOMINATOR, ZERO_CELSIUS, length_parts
 
@@ -32,7 +35,7 @@ def piece_rows(set_plan, units, den=INCH_DENOMINATOR):
             "partials": " ".join(f"{f:.0f}" for f in p.partials_hz[1:]),
             "mass": "" if p.mass is None else f"{p.mass * 1000:.0f} g",
             "stopper": [f"{t - ZERO_CELSIUS:.0f} C: {_len(d, units)}" for t, d in p.stopper],
-            "warnings": list(p.warnings),
+            "warnings": [w.message for w in p.warnings],
         })
     return rows
 
@@ -61,23 +64,24 @@ def slot_for(key, slots):
     return "form"
 
 
-def _set_error_slot(key, message, slots, own_stock):
-    """Errors keyed by a whole set that concern one group of its fields: the pitches or the stock."""
-    if "needs exactly one of: notes" in message and f"{key}.pitch" in slots:
+def _set_error_slot(key, code, slots, own_stock):
+    """Errors keyed by a whole set that concern one group of its fields, by their code: the
+    pitches or the stock."""
+    if code in (notices.PITCH_CHOICE, notices.UNREACHABLE) and f"{key}.pitch" in slots:
         return f"{key}.pitch"
-    if "longest stock" in message:
+    if code == notices.LONGER_THAN_STOCK:
         return f"{key}.stock.lengths" if key in own_stock else "stock.lengths"
     return None
 
 
 def place_errors(errors, slots, own_stock=()):
-    """{slot: [message, ...]} for error records ``{"key", "message"}``; ``own_stock`` names the
-    sets ("set[2]") that have their own stock fields."""
+    """{slot: [message, ...]} for error records ``{"code", "key", "message"}``; ``own_stock``
+    names the sets ("set[2]") that have their own stock fields."""
     out = {}
     for e in errors:
         slot = slot_for(e["key"], slots)
         if re.fullmatch(r"set\[\d+\]", e["key"]):
-            slot = _set_error_slot(e["key"], e["message"], slots, own_stock) or slot
+            slot = _set_error_slot(e["key"], e.get("code"), slots, own_stock) or slot
         out.setdefault(slot, []).append(_spoken(e["key"], e["message"], slot))
     return out
 
@@ -94,30 +98,31 @@ def _spoken(key, message, slot):
     return message if label is None else label + message[len(key):]
 
 
-def _warning_slot(text, index, own_stock):
-    stock = f"set[{index}].stock" if own_stock else "stock"
-    if "allowance" in text:
-        return f"{stock}.allowance"
-    if "longer than common stock" in text:
-        return f"{stock}.lengths"
-    if text.startswith(("stubby", "short column", "wide bore")):
-        return f"set[{index}].section"
+def _warning_slot(notice, index, slots):
+    """The slot of a warning: the field of its key (the longest slot that is a prefix of it), or
+    its set's notes when it has no key or the page shows no field for it."""
+    if notice.key:
+        slot = slot_for(notice.key, slots) if slots is not None else notice.key
+        if slot != "form":
+            return slot
     return f"set[{index}].notes"
 
 
-def place_warnings(plan, design):
-    """{slot: [warning, ...]}: piece warnings beside the field they concern; pieces with the same
-    warning share one line ("porch-1, porch-2: ...")."""
-    index = {s.name: (s.index, s.stock is not None) for s in design.sets}
+def place_warnings(plan, design, slots=None):
+    """{slot: [warning, ...]}: piece warnings beside the field of their key (``slots``: the
+    page's message places; None takes each key as it is); pieces with the same warning share one
+    line ("porch-1, porch-2: ...")."""
+    index = {s.name: s.index for s in design.sets}
     grouped = {}
     for s in plan.sets:
-        i, own = index.get(s.name, (1, False))
+        i = index.get(s.name, 1)
         for p in s.pieces:
             for w in p.warnings:
-                grouped.setdefault(_warning_slot(w, i, own), {}).setdefault(w, []).append(p.label)
-    out = {slot: [f"{', '.join(labels)}: {w}" for w, labels in texts.items()] for slot, texts in grouped.items()}
+                grouped.setdefault(_warning_slot(w, i, slots), {}).setdefault(w, []).append(p.label)
+    out = {slot: [f"{', '.join(labels)}: {w.message}" for w, labels in texts.items()]
+           for slot, texts in grouped.items()}
     for w in plan.warnings:
-        out.setdefault("form", []).append(w)
+        out.setdefault(_warning_slot(w, 1, slots) if w.key else "form", []).append(w.message)
     return out
 
 

@@ -9,10 +9,10 @@ import math
 
 import pytest
 
-from cutplan.planning import grain
 from cutplan.materials import load_library
 from cutplan.physics import side_modes, solid3d, timoshenko, torsion, undercut
 from cutplan.physics.sections import bar
+from cutplan.planning import grain
 
 
 def cents(a, b):

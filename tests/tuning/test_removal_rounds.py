@@ -17,9 +17,9 @@ import numpy as np
 import pytest
 
 import cutplan
+from cutplan.physics.elastic2d import profile_modes
 from cutplan.physics.undercut import arch_thickness
 from cutplan.tuning import trim_report
-from cutplan.physics.elastic2d import profile_modes
 from cutplan.tuning.profile_model import elastic_constants
 
 # a bar tuned 1 : 4 : 10 (Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed., 1998,

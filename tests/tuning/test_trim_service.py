@@ -111,10 +111,10 @@ def test_bad_measured_is_one_line_and_exit_2(tmp_path):
 
 
 def test_page_and_terminal_give_the_same_removal_advice(marimba, tmp_path):
+    import tomllib
+
     from cutplan.web.app import create_app
     from cutplan.web.form import form_from_mapping
-
-    import tomllib
 
     data = tomllib.loads((EXAMPLES / "music-room-marimba.toml").read_text())
     fields = form_from_mapping(data)

@@ -146,6 +146,22 @@ def test_download_the_packet_zip(browser, server, tmp_path):
     assert any(re.fullmatch(r"templates/.+\.svg", n) for n in names)
 
 
+def test_a_warning_appears_beside_the_field_of_its_key(browser, server):
+    # a fixed 0.1 % allowance leaves a large chance of a sharp piece: the planner's warning is
+    # keyed to stock.allowance, and the live preview puts it under that field and nowhere else
+    from selenium.webdriver.common.by import By
+
+    d = browser
+    d.get(server + "/?example=porch-chimes")
+    _set(d, "stock.allowance", "0.1 %")
+    box = '.msgs[data-slot="stock.allowance"] .msg.warning'
+    _wait(d, lambda drv: _settled(drv) and drv.find_elements(By.CSS_SELECTOR, box))
+    assert "too short" in d.find_element(By.CSS_SELECTOR, box).text
+    others = d.execute_script("return Array.from(document.querySelectorAll('.msgs .msg.warning'))"
+                              ".map(function (m) { return m.closest('.msgs').dataset.slot; });")
+    assert set(others) == {"stock.allowance"}
+
+
 def test_an_error_appears_beside_its_field(browser, server):
     from selenium.webdriver.common.by import By
 

@@ -84,8 +84,8 @@ def _warning_lines(pieces):
     """Each distinct piece warning once, with the labels it applies to."""
     seen = {}
     for p in pieces:
-        for text in p.warnings:
-            seen.setdefault(text, []).append(p.label)
+        for w in p.warnings:
+            seen.setdefault(w.message, []).append(p.label)
     return [f"{', '.join(labels)}: {text}." for text, labels in seen.items()]
 
 
