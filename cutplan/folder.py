@@ -28,6 +28,7 @@ import stat
 import tempfile
 from pathlib import Path
 
+from cutplan import folder_guard
 from cutplan.folder_guard import MANIFEST, inspect, locked, pid_alive, remove_tree
 
 _TEMP_TAG = ".cutplan-"
@@ -69,9 +70,7 @@ def _exchange(a, b):
 
 def read_manifest(folder):
     """Relative names cutplan wrote into ``folder`` last time (empty if none recorded)."""
-    from cutplan.folder_guard import read_manifest as listed
-
-    return listed(folder) or set()
+    return folder_guard.read_manifest(folder) or set()
 
 
 def _safe_relative(name):

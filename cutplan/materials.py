@@ -10,6 +10,7 @@ Nothing is read at import time; :func:`load_library` is given the folders to rea
 
 from __future__ import annotations
 
+import difflib
 import math
 import tomllib
 from dataclasses import dataclass, field, replace
@@ -17,6 +18,8 @@ from pathlib import Path
 
 from cutplan import units
 from cutplan.physics.sections import Section, tube
+from cutplan.planning.air_calibrated import AirCalibration
+from cutplan.plausibility import CLASS_RANGES
 
 SOURCE_KINDS = (
     "handbook", "standard", "paper", "datasheet", "measured", "derived", "common practice",
@@ -259,8 +262,6 @@ def material_from_table(name, table, path="(inline)", sources=None):
 def _class_of(path, name, table):
     """(class, unusual) of a material table: ``class = "metal"`` etc. (see cutplan.plausibility),
     ``unusual = true`` when values outside the class's plausible range are meant."""
-    from cutplan.plausibility import CLASS_RANGES
-
     cls = table.get("class")
     if cls is not None and cls not in CLASS_RANGES:
         raise MaterialError(path, f"{name}.class", cls, f"must be one of {', '.join(CLASS_RANGES)}")
@@ -340,8 +341,6 @@ def _parse_speed(text):
 
 def _air_calibration(path, name, row):
     """The measured speed of sound and end correction of a stock size (all three keys together)."""
-    from cutplan.planning.air_calibrated import AirCalibration
-
     missing = [k for k in _AIR_KEYS if k not in row]
     if missing:
         raise MaterialError(path, f"sizes.{name}.{missing[0]}", "", "is missing; a calibrated size gives "
@@ -416,8 +415,6 @@ def closest_names(value, choices, count=3):
     >>> closest_names("aluminium", ["aluminum-6061-t6", "aluminum-6063-t5", "maple-sugar"])
     ['aluminum-6063-t5', 'aluminum-6061-t6']
     """
-    import difflib
-
     text = str(value).strip().lower().replace("aluminium", "aluminum").replace("colour", "color")
     choices = sorted(choices)
     if text in choices:

@@ -19,6 +19,8 @@ import re
 from dataclasses import dataclass
 from fractions import Fraction
 
+from cutplan.spelling import did_you_mean, scale_names
+
 A4_FREQUENCY = 440.0
 """Standard tuning frequency [Hz]: the A above middle C. ISO 16:1975."""
 A4_MIDI = 69
@@ -82,8 +84,6 @@ SCALE_FORMS = "one of: " + ", ".join(SCALES)
 def scale_forms(text):
     """What an unknown scale name could have been, then every scale:
     'a scale name; did you mean major-pentatonic or minor-pentatonic? (one of: major, ...)'."""
-    from cutplan.spelling import did_you_mean, scale_names
-
     hint = did_you_mean(scale_names(text, SCALES))
     return f"a scale name{hint} ({SCALE_FORMS})" if hint else SCALE_FORMS
 

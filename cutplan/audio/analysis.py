@@ -17,6 +17,8 @@ from dataclasses import dataclass
 
 from cutplan.audio.partials import Partial, find_partials
 from cutplan.audio.wav import RecordingError
+from cutplan.numeric import quiet
+from cutplan.pitch import nearest_note
 
 PATTERNS = {
     # ratios of partials to the fundamental, and how far the highest listed may fall below nominal
@@ -154,8 +156,6 @@ def _fundamental(reading, partials, ratios):
 
 
 def _describe(reading, f1):
-    from cutplan.pitch import nearest_note
-
     name, off = nearest_note(f1, 440.0)
     return f"{f1:.1f} Hz ({name} {off:+.0f} cents) as {reading.pattern}"
 
@@ -230,7 +230,5 @@ def measure(samples, rate, kind="any", near=None, ratios=None):
     Numeric warnings stay inside; a recording with no tonal peak, or none near ``near`` [Hz],
     raises :class:`RecordingError`.
     """
-    from cutplan.numeric import quiet
-
     partials = quiet(find_partials, samples, rate)
     return quiet(identify, partials, kind, near, ratios)

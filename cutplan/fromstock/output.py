@@ -6,6 +6,8 @@ plan JSON.
 
 from __future__ import annotations
 
+from pathlib import Path
+
 from cutplan import pitch
 
 SET_NAMES = {"chime": "chimes", "bar": "bars", "air-column": "pipes"}
@@ -19,8 +21,6 @@ def design_mapping(base_set, stock, candidate, units="mm", a4=pitch.A4_FREQUENCY
     Extra material folders are written as absolute ``material_dirs``, so the design plans
     unchanged wherever it is saved.
     """
-    from pathlib import Path
-
     name = SET_NAMES.get(kind, "pieces")
     out = {
         "title": title or f"{candidate.count} notes of {candidate.root} {candidate.scale} from the stock on hand",

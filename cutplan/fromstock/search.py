@@ -30,11 +30,12 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+import cutplan
 from cutplan import pitch
-from cutplan.fromstock import pack as fit_pack
-from cutplan.fromstock import table as fit_table
-from cutplan.layout import optimiser
+from cutplan.design import DesignErrors
+from cutplan.fromstock import pack, table
 from cutplan.fromstock.output import SET_NAMES, design_mapping
+from cutplan.layout import optimiser
 
 SEARCH_LOW = "C1"
 """Lowest root tried when no lower limit is given (a piece this low rarely fits any stick)."""
@@ -144,7 +145,7 @@ class _Search:
         self.stats = {"pitches": 0, "sets_bounded_out": 0, "sets_first_fit": 0, "sets_exact": 0,
                       "sets_packed": 0, "table_s": 0.0, "exact_s": 0.0, "pack_s": 0.0}
         self.memo, self.layouts, self.answers, self.notes = {}, {}, {}, []
-        self.room = fit_pack.StockRoom(stock)
+        self.room = pack.StockRoom(stock)
         self.types, self.longest = self.room.types, self.room.longest
         self._build_table(base_set, top, materials_dirs)
 
@@ -162,8 +163,8 @@ class _Search:
                     keys.setdefault(self._key(r, off), self._frequency(r, off))
         self.keys = list(keys)
         freqs = np.array([keys[k] for k in self.keys])
-        lengths, cuts = fit_table.cut_length_table(freqs, base_set, top, materials_dirs)
-        short = fit_table.stubby_below(self.spec)
+        lengths, cuts = table.cut_length_table(freqs, base_set, top, materials_dirs)
+        short = table.stubby_below(self.spec)
         cuts = np.where(np.isnan(lengths) | (lengths < short), np.nan, cuts)
         self.table = dict(zip(self.keys, cuts.tolist(), strict=True))
         self.freqs = dict(zip(self.keys, freqs.tolist(), strict=True))
@@ -197,7 +198,7 @@ class _Search:
                 if self.cut_lengths(r, scale, count) is not None]
 
     def bounded_out(self, cuts):
-        """Whether a bound proves the pieces cannot fit (see :meth:`fit_pack.StockRoom.cannot_fit`)."""
+        """Whether a bound proves the pieces cannot fit (see :meth:`pack.StockRoom.cannot_fit`)."""
         return self.room.cannot_fit(cuts)
 
     def fits(self, root, scale, count):
@@ -356,8 +357,6 @@ def _window(lowest, highest):
 
 def _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, units, materials_dirs):
     """Validate the request and build the search: (_Search, scales, kind, design top keys)."""
-    import cutplan
-
     scales = tuple(dict.fromkeys(scales or ("major-pentatonic",)))
     for s in scales:
         if s not in pitch.SCALES:
@@ -437,9 +436,6 @@ def lowest_roots(base_set, stock, scales, counts, lowest=None, highest=None, a4=
 
 def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materials_dirs):
     """Plan the best candidate's design with the real planner; the first that plans is chosen."""
-    import cutplan
-    from cutplan.design import DesignErrors
-
     for k, cand in enumerate(cands):
         mapping = design_mapping(base_set, stock, cand, units, a4, temperament, title, kind, materials_dirs)
         try:

@@ -14,6 +14,10 @@ import math
 
 import numpy as np
 
+import cutplan
+from cutplan.design import DesignErrors
+from cutplan.planning.planner import STUBBY_RATIO
+
 PLAN_CHUNK = 128
 """Frequencies per set in one planning call (the design file's limit per set) [-]."""
 SETS_PER_PLAN = 3
@@ -22,9 +26,6 @@ SETS_PER_PLAN = 3
 
 def _planned_cut_lengths(base_set, top, frequencies, materials_dirs):
     """(lengths, cut lengths) [m] through ``cutplan.plan``; NaN where a pitch cannot be made."""
-    import cutplan
-    from cutplan.design import DesignErrors
-
     freqs = [float(x) for x in frequencies]
     lengths = np.full(len(freqs), np.nan)
     cuts = np.full(len(freqs), np.nan)
@@ -71,8 +72,6 @@ def cut_length_table(frequencies, base_set, top=None, materials_dirs=()):
 def stubby_below(spec):
     """Shortest length [m] the planner plans without a "stubby piece" warning (beams), or the
     shortest air column it plans without a "short column" warning; 0 when neither applies."""
-    from cutplan.planning.planner import STUBBY_RATIO
-
     if spec.kind in ("chime", "bar"):
         return STUBBY_RATIO * spec.section.depth
     if spec.kind == "air-column":

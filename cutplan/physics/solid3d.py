@@ -39,6 +39,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from cutplan.physics.blas import single_thread
+
 PRODUCT_MESH = (20, 3, 2)
 """Elements along the half-length, across the half-width and through the thickness [-]."""
 
@@ -194,7 +196,6 @@ def solve_side_modes(length, width, thickness, h, constants, density, arch_fract
     from scipy.sparse.linalg import LinearOperator, eigsh, splu
     from skfem import Basis, ElementHex2, ElementHexS2
 
-    from cutplan.physics.blas import single_thread
 
     nx, ny, nz = mesh
     half_x = _half_length_axis(length, arch_fraction, nx)

@@ -37,6 +37,8 @@ import math
 
 import numpy as np
 
+from cutplan.physics.blas import single_thread
+
 
 def torsion_constant_rectangle(width, thickness, terms=50):
     r"""Saint-Venant torsion constant J of a solid rectangle [m^4], from the exact series.
@@ -237,7 +239,6 @@ def twisting_frequencies(length, torsional_rigidity, polar_inertia, modes=3, ele
     mass[i + 1, i] += m12
     from scipy.linalg import eigh  # only here: keeps scipy off the plan path of tubes and rods
 
-    from cutplan.physics.blas import single_thread
 
     with single_thread():  # a second BLAS thread only spins against the first on a problem this small
         values = eigh(stiff, mass, eigvals_only=True, subset_by_index=[0, modes])

@@ -30,6 +30,7 @@ import numpy as np
 
 from cutplan.physics import beam_fe
 from cutplan.physics.blas import single_thread
+from cutplan.physics.timoshenko import fundamental_length
 
 ELEMENTS_END = 6
 """Elements in each solid end region [-] (0.001 cent level for a uniform bar; bench/)."""
@@ -180,8 +181,6 @@ def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, de
         When the tuning cannot be reached without leaving the centre thinner than
         ``min_thickness``.
     """
-    from cutplan.physics.timoshenko import fundamental_length
-
     ratios = tuple(ratios)
     max_depth = thickness - min_thickness
     if max_depth <= 0:

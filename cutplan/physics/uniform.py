@@ -39,7 +39,7 @@ import math
 
 import numpy as np
 
-from cutplan.physics.beam import free_free_root
+from cutplan.physics.beam import free_free_length, free_free_root
 from cutplan.physics.roots import bracketed_roots
 
 PHASE_STEP = np.pi / 16
@@ -270,8 +270,6 @@ def omegas(g, s2, modes):
 
 def _length_parameters(frequency, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia, mode=1):
     """Slender length and (Omega, g, s2) at the slender length, for target frequencies [Hz]."""
-    from cutplan.physics.beam import free_free_length
-
     target = np.atleast_1d(np.asarray(frequency, dtype=float)).ravel()
     slender = np.atleast_1d(free_free_length(target, flexural_rigidity, mass_per_length, mode=mode))
     om = np.full(target.shape, free_free_root(mode) ** 2)

@@ -5,12 +5,11 @@ from __future__ import annotations
 
 import numpy as np
 
-from cutplan.planning import air_calibrated as air_stock
-from cutplan.planning import uncertainty
-from cutplan.planning.allowance import allowances, risk_warning
 from cutplan.design import Design, DesignError, SetSpec
-from cutplan.planning.frequency import air_frequency_function, cents_per_mm, partial_notes
 from cutplan.physics import air_column
+from cutplan.planning import air_calibrated, uncertainty
+from cutplan.planning.allowance import allowances, risk_warning
+from cutplan.planning.frequency import air_frequency_function, cents_per_mm, partial_notes
 from cutplan.planning.records import PARTIAL_COUNT, Piece
 from cutplan.units import format_length
 
@@ -36,7 +35,7 @@ def stopper_settings(spec, frequency, radius, bar_drift=0.0):
         temps.append(spec.temperature)
     out = []
     for t in sorted(temps):
-        model = air_stock.column_model(spec, float(t))
+        model = air_calibrated.column_model(spec, float(t))
         model["ends"] = "closed-open"
         bar_hz = frequency * np.exp(bar_drift * (float(t) - spec.temperature))
         out.append((float(t), air_column.column_length(bar_hz, **model)))
@@ -45,10 +44,10 @@ def stopper_settings(spec, frequency, radius, bar_drift=0.0):
 
 def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
     temperature = spec.temperature
-    speed = air_stock.speed(spec)
+    speed = air_calibrated.speed(spec)
     radius = spec.section.air_radius
     closed = spec.ends == "closed-open"
-    model = air_stock.column_model(spec)
+    model = air_calibrated.column_model(spec)
     pieces, errors = [], []
     for i, t in enumerate(targets, start=1):
         length = air_column.column_length(t.frequency, **model)
@@ -79,7 +78,7 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
         cut, a_uncal, a_cal, risk = allowances(
             spec, stock, f_at, length, t.frequency,
             uncertainty.air_ratios(length, radius, factor, open_ends, temperature,
-                                   calibrated=air_stock.calibration(spec) is not None),
+                                   calibrated=air_calibrated.calibration(spec) is not None),
             uncertainty.air_ratios(length, radius, factor, open_ends, temperature, calibrated=True))
         warnings += risk_warning(risk)
         stopper = ()

@@ -5,8 +5,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from cutplan.planning import uncertainty
 from cutplan.design import DEFAULT_SHARP_RISK
+from cutplan.planning import uncertainty
 from cutplan.units import format_length
 
 

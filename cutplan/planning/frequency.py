@@ -6,8 +6,9 @@ from __future__ import annotations
 import numpy as np
 
 from cutplan import pitch
-from cutplan.planning import air_calibrated as air_stock
-from cutplan.physics import air_column, beam, timoshenko
+from cutplan.physics import air_column, beam, beam_fe, timoshenko, undercut, uniform
+from cutplan.physics.undercut2d import PlaneConstants
+from cutplan.planning import air_calibrated, grain
 
 STRIKE_NOTE_MODE = 4
 """Mode whose half sets the strike note of a tubular bell: the strike pitch is about an octave
@@ -40,8 +41,6 @@ def beam_constants(mat, sec, model):
 def beam_frequency_function(material, section, model, strike=False):
     """f(L) [Hz] of the mode a chime or bar is tuned by (mode 1, or half of mode 4 for the strike
     note), for this material, section and model."""
-    from cutplan.physics import uniform
-
     ei, mu, kga, rho_i = beam_constants(material, section, model)
     n = STRIKE_NOTE_MODE if strike else 1
     scale = 0.5 if strike else 1.0
@@ -73,7 +72,7 @@ def beam_frequency_function(material, section, model, strike=False):
 
 def air_frequency_function(spec):
     """f(L) [Hz] of an air-column or resonator set's fundamental at its temperature."""
-    model = air_stock.column_model(spec)
+    model = air_calibrated.column_model(spec)
     return lambda x: float(air_column.column_frequency(x, **model))
 
 
@@ -86,9 +85,6 @@ def plane_constants(mat, sawing="unknown"):
     inline G is taken as that plane's G); otherwise E across is the record's ``modulus_across``
     where it has one, else E along, and G the material's shear modulus.
     """
-    from cutplan.planning import grain
-    from cutplan.physics.undercut2d import PlaneConstants
-
     e = mat.modulus_for("elastic-2d")
     if grain.is_orthotropic(mat):
         thick = grain.bending_plane_constants(mat, sawing, "elastic-2d")[0]
@@ -105,8 +101,6 @@ def undercut_frequency_function(spec, arch, length=None):
     same off each end, as a builder trims; without it the arch scales with L (depth and shape
     kept), as in the design search.
     """
-    from cutplan.physics import beam_fe, undercut
-
     mat, sec = spec.material, spec.section
     e, g = mat.modulus_for("timoshenko"), mat.shear_modulus_for("timoshenko")
     kappa = sec.shear_coefficient(mat.poisson)
@@ -151,6 +145,4 @@ def piece_frequency_function(spec, piece):
 
 def mode_length(frequency, mode, ei, mu, kga, rho_i):
     """Timoshenko length whose mode ``mode`` sounds ``frequency`` (closed-form determinant)."""
-    from cutplan.physics import uniform
-
     return float(uniform.mode_lengths(frequency, mode, ei, mu, kga, rho_i)[0])

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import dataclasses
 import math
+from fractions import Fraction
 
 from cutplan.physics.hang_hole import hang_hole_shifts
 from cutplan.planning.records import HangHoleSplit
@@ -66,8 +67,6 @@ def drill_text(drill, units="mm"):
     >>> drill_text(0.0254 * 11 / 64, "in")
     '11/64 in (4.37 mm)'
     """
-    from fractions import Fraction
-
     frac = Fraction(round(drill / 0.0254 * 64), 64)
     inch = f"{frac.numerator}/{frac.denominator} in" if frac.denominator > 1 else f"{frac.numerator} in"
     mm = f"{drill * 1000:.2f} mm"

@@ -23,9 +23,9 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from cutplan.planning import hanging_load
 from cutplan.design.hanging import HangingSpec
 from cutplan.physics import swing
+from cutplan.planning import hanging_load
 
 STRIKER_MIN_DIAMETER = (0.050, 2.5)
 """Smallest striker disc: 50 mm, and at least 2.5 tube diameters [m, -] (common practice: a

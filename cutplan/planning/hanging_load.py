@@ -12,6 +12,7 @@ import tomllib
 from dataclasses import dataclass
 
 from cutplan import units
+from cutplan.materials import packaged_dir
 from cutplan.physics.swing import GRAVITY
 
 KNOT = 0.10
@@ -136,8 +137,6 @@ class Load:
 
 
 def _shop_file():
-    from cutplan.materials import packaged_dir
-
     return packaged_dir() / "shop" / "hanging_lines.toml"
 
 

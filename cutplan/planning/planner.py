@@ -13,16 +13,13 @@ from dataclasses import replace
 import numpy as np
 
 from cutplan import pitch
-from cutplan.tuning import advice
-from cutplan.planning import air_calibrated as air_stock
-from cutplan.planning import grain
-from cutplan.planning import hang_holes
-from cutplan.planning import other_modes
-from cutplan.planning import elastic as plan_elastic
-from cutplan.planning import thermal
-from cutplan.planning import uncertainty
-from cutplan.planning.allowance import allowance_rule, allowances, risk_warning
 from cutplan.design import Design, DesignError, DesignErrors, SetSpec
+from cutplan.layout import cutlist, optimiser
+from cutplan.layout.kits import kit_sets
+from cutplan.physics import beam, timoshenko, undercut, uniform
+from cutplan.planning import air_calibrated, elastic, grain, hang_holes, other_modes, shopping, thermal, uncertainty
+from cutplan.planning.air import plan_air_set
+from cutplan.planning.allowance import allowance_rule, allowances, risk_warning
 from cutplan.planning.frequency import (
     STRIKE_NOTE_MODE,
     beam_constants,
@@ -31,9 +28,10 @@ from cutplan.planning.frequency import (
     partial_notes,
     undercut_frequency_function,
 )
-from cutplan.physics import beam, timoshenko
-from cutplan.planning.air import plan_air_set
+from cutplan.planning.hanging import hanging_for
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
+from cutplan.planning.shopping import with_shop_lists
+from cutplan.tuning import advice
 from cutplan.units import format_length
 
 __all__ = ["Arch", "Piece", "Plan", "SetPlan", "bars_to_solve", "plan"]
@@ -47,8 +45,6 @@ STUBBY_RATIO = 8.0
 
 
 def _plan_beam_set(spec: SetSpec, design: Design, stock):
-    from cutplan.physics import uniform
-
     model = spec.model
     strike = spec.target_mode == "strike-note"
     f_at = beam_frequency_function(spec.material, spec.section, model, strike)
@@ -119,8 +115,6 @@ def _plan_beam_set(spec: SetSpec, design: Design, stock):
 
 def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
     """Arched bars: solve each bar's length and arch, then its nodes, partials and allowances."""
-    from cutplan.physics import undercut
-
     mat, sec, cut = spec.material, spec.section, spec.undercut
     e, g = mat.modulus_for("timoshenko"), mat.shear_modulus_for("timoshenko")
     kappa = sec.shear_coefficient(mat.poisson)
@@ -179,8 +173,6 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
 def _with_shop_facts(piece, spec):
     """The piece with the shop facts every output states: strike note, trim end, what to do if
     it comes out sharp."""
-    from dataclasses import replace
-
     strike = None
     if piece.kind == "chime" and len(piece.partials_hz) >= STRIKE_NOTE_MODE:
         strike = piece.partials_hz[STRIKE_NOTE_MODE - 1] / 2
@@ -193,8 +185,8 @@ def _with_shop_facts(piece, spec):
 def _set_summary(spec: SetSpec, units="mm"):
     assumptions, constants = [], ()
     if spec.kind in ("air-column", "resonator"):
-        speed = air_stock.speed(spec)
-        hum = (f"{air_stock.humidity(spec):.0f} % RH" + (" (assumed; give humidity to change it)"
+        speed = air_calibrated.speed(spec)
+        hum = (f"{air_calibrated.humidity(spec):.0f} % RH" + (" (assumed; give humidity to change it)"
                                                          if spec.humidity is None else ""))
         assumptions.append(f"air at {spec.temperature - 273.15:.1f} C, {hum}: speed of sound {speed:.2f} m/s "
                            "in free air (Cramer 1993)")
@@ -203,10 +195,10 @@ def _set_summary(spec: SetSpec, units="mm"):
                      else f"{corr}, falling with ka (Levine & Schwinger 1948 curve)" if corr != "none" else corr)
         assumptions.append(f"{spec.ends} column, end correction {corr_text} per open end, "
                            f"bore {format_length(spec.section.air_radius * 2, units)}")
-        if air_stock.wall_losses(spec):
+        if air_calibrated.wall_losses(spec):
             assumptions.append("wall losses: viscous and thermal boundary layers slow sound in the pipe by "
                                "about 1.6e-3 / (a sqrt f) (Kirchhoff; Keefe 1984), each note at its own frequency")
-        assumptions += air_stock.assumptions(spec)
+        assumptions += air_calibrated.assumptions(spec)
         if spec.temperature_range is not None:
             lo, hi = spec.temperature_range
             assumptions.append(f"stopper travel covers {lo - 273.15:.0f} C to {hi - 273.15:.0f} C")
@@ -228,7 +220,7 @@ def _set_summary(spec: SetSpec, units="mm"):
                             "slender": "slender (Euler-Bernoulli) free-free beam",
                             "elastic-2d": "2-D elastic body through the thickness (plane stress, quadratic finite "
                                           "elements), free-free"}[model])
-        constants = plan_elastic.elastic_constants(spec)
+        constants = elastic.elastic_constants(spec)
         if model == "elastic-2d":
             across = dict(constants)["modulus_across"]
             assumptions.append(f"E across the bar {across / 1e9:.2f} GPa"
@@ -266,9 +258,7 @@ Structure-Borne Sound, 3rd ed., 2005, table of loss factors; from memory)."""
 
 def _hang_hole_rows():
     """The shop table of hang-hole drills (read for each chime set)."""
-    from cutplan.planning.shopping import hang_holes as rows
-
-    return rows()
+    return shopping.hang_holes()
 
 
 def bars_to_solve(design: Design):
@@ -286,13 +276,13 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
     sets, errors, by_name = [], [], {}
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
-        spec = grain.applied(air_stock.applied(spec))  # a wood bar bends with G of its sawing's plane
+        spec = grain.applied(air_calibrated.applied(spec))  # a wood bar bends with G of its sawing's plane
         stock = spec.stock or design.stock
         summary = _set_summary(spec, design.units)
         if spec.kind in ("chime", "bar"):
             try:
                 if spec.model == "elastic-2d":
-                    pieces = plan_elastic.plan_set(spec, design, stock, progress)
+                    pieces = elastic.plan_set(spec, design, stock, progress)
                 elif spec.undercut is not None:
                     pieces = _plan_undercut_set(spec, design, stock, progress)
                 else:
@@ -334,8 +324,6 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
                           "allowance_rule": allowance_rule(stock, design.units),
                           "material_class": getattr(spec.material, "material_class", None) or ""})
         if spec.kind == "chime":
-            from cutplan.planning.hanging import hanging_for  # noqa: I001 (the assembly: plate, striker, sail, lines)
-
             done = SetPlan(**{**done.__dict__, "hanging": hanging_for(done, spec.hanging, spec.target_mode,
                                                                         units=design.units)})
         by_name[spec.name] = done
@@ -344,16 +332,11 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
         raise DesignErrors(errors)
     order = {s.name: i for i, s in enumerate(design.sets)}
     sets.sort(key=lambda s: order[s.name])
-    from cutplan.layout import cutlist
-    from cutplan.layout import optimiser as stock
-    from cutplan.layout.kits import kit_sets
-
     try:
         cuts = cutlist.lay_out(kit_sets(sets, design.copies), {s.name: s for s in design.sets}, design.stock, stock_override,
                               units=design.units)
-    except stock.StockError as exc:
+    except optimiser.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
-    from cutplan.planning.shopping import with_shop_lists  # noqa: I001 (shopping list and cautions)
     return with_shop_lists(Plan(title=design.title, units=design.units, paper=design.paper, a4=design.a4,
                 temperament=design.temperament, sets=tuple(sets), design_path=design.path, cut_list=cuts,
                 classroom=design.classroom, copies=design.copies))

@@ -17,6 +17,10 @@ from dataclasses import dataclass, replace
 
 from cutplan import units
 from cutplan.layout.kits import kit_label
+from cutplan.materials import packaged_dir
+from cutplan.planning.hang_holes import BEAT_LIMIT_HZ, drill_text
+from cutplan.planning.hanging import SAIL_DROP
+from cutplan.planning.hanging_load import buy_text, mass_text
 
 PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
 """Usual hanging-plate thickness [m]: plywood or hardwood, aluminium sheet, as sold in metric and
@@ -107,8 +111,6 @@ class Plate:
 
 
 def _shop_dir():
-    from cutplan.materials import packaged_dir
-
     return packaged_dir() / "shop"
 
 
@@ -203,8 +205,6 @@ def _drill_for(s, row, shown="mm"):
     fast = [h for h in splits if h.beat_hz > h_limit() and h.largest_drill > 0]
     if not fast:
         return row.drill, "through both walls, at the hang-hole mark"
-    from cutplan.planning.hang_holes import drill_text
-
     drill = min(h.largest_drill for h in fast)
     return drill, (f"through both walls, at the hang-hole mark; {drill_text(drill, shown)}, smaller than the "
                    f"table's {drill_text(row.drill, shown)}, so the hole's two bending planes beat slower than "
@@ -213,15 +213,10 @@ def _drill_for(s, row, shown="mm"):
 
 def h_limit():
     """The beat limit of hang holes [Hz] (:data:`cutplan.planning.hang_holes.BEAT_LIMIT_HZ`)."""
-    from cutplan.planning.hang_holes import BEAT_LIMIT_HZ
-
     return BEAT_LIMIT_HZ
 
 
 def _chime_items(s, rows, shown="mm", copies=1):
-    from cutplan.planning.hanging import SAIL_DROP
-    from cutplan.planning.hanging_load import buy_text, mass_text
-
     h = s.hanging
     load = h.load
     row = hang_hole_for(s.outer, rows) if s.shape in ("tube", "rod") else None

@@ -6,6 +6,7 @@ import csv
 import io
 import json
 
+from cutplan.render.hanging import hanging_dict
 from cutplan.units import MM, inch_text, mm_text
 
 PLAN_FORMAT = "cutplan-plan/1"
@@ -102,8 +103,6 @@ def plan_dict(plan):
     }
     for entry, s in zip(out["sets"], plan.sets, strict=True):
         if getattr(s, "hanging", None) is not None:
-            from cutplan.render.hanging import hanging_dict  # noqa: I001 (chime sets only)
-
             entry["hanging"] = hanging_dict(s.hanging, plan.units)
     if plan.cut_list is not None:
         out["stock"] = cut_list_dict(plan.cut_list)

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import textwrap
 
+from cutplan.render.hanging import hanging_lines
 from cutplan.render.phrases import other_modes_text
 from cutplan.units import INCH, MM, format_length, length_cell, length_heading
 
@@ -109,8 +110,6 @@ def render_table(plan):
             for w in p.warnings:
                 out.extend(_wrapped(f"! {p.label}: {w}"))
         if getattr(s, "hanging", None) is not None:
-            from cutplan.render.hanging import hanging_lines  # noqa: I001 (chime sets only)
-
             out.append("  hanging:")
             for line in hanging_lines(s.hanging, units):
                 out.extend(_wrapped(line, "    "))
@@ -159,8 +158,6 @@ LIST_WIDTH = 100
 
 def _listed(head, text, indent=None):
     """``head`` + ``text`` in lines of at most :data:`LIST_WIDTH`, continued under the text (or ``indent``)."""
-    import textwrap
-
     pad = " " * (len(head) if indent is None else indent)
     if len(pad) > LIST_WIDTH // 2:
         pad = " " * 6

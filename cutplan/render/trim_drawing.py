@@ -9,6 +9,8 @@ from __future__ import annotations
 
 from html import escape
 
+from cutplan.units import format_length
+
 WIDTH_PX = 640.0
 """Drawing width on the page [px]; the height follows the bar's proportions (thickness x 3)."""
 
@@ -19,8 +21,6 @@ def _path(points):
 
 def trim_drawing(report, units="mm"):
     """SVG text of an undercut bar's side view with this round's cuts, or "" for other pieces."""
-    from cutplan.units import format_length
-
     if not report.profile_now:
         return ""
     xs, hs = report.profile_now

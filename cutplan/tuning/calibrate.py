@@ -21,6 +21,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from cutplan.physics.air_column import end_correction
+from cutplan.physics.roots import bracketed_roots
 from cutplan.units import format_length
 
 
@@ -175,8 +177,6 @@ def fit_air_column_choice(pieces, ends, what, speed, radius=None):
     if what == "both":
         fit = fit_air_column(pieces, ends)
     elif what == "speed":
-        from cutplan.physics.air_column import end_correction
-
         fit = fit_air_column(pieces, ends, end_correction=0.0 if radius is None else end_correction(radius))
     else:
         fit = fit_air_column(pieces, ends, speed=speed)
@@ -244,8 +244,6 @@ def _length_for(miss, length_now):
     The bracket widens from [L/1.5, 1.5 L] by factors of 1.5 until it holds the root, so any
     reading within the accepted octave gets an answer for every kind of piece.
     """
-    from cutplan.physics.roots import bracketed_roots
-
     lo, hi = length_now / 1.5, length_now * 1.5
     for _ in range(12):
         if miss(lo) >= 0 >= miss(hi):

@@ -20,11 +20,15 @@ piece on such a reading.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from cutplan.units import format_length
+from cutplan.numeric import quiet
+from cutplan.planning.frequency import piece_frequency_function
+from cutplan.render.phrases import trim_report_lines
+from cutplan.tuning.calibrate import FAR_OFF_CENTS, CalibrationError, trim_advice
+from cutplan.units import UnitError, format_length, parse_length
 
 MIN_HZ, MAX_HZ = 10.0, 30000.0
 """Readings accepted [Hz]."""
@@ -123,8 +127,6 @@ def parse_measured(text, key="measured"):
 
 def parse_length_now(text, piece, units="mm", key="length_now"):
     """The piece's length now [m] from text, within half the planned and twice the cut length."""
-    from cutplan.units import UnitError, parse_length
-
     try:
         now = parse_length(text)
     except UnitError as exc:
@@ -169,8 +171,6 @@ def tuned_targets(piece, count):
 
 def _questioned(piece, cents1, confidence, from_recording):
     """((code, text), ...) when the reading must be confirmed before any cut."""
-    from cutplan.tuning.calibrate import FAR_OFF_CENTS
-
     out = []
     if abs(cents1) > FAR_OFF_CENTS:
         out.append(("far-off", f"this reading is {abs(cents1):.0f} cents from the target: record again and check "
@@ -205,11 +205,6 @@ def trim_report(design, plan, label, measured_hz, confidence=1.0, from_recording
 
 def _plain_report(plan, piece, spec, partials, confidence, questions, length_now):
     """Uniform bars, chimes and air columns: the length to trim (and the supports for it)."""
-    from cutplan.tuning.calibrate import CalibrationError, trim_advice
-    from cutplan.planning.frequency import piece_frequency_function
-    from cutplan.numeric import quiet
-    from cutplan.render.phrases import trim_report_lines
-
     f1 = partials[0].measured_hz
     try:
         advice = quiet(trim_advice, piece, piece_frequency_function(spec, piece), f1, length_now, plan.units)
@@ -233,12 +228,10 @@ def _plain_report(plan, piece, spec, partials, confidence, questions, length_now
         supports = tuple(sorted({round(abs(0.5 - f) * advice.length_needed, 7) for f in fractions}))
     report = TrimReport(piece.label, piece.note, action, partials, advice.length_now, advice.length_needed,
                         predicted_after_hz=predicted, supports=supports, confidence=confidence, messages=questions)
-    return _with_lines(report, trim_report_lines(piece, report, advice, plan.units))
+    return with_lines(report, trim_report_lines(piece, report, advice, plan.units))
 
 
-def _with_lines(report, lines):
-    from dataclasses import replace
-
+def with_lines(report, lines):
     return replace(report, lines=tuple(lines))
 
 

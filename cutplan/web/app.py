@@ -9,6 +9,7 @@ the server read itself, and material folders come from the server's options only
 from __future__ import annotations
 
 import io
+import json
 import re
 import time
 import tomllib
@@ -16,10 +17,23 @@ from pathlib import Path
 
 from flask import Flask, Request, g, jsonify, render_template, request
 
+from cutplan import pitch
+from cutplan.render.table import plan_dict
+from cutplan.starters import CHIME
 from cutplan.web import form as webform
 from cutplan.web import view
-from cutplan.web.service import (MAX_DESIGN_BYTES, Planner, WebErrors, error, packet_pdf, packet_zip, piece_wav,
-                                 plain_problem)
+from cutplan.web.service import (
+    MAX_DESIGN_BYTES,
+    Planner,
+    WebErrors,
+    design_toml,
+    error,
+    packet_pdf,
+    packet_zip,
+    piece_wav,
+    plain_problem,
+)
+from cutplan.web.service import library as server_library
 from cutplan.web.trim import trim_answer
 
 MAX_UPLOAD_BYTES = 16 * 1024 * 1024
@@ -54,8 +68,6 @@ def _examples():
 
 
 def _starter():
-    from cutplan.starters import CHIME
-
     return tomllib.loads(CHIME)
 
 
@@ -63,9 +75,6 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     """The Flask application. ``materials_dirs`` are the server's extra material folders;
     ``workers`` > 0 plans in that many worker processes (stop them with ``app.planner.close()``);
     ``host``: the loopback address it is bound to (127.0.0.2, ::1), accepted as a Host header."""
-    from cutplan import pitch
-    from cutplan.web.service import library as server_library
-
     app = Flask(__name__)
     app.request_class = MemoryRequest
     app.config.update(MAX_CONTENT_LENGTH=MAX_UPLOAD_BYTES, MAX_FORM_MEMORY_SIZE=MAX_DESIGN_BYTES,
@@ -246,8 +255,6 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
 
     @app.post("/design.toml")
     def save_design():
-        from cutplan.web.service import design_toml
-
         return _form_or_errors(lambda data, pair: _attachment(design_toml(data).encode("utf-8"),
                                                               "application/toml", "design.toml"))
 
@@ -268,8 +275,6 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
 
     @app.post("/api/plan")
     def api_plan():
-        from cutplan.render.table import plan_dict
-
         try:
             data = _json_design()
             _design, the_plan = planner.plan(data, gone=_gone())
@@ -327,8 +332,6 @@ def _json_design():
 
 
 def _dumps(data):
-    import json
-
     return json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False) + "\n"  # strict JSON: never NaN or Infinity
 
 

@@ -4,6 +4,7 @@ explicit choice and gets a warning."""
 
 from __future__ import annotations
 
+import errno
 import ipaddress
 import os
 import signal
@@ -78,8 +79,6 @@ def default_workers():
 def listening_socket(host, port, any_port_if_busy=False, echo=print):
     """A bound socket on ``port``; with ``any_port_if_busy``, a free port (said in one line) when
     that one is taken, e.g. by a second ``cutplan serve``."""
-    import errno
-
     try:
         return _listening_socket(host, port)
     except OSError as exc:

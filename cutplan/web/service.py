@@ -13,6 +13,18 @@ import threading
 import zipfile
 from collections import OrderedDict
 
+import tomli_w
+
+import cutplan
+from cutplan.audio.synth import RATE, arpeggio, piece_preview
+from cutplan.audio.wav import wav_bytes
+from cutplan.design import DesignErrors, design_from_mapping
+from cutplan.materials import MaterialError, load_library
+from cutplan.numeric import NumericError, checked_plan
+from cutplan.render.packet import plan_files
+from cutplan.render.pdf import render_pdf
+from cutplan.web.workers import Stopped, WorkerPool
+
 DESIGN_NAME = "design"
 """Name that stands for the design in error lines (there is no file)."""
 MAX_DESIGN_BYTES = 1_000_000
@@ -83,8 +95,6 @@ _LIBRARY_LOCK = threading.Lock()
 def library(materials_dirs=()):
     """The material library of the server's folders, read once per process (so answers do not
     change while the server runs, and no request waits for the folders to be read again)."""
-    from cutplan.materials import load_library
-
     key = tuple(str(d) for d in materials_dirs)
     with _LIBRARY_LOCK:
         if key not in _LIBRARIES:
@@ -117,9 +127,6 @@ class Planner:
 
     def design(self, data):
         """A validated Design, or :class:`WebErrors`."""
-        from cutplan.design import DesignErrors
-        from cutplan.materials import MaterialError
-
         if not isinstance(data, dict):
             raise WebErrors([error("(design)", "must be a table (JSON object) of design keys")])
         problem = plain_problem(data)
@@ -128,8 +135,6 @@ class Planner:
         if "material_dirs" in data:
             raise WebErrors([error("material_dirs", "is not accepted from the page or the API; material "
                                    "folders are given to the server (cutplan serve --materials DIR)")])
-        from cutplan.design import design_from_mapping
-
         try:
             return design_from_mapping(data, lambda _dirs: library(self.materials_dirs), DESIGN_NAME, ".")[0]
         except DesignErrors as exc:
@@ -139,10 +144,6 @@ class Planner:
 
     def compute(self, data):
         """(Design, Plan) computed here and now, or :class:`WebErrors` (no cache, no workers)."""
-        import cutplan
-        from cutplan.design import DesignErrors
-        from cutplan.numeric import NumericError, checked_plan
-
         design = self.design(data)
         try:
             return design, checked_plan(lambda: cutplan.plan(design), DESIGN_NAME)
@@ -152,8 +153,6 @@ class Planner:
             raise WebErrors([error("(design)", str(exc).removeprefix(f"{DESIGN_NAME}: "))]) from None
 
     def _in_worker(self, data, gone=None):
-        from cutplan.web.workers import Stopped, WorkerPool
-
         with self._lock:
             if self._pool is None:
                 self._pool = WorkerPool(self.workers)
@@ -227,15 +226,11 @@ def _ordered(value, where=""):
 def design_toml(data):
     """The design as TOML text with the design file's keys, in the contract's order, so the same
     design gives the same bytes however its keys arrived (``tomllib`` reads it back equal)."""
-    import tomli_w
-
     return "# cutplan design, saved from the cutplan page\n" + tomli_w.dumps(_ordered(data))
 
 
 def packet_zip(plan, data):
     """A zip of every file ``cutplan plan -o`` writes for this plan, plus ``design.toml``."""
-    from cutplan.render.packet import plan_files
-
     files = dict(plan_files(plan))
     files["design.toml"] = design_toml(data)
     buf = io.BytesIO()
@@ -250,16 +245,11 @@ def packet_zip(plan, data):
 
 def packet_pdf(plan):
     """The shop packet PDF alone (the same bytes as ``packet.pdf`` in the zip)."""
-    from cutplan.render.pdf import render_pdf
-
     return render_pdf(plan, None)
 
 
 def piece_wav(plan, label):
     """WAV bytes of one piece ringing, or of a whole set struck in turn (``label`` = the set's name)."""
-    from cutplan.audio.synth import RATE, arpeggio, piece_preview
-    from cutplan.audio.wav import wav_bytes
-
     for s in plan.sets:
         if s.name == label:
             return wav_bytes(arpeggio(s.pieces), RATE)

@@ -14,6 +14,12 @@ import os
 import tempfile
 from dataclasses import dataclass
 
+from cutplan import pitch
+from cutplan.audio.analysis import measure
+from cutplan.audio.wav import RecordingError, read_wav
+from cutplan.render.trim_drawing import trim_drawing
+from cutplan.tuning import TrimError, parse_length_now, parse_measured, trim_report
+from cutplan.tuning.trim_service import find_piece, recorded_partials
 from cutplan.web.service import WebErrors, error
 
 MIN_HZ, MAX_HZ = 10.0, 30000.0
@@ -48,9 +54,6 @@ class TrimAnswer:
 
 def _recording(recording, kind, piece):
     """The measurement of a WAV recording given as bytes, via a private temporary folder."""
-    from cutplan.audio.analysis import measure
-    from cutplan.audio.wav import RecordingError, read_wav
-
     with tempfile.TemporaryDirectory(prefix="cutplan-trim-") as folder:
         path = os.path.join(folder, "recording.wav")
         with open(path, "wb") as fh:
@@ -82,11 +85,6 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now="", 
     ``recording`` the bytes of a WAV file (give one of them); ``length_now`` the piece's length now
     as text (default: its cut length); ``state`` the rounds the last answer returned (JSON text).
     """
-    from cutplan import pitch
-    from cutplan.render.trim_drawing import trim_drawing
-    from cutplan.tuning import TrimError, parse_length_now, parse_measured, trim_report
-    from cutplan.tuning.trim_service import find_piece, recorded_partials
-
     measured = str(measured or "").strip()
     try:
         piece, spec = find_piece(design, plan, label)

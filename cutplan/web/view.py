@@ -9,7 +9,10 @@ from __future__ import annotations
 
 import re
 
+from cutplan.render.svg import svg_files
 from cutplan.units import format_length
+from cutplan.web.chart import length_pitch_svg
+from cutplan.web.form import field_label
 
 
 def _len(metres, units):
@@ -95,8 +98,6 @@ def _spoken(key, message, slot):
     """The message with its leading design key replaced by the field's label on the page
     ("Saw kerf: ..." rather than "stock.kerf: ..."); the set is named unless the message sits
     in that set's own fields."""
-    from cutplan.web.form import field_label
-
     if not message.startswith(key + ":"):
         return message
     label = field_label(key, beside=slot.startswith(key.split(".")[0] + ".") and slot.startswith("set["))
@@ -132,9 +133,6 @@ def place_warnings(plan, design):
 
 def preview(plan, design, units=None):
     """Everything the preview shows, as display text and inline SVG."""
-    from cutplan.render.svg import svg_files
-    from cutplan.web.chart import length_pitch_svg
-
     units = units or plan.units
     templates = []
     for name, text in svg_files(plan).items():

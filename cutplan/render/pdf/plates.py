@@ -6,11 +6,11 @@ import math
 
 from reportlab.lib import colors
 
+from cutplan.planning.shopping import PLATE_HANGING, plate_material
 from cutplan.render import marks as mk
 from cutplan.render.hanging import clearance_text
 from cutplan.render.pdf.base import BOLD, FONT, SAFE, TEMPLATE_MARGIN, Placer, mm, paragraph
 from cutplan.render.pdf.rulers import RULER_TOP, RULERS_HEIGHT, rulers
-from cutplan.planning.shopping import PLATE_HANGING, plate_material
 from cutplan.units import MM, format_length
 
 

@@ -26,6 +26,7 @@ from cutplan.render.pdf.base import (
     paragraph,
     text_width,
 )
+from cutplan.render.pdf.plates import plate_pages
 from cutplan.render.pdf.rulers import RULER_TOP, RULERS_HEIGHT, rulers
 from cutplan.units import MM
 
@@ -300,8 +301,6 @@ def draw_profile(c, tile, x0, y_top, width_mm, units):
 
 def templates(packet):
     """Marking-strip and profile pages, then the chime plates and wrap guides."""
-    from cutplan.render.pdf.plates import plate_pages
-
     plan = packet.plan
     size, pages = orientation(plan, "a4" if packet.size == A4 else "letter")
     w, h = size
