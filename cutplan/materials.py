@@ -81,7 +81,7 @@ class Material:
     modulus_basis: str = "dynamic"
     modulus_spread: float = 0.03
     density_spread: float = 0.01
-    provenance: tuple = field(default=(), compare=False)
+    provenance: tuple[Provenance, ...] = field(default=(), compare=False)
     material_class: str | None = None
     unusual: bool = False
     fit_residual_cents: float | None = None
@@ -132,10 +132,10 @@ class StockSize:
 class Library:
     """Everything loaded from the material folders."""
 
-    materials: dict
-    stock: dict
-    sources: dict
-    files: tuple = ()
+    materials: dict[str, Material]
+    stock: dict[str, Section]
+    sources: dict[str, str]
+    files: tuple[str, ...] = ()
 
 
 def packaged_dir():

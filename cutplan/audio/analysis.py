@@ -73,7 +73,7 @@ class Reading:
     fundamental_hz: float
     score: float
     heard: bool
-    modes: tuple
+    modes: tuple[tuple[int, int], ...]
 
 
 @dataclass(frozen=True)
@@ -83,14 +83,14 @@ class Measurement:
     (None: not explained), the ranked readings and the warnings for the builder."""
 
     fundamental_hz: float
-    partials_hz: tuple
+    partials_hz: tuple[float, ...]
     confidence: float
     pattern: str
     fundamental_heard: bool
-    partials: tuple = ()
-    modes: tuple = ()
-    readings: tuple = ()
-    warnings: tuple = ()
+    partials: tuple[Partial, ...] = ()
+    modes: tuple[int | None, ...] = ()
+    readings: tuple[Reading, ...] = ()
+    warnings: tuple[str, ...] = ()
 
 
 def _window(ratios, drop, k):

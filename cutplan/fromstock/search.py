@@ -27,6 +27,7 @@ from __future__ import annotations
 import math
 import time
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
@@ -36,6 +37,7 @@ from cutplan.design import DesignErrors
 from cutplan.fromstock import pack, table
 from cutplan.fromstock.output import SET_NAMES, design_mapping
 from cutplan.layout import optimiser
+from cutplan.planning.records import Plan
 
 SEARCH_LOW = "C1"
 """Lowest root tried when no lower limit is given (a piece this low rarely fits any stick)."""
@@ -73,9 +75,9 @@ class Candidate:
     scale: str
     root: str
     count: int
-    notes: tuple
-    cut_lengths: tuple
-    sticks: tuple
+    notes: tuple[str, ...]
+    cut_lengths: tuple[float, ...]
+    sticks: tuple[tuple[float, tuple[tuple[str, float, float], ...], float], ...]
     proven_optimal: bool
     root_hz: float = 0.0
 
@@ -116,13 +118,13 @@ class FitResult:
     """The ranked candidates, the chosen one, its design (the design file's keys) and its Plan."""
 
     objective: str
-    candidates: tuple
+    candidates: tuple[Candidate, ...]
     chosen: Candidate
-    design: dict
-    plan: object
+    design: dict[str, Any]
+    plan: Plan
     units: str = "mm"
-    stats: dict = field(default_factory=dict)
-    notes: tuple = ()
+    stats: dict[str, Any] = field(default_factory=dict)
+    notes: tuple[str, ...] = ()
 
 
 def _sticks_of_layout(layout):

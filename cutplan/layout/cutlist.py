@@ -27,7 +27,7 @@ class PlacedStick:
     """A stick of stock with its cuts in order from the factory end, and what is left [m]."""
 
     stock_length: float
-    cuts: tuple
+    cuts: tuple[Cut, ...]
     offcut: float
     group: str = ""
     price: float | None = None
@@ -38,7 +38,7 @@ class CutGroup:
     """The layout of one group of pieces that share a section and a stock table."""
 
     group: str
-    sticks: tuple
+    sticks: tuple[PlacedStick, ...]
     lower_bound: int
     proven_optimal: bool
     method: str
@@ -54,8 +54,8 @@ class CutGroup:
 class CutList:
     """Every stick of every group; totals over the groups."""
 
-    groups: tuple
-    notes: tuple = field(default=())
+    groups: tuple[CutGroup, ...]
+    notes: tuple[str, ...] = field(default=())
 
     def __str__(self):
         """The layout in a few lines (mm), for a quick look from Python."""

@@ -132,7 +132,7 @@ class Stick:
     """One stick of stock with its cuts ((label, start [m], length [m]), ...) and offcut [m]."""
 
     stock_length: float
-    cuts: tuple
+    cuts: tuple[tuple[str, float, float], ...]
     offcut: float
     price: float | None = None
 
@@ -141,13 +141,13 @@ class Stick:
 class Layout:
     """A cut list for one group of pieces of the same section."""
 
-    sticks: tuple
+    sticks: tuple[Stick, ...]
     lower_bound: int
     proven_optimal: bool
     method: str
     cost: float | None = None
     cost_lower_bound: float | None = None
-    notes: tuple = field(default=())
+    notes: tuple[str, ...] = field(default=())
     lp_solves: int = 0
 
     @property

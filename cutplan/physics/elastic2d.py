@@ -73,10 +73,10 @@ class ProfileModes:
         Quadratic elements along and through the bar [-].
     """
 
-    frequencies: tuple
-    nodes: tuple
-    longitudinal: tuple
-    elements: tuple
+    frequencies: tuple[float, ...]
+    nodes: tuple[tuple[float, ...], ...]
+    longitudinal: tuple[float, ...]
+    elements: tuple[int, int]
 
 
 def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_modulus, poisson, density,

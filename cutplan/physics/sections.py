@@ -65,7 +65,7 @@ class Section:
     thickness: float = 0.0
     name: str = ""
     bore: float = 0.0  # the bore an air column sees [m]; defaults to ``inner``
-    air_calibration: object = None  # an air_stock.AirCalibration measured on this stock, if any
+    air_calibration: object = None  # a cutplan.planning.air_calibrated.AirCalibration measured on this stock, if any
 
     @property
     def solid_inner(self):

@@ -81,8 +81,8 @@ class Orthotropic:
 class SideModes:
     """Sideways and twisting frequencies [Hz] of one bar, each in ascending order."""
 
-    sideways: tuple
-    twisting: tuple
+    sideways: tuple[float, ...]
+    twisting: tuple[float, ...]
 
 
 def _axis(length, n):

@@ -130,11 +130,11 @@ class Undercut:
     arch_fraction: float
     exponent: float
     thickness: float
-    frequencies: tuple
-    nodes: tuple
-    ratio_residuals_cents: tuple
+    frequencies: tuple[float, ...]
+    nodes: tuple[tuple[float, ...], ...]
+    ratio_residuals_cents: tuple[float, ...]
     fundamental_residual_cents: float
-    jacobian: tuple = ()
+    jacobian: tuple[tuple[float, ...], ...] = ()
     solves: int = 0
 
     def stations(self, count=11):

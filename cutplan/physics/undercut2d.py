@@ -73,12 +73,12 @@ class Undercut2d:
     arch_fraction: float
     exponent: float
     thickness: float
-    frequencies: tuple
-    nodes: tuple
-    ratio_residuals_cents: tuple
+    frequencies: tuple[float, ...]
+    nodes: tuple[tuple[float, ...], ...]
+    ratio_residuals_cents: tuple[float, ...]
     fundamental_residual_cents: float
-    offset_cents: tuple  # 2-D minus 1-D residuals at the solution: the next bar's starting shift
-    jacobian: tuple = ()
+    offset_cents: tuple[float, ...]  # 2-D minus 1-D residuals at the solution: the next bar's starting shift
+    jacobian: tuple[tuple[float, ...], ...] = ()
     solves: int = 0
 
     def stations(self):

@@ -53,8 +53,8 @@ class HookRow:
 class Table:
     """The line and hardware table: lines and hooks weakest first, the safety factor and its source."""
 
-    lines: tuple
-    hooks: tuple
+    lines: tuple[LineRow, ...]
+    hooks: tuple[HookRow, ...]
     safety_factor: float
     safety_source: str
     safety_kind: str
@@ -67,7 +67,7 @@ class Geometry:
     radius of the plate's own three line holes."""
 
     tops_drop: float
-    hang_holes: tuple
+    hang_holes: tuple[float, ...]
     striker_height: float
     longest: float
     sail_drop: float
@@ -109,7 +109,7 @@ class Load:
 
     mass: float
     masses: Masses
-    lines: tuple
+    lines: tuple[Line, ...]
     hook: HookRow | None
     safety_factor: float
     safety_source: str

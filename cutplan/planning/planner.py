@@ -45,6 +45,7 @@ STUBBY_RATIO = 8.0
 
 
 def _plan_beam_set(spec: SetSpec, design: Design, stock):
+    assert spec.material is not None  # validated: a chime or bar set names its material
     model = spec.model
     strike = spec.target_mode == "strike-note"
     f_at = beam_frequency_function(spec.material, spec.section, model, strike)
@@ -116,6 +117,7 @@ def _plan_beam_set(spec: SetSpec, design: Design, stock):
 def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
     """Arched bars: solve each bar's length and arch, then its nodes, partials and allowances."""
     mat, sec, cut = spec.material, spec.section, spec.undercut
+    assert mat is not None and cut is not None  # validated: an arched bar set has both
     e, g = mat.modulus_for("timoshenko"), mat.shear_modulus_for("timoshenko")
     kappa = sec.shear_coefficient(mat.poisson)
     ratios_uncal = uncertainty.beam_ratios(mat, sec, spec.outer_tolerance, spec.wall_tolerance)
@@ -205,6 +207,7 @@ def _set_summary(spec: SetSpec, units="mm"):
         model = spec.ends
     else:
         mat = spec.material
+        assert mat is not None  # validated: a chime or bar set names its material
         model = spec.model
         e = mat.modulus_for(model)
         assumptions.append(
@@ -273,7 +276,8 @@ def plan(design: Design, progress=None, stock_override=None) -> Plan:
     ``progress(n)``, if given, is called as arched bars are solved (for a progress bar);
     ``stock_override`` (a StockSpec) lays the pieces out on other stock than the design's.
     """
-    sets, errors, by_name = [], [], {}
+    sets, errors = [], []
+    by_name: dict[str, SetPlan] = {}
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
         spec = grain.applied(air_calibrated.applied(spec))  # a wood bar bends with G of its sawing's plane

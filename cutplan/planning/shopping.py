@@ -103,9 +103,9 @@ class Plate:
 
     diameter_mm: float
     pitch_radius_mm: float
-    holes: tuple
+    holes: tuple[tuple[float, float, str], ...]
     hole_mm: float = 4.0
-    suspension: tuple = ()  # (x, y) [mm] of the three holes the plate hangs by
+    suspension: tuple[tuple[float, float], ...] = ()  # (x, y) [mm] of the three holes the plate hangs by
     striker_mm: float = 0.0  # striker disc diameter [mm], drawn round the centre
     tube_mm: float = 0.0  # tube outside diameter [mm], drawn round each tube's hole
 

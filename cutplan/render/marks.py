@@ -26,7 +26,7 @@ class Style:
     below (``below``) [mm].  The same table drives the PDF and the SVG."""
 
     width: float
-    dash: tuple = ()
+    dash: tuple[float, ...] = ()
     below: float = 1.0
 
 

@@ -36,8 +36,8 @@ class BeamFit:
     [cents] and the table model's prediction for each piece [Hz]."""
 
     scale: float
-    residuals_cents: tuple
-    predicted_hz: tuple
+    residuals_cents: tuple[float, ...]
+    predicted_hz: tuple[float, ...]
 
     @property
     def change_percent(self):
@@ -116,7 +116,7 @@ class AirFit:
 
     speed: float
     end_correction: float
-    residuals_cents: tuple
+    residuals_cents: tuple[float, ...]
 
 
 def fit_air_column(pieces, ends, speed=None, end_correction=None):

@@ -58,11 +58,11 @@ class ModuliFit:
     table_modulus: float
     table_shear_modulus: float
     shear: str
-    measurements: tuple
-    table_hz: tuple
-    residuals_cents: tuple
+    measurements: tuple[tuple[float, int, float], ...]
+    table_hz: tuple[float, ...]
+    residuals_cents: tuple[float, ...]
     shear_error: float = math.nan
-    notes: tuple = ()
+    notes: tuple[str, ...] = ()
 
     @property
     def scale(self):

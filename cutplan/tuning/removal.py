@@ -124,12 +124,12 @@ class RemovalAdvice:
     the profile the cuts leave (xs, hs) [m]; ``solves`` the model solves used.
     """
 
-    removal: tuple
+    removal: tuple[tuple[float, float, int, bool], ...]
     trim_each_end: float
-    predicted_after_hz: tuple
-    unreachable: tuple
-    sensitivity: tuple
-    after: tuple
+    predicted_after_hz: tuple[float, ...]
+    unreachable: tuple[int, ...]
+    sensitivity: tuple[tuple[float, ...], ...]
+    after: tuple[tuple[float, ...], tuple[float, ...]]
     solves: int
 
 

@@ -21,6 +21,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, replace
+from typing import Any
 
 import numpy as np
 
@@ -71,21 +72,21 @@ class TrimReport:
     label: str
     note: str
     action: str  # "in-tune" | "trim" | "remove" | "sharp" | "re-record"
-    partials: tuple
+    partials: tuple[Partial, ...]
     length_now: float
     length_needed: float | None
-    removal: tuple = ()  # ((x [m] from end A, depth [m], mode mostly moved, raises it), ...) in work order
+    removal: tuple[tuple[float, float, int, bool], ...] = ()  # ((x [m] from end A, depth [m], mode mostly moved, raises it), ...) in work order
     blend: float = 0.0  # each cut fades to nothing this far either side of its station [m]
     trim_each_end: float = 0.0
-    predicted_after_hz: tuple = ()
-    unreachable: tuple = ()
-    supports: tuple = ()  # distances of the supports or hang points from the centre line [m]
+    predicted_after_hz: tuple[float, ...] = ()
+    unreachable: tuple[int, ...] = ()
+    supports: tuple[float, ...] = ()  # distances of the supports or hang points from the centre line [m]
     confidence: float = 1.0
-    lines: tuple = ()
-    messages: tuple = ()  # ((code, text), ...)
-    profile_after: tuple = ()  # (xs, hs) [m] of an undercut bar after the advised cuts
-    profile_now: tuple = ()
-    state: dict = field(default=None, compare=False)
+    lines: tuple[str, ...] = ()
+    messages: tuple[tuple[str, str], ...] = ()  # ((code, text), ...)
+    profile_after: tuple[tuple[float, ...], ...] = ()  # (xs, hs) [m] of an undercut bar after the advised cuts
+    profile_now: tuple[tuple[float, ...], ...] = ()
+    state: dict[str, Any] | None = field(default=None, compare=False)
 
     def as_dict(self):
         """The JSON fields (``partials``, ``removal``, ``predicted_after_hz`` and the rest)."""
@@ -138,7 +139,7 @@ def parse_length_now(text, piece, units="mm", key="length_now"):
     return now
 
 
-def recorded_partials(measurement, piece):
+def recorded_partials(measurement, piece) -> tuple[tuple[float, ...], float]:
     """(partials 1, 2, ... [Hz] in mode order, stopping at the first one not heard, confidence)."""
     f1 = measurement.fundamental_hz
     out = [f1]

@@ -89,13 +89,13 @@ class SetField:
 
     key: str
     label: str
-    kinds: tuple
+    kinds: tuple[str, ...]
     group: str = ""
     hint: str = ""
     placeholder: str = ""
     read: Callable = str
     show: Callable = _text
-    options: tuple = ()
+    options: tuple[tuple[str, str], ...] = ()
     blank: str = ""
 
 

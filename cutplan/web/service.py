@@ -19,7 +19,7 @@ import cutplan
 from cutplan.audio.synth import RATE, arpeggio, piece_preview
 from cutplan.audio.wav import wav_bytes
 from cutplan.design import DesignErrors, design_from_mapping
-from cutplan.materials import MaterialError, load_library
+from cutplan.materials import Library, MaterialError, load_library
 from cutplan.numeric import NumericError, checked_plan
 from cutplan.render.packet import plan_files
 from cutplan.render.pdf import render_pdf
@@ -88,7 +88,7 @@ def plain_problem(value, key="(design)", depth=0):
     return None
 
 
-_LIBRARIES = {}
+_LIBRARIES: dict[tuple[str, ...], Library] = {}
 _LIBRARY_LOCK = threading.Lock()
 
 

@@ -13,6 +13,7 @@ import json
 import os
 import tempfile
 from dataclasses import dataclass
+from typing import Any
 
 from cutplan import pitch
 from cutplan.audio.analysis import measure
@@ -37,9 +38,9 @@ class TrimAnswer:
     note: str
     cents: float
     confidence: float
-    partials_hz: tuple
-    lines: tuple
-    report: dict
+    partials_hz: tuple[float, ...]
+    lines: tuple[str, ...]
+    report: dict[str, Any]
     drawing: str = ""
     state: str = ""
 
@@ -94,7 +95,7 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now="", 
         if recording:
             kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
             m = _recording(recording, kind, piece)
-            partials, confidence, found = *recorded_partials(m, piece), tuple(m.partials_hz)
+            (partials, confidence), found = recorded_partials(m, piece), tuple(m.partials_hz)
         else:
             partials, confidence = parse_measured(measured), 1.0
             found = partials

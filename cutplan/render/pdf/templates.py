@@ -12,6 +12,7 @@ from dataclasses import dataclass
 
 from reportlab.lib import colors
 
+from cutplan.planning.records import Piece
 from cutplan.render import marks as mk
 from cutplan.render.pdf.base import (
     A4,
@@ -59,13 +60,13 @@ class Tile:
     """One tile: the piece, its span along the piece [mm], sheet k of n, "strip" or "profile",
     and the label lanes it needs."""
 
-    piece: object
+    piece: Piece
     start: float
     end: float
     sheet: int
     sheets: int
     what: str
-    labels: tuple = ()  # (Mark, lane, side) for strips
+    labels: tuple[tuple[mk.Mark, int, str], ...] = ()  # (Mark, lane, side) for strips
 
     @property
     def height_mm(self):
