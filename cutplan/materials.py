@@ -150,6 +150,7 @@ def packaged_dir():
 def _read_toml(path):
     """A table file's TOML: a regular file of at most a design file's size (never a pipe, a device,
     a folder or a link loop), or MaterialError naming the file."""
+    # here, not at the top: cutplan.design imports this module (a cycle)
     from cutplan.design.contract import DesignErrors
     from cutplan.design.reader import read_bytes_checked
 

@@ -12,6 +12,9 @@ import click
 from cutplan import folder
 from cutplan.folder import FolderError, check_target, write_file_whole
 
+# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
+# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
+
 EXIT_BAD_INPUT = 2
 
 """Exit code for bad input, the code click's UsageError uses."""

@@ -9,6 +9,9 @@ import click
 from cutplan import pitch
 from cutplan.cli.common import fail
 
+# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
+# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
+
 MEASURE_KINDS = ["any", "chime", "bar", "tuned-bar", "xylophone-bar", "air-column", "open-open", "closed-open"]
 
 

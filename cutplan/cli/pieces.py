@@ -21,6 +21,9 @@ from cutplan.cli.examples import example_text
 from cutplan.starters import STARTERS
 from cutplan.units import format_length
 
+# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
+# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
+
 
 @click.command("scale")
 @click.argument("spec")

@@ -16,6 +16,9 @@ from cutplan.cli.common import (
     write_folder,
 )
 
+# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
+# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
+
 
 @click.command("plan")
 @click.argument("design", type=click.Path(dir_okay=False))

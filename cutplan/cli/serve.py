@@ -8,6 +8,9 @@ import click
 
 from cutplan.cli.common import MATERIALS_OPTION, fail
 
+# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
+# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
+
 
 @click.command("serve")
 @click.option("--port", type=click.IntRange(0, 65535), default=8750, show_default=True,

@@ -26,6 +26,9 @@ from cutplan.cli.common import (
 from cutplan.cli.measure import measure_file
 from cutplan.units import UnitError, parse_length, parse_temperature
 
+# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
+# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
+
 
 def _parse_pieces(texts, kind, near_hz=None):
     """[(length m, frequency Hz, harmonic)] from --piece "LENGTH @ FREQ-or-WAV [#N]"."""

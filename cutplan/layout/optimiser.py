@@ -332,7 +332,7 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
             raise StockError(
                 f"{it.label} ({it.length * 1000:.0f} mm) is longer than the longest stock "
                 f"({longest.length * 1000:.0f} mm) after {end_trim * 1000:.0f} mm end trim at each end")
-    from cutplan.layout.columns import cheaper_mixes, column_generation
+    from cutplan.layout.columns import cheaper_mixes, column_generation  # here: columns imports this module
 
     work = _Work(effort, time_limit, ops)
     by_cost = all(t.price is not None for t in types) and any(t.price for t in types)

@@ -37,6 +37,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+# scikit-fem and scipy.sparse are imported where used: a chime plan (0.72 s CPU) never needs them; at the top they add 0.9 s (measured)
 import numpy as np
 
 from cutplan.physics.blas import single_thread

@@ -35,6 +35,7 @@ from __future__ import annotations
 
 import math
 
+# scikit-fem and scipy.linalg are imported where used: a chime plan (0.72 s CPU) never needs them; at the top they add 0.7 s (measured)
 import numpy as np
 
 from cutplan.physics.blas import single_thread

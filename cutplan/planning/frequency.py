@@ -131,7 +131,7 @@ def piece_frequency_function(spec, piece):
     """f(L) [Hz] of the mode a planned piece is tuned by, with the plan's own model (for trimming;
     an arch stays where it is)."""
     if piece.model == "elastic-2d":
-        from cutplan.planning.elastic import profile_frequency_function
+        from cutplan.planning.elastic import profile_frequency_function  # here: elastic imports this module
 
         stations = piece.arch.outline if piece.arch is not None else ((0.0, spec.section.thickness),
                                                                      (piece.length, spec.section.thickness))

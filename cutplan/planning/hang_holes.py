@@ -88,7 +88,7 @@ def warning(split, units_text):
 def with_hang_holes(spec, pieces, rows, units="mm"):
     """The chime pieces with ``hang_hole`` filled in from the shop table ``rows`` (and a warning
     when the beat is over the limit); other pieces unchanged."""
-    from cutplan.planning.shopping import hang_hole_for
+    from cutplan.planning.shopping import hang_hole_for  # here: shopping imports this module
 
     if spec.kind != "chime" or spec.section.shape != "tube":
         return list(pieces)

@@ -29,6 +29,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+# scipy.optimize is imported where used: a chime plan (0.72 s CPU) never needs it; at the top it adds 0.57 s (measured)
 import numpy as np
 
 from cutplan.tuning.profile_model import profile_modes

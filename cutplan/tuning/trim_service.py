@@ -198,7 +198,7 @@ def trim_report(design, plan, label, measured_hz, confidence=1.0, from_recording
                      for i, (f, t) in enumerate(zip(measured, targets, strict=True)))
     questions = _questioned(piece, partials[0].cents, confidence, from_recording)
     if piece.arch is not None:
-        from cutplan.tuning.arched import arched_report
+        from cutplan.tuning.arched import arched_report  # here: arched imports this module
 
         return arched_report(design, plan, piece, spec, partials, confidence, questions, length_now, state, done)
     return _plain_report(plan, piece, spec, partials, confidence, questions, length_now)

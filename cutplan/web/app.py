@@ -15,7 +15,9 @@ import time
 import tomllib
 from pathlib import Path
 
-from flask import Flask, Request, g, jsonify, render_template, request
+from flask import Flask, Request, Response, g, jsonify, render_template, request
+from markupsafe import Markup
+from werkzeug.exceptions import HTTPException
 
 from cutplan import pitch
 from cutplan.render.table import plan_dict
@@ -126,8 +128,6 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
 
     @app.errorhandler(Exception)
     def _unexpected(exc):
-        from werkzeug.exceptions import HTTPException
-
         if isinstance(exc, HTTPException):
             return exc
         app.logger.exception("unexpected error on %s", request.path)  # the server's log keeps the detail
@@ -336,8 +336,6 @@ def _dumps(data):
 
 
 def _attachment(payload, mimetype, name, inline=False):
-    from flask import Response
-
     resp = Response(payload, mimetype=mimetype)
     resp.headers["Content-Disposition"] = f'{"inline" if inline else "attachment"}; filename="{name}"'
     return resp
@@ -345,8 +343,6 @@ def _attachment(payload, mimetype, name, inline=False):
 
 def _both_units(text):
     """ "20-1/32 in (508.6 mm)" with each unit's part kept on one line (the text stays the same)."""
-    from markupsafe import Markup
-
     first, sep, second = str(text).partition(" (")
     if not sep:
         return Markup('<span class="nw">{}</span>').format(first)

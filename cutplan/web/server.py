@@ -12,6 +12,8 @@ import socket
 import threading
 import webbrowser
 
+from waitress import create_server
+
 from cutplan.web.app import MAX_UPLOAD_BYTES, create_app
 
 DEFAULT_HOST = "127.0.0.1"
@@ -94,8 +96,6 @@ def serve(host=DEFAULT_HOST, port=DEFAULT_PORT, open_browser=False, materials_di
           any_port_if_busy=False):
     """Serve the page until interrupted (blocks). With ``any_port_if_busy``, a busy ``port`` gives way
     to a free one (the default port, when the builder did not name one)."""
-    from waitress import create_server
-
     workers = default_workers() if workers is None else workers
     sock = listening_socket(host, port, any_port_if_busy, echo)
     try:

@@ -11,6 +11,8 @@ Windows; forking a threaded server is unsafe.
 from __future__ import annotations
 
 import contextlib
+import multiprocessing
+import signal
 import threading
 import time
 
@@ -32,8 +34,6 @@ class Stopped(Exception):
 
 def _worker_main(conn):
     """The loop each worker process runs: receive (function, args), send back its result."""
-    import signal
-
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl+C is the server's; it stops the workers
     import cutplan.planning.planner  # noqa: F401  (warm up before the first job arrives)
     import cutplan.web.service  # noqa: F401
@@ -66,8 +66,6 @@ class WorkerPool:
     """At most ``size`` worker processes; :meth:`run` a job in one of them."""
 
     def __init__(self, size):
-        import multiprocessing
-
         self._ctx = multiprocessing.get_context("spawn")
         self._slots = threading.BoundedSemaphore(size)
         self._idle = []
