@@ -215,7 +215,7 @@ def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, de
         jac = _finite_differences(evaluate, v, r, upper) if jacobian is None or len(jacobian) != v.size else \
             np.array(jacobian, dtype=float)
         while np.max(np.abs(r)) >= TOLERANCE_CENTS and count[0] < MAX_SOLVES:
-            step = _bounded_step(jac, r, v, lower, upper)
+            step = bounded_step(jac, r, v, lower, upper)
             if not np.any(step):
                 break  # pinned at a bound: the best that can be done
             v_new = np.clip(v + step, lower, upper)
@@ -267,7 +267,7 @@ MAX_STEP = (0.3, 0.25, 1.5)
 """Largest Newton step in log L, depth fraction and shape [-] (keeps early steps sane)."""
 
 
-def _bounded_step(jac, r, v, lower, upper):
+def bounded_step(jac, r, v, lower, upper):
     """Newton step for J dv = -r; a variable at a bound that the step would push out is held."""
     free = np.ones(v.size, dtype=bool)
     step = np.zeros(v.size)

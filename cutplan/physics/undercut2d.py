@@ -157,7 +157,7 @@ def design_undercut_2d(target, ratios, width, thickness, plane, kappa, min_thick
     offset_now = r - one_d
     best = (np.max(np.abs(r)), v, r, modes)
     while np.max(np.abs(r)) >= TOLERANCE_CENTS and count[0] < MAX_SOLVES:
-        step = undercut._bounded_step(jac, r, v, lower, upper)
+        step = undercut.bounded_step(jac, r, v, lower, upper)
         if not np.any(step):
             break  # pinned at a bound
         v_new = np.clip(v + step, lower, upper)
