@@ -31,6 +31,8 @@ from pathlib import Path
 from cutplan import folder_guard
 from cutplan.folder_guard import MANIFEST, inspect, locked, pid_alive, remove_tree
 
+__all__ = ["FolderError", "read_manifest", "write_bytes", "check_target", "write_folder", "write_file_whole"]
+
 _TEMP_TAG = ".cutplan-"
 _RENAME_EXCHANGE = 2
 

@@ -21,6 +21,11 @@ from cutplan.physics.sections import Section, tube
 from cutplan.planning.air_calibrated import AirCalibration
 from cutplan.plausibility import CLASS_RANGES
 
+__all__ = [
+    "SOURCE_KINDS", "WOOD_BENDING_TO_TRUE_MODULUS", "GRAIN_KEYS", "MaterialError", "Provenance", "Material",
+    "StockSize", "Library", "packaged_dir", "material_from_table", "load_library", "closest_names"
+]
+
 SOURCE_KINDS = (
     "handbook", "standard", "paper", "datasheet", "measured", "derived", "common practice",
     "from memory",

@@ -160,3 +160,14 @@ def test_imports_inside_functions_are_only_the_measured_or_cycle_breaking_ones()
                     continue
                 found.append(f"{name}:{node.lineno} imports {target} inside a function")
     assert not found, found
+
+
+@pytest.mark.parametrize("name", sorted(MODULES))
+def test_a_module_with_public_names_lists_them_in_all_and_each_exists(name):
+    tree = ast.parse(MODULES[name].read_text(encoding="utf-8"))
+    public = [n.name for n in tree.body if isinstance(n, (ast.FunctionDef, ast.ClassDef)) and not n.name.startswith("_")]
+    module = importlib.import_module(name)
+    if public:
+        assert hasattr(module, "__all__"), f"{name} defines {public[:3]}... but has no __all__"
+    missing = [n for n in getattr(module, "__all__", ()) if not hasattr(module, n)]
+    assert not missing, f"{name}.__all__ names {missing}, which it does not define"

@@ -20,6 +20,11 @@ from cutplan.audio.wav import RecordingError
 from cutplan.numeric import quiet
 from cutplan.pitch import nearest_note
 
+__all__ = [
+    "PATTERNS", "KIND_PATTERNS", "MATCH_TOLERANCE", "ABSENT_FACTOR", "LOW_CONFIDENCE", "MIN_FUNDAMENTAL_HZ",
+    "Reading", "Measurement", "readings", "identify", "measure"
+]
+
 PATTERNS = {
     # ratios of partials to the fundamental, and how far the highest listed may fall below nominal
     "free-free": ((1.0, 2.7565, 5.4039, 8.9330, 13.3443, 18.6380), 0.30),

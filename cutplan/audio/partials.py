@@ -42,6 +42,11 @@ import numpy as np
 
 from cutplan.audio.wav import RecordingError
 
+__all__ = [
+    "MIN_SECONDS", "MAX_SECONDS", "PAD", "PROMINENCE_DB", "STRONG_DB", "MIN_DECAY_S", "AUDIBLE_HZ", "BH4",
+    "MAIN_LOBE_BINS", "Partial", "blackman_harris", "strike_segment", "find_partials"
+]
+
 MIN_SECONDS = 0.05
 """Shortest recording measured [s]."""
 MAX_SECONDS = 8.0

@@ -15,6 +15,8 @@ import click
 from cutplan import __version__
 from cutplan.cli import examples, from_stock, measure, pieces, plans, serve, shop
 
+__all__ = ["OneLineGroup", "cli", "main"]
+
 
 class OneLineGroup(click.Group):
     """A click group whose usage errors (an unknown option, a value outside a choice) are one line

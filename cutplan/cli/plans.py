@@ -16,6 +16,8 @@ from cutplan.cli.common import (
     write_folder,
 )
 
+__all__ = ["plan_command", "cutlist_command"]
+
 # design, planning, render, audio, tuning and web modules load inside the commands: start-up is
 # 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
 

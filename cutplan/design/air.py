@@ -9,6 +9,8 @@ from cutplan import units
 from cutplan.design.beams import material
 from cutplan.design.contract import is_number
 
+__all__ = ["TEMPERATURE_RANGE", "air_fields"]
+
 TEMPERATURE_RANGE = (253.15 - 1e-9, 323.15 + 1e-9)
 """Air temperatures accepted [K]: -20 C to 50 C, ends included (a nanokelvin of slack, so that
 "-20 C" = -20 + 273.15 in floating point, 253.14999999999998, is inside)."""

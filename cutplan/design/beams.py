@@ -8,6 +8,8 @@ from cutplan.design.contract import Undercut, is_number
 from cutplan.materials import MaterialError, closest_names, material_from_table
 from cutplan.planning.grain import GRAINS
 
+__all__ = ["UNDERCUT_KEYS", "AIR_ONLY", "material", "undercut", "grain", "beam_fields"]
+
 UNDERCUT_KEYS = {"ratios", "arch_width", "min_thickness"}
 AIR_ONLY = ("ends", "end_correction", "temperature", "humidity", "serves", "max_length", "temperature_range")
 

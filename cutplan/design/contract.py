@@ -18,6 +18,13 @@ if TYPE_CHECKING:  # for annotations only: both modules import this one
     from cutplan.design.hanging import HangingSpec
     from cutplan.materials import Material
 
+__all__ = [
+    "KINDS", "MAX_PIECES_PER_SET", "MAX_PIECES", "MAX_FILE_BYTES", "DEFAULT_TEMPERATURE",
+    "DEFAULT_SHARP_RISK", "DEFAULT_RESONATOR_MAX_LENGTH", "STOCK_LENGTH_RANGE", "KERF_RANGE",
+    "END_TRIM_RANGE", "MAX_STOCK_COUNT", "DesignError", "DesignErrors", "show", "StockLength", "StockSpec",
+    "Undercut", "SetSpec", "Design", "is_number", "Collector"
+]
+
 KINDS = ("chime", "bar", "air-column", "resonator")
 MAX_PIECES_PER_SET = 128
 """Largest set cutplan plans [-] (a 10-octave chromatic set is 120; more is a typing error)."""

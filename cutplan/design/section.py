@@ -7,6 +7,8 @@ from cutplan.materials import closest_names
 from cutplan.physics.sections import Section, bar, rod, tube
 from cutplan.spelling import stock_size_names
 
+__all__ = ["SECTION_KEYS", "MAX_SIZE", "MIN_SIZE", "section"]
+
 SECTION_KEYS = {"shape", "outer", "wall", "inner", "diameter", "width", "thickness", "stock"}
 MAX_SIZE = 0.5
 """Largest cross-section dimension accepted [m]."""

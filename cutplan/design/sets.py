@@ -14,6 +14,8 @@ from cutplan.design.section import section as read_section
 from cutplan.design.stocktable import stock_table
 from cutplan.design.text import unprintable, unsafe_name
 
+__all__ = ["SET_KEYS", "MAX_NAME", "name_problem", "one_set", "check_names"]
+
 SET_KEYS = {
     "name", "kind", "notes", "scale", "root", "count", "frequencies", "cents", "ratios", "range",
     "material", "section", "model", "target", "ends", "end_correction", "temperature",

@@ -7,6 +7,8 @@ import math
 from cutplan import pitch, units
 from cutplan.design.contract import MAX_PIECES_PER_SET, is_number
 
+__all__ = ["TARGET_KEYS", "FREQUENCY_RANGE", "targets"]
+
 TARGET_KEYS = ("notes", "scale", "range", "frequencies", "cents", "ratios")
 FREQUENCY_RANGE = (10.0, 30000.0)
 """Target frequencies accepted [Hz]: around the range of hearing."""

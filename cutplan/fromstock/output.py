@@ -10,6 +10,8 @@ from pathlib import Path
 
 from cutplan import pitch
 
+__all__ = ["SET_NAMES", "design_mapping", "candidate_dict", "result_dict", "design_toml"]
+
 SET_NAMES = {"chime": "chimes", "bar": "bars", "air-column": "pipes"}
 """Name of the written set per kind (the pieces are labelled chimes-1, bars-1, ...)."""
 

@@ -39,6 +39,11 @@ from cutplan.fromstock.output import SET_NAMES, design_mapping
 from cutplan.layout import optimiser
 from cutplan.planning.records import Plan
 
+__all__ = [
+    "SEARCH_LOW", "SEARCH_HIGH", "MAX_COUNT", "PACK_OPS", "ROWS_PER_SCALE", "OBJECTIVES", "FitError",
+    "Candidate", "FitResult", "search", "lowest_roots"
+]
+
 SEARCH_LOW = "C1"
 """Lowest root tried when no lower limit is given (a piece this low rarely fits any stick)."""
 SEARCH_HIGH = "C8"

@@ -18,6 +18,8 @@ import cutplan
 from cutplan.design import DesignErrors
 from cutplan.planning.planner import STUBBY_RATIO
 
+__all__ = ["PLAN_CHUNK", "SETS_PER_PLAN", "cut_length_table", "stubby_below", "finite"]
+
 PLAN_CHUNK = 128
 """Frequencies per set in one planning call (the design file's limit per set) [-]."""
 SETS_PER_PLAN = 3

@@ -35,6 +35,11 @@ from cutplan.layout.optimiser import (
     sticks_from_assignment,
 )
 
+__all__ = [
+    "MAX_ROUNDS", "GRID", "PATTERNS_PER_ROUND", "column_generation", "MAX_MIXES", "MAX_MIX_NODES",
+    "cheaper_mixes"
+]
+
 MAX_ROUNDS = 400
 """Most pricing rounds of one column generation [-]."""
 

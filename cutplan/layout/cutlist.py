@@ -12,6 +12,8 @@ from dataclasses import dataclass, field
 
 from cutplan.layout import optimiser
 
+__all__ = ["Cut", "PlacedStick", "CutGroup", "CutList", "stock_groups", "lay_out"]
+
 
 @dataclass(frozen=True)
 class Cut:

@@ -46,6 +46,12 @@ from dataclasses import dataclass, field
 from cutplan.layout.kits import natural_key
 from cutplan.units import format_length
 
+__all__ = [
+    "FIT_TOLERANCE", "DEFAULT_TIME_LIMIT", "DEFAULT_EFFORT", "DEFAULT_OPS", "LP_FIXED_OPS", "StockError",
+    "StockTimeout", "OutOfWork", "Item", "StockType", "Stick", "Layout", "lower_bound_l2", "usable_length",
+    "stick_capacity", "piece_fits", "heuristic_layout", "sticks_from_assignment", "layout_cost", "layout"
+]
+
 FIT_TOLERANCE = 1e-9
 """Slack allowed when checking that pieces fit [m] (a nanometre: float rounding only)."""
 DEFAULT_TIME_LIMIT = None

@@ -32,6 +32,8 @@ import numpy as np
 
 from cutplan.physics.blas import single_thread
 
+__all__ = ["BeamModes", "free_free_modes", "node_positions"]
+
 
 @dataclass(frozen=True)
 class BeamModes:

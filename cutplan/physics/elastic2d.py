@@ -47,6 +47,10 @@ import numpy as np
 
 from cutplan.physics.blas import single_thread
 
+__all__ = [
+    "ELEMENTS_ALONG", "ELEMENTS_THROUGH", "RIGID_MODES", "ProfileError", "ProfileModes", "profile_modes"
+]
+
 ELEMENTS_ALONG = 60
 """Quadratic elements along the bar [-] (mesh study in tests/physics/test_elastic2d.py)."""
 ELEMENTS_THROUGH = 4

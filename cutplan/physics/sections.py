@@ -13,6 +13,11 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+__all__ = [
+    "shear_coefficient_cowper_hollow_circle", "shear_coefficient_cowper_rectangle", "Section", "tube",
+    "rod", "bar"
+]
+
 
 def shear_coefficient_cowper_hollow_circle(poisson, diameter_ratio):
     r"""Timoshenko shear coefficient of a hollow circle (Cowper 1966, Table 1).

@@ -28,6 +28,12 @@ import numpy as np
 
 from cutplan.physics import beam_fe, solid3d, timoshenko, torsion, undercut
 
+__all__ = [
+    "sideways_frequencies", "twisting_frequencies_bar", "twisting_frequencies_tube",
+    "sideways_frequencies_arched", "twisting_frequencies_arched", "twisting_frequencies_bar_orthotropic",
+    "solid_side_modes", "twisting_stiffening", "twisting_frequencies_bar_solid"
+]
+
 
 def sideways_frequencies(length, width, thickness, modulus, shear_modulus, density, kappa, modes=3):
     """Sideways (in-plane) bending frequencies [Hz] of a uniform free-free bar.

@@ -42,6 +42,8 @@ import numpy as np
 
 from cutplan.physics.blas import single_thread
 
+__all__ = ["PRODUCT_MESH", "Orthotropic", "SideModes", "solve_side_modes"]
+
 PRODUCT_MESH = (20, 3, 2)
 """Elements along the half-length, across the half-width and through the thickness [-]."""
 

@@ -16,6 +16,11 @@ import numpy as np
 
 from cutplan.physics import beam
 
+__all__ = [
+    "AIR_DENSITY", "FLAT_PLATE_DRAG", "GRAVITY", "strike_amplitude", "best_strike_height", "plate_drag",
+    "contact_push", "sail_area", "breeze_for"
+]
+
 AIR_DENSITY = 1.225
 """Density of air at sea level, 15 C [kg/m^3]. ISO 2533:1975, Standard Atmosphere (from memory)."""
 FLAT_PLATE_DRAG = 1.17

@@ -36,6 +36,12 @@ from cutplan.physics import uniform
 from cutplan.physics.beam import free_free_root
 from cutplan.physics.roots import bracketed_roots
 
+__all__ = [
+    "system_matrix", "expm4", "transfer_matrix", "frequency_determinant", "dimensionless_frequencies",
+    "uniform_parameters", "frequencies", "fundamental_frequencies", "fundamental_lengths",
+    "fundamental_length", "mode_shape", "node_positions", "mode_shape_function"
+]
+
 
 def system_matrix(omega, g, s2):
     """Dimensionless state matrix A for ``(w, psi, M, V)``; broadcasts over ``omega``."""

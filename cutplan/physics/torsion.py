@@ -40,6 +40,12 @@ import numpy as np
 
 from cutplan.physics.blas import single_thread
 
+__all__ = [
+    "torsion_constant_rectangle", "orthotropic_rectangle_rigidity", "torsion_constant_rectangle_roark",
+    "torsion_constant_tube", "polar_moment_rectangle", "polar_moment_tube", "free_free_twisting_frequency",
+    "twisting_frequencies", "warping_constants"
+]
+
 
 def torsion_constant_rectangle(width, thickness, terms=50):
     r"""Saint-Venant torsion constant J of a solid rectangle [m^4], from the exact series.

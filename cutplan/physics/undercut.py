@@ -32,6 +32,11 @@ from cutplan.physics import beam_fe
 from cutplan.physics.blas import single_thread
 from cutplan.physics.timoshenko import fundamental_length
 
+__all__ = [
+    "ELEMENTS_END", "ELEMENTS_ARCH", "ORDER", "UndercutError", "arch_thickness", "arch_area", "bar_modes",
+    "Undercut", "TOLERANCE_CENTS", "MAX_SOLVES", "design_undercut", "FD_STEPS", "MAX_STEP", "bounded_step"
+]
+
 ELEMENTS_END = 6
 """Elements in each solid end region [-] (0.001 cent level for a uniform bar; bench/)."""
 ELEMENTS_ARCH = 10

@@ -25,6 +25,11 @@ import numpy as np
 
 from cutplan.physics import elastic2d, undercut
 
+__all__ = [
+    "TOLERANCE_CENTS", "MAX_SOLVES", "ARCH_STATIONS", "END_STATIONS", "PlaneConstants", "arch_stations",
+    "Undercut2d", "design_undercut_2d", "trimmed_profile"
+]
+
 TOLERANCE_CENTS = 0.02
 """The 2-D search stops when mode 1 and every tuned ratio are this close [cents]."""
 MAX_SOLVES = 16

@@ -42,6 +42,11 @@ import numpy as np
 from cutplan.physics.beam import free_free_length, free_free_root
 from cutplan.physics.roots import bracketed_roots
 
+__all__ = [
+    "PHASE_STEP", "coefficients", "full_determinant", "half_determinants", "fundamental_omegas", "omegas",
+    "fundamental_lengths", "mode_lengths", "deflection", "fundamental_nodes"
+]
+
 PHASE_STEP = np.pi / 16
 """Largest step of either wave number between grid points when bracketing modes [rad]."""
 

@@ -13,6 +13,8 @@ from cutplan.planning.frequency import air_frequency_function, cents_per_mm, par
 from cutplan.planning.records import PARTIAL_COUNT, Piece
 from cutplan.units import format_length
 
+__all__ = ["STOPPER_MARGIN", "STOPPER_STEP", "stopper_settings", "plan_air_set"]
+
 STOPPER_MARGIN = 0.010
 """Tube left beyond the deepest stopper setting [m] (room for the plug itself; common practice)."""
 

@@ -23,6 +23,11 @@ from dataclasses import dataclass
 from cutplan.physics import air_column
 from cutplan.physics.wall_losses import wall_loss_fraction
 
+__all__ = [
+    "AirCalibration", "calibration", "applied", "humidity", "wall_losses", "speed", "column_model",
+    "assumptions", "stock_toml"
+]
+
 
 @dataclass(frozen=True)
 class AirCalibration:

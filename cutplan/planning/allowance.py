@@ -9,6 +9,8 @@ from cutplan.design import DEFAULT_SHARP_RISK
 from cutplan.planning import uncertainty
 from cutplan.units import format_length
 
+__all__ = ["allowances", "SHARP_RISK_WARNING", "risk_warning", "allowance_rule"]
+
 
 def allowances(spec, stock, frequency_at, length, target, ratios_uncal, ratios_cal):
     """(cut length, uncalibrated allowance, calibrated allowance, risk of coming out sharp)."""

@@ -19,6 +19,11 @@ from cutplan.planning.allowance import allowances, risk_warning
 from cutplan.planning.frequency import beam_frequency_function, partial_notes, plane_constants
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece
 
+__all__ = [
+    "LENGTH_TOLERANCE_CENTS", "TRIM_STEP", "profile_frequency_function", "plan_undercut_set_2d",
+    "plan_uniform_set_2d", "plan_set", "elastic_constants"
+]
+
 LENGTH_TOLERANCE_CENTS = 0.01
 """A uniform bar's 2-D length search stops this close to the target [cents]."""
 TRIM_STEP = 0.5e-3

@@ -10,6 +10,12 @@ from cutplan.physics import air_column, beam, beam_fe, timoshenko, undercut, uni
 from cutplan.physics.undercut2d import PlaneConstants
 from cutplan.planning import air_calibrated, grain
 
+__all__ = [
+    "STRIKE_NOTE_MODE", "partial_notes", "cents_per_mm", "beam_constants", "beam_frequency_function",
+    "air_frequency_function", "plane_constants", "undercut_frequency_function", "piece_frequency_function",
+    "mode_length"
+]
+
 STRIKE_NOTE_MODE = 4
 """Mode whose half sets the strike note of a tubular bell: the strike pitch is about an octave
 below mode 4 (Fletcher & Rossing, The Physics of Musical Instruments, 2nd ed. 1998, ch. 19, via

@@ -35,6 +35,12 @@ from cutplan.physics.solid3d import Orthotropic
 from cutplan.physics.torsion import orthotropic_rectangle_rigidity
 from cutplan.planning.uncertainty import shared_draws
 
+__all__ = [
+    "GRAINS", "PlaneConstants", "is_orthotropic", "axis_constants", "applied", "bending_plane_constants",
+    "bending_shear_modulus", "solid_constants", "grain_spread_cents", "twisting_rigidity",
+    "unknown_grain_cents", "unknown_grain_ratios", "assumptions"
+]
+
 GRAINS = ("flat", "quarter", "unknown")
 """The sawings a bar set may give (``grain = "..."``)."""
 

@@ -17,6 +17,10 @@ from fractions import Fraction
 from cutplan.physics.hang_hole import hang_hole_shifts
 from cutplan.planning.records import HangHoleSplit
 
+__all__ = [
+    "BEAT_LIMIT_HZ", "DRILL_STEP", "SMALLEST_DRILL", "split_for", "drill_text", "warning", "with_hang_holes"
+]
+
 BEAT_LIMIT_HZ = 1.5
 """Fastest beat between the two bending planes accepted without a warning [Hz] (common practice,
 a judgement: a slower beat is heard as a gentle swell in a ringing chime, a faster one as a

@@ -27,6 +27,13 @@ from cutplan.design.hanging import HangingSpec
 from cutplan.physics import swing
 from cutplan.planning import hanging_load
 
+__all__ = [
+    "STRIKER_MIN_DIAMETER", "STRIKER_THICKNESS", "HARDWOOD_DENSITY", "SAIL_SHEET", "SAIL_MARGIN",
+    "SAIL_MIN_SIDE", "SAIL_STEP", "TOP_DROP", "SAIL_DROP", "STRIKE_END_MARGIN", "PLATE_EDGE",
+    "PLATE_THICKNESS", "HOLE_DIAMETER", "STEP", "PLATE_STEP", "Sail", "Hanging", "strike_modes",
+    "hanging_for"
+]
+
 STRIKER_MIN_DIAMETER = (0.050, 2.5)
 """Smallest striker disc: 50 mm, and at least 2.5 tube diameters [m, -] (common practice: a
 smaller, lighter disc is a poor target and gives large tubes too weak a blow)."""

@@ -15,6 +15,11 @@ from cutplan import units
 from cutplan.materials import packaged_dir
 from cutplan.physics.swing import GRAVITY
 
+__all__ = [
+    "KNOT", "RING_HEIGHT_MIN", "KNOT_EFFICIENCY", "LBF", "BUY_STEP", "LineRow", "HookRow", "Table",
+    "Geometry", "Masses", "Line", "Load", "load_table", "pick_line", "load_for", "buy_text", "mass_text"
+]
+
 KNOT = 0.10
 """Line used by one tie, with room to adjust [m] (common practice)."""
 RING_HEIGHT_MIN = 0.10

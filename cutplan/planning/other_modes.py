@@ -20,6 +20,11 @@ from cutplan.physics import side_modes
 from cutplan.physics.ring_modes import ring_frequencies
 from cutplan.planning import grain
 
+__all__ = [
+    "CLEARANCE_CENTS", "REPORT_ABOVE", "MAX_MODES", "piece_other_modes", "RING_FIRST_LOBES",
+    "tuned_partials", "mode_warnings", "with_other_modes"
+]
+
 CLEARANCE_CENTS = 30.0
 """Distance from a partial within which another mode is flagged [cents] (common practice: beats
 slower than about a second between two partials a few hundred hertz apart start at this order)."""

@@ -14,6 +14,8 @@ if TYPE_CHECKING:  # for annotations only: these modules build on the records
     from cutplan.planning.hanging import Hanging
     from cutplan.planning.shopping import Caution, Item
 
+__all__ = ["PARTIAL_COUNT", "HangHoleSplit", "Piece", "Arch", "SetPlan", "Plan"]
+
 PARTIAL_COUNT = 4
 """Partials reported per piece [-]."""
 

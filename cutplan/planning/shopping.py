@@ -22,6 +22,12 @@ from cutplan.planning.hang_holes import BEAT_LIMIT_HZ, drill_text
 from cutplan.planning.hanging import SAIL_DROP
 from cutplan.planning.hanging_load import buy_text, mass_text
 
+__all__ = [
+    "PLATE_THICKNESS", "round_in_unit", "plate_material", "PLATE_HANGING", "CODES", "Item", "Caution",
+    "HangHole", "Plate", "hang_holes", "hang_hole_for", "cautions_for", "hanging_plate", "h_limit",
+    "shopping_list", "with_shop_lists"
+]
+
 PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
 """Usual hanging-plate thickness [m]: plywood or hardwood, aluminium sheet, as sold in metric and
 in inch sizes (common practice)."""

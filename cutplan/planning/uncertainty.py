@@ -22,6 +22,12 @@ import numpy as np
 
 from cutplan.physics.roots import bracketed_roots
 
+__all__ = [
+    "SAMPLES", "SEED", "CALIBRATED_MODULUS_SPREAD", "WOOD_MODULUS_CV", "SEVERAL_BLANKS",
+    "TEMPERATURE_SPREAD", "END_CORRECTION_SPREAD", "shared_draws", "beam_ratios", "calibrated_spreads",
+    "wood_blank_spreads", "air_ratios", "risk_quantile", "cut_length_for_risk", "sharp_risk", "sharp_risks"
+]
+
 SAMPLES = 20_000
 """Monte Carlo samples per set [-]."""
 SEED = 20261201

@@ -14,6 +14,11 @@ from dataclasses import dataclass
 from cutplan.planning.shopping import hanging_plate  # noqa: F401 (the plate geometry, re-exported for renderers)
 from cutplan.units import MM, format_length
 
+__all__ = [
+    "TICK_STEP_MM", "TICK_NUMBER_MM", "Style", "STYLES", "Mark", "length_text", "piece_marks",
+    "strip_length_mm", "tiles", "JoinMark", "join_marks", "ruler_ticks", "wrap_guide_mm", "assign_lanes"
+]
+
 TICK_STEP_MM = 10
 """Ticks along a strip every 10 mm [mm]."""
 TICK_NUMBER_MM = 50

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 from cutplan.units import format_length
 
+__all__ = ["other_modes_text", "trim_lines", "partial_lines", "trim_report_lines", "removal_lines"]
+
 
 def other_modes_text(modes):
     """"sideways 1510, 4030 Hz; twisting 2210, 4420 Hz": the modes a piece is not tuned by, in short."""

@@ -25,6 +25,11 @@ import svgwrite
 from cutplan.render import marks as mk
 from cutplan.units import MM
 
+__all__ = [
+    "HAIRLINE", "TEXT", "MARGIN", "INCH_MM", "COLOURS", "LABEL", "LANE", "CHAR_WIDTH", "render_piece_svg",
+    "render_plate_svg", "render_wrap_svg", "svg_files"
+]
+
 HAIRLINE = 0.1
 """Stroke width for cut and mark lines [mm]."""
 TEXT = 3.0

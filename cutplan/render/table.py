@@ -9,6 +9,11 @@ import json
 from cutplan.render.hanging import hanging_dict
 from cutplan.units import MM, inch_text, mm_text
 
+__all__ = [
+    "PLAN_FORMAT", "piece_dict", "plan_dict", "cut_list_dict", "csv_cell", "render_json", "CSV_COLUMNS",
+    "render_csv", "CUTLIST_COLUMNS", "render_cutlist_csv"
+]
+
 PLAN_FORMAT = "cutplan-plan/1"
 
 

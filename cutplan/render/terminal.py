@@ -8,6 +8,11 @@ from cutplan.render.hanging import hanging_lines
 from cutplan.render.phrases import other_modes_text
 from cutplan.units import INCH, MM, format_length, length_cell, length_heading
 
+__all__ = [
+    "SAFETY_LINE", "WIDTH", "render_table", "render_stock", "LIST_WIDTH", "render_library",
+    "render_library_entry"
+]
+
 SAFETY_LINE = (
     "Safety: wear eye and hearing protection when cutting and striking; deburr cut tube; never "
     "heat or burn PVC and vacuum its dust; hang anything overhead from rated hardware with a "

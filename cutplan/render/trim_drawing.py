@@ -11,6 +11,8 @@ from html import escape
 
 from cutplan.units import format_length
 
+__all__ = ["WIDTH_PX", "trim_drawing"]
+
 WIDTH_PX = 640.0
 """Drawing width on the page [px]; the height follows the bar's proportions (thickness x 3)."""
 

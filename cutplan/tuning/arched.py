@@ -24,6 +24,8 @@ from cutplan.tuning.trim_service import (
     with_lines,
 )
 
+__all__ = ["MATCH_LENGTH", "planned_profile", "bar_data", "support_distances", "arched_report"]
+
 MATCH_LENGTH = 0.2e-3
 """A length now within this of the profile's own is the same bar [m]."""
 

@@ -25,6 +25,12 @@ from cutplan.physics.air_column import end_correction
 from cutplan.physics.roots import bracketed_roots
 from cutplan.units import format_length
 
+__all__ = [
+    "CalibrationError", "BeamFit", "fit_beam", "calibrated_material_toml", "AirFit", "fit_air_column",
+    "fit_air_column_choice", "AIR_SPEED_RANGE", "END_FACTOR_RANGE", "MAX_RESIDUAL_CENTS", "TrimAdvice",
+    "FAR_OFF_CENTS", "trim_advice"
+]
+
 
 class CalibrationError(ValueError):
     """Measurements that cannot be fitted (one line saying why)."""

@@ -11,6 +11,8 @@ from __future__ import annotations
 from cutplan.physics import elastic2d
 from cutplan.tuning.calibrate import CalibrationError
 
+__all__ = ["partial_frequencies_2d"]
+
 
 def partial_frequencies_2d(material, section, modulus, shear_modulus, length, modes):
     """Bending modes 1..``modes`` [Hz] of a uniform bar of ``section`` in the 2-D model, with E

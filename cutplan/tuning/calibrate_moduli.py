@@ -23,6 +23,12 @@ from cutplan.planning.uncertainty import SEVERAL_BLANKS, wood_blank_spreads
 from cutplan.tuning.calibrate import BeamFit, CalibrationError
 from cutplan.tuning.calibrate_elastic import partial_frequencies_2d
 
+__all__ = [
+    "SHEAR_DETERMINED", "NOMINAL_READING_CENTS", "SHEAR_RATIO_RANGE", "PARTIAL_HINT_CENTS",
+    "RESIDUAL_LIMIT_CENTS", "FREE_FREE_RATIO_2", "ModuliFit", "partial_frequencies", "partial_hint",
+    "fit_moduli", "recorded_modes", "partials_from_peaks", "calibrated_moduli_toml"
+]
+
 SHEAR_DETERMINED = 0.10
 """Largest standard error of a fitted shear modulus, as a fraction, for G to count as determined
 [-], reckoned with 1 cent of reading error per partial (a good tuner or a clean recording; common

@@ -34,6 +34,12 @@ import numpy as np
 
 from cutplan.tuning.profile_model import profile_modes
 
+__all__ = [
+    "STATIONS", "FD_DEPTH", "FD_END", "REGULARISATION", "SMOOTHING", "CHORD_STEPS", "REACH_CENTS",
+    "BarData", "model_grid", "station_positions", "hats", "trimmed", "apply_removal", "cents",
+    "RemovalAdvice", "sensitivities", "advise_removal", "SMALLEST_CUT"
+]
+
 STATIONS = 12
 """Station pairs from the end to the centre [-] (cuts about L/24 apart)."""
 FD_DEPTH = 0.05e-3

@@ -31,6 +31,13 @@ from cutplan.render.phrases import trim_report_lines
 from cutplan.tuning.calibrate import FAR_OFF_CENTS, CalibrationError, trim_advice
 from cutplan.units import UnitError, format_length, parse_length
 
+__all__ = [
+    "MIN_HZ", "MAX_HZ", "LOW_CONFIDENCE", "IN_TUNE_CENTS", "PARTIAL_MATCH", "STATE_FORMAT", "STATE_SUFFIX",
+    "TrimError", "Partial", "TrimReport", "parse_measured", "parse_length_now", "recorded_partials",
+    "find_piece", "tuned_targets", "trim_report", "with_lines", "new_state", "check_state",
+    "profile_arrays", "profile_entry"
+]
+
 MIN_HZ, MAX_HZ = 10.0, 30000.0
 """Readings accepted [Hz]."""
 LOW_CONFIDENCE = 0.5

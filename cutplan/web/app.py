@@ -38,6 +38,11 @@ from cutplan.web.service import (
 from cutplan.web.service import library as server_library
 from cutplan.web.trim import trim_answer
 
+__all__ = [
+    "MAX_UPLOAD_BYTES", "UPLOAD_ROUTES", "LOOPBACK_NAMES", "CSP", "MemoryRequest", "examples_dir",
+    "create_app", "same_origin"
+]
+
 MAX_UPLOAD_BYTES = 16 * 1024 * 1024
 """Largest request with a recording [bytes]: about 90 s of 16-bit mono at 44.1 kHz."""
 UPLOAD_ROUTES = ("/", "/api/trim")

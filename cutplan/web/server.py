@@ -16,6 +16,11 @@ from waitress import create_server
 
 from cutplan.web.app import MAX_UPLOAD_BYTES, create_app
 
+__all__ = [
+    "DEFAULT_HOST", "DEFAULT_PORT", "THREADS", "SPARE_THREADS", "CONNECTION_LIMIT", "IDLE_TIMEOUT",
+    "is_loopback", "exposure_warning", "page_url", "default_workers", "listening_socket", "serve"
+]
+
 DEFAULT_HOST = "127.0.0.1"
 DEFAULT_PORT = 8750
 THREADS = 4

@@ -25,6 +25,12 @@ from cutplan.render.packet import plan_files
 from cutplan.render.pdf import render_pdf
 from cutplan.web.workers import Stopped, WorkerPool
 
+__all__ = [
+    "DESIGN_NAME", "MAX_DESIGN_BYTES", "CACHE_SIZE", "STOPPED", "ZIP_TIME", "WebErrors", "error",
+    "design_errors", "MAX_DEPTH", "plain_problem", "library", "Planner", "design_toml", "packet_zip",
+    "packet_pdf", "piece_wav"
+]
+
 DESIGN_NAME = "design"
 """Name that stands for the design in error lines (there is no file)."""
 MAX_DESIGN_BYTES = 1_000_000

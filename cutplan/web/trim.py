@@ -23,6 +23,8 @@ from cutplan.tuning import TrimError, parse_length_now, parse_measured, trim_rep
 from cutplan.tuning.trim_service import find_piece, recorded_partials
 from cutplan.web.service import WebErrors, error
 
+__all__ = ["MIN_HZ", "MAX_HZ", "MAX_STATE_BYTES", "TrimAnswer", "trim_answer"]
+
 MIN_HZ, MAX_HZ = 10.0, 30000.0
 """Tuner readings accepted [Hz] (the service's range)."""
 MAX_STATE_BYTES = 200_000

@@ -14,6 +14,10 @@ from cutplan.units import format_length
 from cutplan.web.chart import length_pitch_svg
 from cutplan.web.form import field_label
 
+__all__ = [
+    "piece_rows", "node_heading", "stock_rows", "slot_for", "place_errors", "place_warnings", "preview"
+]
+
 
 def _len(metres, units):
     return format_length(metres, units)

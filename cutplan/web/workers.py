@@ -16,6 +16,8 @@ import signal
 import threading
 import time
 
+__all__ = ["TIME_LIMIT", "QUEUE_WAIT", "POLL", "Stopped", "WorkerPool"]
+
 TIME_LIMIT = 120.0
 """Longest a page request may plan [s]; past it the worker is stopped and the request gets one line."""
 QUEUE_WAIT = 30.0

@@ -9,6 +9,8 @@ from cutplan.planning.hanging import SAIL_DROP
 from cutplan.render.hanging import hanging_lines
 from cutplan.render.pdf.base import BOLD, FONT, MARGIN, heading, mm, paragraph
 
+__all__ = ["SIDE_VIEW_SCALES", "assembly_pages"]
+
 SIDE_VIEW_SCALES = (1, 2, 2.5, 4, 5, 8, 10, 15, 20, 25, 40, 50)
 """Side-view scales tried, 1:n, largest picture first."""
 

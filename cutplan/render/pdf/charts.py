@@ -13,6 +13,8 @@ from reportlab.lib import colors
 from cutplan.render.pdf.base import BOLD, FONT, LIGHT, SAFE, Placer, heading, mm
 from cutplan.units import INCH, MM
 
+__all__ = ["ROWS_FIRST", "ROWS_MORE", "nice_step", "ROUND_HZ_STEPS", "MIN_HZ_TICKS", "round_hz", "charts"]
+
 ROWS_FIRST = 12
 """Spectrum rows on the chart page."""
 ROWS_MORE = 20

@@ -20,6 +20,8 @@ from cutplan.render.pdf.base import (
     table_pages,
 )
 
+__all__ = ["HOW_TO_USE", "BOTTOM", "cover", "amount_text", "shopping"]
+
 HOW_TO_USE = (
     "Buy what the shopping list names; the plan computes the stock, the rest are suggestions.",
     "Cut each piece long, at its 'cut at' length, never at the finished length: cut long, then trim to "

@@ -6,6 +6,8 @@ from reportlab.lib import colors
 
 from cutplan.render.pdf.base import BOLD, LIGHT, SAFE, Placer, fit, heading, length, mm, paragraph, text_width
 
+__all__ = ["PER_PAGE", "ROW", "stock_pages"]
+
 PER_PAGE = 7
 """Sticks drawn on one page."""
 ROW = 30 * mm

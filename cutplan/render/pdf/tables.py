@@ -19,6 +19,8 @@ from cutplan.render.pdf.base import (
 )
 from cutplan.render.phrases import other_modes_text
 
+__all__ = ["TRIM_WORDS", "STOPPER_WORDS", "allowance", "cut_list", "tuning", "stoppers"]
+
 TRIM_WORDS = "cut long, then trim to pitch (trimming raises the pitch)"
 STOPPER_WORDS = "cut the tube to its cut length, tune with the stopper"
 
