@@ -10,15 +10,13 @@ numbers, so the search and ``cutplan plan`` cannot drift apart.
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 
 import cutplan
 from cutplan.design import DesignErrors
 from cutplan.planning.planner import STUBBY_RATIO
 
-__all__ = ["PLAN_CHUNK", "SETS_PER_PLAN", "cut_length_table", "stubby_below", "finite"]
+__all__ = ["PLAN_CHUNK", "SETS_PER_PLAN", "cut_length_table", "stubby_below"]
 
 PLAN_CHUNK = 128
 """Frequencies per set in one planning call (the design file's limit per set) [-]."""
@@ -79,8 +77,3 @@ def stubby_below(spec):
     if spec.kind == "air-column":
         return 4 * spec.section.air_radius
     return 0.0
-
-
-def finite(x):
-    """Whether a table entry is a real length (the planner could make that pitch)."""
-    return x is not None and not math.isnan(x)

@@ -43,7 +43,7 @@ from cutplan.physics.beam import free_free_length, free_free_root
 from cutplan.physics.roots import bracketed_roots
 
 __all__ = [
-    "PHASE_STEP", "coefficients", "full_determinant", "half_determinants", "fundamental_omegas", "omegas",
+    "PHASE_STEP", "coefficients", "half_determinants", "fundamental_omegas", "omegas",
     "fundamental_lengths", "mode_lengths", "deflection", "fundamental_nodes"
 ]
 
@@ -86,12 +86,6 @@ def coefficients(omega, g, s2, s=1.0):
     c2 = (e1 - e2) / spread
     c3 = (o1 - o2) / spread
     return c0, c1, c2, c3, a, b, e1
-
-
-def full_determinant(omega, g, s2):
-    """Free-free frequency determinant of the whole piece (divided by b = Omega^2) [-]."""
-    c0, c1, c2, c3, a, b, _ = coefficients(omega, g, s2, 1.0)
-    return -b * c2 * c2 - (c3 * (a * a + b) - a * c1) * (b * g * c3 - c1)
 
 
 def half_determinants(omega, g, s2):

@@ -12,8 +12,7 @@ from cutplan.planning import air_calibrated, grain
 
 __all__ = [
     "STRIKE_NOTE_MODE", "partial_notes", "cents_per_mm", "beam_constants", "beam_frequency_function",
-    "air_frequency_function", "plane_constants", "undercut_frequency_function", "piece_frequency_function",
-    "mode_length"
+    "air_frequency_function", "plane_constants", "undercut_frequency_function", "piece_frequency_function"
 ]
 
 STRIKE_NOTE_MODE = 4
@@ -147,8 +146,3 @@ def piece_frequency_function(spec, piece):
     if spec.kind in ("chime", "bar"):
         return beam_frequency_function(spec.material, spec.section, spec.model, spec.target_mode == "strike-note")
     return air_frequency_function(spec)
-
-
-def mode_length(frequency, mode, ei, mu, kga, rho_i):
-    """Timoshenko length whose mode ``mode`` sounds ``frequency`` (closed-form determinant)."""
-    return float(uniform.mode_lengths(frequency, mode, ei, mu, kga, rho_i)[0])

@@ -26,7 +26,7 @@ from cutplan.physics.roots import bracketed_roots
 from cutplan.units import format_length
 
 __all__ = [
-    "CalibrationError", "BeamFit", "fit_beam", "calibrated_material_toml", "AirFit", "fit_air_column",
+    "CalibrationError", "BeamFit", "fit_beam", "AirFit", "fit_air_column",
     "fit_air_column_choice", "AIR_SPEED_RANGE", "END_FACTOR_RANGE", "MAX_RESIDUAL_CENTS", "TrimAdvice",
     "FAR_OFF_CENTS", "trim_advice"
 ]
@@ -91,29 +91,6 @@ def fit_beam(pieces, frequency_at_table):
     scale = math.exp(sum(logs) / len(logs))
     residuals = tuple(1200 * math.log2(m / (p * math.sqrt(scale))) for (_, m), p in zip(pieces, predicted, strict=True))
     return BeamFit(scale=scale, residuals_cents=residuals, predicted_hz=tuple(predicted))
-
-
-def calibrated_material_toml(name, material, model, scale, spread, pieces, residuals, source_text):
-    """A user material file (TOML text) with the fitted modulus, marked as measured."""
-    e = material.modulus_for(model) * scale
-    lines = [
-        f"# Calibrated by cutplan from {len(pieces)} test piece(s) of {material.name} ({source_text}).",
-        f"# Model: {model}. Residuals (cents): " + ", ".join(f"{r:+.2f}" for r in residuals),
-        f"# Table modulus {material.modulus_for(model) / 1e9:.3f} GPa -> fitted {e / 1e9:.3f} GPa "
-        f"({100 * (scale - 1):+.2f} %).",
-        f'["{name}"]',
-        f'description = "{material.name} calibrated from test pieces"',
-        f'modulus = {{ value = "{e / 1e9:.6f} GPa", kind = "measured", where = "cutplan calibrate", '
-        f'spread = "{100 * spread:.2f} %", basis = "dynamic" }}',
-        f'density = {{ value = "{material.density:.3f} kg/m3", kind = "derived", where = "table value kept", '
-        'spread = "0 %" }',
-        f"poisson = {material.poisson}",
-    ]
-    if material.shear_ratio:
-        lines.append(f"shear_ratio = {material.shear_ratio}")
-    elif material.shear_modulus:
-        lines.append(f'shear_modulus = "{material.shear_modulus * scale / 1e9:.6f} GPa"')
-    return "\n".join(lines) + "\n"
 
 
 @dataclass(frozen=True)

@@ -15,16 +15,7 @@ from cutplan.physics import beam_fe
 from cutplan.physics.sections import shear_coefficient_cowper_rectangle
 from cutplan.planning.frequency import plane_constants
 
-__all__ = ["model_name", "elastic_constants", "profile_modes"]
-
-
-def model_name():
-    """Which model :func:`profile_modes` uses: "elastic-2d" or "beam-fe"."""
-    try:
-        from cutplan.physics import elastic2d  # noqa: F401
-    except ImportError:
-        return "beam-fe"
-    return "elastic-2d"
+__all__ = ["elastic_constants", "profile_modes"]
 
 
 def elastic_constants(material):
