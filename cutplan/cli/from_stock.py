@@ -191,7 +191,7 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
     """
     from cutplan.design import DesignErrors
     from cutplan.fromstock.output import design_toml, result_dict
-    from cutplan.fromstock.search import FitError, search
+    from cutplan.fromstock.search import SearchError, search
 
     if bool(have) == bool(design_file):
         fail("from-stock: give the stock on hand with --have (repeatable) or --design FILE, one of the two")
@@ -238,7 +238,7 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
             materials_dirs=materials_dirs, top=top)
     except DesignErrors as exc:
         fail([_option_error(e) for e in exc.errors])
-    except FitError as exc:
+    except SearchError as exc:
         fail(f"--{exc}" if exc.key in ("count", "lowest", "highest", "scale", "kind") else f"from-stock: {exc}")
     if fmt == "json":
         click.echo(json.dumps(result_dict(result), indent=1))

@@ -1,6 +1,6 @@
 """From-stock results as plain data: the design a search writes (mapping and TOML text) and its JSON.
 
-Pure functions of a :class:`cutplan.fromstock.search.FitResult`; lengths in mm in the JSON, as in the
+Pure functions of a :class:`cutplan.fromstock.search.SearchResult`; lengths in mm in the JSON, as in the
 plan JSON.
 """
 
