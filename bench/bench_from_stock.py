@@ -16,7 +16,7 @@ Rows per inventory (demo scenarios):
 import time
 
 from cutplan import pitch
-from cutplan.fromstock import search as fit_stock
+from cutplan.fromstock import search
 
 SCALES = ("major", "natural-minor", "major-pentatonic", "minor-pentatonic", "blues")
 COUNTS = tuple(range(3, 13))
@@ -54,12 +54,12 @@ def main():
 
     import cutplan  # noqa: F401
 
-    fit_stock.lowest_roots(CHIME, INVENTORIES[0][2], SCALES[:1], (3,), LOW, HIGH)  # warm the imports
+    search.lowest_roots(CHIME, INVENTORIES[0][2], SCALES[:1], (3,), LOW, HIGH)  # warm the imports
     print(f"{'inventory':28} {'row':9} {'candidates':>10} {'tested':>7} {'CPU s':>7}  notes")
     worst = 0.0
     for name, base, stock in INVENTORIES:
-        answers, stats = fit_stock.lowest_roots(base, stock, SCALES, COUNTS, LOW, HIGH)
-        found, _, _ = fit_stock._prepare(base, stock, SCALES, list(COUNTS), LOW, HIGH, 440.0, "equal", "mm", ())
+        answers, stats = search.lowest_roots(base, stock, SCALES, COUNTS, LOW, HIGH)
+        found, _, _ = search._prepare(base, stock, SCALES, list(COUNTS), LOW, HIGH, 440.0, "equal", "mm", ())
         roots = sum(len(found.roots(s, c)) for s in SCALES for c in COUNTS)
         worst = max(worst, stats["total_s"])
         probes = (stats["sets_bounded_out"] + stats["sets_first_fit"]
@@ -72,15 +72,15 @@ def main():
         agree = "agrees" if brute == answers else "DIFFERS: " + ", ".join(
             f"{k}: {answers[k]} vs {brute[k]}" for k in answers if answers[k] != brute[k])
         print(f"{'':28} {'exhaust':9} {roots:10d} {packed:7d} {seconds:7.2f}  {agree} with the bisection")
-        result = fit_stock.search(base, stock, SCALES, count=5, lowest=LOW, highest=HIGH)
+        result = search.search(base, stock, SCALES, count=5, lowest=LOW, highest=HIGH)
         st = result.stats
         print(f"{'':28} {'search':9} {'':10} {st['sets_packed']:7d} {st['total_s']:7.2f}  optimiser layouts; "
               f"chose {result.chosen.root} {result.chosen.scale}; confirming plan() {st['confirm_s']:.2f} s")
     base, stock = INVENTORIES[0][1], INVENTORIES[0][2]
-    found, _, _ = fit_stock._prepare(base, stock, SCALES, list(COUNTS), LOW, HIGH, 440.0, "equal", "mm", ())
+    found, _, _ = search._prepare(base, stock, SCALES, list(COUNTS), LOW, HIGH, 440.0, "equal", "mm", ())
     freqs = [pitch.midi_frequency(k) for k in found.keys]
     start = time.process_time()
-    fit_stock.fit_table._planned_cut_lengths(base, {"stock": {"kerf": "1/16 in"}}, freqs, ())
+    search.table._planned_cut_lengths(base, {"stock": {"kerf": "1/16 in"}}, freqs, ())
     print(f"{INVENTORIES[0][0]:28} {'plan-tbl':9} {len(freqs):10d} {'':7} {time.process_time() - start:7.2f}  "
           "building the cut-length table alone (cutplan.plan() in batches)")
     print(f"full search (every root from {LOW}, {len(SCALES)} scales, counts {COUNTS[0]}-{COUNTS[-1]}): "

@@ -18,7 +18,7 @@ import subprocess
 import sys
 import time
 
-from cutplan.layout import optimiser as stock
+from cutplan.layout import optimiser
 from cutplan.layout.optimiser import Item, StockError, StockType, layout
 
 INCH = 0.0254
@@ -48,7 +48,7 @@ def triplets(n, seed):
     return [Item(f"t{i}", mm / 1000) for i, mm in enumerate(out)]
 
 
-class Counting(stock._Work):
+class Counting(optimiser._Work):
     """The optimiser's work counter, remembering how many operations were spent."""
 
     last = None
@@ -113,7 +113,7 @@ def main(argv):
     sizes = [100, 200, 300, 500]
     if "--sizes" in argv:
         sizes = [int(x) for x in argv[argv.index("--sizes") + 1].split(",")]
-    stock._Work = Counting
+    optimiser._Work = Counting
     head = ["stock", "pieces", "result", "bound", "gap", "proven", "LP solves", "operations", "CPU s", "method"]
     print(" | ".join(head))
     worst = 0.0

@@ -28,7 +28,10 @@ import stat
 import tempfile
 from pathlib import Path
 
+from cutplan import folder_guard
 from cutplan.folder_guard import MANIFEST, inspect, locked, pid_alive, remove_tree
+
+__all__ = ["FolderError", "read_manifest", "write_bytes", "check_target", "write_folder", "write_file_whole"]
 
 _TEMP_TAG = ".cutplan-"
 _RENAME_EXCHANGE = 2
@@ -69,9 +72,7 @@ def _exchange(a, b):
 
 def read_manifest(folder):
     """Relative names cutplan wrote into ``folder`` last time (empty if none recorded)."""
-    from cutplan.folder_guard import read_manifest as listed
-
-    return listed(folder) or set()
+    return folder_guard.read_manifest(folder) or set()
 
 
 def _safe_relative(name):

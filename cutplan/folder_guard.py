@@ -18,6 +18,10 @@ import stat
 import time
 from pathlib import Path
 
+__all__ = [
+    "MANIFEST", "LOCK_WAIT", "read_manifest", "Contents", "inspect", "pid_alive", "remove_tree", "locked"
+]
+
 MANIFEST = ".cutplan-files.json"
 """Name of the manifest inside a written folder."""
 LOCK_WAIT = 120.0

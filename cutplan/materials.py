@@ -10,6 +10,7 @@ Nothing is read at import time; :func:`load_library` is given the folders to rea
 
 from __future__ import annotations
 
+import difflib
 import functools
 import math
 import tomllib
@@ -19,6 +20,13 @@ from pathlib import Path
 from cutplan import units
 from cutplan.limits import AIR_SPEED_RANGE
 from cutplan.physics.sections import Section, tube
+from cutplan.planning.air_calibrated import AirCalibration
+from cutplan.plausibility import CLASS_RANGES
+
+__all__ = [
+    "SOURCE_KINDS", "WOOD_BENDING_TO_TRUE_MODULUS", "GRAIN_KEYS", "MaterialError", "Provenance", "Material",
+    "StockSize", "Library", "packaged_dir", "material_from_table", "load_library", "closest_names"
+]
 
 SOURCE_KINDS = (
     "handbook", "standard", "paper", "datasheet", "measured", "derived", "common practice",
@@ -80,7 +88,7 @@ class Material:
     modulus_basis: str = "dynamic"
     modulus_spread: float = 0.03
     density_spread: float = 0.01
-    provenance: tuple = field(default=(), compare=False)
+    provenance: tuple[Provenance, ...] = field(default=(), compare=False)
     material_class: str | None = None
     unusual: bool = False
     fit_residual_cents: float | None = None
@@ -131,10 +139,10 @@ class StockSize:
 class Library:
     """Everything loaded from the material folders."""
 
-    materials: dict
-    stock: dict
-    sources: dict
-    files: tuple = ()
+    materials: dict[str, Material]
+    stock: dict[str, Section]
+    sources: dict[str, str]
+    files: tuple[str, ...] = ()
 
 
 @functools.cache
@@ -159,6 +167,7 @@ def packaged_dir():
 def _read_toml(path):
     """A table file's TOML: a regular file of at most a design file's size (never a pipe, a device,
     a folder or a link loop), or MaterialError naming the file."""
+    # here, not at the top: cutplan.design imports this module (a cycle)
     from cutplan.design.contract import DesignErrors
     from cutplan.design.reader import read_bytes_checked
 
@@ -271,8 +280,6 @@ def material_from_table(name, table, path="(inline)", sources=None):
 def _class_of(path, name, table):
     """(class, unusual) of a material table: ``class = "metal"`` etc. (see cutplan.plausibility),
     ``unusual = true`` when values outside the class's plausible range are meant."""
-    from cutplan.plausibility import CLASS_RANGES
-
     cls = table.get("class")
     if cls is not None and cls not in CLASS_RANGES:
         raise MaterialError(path, f"{name}.class", cls, f"must be one of {', '.join(CLASS_RANGES)}")
@@ -352,8 +359,6 @@ def _parse_speed(text):
 
 def _air_calibration(path, name, row):
     """The measured speed of sound and end correction of a stock size (all three keys together)."""
-    from cutplan.planning.air_calibrated import AirCalibration
-
     missing = [k for k in _AIR_KEYS if k not in row]
     if missing:
         raise MaterialError(path, f"sizes.{name}.{missing[0]}", "", "is missing; a calibrated size gives "
@@ -429,8 +434,6 @@ def closest_names(value, choices, count=3):
     >>> closest_names("aluminium", ["aluminum-6061-t6", "aluminum-6063-t5", "maple-sugar"])
     ['aluminum-6063-t5', 'aluminum-6061-t6']
     """
-    import difflib
-
     text = str(value).strip().lower().replace("aluminium", "aluminum").replace("colour", "color")
     choices = sorted(choices)
     if text in choices:

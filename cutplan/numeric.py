@@ -9,6 +9,8 @@ import warnings
 
 import numpy as np
 
+__all__ = ["NumericError", "quiet", "LENGTH_RANGE", "plan_problem", "checked_plan"]
+
 
 class NumericError(ArithmeticError):
     """A computation overflowed or gave a non-finite or non-positive result; str() is one line."""

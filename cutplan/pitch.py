@@ -19,6 +19,16 @@ import re
 from dataclasses import dataclass
 from fractions import Fraction
 
+from cutplan.spelling import did_you_mean, scale_names
+
+__all__ = [
+    "A4_FREQUENCY", "A4_MIDI", "SCALES", "JUST_RATIOS", "PYTHAGOREAN_RATIOS", "TEMPERAMENT_FORMS",
+    "PitchError", "NOTE_FORMS", "SCALE_FORMS", "scale_forms", "Target", "parse_note", "note_name",
+    "SPELLINGS", "spelled_names", "midi_frequency", "note_frequency", "cents", "nearest_note",
+    "parse_ratio", "parse_temperament", "degree_frequency", "scale_offsets", "scale_targets",
+    "range_targets", "note_targets", "parse_scale_spec", "spec_targets"
+]
+
 A4_FREQUENCY = 440.0
 """Standard tuning frequency [Hz]: the A above middle C. ISO 16:1975."""
 A4_MIDI = 69
@@ -82,8 +92,6 @@ SCALE_FORMS = "one of: " + ", ".join(SCALES)
 def scale_forms(text):
     """What an unknown scale name could have been, then every scale:
     'a scale name; did you mean major-pentatonic or minor-pentatonic? (one of: major, ...)'."""
-    from cutplan.spelling import did_you_mean, scale_names
-
     hint = did_you_mean(scale_names(text, SCALES))
     return f"a scale name{hint} ({SCALE_FORMS})" if hint else SCALE_FORMS
 

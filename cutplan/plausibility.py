@@ -11,6 +11,12 @@ against the handbook values in ``materials/``): every tabled material sits well 
 
 from __future__ import annotations
 
+__all__ = [
+    "CLASS_RANGES", "ANY_RANGE", "SHEAR_RATIO_RANGES", "ANY_SHEAR_RATIO", "FIT_RESIDUAL_LIMIT_CENTS",
+    "PHYSICAL_RANGE", "modulus_range", "density_range", "shear_ratio_range", "problems",
+    "physical_problems", "material_problems"
+]
+
 CLASS_RANGES = {
     # class: ((E low, E high) [Pa], (density low, high) [kg/m^3])
     "metal": ((10e9, 450e9), (1500.0, 22000.0)),

@@ -16,6 +16,8 @@ import difflib
 import re
 from fractions import Fraction
 
+__all__ = ["SIZE_TOLERANCE", "stock_size_names", "scale_names", "did_you_mean"]
+
 _NAME = re.compile(r"(?P<family>[a-z][a-z0-9-]*?)-(?P<size>\d+-\d+/\d+|\d+/\d+|\d*\.\d+|\d+)(?:x(?P<wall>\d*\.\d+))?")
 _WORDS = {"aluminum": "al", "aluminium": "al", "alu": "al", "conduit": "emt", "cu": "copper"}
 """Other words for the families of the stock tables (common practice at the counter)."""

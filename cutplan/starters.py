@@ -1,5 +1,7 @@
 """Commented starter design files written by ``cutplan new KIND``; scenarios of our own."""
 
+__all__ = ["CHIME", "BAR", "AIR_COLUMN", "STARTERS"]
+
 CHIME = '''# cutplan design: a starter chime set. Edit, then run: cutplan plan THIS-FILE
 # Scenario: six aluminium tubes for a balcony, in a G major pentatonic scale.
 title = "Balcony chime"

@@ -24,6 +24,14 @@ import re
 from dataclasses import dataclass
 from fractions import Fraction
 
+__all__ = [
+    "MM", "CM", "INCH", "FOOT", "PSI", "POUND", "ZERO_CELSIUS", "UnitError", "LENGTH_FORMS",
+    "MODULUS_FORMS", "DENSITY_FORMS", "TEMPERATURE_FORMS", "PERCENT_FORMS", "FREQUENCY_FORMS",
+    "bare_length_forms", "parse_length", "parse_modulus", "parse_density", "parse_frequency",
+    "parse_temperature", "parse_percent", "format_mm", "fraction_inches", "format_inches",
+    "INCH_DENOMINATOR", "mm_text", "inch_text", "format_length", "length_cell", "length_heading"
+]
+
 MM = 1e-3
 """One millimetre [m]."""
 CM = 1e-2

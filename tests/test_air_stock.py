@@ -73,13 +73,13 @@ def test_calibrated_speed_follows_the_designs_temperature(tmp_path):
 def test_calibrated_speed_reproduces_its_test_pipe_exactly(tmp_path):
     # two-resonance method: the first two resonances of a closed tube at one frequency, L1 and L2
     # (L2 - L1 = lambda / 2); with every model on, the calibrated stock must put both back at 512 Hz
-    from cutplan.planning import air_calibrated as air_stock
+    from cutplan.planning import air_calibrated
 
     mats = tmp_path / "mats"
     _run(["calibrate", "--kind", "air-column", "--stock", "pvc-sch40-1", "--two-resonance",
           "160 mm, 495 mm @ 512", "--temperature", "22 C", "-o", str(mats / "pvc.toml")])
     spec = cutplan.load_design(_design(tmp_path, "pvc-sch40-1-calibrated")).sets[0]
-    model = air_stock.column_model(spec)
+    model = air_calibrated.column_model(spec)
     assert model["temperature"] is not None  # wall losses on
     # (to the digits the stock file keeps: 1 mHz in speed, 0.1 um in length, 1 nm in the bore)
     assert air_column.column_frequency(0.160, **model) == pytest.approx(512.0, rel=1e-9)

@@ -14,7 +14,11 @@ import cutplan
 from cutplan.materials import load_library
 from cutplan.physics.sections import Section
 from cutplan.planning import uncertainty
-from cutplan.tuning.calibrate_moduli import _partial_frequencies, calibrated_moduli_toml, fit_moduli
+from cutplan.tuning.calibrate_moduli import (
+    calibrated_moduli_toml,
+    fit_moduli,
+    partial_frequencies,
+)
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -56,7 +60,7 @@ def _maple_fit(lengths):
     e, g = maple.modulus_for("timoshenko") * 1.04, maple.shear_modulus_for("timoshenko") * 1.04
     measured = []
     for length in lengths:
-        f = _partial_frequencies(maple, section, "timoshenko", e, g, length, 3)
+        f = partial_frequencies(maple, section, "timoshenko", e, g, length, 3)
         measured += [(length, mode, float(hz)) for mode, hz in enumerate(f, start=1)]
     return maple, fit_moduli(measured, maple, section, "timoshenko")
 

@@ -40,8 +40,8 @@ def test_too_little_stock_in_total_is_answered_without_any_search(monkeypatch):
     def no_search(*_args, **_kwargs):
         raise AssertionError("a search ran although the total length already says no")
 
-    monkeypatch.setattr(columns, "_column_generation", no_search)
-    monkeypatch.setattr(columns, "_cheaper_mixes", no_search)
+    monkeypatch.setattr(columns, "column_generation", no_search)
+    monkeypatch.setattr(columns, "cheaper_mixes", no_search)
     with pytest.raises(StockError, match="cannot hold all 400 pieces"):
         layout(items, [StockType(stick, count=count)], kerf=kerf, end_trim=trim)
 
@@ -144,28 +144,28 @@ def test_material_ratios_have_ranges(tmp_path, key, value):
 def test_from_stock_never_hands_the_optimiser_a_clock(monkeypatch):
     # the optimiser's own result does not depend on the clock (tests/test_stock.py); from-stock
     # must not add a wall-clock limit that turns a slow machine's sets into "not offered"
-    from cutplan.fromstock import search as fit_stock
+    from cutplan.fromstock import search
 
-    real, limits = fit_stock.optimiser.layout, []
+    real, limits = search.optimiser.layout, []
 
     def spy(items, types, kerf=0.0, end_trim=0.0, time_limit=None, **kw):
         limits.append(time_limit)
         return real(items, types, kerf, end_trim, time_limit, **kw)
 
-    monkeypatch.setattr(fit_stock.optimiser, "layout", spy)
+    monkeypatch.setattr(search.optimiser, "layout", spy)
     result = _run("from-stock", "--have", "8 ft x 2", "--stock-size", "al-1.000x0.065", "--count", 8)
     assert result.exit_code == 0, result.output
     assert limits and set(limits) == {None}
 
 
 def test_a_cut_list_stopped_early_states_its_bound(tmp_path, monkeypatch):
-    import cutplan.layout.optimiser as stock
+    from cutplan.layout import optimiser
 
     design = tmp_path / "porch.toml"
     design.write_text('[[set]]\nname = "porch"\nkind = "chime"\nnotes = ["C5", "D5", "E5", "F5", "G5", "A5", "B5", '
                       '"C6", "D6", "E6", "F6", "G6"]\nsection = { stock = "al-1.000x0.065" }\n'
                       '[stock]\nlengths = [{ length = "6 ft", price = 9.5 }, { length = "8 ft", price = 12 }]\n')
-    monkeypatch.setattr(stock, "DEFAULT_OPS", 1)  # no work at all beyond first fit decreasing
+    monkeypatch.setattr(optimiser, "DEFAULT_OPS", 1)  # no work at all beyond first fit decreasing
     result = _run("cutlist", design)
     assert result.exit_code == 0, result.output
     assert "best found, not proven optimal" in result.output and "no layout costs less than" in result.output

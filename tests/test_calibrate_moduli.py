@@ -11,7 +11,7 @@ from cutplan.materials import load_library
 from cutplan.physics.sections import bar, rod, tube
 from cutplan.planning.frequency import beam_frequency_function
 from cutplan.tuning.calibrate import CalibrationError, fit_beam
-from cutplan.tuning.calibrate_moduli import _partial_frequencies, fit_moduli, partials_from_peaks
+from cutplan.tuning.calibrate_moduli import fit_moduli, partial_frequencies, partials_from_peaks
 
 LIB = load_library()
 MAPLE = LIB.materials["maple-sugar"]
@@ -26,7 +26,7 @@ DEEP = bar(0.050, 0.022)
 def synthetic(material, section, length, modes, e, g, noise_cents, seed):
     """Partials computed with the shear-corrected model from known E and G, plus reading noise."""
     rng = np.random.default_rng(seed)
-    f = _partial_frequencies(material, section, "timoshenko", e, g, length, modes)
+    f = partial_frequencies(material, section, "timoshenko", e, g, length, modes)
     return [(length, n, fn * 2 ** (rng.normal(0.0, noise_cents) / 1200)) for n, fn in enumerate(f, start=1)]
 
 
@@ -74,7 +74,7 @@ def test_a_lone_second_partial_is_refused_and_named():
     # measuring partial 2 (about 2.7 x f1, Blevins 1979 Table 8-1 ratio 2.7565 less shear) as the
     # fundamental implies E about 7.4 x the table: outside the metal range of cutplan.plausibility
     sec = tube(0.0254, 0.065 * 0.0254)
-    f2 = _partial_frequencies(AL, sec, "timoshenko", AL.modulus, AL.shear_modulus_for("timoshenko"), 0.5, 2)[1]
+    f2 = partial_frequencies(AL, sec, "timoshenko", AL.modulus, AL.shear_modulus_for("timoshenko"), 0.5, 2)[1]
     with pytest.raises(CalibrationError, match="looks like partial 2"):
         fit_moduli([(0.5, 1, f2)], AL, sec)
 
@@ -100,7 +100,7 @@ def test_cli_fits_e_and_g_from_a_listed_piece_then_recalibrates_holding_g(tmp_pa
     cal = lib.materials["maple-sugar-calibrated"]
     assert cal.shear_modulus == pytest.approx(G_TRUE, rel=1e-4)
     # calibrated again from one more tuner reading: found through --materials, G held
-    f1 = _partial_frequencies(MAPLE, DEEP, "timoshenko", E_TRUE * 1.01, G_TRUE, 0.38, 1)[0]
+    f1 = partial_frequencies(MAPLE, DEEP, "timoshenko", E_TRUE * 1.01, G_TRUE, 0.38, 1)[0]
     r = _run(["calibrate", "--kind", "bar", "--material", "maple-sugar-calibrated", "--materials", str(mats),
               "--bar", "50 mm x 22 mm", "--piece", f"380 mm @ {f1:.4f}", "-o", str(mats / "maple.toml"), "--force"])
     assert r.exit_code == 0, r.output
@@ -184,7 +184,7 @@ def test_plan_with_the_fitted_e_and_g_gives_the_true_length_of_a_new_bar(tmp_pat
 def test_cli_accepts_an_overtone_read_on_a_tuner_when_marked_with_its_partial_number():
     # a tuner reading of partial 2 alone, marked "#2", calibrates E just as partial 1 would
     sec = tube(0.0254, 0.065 * 0.0254)
-    f = _partial_frequencies(AL, sec, "timoshenko", AL.modulus * 1.02, AL.shear_modulus_for("timoshenko") * 1.02,
+    f = partial_frequencies(AL, sec, "timoshenko", AL.modulus * 1.02, AL.shear_modulus_for("timoshenko") * 1.02,
                              0.5, 2)
     r1 = _run(["calibrate", "--material", "aluminum-6063-t5", "--tube", "1 in x 0.065 in",
                "--piece", f"500 mm @ {f[0]:.4f}"])

@@ -50,10 +50,10 @@ def test_a_misread_partial_is_named():
     # a uniform bar's three partials from the shear-corrected model (maple, table E and G, 440 mm),
     # with partial 3 read 10 % high: the other two agree, partial 3 is the odd one out
     from cutplan.physics.sections import bar
-    from cutplan.tuning.calibrate_moduli import _partial_frequencies
+    from cutplan.tuning.calibrate_moduli import partial_frequencies
 
     maple = load_library().materials["maple-sugar"]
-    f = _partial_frequencies(maple, bar(0.05, 0.022), "timoshenko", maple.modulus_for("timoshenko"),
+    f = partial_frequencies(maple, bar(0.05, 0.022), "timoshenko", maple.modulus_for("timoshenko"),
                              maple.shear_modulus_for("timoshenko"), 0.44, 3)
     listed = f"{f[0]:.2f}, {f[1]:.2f}, {1.1 * f[2]:.2f}"
     r = CliRunner().invoke(cli, ["calibrate", "--kind", "bar", "--material", "maple-sugar", "--bar", "50 mm x 22 mm",

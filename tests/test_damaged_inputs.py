@@ -88,7 +88,7 @@ def test_the_page_reads_its_material_folders_once(tmp_path, monkeypatch):
     (folder / "shop.toml").write_text('[shop-brass]\nmodulus = "100 GPa"\ndensity = "8500 kg/m3"\nclass = "metal"\n')
     calls = []
     real = materials.load_library
-    monkeypatch.setattr(materials, "load_library", lambda *a, **k: calls.append(a) or real(*a, **k))
+    monkeypatch.setattr(service, "load_library", lambda *a, **k: calls.append(a) or real(*a, **k))
     monkeypatch.setattr(service, "_LIBRARIES", {})
     planner = service.Planner([folder])
     data = {"set": [{"kind": "chime", "notes": ["D5"], "material": "shop-brass",
@@ -153,14 +153,14 @@ def test_a_stereo_take_with_one_channel_wired_backwards_is_not_silent(tmp_path):
 
 def test_a_fundamental_measured_with_little_confidence_is_not_reported(tmp_path, monkeypatch):
     from cutplan.audio import analysis
-    from cutplan.cli import measure as shop
+    from cutplan.cli import measure
 
     take = tmp_path / "take.wav"
     take.write_bytes(b"")  # never read: the measurement is replaced below
-    monkeypatch.setattr(shop, "_measure_file", lambda *a, **k: analysis.Measurement(523.3, (523.3,), 0.08,
+    monkeypatch.setattr(measure, "measure_file", lambda *a, **k: analysis.Measurement(523.3, (523.3,), 0.08,
                                                                                     "chime", False))
     _one_line(_run("measure", take), "confidence 0.08", "too unsure")
-    monkeypatch.setattr(shop, "_measure_file", lambda *a, **k: analysis.Measurement(523.3, (523.3,), 0.9,
+    monkeypatch.setattr(measure, "measure_file", lambda *a, **k: analysis.Measurement(523.3, (523.3,), 0.9,
                                                                                     "chime", True))
     assert _run("measure", take).exit_code == 0
 

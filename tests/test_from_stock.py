@@ -16,9 +16,7 @@ import cutplan
 from cutplan import pitch
 from cutplan.cli import cli
 from cutplan.design import StockLength, StockSpec
-from cutplan.fromstock import pack as fit_pack
-from cutplan.fromstock import search as fit_stock
-from cutplan.fromstock import table as fit_table
+from cutplan.fromstock import pack, search, table
 
 ROOT = Path(__file__).resolve().parent.parent
 EIGHT_FEET_MM = 2438.4  # 8 ft x 304.8 mm/ft (international foot, exact by definition since 1959)
@@ -163,7 +161,7 @@ def test_the_table_gives_the_planners_cut_lengths():
         design = cutplan.design_from_mapping({**top, "set": [{**base, "notes": notes}]})
         planned = cutplan.plan(design)
         spec = design.sets[0]
-        lengths, cuts = fit_table.cut_length_table([t.frequency for t in spec.targets], base, top)
+        lengths, cuts = table.cut_length_table([t.frequency for t in spec.targets], base, top)
         for piece, length, cut in zip(planned.pieces, lengths, cuts, strict=True):
             assert length == pytest.approx(piece.length, abs=1e-9)
             assert cut == pytest.approx(piece.cut_length, abs=1e-6)  # brentq xtol 1e-7 m in the planner
@@ -174,8 +172,8 @@ def test_lowest_root_by_bisection_equals_a_scan_of_every_root():
     stock = {"lengths": [{"length": "8 ft", "count": 1}, {"length": "4 ft", "count": 1},
                          {"length": "600 mm", "count": 3}], "kerf": "1/16 in", "end_trim": "1/8 in"}
     scales, counts = ("major", "minor-pentatonic"), tuple(range(3, 11))
-    answers, _ = fit_stock.lowest_roots(base, stock, scales, counts, "C2", "C8")
-    found, _, _ = fit_stock._prepare(base, stock, scales, list(counts), "C2", "C8", 440.0, "equal", "mm", ())
+    answers, _ = search.lowest_roots(base, stock, scales, counts, "C2", "C8")
+    found, _, _ = search._prepare(base, stock, scales, list(counts), "C2", "C8", 440.0, "equal", "mm", ())
     for s in scales:
         for c in counts:
             scan = next((r for r in found.roots(s, c)
@@ -185,7 +183,7 @@ def test_lowest_root_by_bisection_equals_a_scan_of_every_root():
 
 def test_exact_assignment_finds_a_tight_layout_and_refuses_an_impossible_one():
     # hand arithmetic: 0.6 + 0.5 + 0.4 = 1.5 m, so two 1.5 m sticks hold two such triples exactly
-    room = fit_pack.StockRoom(StockSpec((StockLength(1.5, 2),), kerf=0.0, end_trim=0.0))
+    room = pack.StockRoom(StockSpec((StockLength(1.5, 2),), kerf=0.0, end_trim=0.0))
     cuts = [0.6, 0.6, 0.5, 0.5, 0.4, 0.4]
     layout = room.exact_assignment(cuts)
     assert len(layout) == 2
@@ -197,7 +195,7 @@ def test_exact_assignment_finds_a_tight_layout_and_refuses_an_impossible_one():
 
 
 def test_bounds_never_refuse_a_set_the_exact_search_places():
-    room = fit_pack.StockRoom(StockSpec((StockLength(2.4384, 1), StockLength(0.6, 3)), kerf=1.6e-3,
+    room = pack.StockRoom(StockSpec((StockLength(2.4384, 1), StockLength(0.6, 3)), kerf=1.6e-3,
                                         end_trim=3.2e-3))
     for k in range(40):
         cuts = [0.2 + 0.37 * ((k * 7 + i * 13) % 11) / 11 for i in range(3 + k % 7)]

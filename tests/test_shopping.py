@@ -67,7 +67,7 @@ def test_suggested_sizes_are_round_in_the_plans_units_and_a_plate_is_not_a_board
     # is 4.724 in; the nearest quarter inch is 4-3/4 in. "1 x 4-3/4 in" would read as lumber.
     import cutplan
     from cutplan.planning.shopping import round_in_unit, shopping_list
-    from cutplan.render.pdf.cover import _amount
+    from cutplan.render.pdf.cover import amount_text
 
     assert round_in_unit(0.120, "in") == pytest.approx(4.75 * 0.0254)
     assert round_in_unit(0.120, "mm") == pytest.approx(0.120)
@@ -76,7 +76,7 @@ def test_suggested_sizes_are_round_in_the_plans_units_and_a_plate_is_not_a_board
     items = {it.what: it for it in shopping_list(plan)}
     plate = items["hanging plate for porch"]
     assert (plate.each / 0.0254 * 4) == pytest.approx(round(plate.each / 0.0254 * 4))  # whole quarter inches
-    assert not _amount(plan, plate).startswith("1 x")
+    assert not amount_text(plan, plate).startswith("1 x")
     line = next(it for w, it in items.items() if w.startswith("hanging line"))
     # the line is bought in whole feet in an inch plan (1 ft = 12 in = 0.3048 m exactly)
     assert line.total / 0.3048 == pytest.approx(round(line.total / 0.3048))

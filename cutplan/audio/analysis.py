@@ -18,6 +18,13 @@ from dataclasses import dataclass, replace
 from cutplan.audio.hum import hum_note
 from cutplan.audio.partials import Partial, find_partials_and_hum
 from cutplan.audio.wav import RecordingError
+from cutplan.numeric import quiet
+from cutplan.pitch import nearest_note
+
+__all__ = [
+    "PATTERNS", "KIND_PATTERNS", "MATCH_TOLERANCE", "ABSENT_FACTOR", "LOW_CONFIDENCE", "MIN_FUNDAMENTAL_HZ",
+    "Reading", "Measurement", "readings", "identify", "measure"
+]
 
 PATTERNS = {
     # ratios of partials to the fundamental, and how far the highest listed may fall below nominal
@@ -72,7 +79,7 @@ class Reading:
     fundamental_hz: float
     score: float
     heard: bool
-    modes: tuple
+    modes: tuple[tuple[int, int], ...]
 
 
 @dataclass(frozen=True)
@@ -82,14 +89,14 @@ class Measurement:
     (None: not explained), the ranked readings and the warnings for the builder."""
 
     fundamental_hz: float
-    partials_hz: tuple
+    partials_hz: tuple[float, ...]
     confidence: float
     pattern: str
     fundamental_heard: bool
-    partials: tuple = ()
-    modes: tuple = ()
-    readings: tuple = ()
-    warnings: tuple = ()
+    partials: tuple[Partial, ...] = ()
+    modes: tuple[int | None, ...] = ()
+    readings: tuple[Reading, ...] = ()
+    warnings: tuple[str, ...] = ()
 
 
 def _window(ratios, drop, k):
@@ -155,8 +162,6 @@ def _fundamental(reading, partials, ratios):
 
 
 def _describe(reading, f1):
-    from cutplan.pitch import nearest_note
-
     name, off = nearest_note(f1, 440.0)
     return f"{f1:.1f} Hz ({name} {off:+.0f} cents) as {reading.pattern}"
 
@@ -231,7 +236,6 @@ def measure(samples, rate, kind="any", near=None, ratios=None):
     Numeric warnings stay inside; a recording with no tonal peak, or none near ``near`` [Hz],
     raises :class:`RecordingError`.  Mains hum left out of the partials is named among the warnings.
     """
-    from cutplan.numeric import quiet
 
     partials, hum = quiet(find_partials_and_hum, samples, rate)
     m = quiet(identify, partials, kind, near, ratios)

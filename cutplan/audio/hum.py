@@ -19,6 +19,9 @@ from __future__ import annotations
 
 import numpy as np
 
+__all__ = ["MAINS_HZ", "MAINS_TOLERANCE", "HARMONICS", "MIN_PREROLL_S", "STEADY_DB", "PROMINENCE_DB", "hum_lines", "is_hum",
+           "hum_note"]
+
 MAINS_HZ = (50.0, 60.0)
 """Nominal supply frequencies [Hz] (IEC 60038, IEC standard voltages: 50 Hz and 60 Hz systems;
 from memory)."""

@@ -12,6 +12,8 @@ import numpy as np
 
 from cutplan.physics.beam import mode_shape
 
+__all__ = ["RATE", "tone", "piece_amplitudes", "piece_preview", "arpeggio"]
+
 RATE = 44100
 """Sample rate of previews [Hz]."""
 

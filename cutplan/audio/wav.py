@@ -22,6 +22,11 @@ import struct
 
 import numpy as np
 
+__all__ = [
+    "MAX_SECONDS", "MAX_CHANNELS", "RATE_RANGE", "STREAMING", "RecordingError", "wav_info", "read_wav",
+    "wav_bytes"
+]
+
 MAX_SECONDS = 600.0
 """Longest recording accepted [s]: a struck piece rings for seconds, not minutes."""
 MAX_CHANNELS = 32

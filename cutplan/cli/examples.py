@@ -13,6 +13,8 @@ import click
 
 from cutplan.cli.common import fail
 
+__all__ = ["examples_dir", "example_names", "example_text", "examples_command"]
+
 
 def examples_dir():
     """The bundled example designs: inside the wheel, or ``examples/`` of a source checkout."""

@@ -2,15 +2,20 @@
 
 from __future__ import annotations
 
+import json
 import re
+from pathlib import Path
 
 import click
 
-from cutplan.cli.common import MATERIALS_OPTION, fail, write_file
+from cutplan.cli.common import MATERIALS_OPTION, fail, load_or_exit, write_file
 from cutplan.design.contract import MAX_STOCK_COUNT
 from cutplan.render.phrases import TRIM_RULE, caution_lines, sentence
 from cutplan.render.stock_layout import stick_lines, stick_rows
-from cutplan.units import INCH_DENOMINATOR, length_parts
+from cutplan.units import INCH_DENOMINATOR, UnitError, length_parts, parse_frequency, parse_length
+
+__all__ = ["HAVE_FORMS", "from_stock_command"]
+
 
 HAVE_FORMS = '"LENGTH [x COUNT]" with a unit, e.g. "8 ft x 2", "2.4 m" or "600 mm x 3"'
 _HAVE = re.compile(r"\s*(.+?)\s*(?:[x×*]\s*(-?\d+))?\s*")
@@ -19,8 +24,6 @@ _HAS_UNIT = re.compile(r"[a-zA-Z'\"′″]")
 
 def _have_lengths(texts):
     """[{length, count}, ...] from --have options (one line and exit 2 on a bad one)."""
-    from cutplan.units import UnitError, parse_length
-
     out = []
     for text in texts:
         match = _HAVE.fullmatch(text)
@@ -67,10 +70,9 @@ _SET_KEYS_KEPT = ("kind", "material", "section", "model", "target", "ends", "end
 def _design_stock(path, materials_dirs):
     """From a design file: its [stock] as written, its units and tuning, its first chime, bar or
     air-column set without the notes, and its material folders (exit 2 on errors)."""
-    from cutplan.cli.common import _load
     from cutplan.design import DesignErrors, read_design_file
 
-    design, _lib = _load(path, materials_dirs)  # validates the whole file, one line per problem
+    design, _lib = load_or_exit(path, materials_dirs)  # validates the whole file, one line per problem
     try:
         raw = read_design_file(path)
     except DesignErrors as exc:
@@ -182,11 +184,9 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
       cutplan from-stock --design porch.toml --count 5 -o porch-5.toml
       cutplan from-stock --have "10 ft x 1" --stock-size emt-3/4 --count 5 --target strike-note
     """
-    from pathlib import Path
-
     from cutplan.design import DesignErrors
-    from cutplan.fromstock import output as fit_output
-    from cutplan.fromstock import search as fit_stock
+    from cutplan.fromstock.output import design_toml, result_dict
+    from cutplan.fromstock.search import SearchError, search
 
     if bool(have) == bool(design_file):
         fail("from-stock: give the stock on hand with --have (repeatable) or --design FILE, one of the two")
@@ -221,31 +221,27 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
         base_set["target"] = target
     objective = "most" if most else ("waste" if least_waste else "lowest")
     if a4 is None and isinstance(tuning.get("a4"), str):  # the design file may say a4 = "440 Hz"
-        from cutplan.units import UnitError, parse_frequency
-
         try:
             tuning["a4"] = parse_frequency(tuning["a4"])
         except UnitError as exc:
             fail(f"{design_file}: tuning.a4: {exc.text!r} is not {exc.accepted}")
     try:
-        result = fit_stock.search(
+        result = search(
             base_set, stock, scales or ("major-pentatonic",), count=count, objective=objective, lowest=lowest,
             highest=highest, a4=a4 if a4 is not None else tuning.get("a4", 440.0),
             temperament=temperament or tuning.get("temperament", "equal"), units=shown,
             materials_dirs=materials_dirs, top=top)
     except DesignErrors as exc:
         fail([_option_error(e) for e in exc.errors])
-    except fit_stock.FitError as exc:
+    except SearchError as exc:
         fail(f"--{exc}" if exc.key in ("count", "lowest", "highest", "scale", "kind") else f"from-stock: {exc}")
     if fmt == "json":
-        import json
-
-        click.echo(json.dumps(fit_output.result_dict(result), indent=1))
+        click.echo(json.dumps(result_dict(result), indent=1))
     else:
         click.echo(_render(result, heard=target == "strike-note"), nl=False)
     if output:
         c = result.chosen
-        text = fit_output.design_toml(result.design, header=(
+        text = design_toml(result.design, header=(
             f"{c.count} notes of {c.root} {c.scale}, chosen by `cutplan from-stock` to fit the stock below.",
             "Plan it with: cutplan plan THIS-FILE"))
         write_file(output, text)

@@ -6,17 +6,24 @@ from pathlib import Path
 
 import click
 
+from cutplan import pitch
 from cutplan.cli.common import (
     DESIGN_DIRS_OPTION,
     MATERIALS_OPTION,
-    _one_piece_design,
-    _plan,
     fail,
     material_folders,
+    one_piece_design,
+    plan_or_exit,
     section_options,
     write_file,
 )
+from cutplan.cli.examples import example_text
 from cutplan.limits import A4_ALLOWED, a4_ok
+from cutplan.starters import STARTERS
+from cutplan.units import format_length
+
+__all__ = ["scale_command", "materials_command", "length_command", "new_command"]
+
 
 
 @click.command("scale")
@@ -34,7 +41,6 @@ def scale_command(spec, a4, temperament, spelling):
       cutplan scale "D5 major-pentatonic 5"
       cutplan scale "C4..C5 major" --temperament just
     """
-    from cutplan import pitch
 
     if not a4_ok(a4):
         fail(f"--a4: {a4} {A4_ALLOWED}")
@@ -108,11 +114,9 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
     """
     if (note is None) == (frequency is None):
         fail("length: give exactly one of --note or --frequency")
-    des = _one_piece_design("length", kind, note, frequency, material, stock_name, tube, rod, bar_size,
+    des = one_piece_design("length", kind, note, frequency, material, stock_name, tube, rod, bar_size,
                             ends, temperature, model, a4, material_folders(materials_dirs, design_path))
-    the_plan = _plan(des)
-    from cutplan.units import format_length
-
+    the_plan = plan_or_exit(des)
     p = the_plan.pieces[0]
     click.echo(f"{p.note}: {p.target_hz:.2f} Hz, {the_plan.sets[0].section_label(units)}, {p.model}")
     click.echo(f"  length      {format_length(p.length, units)}")
@@ -149,9 +153,6 @@ def new_command(kind, file, example, force):
       cutplan new chime porch.toml
       cutplan new --from porch-chimes porch.toml
     """
-    from cutplan.cli.examples import example_text
-    from cutplan.starters import STARTERS
-
     if example is not None:
         if file is not None:
             fail(f"new: give FILE once; with --from the only argument is FILE (got {kind!r} and {file!r})")

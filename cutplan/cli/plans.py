@@ -2,17 +2,24 @@
 
 from __future__ import annotations
 
+import json
+
 import click
 
 from cutplan.cli.common import (
     MATERIALS_OPTION,
-    _check_output_dir,
-    _load,
-    _parse_stock_option,
-    _plan,
+    check_output_dir,
     fail,
+    load_or_exit,
+    parse_stock_option,
+    plan_or_exit,
     write_folder,
 )
+
+__all__ = ["plan_command", "cutlist_command"]
+
+# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
+# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
 
 
 @click.command("plan")
@@ -34,9 +41,9 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
       cutplan plan examples/porch-chimes.toml --format json
       cutplan plan examples/porch-chimes.toml -o porch-packet
     """
-    out = _check_output_dir(output, force) if output else None
-    des, _lib = _load(design, materials_dirs, units)
-    the_plan = _plan(des)
+    out = check_output_dir(output, force) if output else None
+    des, _lib = load_or_exit(design, materials_dirs, units)
+    the_plan = plan_or_exit(des)
     from cutplan.render.table import render_csv, render_json
     from cutplan.render.terminal import render_table
 
@@ -73,11 +80,9 @@ def cutlist_command(design, stock_texts, kerf, end_trim, units, fmt, materials_d
       cutplan cutlist examples/porch-chimes.toml
       cutplan cutlist examples/porch-chimes.toml --stock "6 ft x 4" --stock "10 ft @ 14.5"
     """
-    import json
-
-    des, _lib = _load(design, materials_dirs, units)
-    override = _parse_stock_option(stock_texts, kerf, end_trim) if stock_texts else None
-    the_plan = _plan(des, override)
+    des, _lib = load_or_exit(design, materials_dirs, units)
+    override = parse_stock_option(stock_texts, kerf, end_trim) if stock_texts else None
+    the_plan = plan_or_exit(des, override)
     if the_plan.cut_list is None:
         fail(f"{design}: stock: the design has no [stock] lengths; add them or use --stock \"8 ft x 2\"")
     if fmt == "json":

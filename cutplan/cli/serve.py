@@ -2,9 +2,16 @@
 
 from __future__ import annotations
 
+import errno
+
 import click
 
 from cutplan.cli.common import MATERIALS_OPTION, fail
+
+__all__ = ["serve_command"]
+
+# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
+# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
 
 
 @click.command("serve")
@@ -34,8 +41,6 @@ def serve_command(port, host, open_browser, workers, materials_dirs):
     warning = exposure_warning(host)
     if warning:
         click.echo(warning, err=True)
-    import errno
-
     chosen = click.get_current_context().get_parameter_source("port") != click.core.ParameterSource.DEFAULT
     try:
         serve(host, port, open_browser, materials_dirs, echo=lambda line: click.echo(line, err=True), workers=workers,

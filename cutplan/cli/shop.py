@@ -2,7 +2,10 @@
 
 from __future__ import annotations
 
+import json
+import re
 import textwrap
+from dataclasses import replace
 from pathlib import Path
 
 import click
@@ -10,24 +13,28 @@ import click
 from cutplan.cli.common import (
     DESIGN_DIRS_OPTION,
     MATERIALS_OPTION,
-    _check_output_dir,
-    _load,
-    _one_piece_design,
-    _plan,
+    check_output_dir,
     fail,
+    load_or_exit,
     material_folders,
+    one_piece_design,
+    plan_or_exit,
     section_options,
     write_file,
     write_folder,
 )
-from cutplan.cli.measure import _measure_file
+from cutplan.cli.measure import measure_file
+from cutplan.units import UnitError, parse_length, parse_temperature
+
+__all__ = ["calibrate_command", "trim_command", "listen_command"]
+
+# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
+# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
+
 
 
 def _parse_pieces(texts, kind, near_hz=None):
     """[(length m, frequency Hz, harmonic)] from --piece "LENGTH @ FREQ-or-WAV [#N]"."""
-    import re
-
-    from cutplan.units import UnitError, parse_length
 
     out = []
     for text in texts:
@@ -44,7 +51,7 @@ def _parse_pieces(texts, kind, near_hz=None):
         except ValueError:
             if not Path(what).is_file():
                 fail(f"--piece: {what!r} is neither a frequency in Hz nor a WAV file")
-            freq = _measure_file(what, kind, near_hz).fundamental_hz
+            freq = measure_file(what, kind, near_hz).fundamental_hz
         if not (length > 0 and freq > 0):
             fail(f"--piece: {text!r}: length and frequency must be positive")
         _check_measurement(text, length, [freq])
@@ -79,9 +86,6 @@ def _parse_beam_pieces(texts, kind, partial_ratios):
     for a tuner reading of an overtone); a recording's partials are found
     with ``partial_ratios(length)``, the table model's f_n / f_1 for that length.
     """
-    import re
-
-    from cutplan.units import UnitError, parse_length
 
     out = []
     for text in texts:
@@ -191,15 +195,15 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
     if not material:
         fail("calibrate: --material is needed: the table material the test pieces are made of")
     from cutplan.tuning.calibrate import CalibrationError
-    from cutplan.tuning.calibrate_moduli import _partial_frequencies, calibrated_moduli_toml, fit_moduli
+    from cutplan.tuning.calibrate_moduli import calibrated_moduli_toml, fit_moduli, partial_frequencies
 
-    des = _one_piece_design("calibrate", kind, None, 440.0, material, stock_name, tube, rod, bar_size, model=model,
+    des = one_piece_design("calibrate", kind, None, 440.0, material, stock_name, tube, rod, bar_size, model=model,
                             materials_dirs=dirs)
     spec = des.sets[0]
     mat, sec = spec.material, spec.section
 
     def ratios(length):
-        f = _partial_frequencies(mat, sec, model, mat.modulus_for(model), mat.shear_modulus_for(model), length, 6)
+        f = partial_frequencies(mat, sec, model, mat.modulus_for(model), mat.shear_modulus_for(model), length, 6)
         return [x / f[0] for x in f]
 
     measured = _parse_beam_pieces(pieces, kind, ratios)
@@ -236,16 +240,13 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
                    dirs=()):
     from cutplan.physics import air_column
     from cutplan.tuning.calibrate import AIR_SPEED_RANGE, CalibrationError, fit_air_column_choice, measurement_problem
-    from cutplan.units import UnitError, parse_length, parse_temperature
-
+    from cutplan.units import UnitError, parse_length
     try:
         kelvin = parse_temperature(temperature)
     except UnitError as exc:
         fail(f"--temperature: {exc.text!r} is not {exc.accepted}")
     speed_t = air_column.speed_of_sound(kelvin, air_column.DEFAULT_HUMIDITY)
     if two_res:
-        import re
-
         match = re.fullmatch(r"\s*(.+?)\s*,\s*(.+?)\s*@\s*([0-9.]+)\s*", two_res)
         if not match:
             fail(f'--two-resonance: {two_res!r} must be "L1, L2 @ FREQUENCY", e.g. "160 mm, 495 mm @ 512"')
@@ -281,7 +282,7 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
     measured = _parse_pieces(pieces, ends)
     radius = None
     if stock_name or tube:
-        des = _one_piece_design("calibrate", "air-column", None, 440.0, None, stock_name, tube, None, None,
+        des = one_piece_design("calibrate", "air-column", None, 440.0, None, stock_name, tube, None, None,
                                 ends=ends, temperature=temperature, materials_dirs=dirs)
         radius = des.sets[0].section.air_radius
     reference = 0.0
@@ -298,9 +299,7 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
     except CalibrationError as exc:
         fail(f"calibrate: {exc}")
     if reference:
-        from dataclasses import replace as _replace
-
-        fit = _replace(fit, speed=fit.speed * (1 - wall_loss_fraction(reference, radius, kelvin)))
+        fit = replace(fit, speed=fit.speed * (1 - wall_loss_fraction(reference, radius, kelvin)))
     where = f" in the pipe at {reference:.1f} Hz" if reference else ""
     click.echo(f"speed of sound {fit.speed:.1f} m/s{where} (free air {speed_t:.1f} m/s at {temperature}); "
                f"end correction {fit.end_correction * 1000:.2f} mm per open end"
@@ -363,7 +362,6 @@ def trim_command(design, label, measured, recording, length_now, done, state_pat
       cutplan trim examples/music-room-marimba.toml bars-1 --measured "255.2, 1049.8"
       cutplan trim examples/music-room-marimba.toml bars-1 --measured "261.4, 1046.0" --done
     """
-    import json
 
     from cutplan.audio.wav import read_wav
     from cutplan.tuning import TrimError
@@ -371,8 +369,8 @@ def trim_command(design, label, measured, recording, length_now, done, state_pat
 
     if (measured is None) == (recording is None):
         fail("trim: give --measured or --recording (one of them)")
-    des, _lib = _load(design, materials_dirs, units)
-    the_plan = _plan(des)
+    des, _lib = load_or_exit(design, materials_dirs, units)
+    the_plan = plan_or_exit(des)
     path = Path(state_path) if state_path else Path(design).with_name(Path(design).stem + STATE_SUFFIX)
     keys = {"piece": "trim", "measured": "--measured", "length_now": "--length-now", "recording": str(recording),
             "state": "trim"}
@@ -428,9 +426,9 @@ def listen_command(design, output, strike_at, force, materials_dirs):
     from cutplan.audio.synth import RATE, arpeggio, piece_preview
     from cutplan.audio.wav import wav_bytes
 
-    out = _check_output_dir(output, force)
-    des, _lib = _load(design, materials_dirs)
-    the_plan = _plan(des)
+    out = check_output_dir(output, force)
+    des, _lib = load_or_exit(design, materials_dirs)
+    the_plan = plan_or_exit(des)
     from cutplan.numeric import quiet
 
     files = {f"{p.label}.wav": wav_bytes(quiet(piece_preview, p, strike_at=strike_at), RATE) for p in the_plan.pieces}

@@ -13,6 +13,9 @@ from cutplan.limits import TEMPERATURE_RANGE, TEMPERATURE_SPAN
 MAX_LENGTH_RANGE = (0.01, 10.0)
 """A resonator's max_length may be given from 10 mm to 10 m [m]."""
 
+
+__all__ = ["TEMPERATURE_RANGE", "air_fields"]
+
 _HUMIDITY = re.compile(r"\s*([0-9]+(?:\.[0-9]*)?)\s*%?\s*")
 _END_CORRECTIONS = ("unflanged", "flanged", "none")
 

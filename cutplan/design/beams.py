@@ -6,6 +6,9 @@ from __future__ import annotations
 from cutplan import plausibility, units
 from cutplan.design.contract import Undercut, is_number
 from cutplan.materials import MaterialError, closest_names, material_from_table
+from cutplan.planning.grain import GRAINS
+
+__all__ = ["UNDERCUT_KEYS", "AIR_ONLY", "material", "undercut", "grain", "beam_fields"]
 
 UNDERCUT_KEYS = {"ratios", "arch_width", "min_thickness"}
 MODE_CLEARANCE_RANGE = (1.0, 200.0)
@@ -74,8 +77,6 @@ def undercut(raw, key, section, col):
 
 def grain(raw, key, section, col):
     """How the bar was sawn: "flat", "quarter" or "unknown" (the default); see cutplan.planning.grain."""
-    from cutplan.planning.grain import GRAINS
-
     value = raw.get("grain", "unknown")
     if value not in GRAINS:
         col.add(f"{key}.grain", value, 'must be "flat" (rings along the face), "quarter" (rings across the face) '

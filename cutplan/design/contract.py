@@ -8,12 +8,24 @@ second into the first, so a caller only ever sees DesignErrors.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
 
 from cutplan import pitch, units
 from cutplan.design.notices import INVALID, Notice
 from cutplan.design.text import shown
 from cutplan.physics.sections import Section
 from cutplan.units import INCH_DENOMINATOR
+
+if TYPE_CHECKING:  # for annotations only: both modules import this one
+    from cutplan.design.hanging import HangingSpec
+    from cutplan.materials import Material
+
+__all__ = [
+    "KINDS", "MAX_PIECES_PER_SET", "MAX_PIECES", "MAX_FILE_BYTES", "DEFAULT_TEMPERATURE",
+    "DEFAULT_SHARP_RISK", "DEFAULT_RESONATOR_MAX_LENGTH", "STOCK_LENGTH_RANGE", "KERF_RANGE",
+    "END_TRIM_RANGE", "MAX_STOCK_COUNT", "DesignError", "DesignErrors", "show", "StockLength", "StockSpec",
+    "Undercut", "SetSpec", "Design", "is_number", "Collector"
+]
 
 KINDS = ("chime", "bar", "air-column", "resonator")
 MAX_PIECES_PER_SET = 128
@@ -98,7 +110,7 @@ class StockSpec:
     length) or ``allowance_length`` (a fixed length added to each piece [m]).
     """
 
-    lengths: tuple = ()
+    lengths: tuple[StockLength, ...] = ()
     kerf: float = 1.6e-3
     end_trim: float = 0.0
     allowance: float = 0.0
@@ -111,7 +123,7 @@ class Undercut:
     """An arched bar set's tuning: overtone ratios to mode 1, arch width (fraction of the
     length) and the thinnest the centre may be left [m]."""
 
-    ratios: tuple
+    ratios: tuple[float, ...]
     arch_width: float = 0.5
     min_thickness: float = 0.004
 
@@ -123,13 +135,13 @@ class SetSpec:
     index: int
     name: str
     kind: str
-    targets: tuple
-    section: Section | None
-    material: object = None
+    targets: tuple[pitch.Target, ...]
+    section: Section
+    material: Material | None = None
     model: str = "timoshenko"
     target_mode: str = "fundamental"
     ends: str = "open-open"
-    end_correction: object = "unflanged"
+    end_correction: str | float = "unflanged"
     temperature: float = DEFAULT_TEMPERATURE
     humidity: float | None = None
     serves: str = ""
@@ -138,8 +150,8 @@ class SetSpec:
     outer_tolerance: float = 0.0
     wall_tolerance: float = 0.0
     undercut: Undercut | None = None
-    temperature_range: tuple | None = None
-    hanging: object = None  # cutplan.design.hanging.HangingSpec, or None for the defaults
+    temperature_range: tuple[float, float] | None = None
+    hanging: HangingSpec | None = None  # cutplan.design.hanging.HangingSpec, or None for the defaults
     grain: str = "unknown"  # a bar's sawing: "flat", "quarter" or "unknown" (cutplan.planning.grain)
     mode_clearance: float | None = None  # window for flagging other modes near a tuned partial [cents]
 
@@ -155,9 +167,9 @@ class Design:
     paper: str = "letter"
     a4: float = pitch.A4_FREQUENCY
     temperament: str = "equal"
-    sets: tuple = ()
+    sets: tuple[SetSpec, ...] = ()
     stock: StockSpec | None = None
-    material_dirs: tuple = field(default=())
+    material_dirs: tuple[str, ...] = field(default=())
     classroom: bool = False  # a design for a classroom: supervision notes in the cautions
     copies: int = 1  # identical kits planned together
 

@@ -12,6 +12,11 @@ from dataclasses import dataclass
 
 from cutplan import units
 
+__all__ = [
+    "HANGING_KEYS", "DEFAULT_CLEARANCE", "DEFAULT_TUBE_GAP", "DEFAULT_BREEZE", "CLEARANCE_RANGE",
+    "TUBE_GAP_RANGE", "BREEZE_RANGE", "HangingSpec", "parse_speed", "hanging_options"
+]
+
 HANGING_KEYS = {"clearance", "tube_gap", "breeze"}
 DEFAULT_CLEARANCE = 0.010
 """Least gap between the striker at rest and the tubes [m] (common practice: a striker touching

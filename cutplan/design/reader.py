@@ -14,6 +14,8 @@ from pathlib import Path
 
 from cutplan.design.contract import MAX_FILE_BYTES, DesignError, DesignErrors
 
+__all__ = ["BOM", "read_bytes_checked", "parse_toml_text", "read_design_file"]
+
 BOM = "\ufeff"
 
 

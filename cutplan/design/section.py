@@ -5,6 +5,9 @@ from __future__ import annotations
 from cutplan import units
 from cutplan.materials import closest_names
 from cutplan.physics.sections import Section, bar, rod, tube
+from cutplan.spelling import stock_size_names
+
+__all__ = ["SECTION_KEYS", "MAX_SIZE", "MIN_SIZE", "section"]
 
 SECTION_KEYS = {"shape", "outer", "wall", "inner", "diameter", "width", "thickness", "stock"}
 MAX_SIZE = 0.5
@@ -38,8 +41,6 @@ def _from_stock(raw, key, library, col):
     if library is None:
         return None, ""
     if not isinstance(name, str) or name not in library.stock:
-        from cutplan.spelling import stock_size_names
-
         examples = ", ".join(stock_size_names(name, library.stock) or closest_names(name, library.stock))
         col.add(f"{key}.stock", name, f"is not a stock size; did you mean {examples}? (`cutplan materials` lists them)")
         return None, ""

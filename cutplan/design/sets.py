@@ -15,6 +15,8 @@ from cutplan.design.stocktable import stock_table
 from cutplan.design.text import unprintable, unsafe_name
 from cutplan.limits import FREQUENCY_RANGE, FREQUENCY_SPAN
 
+__all__ = ["SET_KEYS", "MAX_NAME", "name_problem", "one_set", "check_names"]
+
 SET_KEYS = {
     "name", "kind", "notes", "scale", "root", "count", "frequencies", "cents", "ratios", "range",
     "material", "section", "model", "target", "ends", "end_correction", "temperature",

@@ -22,6 +22,11 @@ from cutplan.design.contract import (
     is_number,
 )
 
+__all__ = [
+    "STOCK_KEYS", "LENGTH_ALLOWED", "KERF_ALLOWED", "END_TRIM_ALLOWED", "stock_length", "stock_count",
+    "stock_price", "stock_table", "stock_from_options"
+]
+
 STOCK_KEYS = {"lengths", "kerf", "end_trim", "allowance"}
 LENGTH_ALLOWED = f"must be a stock length from {STOCK_LENGTH_RANGE[0] * 1000:g} mm to {STOCK_LENGTH_RANGE[1]:g} m"
 KERF_ALLOWED = f"must be between {KERF_RANGE[0] * 1000:g} and {KERF_RANGE[1] * 1000:g} mm"

@@ -9,6 +9,8 @@ from cutplan.design.contract import MAX_PIECES_PER_SET, is_number
 from cutplan.design.notices import PITCH_CHOICE
 from cutplan.limits import CENTS_RANGE, FREQUENCY_RANGE, FREQUENCY_SPAN, RATIO_RANGE
 
+__all__ = ["TARGET_KEYS", "FREQUENCY_RANGE", "targets"]
+
 TARGET_KEYS = ("notes", "scale", "range", "frequencies", "cents", "ratios")
 
 

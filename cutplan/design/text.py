@@ -17,6 +17,8 @@ from __future__ import annotations
 
 import unicodedata
 
+__all__ = ["escaped", "unprintable", "shown", "unsafe_name"]
+
 _BAD_CATEGORIES = {"Cc", "Cf", "Cs", "Co", "Cn", "Zl", "Zp"}
 _FILE_CHARS = '/\\<>:"|?*'
 _RESERVED = {"con", "prn", "aux", "nul", *(f"com{i}" for i in range(1, 10)), *(f"lpt{i}" for i in range(1, 10))}

@@ -1,12 +1,16 @@
 """From-stock results as plain data: the design a search writes (mapping and TOML text) and its JSON.
 
-Pure functions of a :class:`cutplan.fromstock.search.FitResult`; lengths in mm in the JSON, as in the
+Pure functions of a :class:`cutplan.fromstock.search.SearchResult`; lengths in mm in the JSON, as in the
 plan JSON.
 """
 
 from __future__ import annotations
 
+from pathlib import Path
+
 from cutplan import pitch
+
+__all__ = ["SET_NAMES", "design_mapping", "candidate_dict", "result_dict", "design_toml"]
 
 SET_NAMES = {"chime": "chimes", "bar": "bars", "air-column": "pipes"}
 """Name of the written set per kind (the pieces are labelled chimes-1, bars-1, ...)."""
@@ -19,8 +23,6 @@ def design_mapping(base_set, stock, candidate, units="mm", a4=pitch.A4_FREQUENCY
     Extra material folders are written as absolute ``material_dirs``, so the design plans
     unchanged wherever it is saved.
     """
-    from pathlib import Path
-
     name = SET_NAMES.get(kind, "pieces")
     out = {
         "title": title or f"{candidate.count} notes of {candidate.root} {candidate.scale} from the stock on hand",

@@ -12,6 +12,8 @@ import math
 
 from cutplan.layout import optimiser
 
+__all__ = ["TOL", "NODE_LIMIT", "StockRoom"]
+
 TOL = optimiser.FIT_TOLERANCE
 NODE_LIMIT = 200_000
 """Placements the exact search may try before it gives up [-] (a count, not a time, so the answer

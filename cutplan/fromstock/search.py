@@ -27,15 +27,23 @@ from __future__ import annotations
 import math
 import time
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
+import cutplan
 from cutplan import pitch
-from cutplan.fromstock import pack as fit_pack
-from cutplan.fromstock import table as fit_table
+from cutplan.fromstock import pack, table
 from cutplan.fromstock.output import SET_NAMES, design_mapping
 from cutplan.layout import optimiser
+from cutplan.planning.records import Plan
 from cutplan.planning.service import REFUSALS, guarded_plan
+
+__all__ = [
+    "SEARCH_LOW", "SEARCH_HIGH", "MAX_COUNT", "PACK_OPS", "ROWS_PER_SCALE", "OBJECTIVES", "SearchError",
+    "Candidate", "SearchResult", "search", "lowest_roots"
+]
+
 
 SEARCH_LOW = "C1"
 """Lowest root tried when no lower limit is given (a piece this low rarely fits any stick)."""
@@ -54,7 +62,7 @@ ROWS_PER_SCALE = 4
 OBJECTIVES = ("lowest", "most", "waste")
 
 
-class FitError(ValueError):
+class SearchError(ValueError):
     """The inventory or the request cannot give any set: option (key), value, what would work."""
 
     def __init__(self, key, value, allowed):
@@ -73,9 +81,9 @@ class Candidate:
     scale: str
     root: str
     count: int
-    notes: tuple
-    cut_lengths: tuple
-    sticks: tuple
+    notes: tuple[str, ...]
+    cut_lengths: tuple[float, ...]
+    sticks: tuple[tuple[float, tuple[tuple[str, float, float], ...], float], ...]
     proven_optimal: bool
     root_hz: float = 0.0
 
@@ -112,17 +120,17 @@ class Candidate:
 
 
 @dataclass(frozen=True)
-class FitResult:
+class SearchResult:
     """The ranked candidates, the chosen one, its design (the design file's keys) and its Plan."""
 
     objective: str
-    candidates: tuple
+    candidates: tuple[Candidate, ...]
     chosen: Candidate
-    design: dict
-    plan: object
+    design: dict[str, Any]
+    plan: Plan
     units: str = "mm"
-    stats: dict = field(default_factory=dict)
-    notes: tuple = ()
+    stats: dict[str, Any] = field(default_factory=dict)
+    notes: tuple[str, ...] = ()
 
 
 def _sticks_of_layout(layout):
@@ -145,7 +153,7 @@ class _Search:
         self.stats = {"pitches": 0, "sets_bounded_out": 0, "sets_first_fit": 0, "sets_exact": 0,
                       "sets_packed": 0, "table_s": 0.0, "exact_s": 0.0, "pack_s": 0.0}
         self.memo, self.layouts, self.answers, self.notes = {}, {}, {}, []
-        self.room = fit_pack.StockRoom(stock)
+        self.room = pack.StockRoom(stock)
         self.types, self.longest = self.room.types, self.room.longest
         self._build_table(base_set, top, materials_dirs)
 
@@ -163,8 +171,8 @@ class _Search:
                     keys.setdefault(self._key(r, off), self._frequency(r, off))
         self.keys = list(keys)
         freqs = np.array([keys[k] for k in self.keys])
-        lengths, cuts = fit_table.cut_length_table(freqs, base_set, top, materials_dirs)
-        short = fit_table.stubby_below(self.spec)
+        lengths, cuts = table.cut_length_table(freqs, base_set, top, materials_dirs)
+        short = table.stubby_below(self.spec)
         cuts = np.where(np.isnan(lengths) | (lengths < short), np.nan, cuts)
         self.table = dict(zip(self.keys, cuts.tolist(), strict=True))
         self.freqs = dict(zip(self.keys, freqs.tolist(), strict=True))
@@ -198,7 +206,7 @@ class _Search:
                 if self.cut_lengths(r, scale, count) is not None]
 
     def bounded_out(self, cuts):
-        """Whether a bound proves the pieces cannot fit (see :meth:`fit_pack.StockRoom.cannot_fit`)."""
+        """Whether a bound proves the pieces cannot fit (see :meth:`pack.StockRoom.cannot_fit`)."""
         return self.room.cannot_fit(cuts)
 
     def fits(self, root, scale, count):
@@ -347,32 +355,30 @@ def _window(lowest, highest):
         try:
             bounds.append(pitch.parse_note(value))
         except pitch.PitchError as exc:
-            raise FitError(key, value, f"is not {exc.accepted}") from None
+            raise SearchError(key, value, f"is not {exc.accepted}") from None
     if bounds[1] <= bounds[0]:
         if highest is None:
-            raise FitError("lowest", lowest, f"must be below the highest note tried ({SEARCH_HIGH})")
-        raise FitError("highest", highest, f"must be above the lowest note ({lowest or SEARCH_LOW})")
+            raise SearchError("lowest", lowest, f"must be below the highest note tried ({SEARCH_HIGH})")
+        raise SearchError("highest", highest, f"must be above the lowest note ({lowest or SEARCH_LOW})")
     return bounds
 
 
 def _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, units, materials_dirs):
     """Validate the request and build the search: (_Search, scales, kind, design top keys)."""
-    import cutplan
-
     scales = tuple(dict.fromkeys(scales or ("major-pentatonic",)))
     for s in scales:
         if s not in pitch.SCALES:
-            raise FitError("scale", s, f"is not {pitch.scale_forms(s)}")
+            raise SearchError("scale", s, f"is not {pitch.scale_forms(s)}")
     kind = base_set.get("kind")
     if kind not in SET_NAMES:
-        raise FitError("kind", kind, f"must be one of: {', '.join(SET_NAMES)}")
+        raise SearchError("kind", kind, f"must be one of: {', '.join(SET_NAMES)}")
     if "undercut" in base_set:
-        raise FitError("undercut", None, "is not searched: from-stock plans uniform bars; add the undercut "
+        raise SearchError("undercut", None, "is not searched: from-stock plans uniform bars; add the undercut "
                        "to the written design afterwards")
     if "stock" in base_set:
-        raise FitError("set.stock", None, "is not used: give the stock on hand as the search's stock table")
+        raise SearchError("set.stock", None, "is not used: give the stock on hand as the search's stock table")
     if not isinstance(stock, dict) or not stock.get("lengths"):
-        raise FitError("stock", None, 'lists no sticks; give at least one, e.g. "8 ft x 1"')
+        raise SearchError("stock", None, 'lists no sticks; give at least one, e.g. "8 ft x 1"')
     lo, hi = _window(lowest, highest)
     top_keys = {"units": units, "tuning": {"a4": a4, "temperament": temperament}}
     probe = cutplan.design_from_mapping({**top_keys, "set": [{**base_set, "notes": ["A4"]}], "stock": stock},
@@ -391,13 +397,13 @@ def search(base_set, stock, scales=("major-pentatonic",), count=None, objective=
     ``stock`` a [stock] table (lengths with counts, kerf, end_trim, allowance), both with the
     design file's keys.  ``count`` is required for "lowest" and "waste"; "most" tries 1 to
     ``max_count`` notes.  Raises :class:`cutplan.design.DesignErrors` for bad keys and
-    :class:`FitError` (naming what does fit) when nothing fits.
+    :class:`SearchError` (naming what does fit) when nothing fits.
     """
     start = time.process_time()
     if objective not in OBJECTIVES:
-        raise FitError("objective", objective, f"must be one of: {', '.join(OBJECTIVES)}")
+        raise SearchError("objective", objective, f"must be one of: {', '.join(OBJECTIVES)}")
     if objective != "most" and not (isinstance(count, int) and 1 <= count <= max_count):
-        raise FitError("count", count, f"must be a whole number from 1 to {max_count} (or ask for the most notes)")
+        raise SearchError("count", count, f"must be a whole number from 1 to {max_count} (or ask for the most notes)")
     counts = list(range(1, max_count + 1)) if objective == "most" else [count]
     found, scales, kind = _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, units,
                                    materials_dirs)
@@ -414,7 +420,7 @@ def search(base_set, stock, scales=("major-pentatonic",), count=None, objective=
     found.stats["practical_range"] = found.practical_range()
     found.stats["window"] = (pitch.note_name(found.lo), pitch.note_name(found.hi))
     found.stats["total_s"] = time.process_time() - start
-    return FitResult(objective, tuple(cands), chosen, design, the_plan, units, dict(found.stats),
+    return SearchResult(objective, tuple(cands), chosen, design, the_plan, units, dict(found.stats),
                      tuple(dict.fromkeys(found.notes)))
 
 
@@ -438,8 +444,6 @@ def lowest_roots(base_set, stock, scales, counts, lowest=None, highest=None, a4=
 
 def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materials_dirs):
     """Plan the best candidate's design with the real planner; the first that plans is chosen."""
-    import cutplan
-
     for k, cand in enumerate(cands):
         mapping = design_mapping(base_set, stock, cand, units, a4, temperament, title, kind, materials_dirs)
         try:  # the one guarded plan service, as the command line and the page
@@ -453,12 +457,12 @@ def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materi
                            _sticks_of_cut_list(the_plan.cut_list), bool(the_plan.cut_list.proven_optimal),
                            cand.root_hz)
         return chosen, mapping, the_plan, k
-    raise FitError("stock", None, "no candidate set could be confirmed by the planner; "
+    raise SearchError("stock", None, "no candidate set could be confirmed by the planner; "
                    "check the material and section with `cutplan length`")
 
 
 def _nothing_fits(found, scales, count, objective, counts):
-    """A FitError naming the closest thing that does fit."""
+    """A SearchError naming the closest thing that does fit."""
     shown = ", ".join(scales)
     window = f"{pitch.note_name(found.lo)} to {pitch.note_name(found.hi)}"
     best = None
@@ -470,14 +474,14 @@ def _nothing_fits(found, scales, count, objective, counts):
     if best is None:
         usable = [v for v in found.table.values() if not math.isnan(v)]
         if not usable:
-            return FitError("lowest/highest", window, "holds no note this section makes without a stubby-piece "
+            return SearchError("lowest/highest", window, "holds no note this section makes without a stubby-piece "
                             "warning; widen the range")
         shortest = min(usable)
-        return FitError("stock", None, f"the longest stick gives {longest * 1000:.0f} mm after end trim, shorter "
+        return SearchError("stock", None, f"the longest stick gives {longest * 1000:.0f} mm after end trim, shorter "
                         f"than the shortest practical piece from {window} ({shortest * 1000:.0f} mm); "
                         "add a longer stick or a smaller section")
     s, c, r = best
     if objective == "most":
-        return FitError("stock", None, f"no set fits; closest: {c} notes of {s} from {pitch.note_name(r)}")
-    return FitError("count", count, f"notes of {shown} do not fit the stock on hand at any root from {window}; "
+        return SearchError("stock", None, f"no set fits; closest: {c} notes of {s} from {pitch.note_name(r)}")
+    return SearchError("count", count, f"notes of {shown} do not fit the stock on hand at any root from {window}; "
                     f"closest that fits: {c} notes of {s} from {pitch.note_name(r)}")

@@ -10,11 +10,14 @@ numbers, so the search and ``cutplan plan`` cannot drift apart.
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 
+import cutplan
+from cutplan.planning.planner import STUBBY_RATIO
 from cutplan.planning.service import REFUSALS, guarded_plan
+
+__all__ = ["PLAN_CHUNK", "SETS_PER_PLAN", "cut_length_table", "stubby_below"]
+
 
 PLAN_CHUNK = 128
 """Frequencies per set in one planning call (the design file's limit per set) [-]."""
@@ -24,8 +27,6 @@ SETS_PER_PLAN = 3
 
 def _planned_cut_lengths(base_set, top, frequencies, materials_dirs):
     """(lengths, cut lengths) [m] through ``cutplan.plan``; NaN where a pitch cannot be made."""
-    import cutplan
-
     freqs = [float(x) for x in frequencies]
     lengths = np.full(len(freqs), np.nan)
     cuts = np.full(len(freqs), np.nan)
@@ -72,15 +73,8 @@ def cut_length_table(frequencies, base_set, top=None, materials_dirs=()):
 def stubby_below(spec):
     """Shortest length [m] the planner plans without a "stubby piece" warning (beams), or the
     shortest air column it plans without a "short column" warning; 0 when neither applies."""
-    from cutplan.planning.planner import STUBBY_RATIO
-
     if spec.kind in ("chime", "bar"):
         return STUBBY_RATIO * spec.section.depth
     if spec.kind == "air-column":
         return 4 * spec.section.air_radius
     return 0.0
-
-
-def finite(x):
-    """Whether a table entry is a real length (the planner could make that pitch)."""
-    return x is not None and not math.isnan(x)

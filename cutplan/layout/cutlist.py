@@ -17,6 +17,9 @@ from cutplan.layout import optimiser
 STATUS_WORDS = {True: "proven optimal", False: "best found, not proven optimal"}
 """How every output words whether a layout is proven optimal."""
 
+__all__ = ["Cut", "PlacedStick", "CutGroup", "CutList", "stock_groups", "lay_out"]
+
+
 
 @dataclass(frozen=True)
 class Cut:
@@ -32,7 +35,7 @@ class PlacedStick:
     """A stick of stock with its cuts in order from the factory end, and what is left [m]."""
 
     stock_length: float
-    cuts: tuple
+    cuts: tuple[Cut, ...]
     offcut: float
     group: str = ""
     price: float | None = None
@@ -43,7 +46,7 @@ class CutGroup:
     """The layout of one group of pieces that share a section and a stock table."""
 
     group: str
-    sticks: tuple
+    sticks: tuple[PlacedStick, ...]
     lower_bound: int
     proven_optimal: bool
     method: str
@@ -63,8 +66,8 @@ class CutGroup:
 class CutList:
     """Every stick of every group; totals over the groups."""
 
-    groups: tuple
-    notes: tuple = field(default=())
+    groups: tuple[CutGroup, ...]
+    notes: tuple[str, ...] = field(default=())
 
     def __str__(self):
         """The layout in a few lines (mm), for a quick look from Python."""

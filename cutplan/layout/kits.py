@@ -10,6 +10,8 @@ from __future__ import annotations
 import re
 from dataclasses import replace
 
+__all__ = ["natural_key", "kit_label", "kit_sets"]
+
 _DIGITS = re.compile(r"(\d+)")
 
 

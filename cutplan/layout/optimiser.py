@@ -40,9 +40,17 @@ References
 from __future__ import annotations
 
 import math
+import time
 from dataclasses import dataclass, field
 
 from cutplan.layout.kits import natural_key
+from cutplan.units import format_length
+
+__all__ = [
+    "FIT_TOLERANCE", "DEFAULT_TIME_LIMIT", "DEFAULT_EFFORT", "DEFAULT_OPS", "LP_FIXED_OPS", "StockError",
+    "StockTimeout", "OutOfWork", "Item", "StockType", "Stick", "Layout", "lower_bound_l2", "usable_length",
+    "stick_capacity", "piece_fits", "heuristic_layout", "sticks_from_assignment", "layout_cost", "layout"
+]
 
 FIT_TOLERANCE = 1e-9
 """Slack allowed when checking that pieces fit [m] (a nanometre: float rounding only)."""
@@ -66,7 +74,7 @@ class StockTimeout(StockError):
     """The optional wall-clock limit passed before the search finished (nothing is printed)."""
 
 
-class _OutOfWork(Exception):
+class OutOfWork(Exception):
     """The work budget ran out: the search stops where it is, the same way on every machine."""
 
 
@@ -80,8 +88,6 @@ class _Work:
     may take, not after the same number of ever larger solves."""
 
     def __init__(self, effort, time_limit, ops=None):
-        import time
-
         self.left = effort
         self.used = 0
         self.ops_left = DEFAULT_OPS if ops is None else ops
@@ -97,7 +103,7 @@ class _Work:
                                "finished; run it without a time limit (the result does not depend on it)")
         if self.left <= 0:
             self.out = True
-            raise _OutOfWork
+            raise OutOfWork
         self.left -= 1
         self.used += 1
         self.charge(LP_FIXED_OPS + ops)
@@ -107,7 +113,7 @@ class _Work:
         self.ops_left -= ops
         if self.ops_left < 0:
             self.out = True
-            raise _OutOfWork
+            raise OutOfWork
 
 
 @dataclass(frozen=True)
@@ -132,7 +138,7 @@ class Stick:
     """One stick of stock with its cuts ((label, start [m], length [m]), ...) and offcut [m]."""
 
     stock_length: float
-    cuts: tuple
+    cuts: tuple[tuple[str, float, float], ...]
     offcut: float
     price: float | None = None
 
@@ -141,13 +147,13 @@ class Stick:
 class Layout:
     """A cut list for one group of pieces of the same section."""
 
-    sticks: tuple
+    sticks: tuple[Stick, ...]
     lower_bound: int
     proven_optimal: bool
     method: str
     cost: float | None = None
     cost_lower_bound: float | None = None
-    notes: tuple = field(default=())
+    notes: tuple[str, ...] = field(default=())
     lp_solves: int = 0
 
     @property
@@ -186,11 +192,11 @@ def usable_length(stock_length, end_trim):
     return stock_length - 2 * end_trim
 
 
-def _capacity(stock_length, kerf, end_trim):
+def stick_capacity(stock_length, kerf, end_trim):
     return usable_length(stock_length, end_trim) + kerf
 
 
-def _fits(load, size, capacity):
+def piece_fits(load, size, capacity):
     return load + size <= capacity + FIT_TOLERANCE
 
 
@@ -198,13 +204,13 @@ def _ordered(items):
     return sorted(range(len(items)), key=lambda i: (-items[i].length, natural_key(items[i].label)))
 
 
-def _heuristic(items, types, kerf, end_trim, by_cost):
+def heuristic_layout(items, types, kerf, end_trim, by_cost):
     """First fit decreasing, then downsize each stick and try to empty the emptiest ones.
 
     Returns a list of (type index, [item indices]) or None when the stock on hand runs out.
     """
     sizes = [it.length + kerf for it in items]
-    caps = [_capacity(t.length, kerf, end_trim) for t in types]
+    caps = [stick_capacity(t.length, kerf, end_trim) for t in types]
     left = [t.count if t.count is not None else math.inf for t in types]
 
     def open_order():
@@ -215,13 +221,13 @@ def _heuristic(items, types, kerf, end_trim, by_cost):
     bins = []  # [type, [items], load]
     for i in _ordered(items):
         for b in bins:
-            if _fits(b[2], sizes[i], caps[b[0]]):
+            if piece_fits(b[2], sizes[i], caps[b[0]]):
                 b[1].append(i)
                 b[2] += sizes[i]
                 break
         else:
             for t in open_order():
-                if left[t] > 0 and _fits(0.0, sizes[i], caps[t]):
+                if left[t] > 0 and piece_fits(0.0, sizes[i], caps[t]):
                     left[t] -= 1
                     bins.append([t, [i], sizes[i]])
                     break
@@ -237,7 +243,7 @@ def _heuristic(items, types, kerf, end_trim, by_cost):
         ok = True
         for i in sorted(last[1], key=lambda i: -sizes[i]):
             for b in sorted(trial, key=lambda b: caps[b[0]] - b[2]):  # best fit
-                if _fits(b[2], sizes[i], caps[b[0]]):
+                if piece_fits(b[2], sizes[i], caps[b[0]]):
                     b[1].append(i)
                     b[2] += sizes[i]
                     break
@@ -251,7 +257,7 @@ def _heuristic(items, types, kerf, end_trim, by_cost):
     # downsize: move each stick to the cheapest (or shortest) type that still holds its load
     for b in sorted(bins, key=lambda b: -b[2]):
         left[b[0]] += 1
-        choices = [t for t in range(len(types)) if left[t] > 0 and _fits(0.0, b[2], caps[t])]
+        choices = [t for t in range(len(types)) if left[t] > 0 and piece_fits(0.0, b[2], caps[t])]
         key = (lambda t: (types[t].price or 0, caps[t])) if by_cost else (lambda t: caps[t])
         b[0] = min(choices, key=key)
         left[b[0]] -= 1
@@ -278,7 +284,7 @@ def _achievable_cost_bound(lp_value, prices, upper):
     return min(above) if above else lp_value
 
 
-def _sticks(items, types, kerf, end_trim, assignment):
+def sticks_from_assignment(items, types, kerf, end_trim, assignment):
     sticks = []
     for t, members in assignment:
         st = types[t]
@@ -296,7 +302,7 @@ def _sticks(items, types, kerf, end_trim, assignment):
     return tuple(sticks)
 
 
-def _cost(sticks):
+def layout_cost(sticks):
     if any(s.price is None for s in sticks):
         return None
     return float(sum(s.price for s in sticks))
@@ -328,41 +334,41 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
         raise StockError("no stock lengths given")
     longest = max(types, key=lambda t: t.length)
     for it in items:
-        if not _fits(0.0, it.length + kerf, _capacity(longest.length, kerf, end_trim)):
+        if not piece_fits(0.0, it.length + kerf, stick_capacity(longest.length, kerf, end_trim)):
             raise StockError(
                 f"{it.label} ({it.length * 1000:.0f} mm) is longer than the longest stock "
                 f"({longest.length * 1000:.0f} mm) after {end_trim * 1000:.0f} mm end trim at each end")
-    from cutplan.layout.columns import _cheaper_mixes, _column_generation
+    from cutplan.layout.columns import cheaper_mixes, column_generation  # here: columns imports this module
 
     work = _Work(effort, time_limit, ops)
     by_cost = all(t.price is not None for t in types) and any(t.price for t in types)
     sizes = [it.length + kerf for it in items]
-    bound = lower_bound_l2(sizes, _capacity(longest.length, kerf, end_trim))
+    bound = lower_bound_l2(sizes, stick_capacity(longest.length, kerf, end_trim))
     if all(t.count is not None for t in types) and (
-            sum(sizes) > sum(t.count * _capacity(t.length, kerf, end_trim) for t in types) + FIT_TOLERANCE
+            sum(sizes) > sum(t.count * stick_capacity(t.length, kerf, end_trim) for t in types) + FIT_TOLERANCE
             or bound > sum(t.count for t in types)):
         raise StockError(_shortage(items, types, kerf, end_trim))  # the total-length bound: no search
-    heur = _heuristic(items, types, kerf, end_trim, by_cost)
+    heur = heuristic_layout(items, types, kerf, end_trim, by_cost)
     if heur is not None and not by_cost and len(heur) == bound:
-        return Layout(_sticks(items, types, kerf, end_trim, heur), bound, True, "first fit decreasing (meets the bound)",
-                      _cost(_sticks(items, types, kerf, end_trim, heur)))
+        return Layout(sticks_from_assignment(items, types, kerf, end_trim, heur), bound, True, "first fit decreasing (meets the bound)",
+                      layout_cost(sticks_from_assignment(items, types, kerf, end_trim, heur)))
     if by_cost and heur is not None:
         # priced: start from first fit decreasing and rule out every cheaper mix of sticks
-        first = _sticks(items, types, kerf, end_trim, heur)
-        better, proven, cost_bound = _cheaper_mixes(items, types, kerf, end_trim, _cost(first), work)
+        first = sticks_from_assignment(items, types, kerf, end_trim, heur)
+        better, proven, cost_bound = cheaper_mixes(items, types, kerf, end_trim, layout_cost(first), work)
         sticks = better if better is not None else first
         method = "stick mixes + column generation" if better is not None else "first fit decreasing"
-        return Layout(sticks, bound, proven, method, _cost(sticks), max(cost_bound, 0.0), lp_solves=work.used)
+        return Layout(sticks, bound, proven, method, layout_cost(sticks), max(cost_bound, 0.0), lp_solves=work.used)
     seeds = heur or []
     try:
-        exact, proven, dual = _column_generation(items, types, kerf, end_trim, by_cost, seeds, work)
-    except _OutOfWork:
+        exact, proven, dual = column_generation(items, types, kerf, end_trim, by_cost, seeds, work)
+    except OutOfWork:
         exact, proven, dual = None, False, 0.0
     candidates = []
     if heur is not None:
-        candidates.append(("first fit decreasing", _sticks(items, types, kerf, end_trim, heur)))
+        candidates.append(("first fit decreasing", sticks_from_assignment(items, types, kerf, end_trim, heur)))
     if exact is not None:
-        candidates.append(("column generation + HiGHS", _sticks(items, types, kerf, end_trim, exact)))
+        candidates.append(("column generation + HiGHS", sticks_from_assignment(items, types, kerf, end_trim, exact)))
     if not candidates and work.out:
         raise StockError(
             f"the optimiser found no layout of all {len(items)} pieces on the stock on hand within its "
@@ -372,13 +378,13 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
 
     def score(entry):
         sticks = entry[1]
-        primary = _cost(sticks) if by_cost else len(sticks)
+        primary = layout_cost(sticks) if by_cost else len(sticks)
         return (primary, -max((s.offcut for s in sticks), default=0.0), entry[0] != "column generation + HiGHS")
 
     method, sticks = min(candidates, key=score)
     # the exact model, when it finished, proves the primary objective of whatever is no worse
     proven_primary = proven and exact is not None and score((method, sticks))[0] <= score(candidates[-1])[0]
-    cost = _cost(sticks)
+    cost = layout_cost(sticks)
     if by_cost:
         cost_bound = cost if proven_primary else _achievable_cost_bound(
             max(dual, 0.0), [t.price for t in types], cost)
@@ -391,12 +397,10 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
 
 def _shortage(items, types, kerf, end_trim):
     unlimited = [StockType(t.length, None, t.price) for t in types]
-    need = _heuristic(items, unlimited, kerf, end_trim, False)
+    need = heuristic_layout(items, unlimited, kerf, end_trim, False)
     have = sum(t.count or 0 for t in types)
     longest = max(t.length for t in types)
     extra = max(1, len(need) - have) if need else 1
-    from cutplan.units import format_length
-
     more = "1 more stick of {} is" if extra == 1 else f"{extra} more sticks of {{}} are"
     return (f"the stock on hand ({have} stick{'s' if have != 1 else ''}) cannot hold all {len(items)} "
             f"pieces; about {more.format(format_length(longest))} needed")

@@ -16,6 +16,15 @@ import numpy as np
 from cutplan.physics import wall_losses
 from cutplan.units import ROOM_TEMPERATURE, STANDARD_PRESSURE, ZERO_CELSIUS
 
+__all__ = [
+    "SPEED_OF_SOUND_20C", "STANDARD_PRESSURE", "CO2_MOLE_FRACTION", "DEFAULT_HUMIDITY",
+    "END_CORRECTION_UNFLANGED", "END_CORRECTION_FLANGED", "speed_of_sound_iso9613",
+    "saturation_vapour_pressure_davis_1992", "water_mole_fraction", "speed_of_sound_cramer_1993",
+    "speed_of_sound", "end_correction_dalmont_nederveen_2001", "end_correction_norris_sheng_1989",
+    "end_correction", "column_length", "column_frequency", "open_open_length", "closed_open_length",
+    "open_open_frequency", "closed_open_frequency", "two_resonance", "speed_from_resonance"
+]
+
 SPEED_OF_SOUND_20C = 343.2
 """Speed of sound in dry air at 20 C and 101.325 kPa [m/s]. ISO 9613-1:1993, Formula A.5."""
 

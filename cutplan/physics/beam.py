@@ -25,6 +25,11 @@ import numpy as np
 
 from cutplan.physics.roots import bracketed_roots
 
+__all__ = [
+    "free_free_root", "free_free_roots", "free_free_frequency", "free_free_length", "partial_ratios",
+    "mode_shape", "node_positions"
+]
+
 
 @lru_cache(maxsize=64)
 def free_free_root(mode):

@@ -13,6 +13,8 @@ import os
 from contextlib import contextmanager, nullcontext
 from functools import lru_cache
 
+__all__ = ["USER_THREAD_VARIABLES", "user_chose_threads", "single_thread"]
+
 USER_THREAD_VARIABLES = ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS", "BLIS_NUM_THREADS",
                          "VECLIB_MAXIMUM_THREADS")
 """Environment variables by which a user sets the BLAS thread count; any of them set wins."""

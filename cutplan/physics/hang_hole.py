@@ -33,6 +33,8 @@ import numpy as np
 
 from cutplan.physics import beam
 
+__all__ = ["second_moments_left", "compliance_integrals", "hang_hole_shifts"]
+
 _GAUSS = np.polynomial.legendre.leggauss(48)
 
 

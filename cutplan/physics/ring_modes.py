@@ -22,6 +22,8 @@ from __future__ import annotations
 
 import numpy as np
 
+__all__ = ["ring_frequencies"]
+
 
 def ring_frequencies(outer, inner, modulus, density, poisson, modes=4):
     r"""Frequencies [Hz] of the ring modes n = 2, 3, ... of a thin-walled tube.

@@ -14,6 +14,8 @@ from __future__ import annotations
 
 import numpy as np
 
+__all__ = ["bracketed_roots"]
+
 
 def bracketed_roots(fun, lo, hi, f_lo=None, f_hi=None, rtol=4e-16, max_iter=200):
     """Roots of ``fun`` in each bracket [lo, hi] (arrays of the same shape).

@@ -13,6 +13,11 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+__all__ = [
+    "shear_coefficient_cowper_hollow_circle", "shear_coefficient_cowper_rectangle", "Section", "tube",
+    "rod", "bar"
+]
+
 
 def shear_coefficient_cowper_hollow_circle(poisson, diameter_ratio):
     r"""Timoshenko shear coefficient of a hollow circle (Cowper 1966, Table 1).
@@ -65,7 +70,7 @@ class Section:
     thickness: float = 0.0
     name: str = ""
     bore: float = 0.0  # the bore an air column sees [m]; defaults to ``inner``
-    air_calibration: object = None  # an air_stock.AirCalibration measured on this stock, if any
+    air_calibration: object = None  # a cutplan.planning.air_calibrated.AirCalibration measured on this stock, if any
 
     @property
     def solid_inner(self):

@@ -26,7 +26,13 @@ from functools import lru_cache
 
 import numpy as np
 
-from cutplan.physics import beam_fe, timoshenko, torsion, undercut
+from cutplan.physics import beam_fe, solid3d, timoshenko, torsion, undercut
+
+__all__ = [
+    "sideways_frequencies", "twisting_frequencies_bar", "twisting_frequencies_tube",
+    "sideways_frequencies_arched", "twisting_frequencies_arched", "twisting_frequencies_bar_orthotropic",
+    "solid_side_modes", "twisting_stiffening", "twisting_frequencies_bar_solid"
+]
 
 
 def sideways_frequencies(length, width, thickness, modulus, shear_modulus, density, kappa, modes=3):
@@ -148,8 +154,6 @@ def solid_side_modes(length, width, thickness, depth, arch_fraction, exponent, c
     """Sideways and twisting frequencies [Hz] of an arched bar from the 3-D model
     (:func:`cutplan.physics.solid3d.solve_side_modes`), cached: the same bar is solved once per
     process.  ``constants`` is a :class:`cutplan.physics.solid3d.Orthotropic`."""
-    from cutplan.physics import solid3d
-
     h = _thickness(length, thickness, depth, arch_fraction, exponent)
     return solid3d.solve_side_modes(length, width, thickness, h, constants, density, arch_fraction, modes=modes)
 
@@ -166,8 +170,6 @@ def twisting_stiffening(width, thickness, constants, density):
     Thin-Walled Elastic Beams, 2nd ed., 1961), its size here comes from the 3-D model.  Cached:
     one 3-D solve per section and material.
     """
-    from cutplan.physics import solid3d
-
     length = 8 * max(width, thickness)
     modes = solid3d.solve_side_modes(length, width, thickness, lambda x: thickness + 0 * x, constants, density,
                                      0.0, modes=3)

@@ -16,6 +16,11 @@ import numpy as np
 
 from cutplan.physics import beam
 
+__all__ = [
+    "AIR_DENSITY", "FLAT_PLATE_DRAG", "GRAVITY", "best_strike_height", "plate_drag",
+    "contact_push", "sail_area", "breeze_for"
+]
+
 AIR_DENSITY = 1.225
 """Density of air at sea level, 15 C [kg/m^3]. ISO 2533:1975, Standard Atmosphere (from memory)."""
 FLAT_PLATE_DRAG = 1.17
@@ -26,27 +31,14 @@ GRAVITY = 9.80665
 """Standard acceleration of gravity [m/s^2]. CGPM 1901 (the conventional value)."""
 
 
-def strike_amplitude(x_over_length, modes):
-    """How strongly a blow at ``x_over_length`` excites the weakest of ``modes`` [-].
-
-    For a free-free beam struck at x, mode n's amplitude is proportional to the mode shape
-    phi_n(x) (modal participation of a point force); phi is normalised here so that a free end
-    gives 1 (Blevins 1979, Table 8-1: end amplitude 2).  Returns min over the modes of |phi_n| / 2.
-
-    >>> round(strike_amplitude(0.5, (1,)), 4)
-    0.6078
-    >>> strike_amplitude(0.5, (1, 2)) < 1e-9   # mode 2 has a node at the centre
-    True
-    """
-    return float(min(abs(float(beam.mode_shape(n, x_over_length))) / 2.0 for n in modes))
-
-
 def best_strike_height(lengths, modes, low, high, step=1e-3):
     """The height below the (level) tube tops where a striker excites every tube best [m].
 
     Heights from ``low`` to ``high`` [m] on a ``step`` grid are tried; at each, every tube of
-    ``lengths`` [m] is struck at height / L, and the score is the weakest tube's
-    :func:`strike_amplitude` for ``modes``.  The height with the best score wins (the highest
+    ``lengths`` [m] is struck at height / L, and the score is the weakest tube's excitation of
+    the weakest of ``modes``: mode n's amplitude is proportional to the mode shape phi_n(x / L)
+    (modal participation of a point force), taken as |phi_n| / 2 so that a free end gives 1
+    (Blevins 1979, Table 8-1: end amplitude 2).  The height with the best score wins (the highest
     one on a tie).  Returns (height [m], score [-], per-tube x / L [-]).
 
     >>> h, score, xs = best_strike_height([0.5], (1,), 0.15, 0.48)

@@ -30,6 +30,12 @@ import numpy as np
 
 from cutplan.physics import beam_fe
 from cutplan.physics.blas import single_thread
+from cutplan.physics.timoshenko import fundamental_length
+
+__all__ = [
+    "ELEMENTS_END", "ELEMENTS_ARCH", "ORDER", "UndercutError", "arch_thickness", "arch_area", "bar_modes",
+    "Undercut", "TOLERANCE_CENTS", "MAX_SOLVES", "design_undercut", "FD_STEPS", "MAX_STEP", "bounded_step"
+]
 
 ELEMENTS_END = 6
 """Elements in each solid end region [-] (0.001 cent level for a uniform bar; bench/)."""
@@ -129,11 +135,11 @@ class Undercut:
     arch_fraction: float
     exponent: float
     thickness: float
-    frequencies: tuple
-    nodes: tuple
-    ratio_residuals_cents: tuple
+    frequencies: tuple[float, ...]
+    nodes: tuple[tuple[float, ...], ...]
+    ratio_residuals_cents: tuple[float, ...]
     fundamental_residual_cents: float
-    jacobian: tuple = ()
+    jacobian: tuple[tuple[float, ...], ...] = ()
     solves: int = 0
 
     def stations(self, count=11):
@@ -180,8 +186,6 @@ def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, de
         When the tuning cannot be reached without leaving the centre thinner than
         ``min_thickness``.
     """
-    from cutplan.physics.timoshenko import fundamental_length
-
     ratios = tuple(ratios)
     max_depth = thickness - min_thickness
     if max_depth <= 0:
@@ -216,7 +220,7 @@ def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, de
         jac = _finite_differences(evaluate, v, r, upper) if jacobian is None or len(jacobian) != v.size else \
             np.array(jacobian, dtype=float)
         while np.max(np.abs(r)) >= TOLERANCE_CENTS and count[0] < MAX_SOLVES:
-            step = _bounded_step(jac, r, v, lower, upper)
+            step = bounded_step(jac, r, v, lower, upper)
             if not np.any(step):
                 break  # pinned at a bound: the best that can be done
             v_new = np.clip(v + step, lower, upper)
@@ -268,7 +272,7 @@ MAX_STEP = (0.3, 0.25, 1.5)
 """Largest Newton step in log L, depth fraction and shape [-] (keeps early steps sane)."""
 
 
-def _bounded_step(jac, r, v, lower, upper):
+def bounded_step(jac, r, v, lower, upper):
     """Newton step for J dv = -r; a variable at a bound that the step would push out is held."""
     free = np.ones(v.size, dtype=bool)
     step = np.zeros(v.size)

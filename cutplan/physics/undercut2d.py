@@ -25,6 +25,11 @@ import numpy as np
 
 from cutplan.physics import elastic2d, undercut
 
+__all__ = [
+    "TOLERANCE_CENTS", "MAX_SOLVES", "ARCH_STATIONS", "END_STATIONS", "PlaneConstants", "arch_stations",
+    "Undercut2d", "design_undercut_2d", "trimmed_profile"
+]
+
 TOLERANCE_CENTS = 0.02
 """The 2-D search stops when mode 1 and every tuned ratio are this close [cents]."""
 MAX_SOLVES = 16
@@ -149,7 +154,7 @@ def design_undercut_2d(target, ratios, width, thickness, plane, kappa, min_thick
     offset_now = r - one_d
     best = (np.max(np.abs(r)), v, r, modes)
     while np.max(np.abs(r)) >= TOLERANCE_CENTS and count[0] < MAX_SOLVES:
-        step = undercut._bounded_step(jac, r, v, lower, upper)
+        step = undercut.bounded_step(jac, r, v, lower, upper)
         if not np.any(step):
             break  # pinned at a bound
         v_new = np.clip(v + step, lower, upper)

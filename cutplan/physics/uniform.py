@@ -39,8 +39,13 @@ import math
 
 import numpy as np
 
-from cutplan.physics.beam import free_free_root
+from cutplan.physics.beam import free_free_length, free_free_root
 from cutplan.physics.roots import bracketed_roots
+
+__all__ = [
+    "PHASE_STEP", "coefficients", "half_determinants", "fundamental_omegas", "omegas",
+    "fundamental_lengths", "mode_lengths", "deflection", "fundamental_nodes"
+]
 
 PHASE_STEP = np.pi / 16
 """Largest step of either wave number between grid points when bracketing modes [rad]."""
@@ -81,12 +86,6 @@ def coefficients(omega, g, s2, s=1.0):
     c2 = (e1 - e2) / spread
     c3 = (o1 - o2) / spread
     return c0, c1, c2, c3, a, b, e1
-
-
-def full_determinant(omega, g, s2):
-    """Free-free frequency determinant of the whole piece (divided by b = Omega^2) [-]."""
-    c0, c1, c2, c3, a, b, _ = coefficients(omega, g, s2, 1.0)
-    return -b * c2 * c2 - (c3 * (a * a + b) - a * c1) * (b * g * c3 - c1)
 
 
 def half_determinants(omega, g, s2):
@@ -270,8 +269,6 @@ def omegas(g, s2, modes):
 
 def _length_parameters(frequency, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia, mode=1):
     """Slender length and (Omega, g, s2) at the slender length, for target frequencies [Hz]."""
-    from cutplan.physics.beam import free_free_length
-
     target = np.atleast_1d(np.asarray(frequency, dtype=float)).ravel()
     slender = np.atleast_1d(free_free_length(target, flexural_rigidity, mass_per_length, mode=mode))
     om = np.full(target.shape, free_free_root(mode) ** 2)

@@ -40,6 +40,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+__all__ = ["WIDTH_ORDER", "WidthConstants", "field_terms", "assemble"]
+
 WIDTH_ORDER = 2
 """Highest power pair kept across the width, P [-] (see the module notes for its accuracy)."""
 

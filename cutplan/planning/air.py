@@ -9,12 +9,13 @@ from cutplan.design import Design, DesignError, SetSpec, notices
 from cutplan.design.air import MAX_LENGTH_RANGE
 from cutplan.design.notices import Notice, set_key
 from cutplan.physics import air_column
-from cutplan.planning import air_calibrated as air_stock
-from cutplan.planning import uncertainty
+from cutplan.planning import air_calibrated, uncertainty
 from cutplan.planning.allowance import allowances, risk_warning
 from cutplan.planning.frequency import air_frequency_function, cents_per_mm, partial_notes
 from cutplan.planning.records import PARTIAL_COUNT, Piece
 from cutplan.units import format_length
+
+__all__ = ["STOPPER_MARGIN", "STOPPER_STEP", "stopper_settings", "plan_air_set"]
 
 STOPPER_MARGIN = 0.010
 """Tube left beyond the deepest stopper setting [m] (room for the plug itself; common practice)."""
@@ -48,7 +49,7 @@ def stopper_settings(spec, frequency, radius, bar_drift=0.0):
         temps.append(spec.temperature)
     out = []
     for t in sorted(temps):
-        model = air_stock.column_model(spec, float(t))
+        model = air_calibrated.column_model(spec, float(t))
         model["ends"] = "closed-open"
         bar_hz = frequency * np.exp(bar_drift * (float(t) - spec.temperature))
         out.append((float(t), air_column.column_length(bar_hz, **model)))
@@ -57,10 +58,10 @@ def stopper_settings(spec, frequency, radius, bar_drift=0.0):
 
 def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
     temperature = spec.temperature
-    speed = air_stock.speed(spec)
+    speed = air_calibrated.speed(spec)
     radius = spec.section.air_radius
     closed = spec.ends == "closed-open"
-    model = air_stock.column_model(spec)
+    model = air_calibrated.column_model(spec)
     pieces, errors = [], []
     for i, t in enumerate(targets, start=1):
         length = air_column.column_length(t.frequency, **model)
@@ -93,7 +94,7 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
         cut, a_uncal, a_cal, risk = allowances(
             spec, stock, f_at, length, t.frequency,
             uncertainty.air_ratios(length, radius, factor, open_ends, temperature,
-                                   calibrated=air_stock.calibration(spec) is not None),
+                                   calibrated=air_calibrated.calibration(spec) is not None),
             uncertainty.air_ratios(length, radius, factor, open_ends, temperature, calibrated=True))
         warnings += risk_warning(risk, spec)
         stopper = ()

@@ -24,6 +24,11 @@ from cutplan.physics import air_column
 from cutplan.physics.wall_losses import wall_loss_fraction
 from cutplan.units import ZERO_CELSIUS
 
+__all__ = [
+    "AirCalibration", "calibration", "applied", "humidity", "wall_losses", "speed", "column_model",
+    "assumptions", "stock_toml"
+]
+
 
 @dataclass(frozen=True)
 class AirCalibration:

@@ -10,6 +10,8 @@ from cutplan.design.notices import SHARP_RISK, Notice, allowance_key
 from cutplan.planning import uncertainty
 from cutplan.units import format_length
 
+__all__ = ["allowances", "SHARP_RISK_WARNING", "risk_warning", "allowance_rule"]
+
 
 def allowances(spec, stock, frequency_at, length, target, ratios_uncal, ratios_cal):
     """(cut length, uncalibrated allowance, calibrated allowance, risk of coming out sharp)."""

@@ -13,12 +13,17 @@ import numpy as np
 
 from cutplan import pitch
 from cutplan.design.notices import set_key
-from cutplan.physics import beam
+from cutplan.physics import beam, beam_fe
 from cutplan.physics.undercut2d import design_undercut_2d, trimmed_profile
 from cutplan.planning import uncertainty
 from cutplan.planning.allowance import allowances, risk_warning
 from cutplan.planning.frequency import beam_frequency_function, partial_notes, plane_constants, stubby_bar_warnings
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece
+
+__all__ = [
+    "LENGTH_TOLERANCE_CENTS", "TRIM_STEP", "profile_frequency_function", "plan_undercut_set_2d",
+    "plan_uniform_set_2d", "plan_set", "elastic_constants"
+]
 
 LENGTH_TOLERANCE_CENTS = 0.01
 """A uniform bar's 2-D length search stops this close to the target [cents]."""
@@ -101,8 +106,6 @@ def _against_slender(f0, length, sec, plane, ei, mu, stations=None):
     """Cents between the 2-D mode 1 and the slender beam of the same profile and modulus."""
     if stations is None:
         return float(pitch.cents(f0, float(beam.free_free_frequency(1, length, ei, mu))))
-    from cutplan.physics import beam_fe
-
     xs = np.array([x for x, _ in stations])
     hs = np.array([h for _, h in stations])
 

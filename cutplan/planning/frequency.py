@@ -7,8 +7,15 @@ import numpy as np
 
 from cutplan import pitch
 from cutplan.design.notices import STUBBY, Notice
-from cutplan.physics import air_column, beam, timoshenko
-from cutplan.planning import air_calibrated as air_stock
+from cutplan.physics import air_column, beam, beam_fe, timoshenko, undercut, uniform
+from cutplan.physics.undercut2d import PlaneConstants
+from cutplan.planning import air_calibrated, grain
+
+__all__ = [
+    "STRIKE_NOTE_MODE", "partial_notes", "cents_per_mm", "beam_constants", "beam_frequency_function",
+    "air_frequency_function", "plane_constants", "undercut_frequency_function", "piece_frequency_function"
+]
+
 
 STRIKE_NOTE_MODE = 4
 """Mode whose half sets the strike note of a tubular bell: the strike pitch is about an octave
@@ -54,8 +61,6 @@ def beam_constants(mat, sec, model):
 def beam_frequency_function(material, section, model, strike=False):
     """f(L) [Hz] of the mode a chime or bar is tuned by (mode 1, or half of mode 4 for the strike
     note), for this material, section and model."""
-    from cutplan.physics import uniform
-
     ei, mu, kga, rho_i = beam_constants(material, section, model)
     n = STRIKE_NOTE_MODE if strike else 1
     scale = 0.5 if strike else 1.0
@@ -87,7 +92,7 @@ def beam_frequency_function(material, section, model, strike=False):
 
 def air_frequency_function(spec):
     """f(L) [Hz] of an air-column or resonator set's fundamental at its temperature."""
-    model = air_stock.column_model(spec)
+    model = air_calibrated.column_model(spec)
     return lambda x: float(air_column.column_frequency(x, **model))
 
 
@@ -100,9 +105,6 @@ def plane_constants(mat, sawing="unknown"):
     inline G is taken as that plane's G); otherwise E across is the record's ``modulus_across``
     where it has one, else E along, and G the material's shear modulus.
     """
-    from cutplan.physics.undercut2d import PlaneConstants
-    from cutplan.planning import grain
-
     e = mat.modulus_for("elastic-2d")
     if grain.is_orthotropic(mat):
         thick = grain.bending_plane_constants(mat, sawing, "elastic-2d")[0]
@@ -119,8 +121,6 @@ def undercut_frequency_function(spec, arch, length=None):
     same off each end, as a builder trims; without it the arch scales with L (depth and shape
     kept), as in the design search.
     """
-    from cutplan.physics import beam_fe, undercut
-
     mat, sec = spec.material, spec.section
     e, g = mat.modulus_for("timoshenko"), mat.shear_modulus_for("timoshenko")
     kappa = sec.shear_coefficient(mat.poisson)
@@ -151,7 +151,7 @@ def piece_frequency_function(spec, piece):
     """f(L) [Hz] of the mode a planned piece is tuned by, with the plan's own model (for trimming;
     an arch stays where it is)."""
     if piece.model == "elastic-2d":
-        from cutplan.planning.elastic import profile_frequency_function
+        from cutplan.planning.elastic import profile_frequency_function  # here: elastic imports this module
 
         stations = piece.arch.outline if piece.arch is not None else ((0.0, spec.section.thickness),
                                                                      (piece.length, spec.section.thickness))
@@ -161,10 +161,3 @@ def piece_frequency_function(spec, piece):
     if spec.kind in ("chime", "bar"):
         return beam_frequency_function(spec.material, spec.section, spec.model, spec.target_mode == "strike-note")
     return air_frequency_function(spec)
-
-
-def mode_length(frequency, mode, ei, mu, kga, rho_i):
-    """Timoshenko length whose mode ``mode`` sounds ``frequency`` (closed-form determinant)."""
-    from cutplan.physics import uniform
-
-    return float(uniform.mode_lengths(frequency, mode, ei, mu, kga, rho_i)[0])

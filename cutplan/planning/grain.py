@@ -28,7 +28,18 @@ giving G of the bar's bending plane; the other planes' G keep their tabled ratio
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
+
+from cutplan.physics import timoshenko
+from cutplan.physics.solid3d import Orthotropic
+from cutplan.physics.torsion import orthotropic_rectangle_rigidity
+from cutplan.planning.uncertainty import shared_draws
+
+__all__ = [
+    "GRAINS", "PlaneConstants", "is_orthotropic", "axis_constants", "applied", "bending_plane_constants",
+    "bending_shear_modulus", "solid_constants", "grain_spread_cents", "twisting_rigidity",
+    "unknown_grain_cents", "unknown_grain_ratios", "assumptions"
+]
 
 GRAINS = ("flat", "quarter", "unknown")
 """The sawings a bar set may give (``grain = "..."``)."""
@@ -109,8 +120,6 @@ def _axes(material, grain, model, scale):
 def applied(spec):
     """A bar set with its material's G set to that of the bending plane for its sawing (so the beam
     models, the allowance and the 2-D solver bend with the right G); other sets unchanged."""
-    from dataclasses import replace
-
     mat = spec.material
     if spec.kind not in ("chime", "bar") or spec.section is None or spec.section.shape != "bar" \
             or not is_orthotropic(mat) or mat.shear_modulus:
@@ -141,8 +150,6 @@ def bending_shear_modulus(material, grain="unknown", model="timoshenko"):
 
 def solid_constants(material, grain="unknown", model="timoshenko"):
     """The constants as a :class:`cutplan.physics.solid3d.Orthotropic` for the 3-D side-mode model."""
-    from cutplan.physics.solid3d import Orthotropic
-
     return Orthotropic(*axis_constants(material, grain, model))
 
 
@@ -172,8 +179,6 @@ def grain_spread_cents(material, grain, width, thickness):
 def twisting_rigidity(width, thickness, g_width, g_thickness):
     """Saint-Venant G J [N m^2] of an orthotropic rectangle; see
     :func:`cutplan.physics.torsion.orthotropic_rectangle_rigidity`."""
-    from cutplan.physics.torsion import orthotropic_rectangle_rigidity
-
     return orthotropic_rectangle_rigidity(width, thickness, g_width, g_thickness)
 
 
@@ -183,8 +188,6 @@ def unknown_grain_cents(material, grain, section, length):
     material.  The shear-corrected uniform beam at ``length`` [m]."""
     if grain != "unknown" or section is None or section.shape != "bar" or not is_orthotropic(material):
         return 0.0
-    from cutplan.physics import timoshenko
-
     scale = _shear_scale(material, "unknown")
     area, second = section.width * section.thickness, section.width * section.thickness**3 / 12
     rho = material.density
@@ -204,9 +207,7 @@ def unknown_grain_ratios(spec, ratios, length):
     cents = unknown_grain_cents(spec.material, getattr(spec, "grain", "unknown"), spec.section, length)
     if not cents:
         return ratios
-    from cutplan.planning.uncertainty import _draws
-
-    return ratios * 2.0 ** (_draws()[1][0] * cents / 1200)
+    return ratios * 2.0 ** (shared_draws()[1][0] * cents / 1200)
 
 
 def assumptions(spec):

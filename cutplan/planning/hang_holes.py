@@ -12,10 +12,15 @@ from __future__ import annotations
 
 import dataclasses
 import math
+from fractions import Fraction
 
 from cutplan.design.notices import HANG_HOLE_BEAT, Notice, set_key
 from cutplan.physics.hang_hole import hang_hole_shifts
 from cutplan.planning.records import HangHoleSplit
+
+__all__ = [
+    "BEAT_LIMIT_HZ", "DRILL_STEP", "SMALLEST_DRILL", "split_for", "drill_text", "warning", "with_hang_holes"
+]
 
 BEAT_LIMIT_HZ = 1.5
 """Fastest beat between the two bending planes accepted without a warning [Hz] (common practice,
@@ -67,8 +72,6 @@ def drill_text(drill, units="mm"):
     >>> drill_text(0.0254 * 11 / 64, "in")
     '11/64 in (4.37 mm)'
     """
-    from fractions import Fraction
-
     frac = Fraction(round(drill / 0.0254 * 64), 64)
     inch = f"{frac.numerator}/{frac.denominator} in" if frac.denominator > 1 else f"{frac.numerator} in"
     mm = f"{drill * 1000:.2f} mm"
@@ -90,7 +93,7 @@ def warning(split, units_text):
 def with_hang_holes(spec, pieces, rows, units="mm"):
     """The chime pieces with ``hang_hole`` filled in from the shop table ``rows`` (and a warning
     when the beat is over the limit); other pieces unchanged."""
-    from cutplan.planning.shopping import hang_hole_for
+    from cutplan.planning.shopping import hang_hole_for  # here: shopping imports this module
 
     if spec.kind != "chime" or spec.section.shape != "tube":
         return list(pieces)

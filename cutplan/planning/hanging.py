@@ -27,6 +27,14 @@ from cutplan.design.hanging import HangingSpec
 from cutplan.physics import swing
 from cutplan.planning import hanging_load
 
+__all__ = [
+    "STRIKER_MIN_DIAMETER", "STRIKER_THICKNESS", "HARDWOOD_DENSITY", "SAIL_SHEET", "SAIL_MARGIN",
+    "SAIL_MIN_SIDE", "SAIL_STEP", "TOP_DROP", "SAIL_DROP", "STRIKE_END_MARGIN", "PLATE_EDGE",
+    "PLATE_THICKNESS", "HOLE_DIAMETER", "STEP", "PLATE_STEP", "Sail", "Hanging", "strike_modes",
+    "hanging_for"
+]
+
+
 STRIKER_MIN_DIAMETER = (0.050, 2.5)
 """Smallest striker disc: 50 mm, and at least 2.5 tube diameters [m, -] (common practice: a
 smaller, lighter disc is a poor target and gives large tubes too weak a blow)."""
@@ -93,21 +101,21 @@ class Hanging:
     plate_mass: float
     hole_circle_diameter: float
     hole_diameter: float
-    holes: tuple  # (x, y, label) [m] from the plate centre, first tube at the top, clockwise
-    suspension: tuple  # (x, y) [m] of the three holes the plate hangs by
+    holes: tuple[tuple[float, float, str], ...]  # (x, y, label) [m] from the plate centre, first tube at the top, clockwise
+    suspension: tuple[tuple[float, float], ...]  # (x, y) [m] of the three holes the plate hangs by
     striker_diameter: float
     striker_thickness: float
     striker_mass: float
     striker_height: float  # from the tube tops down to the striker's centre [m]
-    strike_fractions: tuple  # where each tube is struck, as a fraction of its length from the top [-]
+    strike_fractions: tuple[float, ...]  # where each tube is struck, as a fraction of its length from the top [-]
     strike_score: float  # the weakest tube's excitation of its heard modes, 1 = a free end [-]
-    strike_modes: tuple  # the modes the height is chosen for
+    strike_modes: tuple[int, ...]  # the modes the height is chosen for
     clearance_min: float
     striker_clearance: float
     tube_gap_min: float
     tube_gap: float | None
     sail: Sail
-    load: object  # cutplan.planning.hanging_load.Load
+    load: hanging_load.Load
 
     @property
     def mass(self):

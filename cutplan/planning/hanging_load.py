@@ -14,6 +14,11 @@ from cutplan import units
 from cutplan.materials import shop_table
 from cutplan.physics.swing import GRAVITY
 
+__all__ = [
+    "KNOT", "RING_HEIGHT_MIN", "KNOT_EFFICIENCY", "LBF", "BUY_STEP", "LineRow", "HookRow", "Table",
+    "Geometry", "Masses", "Line", "Load", "load_table", "pick_line", "load_for", "buy_text", "mass_text"
+]
+
 KNOT = 0.10
 """Line used by one tie, with room to adjust [m] (common practice)."""
 RING_HEIGHT_MIN = 0.10
@@ -52,8 +57,8 @@ class HookRow:
 class Table:
     """The line and hardware table: lines and hooks weakest first, the safety factor and its source."""
 
-    lines: tuple
-    hooks: tuple
+    lines: tuple[LineRow, ...]
+    hooks: tuple[HookRow, ...]
     safety_factor: float
     safety_source: str
     safety_kind: str
@@ -66,7 +71,7 @@ class Geometry:
     radius of the plate's own three line holes."""
 
     tops_drop: float
-    hang_holes: tuple
+    hang_holes: tuple[float, ...]
     striker_height: float
     longest: float
     sail_drop: float
@@ -108,7 +113,7 @@ class Load:
 
     mass: float
     masses: Masses
-    lines: tuple
+    lines: tuple[Line, ...]
     hook: HookRow | None
     safety_factor: float
     safety_source: str

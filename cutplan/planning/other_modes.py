@@ -18,6 +18,13 @@ import math
 
 from cutplan.design.notices import MODE_BELOW_FUNDAMENTAL, MODE_NEAR_PARTIAL, Notice, set_key
 from cutplan.physics import side_modes
+from cutplan.physics.ring_modes import ring_frequencies
+from cutplan.planning import grain
+
+__all__ = [
+    "CLEARANCE_CENTS", "REPORT_ABOVE", "MAX_MODES", "piece_other_modes", "RING_FIRST_LOBES",
+    "tuned_partials", "mode_warnings", "with_other_modes"
+]
 
 CLEARANCE_CENTS = 30.0
 """Distance from a partial within which another mode is flagged [cents] (common practice: beats
@@ -60,8 +67,6 @@ def _bar_modes(spec, piece):
     the 3-D model for an arched bar; for a uniform one the shear-corrected beam sideways and
     Saint-Venant twisting (for wood, stiffened by warping as fitted once per section to the 3-D
     model, :func:`cutplan.physics.side_modes.twisting_stiffening`)."""
-    from cutplan.planning import grain
-
     mat, sec, length = spec.material, spec.section, piece.length
     sawing = getattr(spec, "grain", "unknown")
     arch = piece.arch
@@ -91,8 +96,6 @@ RING_FIRST_LOBES = 2
 
 def _ring_modes(sec, modulus, density, poisson):
     """[("ring", frequencies)] of a tube's ring (ovalling) modes, n = 2, 3, ...; [] for a rod."""
-    from cutplan.physics.ring_modes import ring_frequencies
-
     inner = getattr(sec, "solid_inner", sec.inner)
     if not inner > 0:
         return []
@@ -184,8 +187,6 @@ def _grain_spread(spec, piece):
     Twisting: half the flat-to-quarter spread of the blank's Saint-Venant twisting
     (:func:`cutplan.planning.grain.grain_spread_cents`).  Sideways: half the spread of the blank's
     sideways mode 1, whose shear part alone feels the sawing."""
-    from cutplan.planning import grain
-
     sawing = getattr(spec, "grain", "unknown")
     sec, mat = spec.section, spec.material
     if sec is None or sec.shape != "bar" or sawing != "unknown" or not grain.is_orthotropic(mat):

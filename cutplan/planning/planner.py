@@ -17,11 +17,12 @@ import numpy as np
 from cutplan import pitch
 from cutplan.design import Design, DesignError, DesignErrors, SetSpec, notices
 from cutplan.design.notices import Notice, set_key, stock_key
-from cutplan.physics import beam, timoshenko
+from cutplan.layout import cutlist, optimiser
+from cutplan.layout.kits import kit_sets
+from cutplan.physics import beam, timoshenko, undercut, uniform
 from cutplan.physics.undercut import UndercutError
+from cutplan.planning import air_calibrated, elastic, grain, hang_holes, other_modes, thermal, uncertainty
 from cutplan.planning import air_calibrated as air_stock
-from cutplan.planning import elastic as plan_elastic
-from cutplan.planning import grain, hang_holes, other_modes, thermal, uncertainty
 from cutplan.planning.air import BAR_OVER_MOUTH, plan_air_set
 from cutplan.planning.allowance import allowance_rule, allowances, risk_warning
 from cutplan.planning.frequency import (
@@ -34,6 +35,7 @@ from cutplan.planning.frequency import (
     stubby_bar_warnings,
     undercut_frequency_function,
 )
+from cutplan.planning.hanging import hanging_for
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
 from cutplan.planning.shopping import shop_tables, with_shop_lists
 from cutplan.tuning import advice
@@ -46,8 +48,7 @@ COMMON_STOCK_LENGTH = 3.66
 
 
 def _plan_beam_set(spec: SetSpec, design: Design, stock):
-    from cutplan.physics import uniform
-
+    assert spec.material is not None  # validated: a chime or bar set names its material
     model = spec.model
     strike = spec.target_mode == "strike-note"
     f_at = beam_frequency_function(spec.material, spec.section, model, strike)
@@ -121,9 +122,8 @@ def _plan_beam_set(spec: SetSpec, design: Design, stock):
 
 def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
     """Arched bars: solve each bar's length and arch, then its nodes, partials and allowances."""
-    from cutplan.physics import undercut
-
     mat, sec, cut = spec.material, spec.section, spec.undercut
+    assert mat is not None and cut is not None  # validated: an arched bar set has both
     e, g = mat.modulus_for("timoshenko"), mat.shear_modulus_for("timoshenko")
     kappa = sec.shear_coefficient(mat.poisson)
     ratios_uncal = uncertainty.beam_ratios(mat, sec, spec.outer_tolerance, spec.wall_tolerance)
@@ -179,8 +179,6 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
 def _with_shop_facts(piece, spec):
     """The piece with the shop facts every output states: strike note, trim end, what to do if
     it comes out sharp."""
-    from dataclasses import replace
-
     strike = None
     if piece.kind == "chime" and len(piece.partials_hz) >= STRIKE_NOTE_MODE:
         strike = piece.partials_hz[STRIKE_NOTE_MODE - 1] / 2
@@ -193,8 +191,8 @@ def _with_shop_facts(piece, spec):
 def _set_summary(spec: SetSpec, units="mm"):
     assumptions, constants = [], ()
     if spec.kind in ("air-column", "resonator"):
-        speed = air_stock.speed(spec)
-        hum = (f"{air_stock.humidity(spec):.0f} % RH" + (" (assumed; give humidity to change it)"
+        speed = air_calibrated.speed(spec)
+        hum = (f"{air_calibrated.humidity(spec):.0f} % RH" + (" (assumed; give humidity to change it)"
                                                          if spec.humidity is None else ""))
         assumptions.append(f"air at {spec.temperature - ZERO_CELSIUS:.1f} C, {hum}: speed of sound {speed:.2f} m/s "
                            "in free air (Cramer 1993)")
@@ -203,7 +201,7 @@ def _set_summary(spec: SetSpec, units="mm"):
                      else f"{corr}, falling with ka (Levine & Schwinger 1948 curve)" if corr != "none" else corr)
         assumptions.append(f"{spec.ends} column, end correction {corr_text} per open end, "
                            f"bore {format_length(spec.section.air_radius * 2, units)}")
-        if air_stock.wall_losses(spec):
+        if air_calibrated.wall_losses(spec):
             assumptions.append("wall losses: viscous and thermal boundary layers slow sound in the pipe by "
                                "about 1.6e-3 / (a sqrt f) (Kirchhoff; Keefe 1984), each note at its own frequency")
         assumptions += air_stock.assumptions(spec)
@@ -215,6 +213,7 @@ def _set_summary(spec: SetSpec, units="mm"):
         model = spec.ends
     else:
         mat = spec.material
+        assert mat is not None  # validated: a chime or bar set names its material
         model = spec.model
         e = mat.modulus_for(model)
         assumptions.append(
@@ -230,7 +229,7 @@ def _set_summary(spec: SetSpec, units="mm"):
                             "slender": "slender (Euler-Bernoulli) free-free beam",
                             "elastic-2d": "2-D elastic body through the thickness (plane stress, quadratic finite "
                                           "elements), free-free"}[model])
-        constants = plan_elastic.elastic_constants(spec)
+        constants = elastic.elastic_constants(spec)
         if model == "elastic-2d":
             across = dict(constants)["modulus_across"]
             assumptions.append(f"E across the bar {across / 1e9:.2f} GPa"
@@ -281,16 +280,17 @@ def plan(design: Design, progress=None, stock_override=None, tables=None) -> Pla
     ones (read once per process) when None.  Reads no file of its own.
     """
     tables = tables if tables is not None else shop_tables()
-    sets, errors, by_name = [], [], {}
+    sets, errors = [], []
+    by_name: dict[str, SetPlan] = {}
     ordered = sorted(design.sets, key=lambda s: s.kind == "resonator")
     for spec in ordered:
-        spec = grain.applied(air_stock.applied(spec))  # a wood bar bends with G of its sawing's plane
+        spec = grain.applied(air_calibrated.applied(spec))  # a wood bar bends with G of its sawing's plane
         stock = spec.stock or design.stock
         summary = _set_summary(spec, design.units)
         if spec.kind in ("chime", "bar"):
             try:
                 if spec.model == "elastic-2d":
-                    pieces = plan_elastic.plan_set(spec, design, stock, progress)
+                    pieces = elastic.plan_set(spec, design, stock, progress)
                 elif spec.undercut is not None:
                     pieces = _plan_undercut_set(spec, design, stock, progress)
                 else:
@@ -337,8 +337,6 @@ def plan(design: Design, progress=None, stock_override=None, tables=None) -> Pla
                           "allowance_rule": allowance_rule(stock, design.units),
                           "material_class": getattr(spec.material, "material_class", None) or ""})
         if spec.kind == "chime":
-            from cutplan.planning.hanging import hanging_for  # noqa: I001 (the assembly: plate, striker, sail, lines)
-
             done = SetPlan(**{**done.__dict__, "hanging": hanging_for(done, spec.hanging, spec.target_mode,
                                                                         tables.lines, units=design.units)})
         by_name[spec.name] = done
@@ -347,14 +345,10 @@ def plan(design: Design, progress=None, stock_override=None, tables=None) -> Pla
         raise DesignErrors(errors)
     order = {s.name: i for i, s in enumerate(design.sets)}
     sets.sort(key=lambda s: order[s.name])
-    from cutplan.layout import cutlist
-    from cutplan.layout import optimiser as stock
-    from cutplan.layout.kits import kit_sets
-
     try:
         cuts = cutlist.lay_out(kit_sets(sets, design.copies), {s.name: s for s in design.sets}, design.stock, stock_override,
                               units=design.units)
-    except stock.StockError as exc:
+    except optimiser.StockError as exc:
         raise DesignErrors([DesignError(design.path, "stock", None, str(exc))]) from None
     return with_shop_lists(Plan(title=design.title, units=design.units, inch_denominator=design.inch_denominator,
                 paper=design.paper, a4=design.a4,

@@ -4,8 +4,18 @@ recomputes (one plan, one truth)."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
 
 from cutplan.units import INCH_DENOMINATOR
+
+if TYPE_CHECKING:  # for annotations only: these modules build on the records
+    from cutplan.design.notices import Notice
+    from cutplan.layout.cutlist import CutList
+    from cutplan.physics.sections import Section
+    from cutplan.planning.hanging import Hanging
+    from cutplan.planning.shopping import Caution, Item
+
+__all__ = ["PARTIAL_COUNT", "HangHoleSplit", "Piece", "Arch", "SetPlan", "Plan"]
 
 PARTIAL_COUNT = 4
 """Partials reported per piece [-]."""
@@ -38,25 +48,25 @@ class Piece:
     predicted_hz: float
     length: float
     cut_length: float
-    nodes: tuple
+    nodes: tuple[float, ...]
     mass: float | None
-    partials_hz: tuple
-    partial_notes: tuple
+    partials_hz: tuple[float, ...]
+    partial_notes: tuple[str, ...]
     cents_per_mm: float
     model: str
     shear_correction_cents: float
-    warnings: tuple = ()
+    warnings: tuple[Notice, ...] = ()
     fundamental_hz: float = 0.0
     bore: float = 0.0
     allowance_uncalibrated: float = 0.0
     allowance_calibrated: float = 0.0
     sharp_risk: float = 0.0
-    arch: object = None
-    stopper: tuple = ()
+    arch: Arch | None = None
+    stopper: tuple[tuple[float, float], ...] = ()
     strike_note_hz: float | None = None
     trim_end: str = ""
     if_sharp: str = ""
-    other_modes: tuple = ()  # ((kind "sideways" | "twisting" | "ring", mode, hz), ...): see other_modes.py
+    other_modes: tuple[tuple[str, int, float], ...] = ()  # ((kind "sideways" | "twisting" | "ring", mode, hz), ...): see other_modes.py
     hang_hole: HangHoleSplit | None = None  # a chime tube's hang hole and the beat it makes
 
     @property
@@ -99,10 +109,10 @@ class Arch:
     depth: float
     arch_width: float
     exponent: float
-    stations: tuple
-    ratios: tuple
-    ratio_residuals_cents: tuple
-    outline: tuple = ()  # (x, h) [m] along the whole bar, for drawing the side profile
+    stations: tuple[tuple[float, float], ...]
+    ratios: tuple[float, ...]
+    ratio_residuals_cents: tuple[float, ...]
+    outline: tuple[tuple[float, float], ...] = ()  # (x, h) [m] along the whole bar, for drawing the side profile
 
 
 @dataclass(frozen=True)
@@ -112,14 +122,14 @@ class SetPlan:
     name: str
     kind: str
     material: str
-    section: object
+    section: Section
     model: str
-    pieces: tuple
-    assumptions: tuple = ()
+    pieces: tuple[Piece, ...]
+    assumptions: tuple[str, ...] = ()
     allowance_rule: str = ""
-    hanging: object = None  # cutplan.planning.hanging.Hanging for a chime set
+    hanging: Hanging | None = None  # cutplan.planning.hanging.Hanging for a chime set
     material_class: str = ""  # "metal", "wood", "plastic", "glass", ... from the material table
-    elastic_constants: tuple = ()  # ((name, value in SI), ...) the model used, e.g. ("modulus_along", 2.1e10)
+    elastic_constants: tuple[tuple[str, float], ...] = ()  # ((name, value in SI), ...) the model used, e.g. ("modulus_along", 2.1e10)
 
     @property
     def section_text(self):
@@ -156,13 +166,13 @@ class Plan:
     paper: str
     a4: float
     temperament: str
-    sets: tuple
+    sets: tuple[SetPlan, ...]
     design_path: str = ""
-    cut_list: object = None
-    warnings: tuple = field(default=())
+    cut_list: CutList | None = None
+    warnings: tuple[str, ...] = field(default=())
     inch_denominator: int = INCH_DENOMINATOR
-    shopping: tuple = ()  # cutplan.planning.shopping.Item, ...
-    cautions: tuple = ()  # cutplan.planning.shopping.Caution, ...
+    shopping: tuple[Item, ...] = ()  # cutplan.planning.shopping.Item, ...
+    cautions: tuple[Caution, ...] = ()  # cutplan.planning.shopping.Caution, ...
     classroom: bool = False  # the design is for a classroom (supervision notes)
     copies: int = 1  # identical kits: the cut list and shopping list hold all of them
 

@@ -19,6 +19,16 @@ from cutplan import units
 from cutplan.layout.kits import kit_label
 from cutplan.materials import shop_table
 from cutplan.planning import hanging_load
+from cutplan.planning.hang_holes import BEAT_LIMIT_HZ, drill_text
+from cutplan.planning.hanging import SAIL_DROP
+from cutplan.planning.hanging_load import buy_text, mass_text
+
+__all__ = [
+    "PLATE_THICKNESS", "round_in_unit", "plate_material", "PLATE_HANGING", "CODES", "Item", "Caution",
+    "HangHole", "Plate", "hang_holes", "hang_hole_for", "cautions_for", "hanging_plate", "h_limit",
+    "shopping_list", "with_shop_lists"
+]
+
 
 PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
 """Usual hanging-plate thickness [m]: plywood or hardwood, aluminium sheet, as sold in metric and
@@ -101,9 +111,9 @@ class Plate:
 
     diameter_mm: float
     pitch_radius_mm: float
-    holes: tuple
+    holes: tuple[tuple[float, float, str], ...]
     hole_mm: float = 4.0
-    suspension: tuple = ()  # (x, y) [mm] of the three holes the plate hangs by
+    suspension: tuple[tuple[float, float], ...] = ()  # (x, y) [mm] of the three holes the plate hangs by
     striker_mm: float = 0.0  # striker disc diameter [mm], drawn round the centre
     tube_mm: float = 0.0  # tube outside diameter [mm], drawn round each tube's hole
 
@@ -224,8 +234,6 @@ def _drill_for(s, row, shown="mm"):
     fast = [h for h in splits if h.beat_hz > h_limit() and h.largest_drill > 0]
     if not fast:
         return row.drill, "through both walls, at the hang-hole mark"
-    from cutplan.planning.hang_holes import drill_text
-
     drill = min(h.largest_drill for h in fast)
     return drill, (f"through both walls, at the hang-hole mark; {drill_text(drill, shown)}, smaller than the "
                    f"table's {drill_text(row.drill, shown)}, so the hole's two bending planes beat slower than "
@@ -234,14 +242,10 @@ def _drill_for(s, row, shown="mm"):
 
 def h_limit():
     """The beat limit of hang holes [Hz] (:data:`cutplan.planning.hang_holes.BEAT_LIMIT_HZ`)."""
-    from cutplan.planning.hang_holes import BEAT_LIMIT_HZ
-
     return BEAT_LIMIT_HZ
 
 
 def _chime_items(s, rows, shown="mm", copies=1, den=units.INCH_DENOMINATOR):
-    from cutplan.planning.hanging import SAIL_DROP
-    from cutplan.planning.hanging_load import buy_text, mass_text
 
     h = s.hanging
     load = h.load

@@ -43,6 +43,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+__all__ = ["Drift", "DRIFTS", "WOOD", "drift_for", "assumption"]
+
 
 @dataclass(frozen=True)
 class Drift:

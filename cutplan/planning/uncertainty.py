@@ -22,6 +22,12 @@ import numpy as np
 
 from cutplan.physics.roots import bracketed_roots
 
+__all__ = [
+    "SAMPLES", "SEED", "CALIBRATED_MODULUS_SPREAD", "WOOD_MODULUS_CV", "SEVERAL_BLANKS",
+    "TEMPERATURE_SPREAD", "END_CORRECTION_SPREAD", "shared_draws", "beam_ratios", "calibrated_spreads",
+    "wood_blank_spreads", "air_ratios", "risk_quantile", "cut_length_for_risk", "sharp_risk", "sharp_risks"
+]
+
 SAMPLES = 20_000
 """Monte Carlo samples per set [-]."""
 SEED = 20261201
@@ -53,7 +59,7 @@ def _rng():
 
 
 @lru_cache(maxsize=1)
-def _draws():
+def shared_draws():
     """The seeded draws every set uses: (standard normals (2, SAMPLES), then uniforms on [-1, 1]
     (2, SAMPLES) from the same stream).  Drawn once per process and shared read-only."""
     rng = _rng()
@@ -66,7 +72,7 @@ def _draws():
 
 def beam_ratios(material, section, outer_tolerance=0.0, wall_tolerance=0.0, calibrated=False):
     """Samples of f_actual / f_planned for a chime or bar cut at its planned length."""
-    z, u = _draws()
+    z, u = shared_draws()
     if calibrated:
         e_spread, rho_spread = calibrated_spreads(material)
         e = 1 + e_spread * z[0]
@@ -133,7 +139,7 @@ def air_ratios(length, radius, correction_factor, open_ends, temperature, calibr
     calibrated : bool
         True after a test pipe has been measured (smaller spreads).
     """
-    z = _draws()[0]
+    z = shared_draws()[0]
     t_spread = TEMPERATURE_SPREAD / 2 if calibrated else TEMPERATURE_SPREAD
     d_spread = END_CORRECTION_SPREAD / 5 if calibrated else END_CORRECTION_SPREAD
     speed = np.sqrt((temperature + t_spread * z[0]) / temperature)

@@ -7,6 +7,11 @@ from __future__ import annotations
 from cutplan.planning.hanging_load import KNOT_EFFICIENCY, buy_text, mass_text
 from cutplan.units import INCH_DENOMINATOR, format_length
 
+__all__ = [
+    "MODE_WORDS", "hanging_dict", "height_reason", "sail_text", "weight_text", "lines_text", "plate_text",
+    "hanging_lines", "clearance_text"
+]
+
 MODE_WORDS = {(1,): "the fundamental", (1, 4, 5, 6): "the fundamental and modes 4-6 (the strike note)"}
 
 

@@ -14,6 +14,11 @@ from dataclasses import dataclass
 from cutplan.planning.shopping import hanging_plate  # noqa: F401 (the plate geometry, re-exported for renderers)
 from cutplan.units import INCH_DENOMINATOR, MM, ZERO_CELSIUS, format_length
 
+__all__ = [
+    "TICK_STEP_MM", "TICK_NUMBER_MM", "Style", "STYLES", "Mark", "length_text", "piece_marks",
+    "strip_length_mm", "tiles", "JoinMark", "join_marks", "ruler_ticks", "wrap_guide_mm", "assign_lanes"
+]
+
 TICK_STEP_MM = 10
 """Ticks along a strip every 10 mm [mm]."""
 TICK_NUMBER_MM = 50
@@ -26,7 +31,7 @@ class Style:
     below (``below``) [mm].  The same table drives the PDF and the SVG."""
 
     width: float
-    dash: tuple = ()
+    dash: tuple[float, ...] = ()
     below: float = 1.0
 
 

@@ -10,6 +10,8 @@ from cutplan.render.pdf import render_pdf
 from cutplan.render.svg import svg_files
 from cutplan.render.table import render_csv, render_cutlist_csv, render_json
 
+__all__ = ["packet_files", "plan_files"]
+
 
 def packet_files(plan, paper=None):
     """The shop packet: packet.pdf and templates/*.svg."""

@@ -45,6 +45,9 @@ def caution_lines(cautions, width=100):
                              break_long_words=False)
     return out
 
+__all__ = ["other_modes_text", "trim_lines", "partial_lines", "trim_report_lines", "removal_lines"]
+
+
 
 def other_modes_text(modes):
     """"sideways 1510, 4030 Hz; twisting 2210, 4420 Hz": the modes a piece is not tuned by, in short."""

@@ -26,6 +26,11 @@ from cutplan.render import marks as mk
 from cutplan.render.phrases import CENTRE_OUT, STOPPER_RULE, TRIM_RULE, sentence
 from cutplan.units import INCH_DENOMINATOR, MM, format_length
 
+__all__ = [
+    "HAIRLINE", "TEXT", "MARGIN", "INCH_MM", "COLOURS", "LABEL", "LANE", "CHAR_WIDTH", "render_piece_svg",
+    "render_plate_svg", "render_wrap_svg", "svg_files"
+]
+
 HAIRLINE = 0.1
 """Stroke width for cut and mark lines [mm]."""
 TEXT = 3.0

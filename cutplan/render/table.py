@@ -10,6 +10,11 @@ from cutplan.render.hanging import hanging_dict
 from cutplan.render.stock_layout import cut_list_view
 from cutplan.units import INCH_DENOMINATOR, MM, ZERO_CELSIUS, length_parts
 
+__all__ = [
+    "PLAN_FORMAT", "piece_dict", "plan_dict", "cut_list_dict", "csv_cell", "render_json", "CSV_COLUMNS",
+    "render_csv", "CUTLIST_COLUMNS", "render_cutlist_csv"
+]
+
 PLAN_FORMAT = "cutplan-plan/1"
 
 

@@ -9,6 +9,12 @@ from cutplan.render.phrases import TRIM_RULE, caution_lines, other_modes_text
 from cutplan.render.stock_layout import cut_list_view, stick_lines
 from cutplan.units import INCH, INCH_DENOMINATOR, MM, ZERO_CELSIUS, format_length, length_cell, length_heading
 
+__all__ = [
+    "WIDTH", "render_table", "render_stock", "LIST_WIDTH", "render_library",
+    "render_library_entry"
+]
+
+
 WIDTH = 100
 """Widest line of a plan table [characters]; secondary columns move to a second table beyond it."""
 
@@ -136,8 +142,6 @@ LIST_WIDTH = 100
 
 def _listed(head, text, indent=None):
     """``head`` + ``text`` in lines of at most :data:`LIST_WIDTH`, continued under the text (or ``indent``)."""
-    import textwrap
-
     pad = " " * (len(head) if indent is None else indent)
     if len(pad) > LIST_WIDTH // 2:
         pad = " " * 6

@@ -9,6 +9,10 @@ from __future__ import annotations
 
 from html import escape
 
+from cutplan.units import format_length
+
+__all__ = ["WIDTH_PX", "trim_drawing"]
+
 WIDTH_PX = 640.0
 """Drawing width on the page [px]; the height follows the bar's proportions (thickness x 3)."""
 
@@ -19,8 +23,6 @@ def _path(points):
 
 def trim_drawing(report, units="mm"):
     """SVG text of an undercut bar's side view with this round's cuts, or "" for other pieces."""
-    from cutplan.units import format_length
-
     if not report.profile_now:
         return ""
     xs, hs = report.profile_now

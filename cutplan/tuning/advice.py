@@ -3,6 +3,8 @@
 Plain text only; common practice for each kind of piece.
 """
 
+__all__ = ["TRIM_FROM", "SHARP_ACTION", "trim_from", "sharp_action"]
+
 TRIM_FROM = {
     "chime": "the bottom end (away from the hang hole)",
     "bar": "both ends, half from each, to keep the supports at the nodes",

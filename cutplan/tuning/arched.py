@@ -4,19 +4,27 @@ for this round (:mod:`cutplan.tuning.removal`) and the rounds mapping for the ne
 from __future__ import annotations
 
 import copy
+from dataclasses import replace
 
 import numpy as np
 
+from cutplan.numeric import quiet
+from cutplan.physics import beam_fe
+from cutplan.physics.undercut import arch_thickness
+from cutplan.render.phrases import removal_lines
 from cutplan.tuning import removal
+from cutplan.tuning.profile_model import elastic_constants, profile_modes
 from cutplan.tuning.trim_service import (
     IN_TUNE_CENTS,
     TrimError,
     TrimReport,
-    _with_lines,
     check_state,
     profile_arrays,
     profile_entry,
+    with_lines,
 )
+
+__all__ = ["MATCH_LENGTH", "planned_profile", "bar_data", "support_distances", "arched_report"]
 
 MATCH_LENGTH = 0.2e-3
 """A length now within this of the profile's own is the same bar [m]."""
@@ -25,8 +33,6 @@ MATCH_LENGTH = 0.2e-3
 def planned_profile(piece, length_now):
     """(xs, hs) [m] of the planned arch, centred on a blank ``length_now`` long (half of any
     allowance at each end, as the packet marks it)."""
-    from cutplan.physics.undercut import arch_thickness
-
     a = piece.arch
     xs = removal.model_grid(length_now)
     shift = (length_now - piece.length) / 2
@@ -35,8 +41,6 @@ def planned_profile(piece, length_now):
 
 def bar_data(spec):
     """The model's constants of a set's material and section."""
-    from cutplan.tuning.profile_model import elastic_constants
-
     e, across, g, nu = elastic_constants(spec.material)
     return removal.BarData(spec.section.width, e, across, g, nu, spec.material.density, spec.undercut.min_thickness)
 
@@ -44,8 +48,6 @@ def bar_data(spec):
 def support_distances(bar, xs, hs):
     """Distances of the mode-1 nodes from the centre line [m] of the profile (the model's own
     nodes where it reports them, else the 1-D model's mode shape)."""
-    from cutplan.tuning.profile_model import profile_modes
-
     length = float(xs[-1] - xs[0])
     r = profile_modes(xs, hs, bar.width, bar.modulus_along, bar.modulus_across, bar.shear_modulus, bar.poisson,
                       bar.density, modes=1)
@@ -53,8 +55,6 @@ def support_distances(bar, xs, hs):
     if nodes:
         found = nodes[0]
     else:
-        from cutplan.physics import beam_fe
-
         found = beam_fe.node_positions(r, 1)
     return tuple(sorted({round(abs(length / 2 - (x - xs[0])), 6) for x in found}))
 
@@ -90,8 +90,6 @@ def _profile_now(piece, entry, length_now, done, messages):
 
 def arched_report(design, plan, piece, spec, partials, confidence, questions, length_now, state, done):
     """The trim report of an undercut bar, with this round's cuts and the rounds mapping after it."""
-    from cutplan.render.phrases import removal_lines
-
     state = copy.deepcopy(check_state(state))
     entry = state["pieces"].get(piece.label)
     messages = list(questions)
@@ -109,8 +107,6 @@ def arched_report(design, plan, piece, spec, partials, confidence, questions, le
         report = TrimReport(action=action, length_needed=length, supports=support_distances(bar, xs, hs),
                             messages=tuple(messages), predicted_after_hz=tuple(measured), **base)
     else:
-        from cutplan.numeric import quiet
-
         advice = quiet(removal.advise_removal, bar, xs, hs, measured, targets)
         after_x, after_h = np.asarray(advice.after[0]), np.asarray(advice.after[1])
         for mode in advice.unreachable:
@@ -127,6 +123,4 @@ def arched_report(design, plan, piece, spec, partials, confidence, questions, le
                                 "trim_each_end_mm": round(advice.trim_each_end * 1e3, 3),
                                 "after": profile_entry(after_x, after_h)}
     state["pieces"][piece.label] = new_entry
-    from dataclasses import replace
-
-    return replace(_with_lines(report, removal_lines(piece, report, plan.units)), state=state)
+    return replace(with_lines(report, removal_lines(piece, report, plan.units)), state=state)

@@ -23,8 +23,16 @@ import numpy as np
 
 from cutplan.limits import AIR_SPEED_RANGE, IN_TUNE_CENTS
 from cutplan.numeric import LENGTH_RANGE
+from cutplan.physics.air_column import end_correction
+from cutplan.physics.roots import bracketed_roots
 from cutplan.render.phrases import TRIM_RAISES
 from cutplan.units import format_length
+
+__all__ = [
+    "CalibrationError", "BeamFit", "fit_beam", "AirFit", "fit_air_column",
+    "fit_air_column_choice", "AIR_SPEED_RANGE", "END_FACTOR_RANGE", "MAX_RESIDUAL_CENTS", "TrimAdvice",
+    "FAR_OFF_CENTS", "trim_advice"
+]
 
 
 class CalibrationError(ValueError):
@@ -37,8 +45,8 @@ class BeamFit:
     [cents] and the table model's prediction for each piece [Hz]."""
 
     scale: float
-    residuals_cents: tuple
-    predicted_hz: tuple
+    residuals_cents: tuple[float, ...]
+    predicted_hz: tuple[float, ...]
 
     @property
     def change_percent(self):
@@ -88,36 +96,13 @@ def fit_beam(pieces, frequency_at_table):
     return BeamFit(scale=scale, residuals_cents=residuals, predicted_hz=tuple(predicted))
 
 
-def calibrated_material_toml(name, material, model, scale, spread, pieces, residuals, source_text):
-    """A user material file (TOML text) with the fitted modulus, marked as measured."""
-    e = material.modulus_for(model) * scale
-    lines = [
-        f"# Calibrated by cutplan from {len(pieces)} test piece(s) of {material.name} ({source_text}).",
-        f"# Model: {model}. Residuals (cents): " + ", ".join(f"{r:+.2f}" for r in residuals),
-        f"# Table modulus {material.modulus_for(model) / 1e9:.3f} GPa -> fitted {e / 1e9:.3f} GPa "
-        f"({100 * (scale - 1):+.2f} %).",
-        f'["{name}"]',
-        f'description = "{material.name} calibrated from test pieces"',
-        f'modulus = {{ value = "{e / 1e9:.6f} GPa", kind = "measured", where = "cutplan calibrate", '
-        f'spread = "{100 * spread:.2f} %", basis = "dynamic" }}',
-        f'density = {{ value = "{material.density:.3f} kg/m3", kind = "derived", where = "table value kept", '
-        'spread = "0 %" }',
-        f"poisson = {material.poisson}",
-    ]
-    if material.shear_ratio:
-        lines.append(f"shear_ratio = {material.shear_ratio}")
-    elif material.shear_modulus:
-        lines.append(f'shear_modulus = "{material.shear_modulus * scale / 1e9:.6f} GPa"')
-    return "\n".join(lines) + "\n"
-
-
 @dataclass(frozen=True)
 class AirFit:
     """Fitted speed of sound [m/s] and end correction per open end [m], residuals [cents]."""
 
     speed: float
     end_correction: float
-    residuals_cents: tuple
+    residuals_cents: tuple[float, ...]
 
 
 def fit_air_column(pieces, ends, speed=None, end_correction=None):
@@ -178,8 +163,6 @@ def fit_air_column_choice(pieces, ends, what, speed, radius=None):
     if what == "both":
         fit = fit_air_column(pieces, ends)
     elif what == "speed":
-        from cutplan.physics.air_column import end_correction
-
         fit = fit_air_column(pieces, ends, end_correction=0.0 if radius is None else end_correction(radius))
     else:
         fit = fit_air_column(pieces, ends, speed=speed)
@@ -264,8 +247,6 @@ def _length_for(miss, length_now):
     The bracket widens from [L/1.5, 1.5 L] by factors of 1.5 until it holds the root, so any
     reading within the accepted octave gets an answer for every kind of piece.
     """
-    from cutplan.physics.roots import bracketed_roots
-
     lo, hi = length_now / 1.5, length_now * 1.5
     for _ in range(12):
         if miss(lo) >= 0 >= miss(hi):

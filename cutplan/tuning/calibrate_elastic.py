@@ -8,14 +8,15 @@ follows the fitted E unless the material tables its own value.
 
 from __future__ import annotations
 
+from cutplan.physics import elastic2d
 from cutplan.tuning.calibrate import CalibrationError
+
+__all__ = ["partial_frequencies_2d"]
 
 
 def partial_frequencies_2d(material, section, modulus, shear_modulus, length, modes):
     """Bending modes 1..``modes`` [Hz] of a uniform bar of ``section`` in the 2-D model, with E
     along = ``modulus`` [Pa] and G = ``shear_modulus`` [Pa]; length [m]."""
-    from cutplan.physics import elastic2d
-
     if section.shape != "bar":
         raise CalibrationError("the elastic-2d model is for bars of rectangular section")
     across = getattr(material, "modulus_across", None) or modulus

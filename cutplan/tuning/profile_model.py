@@ -11,6 +11,10 @@ from __future__ import annotations
 
 import numpy as np
 
+from cutplan.physics import beam_fe
+from cutplan.physics.sections import shear_coefficient_cowper_rectangle
+from cutplan.planning.frequency import plane_constants
+
 
 def model_name():
     """Which model :func:`profile_modes` uses: "elastic-2d" or "beam-fe"."""
@@ -20,12 +24,13 @@ def model_name():
         return "beam-fe"
     return "elastic-2d"
 
+__all__ = ["elastic_constants", "profile_modes"]
+
+
 
 def elastic_constants(material):
     """(E along, E across, G, nu) [Pa, Pa, Pa, -] of a material, the constants the plan designs
     its undercut bars with (:func:`cutplan.planning.frequency.plane_constants`), so trim and plan agree."""
-    from cutplan.planning.frequency import plane_constants
-
     c = plane_constants(material)
     return c.modulus_along, c.modulus_across, c.shear_modulus, c.poisson
 
@@ -66,9 +71,6 @@ def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_mod
 
 def _beam_fe_modes(xs, thickness, width, modulus, shear_modulus, poisson, density, modes):
     """The 1-D fallback: Timoshenko elements with their edges at the stations (Cowper's kappa)."""
-    from cutplan.physics import beam_fe
-    from cutplan.physics.sections import shear_coefficient_cowper_rectangle
-
     xs = np.asarray(xs, dtype=float)
     hs = np.asarray(thickness, dtype=float)
     x0 = xs - xs[0]

@@ -21,12 +21,27 @@ from __future__ import annotations
 
 import json
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
+from typing import Any
 
 import numpy as np
 
+from cutplan.audio.analysis import measure
+from cutplan.audio.wav import RecordingError
 from cutplan.limits import FREQUENCY_RANGE, FREQUENCY_SPAN, IN_TUNE_CENTS
-from cutplan.units import format_length
+from cutplan.numeric import quiet
+from cutplan.planning.frequency import piece_frequency_function
+from cutplan.render.phrases import trim_report_lines
+from cutplan.tuning.calibrate import FAR_OFF_CENTS, CalibrationError, trim_advice
+from cutplan.units import UnitError, format_length, parse_length
+
+__all__ = [
+    "LOW_CONFIDENCE", "IN_TUNE_CENTS", "PARTIAL_MATCH", "STATE_FORMAT", "STATE_SUFFIX",
+    "TrimError", "Partial", "TrimReport", "parse_measured", "parse_length_now", "recorded_partials",
+    "find_piece", "tuned_targets", "trim_report", "with_lines", "new_state", "check_state",
+    "profile_arrays", "profile_entry"
+]
+
 
 LOW_CONFIDENCE = 0.5
 """A recording read with less confidence than this is questioned before any advice [-]
@@ -64,21 +79,21 @@ class TrimReport:
     label: str
     note: str
     action: str  # "in-tune" | "trim" | "remove" | "sharp" | "re-record"
-    partials: tuple
+    partials: tuple[Partial, ...]
     length_now: float
     length_needed: float | None
-    removal: tuple = ()  # ((x [m] from end A, depth [m], mode mostly moved, raises it), ...) in work order
+    removal: tuple[tuple[float, float, int, bool], ...] = ()  # ((x [m] from end A, depth [m], mode mostly moved, raises it), ...) in work order
     blend: float = 0.0  # each cut fades to nothing this far either side of its station [m]
     trim_each_end: float = 0.0
-    predicted_after_hz: tuple = ()
-    unreachable: tuple = ()
-    supports: tuple = ()  # distances of the supports or hang points from the centre line [m]
+    predicted_after_hz: tuple[float, ...] = ()
+    unreachable: tuple[int, ...] = ()
+    supports: tuple[float, ...] = ()  # distances of the supports or hang points from the centre line [m]
     confidence: float = 1.0
-    lines: tuple = ()
-    messages: tuple = ()  # ((code, text), ...)
-    profile_after: tuple = ()  # (xs, hs) [m] of an undercut bar after the advised cuts
-    profile_now: tuple = ()
-    state: dict = field(default=None, compare=False)
+    lines: tuple[str, ...] = ()
+    messages: tuple[tuple[str, str], ...] = ()  # ((code, text), ...)
+    profile_after: tuple[tuple[float, ...], ...] = ()  # (xs, hs) [m] of an undercut bar after the advised cuts
+    profile_now: tuple[tuple[float, ...], ...] = ()
+    state: dict[str, Any] | None = field(default=None, compare=False)
 
     def as_dict(self):
         """The JSON fields (``partials``, ``removal``, ``predicted_after_hz`` and the rest)."""
@@ -120,8 +135,6 @@ def parse_measured(text, key="measured"):
 
 def parse_length_now(text, piece, units="mm", key="length_now"):
     """The piece's length now [m] from text, within half the planned and twice the cut length."""
-    from cutplan.units import UnitError, parse_length
-
     try:
         now = parse_length(text)
     except UnitError as exc:
@@ -133,7 +146,7 @@ def parse_length_now(text, piece, units="mm", key="length_now"):
     return now
 
 
-def recorded_partials(measurement, piece):
+def recorded_partials(measurement, piece) -> tuple[tuple[float, ...], float]:
     """(partials 1, 2, ... [Hz] in mode order, stopping at the first one not heard, confidence)."""
     f1 = measurement.fundamental_hz
     out = [f1]
@@ -166,8 +179,6 @@ def tuned_targets(piece, count):
 
 def _questioned(piece, cents1, confidence, from_recording):
     """((code, text), ...) when the reading must be confirmed before any cut."""
-    from cutplan.tuning.calibrate import FAR_OFF_CENTS
-
     out = []
     if abs(cents1) > FAR_OFF_CENTS:
         out.append(("far-off", f"this reading is {abs(cents1):.0f} cents from the target: record again and check "
@@ -194,7 +205,7 @@ def trim_report(design, plan, label, measured_hz, confidence=1.0, from_recording
                      for i, (f, t) in enumerate(zip(measured, targets, strict=True)))
     questions = _questioned(piece, partials[0].cents, confidence, from_recording)
     if piece.arch is not None:
-        from cutplan.tuning.arched import arched_report
+        from cutplan.tuning.arched import arched_report  # here: arched imports this module
 
         return arched_report(design, plan, piece, spec, partials, confidence, questions, length_now, state, done)
     return _plain_report(plan, piece, spec, partials, confidence, questions, length_now)
@@ -247,8 +258,6 @@ def trim_reading(design, plan, label, measured="", recording=None, length_now=""
     the last advice was made.  ``keys`` renames the inputs in errors (see :data:`KEYS`).
     Returns a :class:`TrimReading`; raises :class:`TrimError` (key and one line) for bad input.
     """
-    from cutplan.audio.analysis import measure
-    from cutplan.audio.wav import RecordingError
 
     keys = {**KEYS, **(keys or {})}
     measured = str(measured or "").strip()
@@ -279,11 +288,6 @@ def trim_reading(design, plan, label, measured="", recording=None, length_now=""
 
 def _plain_report(plan, piece, spec, partials, confidence, questions, length_now):
     """Uniform bars, chimes and air columns: the length to trim (and the supports for it)."""
-    from cutplan.numeric import quiet
-    from cutplan.planning.frequency import piece_frequency_function
-    from cutplan.render.phrases import trim_report_lines
-    from cutplan.tuning.calibrate import CalibrationError, trim_advice
-
     f1 = partials[0].measured_hz
     try:
         advice = quiet(trim_advice, piece, piece_frequency_function(spec, piece), f1, length_now, plan.units)
@@ -307,12 +311,10 @@ def _plain_report(plan, piece, spec, partials, confidence, questions, length_now
         supports = tuple(sorted({round(abs(0.5 - f) * advice.length_needed, 7) for f in fractions}))
     report = TrimReport(piece.label, piece.note, action, partials, advice.length_now, advice.length_needed,
                         predicted_after_hz=predicted, supports=supports, confidence=confidence, messages=questions)
-    return _with_lines(report, trim_report_lines(piece, report, advice, plan.units))
+    return with_lines(report, trim_report_lines(piece, report, advice, plan.units))
 
 
-def _with_lines(report, lines):
-    from dataclasses import replace
-
+def with_lines(report, lines):
     return replace(report, lines=tuple(lines))
 
 

@@ -9,15 +9,21 @@ the server read itself, and material folders come from the server's options only
 from __future__ import annotations
 
 import io
+import json
 import re
 import time
 import tomllib
 from pathlib import Path
 
-from flask import Flask, Request, g, jsonify, render_template, request
+from flask import Flask, Request, Response, g, jsonify, render_template, request
+from markupsafe import Markup
+from werkzeug.exceptions import HTTPException
 
+from cutplan import pitch
 from cutplan.planning.shopping import general_cautions
 from cutplan.render.phrases import SAFETY_HEADING, TRIM_RULE
+from cutplan.render.table import plan_dict
+from cutplan.starters import CHIME
 from cutplan.units import LengthParts
 from cutplan.web import form as webform
 from cutplan.web import view
@@ -26,6 +32,7 @@ from cutplan.web.service import (
     MAX_DESIGN_BYTES,
     Planner,
     WebErrors,
+    design_toml,
     error,
     packet_pdf,
     packet_zip,
@@ -33,6 +40,11 @@ from cutplan.web.service import (
     plain_problem,
 )
 from cutplan.web.trim import trim_answer
+
+__all__ = [
+    "MAX_UPLOAD_BYTES", "UPLOAD_ROUTES", "LOOPBACK_NAMES", "CSP", "MemoryRequest", "examples_dir",
+    "create_app", "same_origin"
+]
 
 MAX_UPLOAD_BYTES = 16 * 1024 * 1024
 """Largest request with a recording [bytes]: about 90 s of 16-bit mono at 44.1 kHz."""
@@ -66,8 +78,6 @@ def _examples():
 
 
 def _starter():
-    from cutplan.starters import CHIME
-
     return tomllib.loads(CHIME)
 
 
@@ -75,8 +85,6 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     """The Flask application. ``materials_dirs`` are the server's extra material folders;
     ``workers`` > 0 plans in that many worker processes (stop them with ``app.planner.close()``);
     ``host``: the loopback address it is bound to (127.0.0.2, ::1), accepted as a Host header."""
-    from cutplan import pitch
-
     app = Flask(__name__)
     app.request_class = MemoryRequest
     app.config.update(MAX_CONTENT_LENGTH=MAX_UPLOAD_BYTES, MAX_FORM_MEMORY_SIZE=MAX_DESIGN_BYTES,
@@ -129,8 +137,6 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
 
     @app.errorhandler(Exception)
     def _unexpected(exc):
-        from werkzeug.exceptions import HTTPException
-
         if isinstance(exc, HTTPException):
             return exc
         app.logger.exception("unexpected error on %s", request.path)  # the server's log keeps the detail
@@ -283,8 +289,6 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
 
     @app.post("/design.toml")
     def save_design():
-        from cutplan.web.service import design_toml
-
         return _form_or_errors(lambda data, pair: _attachment(design_toml(data).encode("utf-8"),
                                                               "application/toml", "design.toml"))
 
@@ -305,8 +309,6 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
 
     @app.post("/api/plan")
     def api_plan():
-        from cutplan.render.table import plan_dict
-
         try:
             data = _json_design()
             _design, the_plan = planner.plan(data, gone=_gone())
@@ -370,14 +372,10 @@ def _json_design():
 
 
 def _dumps(data):
-    import json
-
     return json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False) + "\n"  # strict JSON: never NaN or Infinity
 
 
 def _attachment(payload, mimetype, name, inline=False):
-    from flask import Response
-
     resp = Response(payload, mimetype=mimetype)
     resp.headers["Content-Disposition"] = f'{"inline" if inline else "attachment"}; filename="{name}"'
     return resp
@@ -386,7 +384,6 @@ def _attachment(payload, mimetype, name, inline=False):
 def _both_units(value):
     """A length's two units, each kept on one line: "20-1/32 in (508.6 mm)" from its
     :class:`~cutplan.units.LengthParts` (other text is shown as it is)."""
-    from markupsafe import Markup
 
     if not isinstance(value, LengthParts):
         return Markup('<span class="nw">{}</span>').format(value)

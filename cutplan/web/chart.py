@@ -11,6 +11,8 @@ from xml.sax.saxutils import escape
 
 from cutplan.units import MM
 
+__all__ = ["WIDTH", "HEIGHT", "LEFT", "RIGHT", "TOP", "BOTTOM", "length_pitch_svg"]
+
 WIDTH, HEIGHT = 640, 360
 """Chart size [px]."""
 LEFT, RIGHT, TOP, BOTTOM = 64, 16, 16, 44

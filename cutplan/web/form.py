@@ -22,6 +22,13 @@ from dataclasses import dataclass
 
 from cutplan.web.service import WebErrors, error
 
+__all__ = [
+    "MAX_SETS", "TOP_FIELDS", "TUNING_FIELDS", "STOCK_FIELDS", "SECTION_FIELDS", "PITCH_FIELDS",
+    "SET_FIELDS", "FOR_KINDS", "SetField", "MODEL_OPTIONS", "BEAMS", "AIR", "SET_EXTRAS", "EXTRA_KEYS",
+    "TABLES", "set_count", "mapping_from_form", "form_from_mapping", "FIELD_LABELS", "SET_LABELS",
+    "field_label"
+]
+
 MAX_SETS = 12
 """Sets the form offers [-] (a design with more is planned through the API or a file)."""
 TOP_FIELDS = ("title", "units", "inch_denominator", "paper")
@@ -89,13 +96,13 @@ class SetField:
 
     key: str
     label: str
-    kinds: tuple
+    kinds: tuple[str, ...]
     group: str = ""
     hint: str = ""
     placeholder: str = ""
     read: Callable = str
     show: Callable = _text
-    options: tuple = ()
+    options: tuple[tuple[str, str], ...] = ()
     blank: str = ""
 
 

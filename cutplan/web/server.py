@@ -4,6 +4,7 @@ explicit choice and gets a warning."""
 
 from __future__ import annotations
 
+import errno
 import ipaddress
 import os
 import signal
@@ -16,6 +17,11 @@ from waitress import create_server
 from waitress.channel import HTTPChannel
 
 from cutplan.web.app import MAX_UPLOAD_BYTES, create_app
+
+__all__ = [
+    "DEFAULT_HOST", "DEFAULT_PORT", "THREADS", "SPARE_THREADS", "CONNECTION_LIMIT", "IDLE_TIMEOUT",
+    "is_loopback", "exposure_warning", "page_url", "default_workers", "listening_socket", "serve"
+]
 
 DEFAULT_HOST = "127.0.0.1"
 DEFAULT_PORT = 8750
@@ -136,8 +142,6 @@ def default_workers():
 def listening_socket(host, port, any_port_if_busy=False, echo=print):
     """A bound socket on ``port``; with ``any_port_if_busy``, a free port (said in one line) when
     that one is taken, e.g. by a second ``cutplan serve``."""
-    import errno
-
     try:
         return _listening_socket(host, port)
     except OSError as exc:

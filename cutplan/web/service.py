@@ -13,9 +13,25 @@ import threading
 import zipfile
 from collections import OrderedDict
 
+import tomli_w
+
+from cutplan.audio.synth import RATE, arpeggio, piece_preview
+from cutplan.audio.wav import wav_bytes
+from cutplan.design import DesignErrors, design_from_mapping
 from cutplan.design.notices import INVALID, Notice
+from cutplan.materials import Library, MaterialError, load_library
 from cutplan.planning.planner import bars_to_solve
 from cutplan.planning.service import REFUSALS, guarded_plan, refusal_records
+from cutplan.render.packet import plan_files
+from cutplan.render.pdf import render_pdf
+from cutplan.web.workers import Stopped, WorkerPool
+
+__all__ = [
+    "DESIGN_NAME", "MAX_DESIGN_BYTES", "CACHE_SIZE", "STOPPED", "ZIP_TIME", "WebErrors", "error",
+    "design_errors", "MAX_DEPTH", "plain_problem", "library", "Planner", "design_toml", "packet_zip",
+    "packet_pdf", "piece_wav"
+]
+
 
 DESIGN_NAME = "design"
 """Name that stands for the design in error lines (there is no file)."""
@@ -79,15 +95,13 @@ def plain_problem(value, key="(design)", depth=0):
     return None
 
 
-_LIBRARIES = {}
+_LIBRARIES: dict[tuple[str, ...], Library] = {}
 _LIBRARY_LOCK = threading.Lock()
 
 
 def library(materials_dirs=()):
     """The material library of the server's folders, read once per process (so answers do not
     change while the server runs, and no request waits for the folders to be read again)."""
-    from cutplan.materials import load_library
-
     key = tuple(str(d) for d in materials_dirs)
     with _LIBRARY_LOCK:
         if key not in _LIBRARIES:
@@ -135,7 +149,6 @@ class Planner:
         A broken folder raises :class:`WebErrors` naming the file (and changes nothing: the tables
         read before keep serving). Plans already under way finish on the tables they started with
         and are not kept for later requests."""
-        from cutplan.materials import MaterialError, load_library
 
         try:
             fresh = load_library(list(self.materials_dirs))
@@ -154,8 +167,6 @@ class Planner:
     def design(self, data, lib=None):
         """A validated Design (on the material library ``lib``, default :attr:`library`), or
         :class:`WebErrors`."""
-        from cutplan.design import DesignErrors
-        from cutplan.materials import MaterialError
 
         if not isinstance(data, dict):
             raise WebErrors([error("(design)", "must be a table (JSON object) of design keys")])
@@ -165,7 +176,6 @@ class Planner:
         if "material_dirs" in data:
             raise WebErrors([error("material_dirs", "is not accepted from the page or the API; material "
                                    "folders are given to the server (cutplan serve --materials DIR)")])
-        from cutplan.design import design_from_mapping
 
         lib = self.library if lib is None else lib
         try:
@@ -197,7 +207,6 @@ class Planner:
             raise WebErrors([r.as_dict() for r in refusal_records(exc, DESIGN_NAME)]) from None
 
     def _in_worker(self, data, lib, gone=None, progress=None):
-        from cutplan.web.workers import Stopped, WorkerPool
 
         with self._lock:
             if self._pool is None:
@@ -279,15 +288,11 @@ def _ordered(value, where=""):
 def design_toml(data):
     """The design as TOML text with the design file's keys, in the contract's order, so the same
     design gives the same bytes however its keys arrived (``tomllib`` reads it back equal)."""
-    import tomli_w
-
     return "# cutplan design, saved from the cutplan page\n" + tomli_w.dumps(_ordered(data))
 
 
 def packet_zip(plan, data):
     """A zip of every file ``cutplan plan -o`` writes for this plan, plus ``design.toml``."""
-    from cutplan.render.packet import plan_files
-
     files = dict(plan_files(plan))
     files["design.toml"] = design_toml(data)
     buf = io.BytesIO()
@@ -302,16 +307,11 @@ def packet_zip(plan, data):
 
 def packet_pdf(plan):
     """The shop packet PDF alone (the same bytes as ``packet.pdf`` in the zip)."""
-    from cutplan.render.pdf import render_pdf
-
     return render_pdf(plan, None)
 
 
 def piece_wav(plan, label):
     """WAV bytes of one piece ringing, or of a whole set struck in turn (``label`` = the set's name)."""
-    from cutplan.audio.synth import RATE, arpeggio, piece_preview
-    from cutplan.audio.wav import wav_bytes
-
     for s in plan.sets:
         if s.name == label:
             return wav_bytes(arpeggio(s.pieces), RATE)

@@ -13,8 +13,16 @@ import json
 import os
 import tempfile
 from dataclasses import dataclass
+from typing import Any
 
+from cutplan import pitch
+from cutplan.audio.wav import read_wav
+from cutplan.render.trim_drawing import trim_drawing
+from cutplan.tuning import TrimError
+from cutplan.tuning.trim_service import trim_reading
 from cutplan.web.service import WebErrors, error
+
+__all__ = ["MAX_STATE_BYTES", "TrimAnswer", "trim_answer"]
 
 MAX_STATE_BYTES = 200_000
 """Largest rounds mapping accepted back from the page [bytes]."""
@@ -29,9 +37,9 @@ class TrimAnswer:
     note: str
     cents: float
     confidence: float
-    partials_hz: tuple
-    lines: tuple
-    report: dict
+    partials_hz: tuple[float, ...]
+    lines: tuple[str, ...]
+    report: dict[str, Any]
     drawing: str = ""
     state: str = ""
 
@@ -47,7 +55,6 @@ class TrimAnswer:
 def _samples(recording):
     """(samples, rate) of a WAV recording given as bytes, read via a private temporary folder
     (raises RecordingError, which the trim service turns into a one-line error)."""
-    from cutplan.audio.wav import read_wav
 
     with tempfile.TemporaryDirectory(prefix="cutplan-trim-") as folder:
         path = os.path.join(folder, "recording.wav")
@@ -63,10 +70,6 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now="", 
     ``recording`` the bytes of a WAV file (give one of them); ``length_now`` the piece's length now
     as text (default: its cut length); ``state`` the rounds the last answer returned (JSON text).
     """
-    from cutplan import pitch
-    from cutplan.render.trim_drawing import trim_drawing
-    from cutplan.tuning import TrimError
-    from cutplan.tuning.trim_service import trim_reading
 
     try:  # the one trim service, with the command line's checks
         reading = trim_reading(design, plan, label, measured, (lambda: _samples(recording)) if recording else None,

@@ -14,7 +14,15 @@ import re
 
 from cutplan.design import notices
 from cutplan.render.stock_layout import cut_list_view
+from cutplan.render.svg import svg_files
 from cutplan.units import INCH_DENOMINATOR, ZERO_CELSIUS, length_parts
+from cutplan.web.chart import length_pitch_svg
+from cutplan.web.form import field_label
+
+__all__ = [
+    "piece_rows", "node_heading", "stock_rows", "slot_for", "place_errors", "place_warnings", "preview"
+]
+
 
 
 def piece_rows(set_plan, units, den=INCH_DENOMINATOR):
@@ -90,8 +98,6 @@ def _spoken(key, message, slot):
     """The message with its leading design key replaced by the field's label on the page
     ("Saw kerf: ..." rather than "stock.kerf: ..."); the set is named unless the message sits
     in that set's own fields."""
-    from cutplan.web.form import field_label
-
     if not message.startswith(key + ":"):
         return message
     label = field_label(key, beside=slot.startswith(key.split(".")[0] + ".") and slot.startswith("set["))
@@ -128,9 +134,6 @@ def place_warnings(plan, design, slots=None):
 
 def preview(plan, design, units=None):
     """Everything the preview shows, as display text and inline SVG."""
-    from cutplan.render.svg import svg_files
-    from cutplan.web.chart import length_pitch_svg
-
     units = units or plan.units
     templates = []
     for name, text in svg_files(plan).items():

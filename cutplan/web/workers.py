@@ -11,8 +11,12 @@ Windows; forking a threaded server is unsafe.
 from __future__ import annotations
 
 import contextlib
+import multiprocessing
+import signal
 import threading
 import time
+
+__all__ = ["TIME_LIMIT", "QUEUE_WAIT", "POLL", "Stopped", "WorkerPool"]
 
 TIME_LIMIT = 120.0
 """Longest a page request may plan [s]; past it the worker is stopped and the request gets one line."""
@@ -32,8 +36,6 @@ class Stopped(Exception):
 
 def _worker_main(conn):
     """The loop each worker process runs: receive (function, args), send back its result."""
-    import signal
-
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl+C is the server's; it stops the workers
     import cutplan.planning.planner  # noqa: F401  (warm up before the first job arrives)
     import cutplan.web.service  # noqa: F401
@@ -67,8 +69,6 @@ class WorkerPool:
     """At most ``size`` worker processes; :meth:`run` a job in one of them."""
 
     def __init__(self, size):
-        import multiprocessing
-
         self._ctx = multiprocessing.get_context("spawn")
         self._slots = threading.BoundedSemaphore(size)
         self._idle = []

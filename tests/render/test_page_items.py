@@ -7,7 +7,7 @@ from pathlib import Path
 
 import cutplan
 from cutplan.render.pdf import render_pdf
-from cutplan.render.pdf.charts import _round_hz
+from cutplan.render.pdf.charts import round_hz
 from cutplan.render.table import render_csv
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -43,5 +43,5 @@ def test_stoppered_tubes_are_tuned_with_the_stopper_and_the_csv_says_where():
 
 def test_the_pitch_axis_has_several_round_ticks():
     # a two-octave set, 230-1200 Hz: 1-2-5 steps give only 500 and 1000 Hz, so finer steps are used
-    ticks = _round_hz(230.0, 1200.0)
+    ticks = round_hz(230.0, 1200.0)
     assert len(ticks) >= 4 and all(230 <= f <= 1200 for f in ticks)

@@ -5,8 +5,11 @@ from __future__ import annotations
 
 from reportlab.lib import colors
 
+from cutplan.planning.hanging import SAIL_DROP
 from cutplan.render.hanging import hanging_lines
 from cutplan.render.pdf.base import BOLD, FONT, MARGIN, heading, mm, paragraph
+
+__all__ = ["SIDE_VIEW_SCALES", "assembly_pages"]
 
 SIDE_VIEW_SCALES = (1, 2, 2.5, 4, 5, 8, 10, 15, 20, 25, 40, 50)
 """Side-view scales tried, 1:n, largest picture first."""
@@ -15,8 +18,6 @@ SIDE_VIEW_SCALES = (1, 2, 2.5, 4, 5, 8, 10, 15, 20, 25, 40, 50)
 def _side_view(c, plan, s, x, y_top, width, height):
     """The set seen from the side, at the largest 1:n scale that fits (x, y_top, box in points)."""
     h = s.hanging
-    from cutplan.planning.hanging import SAIL_DROP
-
     tall = h.plate_thickness + 0.04 + max(p.length for p in s.pieces) + SAIL_DROP + h.sail.side + 0.15
     wide = h.plate_diameter
     n = next((k for k in SIDE_VIEW_SCALES if tall / k * 1000 * mm <= height and wide / k * 1000 * mm <= width),

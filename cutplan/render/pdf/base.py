@@ -25,7 +25,6 @@ TEMPLATE_MARGIN = 12 * mm
 """Margin of template pages (the strips start here)."""
 SAFE = 6 * mm
 """No text closer than this to a paper edge (most printers cannot print nearer)."""
-GREY = colors.Color(0.55, 0.55, 0.55)
 LIGHT = colors.Color(0.88, 0.88, 0.88)
 FONT = "Helvetica"
 BOLD = "Helvetica-Bold"

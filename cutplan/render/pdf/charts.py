@@ -13,6 +13,8 @@ from reportlab.lib import colors
 from cutplan.render.pdf.base import BOLD, FONT, LIGHT, SAFE, Placer, heading, mm
 from cutplan.units import INCH, MM
 
+__all__ = ["ROWS_FIRST", "ROWS_MORE", "nice_step", "ROUND_HZ_STEPS", "MIN_HZ_TICKS", "round_hz", "charts"]
+
 ROWS_FIRST = 12
 """Spectrum rows on the chart page."""
 ROWS_MORE = 20
@@ -38,11 +40,11 @@ ROUND_HZ_STEPS = ((1, 2, 5), (1, 2, 3, 5, 7), (1, 1.5, 2, 3, 4, 5, 6, 7, 8, 9))
 MIN_HZ_TICKS = 4
 
 
-def _round_hz(f_lo, f_hi, min_gap=0.0):
+def round_hz(f_lo, f_hi, min_gap=0.0):
     """Round frequencies (1, 2, 5 x 10^n Hz, finer when that gives fewer than MIN_HZ_TICKS) inside
     the range, for the pitch axis; neighbours at least ``min_gap`` apart in log10 units.
 
-    >>> _round_hz(230.0, 1200.0)
+    >>> round_hz(230.0, 1200.0)
     [300.0, 500.0, 700.0, 1000.0]
     """
     out = []
@@ -101,7 +103,7 @@ def _length_chart(c, page, plan, y_top, chart_h):
         c.line(x0, yy, x0 + width, yy)
         placer.line((x0, yy), (x0 + width, yy))
         placer.place(c, [(x0 - 2, yy - 2, f"{val:g}", "end")], 7)
-    for f in _round_hz(f_lo, f_hi, math.log10(f_hi / f_lo) * 16 * mm / width):  # labels 16 mm apart or more
+    for f in round_hz(f_lo, f_hi, math.log10(f_hi / f_lo) * 16 * mm / width):  # labels 16 mm apart or more
         xx = _log_x(f, f_lo, f_hi, x0, width)
         c.setStrokeColor(LIGHT)
         c.line(xx, base, xx, base + chart_h)

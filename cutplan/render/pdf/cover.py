@@ -21,6 +21,8 @@ from cutplan.render.pdf.base import (
 )
 from cutplan.render.phrases import TRIM_RULE
 
+__all__ = ["HOW_TO_USE", "BOTTOM", "cover", "amount_text", "shopping"]
+
 HOW_TO_USE = (
     "Buy what the shopping list names; the plan computes the stock, the rest are suggestions.",
     f"Cut each piece long, at its 'cut at' length, never at the finished length: {TRIM_RULE}.",
@@ -114,7 +116,7 @@ def cover(packet):
     packet.add(lambda c, page: _how_to_use(c, page, page.h - 22 * mm))
 
 
-def _amount(plan, item):
+def amount_text(plan, item):
     if getattr(item, "buy", ""):
         return f"buy {item.buy}"
     parts = []
@@ -142,7 +144,7 @@ def shopping(packet):
     rows = []
     for item in plan.shopping:
         note = ("SUGGESTION: " if item.suggestion else "") + item.note
-        rows.append([item.group, item.what, _amount(plan, item), note])
+        rows.append([item.group, item.what, amount_text(plan, item), note])
     intro = ("Built from the plan, in its units. Lines marked SUGGESTION are not computed by the plan "
              "(cord, sails, mallets and the like): sizes there are starting points. Stock counts come from "
              "the stock layout, with saw kerf and end trim already allowed.")

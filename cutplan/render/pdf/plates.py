@@ -13,6 +13,8 @@ from cutplan.render.pdf.base import BOLD, FONT, SAFE, TEMPLATE_MARGIN, Placer, m
 from cutplan.render.pdf.rulers import RULER_TOP, RULERS_HEIGHT, rulers
 from cutplan.units import MM, format_length
 
+__all__ = ["plate_pages"]
+
 
 def _circle_segments(cx, cy, r, n=72):
     pts = [(cx + r * math.cos(2 * math.pi * k / n), cy + r * math.sin(2 * math.pi * k / n)) for k in range(n + 1)]

@@ -7,6 +7,8 @@ from reportlab.lib import colors
 from cutplan.render import marks as mk
 from cutplan.render.pdf.base import FONT, mm
 
+__all__ = ["RULER_TOP", "RULER_GAP", "RULERS_HEIGHT", "rulers"]
+
 RULER_TOP = 34 * mm
 """Top line of the upper (100 mm) calibration ruler, from the bottom of the page."""
 RULER_GAP = 14 * mm

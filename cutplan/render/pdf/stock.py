@@ -7,6 +7,8 @@ from reportlab.lib import colors
 from cutplan.render.pdf.base import BOLD, LIGHT, SAFE, Placer, fit, heading, mm, paragraph, text_width
 from cutplan.render.stock_layout import cut_list_view
 
+__all__ = ["PER_PAGE", "ROW", "stock_pages"]
+
 PER_PAGE = 7
 """Sticks drawn on one page."""
 ROW = 30 * mm

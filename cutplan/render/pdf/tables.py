@@ -20,6 +20,9 @@ from cutplan.render.pdf.base import (
 from cutplan.render.phrases import STOPPER_RULE, TRIM_RULE, other_modes_text, sentence
 from cutplan.units import ZERO_CELSIUS
 
+__all__ = ["allowance", "cut_list", "tuning", "stoppers"]
+
+
 
 def allowance(p):
     """The allowance the piece actually gets [m] (a Plan field)."""

@@ -12,6 +12,7 @@ from dataclasses import dataclass
 
 from reportlab.lib import colors
 
+from cutplan.planning.records import Piece
 from cutplan.render import marks as mk
 from cutplan.render.pdf.base import (
     A4,
@@ -26,6 +27,7 @@ from cutplan.render.pdf.base import (
     paragraph,
     text_width,
 )
+from cutplan.render.pdf.plates import plate_pages
 from cutplan.render.pdf.rulers import RULER_TOP, RULERS_HEIGHT, rulers
 from cutplan.render.phrases import CENTRE_OUT
 from cutplan.units import INCH_DENOMINATOR, MM
@@ -59,13 +61,13 @@ class Tile:
     """One tile: the piece, its span along the piece [mm], sheet k of n, "strip" or "profile",
     and the label lanes it needs."""
 
-    piece: object
+    piece: Piece
     start: float
     end: float
     sheet: int
     sheets: int
     what: str
-    labels: tuple = ()  # (Mark, lane, side) for strips
+    labels: tuple[tuple[mk.Mark, int, str], ...] = ()  # (Mark, lane, side) for strips
 
     @property
     def height_mm(self):
@@ -301,8 +303,6 @@ def draw_profile(c, tile, x0, y_top, width_mm, units, den=INCH_DENOMINATOR):
 
 def templates(packet):
     """Marking-strip and profile pages, then the chime plates and wrap guides."""
-    from cutplan.render.pdf.plates import plate_pages
-
     plan = packet.plan
     size, pages = orientation(plan, "a4" if packet.size == A4 else "letter")
     w, h = size
