@@ -24,9 +24,9 @@ def porch():
 
 
 @pytest.fixture(scope="module")
-def marimba():
-    design = cutplan.load_design(EXAMPLES / "music-room-marimba.toml")
-    return design, cutplan.plan(design)
+def marimba(example_plan):
+    # the Plan of this very file, planned once per session (tests/conftest.py)
+    return cutplan.load_design(EXAMPLES / "music-room-marimba.toml"), example_plan("music-room-marimba")
 
 
 def test_low_confidence_sharp_reading_asks_to_record_again_before_a_new_piece(porch):
