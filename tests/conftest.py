@@ -68,3 +68,16 @@ def example_json(_example_cache):
     """``example_json(name)`` -> a fresh copy of ``cutplan plan EXAMPLE --format json`` (run once)."""
     return lambda name: copy.deepcopy(json.loads(_json_output(_example_cache, name)))
 
+
+
+def pytest_terminal_summary(terminalreporter):
+    """Repeat, in red, why the real-browser tests did not run.  Read from the skip reports, so the
+    reason reaches the summary from pytest-xdist's worker processes too (tests/web/browser.py)."""
+    reasons = []
+    for report in terminalreporter.stats.get("skipped", []):
+        longrepr = report.longrepr
+        text = (longrepr[2] if isinstance(longrepr, tuple) else str(longrepr)).removeprefix("Skipped: ")
+        if text.startswith("REAL-BROWSER TESTS SKIPPED") and text not in reasons:
+            reasons.append(text)
+    for reason in reasons:
+        terminalreporter.write_sep("!", reason, red=True, bold=True)
