@@ -72,3 +72,16 @@ def test_thick_undercut_profiles_fit_without_overlap(tmp_path, paper):
     assert all(p.arch is not None and p.arch.thickness >= 0.040 for p in plan.pieces)
     result = audit_pdf(render_pdf(plan))
     assert (result["struck"], result["over"], result["margin"]) == ([], [], [])
+
+
+def test_the_fast_line_test_agrees_with_the_clip_one_segment_at_a_time():
+    # the audit tests every segment against a word box at once (numpy); the answer must be the
+    # one-segment Liang-Barsky clip's, edge cases included (a segment along a box edge, a point)
+    import itertools
+
+    from tests.render.layout_check import _hits, _struck
+
+    box = (1.0, 1.0, 3.0, 2.0)
+    pts = list(itertools.product((0.0, 1.0, 2.0, 3.0, 4.0), (0.0, 1.0, 1.5, 2.0, 3.0)))
+    for a, b in itertools.product(pts, pts):
+        assert bool(_struck([("w", box)], [(a, b)])) == _hits(box, a, b), (a, b)
