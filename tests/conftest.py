@@ -23,24 +23,37 @@ def _example_cache():
 
 
 def _planned(cache, name):
-    if name not in cache:
+    """(Plan, progress steps) of the example, planned once per session (per worker under xdist)."""
+    key = ("plan", name)
+    if key not in cache:
+        import cutplan
+
+        calls = []
+        plan = cutplan.plan(cutplan.load_design(EXAMPLES_DIR / f"{name}.toml"), progress=calls.append)
+        cache[key] = (plan, sum(calls))
+    return cache[key]
+
+
+def _json_output(cache, name):
+    """The text ``cutplan plan EXAMPLE --format json`` prints, run once per session (lazily: a
+    test that only reads the Plan does not pay for the command line's own planning)."""
+    key = ("json", name)
+    if key not in cache:
         from click.testing import CliRunner
 
-        import cutplan
         from cutplan.cli import cli
 
-        path = EXAMPLES_DIR / f"{name}.toml"
-        calls = []
-        plan = cutplan.plan(cutplan.load_design(path), progress=calls.append)
-        result = CliRunner().invoke(cli, ["plan", str(path), "--format", "json"])
+        result = CliRunner().invoke(cli, ["plan", str(EXAMPLES_DIR / f"{name}.toml"), "--format", "json"])
         assert result.exit_code == 0, result.output
-        cache[name] = (plan, sum(calls), result.output)
-    return cache[name]
+        cache[key] = result.output
+    return cache[key]
 
 
 @pytest.fixture(scope="session")
 def example_plan(_example_cache):
-    """``example_plan("porch-chimes")`` -> the Plan of examples/porch-chimes.toml (planned once)."""
+    """``example_plan("porch-chimes")`` -> the Plan of examples/porch-chimes.toml (planned once).
+
+    The Plan is shared: read it, or derive a new one with ``dataclasses.replace``; never change it."""
     return lambda name: _planned(_example_cache, name)[0]
 
 
@@ -53,4 +66,18 @@ def example_progress(_example_cache):
 @pytest.fixture(scope="session")
 def example_json(_example_cache):
     """``example_json(name)`` -> a fresh copy of ``cutplan plan EXAMPLE --format json`` (run once)."""
-    return lambda name: copy.deepcopy(json.loads(_planned(_example_cache, name)[2]))
+    return lambda name: copy.deepcopy(json.loads(_json_output(_example_cache, name)))
+
+
+
+def pytest_terminal_summary(terminalreporter):
+    """Repeat, in red, why the real-browser tests did not run.  Read from the skip reports, so the
+    reason reaches the summary from pytest-xdist's worker processes too (tests/web/browser.py)."""
+    reasons = []
+    for report in terminalreporter.stats.get("skipped", []):
+        longrepr = report.longrepr
+        text = (longrepr[2] if isinstance(longrepr, tuple) else str(longrepr)).removeprefix("Skipped: ")
+        if text.startswith("REAL-BROWSER TESTS SKIPPED") and text not in reasons:
+            reasons.append(text)
+    for reason in reasons:
+        terminalreporter.write_sep("!", reason, red=True, bold=True)

@@ -201,14 +201,12 @@ def test_calibrate_command_for_air_columns():
     ("workshop-marimba", "tubes-1"), ("music-room-marimba", "resonators-1"),
 ])
 @pytest.mark.parametrize("ratio", [0.51, 0.8, 1.5, 1.99])
-def test_trim_answers_over_the_whole_octave_it_accepts(example, label, ratio):
+def test_trim_answers_over_the_whole_octave_it_accepts(example, label, ratio, example_plan):
     # any reading within an octave of the plan's prediction gets an answer, for every kind
     from pathlib import Path
 
-    import cutplan
-
     design = Path(__file__).resolve().parent.parent / "examples" / f"{example}.toml"
-    piece = next(p for p in cutplan.plan(cutplan.load_design(design)).pieces if p.label == label)
+    piece = next(p for p in example_plan(example).pieces if p.label == label)  # planned once (tests/conftest.py)
     result = CliRunner().invoke(cli, ["trim", str(design), label, "--measured", f"{piece.target_hz * ratio:.3f}",
                                       "--length-now", f"{piece.length * 1000:.3f} mm"])
     assert result.exit_code == 0, result.output

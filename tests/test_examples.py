@@ -39,10 +39,9 @@ def test_there_are_examples_of_every_kind():
 
 
 @pytest.mark.parametrize("path", EXAMPLES, ids=[p.stem for p in EXAMPLES])
-def test_example_plan_is_stable(path):
-    result = CliRunner().invoke(cli, ["plan", str(path), "--format", "json"])
-    assert result.exit_code == 0, result.output
-    got = json.loads(result.output)
+def test_example_plan_is_stable(path, example_json):
+    # `cutplan plan EXAMPLE --format json`, run once per session (tests/conftest.py; exit code checked there)
+    got = example_json(path.stem)
     expected_file = EXPECTED / f"{path.stem}.json"
     # to refresh on purpose: cutplan plan examples/X.toml --format json > tests/data/expected/X.json
     expected = json.loads(expected_file.read_text(encoding="utf-8"))

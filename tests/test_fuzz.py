@@ -8,12 +8,15 @@ from __future__ import annotations
 import json
 
 import numpy as np
+import pytest
 from click.testing import CliRunner
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from cutplan.cli import cli
 from tests.fuzzing import bad_lengths, broken_wav, mutated_design, to_toml
+
+pytestmark = pytest.mark.slow  # some 35 CPU seconds of generated designs, options and recordings
 
 QUICK = settings(derandomize=True, max_examples=150, deadline=None, database=None,
                  suppress_health_check=[HealthCheck.too_slow, HealthCheck.function_scoped_fixture])

@@ -49,6 +49,7 @@ def _product(maple, sawing):
                                        maple.density, 3)
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("sawing", ["flat", "quarter"])
 def test_arched_bar_side_modes_agree_with_an_independent_3d_model(maple, arched_reference, sawing):
     # independent check: finer whole-length 27-node brick model (above); within 10 cents

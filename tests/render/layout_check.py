@@ -83,6 +83,30 @@ def _hits(box, a, b):
     return True
 
 
+def _struck(boxes, segs):
+    """Texts of the boxes that any segment crosses: :func:`_hits` for every segment at once (the
+    same comparisons in float64, so the same answer, in a fraction of the time)."""
+    if not segs:
+        return []
+    ends = np.array([(a[0], a[1], b[0], b[1]) for a, b in segs], dtype=float)
+    ax, ay, bx, by = ends.T
+    dx, dy = bx - ax, by - ay
+    struck = []
+    for text, (x0, top, x1, bottom) in boxes:
+        t0, t1 = np.zeros(len(ends)), np.ones(len(ends))
+        ok = np.ones(len(ends), dtype=bool)
+        for p, q in ((-dx, ax - x0), (dx, x1 - ax), (-dy, ay - top), (dy, bottom - ay)):
+            zero = p == 0
+            ok &= ~(zero & (q < 0))
+            t = np.divide(q, p, out=np.zeros(len(ends)), where=~zero)
+            t0 = np.where(p < 0, np.maximum(t0, t), t0)
+            t1 = np.where(p > 0, np.minimum(t1, t), t1)
+        # t0 only rises and t1 only falls, so t0 > t1 at the end is t0 > t1 at any step
+        if (ok & (t0 <= t1)).any():
+            struck.append(text)
+    return struck
+
+
 def _char_boxes(words):
     boxes, owner = [], []
     for n, w in enumerate(words):
@@ -111,7 +135,7 @@ def audit_page(page):
     boxes = [(w["text"], (w["x0"] + SHRINK, w["top"] + SHRINK, w["x1"] - SHRINK, w["bottom"] - SHRINK))
              for w in words]
     segs = _segments(page)
-    struck = [t for t, box in boxes if any(_hits(box, a, b) for a, b in segs)]
+    struck = _struck(boxes, segs)
     over = [words[i]["text"] for i in sorted(_overprinted_words(words))]
     m = MARGIN_MM * PT_PER_MM
     w, h = page.width, page.height

@@ -71,8 +71,8 @@ def test_a_strip_longer_than_a_sheet_joins_at_the_same_marks():
     _check_neighbours(_tiles(plan, piece.label, "strip"), templates.draw_strip, plan.units)
 
 
-def test_an_undercut_profile_joins_at_the_same_marks():
-    plan = cutplan.plan(cutplan.load_design(ROOT / "examples" / "music-room-marimba.toml"))
+def test_an_undercut_profile_joins_at_the_same_marks(example_plan):
+    plan = example_plan("music-room-marimba")
     piece = next(p for p in plan.pieces if p.arch is not None)
     _check_neighbours(_tiles(plan, piece.label, "profile"), templates.draw_profile, plan.units)
 

@@ -13,14 +13,11 @@ ROOT = Path(__file__).resolve().parents[2]
 EXAMPLES = sorted((ROOT / "examples").glob("*.toml"))
 
 
-@pytest.fixture(scope="module", params=EXAMPLES, ids=lambda p: p.stem)
-def example_plan(request):
-    return cutplan.plan(cutplan.load_design(request.param))
-
-
 @pytest.mark.parametrize("paper", ["a4", "letter"])
-def test_no_label_is_struck_overprinted_or_in_the_margin(example_plan, paper):
-    result = audit_pdf(render_pdf(example_plan, paper))
+@pytest.mark.parametrize("path", EXAMPLES, ids=lambda p: p.stem)
+def test_no_label_is_struck_overprinted_or_in_the_margin(example_plan, path, paper):
+    # the example's Plan comes from the session fixture in tests/conftest.py (planned once)
+    result = audit_pdf(render_pdf(example_plan(path.stem), paper))
     assert result["struck"] == []
     assert result["over"] == []
     assert MARGIN_MM == 6.0  # common unprintable band of office printers (common practice)
@@ -75,3 +72,16 @@ def test_thick_undercut_profiles_fit_without_overlap(tmp_path, paper):
     assert all(p.arch is not None and p.arch.thickness >= 0.040 for p in plan.pieces)
     result = audit_pdf(render_pdf(plan))
     assert (result["struck"], result["over"], result["margin"]) == ([], [], [])
+
+
+def test_the_fast_line_test_agrees_with_the_clip_one_segment_at_a_time():
+    # the audit tests every segment against a word box at once (numpy); the answer must be the
+    # one-segment Liang-Barsky clip's, edge cases included (a segment along a box edge, a point)
+    import itertools
+
+    from tests.render.layout_check import _hits, _struck
+
+    box = (1.0, 1.0, 3.0, 2.0)
+    pts = list(itertools.product((0.0, 1.0, 2.0, 3.0, 4.0), (0.0, 1.0, 1.5, 2.0, 3.0)))
+    for a, b in itertools.product(pts, pts):
+        assert bool(_struck([("w", box)], [(a, b)])) == _hits(box, a, b), (a, b)

@@ -49,9 +49,9 @@ def _nodes(piece, spec, length):
 
 
 @pytest.fixture(scope="module", params=BAR_EXAMPLES)
-def bars(request):
+def bars(request, example_plan):
     design = cutplan.load_design(ROOT / "examples" / request.param)
-    plan = cutplan.plan(design)
+    plan = example_plan(request.param.removesuffix(".toml"))  # planned once per session (tests/conftest.py)
     specs = {s.name: s for s in design.sets}
     return design, plan, [(p, specs[p.set]) for p in plan.pieces if p.kind == "bar"]
 

@@ -51,8 +51,8 @@ def test_the_shopping_list_comes_right_after_the_cover():
         assert word in shop
 
 
-def test_bars_and_resonators_get_supports_mallets_and_stoppers():
-    shop = flat(next(text for text in pages(example("music-room-marimba")) if "Shopping list" in text))
+def test_bars_and_resonators_get_supports_mallets_and_stoppers(example_plan):
+    shop = flat(next(text for text in pages(example_plan("music-room-marimba")) if "Shopping list" in text))
     for word in ("felt or foam strip", "pins or cord", "mallets", "sliding stoppers"):
         assert word in shop
 
@@ -67,11 +67,11 @@ def test_cautions_fit_the_materials():
         assert "local building codes" in text or "local codes" in text
 
 
-def test_every_caution_source_resolves():
+def test_every_caution_source_resolves(example_plan):
     with open(ROOT / "materials" / "sources.toml", "rb") as fh:
         sources = tomllib.load(fh)
     for name in ("porch-chimes", "music-room-marimba", "workshop-marimba", "classroom-pipes"):
-        for caution in example(name).cautions:
+        for caution in example_plan(name).cautions:
             assert caution.source == "" or caution.source in sources
             assert caution.kind in ("handbook", "standard", "paper", "datasheet", "measured", "derived",
                                     "common practice", "from memory")
@@ -114,8 +114,8 @@ def test_a_risk_allowance_is_stated_as_written(tmp_path):
     assert "chance sharp 5 %" not in sheet and "to 5 %" not in sheet
 
 
-def test_stoppered_tubes_are_cut_to_length_and_tuned_with_the_stopper():
-    plan = example("music-room-marimba")
+def test_stoppered_tubes_are_cut_to_length_and_tuned_with_the_stopper(example_plan):
+    plan = example_plan("music-room-marimba")
     text = pages(plan, "a4")
     for title in ("Cut list: resonators", "Tuning sheet: resonators", "Resonator stopper settings"):
         page = flat(next(t for t in text if title in t))

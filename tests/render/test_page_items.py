@@ -3,24 +3,16 @@ are told to tune with the stopper, plan.csv carries the stopper depths, the char
 
 import csv
 import io
-from pathlib import Path
 
-import cutplan
 from cutplan.render.pdf import render_pdf
 from cutplan.render.pdf.charts import round_hz
 from cutplan.render.table import render_csv
 
-ROOT = Path(__file__).resolve().parents[2]
 
-
-def _marimba():
-    return cutplan.plan(cutplan.load_design(ROOT / "examples" / "music-room-marimba.toml"))
-
-
-def test_every_arched_bar_shows_its_thinnest_point_on_the_profile():
+def test_every_arched_bar_shows_its_thinnest_point_on_the_profile(example_plan):
     from pypdf import PdfReader
 
-    plan = _marimba()
+    plan = example_plan("music-room-marimba")
     text = "\n".join(p.extract_text() or "" for p in PdfReader(io.BytesIO(render_pdf(plan))).pages)
     for p in plan.pieces:
         if p.arch is not None:
@@ -28,8 +20,8 @@ def test_every_arched_bar_shows_its_thinnest_point_on_the_profile():
             assert f"{thinnest * 1000:.1f}" in text, p.label
 
 
-def test_stoppered_tubes_are_tuned_with_the_stopper_and_the_csv_says_where():
-    plan = _marimba()
+def test_stoppered_tubes_are_tuned_with_the_stopper_and_the_csv_says_where(example_plan):
+    plan = example_plan("music-room-marimba")
     stoppered = [p for p in plan.pieces if p.stopper]
     assert stoppered
     for p in stoppered:

@@ -21,8 +21,8 @@ def groups(text):
 
 
 @pytest.mark.parametrize("path", EXAMPLES, ids=lambda p: p.stem)
-def test_every_template_has_cut_mark_and_text_groups_and_nothing_outside(path):
-    plan = cutplan.plan(cutplan.load_design(path))
+def test_every_template_has_cut_mark_and_text_groups_and_nothing_outside(path, example_plan):
+    plan = example_plan(path.stem)
     files = svg_mod.svg_files(plan)
     assert files
     for name, text in files.items():
@@ -63,8 +63,8 @@ def test_plate_hole_outlines_are_on_cut_only_and_cross_hairs_on_mark():
     assert any(abs(float(c.get("r")) - plate.diameter_mm / 2) < 1e-9 for c in g["cut"].iter(f"{NS}circle"))
 
 
-def test_a_stoppered_tube_template_marks_each_stopper_depth_and_the_open_end():
-    plan = cutplan.plan(cutplan.load_design(ROOT / "examples" / "music-room-marimba.toml"))
+def test_a_stoppered_tube_template_marks_each_stopper_depth_and_the_open_end(example_plan):
+    plan = example_plan("music-room-marimba")
     piece = next(p for p in plan.pieces if p.stopper)
     text = svg_mod.render_piece_svg(plan, piece)
     _root, g = groups(text)

@@ -72,6 +72,7 @@ def planned():
     return design, cutplan.plan(design)
 
 
+@pytest.mark.slow
 def test_three_rounds_of_removal_bring_f1_to_f3_within_3_cents(planned):
     design, plan = planned
     piece = plan.pieces[0]

@@ -24,9 +24,9 @@ def porch():
 
 
 @pytest.fixture(scope="module")
-def marimba():
-    design = cutplan.load_design(EXAMPLES / "music-room-marimba.toml")
-    return design, cutplan.plan(design)
+def marimba(example_plan):
+    # the Plan of this very file, planned once per session (tests/conftest.py)
+    return cutplan.load_design(EXAMPLES / "music-room-marimba.toml"), example_plan("music-room-marimba")
 
 
 def test_low_confidence_sharp_reading_asks_to_record_again_before_a_new_piece(porch):
@@ -74,6 +74,7 @@ def test_terminal_json_is_the_service_report(porch, tmp_path):
     assert data["partials"][0]["mode"] == 1 and data["removal"] == []
 
 
+@pytest.mark.slow
 def test_rounds_are_kept_beside_the_design_and_counted_when_done(tmp_path):
     src = (EXAMPLES / "music-room-marimba.toml").read_text()
     design = tmp_path / "marimba.toml"
@@ -110,6 +111,7 @@ def test_bad_measured_is_one_line_and_exit_2(tmp_path):
                                                "order (1, 2, 3)"]
 
 
+@pytest.mark.slow
 def test_page_and_terminal_give_the_same_removal_advice(marimba, tmp_path):
     import tomllib
 

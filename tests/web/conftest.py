@@ -26,10 +26,3 @@ def app():
 def client(app):
     return app.test_client()
 
-
-def pytest_terminal_summary(terminalreporter):
-    """Repeat, in red, why the real-browser tests did not run."""
-    from tests.web.browser import SKIPPED
-
-    for reason in SKIPPED:
-        terminalreporter.write_sep("!", reason, red=True, bold=True)

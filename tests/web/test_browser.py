@@ -305,6 +305,7 @@ def test_the_form_works_without_javascript(browser_without_javascript, server):
     assert d.find_element(By.CSS_SELECTOR, box).text.startswith('Saw kerf: "3"')  # the field's label
 
 
+@pytest.mark.slow
 def test_add_an_undercut_on_the_page_and_get_the_files_plan(browser, server, tmp_path):
     """Uniform maple bars (workshop-marimba) get an arch typed into the page; the preview's cut
     lengths must equal `cutplan plan --format json` of the same file with the undercut line added."""
