@@ -255,5 +255,5 @@ def test_a_stubby_bar_on_the_2d_model_is_warned_as_on_the_1d_model(tmp_path, arc
     depth = float(thickness.split()[0]) / 1000
     assert piece.model == "elastic-2d" and (piece.arch is not None) == arched
     assert piece.length / depth < 8
-    stubby = [w for w in piece.warnings if w.startswith("stubby bar:")]
+    stubby = [w.message for w in piece.warnings if w.message.startswith("stubby bar:")]
     assert stubby == [f"stubby bar: length is {piece.length / depth:.1f} x its thickness; cut a test bar and calibrate"]

@@ -40,12 +40,12 @@ def test_a_math_domain_error_of_its_own_is_one_numeric_line():
 
 
 def test_the_command_line_prints_each_error_on_its_own_line(monkeypatch):
-    import cutplan.planning.planner as planner
+    import cutplan.planning.service as service  # the one guarded plan service every front end calls
 
-    def failing(design, progress=None, stock_override=None):
+    def failing(design, progress=None, stock_override=None, tables=None):
         raise DesignErrors(TWO)
 
-    monkeypatch.setattr(planner, "plan", failing)
+    monkeypatch.setattr(service, "plan", failing)
     result = CliRunner().invoke(cli, ["plan", str(PORCH)])
     assert result.exit_code == 2
     lines = result.output.strip().splitlines()

@@ -13,7 +13,7 @@ import threading
 
 import pytest
 
-import cutplan
+from cutplan.planning import service
 from cutplan.web.app import create_app
 from cutplan.web.service import Planner
 from tests.web.conftest import PORCH, example_mapping
@@ -83,14 +83,14 @@ def test_a_plan_under_way_finishes_on_its_tables_and_is_not_kept(tmp_path, monke
     (tmp_path / "garden.toml").write_text(GOOD, encoding="utf-8")
     planner = Planner([tmp_path])
     started, release = threading.Event(), threading.Event()
-    real_plan = cutplan.plan
+    real_plan = service.plan  # the planner the one guarded plan service calls
 
     def slow_plan(design, *args, **kwargs):
         started.set()
         assert release.wait(60)
         return real_plan(design, *args, **kwargs)
 
-    monkeypatch.setattr(cutplan, "plan", slow_plan)
+    monkeypatch.setattr(service, "plan", slow_plan)
     out = {}
     worker = threading.Thread(target=lambda: out.setdefault("pair", planner.plan(_design())))
     worker.start()
