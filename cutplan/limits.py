@@ -15,7 +15,7 @@ from __future__ import annotations
 
 from cutplan.units import ZERO_CELSIUS
 
-__all__ = ["A4_ALLOWED", "A4_RANGE", "FREQUENCY_RANGE", "FREQUENCY_SPAN", "TEMPERATURE_RANGE", "TEMPERATURE_RANGE_C",
+__all__ = ["A4_ALLOWED", "A4_RANGE", "FREQUENCY_RANGE", "FREQUENCY_SPAN", "MEASURED_HZ", "TEMPERATURE_RANGE", "TEMPERATURE_RANGE_C",
            "TEMPERATURE_SPAN", "IN_TUNE_CENTS", "AIR_SPEED_RANGE", "CENTS_RANGE", "RATIO_RANGE", "a4_ok", "hz_text"]
 
 A4_RANGE = (400.0, 480.0)
@@ -25,6 +25,12 @@ from about 415 Hz for old instruments to 466 Hz, lie inside; outside is a typing
 FREQUENCY_RANGE = (10.0, 30000.0)
 """Target frequencies and tuner readings accepted [Hz], ends included: around the range of hearing
 (from memory: about 20 Hz to 20 kHz, with room for subharmonic targets and high partials)."""
+
+MEASURED_HZ = (10.0, 48_000.0)
+"""Frequencies a test piece's measurement may give for calibration [Hz]: below 10 Hz no tuner or
+recording of a struck piece reads a pitch, above 48 kHz no 96 kHz recording holds one (its Nyquist
+limit; common practice).  Wider than :data:`FREQUENCY_RANGE`: a test piece's upper partials may lie
+above any target."""
 
 CENTS_RANGE = (-4800.0, 9600.0)
 """Pitches given in cents from a root accepted [cents]: four octaves down to eight up."""

@@ -22,7 +22,6 @@ from cutplan.layout.kits import kit_sets
 from cutplan.physics import beam, timoshenko, undercut, uniform
 from cutplan.physics.undercut import UndercutError
 from cutplan.planning import air_calibrated, elastic, grain, hang_holes, other_modes, thermal, uncertainty
-from cutplan.planning import air_calibrated as air_stock
 from cutplan.planning.air import BAR_OVER_MOUTH, plan_air_set
 from cutplan.planning.allowance import allowance_rule, allowances, risk_warning
 from cutplan.planning.frequency import (
@@ -204,7 +203,7 @@ def _set_summary(spec: SetSpec, units="mm"):
         if air_calibrated.wall_losses(spec):
             assumptions.append("wall losses: viscous and thermal boundary layers slow sound in the pipe by "
                                "about 1.6e-3 / (a sqrt f) (Kirchhoff; Keefe 1984), each note at its own frequency")
-        assumptions += air_stock.assumptions(spec)
+        assumptions += air_calibrated.assumptions(spec)
         if spec.kind == "resonator":
             assumptions.append(BAR_OVER_MOUTH)
         if spec.temperature_range is not None:

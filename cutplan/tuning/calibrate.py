@@ -21,7 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from cutplan.limits import AIR_SPEED_RANGE, IN_TUNE_CENTS
+from cutplan.limits import AIR_SPEED_RANGE, IN_TUNE_CENTS, MEASURED_HZ
 from cutplan.numeric import LENGTH_RANGE
 from cutplan.physics.air_column import end_correction
 from cutplan.physics.roots import bracketed_roots
@@ -170,15 +170,10 @@ def fit_air_column_choice(pieces, ends, what, speed, radius=None):
     return fit
 
 
-MEASURED_HZ = (10.0, 48_000.0)
-"""Frequencies a measurement may give [Hz]: below 10 Hz no tuner or recording of a struck piece
-reads a pitch, above 48 kHz no 96 kHz recording holds one (its Nyquist limit; common practice)."""
-
-
 def measurement_problem(length, frequencies):
     """Why a test piece's ``length`` [m] and measured ``frequencies`` [Hz] cannot be calibrated
     from (text), or None: each must be a finite number within the lengths a planned piece may
-    have (:data:`cutplan.numeric.LENGTH_RANGE`) and :data:`MEASURED_HZ`.  Checked before any fit,
+    have (:data:`cutplan.numeric.LENGTH_RANGE`) and :data:`cutplan.limits.MEASURED_HZ`.  Checked before any fit,
     so no solver meets an infinite, absurd or vanishing value."""
     lo, hi = LENGTH_RANGE
     if not (math.isfinite(length) and lo <= length <= hi):
