@@ -10,16 +10,18 @@ from pathlib import Path
 import click
 
 from cutplan import folder
+from cutplan.design import DesignErrors, design_from_mapping, load_design, stock_from_options
+from cutplan.design.text import shown
 from cutplan.folder import FolderError, check_target, write_file_whole
+from cutplan.materials import MaterialError, load_library
+from cutplan.planning.planner import bars_to_solve
+from cutplan.planning.service import REFUSALS, guarded_plan, refusal_lines
 
 __all__ = [
     "EXIT_BAD_INPUT", "BadInput", "fail", "write_file", "write_folder", "load_or_exit", "PROGRESS_FROM",
     "plan_or_exit", "check_output_dir", "MATERIALS_OPTION", "section_options", "OPTION_FOR_KEY",
     "one_piece_design", "material_folders", "DESIGN_DIRS_OPTION", "parse_stock_option"
 ]
-
-# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
-# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
 
 EXIT_BAD_INPUT = 2
 
@@ -32,8 +34,6 @@ class BadInput(click.ClickException):
     exit_code = EXIT_BAD_INPUT
 
     def __init__(self, lines):
-        from cutplan.design.text import shown
-
         # several problems in one message (a collection's text) stay one line each, never a folded
         # line with its newlines escaped; escape codes are shown escaped, never sent
         self.lines = [shown(part) for line in lines for part in str(line).split("\n") if part.strip()]
@@ -68,8 +68,6 @@ def write_folder(output, files, force):
 
 
 def _library_loader(extra):
-    from cutplan.materials import load_library
-
     def load(design_dirs):
         return load_library(list(extra) + list(design_dirs))
 
@@ -79,9 +77,6 @@ def _library_loader(extra):
 def load_or_exit(design_path, materials_dirs=(), units=None):
     """Design and library, or a clean exit 2 with one line per problem. ``units`` ("mm" or "in"),
     when given, replaces the design's own choice of the unit shown first."""
-    from cutplan.design import DesignErrors, load_design
-    from cutplan.materials import MaterialError, load_library
-
     if materials_dirs:  # a broken --materials folder is the option's fault, not the design's
         try:
             load_library(list(materials_dirs))
@@ -109,9 +104,6 @@ def _wants_progress():
 def plan_or_exit(design, stock_override=None):
     """The plan through the one guarded plan service (as the page and from-stock), or exit 2
     with one line per problem; numeric warnings never reach the user."""
-    from cutplan.planning.planner import bars_to_solve
-    from cutplan.planning.service import REFUSALS, guarded_plan, refusal_lines
-
     def run(progress=None):
         return guarded_plan(design, progress=progress, stock_override=stock_override)
 
@@ -186,8 +178,6 @@ def one_piece_design(command, kind, note, frequency, material, stock_name, tube,
 
     The options become a design mapping and go through the same validation as a design file.
     """
-    from cutplan.design import DesignErrors, design_from_mapping
-
     shapes = [s for s in (stock_name, tube, rod, bar_size) if s]
     if len(shapes) != 1:
         fail(f"{command}: give exactly one of --stock, --tube, --rod or --bar")
@@ -238,8 +228,6 @@ DESIGN_DIRS_OPTION = click.option(
 def parse_stock_option(values, kerf, end_trim):
     """StockSpec from --stock "10 ft x 3 @ 14.50" options (count and price optional), with the
     design file's ranges for stock length, kerf and end trim."""
-    from cutplan.design import DesignErrors, stock_from_options
-
     try:
         return stock_from_options(values, kerf, end_trim)
     except DesignErrors as exc:

@@ -9,7 +9,10 @@ from pathlib import Path
 import click
 
 from cutplan.cli.common import MATERIALS_OPTION, fail, load_or_exit, write_file
+from cutplan.design import DesignErrors, read_design_file
 from cutplan.design.contract import MAX_STOCK_COUNT
+from cutplan.fromstock.output import design_toml, result_dict
+from cutplan.fromstock.search import SearchError, search
 from cutplan.render.phrases import TRIM_RULE, caution_lines, sentence
 from cutplan.render.stock_layout import stick_lines, stick_rows
 from cutplan.units import INCH_DENOMINATOR, UnitError, length_parts, parse_frequency, parse_length
@@ -70,8 +73,6 @@ _SET_KEYS_KEPT = ("kind", "material", "section", "model", "target", "ends", "end
 def _design_stock(path, materials_dirs):
     """From a design file: its [stock] as written, its units and tuning, its first chime, bar or
     air-column set without the notes, and its material folders (exit 2 on errors)."""
-    from cutplan.design import DesignErrors, read_design_file
-
     design, _lib = load_or_exit(path, materials_dirs)  # validates the whole file, one line per problem
     try:
         raw = read_design_file(path)
@@ -184,10 +185,6 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
       cutplan from-stock --design porch.toml --count 5 -o porch-5.toml
       cutplan from-stock --have "10 ft x 1" --stock-size emt-3/4 --count 5 --target strike-note
     """
-    from cutplan.design import DesignErrors
-    from cutplan.fromstock.output import design_toml, result_dict
-    from cutplan.fromstock.search import SearchError, search
-
     if bool(have) == bool(design_file):
         fail("from-stock: give the stock on hand with --have (repeatable) or --design FILE, one of the two")
     if (count is None) == (not most):

@@ -7,13 +7,13 @@ import json
 import click
 
 from cutplan import pitch
+from cutplan.audio.analysis import Measurement, measure
+from cutplan.audio.partials import Partial
+from cutplan.audio.wav import RecordingError, read_wav
 from cutplan.cli.common import fail
 from cutplan.limits import A4_ALLOWED, FREQUENCY_RANGE, FREQUENCY_SPAN, a4_ok
 
 __all__ = ["MEASURE_KINDS", "MIN_CONFIDENCE", "measure_file", "measure_command"]
-
-# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
-# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
 
 MEASURE_KINDS = ["any", "chime", "bar", "tuned-bar", "xylophone-bar", "air-column", "open-open", "closed-open"]
 
@@ -25,9 +25,6 @@ the partials found fit the piece's pattern too poorly to trust the pitch)."""
 
 def measure_file(recording, kind, near_hz, ratios=None):
     """Measurement of a WAV file, or exit 2 with one line saying why it cannot be used."""
-    from cutplan.audio.analysis import measure
-    from cutplan.audio.wav import RecordingError, read_wav
-
     try:
         samples, rate = read_wav(recording)
         return measure(samples, rate, kind, near_hz, ratios)
@@ -72,9 +69,6 @@ def measure_command(recording, frequency, kind, near, a4, fmt):
     if frequency is not None:
         if not FREQUENCY_RANGE[0] <= frequency <= FREQUENCY_RANGE[1]:
             fail(f"--frequency: {frequency} must be a frequency from {FREQUENCY_SPAN}")
-        from cutplan.audio.analysis import Measurement
-        from cutplan.audio.partials import Partial
-
         m = Measurement(frequency, (frequency,), 1.0, "tuner", True, (Partial(frequency, 0.0, None),), (1,))
     else:
         m = measure_file(recording, kind, near_hz)

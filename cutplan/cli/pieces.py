@@ -19,6 +19,8 @@ from cutplan.cli.common import (
 )
 from cutplan.cli.examples import example_text
 from cutplan.limits import A4_ALLOWED, a4_ok
+from cutplan.materials import MaterialError, closest_names, load_library
+from cutplan.render.terminal import other_modes_text, render_library, render_library_entry
 from cutplan.starters import STARTERS
 from cutplan.units import format_length
 
@@ -66,18 +68,12 @@ def materials_command(name, materials_dirs):
       cutplan materials maple-sugar
       cutplan materials pvc-sch40-2
     """
-    from cutplan.materials import MaterialError, load_library
-
     try:
         lib = load_library(materials_dirs)
     except MaterialError as exc:
         fail(str(exc))
-    from cutplan.render.terminal import render_library, render_library_entry
-
     text = render_library(lib) if name is None else render_library_entry(lib, name)
     if text is None:
-        from cutplan.materials import closest_names
-
         near = ", ".join(closest_names(name, list(lib.materials) + list(lib.stock)))
         fail(f"materials: {name!r} is not a material or stock size; did you mean {near}? "
              "(`cutplan materials` lists them)")
@@ -132,8 +128,6 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
     if kind != "air-column":
         click.echo(f"  shear correction {p.shear_correction_cents:+.1f} cents against the slender model")
     if p.other_modes:
-        from cutplan.render.terminal import other_modes_text
-
         click.echo(f"  other modes {other_modes_text(p.other_modes)}")
     for w in p.warnings:
         click.echo(f"  ! {w.message}")

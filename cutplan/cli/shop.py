@@ -10,6 +10,9 @@ from pathlib import Path
 
 import click
 
+from cutplan.audio.analysis import measure
+from cutplan.audio.synth import RATE, arpeggio, piece_preview
+from cutplan.audio.wav import RecordingError, read_wav, wav_bytes
 from cutplan.cli.common import (
     DESIGN_DIRS_OPTION,
     MATERIALS_OPTION,
@@ -24,12 +27,18 @@ from cutplan.cli.common import (
     write_folder,
 )
 from cutplan.cli.measure import measure_file
+from cutplan.materials import MaterialError, load_library
+from cutplan.numeric import NumericError, quiet, quiet_numbers
+from cutplan.physics import air_column
+from cutplan.physics.wall_losses import wall_loss_fraction
+from cutplan.planning.air_calibrated import stock_toml
+from cutplan.tuning import TrimError
+from cutplan.tuning.calibrate import AIR_SPEED_RANGE, CalibrationError, fit_air_column_choice, measurement_problem
+from cutplan.tuning.calibrate_moduli import calibrated_moduli_toml, fit_moduli, partial_frequencies, recorded_modes
+from cutplan.tuning.trim_service import MAX_STATE_BYTES, STATE_SUFFIX, trim_reading
 from cutplan.units import UnitError, parse_length, parse_temperature
 
 __all__ = ["calibrate_command", "trim_command", "listen_command"]
-
-# design, planning, render, audio, tuning and web modules load inside the commands: start-up is
-# 0.16 s CPU, 1.17 s with them at the top (measured; see cutplan.cli)
 
 
 
@@ -62,8 +71,6 @@ def _parse_pieces(texts, kind, near_hz=None):
 def _check_measurement(text, length, freqs):
     """Exit 2 with one line when a --piece's length or frequencies are not a measurement at all
     (infinite, absurd or vanishing), before any fit meets them."""
-    from cutplan.tuning.calibrate import measurement_problem
-
     problem = measurement_problem(length, freqs)
     if problem:
         fail(f"--piece: {text!r}: {problem}")
@@ -71,8 +78,6 @@ def _check_measurement(text, length, freqs):
 
 def _numbers(where, fn, *args):
     """``fn(*args)`` with numeric warnings kept inside; an overflow or impossible value is one line."""
-    from cutplan.numeric import NumericError, quiet_numbers
-
     try:
         return quiet_numbers(fn, *args)
     except NumericError as exc:
@@ -124,11 +129,6 @@ def _parse_beam_pieces(texts, kind, partial_ratios):
 def _recorded_partials(recording, kind, ratios):
     """((mode, Hz), ...) of a recording of a uniform test piece: every strong partial, each matched
     to a mode of the table model (``ratios``); exit 2 when strong partials fit no mode."""
-    from cutplan.audio.analysis import measure
-    from cutplan.audio.wav import RecordingError, read_wav
-    from cutplan.tuning.calibrate import CalibrationError
-    from cutplan.tuning.calibrate_moduli import recorded_modes
-
     try:
         samples, rate = read_wav(recording)
         m = measure(samples, rate, kind, None, ratios)
@@ -194,9 +194,6 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
         fail("calibrate: give at least one --piece")
     if not material:
         fail("calibrate: --material is needed: the table material the test pieces are made of")
-    from cutplan.tuning.calibrate import CalibrationError
-    from cutplan.tuning.calibrate_moduli import calibrated_moduli_toml, fit_moduli, partial_frequencies
-
     des = one_piece_design("calibrate", kind, None, 440.0, material, stock_name, tube, rod, bar_size, model=model,
                             materials_dirs=dirs)
     spec = des.sets[0]
@@ -238,9 +235,6 @@ def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, m
 
 def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_res, name=None, output=None, force=False,
                    dirs=()):
-    from cutplan.physics import air_column
-    from cutplan.tuning.calibrate import AIR_SPEED_RANGE, CalibrationError, fit_air_column_choice, measurement_problem
-    from cutplan.units import UnitError, parse_length
     try:
         kelvin = parse_temperature(temperature)
     except UnitError as exc:
@@ -290,8 +284,6 @@ def _calibrate_air(pieces, stock_name, tube, ends, temperature, fit_what, two_re
     if radius:
         # take each pipe's wall losses out, so the fit finds the free-air speed (Keefe 1984); the
         # speed saved is the one in the first pipe, with its frequency, for the planner
-        from cutplan.physics.wall_losses import wall_loss_fraction
-
         reference = measured[0][1]
         fitted = [(length, f / (1 - wall_loss_fraction(f, radius, kelvin)), n) for length, f, n in measured]
     try:
@@ -320,9 +312,6 @@ def _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr, note, 
         return
     if not stock_name:
         fail("calibrate: saving an air-column calibration needs --stock, the stock size it was measured on")
-    from cutplan.materials import MaterialError, load_library
-    from cutplan.planning.air_calibrated import stock_toml
-
     try:
         stock = load_library(dirs).stock[stock_name]
     except MaterialError as exc:
@@ -363,10 +352,6 @@ def trim_command(design, label, measured, recording, length_now, done, state_pat
       cutplan trim examples/music-room-marimba.toml bars-1 --measured "261.4, 1046.0" --done
     """
 
-    from cutplan.audio.wav import read_wav
-    from cutplan.tuning import TrimError
-    from cutplan.tuning.trim_service import STATE_SUFFIX, trim_reading
-
     if (measured is None) == (recording is None):
         fail("trim: give --measured or --recording (one of them)")
     des, _lib = load_or_exit(design, materials_dirs, units)
@@ -396,8 +381,6 @@ def trim_command(design, label, measured, recording, length_now, done, state_pat
 def _read_state(path):
     """The text of the rounds on record for a design ('' when there are none yet); exit 2 when
     unreadable. The trim service checks what it holds."""
-    from cutplan.tuning.trim_service import MAX_STATE_BYTES
-
     if not path.exists():
         return ""
     try:
@@ -423,14 +406,9 @@ def listen_command(design, output, strike_at, force, materials_dirs):
     Example:
       cutplan listen examples/porch-chimes.toml -o porch-sounds
     """
-    from cutplan.audio.synth import RATE, arpeggio, piece_preview
-    from cutplan.audio.wav import wav_bytes
-
     out = check_output_dir(output, force)
     des, _lib = load_or_exit(design, materials_dirs)
     the_plan = plan_or_exit(des)
-    from cutplan.numeric import quiet
-
     files = {f"{p.label}.wav": wav_bytes(quiet(piece_preview, p, strike_at=strike_at), RATE) for p in the_plan.pieces}
     files.update({f"{s.name}-arpeggio.wav": wav_bytes(quiet(arpeggio, s.pieces, strike_at=strike_at), RATE)
                   for s in the_plan.sets})
