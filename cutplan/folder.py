@@ -14,6 +14,9 @@ time write a folder.  A run clears only temporaries whose run is no longer alive
 system has no atomic exchange, a previous folder set aside by a run that died is put back.
 Files are created with the usual permissions (0666 less the umask), like any other program's.
 A full disk or read-only folder becomes one :class:`FolderError` line.
+
+Input files (a design, a material table) are read whole the same careful way, by
+:func:`read_checked`: a regular file of bounded size, or one :class:`FileRefused` line.
 """
 
 from __future__ import annotations
@@ -31,7 +34,8 @@ from pathlib import Path
 from cutplan import folder_guard
 from cutplan.folder_guard import MANIFEST, inspect, locked, pid_alive, remove_tree
 
-__all__ = ["FolderError", "read_manifest", "write_bytes", "check_target", "write_folder", "write_file_whole"]
+__all__ = ["FolderError", "FileRefused", "read_checked", "read_manifest", "write_bytes", "check_target", "write_folder",
+           "write_file_whole"]
 
 _TEMP_TAG = ".cutplan-"
 _RENAME_EXCHANGE = 2
@@ -39,6 +43,41 @@ _RENAME_EXCHANGE = 2
 
 class FolderError(OSError):
     """The folder cannot be written; str() is one line naming it and saying why."""
+
+
+class FileRefused(ValueError):
+    """An input file that cannot be read as one: ``allowed`` says why, in the words of an error line."""
+
+    def __init__(self, path, allowed):
+        super().__init__(f"{path}: {allowed}")
+        self.path, self.allowed = path, allowed
+
+
+def read_checked(path, limit, what):
+    """The bytes of a regular file of at most ``limit`` bytes (``what`` it should be, e.g. "a design
+    file"), or :class:`FileRefused`. Checked before it is read (a named pipe would block forever,
+    ``/dev/zero`` never ends); then at most that many bytes are read, whatever the file does meanwhile."""
+    path = Path(path)
+    try:
+        info = os.stat(path)
+    except FileNotFoundError:
+        raise FileRefused(path, "does not exist") from None
+    except OSError as exc:
+        raise FileRefused(path, f"cannot be read ({exc.strerror})") from None
+    if stat.S_ISDIR(info.st_mode):
+        raise FileRefused(path, f"is a folder, not {what}")
+    if not stat.S_ISREG(info.st_mode):
+        raise FileRefused(path, f"is not a regular file (a pipe or device?); give {what}")
+    if info.st_size > limit:
+        raise FileRefused(path, f"is over {limit} bytes; {what} is a few kB")
+    try:
+        with open(path, "rb") as fh:
+            raw = fh.read(limit + 1)
+    except OSError as exc:
+        raise FileRefused(path, f"cannot be read ({exc.strerror})") from None
+    if len(raw) > limit:
+        raise FileRefused(path, f"is over {limit} bytes; {what} is a few kB")
+    return raw
 
 
 def _umask():

@@ -16,7 +16,11 @@ from __future__ import annotations
 from cutplan.units import ZERO_CELSIUS
 
 __all__ = ["A4_ALLOWED", "A4_RANGE", "FREQUENCY_RANGE", "FREQUENCY_SPAN", "MEASURED_HZ", "TEMPERATURE_RANGE", "TEMPERATURE_RANGE_C",
-           "TEMPERATURE_SPAN", "IN_TUNE_CENTS", "AIR_SPEED_RANGE", "CENTS_RANGE", "RATIO_RANGE", "a4_ok", "hz_text"]
+           "TEMPERATURE_SPAN", "IN_TUNE_CENTS", "AIR_SPEED_RANGE", "CENTS_RANGE", "RATIO_RANGE", "MAX_FILE_BYTES",
+           "a4_ok", "hz_text"]
+
+MAX_FILE_BYTES = 1_000_000
+"""Largest design file or material table read [bytes]; a design is a few kB."""
 
 A4_RANGE = (400.0, 480.0)
 """Reference pitch A4 accepted [Hz], ends included (common practice: the pitches of A4 in use,

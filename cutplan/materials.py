@@ -18,7 +18,8 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from cutplan import units
-from cutplan.limits import AIR_SPEED_RANGE
+from cutplan.folder import FileRefused, read_checked
+from cutplan.limits import AIR_SPEED_RANGE, MAX_FILE_BYTES
 from cutplan.physics.sections import Section, tube
 from cutplan.planning.air_calibrated import AirCalibration
 from cutplan.plausibility import CLASS_RANGES
@@ -167,14 +168,10 @@ def packaged_dir():
 def _read_toml(path):
     """A table file's TOML: a regular file of at most a design file's size (never a pipe, a device,
     a folder or a link loop), or MaterialError naming the file."""
-    # here, not at the top: cutplan.design imports this module (a cycle)
-    from cutplan.design.contract import DesignErrors
-    from cutplan.design.reader import read_bytes_checked
-
     try:
-        raw = read_bytes_checked(path, what="a material or stock table")
-    except DesignErrors as exc:
-        raise MaterialError(path, "(file)", "", exc.errors[0].allowed) from None
+        raw = read_checked(path, MAX_FILE_BYTES, "a material or stock table")
+    except FileRefused as exc:
+        raise MaterialError(path, "(file)", "", exc.allowed) from None
     try:
         return tomllib.loads(raw.decode("utf-8").removeprefix("\ufeff"))
     except tomllib.TOMLDecodeError as exc:

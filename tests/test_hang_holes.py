@@ -8,7 +8,7 @@ import pytest
 import cutplan
 from cutplan.physics.hang_hole import hang_hole_shifts
 from cutplan.planning import hang_holes
-from cutplan.planning.shopping import hang_hole_for
+from cutplan.planning.hang_holes import hang_hole_for
 from cutplan.planning.shopping import hang_holes as shop_rows
 from cutplan.render.table import plan_dict
 

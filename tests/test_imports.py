@@ -29,9 +29,6 @@ HEAVY_IMPORTS = {
 (figures in :mod:`cutplan.cli`)."""
 
 CYCLE_BREAKS = {
-    ("cutplan.materials", "cutplan.design.contract"), ("cutplan.materials", "cutplan.design.reader"),
-    ("cutplan.planning.frequency", "cutplan.planning.elastic"),
-    ("cutplan.planning.hang_holes", "cutplan.planning.shopping"),
     ("cutplan.layout.optimiser", "cutplan.layout.columns"),
     ("cutplan.tuning.trim_service", "cutplan.tuning.arched"),
     ("cutplan.tuning.profile_model", "cutplan.physics.elastic2d"),  # the 2-D model or the 1-D fallback

@@ -6,6 +6,7 @@ import pytest
 
 import cutplan
 from cutplan.planning import shopping
+from cutplan.planning.hang_holes import hang_hole_for
 from cutplan.units import INCH
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -42,7 +43,7 @@ def test_hang_hole_rows_are_ordered_and_cover_common_chime_tubes():
     assert all(r.drill < r.max_outer / 4 for r in rows)
     # 1/2 in to 2 in tube is the usual range for hand-built chimes (common practice)
     for outer in (0.5 * INCH, 1.0 * INCH, 2.0 * INCH):
-        assert shopping.hang_hole_for(outer, rows) is not None
+        assert hang_hole_for(outer, rows) is not None
 
 
 def test_no_pvc_caution_without_pvc_and_no_wood_caution_without_wood():

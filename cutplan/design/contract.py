@@ -13,6 +13,7 @@ from typing import TYPE_CHECKING
 from cutplan import pitch, units
 from cutplan.design.notices import INVALID, Notice
 from cutplan.design.text import shown
+from cutplan.limits import MAX_FILE_BYTES
 from cutplan.physics.sections import Section
 from cutplan.units import INCH_DENOMINATOR
 
@@ -32,8 +33,6 @@ MAX_PIECES_PER_SET = 128
 """Largest set cutplan plans [-] (a 10-octave chromatic set is 120; more is a typing error)."""
 MAX_PIECES = 400
 """Largest design [-]."""
-MAX_FILE_BYTES = 1_000_000
-"""Largest design file read [bytes]; a design is a few kB."""
 DEFAULT_TEMPERATURE = units.ROOM_TEMPERATURE
 """Air temperature assumed when a design gives none [K] (20 C, the usual reference)."""
 DEFAULT_SHARP_RISK = 0.05

@@ -1,18 +1,17 @@
 """Read a design file's bytes safely and parse its TOML: every failure is one DesignError line.
 
-The file is checked before it is read: it must be a regular file (a named pipe would block
-forever, ``/dev/zero`` never ends) of at most :data:`MAX_FILE_BYTES`; then at most that many
-bytes are read, whatever the file does meanwhile. A UTF-8 byte-order mark is accepted.
+The file is read by :func:`cutplan.folder.read_checked`: a regular file (a named pipe would block
+forever, ``/dev/zero`` never ends) of at most :data:`MAX_FILE_BYTES`. A UTF-8 byte-order mark is
+accepted.
 """
 
 from __future__ import annotations
 
-import os
-import stat
 import tomllib
 from pathlib import Path
 
 from cutplan.design.contract import MAX_FILE_BYTES, DesignError, DesignErrors
+from cutplan.folder import FileRefused, read_checked
 
 __all__ = ["BOM", "read_bytes_checked", "parse_toml_text", "read_design_file"]
 
@@ -25,27 +24,10 @@ def _refuse(path, allowed):
 
 def read_bytes_checked(path, limit=MAX_FILE_BYTES, what="a design file"):
     """The bytes of a regular file of at most ``limit`` bytes, or DesignErrors (one line)."""
-    path = Path(path)
     try:
-        info = os.stat(path)
-    except FileNotFoundError:
-        _refuse(path, "does not exist")
-    except OSError as exc:
-        _refuse(path, f"cannot be read ({exc.strerror})")
-    if stat.S_ISDIR(info.st_mode):
-        _refuse(path, f"is a folder, not {what}")
-    if not stat.S_ISREG(info.st_mode):
-        _refuse(path, f"is not a regular file (a pipe or device?); give {what}")
-    if info.st_size > limit:
-        _refuse(path, f"is over {limit} bytes; {what} is a few kB")
-    try:
-        with open(path, "rb") as fh:
-            raw = fh.read(limit + 1)
-    except OSError as exc:
-        _refuse(path, f"cannot be read ({exc.strerror})")
-    if len(raw) > limit:
-        _refuse(path, f"is over {limit} bytes; {what} is a few kB")
-    return raw
+        return read_checked(path, limit, what)
+    except FileRefused as exc:
+        _refuse(Path(path), exc.allowed)
 
 
 def parse_toml_text(path, raw):

@@ -14,14 +14,20 @@ import numpy as np
 from cutplan import pitch
 from cutplan.design.notices import set_key
 from cutplan.physics import beam, beam_fe
-from cutplan.physics.undercut2d import design_undercut_2d, trimmed_profile
+from cutplan.physics.undercut2d import design_undercut_2d
 from cutplan.planning import uncertainty
 from cutplan.planning.allowance import allowances, risk_warning
-from cutplan.planning.frequency import beam_frequency_function, partial_notes, plane_constants, stubby_bar_warnings
+from cutplan.planning.frequency import (
+    beam_frequency_function,
+    partial_notes,
+    plane_constants,
+    profile_frequency_function,
+    stubby_bar_warnings,
+)
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece
 
 __all__ = [
-    "LENGTH_TOLERANCE_CENTS", "TRIM_STEP", "profile_frequency_function", "plan_undercut_set_2d",
+    "LENGTH_TOLERANCE_CENTS", "TRIM_STEP", "plan_undercut_set_2d",
     "plan_uniform_set_2d", "plan_set", "elastic_constants"
 ]
 
@@ -29,18 +35,6 @@ LENGTH_TOLERANCE_CENTS = 0.01
 """A uniform bar's 2-D length search stops this close to the target [cents]."""
 TRIM_STEP = 0.5e-3
 """Half the central-difference step of the trim rate [m] (as :func:`cutplan.planning.frequency.cents_per_mm`)."""
-
-
-def profile_frequency_function(spec, stations):
-    """f(L) [Hz] of mode 1 in the 2-D model of a bar with this profile ((x, h) [m], end to end),
-    cut to length L by taking the same off each end: the arch stays where it is."""
-    plane, width = plane_constants(spec.material, spec.grain), spec.section.width
-
-    def f(length):
-        xs, hs = trimmed_profile(stations, float(length))
-        return float(plane.modes(xs, hs, width, modes=1).frequencies[0])
-
-    return f
 
 
 def _trim_rate(f_at, length):

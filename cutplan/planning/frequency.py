@@ -8,12 +8,13 @@ import numpy as np
 from cutplan import pitch
 from cutplan.design.notices import STUBBY, Notice
 from cutplan.physics import air_column, beam, beam_fe, timoshenko, undercut, uniform
-from cutplan.physics.undercut2d import PlaneConstants
+from cutplan.physics.undercut2d import PlaneConstants, trimmed_profile
 from cutplan.planning import air_calibrated, grain
 
 __all__ = [
     "STRIKE_NOTE_MODE", "partial_notes", "cents_per_mm", "beam_constants", "beam_frequency_function",
-    "air_frequency_function", "plane_constants", "undercut_frequency_function", "piece_frequency_function"
+    "air_frequency_function", "plane_constants", "undercut_frequency_function", "profile_frequency_function",
+    "piece_frequency_function"
 ]
 
 
@@ -147,12 +148,22 @@ def undercut_frequency_function(spec, arch, length=None):
     return f
 
 
+def profile_frequency_function(spec, stations):
+    """f(L) [Hz] of mode 1 in the 2-D model of a bar with this profile ((x, h) [m], end to end),
+    cut to length L by taking the same off each end: the arch stays where it is."""
+    plane, width = plane_constants(spec.material, spec.grain), spec.section.width
+
+    def f(length):
+        xs, hs = trimmed_profile(stations, float(length))
+        return float(plane.modes(xs, hs, width, modes=1).frequencies[0])
+
+    return f
+
+
 def piece_frequency_function(spec, piece):
     """f(L) [Hz] of the mode a planned piece is tuned by, with the plan's own model (for trimming;
     an arch stays where it is)."""
     if piece.model == "elastic-2d":
-        from cutplan.planning.elastic import profile_frequency_function  # here: elastic imports this module
-
         stations = piece.arch.outline if piece.arch is not None else ((0.0, spec.section.thickness),
                                                                      (piece.length, spec.section.thickness))
         return profile_frequency_function(spec, stations)

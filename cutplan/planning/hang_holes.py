@@ -19,7 +19,8 @@ from cutplan.physics.hang_hole import hang_hole_shifts
 from cutplan.planning.records import HangHoleSplit
 
 __all__ = [
-    "BEAT_LIMIT_HZ", "DRILL_STEP", "SMALLEST_DRILL", "split_for", "drill_text", "warning", "with_hang_holes"
+    "BEAT_LIMIT_HZ", "DRILL_STEP", "SMALLEST_DRILL", "hang_hole_for", "split_for", "drill_text", "warning",
+    "with_hang_holes"
 ]
 
 BEAT_LIMIT_HZ = 1.5
@@ -33,6 +34,11 @@ DRILL_STEP = 0.0254 / 64
 SMALLEST_DRILL = 0.0254 / 16
 """Smallest drill suggested [m] (1/16 in: a thinner hole will not take a hanging line; common
 practice)."""
+
+
+def hang_hole_for(outer, rows):
+    """The row for a tube or rod of outside diameter ``outer`` [m], or None past the table."""
+    return next((r for r in rows if outer <= r.max_outer + 1e-9), None)
 
 
 def _mode(spec):
@@ -93,8 +99,6 @@ def warning(split, units_text):
 def with_hang_holes(spec, pieces, rows, units="mm"):
     """The chime pieces with ``hang_hole`` filled in from the shop table ``rows`` (and a warning
     when the beat is over the limit); other pieces unchanged."""
-    from cutplan.planning.shopping import hang_hole_for  # here: shopping imports this module
-
     if spec.kind != "chime" or spec.section.shape != "tube":
         return list(pieces)
     row = hang_hole_for(spec.section.outer, rows)

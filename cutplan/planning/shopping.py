@@ -19,13 +19,13 @@ from cutplan import units
 from cutplan.layout.kits import kit_label
 from cutplan.materials import shop_table
 from cutplan.planning import hanging_load
-from cutplan.planning.hang_holes import BEAT_LIMIT_HZ, drill_text
+from cutplan.planning.hang_holes import BEAT_LIMIT_HZ, drill_text, hang_hole_for
 from cutplan.planning.hanging import SAIL_DROP
 from cutplan.planning.hanging_load import buy_text, mass_text
 
 __all__ = [
     "PLATE_THICKNESS", "round_in_unit", "plate_material", "PLATE_HANGING", "CODES", "Item", "Caution",
-    "HangHole", "Plate", "hang_holes", "hang_hole_for", "cautions_for", "hanging_plate", "h_limit",
+    "HangHole", "Plate", "hang_holes", "cautions_for", "hanging_plate", "h_limit",
     "shopping_list", "with_shop_lists"
 ]
 
@@ -140,11 +140,6 @@ def hang_holes(table=None):
     table = table if table is not None else shop_table("hang_holes.toml")
     return tuple(HangHole(units.parse_length(r["max_outer"]), units.parse_length(r["drill"]), r["line"], r["kind"])
                  for r in table["hole"])
-
-
-def hang_hole_for(outer, rows):
-    """The row for a tube or rod of outside diameter ``outer`` [m], or None past the table."""
-    return next((r for r in rows if outer <= r.max_outer + 1e-9), None)
 
 
 def _material_matches(row, s):
