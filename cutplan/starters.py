@@ -1,6 +1,19 @@
-"""Commented starter design files written by ``cutplan new KIND``; scenarios of our own."""
+"""Commented starter design files written by ``cutplan new KIND``, and where the bundled example
+designs are; scenarios of our own."""
 
-__all__ = ["CHIME", "BAR", "AIR_COLUMN", "STARTERS"]
+from pathlib import Path
+
+__all__ = ["CHIME", "BAR", "AIR_COLUMN", "STARTERS", "example_paths"]
+
+
+def example_paths():
+    """{name: path} of every bundled example design (``_examples`` inside the wheel, or
+    ``examples/`` of a source checkout), by file name without ``.toml``; empty when neither exists."""
+    here = Path(__file__).resolve().parent
+    for candidate in (here / "_examples", here.parent / "examples"):
+        if candidate.is_dir():
+            return {p.stem: p for p in sorted(candidate.glob("*.toml"))}
+    return {}
 
 CHIME = '''# cutplan design: a starter chime set. Edit, then run: cutplan plan THIS-FILE
 # Scenario: six aluminium tubes for a balcony, in a G major pentatonic scale.

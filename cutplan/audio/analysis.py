@@ -65,7 +65,8 @@ ABSENT_FACTOR = 0.6
 """Weight of a reading whose fundamental is not in the recording [-] (common practice: a struck
 piece almost always sounds its fundamental; prefer readings that hear it)."""
 LOW_CONFIDENCE = 0.5
-"""Below this confidence the reading is reported with a warning [-]."""
+"""Below this confidence (the 0..1 score) a reading is reported with a warning, and the trim service
+questions it before any advice [-] (common practice)."""
 MIN_FUNDAMENTAL_HZ = 20.0
 """Lowest fundamental reported [Hz]; anything lower is not a piece ringing."""
 

@@ -7,27 +7,18 @@ checkout), so they are reachable from any folder; ``cutplan new --from NAME FILE
 from __future__ import annotations
 
 import textwrap
-from pathlib import Path
 
 import click
 
 from cutplan.cli.common import fail
+from cutplan.starters import example_paths
 
-__all__ = ["examples_dir", "example_names", "example_text", "examples_command"]
-
-
-def examples_dir():
-    """The bundled example designs: inside the wheel, or ``examples/`` of a source checkout."""
-    here = Path(__file__).resolve().parent.parent
-    for candidate in (here / "_examples", here.parent / "examples"):
-        if candidate.is_dir():
-            return candidate
-    raise FileNotFoundError("cutplan's example designs are missing from this installation")
+__all__ = ["example_names", "example_text", "examples_command"]
 
 
 def example_names():
     """{name: path} of every bundled example, by file name without ``.toml``."""
-    return {p.stem: p for p in sorted(examples_dir().glob("*.toml"))}
+    return example_paths()
 
 
 def example_text(name):

@@ -13,7 +13,7 @@ if TYPE_CHECKING:  # for annotations only: these modules build on the records
     from cutplan.layout.cutlist import CutList
     from cutplan.physics.sections import Section
     from cutplan.planning.hanging import Hanging
-    from cutplan.planning.shopping import Caution, Item
+    from cutplan.planning.shopping import Caution, ShoppingItem
 
 __all__ = ["PARTIAL_COUNT", "HangHoleSplit", "Piece", "Arch", "SetPlan", "Plan"]
 
@@ -171,7 +171,7 @@ class Plan:
     cut_list: CutList | None = None
     warnings: tuple[str, ...] = field(default=())
     inch_denominator: int = INCH_DENOMINATOR
-    shopping: tuple[Item, ...] = ()  # cutplan.planning.shopping.Item, ...
+    shopping: tuple[ShoppingItem, ...] = ()  # cutplan.planning.shopping.ShoppingItem, ...
     cautions: tuple[Caution, ...] = ()  # cutplan.planning.shopping.Caution, ...
     classroom: bool = False  # the design is for a classroom (supervision notes)
     copies: int = 1  # identical kits: the cut list and shopping list hold all of them

@@ -24,13 +24,13 @@ from cutplan.planning.hanging import SAIL_DROP
 from cutplan.planning.hanging_load import buy_text, mass_text
 
 __all__ = [
-    "PLATE_THICKNESS", "round_in_unit", "plate_material", "PLATE_HANGING", "CODES", "Item", "Caution",
-    "HangHole", "Plate", "hang_holes", "cautions_for", "hanging_plate", "h_limit",
+    "PLATE_THICKNESSES_SOLD", "round_in_unit", "plate_material", "PLATE_HANGING", "CODES", "ShoppingItem",
+    "Caution", "HangHole", "Plate", "hang_holes", "cautions_for", "hanging_plate", "h_limit",
     "shopping_list", "with_shop_lists"
 ]
 
 
-PLATE_THICKNESS = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
+PLATE_THICKNESSES_SOLD = {"mm": (12e-3, 3e-3), "in": (0.5 * 0.0254, 0.125 * 0.0254)}
 """Usual hanging-plate thickness [m]: plywood or hardwood, aluminium sheet, as sold in metric and
 in inch sizes (common practice)."""
 
@@ -54,7 +54,8 @@ def round_in_unit(metres, shown="mm"):
 
 def plate_material(shown="mm", den=units.INCH_DENOMINATOR):
     """What a hanging plate is usually made of, in the plan's units (common practice; a suggestion)."""
-    wood, metal = (units.format_length(t, shown, den) for t in PLATE_THICKNESS.get(shown, PLATE_THICKNESS["mm"]))
+    sold = PLATE_THICKNESSES_SOLD.get(shown, PLATE_THICKNESSES_SOLD["mm"])
+    wood, metal = (units.format_length(t, shown, den) for t in sold)
     return f"{wood} exterior plywood or hardwood, or {metal} aluminium sheet"
 
 
@@ -65,7 +66,7 @@ CODES = "Follow local building codes and licensed practice; these notes do not r
 
 
 @dataclass(frozen=True)
-class Item:
+class ShoppingItem:
     """One line of the shopping list.
 
     ``count`` things (or None), each ``each`` long [m] (or None), ``total`` [m] in all (or None);
@@ -210,13 +211,13 @@ def _stock_items(plan):
             for length, n in sorted(counts.items()):
                 prices = [s.price for s in g.sticks if s.stock_length == length]
                 cost = None if any(p is None for p in prices) else float(sum(prices))
-                items.append(Item("stock", what, n, length, n * length, "sticks, from the stock layout", cost=cost))
+                items.append(ShoppingItem("stock", what, n, length, n * length, "sticks, from the stock layout", cost=cost))
     listed = {p.label for s in plan.cut_list.sticks for p in s.cuts} if plan.cut_list is not None else set()
     for s in plan.sets:
         rest = [p for p in s.pieces if p.label not in listed and kit_label(1, p.label) not in listed]
         if rest:
             total = sum(p.cut_length for p in rest) * max(1, getattr(plan, "copies", 1))
-            items.append(Item("stock", f"{s.material}, {s.section_label(plan.units)}", None, None, total,
+            items.append(ShoppingItem("stock", f"{s.material}, {s.section_label(plan.units)}", None, None, total,
                               "the pieces' cut lengths added up; the design lists no stock, so buy this "
                               "plus saw kerf and end trim", suggestion=True))
     return items
@@ -248,7 +249,7 @@ def _chime_items(s, rows, shown="mm", copies=1, den=units.INCH_DENOMINATOR):
     names = sorted({line.row.what for line in load.lines})
     buy = load.line_to_buy(shown, copies)
     each = f" per kit, {units.format_length(copies * load.line_total, shown, den)} for {copies} kits" if copies > 1 else ""
-    items = [Item("hanging", f"hanging line for {s.name}: {' and '.join(names)}", None, None, buy,
+    items = [ShoppingItem("hanging", f"hanging line for {s.name}: {' and '.join(names)}", None, None, buy,
                   f"{units.format_length(load.line_total, shown, den)} cut with knots{each} (see the Hanging page); buy "
                   f"{buy_text(buy, shown)}; chosen for {load.safety_factor:g} x the load "
                   f"({load.safety_source}); ratings from memory, check the maker's label", suggestion=True,
@@ -258,19 +259,19 @@ def _chime_items(s, rows, shown="mm", copies=1, den=units.INCH_DENOMINATOR):
         line_hole = h.hole_diameter if h.hole_diameter > 0.0045 else 0.0  # a heavy set's thicker line must pass
         if line_hole > drill:
             drill, note = line_hole, "through both walls, at the hang-hole mark; sized for the line this set needs"
-        items.append(Item("hanging", f"drill bit for the hang holes ({row.kind})", 1, drill, None,
+        items.append(ShoppingItem("hanging", f"drill bit for the hang holes ({row.kind})", 1, drill, None,
                           f"{note} (one hole per tube)", per_kit=False))
     hook = load.hook.what if load.hook is not None else "a fixing designed for the load by a qualified person"
     items += [
-        Item("hanging", f"hanging plate for {s.name}", 1, h.plate_diameter, None,
+        ShoppingItem("hanging", f"hanging plate for {s.name}", 1, h.plate_diameter, None,
              f"across; {plate_material(shown, den)}", suggestion=True),
-        Item("hanging", "top ring or swivel and the fixing it hangs from", 1, None, None,
+        ShoppingItem("hanging", "top ring or swivel and the fixing it hangs from", 1, None, None,
              f"whole set {mass_text(load.mass)}: rated {load.hook_rating:.0f} kg or more "
              f"({load.safety_factor:g} x); {hook}; {PLATE_HANGING}"),
-        Item("hanging", "striker disc", 1, h.striker_diameter, None,
+        ShoppingItem("hanging", "striker disc", 1, h.striker_diameter, None,
              f"across, {units.format_length(h.striker_thickness, shown, den)} hardwood, on the centre line "
              f"{units.format_length(h.striker_height, shown, den)} below the tube tops", suggestion=True),
-        Item("hanging", "wind sail", 1, h.sail.side, None,
+        ShoppingItem("hanging", "wind sail", 1, h.sail.side, None,
              f"square, 3 mm acrylic or thin plywood, on the striker line "
              f"{units.format_length(SAIL_DROP, shown, den)} below the longest tube", suggestion=True),
     ]
@@ -281,11 +282,11 @@ def _bar_items(s):
     n = len(s.pieces)
     rail = n * ((s.width or 0.0) + 0.01)
     return [
-        Item("supports", f"felt or foam strip for {s.name}", 2, rail, 2 * rail,
+        ShoppingItem("supports", f"felt or foam strip for {s.name}", 2, rail, 2 * rail,
              "two rails under the support marks: the bars' widths side by side plus 10 mm gaps", suggestion=True),
-        Item("supports", f"pins or cord for {s.name}", 2 * n, None, None,
+        ShoppingItem("supports", f"pins or cord for {s.name}", 2 * n, None, None,
              "two per bar at the support marks, with rubber sleeves", suggestion=True),
-        Item("supports", "mallets", 2, None, None, "hard rubber or yarn for wood bars, "
+        ShoppingItem("supports", "mallets", 2, None, None, "hard rubber or yarn for wood bars, "
              "hard plastic for metal bars", suggestion=True),
     ]
 
@@ -294,19 +295,19 @@ def _air_items(s):
     n = len(s.pieces)
     items = []
     if any(p.stopper for p in s.pieces):
-        items.append(Item("resonators", f"sliding stoppers for {s.name}", n, None, None,
+        items.append(ShoppingItem("resonators", f"sliding stoppers for {s.name}", n, None, None,
                           "to fit the bore closely; tune with them (see the stopper table)"))
     elif s.model == "closed-open" or s.kind == "resonator":
-        items.append(Item("resonators", f"end caps or plugs for {s.name}", n, None, None,
+        items.append(ShoppingItem("resonators", f"end caps or plugs for {s.name}", n, None, None,
                           "one per tube, to fit the stock"))
     if s.kind == "air-column":
-        items.append(Item("resonators", "paddle or beaters", 1, None, None,
+        items.append(ShoppingItem("resonators", "paddle or beaters", 1, None, None,
                           "a foam or rubber paddle for open pipes", suggestion=True))
     return items
 
 
 def shopping_list(plan, rows=None):
-    """Every Item to buy for the plan: stock first, then hanging, supports and resonator parts."""
+    """Every ShoppingItem to buy for the plan: stock first, then hanging, supports and resonator parts."""
     rows = rows if rows is not None else shop_tables().hang_holes
     copies = max(1, getattr(plan, "copies", 1))
     items = _stock_items(plan)
@@ -341,10 +342,10 @@ def _cost_items(items, copies):
     if not priced or any(c is None for c in priced):
         return []
     total = float(sum(priced))
-    out = [Item("cost", "stock, priced from the stock table", None, None, None,
+    out = [ShoppingItem("cost", "stock, priced from the stock table", None, None, None,
                 f"for {copies} kits" if copies > 1 else "for the whole set", cost=total, per_kit=False)]
     if copies > 1:
-        out.append(Item("cost", "stock per kit", None, None, None, f"one kit of {copies}",
+        out.append(ShoppingItem("cost", "stock per kit", None, None, None, f"one kit of {copies}",
                         cost=total / copies, per_kit=False))
     return out
 

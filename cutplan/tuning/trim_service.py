@@ -26,7 +26,7 @@ from typing import Any
 
 import numpy as np
 
-from cutplan.audio.analysis import measure
+from cutplan.audio.analysis import LOW_CONFIDENCE, measure
 from cutplan.audio.wav import RecordingError
 from cutplan.limits import FREQUENCY_RANGE, FREQUENCY_SPAN, IN_TUNE_CENTS
 from cutplan.numeric import quiet
@@ -36,16 +36,13 @@ from cutplan.tuning.calibrate import FAR_OFF_CENTS, CalibrationError, trim_advic
 from cutplan.units import UnitError, format_length, parse_length
 
 __all__ = [
-    "LOW_CONFIDENCE", "IN_TUNE_CENTS", "PARTIAL_MATCH", "STATE_FORMAT", "STATE_SUFFIX",
-    "TrimError", "Partial", "TrimReport", "parse_measured", "parse_length_now", "recorded_partials",
+    "IN_TUNE_CENTS", "PARTIAL_MATCH", "STATE_FORMAT", "STATE_SUFFIX",
+    "TrimError", "PartialReading", "TrimReport", "parse_measured", "parse_length_now", "recorded_partials",
     "find_piece", "tuned_targets", "trim_report", "with_lines", "new_state", "check_state",
     "profile_arrays", "profile_entry"
 ]
 
 
-LOW_CONFIDENCE = 0.5
-"""A recording read with less confidence than this is questioned before any advice [-]
-(the analysis's 0..1 score; common practice)."""
 PARTIAL_MATCH = 0.06
 """A recorded peak within this fraction of fundamental x planned ratio is taken as that partial
 [-] (about 100 cents)."""
@@ -63,7 +60,7 @@ class TrimError(ValueError):
 
 
 @dataclass(frozen=True)
-class Partial:
+class PartialReading:
     """One partial: its mode (1-based), target [Hz] (None when not tuned), measured [Hz], cents."""
 
     mode: int
@@ -79,7 +76,7 @@ class TrimReport:
     label: str
     note: str
     action: str  # "in-tune" | "trim" | "remove" | "sharp" | "re-record"
-    partials: tuple[Partial, ...]
+    partials: tuple[PartialReading, ...]
     length_now: float
     length_needed: float | None
     removal: tuple[tuple[float, float, int, bool], ...] = ()  # ((x [m] from end A, depth [m], mode mostly moved, raises it), ...) in work order
@@ -201,7 +198,7 @@ def trim_report(design, plan, label, measured_hz, confidence=1.0, from_recording
     piece, spec = find_piece(design, plan, label)
     measured = tuple(float(f) for f in measured_hz)
     targets = tuned_targets(piece, len(measured))
-    partials = tuple(Partial(i + 1, t, f, None if t is None else 1200 * math.log2(f / t))
+    partials = tuple(PartialReading(i + 1, t, f, None if t is None else 1200 * math.log2(f / t))
                      for i, (f, t) in enumerate(zip(measured, targets, strict=True)))
     questions = _questioned(piece, partials[0].cents, confidence, from_recording)
     if piece.arch is not None:

@@ -13,7 +13,6 @@ import json
 import re
 import time
 import tomllib
-from pathlib import Path
 
 from flask import Flask, Request, Response, g, jsonify, render_template, request
 from markupsafe import Markup
@@ -23,7 +22,7 @@ from cutplan import pitch
 from cutplan.planning.shopping import general_cautions
 from cutplan.render.phrases import SAFETY_HEADING, TRIM_RULE
 from cutplan.render.table import plan_dict
-from cutplan.starters import CHIME
+from cutplan.starters import CHIME, example_paths
 from cutplan.units import LengthParts
 from cutplan.web import form as webform
 from cutplan.web import view
@@ -42,7 +41,7 @@ from cutplan.web.service import (
 from cutplan.web.trim import trim_answer
 
 __all__ = [
-    "MAX_UPLOAD_BYTES", "UPLOAD_ROUTES", "LOOPBACK_NAMES", "CSP", "MemoryRequest", "examples_dir",
+    "MAX_UPLOAD_BYTES", "UPLOAD_ROUTES", "LOOPBACK_NAMES", "CSP", "MemoryRequest",
     "create_app", "same_origin"
 ]
 
@@ -63,20 +62,6 @@ class MemoryRequest(Request):
         return io.BytesIO()
 
 
-def examples_dir():
-    """The bundled example designs: inside the wheel, or ``examples/`` of a source checkout."""
-    here = Path(__file__).resolve().parent.parent
-    for candidate in (here / "_examples", here.parent / "examples"):
-        if candidate.is_dir():
-            return candidate
-    return None
-
-
-def _examples():
-    folder = examples_dir()
-    return {} if folder is None else {p.stem: p for p in sorted(folder.glob("*.toml"))}
-
-
 def _starter():
     return tomllib.loads(CHIME)
 
@@ -95,7 +80,7 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     planner = Planner(materials_dirs, workers=workers)
     app.planner = planner
     board = ProgressBoard()
-    examples = _examples()
+    examples = example_paths()
     app.jinja_env.filters["both"] = _both_units
     app.jinja_env.globals.update(trim_rule=TRIM_RULE, safety_heading=SAFETY_HEADING,
                                  general_cautions=[c.text for c in general_cautions()])

@@ -22,10 +22,7 @@ from cutplan.tuning import TrimError
 from cutplan.tuning.trim_service import trim_reading
 from cutplan.web.service import WebErrors, error
 
-__all__ = ["MAX_STATE_BYTES", "TrimAnswer", "trim_answer"]
-
-MAX_STATE_BYTES = 200_000
-"""Largest rounds mapping accepted back from the page [bytes]."""
+__all__ = ["TrimAnswer", "trim_answer"]
 
 
 @dataclass(frozen=True)
