@@ -9,6 +9,7 @@ from click.testing import CliRunner
 
 from cutplan import limits, units
 from cutplan.cli import cli
+from cutplan.cli.common import OPTION_HELP
 from cutplan.planning.shopping import CODES, general_cautions
 from cutplan.render import phrases
 
@@ -116,3 +117,10 @@ def test_the_page_header_says_only_what_holds_for_every_packet():
     texts = [c.text for c in general_cautions()]
     assert texts[-1] == CODES
     assert not any("PVC" in t or "metal" in t for t in texts)
+
+
+@pytest.mark.parametrize("key", sorted(OPTION_HELP))
+def test_each_shared_option_help_is_written_once(key):
+    # the commands that take the same option share its help text (common practice: one wording)
+    hits = [(name, n) for name, n in _text_hits(OPTION_HELP[key]) if name.startswith("cli/")]
+    assert hits == [("cli/common.py", 1)], hits

@@ -20,7 +20,8 @@ from cutplan.planning.service import REFUSALS, guarded_plan, refusal_lines
 __all__ = [
     "EXIT_BAD_INPUT", "BadInput", "fail", "write_file", "write_folder", "load_or_exit", "PROGRESS_FROM",
     "plan_or_exit", "check_output_dir", "MATERIALS_OPTION", "section_options", "OPTION_FOR_KEY",
-    "one_piece_design", "material_folders", "DESIGN_DIRS_OPTION", "parse_stock_option"
+    "one_piece_design", "material_folders", "DESIGN_DIRS_OPTION", "parse_stock_option", "OPTION_HELP", "option_help",
+    "overwrite_help"
 ]
 
 EXIT_BAD_INPUT = 2
@@ -124,6 +125,34 @@ def check_output_dir(output, force):
     return Path(output)
 
 
+OPTION_HELP = {
+    "stock_size": 'Named stock size, e.g. "al-1.000x0.065" or "pvc-sch40-1"',
+    "tube": 'Tube "OUTER x WALL", e.g. "1 in x 0.065 in"',
+    "rod": 'Rod diameter, e.g. "12 mm"',
+    "bar": 'Bar "WIDTH x THICKNESS", e.g. "38 mm x 19 mm"',
+    "material": "Material name (chime/bar), from `cutplan materials`",
+    "ends": "Air column ends",
+    "a4": "Reference pitch A4 in Hz",
+    "temperament": '"equal", "equal-N", "just" or "pythagorean"',
+    "units": "Units shown first",
+    "format": "What to print",
+    "kerf": "Saw kerf",
+    "end_trim": "Squared off each factory end of every stick",
+    "force_folder": "Replace what an earlier run wrote in the output folder (your own files there are kept)",
+}
+"""The help text of each option that several commands take, written once (see :func:`option_help`)."""
+
+
+def option_help(key, note=None):
+    """An option's help text from :data:`OPTION_HELP`, with a command's own ``note`` in brackets."""
+    return f"{OPTION_HELP[key]} ({note})." if note else f"{OPTION_HELP[key]}."
+
+
+def overwrite_help(what):
+    """Help for a ``--force`` that overwrites one file."""
+    return f"Overwrite {what} if it exists."
+
+
 MATERIALS_OPTION = click.option(
     "--materials", "materials_dirs", multiple=True, type=click.Path(file_okay=False),
     help="Extra folder of material/stock TOML tables (may be repeated).",
@@ -133,10 +162,10 @@ MATERIALS_OPTION = click.option(
 def section_options(command):
     """The four ways to give a section on the command line: --stock, --tube, --rod, --bar."""
     for option in reversed([
-        click.option("--stock", "stock_name", help='Named stock size, e.g. "al-1.000x0.065" or "pvc-sch40-1".'),
-        click.option("--tube", help='Tube "OUTER x WALL", e.g. "1 in x 0.065 in".'),
-        click.option("--rod", help='Rod diameter, e.g. "12 mm".'),
-        click.option("--bar", "bar_size", help='Bar "WIDTH x THICKNESS", e.g. "38 mm x 19 mm".'),
+        click.option("--stock", "stock_name", help=option_help("stock_size")),
+        click.option("--tube", help=option_help("tube")),
+        click.option("--rod", help=option_help("rod")),
+        click.option("--bar", "bar_size", help=option_help("bar")),
     ]):
         command = option(command)
     return command

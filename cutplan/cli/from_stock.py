@@ -8,7 +8,7 @@ from pathlib import Path
 
 import click
 
-from cutplan.cli.common import MATERIALS_OPTION, fail, load_or_exit, write_file
+from cutplan.cli.common import MATERIALS_OPTION, fail, load_or_exit, option_help, overwrite_help, write_file
 from cutplan.design import DesignErrors, read_design_file
 from cutplan.design.contract import MAX_STOCK_COUNT
 from cutplan.fromstock.output import design_toml, result_dict
@@ -140,18 +140,18 @@ def _render(result, heard=False):
 @click.option("--design", "design_file", type=click.Path(dir_okay=False),
               help="Use this design file's [stock], units and tuning instead of --have; and its first set's "
                    "kind, material and section unless section options are given.")
-@click.option("--kerf", default="1.6 mm", show_default=True, help="Saw kerf.")
-@click.option("--end-trim", default="0 mm", show_default=True, help="Squared off each factory end of every stick.")
+@click.option("--kerf", default="1.6 mm", show_default=True, help=option_help("kerf"))
+@click.option("--end-trim", default="0 mm", show_default=True, help=option_help("end_trim"))
 @click.option("--allowance", default="risk 5 %", show_default=True,
               help='Rough-cut allowance: "risk 5 %" (chance of coming out sharp), "0.5 %" or "3 mm".')
 @click.option("--kind", type=click.Choice(["chime", "bar", "air-column"]),
               help="What the pieces are (default chime, or the --design file's first set).")
-@click.option("--material", help="Material name (chime/bar), from `cutplan materials`.")
-@click.option("--stock-size", help='Named stock size, e.g. "al-1.000x0.065" or "pvc-sch40-1".')
-@click.option("--tube", help='Tube "OUTER x WALL", e.g. "1 in x 0.065 in".')
-@click.option("--rod", help='Rod diameter, e.g. "12 mm".')
-@click.option("--bar", "bar_size", help='Bar "WIDTH x THICKNESS", e.g. "38 mm x 19 mm".')
-@click.option("--ends", type=click.Choice(["open-open", "closed-open"]), help="Air column ends.")
+@click.option("--material", help=option_help("material"))
+@click.option("--stock-size", help=option_help("stock_size"))
+@click.option("--tube", help=option_help("tube"))
+@click.option("--rod", help=option_help("rod"))
+@click.option("--bar", "bar_size", help=option_help("bar"))
+@click.option("--ends", type=click.Choice(["open-open", "closed-open"]), help=option_help("ends"))
 @click.option("--target", type=click.Choice(["fundamental", "strike-note"]),
               help="Chimes and bars: name each piece by its lowest mode (default) or by the strike note you "
                    "hear (chimes ring at about half their mode-4 frequency), so the root is the note heard.")
@@ -162,15 +162,15 @@ def _render(result, heard=False):
 @click.option("--least-waste", is_flag=True, help="With --count: the root that uses the sticks cut best.")
 @click.option("--lowest", help='Lowest note allowed, e.g. "C4".')
 @click.option("--highest", help='Highest note allowed, e.g. "C7".')
-@click.option("--a4", type=float, help="Reference pitch A4 in Hz (default 440, or the design's).")
-@click.option("--temperament", help='"equal" (default), "equal-N", "just" or "pythagorean".')
-@click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's, or "
-              "inches when every --have is in feet or inches).")
+@click.option("--a4", type=float, help=option_help("a4", "default 440, or the design's"))
+@click.option("--temperament", help=option_help("temperament", "default equal, or the design's"))
+@click.option("--units", type=click.Choice(["mm", "in"]), help=option_help(
+    "units", "default: the design's, or inches when every --have is in feet or inches"))
 @click.option("--top", type=click.IntRange(1, 100), default=10, show_default=True, help="Rows in the ranked table.")
 @click.option("--format", "fmt", type=click.Choice(["table", "json"]), default="table", show_default=True,
-              help="What to print.")
+              help=option_help("format"))
 @click.option("-o", "--output", type=click.Path(dir_okay=False), help="Write the chosen set as a design file.")
-@click.option("--force", is_flag=True, help="Overwrite the --output file if it exists.")
+@click.option("--force", is_flag=True, help=overwrite_help("the --output file"))
 @MATERIALS_OPTION
 def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, material, stock_size, tube, rod, bar_size,
                        ends, target, scales, count, most, least_waste, lowest, highest, a4, temperament, units, top,

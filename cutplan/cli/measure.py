@@ -10,7 +10,7 @@ from cutplan import pitch
 from cutplan.audio.analysis import Measurement, measure
 from cutplan.audio.partials import Partial
 from cutplan.audio.wav import RecordingError, read_wav
-from cutplan.cli.common import fail
+from cutplan.cli.common import fail, option_help
 from cutplan.limits import A4_ALLOWED, FREQUENCY_RANGE, FREQUENCY_SPAN, a4_ok
 
 __all__ = ["MEASURE_KINDS", "MIN_CONFIDENCE", "measure_file", "measure_command"]
@@ -39,9 +39,9 @@ def measure_file(recording, kind, near_hz, ratios=None):
               help="What was struck: the partial patterns tried when naming the fundamental (any: all of them; "
                    "bar: plain, tuned and xylophone bars; air-column: open and closed).")
 @click.option("--near", help='Expected note, e.g. "D5": only fundamentals within half an octave are considered.')
-@click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
+@click.option("--a4", type=float, default=440.0, show_default=True, help=option_help("a4"))
 @click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text", show_default=True,
-              help="What to print.")
+              help=option_help("format"))
 def measure_command(recording, frequency, kind, near, a4, fmt):
     """Measure the pitch and partials of a struck piece from a WAV recording.
 

@@ -13,6 +13,8 @@ from cutplan.cli.common import (
     fail,
     material_folders,
     one_piece_design,
+    option_help,
+    overwrite_help,
     plan_or_exit,
     section_options,
     write_file,
@@ -30,9 +32,9 @@ __all__ = ["scale_command", "materials_command", "length_command", "new_command"
 
 @click.command("scale")
 @click.argument("spec")
-@click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
+@click.option("--a4", type=float, default=440.0, show_default=True, help=option_help("a4"))
 @click.option("--temperament", default="equal", show_default=True,
-              help='"equal", "equal-N", "just" or "pythagorean" (just/pythagorean relative to the root).')
+              help=option_help("temperament", "just/pythagorean relative to the root"))
 @click.option("--spelling", type=click.Choice(["auto", "sharps", "flats"]), default="auto", show_default=True,
               help="Note names: from the key (flats in flat keys: Bb3 in F major), or always sharps or flats.")
 def scale_command(spec, a4, temperament, spelling):
@@ -85,16 +87,16 @@ def materials_command(name, materials_dirs):
               help="What the piece is.")
 @click.option("--note", help='Target note, e.g. "D5".')
 @click.option("--frequency", type=float, help="Target frequency in Hz (instead of --note).")
-@click.option("--material", help="Material name (chime/bar), from `cutplan materials`.")
+@click.option("--material", help=option_help("material"))
 @section_options
 @click.option("--ends", type=click.Choice(["open-open", "closed-open"]), default="open-open", show_default=True,
-              help="Air column ends.")
+              help=option_help("ends"))
 @click.option("--temperature", default="20 C", show_default=True, help="Air temperature for air columns.")
 @click.option("--model", type=click.Choice(["timoshenko", "slender", "elastic-2d"]), default="timoshenko",
               show_default=True, help="Beam model for chimes and bars (elastic-2d: bars only).")
-@click.option("--a4", type=float, default=440.0, show_default=True, help="Reference pitch A4 in Hz.")
+@click.option("--a4", type=float, default=440.0, show_default=True, help=option_help("a4"))
 @click.option("--units", type=click.Choice(["mm", "in"]), default="mm", show_default=True,
-              help="Units shown first.")
+              help=option_help("units"))
 @MATERIALS_OPTION
 @DESIGN_DIRS_OPTION
 def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_size, ends, temperature, model, a4,
@@ -137,7 +139,7 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
 @click.argument("kind", required=False, metavar="[KIND]")
 @click.argument("file", required=False, type=click.Path(dir_okay=False))
 @click.option("--from", "example", metavar="NAME", help="Copy the bundled example NAME (see `cutplan examples`).")
-@click.option("--force", is_flag=True, help="Overwrite FILE if it exists.")
+@click.option("--force", is_flag=True, help=overwrite_help("FILE"))
 def new_command(kind, file, example, force):
     """Write a commented starter design for KIND (chime, bar, air-column), or a copy of a bundled
     example, to FILE or the screen.

@@ -11,6 +11,7 @@ from cutplan.cli.common import (
     check_output_dir,
     fail,
     load_or_exit,
+    option_help,
     parse_stock_option,
     plan_or_exit,
     write_folder,
@@ -27,12 +28,12 @@ __all__ = ["plan_command", "cutlist_command"]
 @click.command("plan")
 @click.argument("design", type=click.Path(dir_okay=False))
 @click.option("-o", "--output", type=click.Path(), help="Folder to write plan.csv, plan.json and the shop packet.")
-@click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
+@click.option("--units", type=click.Choice(["mm", "in"]), help=option_help("units", "default: the design's"))
 @click.option("--format", "fmt", type=click.Choice(["table", "csv", "json"]), default="table",
-              show_default=True, help="What to print.")
+              show_default=True, help=option_help("format"))
 @click.option("--paper", type=click.Choice(["letter", "a4"]), help="Paper size of the PDF (default: the design's).")
 @click.option("--force", is_flag=True,
-              help="Replace what an earlier run wrote in the output folder (your own files there are kept).")
+              help=option_help("force_folder"))
 @MATERIALS_OPTION
 def plan_command(design, output, units, fmt, paper, force, materials_dirs):
     """Plan every piece of DESIGN: lengths, cut lengths, nodes, partials.
@@ -65,11 +66,11 @@ def plan_command(design, output, units, fmt, paper, force, materials_dirs):
 @click.argument("design", type=click.Path(dir_okay=False))
 @click.option("--stock", "stock_texts", multiple=True,
               help='What-if stock instead of the design\'s: "LENGTH [x COUNT] [@ PRICE]", e.g. "10 ft x 3" (repeatable).')
-@click.option("--kerf", default="1/16 in", show_default=True, help="Saw kerf, with --stock.")
-@click.option("--end-trim", default="1/8 in", show_default=True, help="Squaring cut at the factory end, with --stock.")
-@click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
+@click.option("--kerf", default="1/16 in", show_default=True, help=option_help("kerf", "with --stock"))
+@click.option("--end-trim", default="1/8 in", show_default=True, help=option_help("end_trim", "with --stock"))
+@click.option("--units", type=click.Choice(["mm", "in"]), help=option_help("units", "default: the design's"))
 @click.option("--format", "fmt", type=click.Choice(["table", "csv", "json"]), default="table", show_default=True,
-              help="What to print.")
+              help=option_help("format"))
 @MATERIALS_OPTION
 def cutlist_command(design, stock_texts, kerf, end_trim, units, fmt, materials_dirs):
     """Lay the pieces of DESIGN out on stock: marks from each stick's end, offcuts, totals.

@@ -21,6 +21,8 @@ from cutplan.cli.common import (
     load_or_exit,
     material_folders,
     one_piece_design,
+    option_help,
+    overwrite_help,
     plan_or_exit,
     section_options,
     write_file,
@@ -158,14 +160,14 @@ def _recorded_partials(recording, kind, ratios):
 @click.option("--model", type=click.Choice(["timoshenko", "slender", "elastic-2d"]), default="timoshenko",
               show_default=True, help="Model to fit with (use the one you plan with; elastic-2d for bars).")
 @click.option("--ends", type=click.Choice(["open-open", "closed-open"]), default="closed-open", show_default=True,
-              help="Air column ends.")
+              help=option_help("ends"))
 @click.option("--temperature", default="20 C", show_default=True, help="Air temperature during the measurement.")
 @click.option("--fit", "fit_what", type=click.Choice(["auto", "speed", "end-correction", "both"]), default="auto",
               show_default=True, help="Air columns: what to fit (auto: both with two or more lengths).")
 @click.option("--two-resonance", "two_res", help='Air: "L1, L2 @ FREQUENCY", the first two resonance depths of a closed tube.')
 @click.option("--name", help="Name of the calibrated material or stock size (default: NAME-calibrated).")
 @click.option("-o", "--output", type=click.Path(dir_okay=False), help="Write the calibrated material (or stock) TOML here.")
-@click.option("--force", is_flag=True, help="Overwrite --output if it exists.")
+@click.option("--force", is_flag=True, help=overwrite_help("--output"))
 @MATERIALS_OPTION
 @DESIGN_DIRS_OPTION
 def calibrate_command(kind, pieces, material, stock_name, tube, rod, bar_size, model, ends, temperature,
@@ -336,9 +338,9 @@ def _save_air(output, force, name, stock_name, dirs, speed, kelvin, corr, note, 
 @click.option("--done", is_flag=True, help="Undercut bars: the cuts advised last time were made.")
 @click.option("--state", "state_path", type=click.Path(dir_okay=False),
               help="Undercut bars: the file keeping the rounds (default: DESIGN's name + .trim-state.json beside it).")
-@click.option("--units", type=click.Choice(["mm", "in"]), help="Units shown first (default: the design's).")
+@click.option("--units", type=click.Choice(["mm", "in"]), help=option_help("units", "default: the design's"))
 @click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text", show_default=True,
-              help="What to print.")
+              help=option_help("format"))
 @MATERIALS_OPTION
 def trim_command(design, label, measured, recording, length_now, done, state_path, units, fmt, materials_dirs):
     """How much to trim a piece, and from which end, to bring it to pitch; for an undercut bar,
@@ -397,7 +399,7 @@ def _read_state(path):
 @click.option("--strike-at", type=click.FloatRange(0.0, 0.5), default=0.1, show_default=True,
               help="Strike point as a fraction of the length from the end (chimes and bars).")
 @click.option("--force", is_flag=True,
-              help="Replace what an earlier run wrote in the output folder (your own files there are kept).")
+              help=option_help("force_folder"))
 @MATERIALS_OPTION
 def listen_command(design, output, strike_at, force, materials_dirs):
     """Hear the set before cutting: one WAV per piece and the whole set as an arpeggio.
