@@ -22,6 +22,7 @@ from cutplan.cli.common import (
 from cutplan.cli.examples import example_text
 from cutplan.limits import A4_ALLOWED, a4_ok
 from cutplan.materials import MaterialError, closest_names, load_library
+from cutplan.render.phrases import TRIM_RULE
 from cutplan.render.terminal import other_modes_text, render_library, render_library_entry
 from cutplan.starters import STARTERS
 from cutplan.units import format_length
@@ -118,8 +119,8 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
     p = the_plan.pieces[0]
     click.echo(f"{p.note}: {p.target_hz:.2f} Hz, {the_plan.sets[0].section_label(units)}, {p.model}")
     click.echo(f"  length      {format_length(p.length, units)}")
-    click.echo(f"  cut at      {format_length(p.cut_length, units)}: cut long by "
-               f"{format_length(p.allowance, units)} ({the_plan.sets[0].allowance_rule}), then trim to pitch")
+    click.echo(f"  cut at      {format_length(p.cut_length, units)}: long by "
+               f"{format_length(p.allowance, units)} ({the_plan.sets[0].allowance_rule}); {TRIM_RULE}")
     for i, x in enumerate(p.nodes, start=1):
         what = "hang hole" if kind == "chime" else "support"
         if kind == "chime" and i > 1:  # one hang hole per chime; the lower node is not drilled
