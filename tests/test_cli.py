@@ -1,6 +1,7 @@
 """Every command through click's CliRunner: exit codes, one-line errors, files written."""
 
 import json
+import re
 from pathlib import Path
 
 import pytest
@@ -159,3 +160,26 @@ def test_scale_spells_flats_in_flat_keys_and_suggests_scales():
     assert "A#3" in run("scale", "F3 major 4", "--spelling", "sharps").output
     bad = run("scale", "D4 pentatonic")
     assert bad.exit_code == 2 and "did you mean major-pentatonic or minor-pentatonic?" in bad.output
+
+
+FRACTION = r"(\d+)/(\d+) in"
+
+
+@pytest.mark.parametrize("den", ["8", "16"])
+def test_length_and_from_stock_show_inches_to_the_asked_fraction(den):
+    # the design key inch_denominator as an option: every fraction shown is a multiple of 1/den
+    # (reduced fractions of 1/den have a denominator dividing den; arithmetic, not a model)
+    out = [run("length", "--note", "D5", "--stock", "al-1.000x0.065", "--units", "in", "--inch-denominator", den),
+           run("from-stock", "--have", "8 ft x 1", "--stock-size", "al-1.000x0.065", "--count", "3", "--top", "2",
+               "--inch-denominator", den)]
+    for result in out:
+        assert result.exit_code == 0, result.output
+        fractions = re.findall(FRACTION, result.output)
+        assert fractions
+        assert all(int(den) % int(d) == 0 for _n, d in fractions), fractions
+
+
+def test_inch_denominator_option_takes_only_the_design_keys_values():
+    result = run("length", "--note", "D5", "--stock", "al-1.000x0.065", "--inch-denominator", "12")
+    assert result.exit_code == 2
+    assert "--inch-denominator" in result.output and "12" in result.output

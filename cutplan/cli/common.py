@@ -16,11 +16,12 @@ from cutplan.folder import FolderError, check_target, write_file_whole
 from cutplan.materials import MaterialError, load_library
 from cutplan.planning.planner import bars_to_solve
 from cutplan.planning.service import REFUSALS, guarded_plan, refusal_lines
+from cutplan.units import INCH_DENOMINATOR, INCH_DENOMINATORS
 
 __all__ = [
     "EXIT_BAD_INPUT", "BadInput", "fail", "write_file", "write_folder", "load_or_exit", "PROGRESS_FROM",
     "plan_or_exit", "check_output_dir", "MATERIALS_OPTION", "section_options", "OPTION_FOR_KEY",
-    "one_piece_design", "material_folders", "DESIGN_DIRS_OPTION", "parse_stock_option", "OPTION_HELP", "option_help",
+    "one_piece_design", "material_folders", "DESIGN_DIRS_OPTION", "parse_stock_option", "OPTION_HELP", "option_help", "INCH_DENOMINATOR_OPTION",
     "overwrite_help"
 ]
 
@@ -139,6 +140,7 @@ OPTION_HELP = {
     "kerf": "Saw kerf",
     "end_trim": "Squared off each factory end of every stick",
     "force_folder": "Replace what an earlier run wrote in the output folder (your own files there are kept)",
+    "inch_denominator": "Inches shown to the nearest 1/N",
 }
 """The help text of each option that several commands take, written once (see :func:`option_help`)."""
 
@@ -152,6 +154,13 @@ def overwrite_help(what):
     """Help for a ``--force`` that overwrites one file."""
     return f"Overwrite {what} if it exists."
 
+
+INCH_DENOMINATOR_OPTION = click.option(
+    "--inch-denominator", type=click.Choice([str(d) for d in INCH_DENOMINATORS]),
+    callback=lambda _ctx, _param, value: None if value is None else int(value),
+    help=option_help("inch_denominator", f"default: the design's; a design's default is {INCH_DENOMINATOR}"),
+)
+"""The design key ``inch_denominator`` as an option, for the commands that build their own design."""
 
 MATERIALS_OPTION = click.option(
     "--materials", "materials_dirs", multiple=True, type=click.Path(file_okay=False),
@@ -177,7 +186,7 @@ OPTION_FOR_KEY = (
     ("set[1].section.stock", "--stock"), ("set[1].section", "--stock/--tube/--rod/--bar"), ("set[1].notes", "--note"),
     ("set[1].frequencies", "--frequency"), ("set[1].material", "--material"),
     ("set[1].temperature", "--temperature"), ("set[1].ends", "--ends"), ("set[1].model", "--model"),
-    ("tuning.a4", "--a4"), ("set[1]", "the options"),
+    ("tuning.a4", "--a4"), ("inch_denominator", "--inch-denominator"), ("set[1]", "the options"),
 )
 """Design keys of a one-piece design and the command-line options they come from."""
 
@@ -202,7 +211,8 @@ def _pair(text, option, example):
 
 
 def one_piece_design(command, kind, note, frequency, material, stock_name, tube, rod, bar_size,
-                      ends="open-open", temperature="20 C", model="timoshenko", a4=440.0, materials_dirs=()):
+                      ends="open-open", temperature="20 C", model="timoshenko", a4=440.0, materials_dirs=(),
+                      inch_denominator=None):
     """A validated one-set design built from command-line options (exit 2 on bad options).
 
     The options become a design mapping and go through the same validation as a design file.
@@ -232,6 +242,8 @@ def one_piece_design(command, kind, note, frequency, material, stock_name, tube,
     else:
         piece["model"] = model
     data = {"title": "one piece", "tuning": {"a4": a4}, "set": [piece]}
+    if inch_denominator is not None:
+        data["inch_denominator"] = inch_denominator
     try:
         des, _ = design_from_mapping(data, _library_loader(materials_dirs), command, ".")
     except DesignErrors as exc:

@@ -8,14 +8,22 @@ from pathlib import Path
 
 import click
 
-from cutplan.cli.common import MATERIALS_OPTION, fail, load_or_exit, option_help, overwrite_help, write_file
+from cutplan.cli.common import (
+    INCH_DENOMINATOR_OPTION,
+    MATERIALS_OPTION,
+    fail,
+    load_or_exit,
+    option_help,
+    overwrite_help,
+    write_file,
+)
 from cutplan.design import DesignErrors, read_design_file
 from cutplan.design.contract import MAX_STOCK_COUNT
 from cutplan.fromstock.output import design_toml, result_dict
 from cutplan.fromstock.search import SearchError, search
 from cutplan.render.phrases import TRIM_RULE, caution_lines, sentence
 from cutplan.render.stock_layout import stick_lines, stick_rows
-from cutplan.units import INCH_DENOMINATOR, UnitError, length_parts, parse_frequency, parse_length
+from cutplan.units import UnitError, length_parts, parse_frequency, parse_length
 
 __all__ = ["HAVE_FORMS", "from_stock_command"]
 
@@ -72,7 +80,8 @@ _SET_KEYS_KEPT = ("kind", "material", "section", "model", "target", "ends", "end
 
 def _design_stock(path, materials_dirs):
     """From a design file: its [stock] as written, its units and tuning, its first chime, bar or
-    air-column set without the notes, and its material folders (exit 2 on errors)."""
+    air-column set without the notes, its material folders, its scale and its inch_denominator if set
+    (exit 2 on errors)."""
     design, _lib = load_or_exit(path, materials_dirs)  # validates the whole file, one line per problem
     try:
         raw = read_design_file(path)
@@ -86,14 +95,15 @@ def _design_stock(path, materials_dirs):
     piece = {k: v for k, v in sets[0].items() if k in _SET_KEYS_KEPT} if sets else None
     scale = sets[0].get("scale") if sets else None
     return (stock, raw.get("units", "mm"), raw.get("tuning", {}), piece, tuple(str(d) for d in design.material_dirs),
-            scale)
+            scale, raw.get("inch_denominator"))
 
 
 _OPTION_OF_KEY = (("set[1].section.stock", "--stock-size"), ("set[1].section", "--stock-size/--tube/--rod/--bar"),
                   ("set[1].material", "--material"),
                   ("set[1].ends", "--ends"), ("set[1]", "--kind"), ("stock.lengths", "--have"),
                   ("stock.kerf", "--kerf"), ("stock.end_trim", "--end-trim"), ("stock.allowance", "--allowance"),
-                  ("tuning.a4", "--a4"), ("tuning.temperament", "--temperament"))
+                  ("tuning.a4", "--a4"), ("tuning.temperament", "--temperament"),
+                  ("inch_denominator", "--inch-denominator"))
 
 
 def _option_error(error):
@@ -106,10 +116,10 @@ def _option_error(error):
 
 
 def _render(result, heard=False):
-    units = result.units
+    units, den = result.units, result.plan.inch_denominator
 
     def length(m):
-        return str(length_parts(m, units, INCH_DENOMINATOR))
+        return str(length_parts(m, units, den))
 
     head = ["#", "root", "scale", "notes", "lowest", "highest", "sticks", "offcut", "utilisation"]
     rows = [[str(i), c.root, c.scale, str(c.count), c.lowest, c.highest, str(c.sticks_used), length(c.offcut),
@@ -125,7 +135,7 @@ def _render(result, heard=False):
     c = result.chosen
     out += ["", f"chosen: {c.count} notes of {c.root} {c.scale} ({c.lowest} to {c.highest}), "
                 f"planned and laid out{' (layout proven optimal)' if c.proven_optimal else ''}:"]
-    for row in stick_rows(((*stick, "") for stick in c.sticks), units, INCH_DENOMINATOR):
+    for row in stick_rows(((*stick, "") for stick in c.sticks), units, den):
         out.extend(stick_lines(row, str, "  ", 0))
     out += [f"note: {n}" for n in result.notes]
     if heard:
@@ -166,6 +176,7 @@ def _render(result, heard=False):
 @click.option("--temperament", help=option_help("temperament", "default equal, or the design's"))
 @click.option("--units", type=click.Choice(["mm", "in"]), help=option_help(
     "units", "default: the design's, or inches when every --have is in feet or inches"))
+@INCH_DENOMINATOR_OPTION
 @click.option("--top", type=click.IntRange(1, 100), default=10, show_default=True, help="Rows in the ranked table.")
 @click.option("--format", "fmt", type=click.Choice(["table", "json"]), default="table", show_default=True,
               help=option_help("format"))
@@ -173,8 +184,8 @@ def _render(result, heard=False):
 @click.option("--force", is_flag=True, help=overwrite_help("the --output file"))
 @MATERIALS_OPTION
 def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, material, stock_size, tube, rod, bar_size,
-                       ends, target, scales, count, most, least_waste, lowest, highest, a4, temperament, units, top,
-                       fmt, output, force, materials_dirs):
+                       ends, target, scales, count, most, least_waste, lowest, highest, a4, temperament, units,
+                       inch_denominator, top, fmt, output, force, materials_dirs):
     """Find the set of a scale that fits the stock on hand, and write it as a design.
 
     \b
@@ -202,7 +213,9 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
         inch_like = all(re.search(r"ft|in|'|\"|foot|feet|inch", h["length"]) for h in stock["lengths"])
         shown = units or ("in" if inch_like else "mm")
     else:
-        stock, design_units, tuning, piece, design_dirs, design_scale = _design_stock(design_file, materials_dirs)
+        stock, design_units, tuning, piece, design_dirs, design_scale, design_den = _design_stock(design_file,
+                                                                                                  materials_dirs)
+        inch_denominator = inch_denominator or design_den
         materials_dirs = tuple(materials_dirs) + design_dirs
         scales = scales or ((design_scale,) if isinstance(design_scale, str) else ())
         shown = units or design_units
@@ -227,7 +240,7 @@ def from_stock_command(have, design_file, kerf, end_trim, allowance, kind, mater
             base_set, stock, scales or ("major-pentatonic",), count=count, objective=objective, lowest=lowest,
             highest=highest, a4=a4 if a4 is not None else tuning.get("a4", 440.0),
             temperament=temperament or tuning.get("temperament", "equal"), units=shown,
-            materials_dirs=materials_dirs, top=top)
+            materials_dirs=materials_dirs, top=top, inch_denominator=inch_denominator)
     except DesignErrors as exc:
         fail([_option_error(e) for e in exc.errors])
     except SearchError as exc:

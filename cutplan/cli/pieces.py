@@ -9,6 +9,7 @@ import click
 from cutplan import pitch
 from cutplan.cli.common import (
     DESIGN_DIRS_OPTION,
+    INCH_DENOMINATOR_OPTION,
     MATERIALS_OPTION,
     fail,
     material_folders,
@@ -98,10 +99,11 @@ def materials_command(name, materials_dirs):
 @click.option("--a4", type=float, default=440.0, show_default=True, help=option_help("a4"))
 @click.option("--units", type=click.Choice(["mm", "in"]), default="mm", show_default=True,
               help=option_help("units"))
+@INCH_DENOMINATOR_OPTION
 @MATERIALS_OPTION
 @DESIGN_DIRS_OPTION
 def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_size, ends, temperature, model, a4,
-                   units, materials_dirs, design_path):
+                   units, inch_denominator, materials_dirs, design_path):
     """Length and hang point of one piece, without a design file.
 
     \b
@@ -114,19 +116,25 @@ def length_command(kind, note, frequency, material, stock_name, tube, rod, bar_s
     if (note is None) == (frequency is None):
         fail("length: give exactly one of --note or --frequency")
     des = one_piece_design("length", kind, note, frequency, material, stock_name, tube, rod, bar_size,
-                            ends, temperature, model, a4, material_folders(materials_dirs, design_path))
+                            ends, temperature, model, a4, material_folders(materials_dirs, design_path),
+                            inch_denominator)
     the_plan = plan_or_exit(des)
+    den = the_plan.inch_denominator
+
+    def length(metres):
+        return format_length(metres, units, den)
+
     p = the_plan.pieces[0]
     click.echo(f"{p.note}: {p.target_hz:.2f} Hz, {the_plan.sets[0].section_label(units)}, {p.model}")
-    click.echo(f"  length      {format_length(p.length, units)}")
-    click.echo(f"  cut at      {format_length(p.cut_length, units)}: long by "
-               f"{format_length(p.allowance, units)} ({the_plan.sets[0].allowance_rule}); {TRIM_RULE}")
+    click.echo(f"  length      {length(p.length)}")
+    click.echo(f"  cut at      {length(p.cut_length)}: long by "
+               f"{length(p.allowance)} ({the_plan.sets[0].allowance_rule}); {TRIM_RULE}")
     for i, x in enumerate(p.nodes, start=1):
         what = "hang hole" if kind == "chime" else "support"
         if kind == "chime" and i > 1:  # one hang hole per chime; the lower node is not drilled
-            click.echo(f"  node {i} (no hole)  {format_length(x, units)} from the end")
+            click.echo(f"  node {i} (no hole)  {length(x)} from the end")
             continue
-        click.echo(f"  {what} {i}  {format_length(x, units)} from the end")
+        click.echo(f"  {what} {i}  {length(x)} from the end")
     click.echo(f"  trimming    {p.cents_per_mm:.2f} cents per mm")
     if kind != "air-column":
         click.echo(f"  shear correction {p.shear_correction_cents:+.1f} cents against the slender model")

@@ -17,8 +17,9 @@ SET_NAMES = {"chime": "chimes", "bar": "bars", "air-column": "pipes"}
 
 
 def design_mapping(base_set, stock, candidate, units="mm", a4=pitch.A4_FREQUENCY, temperament="equal",
-                   title=None, kind="chime", materials_dirs=()):
-    """The design (the design file's keys) of a candidate set, with ``stock`` as its [stock].
+                   title=None, kind="chime", materials_dirs=(), inch_denominator=None):
+    """The design (the design file's keys) of a candidate set, with ``stock`` as its [stock]
+    (and ``inch_denominator`` when one was asked for).
 
     Extra material folders are written as absolute ``material_dirs``, so the design plans
     unchanged wherever it is saved.
@@ -28,6 +29,8 @@ def design_mapping(base_set, stock, candidate, units="mm", a4=pitch.A4_FREQUENCY
         "title": title or f"{candidate.count} notes of {candidate.root} {candidate.scale} from the stock on hand",
         "units": units,
     }
+    if inch_denominator is not None:
+        out["inch_denominator"] = inch_denominator
     if materials_dirs:
         out["material_dirs"] = [str(Path(d).resolve()) for d in materials_dirs]
     out.update({

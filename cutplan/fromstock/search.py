@@ -363,7 +363,8 @@ def _window(lowest, highest):
     return bounds
 
 
-def _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, units, materials_dirs):
+def _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, units, materials_dirs,
+             inch_denominator=None):
     """Validate the request and build the search: (_Search, scales, kind, design top keys)."""
     scales = tuple(dict.fromkeys(scales or ("major-pentatonic",)))
     for s in scales:
@@ -381,6 +382,8 @@ def _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, 
         raise SearchError("stock", None, 'lists no sticks; give at least one, e.g. "8 ft x 1"')
     lo, hi = _window(lowest, highest)
     top_keys = {"units": units, "tuning": {"a4": a4, "temperament": temperament}}
+    if inch_denominator is not None:
+        top_keys["inch_denominator"] = inch_denominator
     probe = cutplan.design_from_mapping({**top_keys, "set": [{**base_set, "notes": ["A4"]}], "stock": stock},
                                         materials_dirs, name="from-stock")
     found = _Search(probe.sets[0], probe.stock, lo, hi, scales, max(counts), temperament, a4, base_set,
@@ -390,12 +393,13 @@ def _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, 
 
 def search(base_set, stock, scales=("major-pentatonic",), count=None, objective="lowest", lowest=None,
            highest=None, a4=pitch.A4_FREQUENCY, temperament="equal", units="mm", materials_dirs=(), top=10,
-           max_count=MAX_COUNT, title=None):
+           max_count=MAX_COUNT, title=None, inch_denominator=None):
     """Search the sets of ``scales`` that fit ``stock`` and choose one by ``objective``.
 
     ``base_set`` is a [[set]] table without its notes (kind, material, section, model, ...) and
     ``stock`` a [stock] table (lengths with counts, kerf, end_trim, allowance), both with the
-    design file's keys.  ``count`` is required for "lowest" and "waste"; "most" tries 1 to
+    design file's keys; ``inch_denominator`` (None: the design default) goes into the design.
+    ``count`` is required for "lowest" and "waste"; "most" tries 1 to
     ``max_count`` notes.  Raises :class:`cutplan.design.DesignErrors` for bad keys and
     :class:`SearchError` (naming what does fit) when nothing fits.
     """
@@ -406,13 +410,13 @@ def search(base_set, stock, scales=("major-pentatonic",), count=None, objective=
         raise SearchError("count", count, f"must be a whole number from 1 to {max_count} (or ask for the most notes)")
     counts = list(range(1, max_count + 1)) if objective == "most" else [count]
     found, scales, kind = _prepare(base_set, stock, scales, counts, lowest, highest, a4, temperament, units,
-                                   materials_dirs)
+                                   materials_dirs, inch_denominator)
     cands = _ranked(found, scales, objective, count, counts, max(1, top))
     if not cands:
         raise _nothing_fits(found, scales, count, objective, counts)
     confirm_start = time.process_time()
     chosen, design, the_plan, skipped = _confirm(cands, base_set, stock, units, a4, temperament, title, kind,
-                                                 materials_dirs)
+                                                 materials_dirs, inch_denominator)
     found.notes += [f"{c.count} notes of {c.root} {c.scale}: the planner did not confirm the layout; not offered"
                     for c in cands[:skipped]]
     cands = cands[skipped:]
@@ -442,10 +446,11 @@ def lowest_roots(base_set, stock, scales, counts, lowest=None, highest=None, a4=
     return out, dict(found.stats)
 
 
-def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materials_dirs):
+def _confirm(cands, base_set, stock, units, a4, temperament, title, kind, materials_dirs, inch_denominator=None):
     """Plan the best candidate's design with the real planner; the first that plans is chosen."""
     for k, cand in enumerate(cands):
-        mapping = design_mapping(base_set, stock, cand, units, a4, temperament, title, kind, materials_dirs)
+        mapping = design_mapping(base_set, stock, cand, units, a4, temperament, title, kind, materials_dirs,
+                                 inch_denominator)
         try:  # the one guarded plan service, as the command line and the page
             the_plan = guarded_plan(cutplan.design_from_mapping(mapping, materials_dirs, name="from-stock"))
         except REFUSALS:

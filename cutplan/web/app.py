@@ -23,7 +23,7 @@ from cutplan.planning.shopping import general_cautions
 from cutplan.render.phrases import SAFETY_HEADING, TRIM_RULE
 from cutplan.render.table import plan_dict
 from cutplan.starters import CHIME, example_paths
-from cutplan.units import LengthParts
+from cutplan.units import INCH_DENOMINATOR, INCH_DENOMINATORS, LengthParts
 from cutplan.web import form as webform
 from cutplan.web import view
 from cutplan.web.progress import ProgressBoard
@@ -83,7 +83,9 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
     examples = example_paths()
     app.jinja_env.filters["both"] = _both_units
     app.jinja_env.globals.update(trim_rule=TRIM_RULE, safety_heading=SAFETY_HEADING,
-                                 general_cautions=[c.text for c in general_cautions()])
+                                 general_cautions=[c.text for c in general_cautions()],
+                                 inch_choices=[(str(d), f"1/{d}") for d in INCH_DENOMINATORS],
+                                 inch_default=f"1/{INCH_DENOMINATOR} (default)")
     choices = {
         **_library_choices(planner.library),  # read once per process (and on "re-read"); the planners share it
         "scales": [(s, s) for s in pitch.SCALES], "examples": list(examples),
