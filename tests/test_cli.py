@@ -183,3 +183,12 @@ def test_inch_denominator_option_takes_only_the_design_keys_values():
     result = run("length", "--note", "D5", "--stock", "al-1.000x0.065", "--inch-denominator", "12")
     assert result.exit_code == 2
     assert "--inch-denominator" in result.output and "12" in result.output
+
+
+def test_cut_list_json_groups_name_their_material():
+    # each group of the cut list is keyed on the material id the design file gives its set
+    # (examples/porch-chimes.toml: material = "aluminum-6063-t5")
+    result = run("cutlist", PORCH, "--format", "json")
+    assert result.exit_code == 0, result.output
+    groups = json.loads(result.output)["groups"]
+    assert groups and all(g["material"] == "aluminum-6063-t5" for g in groups)

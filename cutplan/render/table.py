@@ -128,8 +128,8 @@ def cut_list_dict(cut_list):
              "offcut_mm": _r(s.offcut / MM, 2), "group": s.group}
             for s in cut_list.sticks
         ],
-        "groups": [{"group": g.group, "lower_bound": g.lower_bound, "proven_optimal": g.proven_optimal,
-                    "method": g.method, "cost": g.cost} for g in cut_list.groups],
+        "groups": [{"group": g.group, "material": g.material, "lower_bound": g.lower_bound,
+                    "proven_optimal": g.proven_optimal, "method": g.method, "cost": g.cost} for g in cut_list.groups],
         "lower_bound": cut_list.lower_bound,
         "proven_optimal": cut_list.proven_optimal,
         "sticks_by_length": [{"stock_length_mm": _r(length / MM, 2), "count": n}
