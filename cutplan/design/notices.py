@@ -12,7 +12,7 @@ from dataclasses import dataclass
 
 __all__ = ["Notice", "allowance_key", "set_key", "stock_key"]
 
-# warnings a plan may carry (Piece.warnings, Plan.warnings)
+# warnings a plan may carry (Piece.warnings)
 STUBBY = "stubby"
 SLENDER_MODEL = "slender-model"
 SHARP_RISK = "sharp-risk"

@@ -3,7 +3,7 @@ recomputes (one plan, one truth)."""
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from cutplan.units import INCH_DENOMINATOR
@@ -169,7 +169,6 @@ class Plan:
     sets: tuple[SetPlan, ...]
     design_path: str = ""
     cut_list: CutList | None = None
-    warnings: tuple[str, ...] = field(default=())
     inch_denominator: int = INCH_DENOMINATOR
     shopping: tuple[ShoppingItem, ...] = ()  # cutplan.planning.shopping.ShoppingItem, ...
     cautions: tuple[Caution, ...] = ()  # cutplan.planning.shopping.Caution, ...

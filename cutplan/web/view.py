@@ -127,8 +127,6 @@ def place_warnings(plan, design, slots=None):
                 grouped.setdefault(_warning_slot(w, i, slots), {}).setdefault(w, []).append(p.label)
     out = {slot: [f"{', '.join(labels)}: {w.message}" for w, labels in texts.items()]
            for slot, texts in grouped.items()}
-    for w in plan.warnings:
-        out.setdefault(_warning_slot(w, 1, slots) if w.key else "form", []).append(w.message)
     return out
 
 
