@@ -68,8 +68,8 @@ def plan_air_set(spec: SetSpec, design: Design, targets, stock, bar_drift=0.0):
         label = f"{spec.name}-{i}"
         if length <= 2 * radius:
             errors.append(DesignError(design.path, f"set[{spec.index}]", t.name,
-                                      f"is too high for a {format_length(2 * radius, design.units)} bore: the column would be "
-                                      f"{format_length(length, design.units)} long ({label}); use a narrower tube"))
+                                      f"is too high for a {format_length(2 * radius, design.units, design.inch_denominator)} bore: the column would be "
+                                      f"{format_length(length, design.units, design.inch_denominator)} long ({label}); use a narrower tube"))
             continue
         # each resonance with its own wall losses and end correction (no longer exact multiples)
         partials = [float(air_column.column_frequency(length, harmonic=n, **model))
@@ -125,6 +125,7 @@ def _over_max_length(spec, design, label, note, length, why=""):
     names the limit, the length the pitch needs and what would allow it."""
     return DesignError(
         design.path, set_key(spec, "max_length"), None,
-        f"{format_length(spec.max_length, design.units)} is shorter than resonator {label} ({note}) needs{why}: {format_length(length, design.units)}; "
+        f"{format_length(spec.max_length, design.units, design.inch_denominator)} is shorter than resonator {label} ({note}) "
+        f"needs{why}: {format_length(length, design.units, design.inch_denominator)}; "
         f"give max_length of at least that (up to {MAX_LENGTH_RANGE[1]:g} m), a wider bore, or a folded tube",
         notices.UNREACHABLE)

@@ -8,7 +8,7 @@ import numpy as np
 from cutplan.design import DEFAULT_SHARP_RISK
 from cutplan.design.notices import SHARP_RISK, Notice, allowance_key
 from cutplan.planning import uncertainty
-from cutplan.units import format_length
+from cutplan.units import INCH_DENOMINATOR, format_length
 
 __all__ = ["allowances", "SHARP_RISK_WARNING", "risk_warning", "allowance_rule"]
 
@@ -48,11 +48,11 @@ def risk_warning(risk, spec):
     return []
 
 
-def allowance_rule(stock, units="mm"):
+def allowance_rule(stock, units="mm", den=INCH_DENOMINATOR):
     """The design's allowance rule as the builder wrote it: "risk 5 %", "0.5 %" or a length."""
     if stock is None or stock.allowance_risk is not None:
         risk = stock.allowance_risk if stock is not None else DEFAULT_SHARP_RISK
         return f"risk {risk * 100:g} %"
     if stock.allowance_length:
-        return format_length(stock.allowance_length, units)
+        return format_length(stock.allowance_length, units, den)
     return f"{stock.allowance * 100:g} %"

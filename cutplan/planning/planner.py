@@ -38,7 +38,7 @@ from cutplan.planning.hanging import hanging_for
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece, Plan, SetPlan
 from cutplan.planning.shopping import shop_tables, with_shop_lists
 from cutplan.tuning import advice
-from cutplan.units import ZERO_CELSIUS, format_length
+from cutplan.units import INCH_DENOMINATOR, ZERO_CELSIUS, format_length
 
 __all__ = ["Arch", "Piece", "Plan", "SetPlan", "bars_to_solve", "plan"]
 
@@ -187,7 +187,7 @@ def _with_shop_facts(piece, spec):
                    if_sharp=advice.sharp_action(kind, stoppered))
 
 
-def _set_summary(spec: SetSpec, units="mm"):
+def _set_summary(spec: SetSpec, units="mm", den=INCH_DENOMINATOR):
     assumptions, constants = [], ()
     if spec.kind in ("air-column", "resonator"):
         speed = air_calibrated.speed(spec)
@@ -199,7 +199,7 @@ def _set_summary(spec: SetSpec, units="mm"):
         corr_text = (f"{corr:.6g} x inner radius" if isinstance(corr, (int, float))
                      else f"{corr}, falling with ka (Levine & Schwinger 1948 curve)" if corr != "none" else corr)
         assumptions.append(f"{spec.ends} column, end correction {corr_text} per open end, "
-                           f"bore {format_length(spec.section.air_radius * 2, units)}")
+                           f"bore {format_length(spec.section.air_radius * 2, units, den)}")
         if air_calibrated.wall_losses(spec):
             assumptions.append("wall losses: viscous and thermal boundary layers slow sound in the pipe by "
                                "about 1.6e-3 / (a sqrt f) (Kirchhoff; Keefe 1984), each note at its own frequency")
@@ -244,7 +244,7 @@ def _set_summary(spec: SetSpec, units="mm"):
             u = spec.undercut
             ratio_text = ":".join(f"{r:g}" for r in (1,) + u.ratios)
             assumptions.append(f"undercut bars tuned {ratio_text}: arch over the middle {u.arch_width:g} of the length, "
-                               f"centre at least {format_length(u.min_thickness, units)} thick ("
+                               f"centre at least {format_length(u.min_thickness, units, den)} thick ("
                                + ("2-D elastic body" if model == "elastic-2d" else
                                   "non-uniform shear-corrected finite elements") + ")")
             if model != "elastic-2d":
@@ -285,7 +285,7 @@ def plan(design: Design, progress=None, stock_override=None, tables=None) -> Pla
     for spec in ordered:
         spec = grain.applied(air_calibrated.applied(spec))  # a wood bar bends with G of its sawing's plane
         stock = spec.stock or design.stock
-        summary = _set_summary(spec, design.units)
+        summary = _set_summary(spec, design.units, design.inch_denominator)
         if spec.kind in ("chime", "bar"):
             try:
                 if spec.model == "elastic-2d":
@@ -328,12 +328,12 @@ def plan(design: Design, progress=None, stock_override=None, tables=None) -> Pla
                 if need > longest:
                     errors.append(DesignError(
                         design.path, f"set[{spec.index}]", p.note,
-                        f"needs {p.label} cut at {format_length(need, design.units)} with end trim at both ends, "
-                        f"longer than the longest stock ({format_length(longest, design.units)}); add longer stock or "
+                        f"needs {p.label} cut at {format_length(need, design.units, design.inch_denominator)} with end trim at both ends, "
+                        f"longer than the longest stock ({format_length(longest, design.units, design.inch_denominator)}); add longer stock or "
                         "raise the note", notices.LONGER_THAN_STOCK))
         pieces = [_with_shop_facts(p, spec) for p in pieces]
         done = SetPlan(**{**summary.__dict__, "pieces": tuple(pieces),
-                          "allowance_rule": allowance_rule(stock, design.units),
+                          "allowance_rule": allowance_rule(stock, design.units, design.inch_denominator),
                           "material_class": getattr(spec.material, "material_class", None) or ""})
         if spec.kind == "chime":
             done = SetPlan(**{**done.__dict__, "hanging": hanging_for(done, spec.hanging, spec.target_mode,
