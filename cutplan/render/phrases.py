@@ -11,7 +11,7 @@ from __future__ import annotations
 import textwrap
 
 from cutplan.limits import IN_TUNE_CENTS
-from cutplan.units import format_length
+from cutplan.units import INCH_DENOMINATOR, format_length
 
 TRIM_RAISES = "trimming raises the pitch"
 """Why every piece is cut long (a shorter piece sounds higher)."""
@@ -59,18 +59,18 @@ def other_modes_text(modes):
     return "; ".join(parts)
 
 
-def trim_lines(piece, advice, measured_hz, units="mm"):
+def trim_lines(piece, advice, measured_hz, units="mm", den=INCH_DENOMINATOR):
     """The answer to "how much do I trim?", one line per fact, the same at the terminal and on the page."""
     lines = [f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz) measured {measured_hz:.2f} Hz "
-             f"at {format_length(advice.length_now, units)}",
-             f"length for the target: {format_length(advice.length_needed, units)}"]
+             f"at {format_length(advice.length_now, units, den)}",
+             f"length for the target: {format_length(advice.length_needed, units, den)}"]
     if advice.caution:
         lines.append(f"! {advice.caution}")
     lines.append(advice.action)
     if piece.nodes and advice.remove > 0:
         fractions = [x / piece.length for x in piece.nodes]
         lines.append("if not yet drilled, hang/support points for the trimmed length: "
-                     + ", ".join(format_length(f * advice.length_needed, units) for f in fractions)
+                     + ", ".join(format_length(f * advice.length_needed, units, den) for f in fractions)
                      + " from the top/reference end")
     return lines
 
@@ -86,20 +86,20 @@ def partial_lines(report):
     return out
 
 
-def _supports_text(report, units):
+def _supports_text(report, units, den=INCH_DENOMINATOR):
     if not report.supports:
         return ""
-    shown = dict.fromkeys(format_length(s, units) for s in report.supports)
+    shown = dict.fromkeys(format_length(s, units, den) for s in report.supports)
     return ("support points for this length: " + ", ".join("+/-" + s for s in shown)
             + " from the centre line (mark them from the centre line, after trimming)")
 
 
-def trim_report_lines(piece, report, advice, units="mm"):
+def trim_report_lines(piece, report, advice, units="mm", den=INCH_DENOMINATOR):
     """Lines of a plain trim answer (uniform bars, chimes, air columns)."""
-    lines = trim_lines(piece, advice, report.partials[0].measured_hz, units)
+    lines = trim_lines(piece, advice, report.partials[0].measured_hz, units, den)
     if piece.kind == "bar" and advice.remove > 0:
         lines = [line for line in lines if not line.startswith("if not yet drilled")]
-        lines.append("if not yet drilled, " + _supports_text(report, units))
+        lines.append("if not yet drilled, " + _supports_text(report, units, den))
     lines[2:2] = partial_lines(report)[1:]
     if report.action == "re-record":
         lines = [line for line in lines if not line.startswith("! ")]

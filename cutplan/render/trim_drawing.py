@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from html import escape
 
-from cutplan.units import format_length
+from cutplan.units import INCH_DENOMINATOR, format_length
 
 __all__ = ["WIDTH_PX", "trim_drawing"]
 
@@ -21,7 +21,7 @@ def _path(points):
     return " ".join(f"{'M' if i == 0 else 'L'}{x:.1f},{y:.1f}" for i, (x, y) in enumerate(points))
 
 
-def trim_drawing(report, units="mm"):
+def trim_drawing(report, units="mm", den=INCH_DENOMINATOR):
     """SVG text of an undercut bar's side view with this round's cuts, or "" for other pieces."""
     if not report.profile_now:
         return ""
@@ -67,7 +67,7 @@ def trim_drawing(report, units="mm"):
                'stroke-dasharray="2 2"/>')
     out.append(f'<text x="{pad:.1f}" y="12" font-size="9">end A</text>')
     out.append(f'<text x="{WIDTH_PX - pad:.1f}" y="12" font-size="9" text-anchor="end">'
-               f'{escape(format_length(length, units))}</text>')
+               f'{escape(format_length(length, units, den))}</text>')
     out.append(f'<text x="{pad:.1f}" y="{height - 4:.1f}" font-size="8">dashed red: the underside after the cuts '
                f'(depths in mm); circles: supports; thickness drawn 3 x</text>')
     out.append("</svg>")

@@ -26,7 +26,7 @@ from cutplan.numeric import LENGTH_RANGE
 from cutplan.physics.air_column import end_correction
 from cutplan.physics.roots import bracketed_roots
 from cutplan.render.phrases import TRIM_RAISES
-from cutplan.units import format_length
+from cutplan.units import INCH_DENOMINATOR, format_length
 
 __all__ = [
     "CalibrationError", "BeamFit", "fit_beam", "AirFit", "fit_air_column",
@@ -254,19 +254,19 @@ def _length_for(miss, length_now):
     return float(root[0])
 
 
-def trim_advice(piece, frequency_at, measured_hz, length_now=None, units="mm"):
+def trim_advice(piece, frequency_at, measured_hz, length_now=None, units="mm", den=INCH_DENOMINATOR):
     """Trim advice for a planned piece measured at ``measured_hz`` while ``length_now`` long.
 
     ``frequency_at(L)`` is the plan's model for the piece's set; ``length_now`` defaults to the
     cut length on the cut sheet. Which end to trim and what to do when sharp are the piece's
-    own plan facts; lengths are written with ``units`` first.
+    own plan facts; lengths are written with ``units`` first, inches to the nearest 1/``den``.
     """
     if not measured_hz > 0:
         raise CalibrationError("the measured frequency must be positive")
     length_now = piece.cut_length if length_now is None else length_now
     ratio = measured_hz / frequency_at(length_now)
     if not 0.5 < ratio < 2.0:
-        raise CalibrationError(f"{measured_hz:.2f} Hz is more than an octave from what a {format_length(length_now, units)} "
+        raise CalibrationError(f"{measured_hz:.2f} Hz is more than an octave from what a {format_length(length_now, units, den)} "
                                f"piece should sound ({frequency_at(length_now):.2f} Hz); is it the right piece "
                                "or a different partial?")
     goal = piece.target_hz / ratio
@@ -280,12 +280,12 @@ def trim_advice(piece, frequency_at, measured_hz, length_now=None, units="mm"):
     if abs(cents_off) < IN_TUNE_CENTS:
         action = f"in tune (within {IN_TUNE_CENTS:g} cents): leave it"
     elif remove > 0:
-        step = (f"take off about {format_length(remove / 3, units)} at a time" if remove >= 1.5e-3
+        step = (f"take off about {format_length(remove / 3, units, den)} at a time" if remove >= 1.5e-3
                 else "file or sand it off a little at a time")
-        action = (f"flat by {-cents_off:.1f} cents: remove {format_length(remove, units)} from "
+        action = (f"flat by {-cents_off:.1f} cents: remove {format_length(remove, units, den)} from "
                   f"{piece.trim_end}; {step} and measure again ({TRIM_RAISES})")
     else:
-        action = f"sharp by {cents_off:.1f} cents: {format_length(-remove, units)} too short; {piece.if_sharp}"
+        action = f"sharp by {cents_off:.1f} cents: {format_length(-remove, units, den)} too short; {piece.if_sharp}"
     caution = ""
     if abs(cents_off) > FAR_OFF_CENTS:
         caution = (f"this reading is {abs(cents_off):.0f} cents from the target: before cutting, check that it is "

@@ -33,7 +33,7 @@ from cutplan.numeric import quiet
 from cutplan.planning.frequency import piece_frequency_function
 from cutplan.render.phrases import trim_report_lines
 from cutplan.tuning.calibrate import FAR_OFF_CENTS, CalibrationError, trim_advice
-from cutplan.units import UnitError, format_length, parse_length
+from cutplan.units import INCH_DENOMINATOR, UnitError, format_length, parse_length
 
 __all__ = [
     "IN_TUNE_CENTS", "PARTIAL_MATCH", "STATE_FORMAT", "STATE_SUFFIX",
@@ -130,7 +130,7 @@ def parse_measured(text, key="measured"):
     return values
 
 
-def parse_length_now(text, piece, units="mm", key="length_now"):
+def parse_length_now(text, piece, units="mm", key="length_now", den=INCH_DENOMINATOR):
     """The piece's length now [m] from text, within half the planned and twice the cut length."""
     try:
         now = parse_length(text)
@@ -138,8 +138,8 @@ def parse_length_now(text, piece, units="mm", key="length_now"):
         raise TrimError(key, f"{exc.text!r} is not {exc.accepted}") from None
     if not 0.5 * piece.length <= now <= 2 * piece.cut_length:
         raise TrimError(key, f"{text!r} must be between half the planned length "
-                             f"({format_length(0.5 * piece.length, units)}) and twice the cut length "
-                             f"({format_length(2 * piece.cut_length, units)})")
+                             f"({format_length(0.5 * piece.length, units, den)}) and twice the cut length "
+                             f"({format_length(2 * piece.cut_length, units, den)})")
     return now
 
 
@@ -265,7 +265,8 @@ def trim_reading(design, plan, label, measured="", recording=None, length_now=""
     except TrimError as exc:
         raise TrimError(keys["piece"], str(exc)) from None
     text_now = str(length_now or "").strip()
-    now = parse_length_now(text_now, piece, plan.units, keys["length_now"]) if text_now else None
+    now = (parse_length_now(text_now, piece, plan.units, keys["length_now"], plan.inch_denominator) if text_now
+           else None)
     if recording is not None:
         kind = spec.kind if spec.kind in ("chime", "bar") else spec.ends
         try:
@@ -287,7 +288,8 @@ def _plain_report(plan, piece, spec, partials, confidence, questions, length_now
     """Uniform bars, chimes and air columns: the length to trim (and the supports for it)."""
     f1 = partials[0].measured_hz
     try:
-        advice = quiet(trim_advice, piece, piece_frequency_function(spec, piece), f1, length_now, plan.units)
+        advice = quiet(trim_advice, piece, piece_frequency_function(spec, piece), f1, length_now, plan.units,
+                       plan.inch_denominator)
     except CalibrationError as exc:
         raise TrimError("measured", str(exc)) from None
     except (ValueError, ArithmeticError):
@@ -308,7 +310,7 @@ def _plain_report(plan, piece, spec, partials, confidence, questions, length_now
         supports = tuple(sorted({round(abs(0.5 - f) * advice.length_needed, 7) for f in fractions}))
     report = TrimReport(piece.label, piece.note, action, partials, advice.length_now, advice.length_needed,
                         predicted_after_hz=predicted, supports=supports, confidence=confidence, messages=questions)
-    return with_lines(report, trim_report_lines(piece, report, advice, plan.units))
+    return with_lines(report, trim_report_lines(piece, report, advice, plan.units, plan.inch_denominator))
 
 
 def with_lines(report, lines):

@@ -81,5 +81,5 @@ def trim_answer(design, plan, label, measured="", recording=b"", length_now="", 
                 if recording else "")]
     lines += report.lines  # the trim command's own lines, word for word
     return TrimAnswer(label, hz, name, off, confidence, found, tuple(lines), report.as_dict(),
-                      trim_drawing(report, plan.units),
+                      trim_drawing(report, plan.units, plan.inch_denominator),
                       json.dumps(report.state) if report.state is not None else "")

@@ -217,3 +217,20 @@ def test_the_cut_list_on_stock_is_worded_once_in_terminal_pdf_and_page(tmp_path)
     for where, text in outputs.items():
         assert heading in text and bound in text.replace("Fewest", "fewest"), where
         assert "lower bound" not in text and "(not proven optimal)" not in text, where
+
+
+def test_planning_and_trim_text_keep_the_designs_inch_fraction(tmp_path):
+    # text made while planning (the allowance rule as written) and at the bench (the trim advice)
+    # rounds inches to the design's 1/8, not to the default 1/32; the expected text comes from this
+    # file's own formatter (1 in = 25.4 mm exactly, NIST SP 811, 2008, B.8)
+    path, data = _design(tmp_path, "porch-chimes.toml", units="in", inch_denominator=8)
+    data["stock"]["allowance"] = "5 mm"
+    path.write_text(_toml(data), encoding="utf-8")
+    plan = cutplan.plan(cutplan.load_design(path))
+    first, second, _, _ = _texts(0.005, "in", 8)
+    assert plan.sets[0].allowance_rule == f"{first} ({second})"
+    p = plan.pieces[0]
+    result = CliRunner().invoke(cli, ["trim", str(path), p.label, "--measured", f"{p.target_hz * 0.97:.2f}"])
+    assert result.exit_code == 0, result.output
+    fractions = re.findall(r"(\d+)/(\d+) in", result.output)
+    assert fractions and all(8 % int(d) == 0 for _n, d in fractions), fractions
