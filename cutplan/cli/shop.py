@@ -365,10 +365,15 @@ def trim_command(design, label, measured, recording, length_now, done, state_pat
 
     from cutplan.audio.wav import read_wav
     from cutplan.tuning import TrimError
-    from cutplan.tuning.trim_service import STATE_SUFFIX, trim_reading
+    from cutplan.tuning.trim_service import STATE_SUFFIX, parse_measured, trim_reading
 
     if (measured is None) == (recording is None):
         fail("trim: give --measured or --recording (one of them)")
+    if measured is not None and measured.strip():
+        try:  # a bad reading gets its one line at once, before the design is planned (the service checks it again)
+            parse_measured(measured, "--measured")
+        except TrimError as exc:
+            fail(f"{exc.key}: {exc}")
     des, _lib = load_or_exit(design, materials_dirs, units)
     the_plan = plan_or_exit(des)
     path = Path(state_path) if state_path else Path(design).with_name(Path(design).stem + STATE_SUFFIX)
