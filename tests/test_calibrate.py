@@ -2,13 +2,15 @@
 
 import dataclasses
 import math
+from pathlib import Path
 
 import numpy as np
 import pytest
 from click.testing import CliRunner
 
-from cutplan.cli import cli
+from cutplan.cli import cli, common
 from cutplan.design import load_design
+from cutplan.limits import FREQUENCY_SPAN
 from cutplan.materials import load_library
 from cutplan.physics import air_column, beam, timoshenko
 from cutplan.physics.sections import tube
@@ -223,3 +225,19 @@ def test_trim_questions_a_reading_far_from_the_target_and_never_says_zero_inches
     small = CliRunner().invoke(cli, ["trim", porch, "porch-1", "--measured", "586.5"])
     assert "remove under 1/32 in (0.4 mm)" in small.output and " 0 in " not in small.output
     assert max(len(line) for line in small.output.splitlines()) <= 100
+
+
+def test_trim_names_a_bad_reading_before_it_plans_the_design(tmp_path, monkeypatch):
+    # the reading is checked first: the command gives its one line without planning (here the
+    # planner would fail the test), with the frequency range the limits module states
+    def no_planning(*_args, **_kwargs):
+        raise AssertionError("trim planned the design before it checked --measured")
+
+    monkeypatch.setattr(common, "plan_or_exit", no_planning)
+    monkeypatch.setattr("cutplan.cli.shop.plan_or_exit", no_planning)
+    porch = str(Path(__file__).resolve().parent.parent / "examples" / "porch-chimes.toml")
+    for measured in ("nan", "-5", "abc", "1049.8, 255.2"):
+        result = CliRunner().invoke(cli, ["trim", porch, "porch-1", "--measured", measured])
+        assert result.exit_code == 2 and result.output.count("\n") == 1, result.output
+        assert result.output.startswith("error: --measured: ")
+    assert FREQUENCY_SPAN in CliRunner().invoke(cli, ["trim", porch, "porch-1", "--measured", "5"]).output

@@ -7,6 +7,7 @@ import graph)."""
 from __future__ import annotations
 
 import ast
+import functools
 import importlib
 from pathlib import Path
 
@@ -56,9 +57,16 @@ def _is_package(name):
     return MODULES[name].name == "__init__.py"
 
 
+@functools.cache
+def _tree(name):
+    """The module's syntax tree, parsed once per test process (the tests only read it)."""
+    return ast.parse(MODULES[name].read_text(encoding="utf-8"))
+
+
+@functools.cache
 def _imports(name):
     """(node, imported module names, imported names, inside a function) for every import statement."""
-    tree = ast.parse(MODULES[name].read_text(encoding="utf-8"))
+    tree = _tree(name)
     found = []
 
     def visit(node, in_function, type_checking):
@@ -78,7 +86,7 @@ def _imports(name):
             visit(child, fn, tc)
 
     visit(tree, False, False)
-    return found
+    return tuple(found)
 
 
 def _edges():
@@ -144,7 +152,7 @@ def test_no_module_reads_another_modules_private_attributes():
     # ``module._name`` on a module imported by name is the same reach past the public API
     found = []
     for name in MODULES:
-        tree = ast.parse(MODULES[name].read_text(encoding="utf-8"))
+        tree = _tree(name)
         imported = {}
         for node, targets, _names, _fn, _tc in _imports(name):
             if isinstance(node, ast.Import):
@@ -176,7 +184,7 @@ def test_imports_inside_functions_are_only_the_measured_or_cycle_breaking_ones()
 
 @pytest.mark.parametrize("name", sorted(MODULES))
 def test_a_module_with_public_names_lists_them_in_all_and_each_exists(name):
-    tree = ast.parse(MODULES[name].read_text(encoding="utf-8"))
+    tree = _tree(name)
     public = [n.name for n in tree.body if isinstance(n, (ast.FunctionDef, ast.ClassDef)) and not n.name.startswith("_")]
     module = importlib.import_module(name)
     if public:

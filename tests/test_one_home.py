@@ -2,6 +2,7 @@
 takes its cautions from the one source chosen by the set's materials."""
 
 import ast
+import functools
 from pathlib import Path
 
 import pytest
@@ -17,31 +18,43 @@ PACKAGE = Path(__file__).resolve().parents[1] / "cutplan"
 SOURCES = sorted(p for p in PACKAGE.rglob("*") if p.suffix in (".py", ".html", ".js", ".css"))
 
 
+@functools.cache
+def _lower_texts():
+    """(file, lower-cased text) of every package source file, read once per test process."""
+    return tuple((p.relative_to(PACKAGE).as_posix(), p.read_text(encoding="utf-8").lower()) for p in SOURCES)
+
+
 def _text_hits(phrase):
     """(file, count) of every package source file (code, templates, scripts) that holds ``phrase``."""
-    hits = [(p.relative_to(PACKAGE).as_posix(), p.read_text(encoding="utf-8").lower().count(phrase.lower()))
-            for p in SOURCES]
+    hits = [(name, text.count(phrase.lower())) for name, text in _lower_texts()]
     return [(name, n) for name, n in hits if n]
 
 
-def _python_trees():
+@functools.cache
+def _constants():
+    """(file, line, value) of every numeric literal in the package's Python code, and (file, text)
+    of every string literal but docstrings (they may quote examples): each file parsed once per
+    test process, not once per parameter."""
+    numbers, strings = [], []
     for path in PACKAGE.rglob("*.py"):
-        yield path.relative_to(PACKAGE).as_posix(), ast.parse(path.read_text(encoding="utf-8"))
+        name, tree = path.relative_to(PACKAGE).as_posix(), ast.parse(path.read_text(encoding="utf-8"))
+        docs = {id(n.value) for n in ast.walk(tree) if isinstance(n, ast.Expr) and isinstance(n.value, ast.Constant)}
+        for node in ast.walk(tree):
+            if isinstance(node, ast.Constant) and type(node.value) in (int, float):
+                numbers.append((name, node.lineno, node.value))
+            elif isinstance(node, ast.Constant) and isinstance(node.value, str) and id(node) not in docs:
+                strings.append((name, node.value))
+    return tuple(numbers), tuple(strings)
 
 
 def _number_hits(value):
     """Where a numeric literal equal to ``value`` is written in the package's Python code."""
-    return [(name, node.lineno) for name, tree in _python_trees() for node in ast.walk(tree)
-            if isinstance(node, ast.Constant) and type(node.value) in (int, float) and node.value == value]
+    return [(name, line) for name, line, v in _constants()[0] if v == value]
 
 
 def _code_strings():
     """String literals of the code, docstrings left out (they may quote examples)."""
-    for name, tree in _python_trees():
-        docs = {id(n.value) for n in ast.walk(tree) if isinstance(n, ast.Expr) and isinstance(n.value, ast.Constant)}
-        for node in ast.walk(tree):
-            if isinstance(node, ast.Constant) and isinstance(node.value, str) and id(node) not in docs:
-                yield name, node.value
+    return _constants()[1]
 
 
 @pytest.mark.parametrize("phrase", [phrases.TRIM_RAISES, phrases.STOPPER_RULE, phrases.CENTRE_OUT,

@@ -37,7 +37,7 @@ from cutplan.planning.air_calibrated import stock_toml
 from cutplan.tuning import TrimError
 from cutplan.tuning.calibrate import AIR_SPEED_RANGE, CalibrationError, fit_air_column_choice, measurement_problem
 from cutplan.tuning.calibrate_moduli import calibrated_moduli_toml, fit_moduli, partial_frequencies, recorded_modes
-from cutplan.tuning.trim_service import MAX_STATE_BYTES, STATE_SUFFIX, trim_reading
+from cutplan.tuning.trim_service import MAX_STATE_BYTES, STATE_SUFFIX, parse_measured, trim_reading
 from cutplan.units import UnitError, parse_length, parse_temperature
 
 __all__ = ["calibrate_command", "trim_command", "listen_command"]
@@ -356,6 +356,11 @@ def trim_command(design, label, measured, recording, length_now, done, state_pat
 
     if (measured is None) == (recording is None):
         fail("trim: give --measured or --recording (one of them)")
+    if measured is not None and measured.strip():
+        try:  # a bad reading gets its one line at once, before the design is planned (the service checks it again)
+            parse_measured(measured, "--measured")
+        except TrimError as exc:
+            fail(f"{exc.key}: {exc}")
     des, _lib = load_or_exit(design, materials_dirs, units)
     the_plan = plan_or_exit(des)
     path = Path(state_path) if state_path else Path(design).with_name(Path(design).stem + STATE_SUFFIX)
