@@ -5,6 +5,7 @@ its target is refused, not printed."""
 import dataclasses
 import math
 
+import pytest
 from click.testing import CliRunner
 
 import cutplan
@@ -61,3 +62,22 @@ def test_a_length_its_own_model_puts_off_target_is_refused():
     off = [dataclasses.replace(pieces[0], length=pieces[0].length * 1.05)] + pieces[1:]
     error = reach.missed_target(design, spec, off)
     assert isinstance(error, DesignError) and "\n" not in str(error)
+
+
+@pytest.mark.parametrize("stock, hz, target", [("pvc-sch80-4", 28000, ""), ("pvc-sch40-4", 28000, 'target = "strike-note"\n')])
+def test_a_pitch_no_beam_of_the_section_reaches_is_an_error_not_a_plan(tmp_path, stock, hz, target):
+    # 4 in pipe (outside diameter 114.3 mm, ASTM D1785): the solvers gave a 78 mm piece whose own
+    # printed pitch was 3072 cents under 28 kHz, and a 17 mm "chime" (0.15 diameters long) for the
+    # strike note; a piece under about two depths long is no beam (Timoshenko, Phil. Mag. 41, 1921:
+    # the shear correction is first order in depth / length)
+    text = f'[[set]]\nkind = "chime"\nname = "p"\nfrequencies = ["{hz} Hz"]\n{target}section = {{ stock = "{stock}" }}\n'
+    result = _run(tmp_path, text)
+    assert result.exit_code == 2 and "Traceback" not in result.output
+    lines = [line for line in result.output.splitlines() if line.strip()]
+    assert len(lines) == 1 and "set[1].frequencies" in lines[0] and "too high" in lines[0], lines
+
+
+def test_a_high_chime_the_model_covers_still_plans(tmp_path):
+    # 22.3 kHz in 1 in x 0.065 in tube: 65.5 mm, 2.6 diameters long, within the beam model's reach
+    text = '[[set]]\nkind = "chime"\nname = "p"\nfrequencies = ["22300 Hz"]\nsection = { stock = "al-1.000x0.065" }\n'
+    assert _run(tmp_path, text).exit_code == 0

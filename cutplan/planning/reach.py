@@ -22,11 +22,17 @@ from cutplan.design.notices import set_key
 from cutplan.planning.frequency import beam_frequency_function
 from cutplan.units import format_length
 
-__all__ = ["REACH_CENTS", "highest_reachable", "missed_target", "refusal"]
+__all__ = ["REACH_CENTS", "SHORTEST_DEPTHS", "highest_reachable", "missed_target", "refusal"]
 
 REACH_CENTS = 5.0
 """Largest miss of a planned length's own pitch from its target [cents] (the solvers converge to
 well under a cent; the usual 5-cent tuning window, common practice)."""
+
+SHORTEST_DEPTHS = 2.0
+"""Shortest piece a beam model is used for, in depths of its section [-]: below about twice its
+depth a piece no longer bends as a beam (its pitch is set by shear and by the section's own
+deformation; Timoshenko's correction itself is a first-order one in depth / length: Han, Benaroya
+and Wei, J. Sound Vib. 225, 1999, from memory)."""
 
 
 def _frequency_function(spec):
@@ -46,10 +52,10 @@ def highest_reachable(spec):
     """(highest pitch [Hz], shortest length [m]) the set's beam model covers for its section and
     material, or None when it covers no length at all.  Found by shortening from 60 depths in 2 %
     steps down to where the model first fails (above it the model's pitch rises as the piece
-    shortens)."""
+    shortens), never below :data:`SHORTEST_DEPTHS` depths."""
     f_at = _frequency_function(spec)
     length, best = 60 * spec.section.depth, None
-    while length > 0.5 * spec.section.depth:
+    while length >= SHORTEST_DEPTHS * spec.section.depth:
         f = _pitch_of(f_at, length)
         if f is None:
             break
@@ -115,11 +121,18 @@ def _worst_miss(f_at, pieces):
 
 
 def missed_target(design, spec, pieces):
-    """A DesignError for a set whose planned lengths, put back into the set's own f(L), miss their
-    targets by more than :data:`REACH_CENTS`; None when every piece reaches its target."""
+    """A DesignError for a set with a piece the plan cannot stand behind: its predicted pitch, or
+    its length put back into the set's own f(L), more than :data:`REACH_CENTS` off its target, or
+    a length under :data:`SHORTEST_DEPTHS` depths, where no beam model applies.  None when every
+    piece reaches its target."""
     if not pieces:
         return None
+    depth = spec.section.depth
     worst = _worst_miss(_frequency_function(spec), pieces)
-    if worst is not None and worst <= REACH_CENTS:
+    printed = max(abs(1200 * math.log2(p.predicted_hz / p.target_hz)) if p.predicted_hz > 0 else math.inf
+                  for p in pieces)
+    short = min(p.length for p in pieces) < SHORTEST_DEPTHS * depth
+    if worst is not None and worst <= REACH_CENTS and printed <= REACH_CENTS and not short:
         return None
-    return refusal(design, spec, ValueError(f"a planned length misses its target by {worst} cents"))
+    return refusal(design, spec, ValueError(f"a planned piece misses its target ({worst}, {printed} cents) "
+                                            f"or is under {SHORTEST_DEPTHS} depths long"))
