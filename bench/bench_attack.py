@@ -1,7 +1,11 @@
 """Benchmark: generated attacks on what the second hardening round closed.
 
-Run: python bench/bench_attack.py [--folders 60] [--requests 300] [--pairs 20] [--homes 20]
-(prints a table; never run as a test).  Four kinds of input, all generated from fixed seeds:
+Run: python bench/bench_attack.py [--designs 400] [--recordings 150] [--folders 60] [--requests 300]
+[--pairs 20] [--homes 20] [--trims 4] (prints a table; never run as a test; about 4 CPU minutes with
+the defaults).  Every kind of input is generated from fixed seeds:
+
+* designs mutated at every key (tests/fuzzing.py) through ``plan --format json``;
+* damaged recordings (tests/fuzzing.py) through ``measure``;
 
 * damaged ``--materials`` folders (pipes, device links, folders and link loops named *.toml,
   malformed rows, out-of-range values, escape codes, deep nesting) through ``materials`` and
@@ -10,16 +14,23 @@ Run: python bench/bench_attack.py [--folders 60] [--requests 300] [--pairs 20] [
   Origin, through the Flask test client (in-process: nothing leaves the machine);
 * ``plan -o DIR --force`` over folders of the user's own things (own plan.csv, empty folders,
   folder links, a private folder): refused or nothing of theirs changed;
-* concurrent writers: pairs of ``plan -o`` runs into one packet holding a user's file.
+* concurrent writers: pairs of ``plan -o`` runs into one packet holding a user's file, and pairs of
+  ``trim`` runs keeping their rounds in one state file (a round lost counts as data lost);
+* hostile page inputs on every route: 5000-digit numbers, JSON and TOML nested 10,000 deep, a TOML
+  date, ``count: null``, ``length_now = "1e308 m"``, price 0, listening to 24 pieces.
 
-Columns: runs, exit 0 (HTTP 2xx), exit 2 (HTTP 4xx), tracebacks (HTTP 500), hangs, absurd
-exit 0 (a plan with an impossible length, or a foreign post served), data lost.
+Columns: runs, exit 0 (HTTP 2xx), exit 2 (HTTP 4xx), tracebacks (HTTP 500, or an exit code other
+than 0 and 2), hangs, absurd exit 0 (a plan with an impossible length or a piece whose predicted
+pitch misses its target by more than 5 cents, a foreign post served, a measurement with no
+fundamental), data lost.
 """
 
 from __future__ import annotations
 
 import argparse
+import io
 import json
+import math
 import os
 import subprocess
 import sys
@@ -33,7 +44,7 @@ ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
 from cutplan.cli import cli  # noqa: E402
-from tests.fuzzing import bad_lengths, mutated_design  # noqa: E402
+from tests.fuzzing import bad_lengths, broken_wav, mutated_design, to_toml  # noqa: E402
 
 DESIGN = ('[[set]]\nkind = "chime"\nnotes = ["D5", "E5"]\nmaterial = "{material}"\n'
           'section = {{ stock = "al-1.000x0.065" }}\n')
@@ -59,6 +70,145 @@ SPECIAL = ["fifo", "device", "folder", "loop"]
 def _cli(args):
     result = CliRunner().invoke(cli, [str(a) for a in args])
     return result.exit_code, "Traceback" in result.output or result.exit_code not in (0, 2)
+
+
+def _row():
+    return dict(runs=0, ok=0, refused=0, tracebacks=0, hangs=0, absurd=0, lost=0)
+
+
+def _off_target(plan_json):
+    """Pieces whose predicted pitch misses the target by more than 5 cents (the plan's own model)."""
+    return [p["label"] for p in plan_json["pieces"]
+            if p.get("target_hz") and p.get("predicted_hz")
+            and abs(1200 * math.log2(p["predicted_hz"] / p["target_hz"])) > 5]
+
+
+def designs(n, work):
+    row = _row()
+    path = work / "design.toml"
+    for seed in range(n):
+        path.write_text(to_toml(mutated_design(np.random.default_rng(seed))), encoding="utf-8")
+        result = CliRunner().invoke(cli, ["plan", str(path), "--format", "json"])
+        row["runs"] += 1
+        row["tracebacks"] += "Traceback" in result.output or result.exit_code not in (0, 2)
+        row["ok" if result.exit_code == 0 else "refused"] += result.exit_code in (0, 2)
+        if result.exit_code == 0:
+            plan = json.loads(result.output)
+            row["absurd"] += bool(bad_lengths(plan) or _off_target(plan))
+    return row
+
+
+def recordings(n, work):
+    row = _row()
+    path = work / "take.wav"
+    for seed in range(n):
+        path.write_bytes(broken_wav(np.random.default_rng(10_000 + seed))[1])
+        result = CliRunner().invoke(cli, ["measure", str(path), "--format", "json"])
+        row["runs"] += 1
+        row["tracebacks"] += "Traceback" in result.output or result.exit_code not in (0, 2)
+        row["ok" if result.exit_code == 0 else "refused"] += result.exit_code in (0, 2)
+        if result.exit_code == 0:
+            data = json.loads(result.output)
+            f1 = data.get("fundamental_hz")
+            row["absurd"] += not (isinstance(f1, (int, float)) and math.isfinite(f1) and f1 > 0)
+    return row
+
+
+NESTED_TOML = "title = 'x'\n" + "a = " + "[" * 10_000 + "]" * 10_000 + "\n"
+
+
+def hostile(work):
+    """The page's hostile inputs, each on the routes that take it (test client, in-process)."""
+    from cutplan.web import form as webform
+    from cutplan.web.app import create_app
+
+    row = _row()
+    client = create_app().test_client()
+    design = {"title": "porch", "set": [{"kind": "chime", "name": "porch", "notes": ["D5", "E5"],
+                                      "section": {"stock": "al-1.000x0.065"}}]}
+    porch = webform.form_from_mapping(design)
+    notes = next(k for k in porch if k.endswith(".notes"))
+    stock = next((k for k in porch if k.endswith("section.stock")), notes)
+    cases = [
+        ("/api/plan", "json", "{\"title\": " + "9" * 5000 + "}"),
+        ("/api/plan", "json", "[" * 10_000 + "]" * 10_000),
+        ("/api/plan", "json", json.dumps({**design, "set": [{**design["set"][0], "count": None}]})),
+        ("/api/plan", "json", json.dumps({**design, "set": [{**design["set"][0], "notes": None, "scale": "major",
+                                                             "root": "D5", "count": None}]})),
+        ("/api/plan", "json", json.dumps({**design, "stock": {"lengths": [{"length": "8 ft", "price": 0}]}})),
+        ("/api/plan", "json", json.dumps({**design, "stock": {"lengths": [{"length": "1e308 m", "count": 1}]}})),
+        ("/api/plan", "json", json.dumps({**design, "tuning": {"a4": 1}}).replace('"a4": 1', '"a4": ' + "4" * 5000)),
+        ("/api/plan", "json", json.dumps({**design, "set": [{**design["set"][0], "notes": [
+            f"{n}{o}" for o in (4, 5, 6) for n in "CDEFGAB"] + ["C7", "D7", "E7"]}]})),
+        ("/api/packet", "json", "{" * 5000),
+        ("/", "form", {**porch, notes.replace("notes", "count"): "null"}),
+        ("/", "form", {**porch, notes: "9" * 5000}),
+        ("/preview", "form", {**porch, "stock.lengths": "1e308 m"}),
+        ("/api/trim", "form", {**porch, "trim.piece": "porch-1", "trim.length_now": "1e308 m",
+                               "trim.measured": "600"}),
+        ("/api/trim", "form", {**porch, "trim.piece": "porch-1", "trim.measured": "9" * 5000}),
+        ("/listen", "form", {**porch, notes: " ".join(f"{n}{o}" for o in (4, 5, 6, 7)
+                                                                    for n in "CDEFGA"), "listen": "porch"}),
+        ("/", "file", NESTED_TOML),
+        ("/", "file", "title = 'x'\nwhen = 1979-05-27T07:32:00Z\n[[set]]\nkind = 'chime'\n"),
+        ("/packet.zip", "form", {**porch, stock: "x" * 5000}),
+        ("/packet.pdf", "form", {**porch, "units": "\x1b[2J"}),
+        ("/design.toml", "form", {**porch, "title": "[" * 5000}),
+    ]
+    for route, how, body in cases:
+        for foreign in (False, True):
+            headers = {"Origin": "http://elsewhere.example", "Sec-Fetch-Site": "cross-site"} if foreign else {}
+            if how == "json":
+                resp = client.post(route, data=body, content_type="application/json", headers=headers)
+            elif how == "file":
+                resp = client.post(route, data={"design_file": (io.BytesIO(body.encode()), "d.toml"), "action": "open"},
+                                   content_type="multipart/form-data", headers=headers)
+            else:
+                resp = client.post(route, data=body, headers=headers)
+            row["runs"] += 1
+            status = resp.status_code
+            row["tracebacks"] += status >= 500
+            row["ok" if status < 300 else "refused"] += status < 500
+            row["absurd"] += foreign and status < 300
+            resp.close()
+    return row
+
+
+TWO_BARS = """title = "two bars"
+[[set]]
+name = "bars"
+kind = "bar"
+notes = ["C4", "D4"]
+material = "rosewood-honduras"
+section = { shape = "bar", width = "55 mm", thickness = "24 mm" }
+undercut = { ratios = [4.0], arch_width = 0.5, min_thickness = "6 mm" }
+"""
+
+
+def trims(n, work):
+    """Pairs of ``trim`` runs on one design at once: both rounds must be kept in its state file."""
+    row = _row()
+    command = [sys.executable, "-c", "from cutplan.cli import cli; cli()", "trim"]
+    for k in range(n):
+        design = work / f"bars-{k}.toml"
+        design.write_text(TWO_BARS)
+        procs = [subprocess.Popen(command + [str(design), label, "--measured", measured], cwd=ROOT, text=True,
+                                  stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
+                 for label, measured in (("bars-1", "255.2, 1049.8"), ("bars-2", "286.0, 1180.0"))]
+        for p in procs:
+            try:
+                _, err = p.communicate(timeout=600)
+            except subprocess.TimeoutExpired:
+                p.kill()
+                row["hangs"] += 1
+                continue
+            row["runs"] += 1
+            row["tracebacks"] += "Traceback" in err
+            row["ok" if p.returncode == 0 else "refused"] += p.returncode in (0, 2)
+        state = work / f"bars-{k}.trim-state.json"
+        kept = json.loads(state.read_text())["pieces"] if state.exists() else {}
+        row["lost"] += 2 - len(set(kept) & {"bars-1", "bars-2"})
+    return row
 
 
 def folders(n, work):
@@ -199,6 +349,9 @@ def pairs(n, work):
 
 def main():
     parser = argparse.ArgumentParser()
+    parser.add_argument("--designs", type=int, default=400)
+    parser.add_argument("--recordings", type=int, default=150)
+    parser.add_argument("--trims", type=int, default=4)
     parser.add_argument("--folders", type=int, default=60)
     parser.add_argument("--requests", type=int, default=300)
     parser.add_argument("--pairs", type=int, default=20)
@@ -207,10 +360,14 @@ def main():
     rows = []
     with tempfile.TemporaryDirectory() as tmp:
         work = Path(tmp)
+        rows.append(("generated designs (plan --json)", designs(args.designs, work)))
+        rows.append(("damaged recordings (measure)", recordings(args.recordings, work)))
         rows.append(("damaged --materials folders", folders(args.folders, work)))
         rows.append(("page POST routes (test client)", requests(args.requests, work)))
         rows.append(("--force over a user's folder", homes(args.homes, work)))
+        rows.append(("hostile page inputs, every route", hostile(work)))
         rows.append(("concurrent plan -o pairs", pairs(args.pairs, work)))
+        rows.append(("concurrent trim pairs, one state", trims(args.trims, work)))
     head = ["runs", "exit 0", "exit 2", "tracebacks", "hangs", "absurd exit 0", "data lost"]
     print(f"{'input':32} " + " ".join(f"{h:>13}" for h in head))
     for name, r in rows:

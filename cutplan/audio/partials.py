@@ -45,7 +45,7 @@ from cutplan.audio.hum import hum_lines, is_hum
 from cutplan.audio.wav import RecordingError
 
 __all__ = [
-    "MIN_SECONDS", "MAX_SECONDS", "PAD", "PROMINENCE_DB", "STRONG_DB", "MIN_DECAY_S", "AUDIBLE_HZ", "BH4",
+    "MIN_SECONDS", "MAX_SECONDS", "DROPOUT_SAMPLES", "PAD", "PROMINENCE_DB", "STRONG_DB", "MIN_DECAY_S", "AUDIBLE_HZ", "BH4",
     "MAIN_LOBE_BINS", "Partial", "blackman_harris", "strike_segment", "find_partials"
 ]
 
@@ -53,6 +53,11 @@ MIN_SECONDS = 0.05
 """Shortest recording measured [s]."""
 MAX_SECONDS = 8.0
 """Longest stretch after the strike that is analysed [s]."""
+DROPOUT_SAMPLES = 64
+"""Exact zeros in a row that make a gap in a recording [samples]: a recorder or browser that fell
+behind fills the frames it missed with digital silence, which no microphone's noise floor gives
+for so long amid a ringing tone (common practice); the partials are read from the longest stretch
+between such gaps."""
 PAD = 8
 """Least zero-padding factor of each spectrum [-] (the parabola's bias falls fast with it)."""
 PROMINENCE_DB = 20.0
@@ -115,13 +120,32 @@ def _strike(samples, rate):
     if peak > 0.99 and clipped > 0.2:
         raise RecordingError("the recording is clipped throughout; record at a lower level")
     hop = max(1, int(0.01 * rate))
-    energy = np.convolve(x * x, np.ones(hop), mode="same")
-    start = max(0, int(np.argmax(energy)) - hop)
-    seg = x[start:start + int(MAX_SECONDS * rate)]
+    first, end = _clean_stretch(np.asarray(samples), x.size)
+    energy = np.convolve(x[first:end] * x[first:end], np.ones(hop), mode="same")
+    start = first + max(0, int(np.argmax(energy)) - hop)
+    seg = x[start:min(end, start + int(MAX_SECONDS * rate))]
     if seg.size < MIN_SECONDS * rate:
         start = x.size - int(MIN_SECONDS * rate)
         seg = x[start:]
     return x, start, seg
+
+
+def _clean_stretch(raw, size):
+    """(first, end) sample of the longest stretch of the recording with no dropout inside it: a
+    run of :data:`DROPOUT_SAMPLES` or more exact zeros between sounding samples is a gap in the
+    capture, not sound, and a spectrum across it would be smeared.  The whole recording when it
+    has none (silence before the strike or after the ring is no gap)."""
+    zero = np.flatnonzero(raw.ravel() == 0)
+    if zero.size < DROPOUT_SAMPLES:
+        return 0, size
+    breaks = np.flatnonzero(np.diff(zero) != 1)
+    runs = zip(np.r_[zero[0], zero[breaks + 1]], np.r_[zero[breaks], zero[-1]] + 1, strict=True)
+    gaps = [(a, b) for a, b in runs if b - a >= DROPOUT_SAMPLES and a > 0 and b < size]
+    if not gaps:
+        return 0, size
+    edges = [0] + [e for gap in gaps for e in gap] + [size]
+    stretches = list(zip(edges[::2], edges[1::2], strict=True))
+    return max(stretches, key=lambda se: se[1] - se[0])
 
 
 def _band_floor(mag, bin_hz, f_min, lobe_hz):

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import contextlib
+import errno
 import json
 import re
 import textwrap
@@ -29,6 +31,7 @@ from cutplan.cli.common import (
     write_folder,
 )
 from cutplan.cli.measure import measure_file
+from cutplan.folder_guard import locked
 from cutplan.materials import MaterialError, load_library
 from cutplan.numeric import NumericError, quiet, quiet_numbers
 from cutplan.physics import air_column
@@ -366,13 +369,14 @@ def trim_command(design, label, measured, recording, length_now, done, state_pat
     path = Path(state_path) if state_path else Path(design).with_name(Path(design).stem + STATE_SUFFIX)
     keys = {"piece": "trim", "measured": "--measured", "length_now": "--length-now", "recording": str(recording),
             "state": "trim"}
-    try:  # the one trim service, with the page's checks
-        report = trim_reading(des, the_plan, label, measured or "", (lambda: read_wav(recording)) if recording else None,
-                              length_now or "", _read_state(path), done, keys, str(path)).report
-    except TrimError as exc:
-        fail(f"{exc.key}: {exc}")
-    if report.state is not None:
-        write_file(path, json.dumps(report.state, indent=1) + "\n")
+    with _state_lock(path):  # read, advise and write the rounds as one step: two runs at once lose no round
+        try:  # the one trim service, with the page's checks
+            report = trim_reading(des, the_plan, label, measured or "", (lambda: read_wav(recording)) if recording
+                                  else None, length_now or "", _read_state(path), done, keys, str(path)).report
+        except TrimError as exc:
+            fail(f"{exc.key}: {exc}")
+        if report.state is not None:
+            write_file(path, json.dumps(report.state, indent=1) + "\n")
     if fmt == "json":
         click.echo(json.dumps(report.as_dict()))
         return
@@ -383,6 +387,21 @@ def trim_command(design, label, measured, recording, length_now, done, state_pat
         indent = line[:len(line) - len(line.lstrip())]
         click.echo("\n".join(textwrap.wrap(line, 100, subsequent_indent=indent + "  ", break_on_hyphens=False,
                                            break_long_words=False)))
+
+
+@contextlib.contextmanager
+def _state_lock(path):
+    """Hold the trim-state file's lock (the output folders' lock file, beside it) while the block
+    runs; a second trim of the same design waits for the first.  Where no lock file can be made
+    (a read-only folder) the block runs unlocked: a round to keep would fail to write there anyway."""
+    stack = contextlib.ExitStack()
+    try:
+        stack.enter_context(locked(path.parent, path.name))
+    except OSError as exc:
+        if exc.errno == errno.EBUSY:
+            fail(f"{path}: {exc.strerror}")
+    with stack:
+        yield
 
 
 def _read_state(path):

@@ -153,6 +153,7 @@ class SetSpec:
     hanging: HangingSpec | None = None  # cutplan.design.hanging.HangingSpec, or None for the defaults
     grain: str = "unknown"  # a bar's sawing: "flat", "quarter" or "unknown" (cutplan.planning.grain)
     mode_clearance: float | None = None  # window for flagging other modes near a tuned partial [cents]
+    pitch_key: str = ""  # the key the pitches were given by: "notes", "scale", "range", ... ("" for resonators)
 
 
 @dataclass(frozen=True)

@@ -99,7 +99,8 @@ def one_set(raw, index, a4, temperament, library, col, spelling="auto"):
         fields["stock"] = stock_table(raw["stock"], f"{key}.stock", col)
     if section is None:
         return None
-    return SetSpec(index=index, name=name, kind=kind, targets=tuple(found), section=section, **fields, **tolerances)
+    return SetSpec(index=index, name=name, kind=kind, targets=tuple(found), section=section,
+                   pitch_key=target_rules.pitch_key(raw), **fields, **tolerances)
 
 
 def check_names(sets, col):

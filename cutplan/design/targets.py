@@ -9,7 +9,7 @@ from cutplan.design.contract import MAX_PIECES_PER_SET, is_number
 from cutplan.design.notices import PITCH_CHOICE
 from cutplan.limits import CENTS_RANGE, FREQUENCY_RANGE, FREQUENCY_SPAN, RATIO_RANGE
 
-__all__ = ["TARGET_KEYS", "FREQUENCY_RANGE", "targets"]
+__all__ = ["TARGET_KEYS", "FREQUENCY_RANGE", "pitch_key", "targets"]
 
 TARGET_KEYS = ("notes", "scale", "range", "frequencies", "cents", "ratios")
 
@@ -75,11 +75,22 @@ def _relative(value, key, how, base, a4, col):
     return out
 
 
-def targets(raw, key, a4, temperament, col, spelling="auto"):
-    """Targets of one set, or [] after noting why they cannot be read."""
+def _given(raw):
     given = [k for k in TARGET_KEYS if k in raw]
     if "range" in raw and "scale" in raw:
         given.remove("scale")  # with a range, scale only filters the notes
+    return given
+
+
+def pitch_key(raw):
+    """The key a set's pitches are given by ("notes", "scale", ...), or "" when not exactly one."""
+    given = _given(raw)
+    return given[0] if len(given) == 1 else ""
+
+
+def targets(raw, key, a4, temperament, col, spelling="auto"):
+    """Targets of one set, or [] after noting why they cannot be read."""
+    given = _given(raw)
     if len(given) != 1:
         col.add(key, None, "needs exactly one of: notes, scale (with root and count), range, "
                 "frequencies, cents (with root), ratios (with root)", PITCH_CHOICE)

@@ -21,7 +21,7 @@ from cutplan.layout import cutlist, optimiser
 from cutplan.layout.kits import kit_sets
 from cutplan.physics import beam, timoshenko, undercut, uniform
 from cutplan.physics.undercut import UndercutError
-from cutplan.planning import air_calibrated, elastic, grain, hang_holes, other_modes, thermal, uncertainty
+from cutplan.planning import air_calibrated, elastic, grain, hang_holes, other_modes, reach, thermal, uncertainty
 from cutplan.planning.air import BAR_OVER_MOUTH, plan_air_set
 from cutplan.planning.allowance import allowance_rule, allowances, risk_warning
 from cutplan.planning.frequency import (
@@ -294,15 +294,18 @@ def plan(design: Design, progress=None, stock_override=None, tables=None) -> Pla
                     pieces = _plan_undercut_set(spec, design, stock, progress)
                 else:
                     pieces = _plan_beam_set(spec, design, stock)
+                    missed = reach.missed_target(design, spec, pieces)
+                    if missed is not None:  # a length on the wrong branch of the solver: refused, not printed
+                        errors.append(missed)
+                        continue
                 pieces = other_modes.with_other_modes(spec, pieces)
                 pieces = hang_holes.with_hang_holes(spec, pieces, tables.hang_holes, design.units)
             except UndercutError as exc:  # the arch cannot reach the ratios asked for
                 errors.append(DesignError(design.path, set_key(spec, "undercut.ratios"), list(spec.undercut.ratios),
                                           f'cannot be reached in set "{spec.name}": {exc}', notices.UNREACHABLE))
                 continue
-            except ValueError as exc:
-                errors.append(DesignError(design.path, f"set[{spec.index}]", spec.name, f"cannot be planned: {exc}",
-                                          notices.CANNOT_PLAN))
+            except ValueError as exc:  # the key, the value and what is allowed, in a builder's words
+                errors.append(reach.refusal(design, spec, exc))
                 continue
         else:
             if spec.kind == "resonator":

@@ -183,6 +183,7 @@
   /* Trim from the microphone: record a few seconds of raw samples, make a 16-bit WAV, and send
      it as the recording. Only where the browser allows capture (this machine, or https). */
   var RECORD_SECONDS = 3;
+  var CAPTURE_URL = document.currentScript ? new URL("capture.js", document.currentScript.src).href : "/static/capture.js";
 
   function wavBlob(chunks, rate) {
     var n = chunks.reduce(function (a, c) { return a + c.length; }, 0);
@@ -232,23 +233,42 @@
       });
   }
 
+  /* Capture a fixed count of frames (RECORD_SECONDS at the context's rate), placed by the frame
+     the audio thread took them at: the same samples on a quiet or a busy machine. */
+  function capture(ctx, src) {
+    var need = Math.round(RECORD_SECONDS * ctx.sampleRate), samples = new Float32Array(need);
+    return ctx.audioWorklet.addModule(CAPTURE_URL).then(function () {
+      var node = new AudioWorkletNode(ctx, "cutplan-capture", {numberOfInputs: 1, numberOfOutputs: 1});
+      var first = null;
+      src.connect(node); node.connect(ctx.destination);
+      return new Promise(function (done) {
+        node.port.onmessage = function (e) {
+          if (first === null) { first = e.data.frame; }
+          var at = e.data.frame - first, part = e.data.samples;
+          if (at < need) { samples.set(part.subarray(0, need - at), at); }
+          if (at + part.length >= need) {
+            node.port.onmessage = null; src.disconnect(); node.disconnect();
+            done(samples);
+          }
+        };
+      });
+    });
+  }
+
   function record(button) {
     var state = document.getElementById("record-state");
     button.disabled = true;
     state.textContent = "listening...";
     navigator.mediaDevices.getUserMedia({audio: {echoCancellation: false, noiseSuppression: false, autoGainControl: false}})
       .then(function (stream) {
-        var Ctx = window.AudioContext || window.webkitAudioContext, ctx = new Ctx(), chunks = [];
-        var src = ctx.createMediaStreamSource(stream), proc = ctx.createScriptProcessor(4096, 1, 1);
-        proc.onaudioprocess = function (e) { chunks.push(new Float32Array(e.inputBuffer.getChannelData(0))); };
-        src.connect(proc); proc.connect(ctx.destination);
-        return new Promise(function (done) { setTimeout(done, RECORD_SECONDS * 1000); }).then(function () {
-          src.disconnect(); proc.disconnect();
+        var Ctx = window.AudioContext || window.webkitAudioContext, ctx = new Ctx();
+        if (!ctx.audioWorklet) { throw {name: "this browser has no audio worklets"}; }
+        return capture(ctx, ctx.createMediaStreamSource(stream)).then(function (samples) {
           stream.getTracks().forEach(function (t) { t.stop(); });
           var rate = ctx.sampleRate;
           ctx.close();
           state.textContent = "measuring...";
-          return sendTrim(wavBlob(chunks, rate));
+          return sendTrim(wavBlob([samples], rate));
         });
       })
       .then(function () { state.textContent = ""; })
