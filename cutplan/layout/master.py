@@ -2,7 +2,10 @@
 
 Each round adds the new patterns as columns and re-solves from the last optimal basis (a warm
 start: the basis stays primal feasible, so the primal simplex needs only the few iterations the
-new columns call for), instead of building and solving the whole LP from scratch. The model is
+new columns call for), instead of building and solving the whole LP from scratch.  The diving
+heuristic keeps the same model: it fixes a pattern by its column bounds (at one) and frees the
+rows of the pieces it cuts, then restores them; after a bound change the basis stays dual
+feasible, so that solve restarts with the dual simplex. The model is
 HiGHS's own, as bundled with scipy (the solver ``scipy.optimize.linprog(method="highs")`` runs);
 where that interface is missing the LP is solved from scratch with ``linprog`` each round.
 
@@ -29,6 +32,9 @@ __all__ = ["Master"]
 SIMPLEX_PRIMAL = 4
 """HiGHS's ``simplex_strategy`` for the primal simplex: new columns leave the last basis primal
 feasible, so it restarts from there (the dual simplex took 10 times the iterations)."""
+SIMPLEX_DUAL = 1
+"""HiGHS's ``simplex_strategy`` for the dual simplex: changed bounds leave the last basis dual
+feasible (a pattern fixed at one, a piece's row freed), so that solve restarts from there."""
 
 
 class Master:
@@ -41,6 +47,9 @@ class Master:
         self.types, self.cost, self.limited, self.big = types, cost, list(limited), big
         self.row_of_limit = {t: n_items + k for k, t in enumerate(self.limited)}
         self.keys = []
+        self.col_bounds = []  # (lower, upper) of each pattern column
+        self.row_lower = np.ones(n_items)  # 1: the piece must be cut; 0: already cut (a dive)
+        self._bounds_changed = False
         self._model = None
         self._highs = _highs = _highs_interface()
         if _highs is not None:
@@ -70,6 +79,8 @@ class Master:
         if not keys:
             return
         self.keys.extend(keys)
+        self.col_bounds.extend((0.0, np.inf) for _ in keys)
+        self._bounds_changed = False  # new columns: the primal simplex restarts best
         if self._model is None:
             return
         starts, index = [], []
@@ -83,12 +94,39 @@ class Master:
                             np.full(len(keys), inf), len(index), np.array(starts, dtype=np.int32),
                             np.array(index, dtype=np.int32), np.ones(len(index)))
 
+    def bound_columns(self, cols, lower, upper):
+        """Set the bounds of pattern columns ``cols`` (indices into :attr:`keys`)."""
+        cols = [int(j) for j in cols]
+        if not cols:
+            return
+        for j in cols:
+            self.col_bounds[j] = (lower, upper)
+        self._bounds_changed = True
+        if self._model is not None:
+            hi = self._highs.kHighsInf if upper == np.inf else upper
+            self._model.changeColsBounds(len(cols), np.array([self.n + j for j in cols], dtype=np.int32),
+                                         np.full(len(cols), float(lower)), np.full(len(cols), float(hi)))
+
+    def cover(self, items, lower):
+        """Set how often pieces ``items`` must still be covered: 1 (to cut) or 0 (already cut)."""
+        items = [int(i) for i in items]
+        if not items:
+            return
+        self.row_lower[items] = lower
+        self._bounds_changed = True
+        if self._model is not None:
+            inf = self._highs.kHighsInf
+            for i in items:
+                self._model.changeRowBounds(i, float(lower), inf)
+
     def solve(self):
         """(value, x of the patterns, item duals, stick-limit duals, artificial total, simplex
         iterations), or None when the solver fails."""
         if self._model is None:
             return self._from_scratch()
         h = self._model
+        h.setOptionValue("simplex_strategy", SIMPLEX_DUAL if self._bounds_changed else SIMPLEX_PRIMAL)
+        self._bounds_changed = False
         h.run()
         if h.getModelStatus() != self._highs.HighsModelStatus.kOptimal:
             return None
@@ -112,12 +150,13 @@ class Master:
             cols += [j] * len(members)
         cover = csr_matrix((np.ones(len(rows)), (rows, cols)), shape=(n, len(keys)))
         a_ub = [-hstack([cover, identity(n, format="csr")])]
-        b_ub = [-np.ones(n)]
+        b_ub = [-self.row_lower]
         for t in self.limited:
             a_ub.append(csr_matrix(np.array([[1.0 if k[0] == t else 0.0 for k in keys] + [0.0] * n])))
             b_ub.append(np.array([float(self.types[t].count)]))
         c = np.array([self.cost[k[0]] for k in keys] + [self.big] * n)
-        res = linprog(c, A_ub=vstack(a_ub).tocsr(), b_ub=np.concatenate(b_ub), bounds=(0, None), method="highs")
+        bounds = [(lo, None if hi == np.inf else hi) for lo, hi in self.col_bounds] + [(0, None)] * n
+        res = linprog(c, A_ub=vstack(a_ub).tocsr(), b_ub=np.concatenate(b_ub), bounds=bounds, method="highs")
         if res.status != 0:
             return None
         duals = -res.ineqlin.marginals
