@@ -211,3 +211,19 @@ def test_fixed_and_restored_bounds_match_an_lp_from_scratch():
     assert fixed[0] == pytest.approx(fixed[1], abs=1e-9)
     assert restored[0] == pytest.approx(restored[1], abs=1e-9) == pytest.approx(before[0], abs=1e-9)
     assert fixed[0] >= before[0] - 1e-9
+
+
+@pytest.mark.parametrize("seed", range(6))
+def test_an_incomplete_list_of_mixes_never_overstates_the_bound(monkeypatch, seed):
+    # the mix enumeration stopped at once: the cost bound stated must still be no more than the
+    # brute-force least cost, and "proven" only where the cost is that least cost
+    monkeypatch.setattr(columns, "MAX_MIX_NODES", 2)
+    rng = random.Random(900 + seed)
+    lengths = [round(rng.uniform(0.3, 1.1), 3) for _ in range(rng.randint(5, 7))]
+    table = [(1.2, 9.0, None), (2.4, 14.0, None), (3.0, 19.5, None)]
+    out = layout([Item(f"g{i}", x) for i, x in enumerate(lengths)],
+                 [StockType(length, count, price) for length, price, count in table], kerf=0.003)
+    best = brute_force(lengths, table, 0.003, True)
+    assert out.cost_lower_bound <= best + 1e-9 <= out.cost + 2e-9
+    if out.proven_optimal:
+        assert out.cost == pytest.approx(best)

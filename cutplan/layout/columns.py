@@ -417,6 +417,9 @@ def cheaper_mixes(items, types, kerf, end_trim, best_cost, work):
     caps = [stick_capacity(t.length, kerf, end_trim) for t in types]
     longest_piece = max(it.length + kerf for it in items)
     mixes, complete = _mixes(types, sizes_total, caps, best_cost, len(items))
+    # with the list of mixes incomplete, a cheaper mix may be missing from it: then only the
+    # continuous bound holds
+    floor = _continuous_cost(types, caps, sizes_total)
     bound = None
     all_sizes = [it.length + kerf for it in items]
     l2 = {}  # the L2 bound depends only on the longest stick of a mix
@@ -440,15 +443,29 @@ def cheaper_mixes(items, types, kerf, end_trim, best_cost, work):
                 assignment, infeasible, _ = column_generation(items, sub, kerf, end_trim, False, [], work,
                                                                feasible_only=True)
         except OutOfWork:
-            return None, False, mix_cost if bound is None else bound
+            return None, False, (mix_cost if bound is None else bound) if complete else floor
         if assignment is not None:
             sticks = sticks_from_assignment(items, sub, kerf, end_trim, assignment)
-            return sticks, complete and bound is None, layout_cost(sticks) if bound is None else bound
+            if not complete:
+                return sticks, False, floor
+            return sticks, bound is None, layout_cost(sticks) if bound is None else bound
         if not infeasible and bound is None:
             bound = mix_cost  # not ruled out: the optimum may cost this much
+    if not complete:
+        return None, False, floor
     if bound is None:
-        return None, complete, best_cost if complete else 0.0
+        return None, True, best_cost
     return None, False, bound
+
+
+def _continuous_cost(types, caps, sizes_total):
+    """Least any layout can cost if pieces could be cut across sticks: the free sticks' length
+    first, the rest at the lowest price per metre."""
+    free = sum(math.inf if t.count is None else t.count * caps[k] for k, t in enumerate(types) if not t.price)
+    paid = [(t.price or 0.0) / caps[k] for k, t in enumerate(types) if t.price]
+    if free >= sizes_total or not paid:
+        return 0.0
+    return (sizes_total - free) * min(paid)
 
 
 def _one_length(items, stick, kerf, end_trim, work):

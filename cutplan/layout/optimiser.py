@@ -359,7 +359,11 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
         better, proven, cost_bound = cheaper_mixes(items, types, kerf, end_trim, layout_cost(first), work)
         sticks = better if better is not None else first
         method = "stick mixes + column generation" if better is not None else "first fit decreasing"
-        return Layout(sticks, bound, proven, method, layout_cost(sticks), max(cost_bound, 0.0), lp_solves=work.used)
+        cost = layout_cost(sticks)
+        if not proven:  # a whole number of sticks costs a sum of whole prices
+            cost_bound = min(_achievable_cost_bound(max(cost_bound, 0.0), [t.price for t in types], cost), cost)
+            proven = cost <= cost_bound + 1e-6  # no sum of prices lies between the bound and the cost
+        return Layout(sticks, bound, proven, method, cost, max(cost_bound, 0.0), lp_solves=work.used)
     seeds = heur or []
     try:
         exact, proven, dual = column_generation(items, types, kerf, end_trim, by_cost, seeds, work)
