@@ -59,10 +59,10 @@ DEFAULT_TIME_LIMIT = None
 DEFAULT_EFFORT = 4000
 """Most master LP solves one layout may take [-] (every seeded bench instance up to 80 pieces
 needs under 600)."""
-DEFAULT_OPS = 40_000_000
-"""Most operations one layout may take [-] (see _Work; about 16 CPU s on one core of the
-two-core machine bench/bench_stock_scaling.py was measured on; 400 pieces on one 8 ft length
-need 3.2e7 to be proven, every bench instance up to 80 pieces under 4e6)."""
+DEFAULT_OPS = 36_000_000
+"""Most operations one layout may take [-] (see _Work; 13-20 CPU s on one core of the two-core
+machine bench/bench_stock_scaling.py was measured on; 400 pieces on one 8 ft length need
+3.2e7 to be proven, every bench instance up to 80 pieces under 4e6)."""
 LP_FIXED_OPS = 5_000
 """Fixed operations charged per master LP solve (setting up the solver) [-]."""
 
