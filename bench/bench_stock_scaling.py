@@ -101,7 +101,8 @@ def rows(sizes):
     yield run("too little", few, [StockType(96 * INCH, count=count)])
     yield run("3 priced", chimes(400, 9), KINDS["4 priced"][:3])
     for k in (6, 8):
-        yield run(f"{k} priced", chimes(200, 10 + k), [StockType((60 + 12 * j) * INCH, price=8.0 + j) for j in range(k)])
+        lengths = [StockType((60 + 12 * j) * INCH, price=8.0 + j) for j in range(k)]
+        yield run(f"{k} priced", chimes(200, 10 + k), lengths)
     yield run("free + priced", chimes(400, 11), [StockType(96 * INCH, count=60, price=0.0),
                                                   StockType(144 * INCH, price=17.5)])
 

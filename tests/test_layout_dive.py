@@ -179,8 +179,8 @@ def test_fixed_and_restored_bounds_match_an_lp_from_scratch():
     rng = np.random.default_rng(3)
     n = 7
     types = [StockType(1.0), StockType(1.5, count=3)]
-    keys = [(int(rng.integers(0, 2)), tuple(sorted(rng.choice(n, size=int(rng.integers(1, 4)), replace=False).tolist())))
-            for _ in range(12)]
+    keys = [(int(rng.integers(0, 2)),
+             tuple(sorted(rng.choice(n, size=int(rng.integers(1, 4)), replace=False).tolist()))) for _ in range(12)]
     keys = list(dict.fromkeys(keys))
 
     def both(setup):

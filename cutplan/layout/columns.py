@@ -6,8 +6,9 @@ Farley's bound stops the generation once the whole number of sticks it proves ca
 change.  The root LP is rounded (the patterns it uses whole, first fit decreasing for the rest)
 and, failing that, dived on in the same LP: a pattern is fixed by its column bounds, so each
 step re-solves from the last basis, new patterns are priced only when those at hand miss the
-bound, and a fix that leaves the LP above the bound is undone (a few times at most).  With prices, stick mixes are tried cheapest first.  All work is
-counted against the caller's budget (master LP solves), never against the clock.
+bound, and a fix that leaves the LP above the bound is undone (a few times at most).  With
+prices, stick mixes are tried cheapest first.  All work is counted against the caller's
+budget (master LP solves), never against the clock.
 
 References
 ----------

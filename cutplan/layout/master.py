@@ -5,9 +5,10 @@ start: the basis stays primal feasible, so the primal simplex needs only the few
 new columns call for), instead of building and solving the whole LP from scratch.  The diving
 heuristic keeps the same model: it fixes a pattern by its column bounds (at one) and frees the
 rows of the pieces it cuts, then restores them; the primal simplex restarts from the last basis
-after those changes too (the dual simplex took twice its CPU time on 500 pieces, measured). The model is
-HiGHS's own, as bundled with scipy (the solver ``scipy.optimize.linprog(method="highs")`` runs);
-where that interface is missing the LP is solved from scratch with ``linprog`` each round.
+after those changes too (the dual simplex took twice its CPU time on 500 pieces, measured).
+The model is HiGHS's own, as bundled with scipy (the solver
+``scipy.optimize.linprog(method="highs")`` runs); where that interface is missing the LP is
+solved from scratch with ``linprog`` each round.
 
 The work is counted from the solver's own deterministic iteration count, so the budget stays a
 count of work (the same on every machine and under any load), never a time.
