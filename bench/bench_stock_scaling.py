@@ -5,11 +5,14 @@ Run: python bench/bench_stock_scaling.py [--sizes 100,200,300,500] [--check-load
 One row per instance: pieces, stock, sticks (or cost), the bound, the gap to it, proven or not,
 master LP solves, operations counted (the work the search is bounded by) and CPU seconds.
 Stock kinds: one 8 ft length; two and four priced lengths; and exact triplets (three pieces
-that fill a 1000 mm stick exactly, no kerf, so the optimum is known: pieces / 3 sticks).  Two
-more rows are the slow cases found by hand: 400 chimes on too little stock (the total-length
-bound answers) and 400 chimes on three priced lengths.  Target: every row under 30 CPU s.
+that fill a 1000 mm stick exactly, no kerf, so the optimum is known: pieces / 3 sticks).  More
+rows are the slow cases found by hand: 400 chimes on too little stock (the total-length bound
+answers), 400 chimes on three priced lengths, 200 on six and on eight priced lengths (the stick
+mixes grow as a power of the number of lengths), and 400 on free 8 ft offcuts (price 0) beside
+priced 12 ft sticks.  Target: every row under 30 CPU s.
 ``--check-load`` lays the 300-piece two-price instance out quietly and again with two busy
-loops competing for the cores, and compares the layouts byte for byte.
+loops competing for the cores, and compares the layouts byte for byte.  ``--layouts FILE``
+writes every row's layout to FILE (one JSON line each), to compare runs byte for byte.
 """
 
 import json
@@ -59,6 +62,10 @@ class Counting(optimiser._Work):
         Counting.last = self
 
 
+LAYOUTS = []
+"""Every row's layout as one JSON line (--layouts)."""
+
+
 def run(name, items, types, kerf=KERF, trim=TRIM):
     Counting.last = None
     start = time.process_time()
@@ -66,8 +73,13 @@ def run(name, items, types, kerf=KERF, trim=TRIM):
         out = layout(items, types, kerf=kerf, end_trim=trim)
     except StockError as exc:
         cpu = time.process_time() - start
+        LAYOUTS.append(json.dumps({"row": [name, len(items)], "refused": str(exc)}, sort_keys=True))
         return [name, len(items), "refused", "", "", "", 0, 0, f"{cpu:.2f}", str(exc)[:60]]
     cpu = time.process_time() - start
+    LAYOUTS.append(json.dumps({"row": [name, len(items)], "sticks": [[s.stock_length, [list(c) for c in s.cuts]]
+                                                                      for s in out.sticks],
+                               "proven": out.proven_optimal, "cost": out.cost, "bound": out.lower_bound,
+                               "cost_bound": out.cost_lower_bound}, sort_keys=True))
     work = Counting.last
     ops = (work.start - max(work.ops_left, 0)) if work else 0
     if out.cost is not None:
@@ -88,6 +100,11 @@ def rows(sizes):
     count = int(sum(it.length + KERF for it in few) / (96 * INCH)) - 2
     yield run("too little", few, [StockType(96 * INCH, count=count)])
     yield run("3 priced", chimes(400, 9), KINDS["4 priced"][:3])
+    for k in (6, 8):
+        lengths = [StockType((60 + 12 * j) * INCH, price=8.0 + j) for j in range(k)]
+        yield run(f"{k} priced", chimes(200, 10 + k), lengths)
+    yield run("free + priced", chimes(400, 11), [StockType(96 * INCH, count=60, price=0.0),
+                                                  StockType(144 * INCH, price=17.5)])
 
 
 def layout_text(n=300):
@@ -110,7 +127,7 @@ def check_under_load():
 
 
 def main(argv):
-    sizes = [100, 200, 300, 500]
+    sizes = [100, 200, 300, 400, 500]
     if "--sizes" in argv:
         sizes = [int(x) for x in argv[argv.index("--sizes") + 1].split(",")]
     optimiser._Work = Counting
@@ -121,6 +138,9 @@ def main(argv):
         print(" | ".join(str(x) for x in row), flush=True)
         worst = max(worst, float(row[8]))
     print(f"slowest row: {worst:.2f} CPU s (target: under 30)")
+    if "--layouts" in argv:
+        with open(argv[argv.index("--layouts") + 1], "w") as fh:
+            fh.write("\n".join(LAYOUTS) + "\n")
     ok = worst < 30.0
     if "--check-load" in argv:
         ok = check_under_load() and ok

@@ -2,9 +2,13 @@
 
 Each round adds the new patterns as columns and re-solves from the last optimal basis (a warm
 start: the basis stays primal feasible, so the primal simplex needs only the few iterations the
-new columns call for), instead of building and solving the whole LP from scratch. The model is
-HiGHS's own, as bundled with scipy (the solver ``scipy.optimize.linprog(method="highs")`` runs);
-where that interface is missing the LP is solved from scratch with ``linprog`` each round.
+new columns call for), instead of building and solving the whole LP from scratch.  The diving
+heuristic keeps the same model: it fixes a pattern by its column bounds (at one) and frees the
+rows of the pieces it cuts, then restores them; the primal simplex restarts from the last basis
+after those changes too (the dual simplex took twice its CPU time on 500 pieces, measured).
+The model is HiGHS's own, as bundled with scipy (the solver
+``scipy.optimize.linprog(method="highs")`` runs); where that interface is missing the LP is
+solved from scratch with ``linprog`` each round.
 
 The work is counted from the solver's own deterministic iteration count, so the budget stays a
 count of work (the same on every machine and under any load), never a time.
@@ -41,6 +45,8 @@ class Master:
         self.types, self.cost, self.limited, self.big = types, cost, list(limited), big
         self.row_of_limit = {t: n_items + k for k, t in enumerate(self.limited)}
         self.keys = []
+        self.col_bounds = []  # (lower, upper) of each pattern column
+        self.row_lower = np.ones(n_items)  # 1: the piece must be cut; 0: already cut (a dive)
         self._model = None
         self._highs = _highs = _highs_interface()
         if _highs is not None:
@@ -70,6 +76,7 @@ class Master:
         if not keys:
             return
         self.keys.extend(keys)
+        self.col_bounds.extend((0.0, np.inf) for _ in keys)
         if self._model is None:
             return
         starts, index = [], []
@@ -82,6 +89,29 @@ class Master:
         self._model.addCols(len(keys), np.array([float(self.cost[t]) for t, _ in keys]), np.zeros(len(keys)),
                             np.full(len(keys), inf), len(index), np.array(starts, dtype=np.int32),
                             np.array(index, dtype=np.int32), np.ones(len(index)))
+
+    def bound_columns(self, cols, lower, upper):
+        """Set the bounds of pattern columns ``cols`` (indices into :attr:`keys`)."""
+        cols = [int(j) for j in cols]
+        if not cols:
+            return
+        for j in cols:
+            self.col_bounds[j] = (lower, upper)
+        if self._model is not None:
+            hi = self._highs.kHighsInf if upper == np.inf else upper
+            self._model.changeColsBounds(len(cols), np.array([self.n + j for j in cols], dtype=np.int32),
+                                         np.full(len(cols), float(lower)), np.full(len(cols), float(hi)))
+
+    def cover(self, items, lower):
+        """Set how often pieces ``items`` must still be covered: 1 (to cut) or 0 (already cut)."""
+        items = [int(i) for i in items]
+        if not items:
+            return
+        self.row_lower[items] = lower
+        if self._model is not None:
+            inf = self._highs.kHighsInf
+            for i in items:
+                self._model.changeRowBounds(i, float(lower), inf)
 
     def solve(self):
         """(value, x of the patterns, item duals, stick-limit duals, artificial total, simplex
@@ -112,12 +142,13 @@ class Master:
             cols += [j] * len(members)
         cover = csr_matrix((np.ones(len(rows)), (rows, cols)), shape=(n, len(keys)))
         a_ub = [-hstack([cover, identity(n, format="csr")])]
-        b_ub = [-np.ones(n)]
+        b_ub = [-self.row_lower]
         for t in self.limited:
             a_ub.append(csr_matrix(np.array([[1.0 if k[0] == t else 0.0 for k in keys] + [0.0] * n])))
             b_ub.append(np.array([float(self.types[t].count)]))
         c = np.array([self.cost[k[0]] for k in keys] + [self.big] * n)
-        res = linprog(c, A_ub=vstack(a_ub).tocsr(), b_ub=np.concatenate(b_ub), bounds=(0, None), method="highs")
+        bounds = [(lo, None if hi == np.inf else hi) for lo, hi in self.col_bounds] + [(0, None)] * n
+        res = linprog(c, A_ub=vstack(a_ub).tocsr(), b_ub=np.concatenate(b_ub), bounds=bounds, method="highs")
         if res.status != 0:
             return None
         duals = -res.ineqlin.marginals

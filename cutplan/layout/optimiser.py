@@ -59,9 +59,10 @@ DEFAULT_TIME_LIMIT = None
 DEFAULT_EFFORT = 4000
 """Most master LP solves one layout may take [-] (every seeded bench instance up to 80 pieces
 needs under 600)."""
-DEFAULT_OPS = 20_000_000
-"""Most operations one layout may take [-] (see _Work; about 20 CPU s on a 2020s laptop core,
-measured in bench/bench_stock_scaling.py; every bench instance up to 80 pieces needs under 4e6)."""
+DEFAULT_OPS = 36_000_000
+"""Most operations one layout may take [-] (see _Work; 13-20 CPU s on one core of the two-core
+machine bench/bench_stock_scaling.py was measured on; 400 pieces on one 8 ft length need
+3.2e7 to be proven, every bench instance up to 80 pieces under 4e6)."""
 LP_FIXED_OPS = 5_000
 """Fixed operations charged per master LP solve (setting up the solver) [-]."""
 
@@ -358,7 +359,11 @@ def layout(items, types, kerf=0.0, end_trim=0.0, time_limit=DEFAULT_TIME_LIMIT, 
         better, proven, cost_bound = cheaper_mixes(items, types, kerf, end_trim, layout_cost(first), work)
         sticks = better if better is not None else first
         method = "stick mixes + column generation" if better is not None else "first fit decreasing"
-        return Layout(sticks, bound, proven, method, layout_cost(sticks), max(cost_bound, 0.0), lp_solves=work.used)
+        cost = layout_cost(sticks)
+        if not proven:  # a whole number of sticks costs a sum of whole prices
+            cost_bound = min(_achievable_cost_bound(max(cost_bound, 0.0), [t.price for t in types], cost), cost)
+            proven = cost <= cost_bound + 1e-6  # no sum of prices lies between the bound and the cost
+        return Layout(sticks, bound, proven, method, cost, max(cost_bound, 0.0), lp_solves=work.used)
     seeds = heur or []
     try:
         exact, proven, dual = column_generation(items, types, kerf, end_trim, by_cost, seeds, work)
