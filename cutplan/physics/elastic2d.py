@@ -297,8 +297,12 @@ def _solve(xs, hs, k, m, dof_x, dof_y, top, e_along, density, modes, elements):
     op = None
     if n > 2 * (dof_x.size + dof_y.size):
         # the width-resolved body (several fields per node): one factorisation with minimum-degree
-        # ordering on the symmetric pattern, several times faster than SuperLU's default ordering
-        lu = splu((k - sigma * m).tocsc(), permc_spec="MMD_AT_PLUS_A")
+        # ordering on the symmetric pattern, several times faster than SuperLU's default ordering;
+        # K - sigma M is positive definite (sigma < 0), so the diagonal pivots are taken as they
+        # come (partial pivoting filled the factors six times as much on a short uniform bar,
+        # measured: 10.8 against 1.7 million entries)
+        lu = splu((k - sigma * m).tocsc(), permc_spec="MMD_AT_PLUS_A", diag_pivot_thresh=0.0,
+                  options={"SymmetricMode": True})
         op = LinearOperator(k.shape, matvec=lu.solve, dtype=float)
     while True:
         count = min(want, n - 2)
