@@ -108,6 +108,9 @@ def test_json_profile_reproduces_the_arch(example_json):
             assert np.max(np.abs(np.interp(fine, xs, hs) - exact)) < 0.02e-3  # 0.02 mm
         constants = [s["elastic_constants"] for s in data["sets"] if s["kind"] == "bar"]
         assert constants and all(c["modulus_along_gpa"] > 0 and c["density_kg_m3"] > 0 for c in constants)
+        # the width axis's constants the bars were designed with, as numbers too
+        assert all(isinstance(c["modulus_width_gpa"], float) and c["shear_modulus_width_thickness_gpa"] > 0
+                   for c in constants)
 
 
 THREE = """
@@ -287,3 +290,20 @@ def test_a_stubby_bar_on_the_2d_model_is_warned_as_on_the_1d_model(tmp_path, arc
     assert piece.length / depth < 8
     stubby = [w.message for w in piece.warnings if w.message.startswith("stubby bar:")]
     assert stubby == [f"stubby bar: length is {piece.length / depth:.1f} x its thickness; cut a test bar and calibrate"]
+
+
+def test_plan_and_trim_solve_an_arched_bar_alike(example_plan):
+    # One model for plan and trim (a contract, not a physics check): trim's model of the bar
+    # (the set's constants, its sawing, the width resolved) solves the printed profile to the
+    # partials the plan reports.
+    from cutplan.tuning.arched import bar_data
+
+    name = ARCHED_EXAMPLES[0]
+    design, _ = load_design(ROOT / "examples" / f"{name}.toml", lambda dirs: load_library(dirs))
+    specs = {s.name: s for s in design.sets}
+    piece = next(p for p in example_plan(name).pieces if p.arch is not None)
+    bar = bar_data(specs[piece.set])
+    assert bar.width_constants is not None
+    xs, hs = np.array(piece.arch.outline).T
+    for a, b in zip(bar.frequencies(xs, hs, len(piece.partials_hz)), piece.partials_hz, strict=True):
+        assert abs(cents(a, b)) < 0.01

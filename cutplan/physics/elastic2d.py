@@ -231,7 +231,7 @@ def _kinks(xs, hs):
 
 
 def _assemble(xs, hs, width, e_along, e_across, shear, poisson, density, nx, ny, width_constants=None, order=0):
-    from skfem import Basis, BilinearForm, ElementQuad2, ElementVector, MeshQuad, MeshQuad2, asm
+    from skfem import Basis, ElementQuad2, MeshQuad, MeshQuad2
 
     p, t = _mesh(xs, hs, nx, ny)
     # quadratic geometry: every node, mid-edge and centre ones too, lies at y = -eta h(x), so the
@@ -239,37 +239,30 @@ def _assemble(xs, hs, width, e_along, e_across, shear, poisson, density, nx, ny,
     straight = MeshQuad2.from_mesh(MeshQuad(p, t))
     x, eta = straight.doflocs
     mesh = MeshQuad2(np.array([x, -eta * np.interp(x, xs, hs)]), straight.t)
+    basis = Basis(mesh, ElementQuad2(), intorder=4)
     if width_constants is not None:
-        return _assemble_width(Basis(mesh, ElementQuad2(), intorder=4), hs, width, e_along, e_across, shear,
-                               poisson, density, width_constants, order)
-    basis = Basis(mesh, ElementVector(ElementQuad2()), intorder=4)
+        return _assemble_width(basis, hs, width, e_along, e_across, shear, poisson, density, width_constants, order)
     nu_across = poisson * e_across / e_along
     det = 1.0 - poisson * nu_across
     d11, d22, d12, d33 = e_along / det, e_across / det, poisson * e_across / det, shear
-
-    @BilinearForm
-    def stiffness(u, v, _):
-        ux, uy = u.grad[0], u.grad[1]
-        vx, vy = v.grad[0], v.grad[1]
-        exx, eyy, gxy = ux[0], uy[1], ux[1] + uy[0]
-        fxx, fyy, hxy = vx[0], vy[1], vx[1] + vy[0]
-        return width * (d11 * exx * fxx + d12 * (exx * fyy + eyy * fxx) + d22 * eyy * fyy + d33 * gxy * hxy)
-
-    @BilinearForm
-    def mass(u, v, _):
-        return width * density * (u[0] * v[0] + u[1] * v[1])
-
-    k = asm(stiffness, basis)
-    m = asm(mass, basis)
-    dof_x, dof_y = basis.split_indices()
+    # plane stress on two fields (u_x, u_y) of the scalar basis: exx = du_x/dx, eyy = du_y/dy,
+    # gxy = du_x/dy + du_y/dx; the energy's constants by kind pair (value, d/dx, d/dy) and field pair
+    c = np.zeros((3, 3, 2, 2))
+    c[1, 1] = [[d11, 0.0], [0.0, d33]]
+    c[2, 2] = [[d33, 0.0], [0.0, d22]]
+    c[1, 2] = [[0.0, d12], [d33, 0.0]]
+    c[2, 1] = [[0.0, d33], [d12, 0.0]]
+    k, m = width_terms.kron_assemble(basis, width * c, width * density * np.eye(2))
+    nodes = np.arange(basis.N)
+    dof_x, dof_y = 2 * nodes, 2 * nodes + 1
     locs = basis.doflocs
-    top = dof_y[np.abs(locs[1, dof_y]) < 1e-12 * max(1.0, float(np.max(hs)))]
+    top = nodes[np.abs(locs[1]) < 1e-12 * max(1.0, float(np.max(hs)))]
     top = top[np.argsort(locs[0, top])]
-    return k.tocsc(), m.tocsc(), dof_x, dof_y, (top, locs[0, top])
+    return k, m, dof_x, dof_y, (dof_y[top], locs[0, top])
 
 
 def _assemble_width(basis, hs, width, e_along, e_across, shear, poisson, density, constants, order):
-    """The width-resolved body (:mod:`width_terms`) on a scalar quadratic basis: DOFs of the
+    """The width-resolved body (:mod:`width_terms`) on the scalar quadratic basis: DOFs of the
     mid-width fields pick the modes."""
     try:
         k, m, fields = width_terms.assemble(basis, width, e_along, e_across, shear, poisson, density, constants,
