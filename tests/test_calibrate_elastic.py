@@ -5,8 +5,8 @@ from click.testing import CliRunner
 
 from cutplan.cli import cli
 from cutplan.materials import Material
-from cutplan.physics.solid3d import Orthotropic
 from cutplan.physics.sections import bar
+from cutplan.physics.solid3d import Orthotropic
 from cutplan.tuning.calibrate_moduli import fit_moduli
 from tests.physics.solid3d import vertical_bending
 
