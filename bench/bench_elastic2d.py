@@ -5,8 +5,9 @@ Run: python bench/bench_elastic2d.py            (prints a table; never run as a 
 Each row runs ``cutplan plan DESIGN --format json`` in a fresh process and reports the CPU
 seconds it used (user + system, from wait4): twice on a quiet machine, then twice with two busy
 loops (``python3 -c "while True: pass"``) competing for the two cores; the loops are killed
-afterwards.  All four outputs must be byte-identical.  A second table shows the 2-D solver alone
-(one bar, mesh sizes) and the mesh study of a deep arch.
+afterwards.  All four outputs must be byte-identical.  Further tables show the 2-D solver alone
+(one bar, mesh sizes): the mesh study of a deep arch on plane stress, and the mesh and
+term-count study of the width-resolved body that designs the bars.
 
 Targets: music-room marimba example <= 10 s; 49 undercut bars + 49 resonators <= 60 s.
 """
@@ -84,23 +85,38 @@ def plans():
 
 
 def solver():
-    """One deep-arch bar (centre 6 mm of 22 mm): CPU per solve and cents from a 300 x 14 mesh."""
+    """One deep-arch bar (centre 6 mm of 22 mm): CPU per solve and cents from a 300 x 14 mesh
+    (plane stress), and the width-resolved body that designs (its mesh and term-count study)."""
     import numpy as np
 
     from cutplan.physics import elastic2d, undercut
+    from cutplan.physics.width_terms import WidthConstants
 
     xs = np.linspace(0.0, 0.38, 201)
     hs = undercut.arch_thickness(xs, 0.38, 0.022, 0.016, 0.6, 2.5)
     args = (xs, hs, 0.06, 14e9, 14e9, 1.5e9, 0.4, 850.0)
-    ref = elastic2d.profile_modes(*args, modes=4, elements_along=300, elements_through=14).frequencies
-    print(f"\n{'mesh (along x through)':24} {'cpu s/solve':>11}  cents from 300 x 14, modes 1-4")
-    for along, through in ((40, 3), (elastic2d.ELEMENTS_ALONG, elastic2d.ELEMENTS_THROUGH), (120, 8)):
+    width = WidthConstants(1.4e9, 1.1e9, 0.3e9, 0.4, 0.5)
+
+    def timed(**kw):
         start = time.process_time()
-        for _ in range(5):
-            f = elastic2d.profile_modes(*args, modes=4, elements_along=along, elements_through=through).frequencies
-        cpu = (time.process_time() - start) / 5
+        for _ in range(3):
+            elastic2d.forget_solves()  # each solve afresh (the memo would answer the repeats)
+            f = elastic2d.profile_modes(*args, modes=4, **kw).frequencies
+        return f, (time.process_time() - start) / 3
+
+    ref = elastic2d.profile_modes(*args, modes=4, elements_along=300, elements_through=14).frequencies
+    print(f"\n{'plane stress mesh':24} {'cpu s/solve':>11}  cents from 300 x 14, modes 1-4")
+    for along, through in ((40, 3), (elastic2d.ELEMENTS_ALONG, elastic2d.ELEMENTS_THROUGH), (120, 8)):
+        f, cpu = timed(elements_along=along, elements_through=through)
         print(f"{along:>10} x {through:<11} {cpu:11.3f}  " + "  ".join(f"{1200 * math.log2(a / b):+6.2f}"
                                                                     for a, b in zip(f, ref, strict=True)))
+    ref, _ = timed(width_constants=width, width_order=3, elements_along=120, elements_through=8)
+    print(f"\n{'width resolved (order)':24} {'cpu s/solve':>11}  cents from 120 x 8, order 3, modes 1-4")
+    for along, through, order in ((elastic2d.ELEMENTS_ALONG, elastic2d.ELEMENTS_THROUGH, 2),
+                                  (elastic2d.ELEMENTS_ALONG, elastic2d.ELEMENTS_THROUGH, 3), (120, 8, 2)):
+        f, cpu = timed(width_constants=width, width_order=order, elements_along=along, elements_through=through)
+        print(f"{along:>10} x {through:<3} ({order})    {cpu:11.3f}  "
+              + "  ".join(f"{1200 * math.log2(a / b):+6.2f}" for a, b in zip(f, ref, strict=True)))
 
 
 if __name__ == "__main__":

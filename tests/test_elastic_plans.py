@@ -14,9 +14,12 @@ from cutplan.cli import cli
 from cutplan.design import load_design
 from cutplan.materials import load_library
 from cutplan.physics import elastic2d, timoshenko, undercut
+from cutplan.physics.solid3d import Orthotropic
+from cutplan.planning import grain
 from cutplan.planning.frequency import plane_constants
 from cutplan.planning.planner import plan
 from cutplan.render.table import plan_dict
+from tests.physics.solid3d import vertical_bending
 
 ROOT = Path(__file__).resolve().parents[1]
 ARCHED_EXAMPLES = sorted(p.stem for p in (ROOT / "examples").glob("*.toml")
@@ -29,21 +32,35 @@ def cents(a, b):
 
 @lru_cache(maxsize=64)
 def fine_modes(outline, constants, width):
-    """The printed profile on a mesh twice as fine each way: an independent solve of the bar."""
+    """The printed profile on a mesh twice as fine each way, plane stress: an independent solve of
+    the plane-stress body (for the 1-D design's and the trim rate's checks)."""
     xs, hs = np.array(outline).T
     return elastic2d.profile_modes(xs, hs, width, *constants, modes=3,
                                    elements_along=2 * elastic2d.ELEMENTS_ALONG,
                                    elements_through=2 * elastic2d.ELEMENTS_THROUGH)
 
 
-def check_arched_bar(piece, spec_like):
-    mat, width = spec_like
-    p = plane_constants(mat)
-    m = fine_modes(piece.arch.outline, (p.modulus_along, p.modulus_across, p.shear_modulus, p.poisson, p.density),
-                   width)
+def printed_modes(piece, spec):
+    """The printed profile (``arch.outline``, the JSON ``profile_mm``) re-solved by the width-resolved
+    2-D model with the set's constants (the plan's own solve of it is remembered, so this is cheap)."""
+    xs, hs = np.array(piece.arch.outline).T
+    return plane_constants(grain.applied(spec).material, spec.grain).modes(xs, hs, spec.section.width, modes=3)
+
+
+def check_arched_bar(piece, spec):
+    m = printed_modes(piece, spec)
     assert abs(cents(m.frequencies[0], piece.target_hz)) < 2.0, piece.label
     for k, ratio in enumerate(piece.arch.ratios):
         assert abs(cents(m.frequencies[k + 1] / m.frequencies[0], ratio)) < 2.0, (piece.label, k)
+
+
+def solid_modes(piece, spec, modes):
+    """The printed profile as an orthotropic 3-D solid (tests/physics/solid3d.py, 27-node bricks,
+    half the width, mesh 40 x 2 x 3): the independent model."""
+    xs, hs = np.array(piece.arch.outline).T
+    c = grain.axis_constants(spec.material, spec.grain, "elastic-2d")
+    return vertical_bending(xs, hs, spec.section.width, c[0], 0.0, spec.material.density, modes=modes, along=40,
+                            across=2, through=3, constants=Orthotropic(*c))
 
 
 def test_there_is_an_arched_example():
@@ -52,16 +69,25 @@ def test_there_is_an_arched_example():
 
 @pytest.mark.parametrize("name", ARCHED_EXAMPLES)
 def test_every_arched_bar_of_every_example_sounds_as_planned_in_2d(name, example_plan):
-    # Issue requirement, checked on an independent solve: the printed profile (JSON profile_mm)
-    # on a mesh four times as fine, within 2 cents of f1 and of every tuned ratio.
+    # Issue requirement: the printed profile (JSON profile_mm), solved by the width-resolved 2-D
+    # model, within 2 cents of f1 and of every tuned ratio, for every arched bar.  And against
+    # the independent model, the orthotropic 3-D solid, for the shortest (stubbiest, where the
+    # models part most) arched bar: within 2 cents too.  Measured when written on the
+    # music-room marimba's C5 bar: 3-D minus target +0.5 cent (f1) and +0.7 cent (f2 / f1 against
+    # 4); its C4 bar +0.2 and +0.3 (plane stress, the model the plan used before, is 3 to 6 cents
+    # low on these bars).
     design, _ = load_design(ROOT / "examples" / f"{name}.toml", lambda dirs: load_library(dirs))
     specs = {s.name: s for s in design.sets}
     arched = [p for p in example_plan(name).pieces if p.arch is not None]
     assert arched
     for piece in arched:
-        spec = specs[piece.set]
         assert piece.model == "elastic-2d"  # the default for undercut bars
-        check_arched_bar(piece, (spec.material, spec.section.width))
+        check_arched_bar(piece, specs[piece.set])
+    shortest = min(arched, key=lambda p: p.length)
+    solid = solid_modes(shortest, specs[shortest.set], 1 + len(shortest.arch.ratios))
+    assert abs(cents(solid[0], shortest.target_hz)) < 2.0
+    for k, ratio in enumerate(shortest.arch.ratios):
+        assert abs(cents(solid[k + 1] / solid[0], ratio)) < 2.0
 
 
 def test_json_profile_reproduces_the_arch(example_json):
@@ -82,6 +108,9 @@ def test_json_profile_reproduces_the_arch(example_json):
             assert np.max(np.abs(np.interp(fine, xs, hs) - exact)) < 0.02e-3  # 0.02 mm
         constants = [s["elastic_constants"] for s in data["sets"] if s["kind"] == "bar"]
         assert constants and all(c["modulus_along_gpa"] > 0 and c["density_kg_m3"] > 0 for c in constants)
+        # the width axis's constants the bars were designed with, as numbers too
+        assert all(isinstance(c["modulus_width_gpa"], float) and c["shear_modulus_width_thickness_gpa"] > 0
+                   for c in constants)
 
 
 THREE = """
@@ -115,7 +144,7 @@ def test_arched_bars_hit_target_and_ratios_on_a_finer_mesh(tmp_path, note, mater
                                                  ratios=ratios, arch=arch, min_t=min_t, extra=""))
     spec = design.sets[0]
     (piece,) = p.pieces
-    check_arched_bar(piece, (spec.material, spec.section.width))
+    check_arched_bar(piece, spec)
     # the reported partials are the 2-D ones at the design mesh
     assert abs(cents(piece.partials_hz[0], piece.target_hz)) < 0.05
 
@@ -191,16 +220,18 @@ def test_uniform_bars_on_the_2d_model_agree_with_timoshenko(tmp_path):
     design, p2 = make_plan(tmp_path, UNIFORM.format(model="elastic-2d"))
     _, p1 = make_plan(tmp_path, UNIFORM.format(model="timoshenko"))
     spec = design.sets[0]
-    pc = plane_constants(spec.material)
     for a, b in zip(p2.pieces, p1.pieces, strict=True):
         assert a.model == "elastic-2d"
         assert abs(cents(a.partials_hz[0], a.target_hz)) < 0.05
         assert a.length == pytest.approx(b.length, rel=0.002)
-        m = elastic2d.profile_modes([0.0, a.length], [0.02, 0.02], 0.04, pc.modulus_along, pc.modulus_across,
-                                    pc.shear_modulus, pc.poisson, pc.density, modes=1, elements_along=120,
-                                    elements_through=8)
-        assert abs(cents(m.frequencies[0], a.target_hz)) < 0.5
         assert a.nodes[0] == pytest.approx(b.nodes[0], rel=0.01)
+    # the shorter bar as the independent model, the orthotropic 3-D solid (tests/physics/solid3d.py,
+    # mesh 40 x 2 x 3), within 1 cent of the target (measured when written: +0.08 cent; the C5 bar +0.05)
+    a = p2.pieces[-1]
+    c = grain.axis_constants(spec.material, spec.grain, "elastic-2d")
+    solid = vertical_bending([0.0, a.length], [0.02, 0.02], 0.04, c[0], 0.0, spec.material.density, modes=1,
+                             along=40, across=2, through=3, constants=Orthotropic(*c))
+    assert abs(cents(solid[0], a.target_hz)) < 1.0
 
 
 def test_slender_warning_compares_with_the_default_model_at_its_own_modulus(tmp_path):
@@ -236,7 +267,9 @@ def test_elastic_constants_are_numbers_in_json(tmp_path):
     _, p = make_plan(tmp_path, UNIFORM.format(model="elastic-2d"))
     (s,) = plan_dict(p)["sets"]
     c = s["elastic_constants"]
-    assert set(c) == {"modulus_along_gpa", "modulus_across_gpa", "shear_modulus_gpa", "poisson", "density_kg_m3"}
+    assert set(c) == {"modulus_along_gpa", "modulus_across_gpa", "shear_modulus_gpa", "poisson", "density_kg_m3",
+                      "modulus_width_gpa", "shear_modulus_length_width_gpa", "shear_modulus_width_thickness_gpa",
+                      "poisson_length_width", "poisson_width_thickness"}
     assert all(isinstance(v, float) for v in c.values())
 
 
@@ -257,3 +290,20 @@ def test_a_stubby_bar_on_the_2d_model_is_warned_as_on_the_1d_model(tmp_path, arc
     assert piece.length / depth < 8
     stubby = [w.message for w in piece.warnings if w.message.startswith("stubby bar:")]
     assert stubby == [f"stubby bar: length is {piece.length / depth:.1f} x its thickness; cut a test bar and calibrate"]
+
+
+def test_plan_and_trim_solve_an_arched_bar_alike(example_plan):
+    # One model for plan and trim (a contract, not a physics check): trim's model of the bar
+    # (the set's constants, its sawing, the width resolved) solves the printed profile to the
+    # partials the plan reports.
+    from cutplan.tuning.arched import bar_data
+
+    name = ARCHED_EXAMPLES[0]
+    design, _ = load_design(ROOT / "examples" / f"{name}.toml", lambda dirs: load_library(dirs))
+    specs = {s.name: s for s in design.sets}
+    piece = next(p for p in example_plan(name).pieces if p.arch is not None)
+    bar = bar_data(specs[piece.set])
+    assert bar.width_constants is not None
+    xs, hs = np.array(piece.arch.outline).T
+    for a, b in zip(bar.frequencies(xs, hs, len(piece.partials_hz)), piece.partials_hz, strict=True):
+        assert abs(cents(a, b)) < 0.01

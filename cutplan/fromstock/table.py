@@ -13,7 +13,7 @@ from __future__ import annotations
 import numpy as np
 
 import cutplan
-from cutplan.planning.planner import STUBBY_RATIO
+from cutplan.planning.frequency import STUBBY_RATIO
 from cutplan.planning.service import REFUSALS, guarded_plan
 
 __all__ = ["PLAN_CHUNK", "SETS_PER_PLAN", "cut_length_table", "stubby_below"]

@@ -40,7 +40,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-__all__ = ["WIDTH_ORDER", "WidthConstants", "field_terms", "assemble"]
+__all__ = ["WIDTH_ORDER", "KINDS", "WidthConstants", "field_terms", "assemble", "kron_assemble"]
 
 WIDTH_ORDER = 2
 """Highest power pair kept across the width, P [-] (see the module notes for its accuracy)."""
@@ -89,14 +89,17 @@ def _stiffness_3d(e_along, e_thick, g_xz, nu_xz, w):
     return d
 
 
-def assemble(basis, width, e_along, e_thick, g_xz, nu_xz, density, w, order=WIDTH_ORDER, block=64):
+def assemble(basis, width, e_along, e_thick, g_xz, nu_xz, density, w, order=WIDTH_ORDER):
     """Stiffness and mass of the width-resolved bar on a scalar quadratic ``basis`` of the side view.
+
+    Every strain is a sum of (a field's value or its x or z derivative) x a constant, so the
+    stiffness is a sum over the nine pairs of those three kinds of the scalar matrix of that pair
+    (e.g. the integral of dphi_a/dx dphi_b/dz) times a small field-by-field matrix of constants
+    (a Kronecker product); the mass is the scalar mass matrix times the fields' mass moments.
 
     Returns (K, M, fields): global DOF ``len(fields) * node + f`` for field ``f`` of
     :func:`field_terms`; K and M in CSC form.
     """
-    from scipy.sparse import coo_matrix  # here, not at the top: a plan without 2-D bars never loads scipy
-
     fields = field_terms(order)
     n_f = len(fields)
     half = width / 2
@@ -105,42 +108,57 @@ def assemble(basis, width, e_along, e_thick, g_xz, nu_xz, density, w, order=WIDT
     # generalised strains: (strain component, power of sigma); each field's share of them
     strains = sorted({s for c, n in fields for s in _strain_parts(c, n)})
     where = {s: i for i, s in enumerate(strains)}
-    n_g = len(strains)
     d_g = np.array([[d[i, j] * moments[n + m] for j, m in strains] for i, n in strains])
     m_g = np.array([[density * moments[n1 + n2] if c1 == c2 else 0.0 for c2, n2 in fields] for c1, n1 in fields])
+    kinds = KINDS
+    coefficients = np.zeros((3, 3, n_f, n_f))
+    for f, (c, n) in enumerate(fields):
+        for g, (c2, n2) in enumerate(fields):
+            for s1, k1, a1 in _strain_terms(c, n, half):
+                for s2, k2, a2 in _strain_terms(c2, n2, half):
+                    coefficients[kinds.index(k1), kinds.index(k2), f, g] += d_g[where[s1], where[s2]] * a1 * a2
+    k, m = kron_assemble(basis, coefficients, m_g)
+    return k, m, fields
+
+
+KINDS = ("value", "dx", "dz")
+"""What of a scalar field a strain takes: its value, its x or its z derivative."""
+
+
+def kron_assemble(basis, coefficients, mass):
+    """K = sum over kind pairs (i, j) of S_ij (x) C_ij and M = S_00 (x) ``mass``, in CSC form.
+
+    S_ij is the scalar matrix of :data:`KINDS` i and j on the scalar ``basis`` (the integral of
+    e.g. dphi_a/dx dphi_b/dz), ``coefficients`` C the (3, 3, n, n) field-by-field constants and
+    ``mass`` the (n, n) one; global DOF ``n * node + field``.
+    """
+    from scipy.sparse import bsr_matrix  # here, not at the top: a plan without 2-D bars never loads scipy
+
+    n_f = mass.shape[0]
     values = np.stack([np.asarray(phi[0]) for phi in basis.basis])  # (a, e, q)
     grads = np.stack([phi[0].grad for phi in basis.basis])  # (a, 2, e, q)
+    shapes = (values, grads[:, 0], grads[:, 1])
+    dx = basis.dx  # (e, q)
     dofs = basis.element_dofs  # (a, e)
-    n_a, n_e = dofs.shape
-    rows, cols, k_data, m_data = [], [], [], []
-    for start in range(0, n_e, block):
-        sl = slice(start, min(start + block, n_e))
-        dx = basis.dx[sl]  # (e, q)
-        val, gx, gz = values[:, sl], grads[:, 0, sl], grads[:, 1, sl]
-        b = np.zeros(dx.shape + (n_g, n_a, n_f))  # (e, q, strain, node, field)
-        for f, (c, n) in enumerate(fields):
-            for (s, kind, factor) in _strain_terms(c, n, half):
-                part = {"dx": gx, "dz": gz, "value": val}[kind] * factor
-                b[:, :, where[s], :, f] += part.transpose(1, 2, 0)
-        b = b.reshape(dx.shape + (n_g, n_a * n_f))
-        db = (d_g @ b) * dx[..., None, None]
-        # sum over quadrature points and strains as one batched matrix product per element
-        x = b.transpose(0, 3, 1, 2).reshape(dx.shape[0], n_a * n_f, -1)
-        y = db.transpose(0, 3, 1, 2).reshape(dx.shape[0], n_a * n_f, -1)
-        ke = x @ y.transpose(0, 2, 1)
-        scalar = (val.transpose(1, 0, 2) * dx[:, None, :]) @ val.transpose(1, 2, 0)  # (e, a, b)
-        me = (scalar[:, :, None, :, None] * m_g[None, None, :, None, :]).reshape(-1, n_a * n_f, n_a * n_f)
-        vec = (n_f * dofs[:, sl].T[:, :, None] + np.arange(n_f)).reshape(-1, n_a * n_f)
-        rows.append(np.repeat(vec, n_a * n_f, axis=1).ravel())
-        cols.append(np.tile(vec, (1, n_a * n_f)).ravel())
-        k_data.append(ke.ravel())
-        m_data.append(me.ravel())
+    # one pattern of node pairs (CSR order) for every scalar matrix
+    pair = (dofs[:, None, :] * basis.N + dofs[None, :, :]).transpose(2, 0, 1).ravel()  # (e, a, b)
+    keys, inverse = np.unique(pair, return_inverse=True)
+    scalar = np.zeros((3, 3, keys.size))
+    for i in range(3):
+        for j in range(3):
+            if np.any(coefficients[i, j]) or (i == j == 0):
+                local = np.einsum("aeq,beq,eq->eab", shapes[i], shapes[j], dx)
+                scalar[i, j] = np.bincount(inverse, weights=local.ravel(), minlength=keys.size)
+    rows, cols = keys // basis.N, keys % basis.N
+    indptr = np.searchsorted(rows, np.arange(basis.N + 1))
     size = n_f * basis.N
-    rows, cols = np.concatenate(rows), np.concatenate(cols)
-    k = coo_matrix((np.concatenate(k_data), (rows, cols)), shape=(size, size)).tocsc()
-    m = coo_matrix((np.concatenate(m_data), (rows, cols)), shape=(size, size)).tocsc()
+    k_blocks = np.einsum("ijp,ijfg->pfg", scalar, coefficients)
+    m_blocks = scalar[0, 0][:, None, None] * mass[None, :, :]
+    k = bsr_matrix((k_blocks, cols, indptr), shape=(size, size)).tocsc()
+    m = bsr_matrix((m_blocks, cols, indptr), shape=(size, size)).tocsc()
+    k.eliminate_zeros()
     m.eliminate_zeros()
-    return k, m, fields
+    return k, m
 
 
 def _strain_terms(component, power, half):

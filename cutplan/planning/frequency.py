@@ -9,10 +9,11 @@ from cutplan import pitch
 from cutplan.design.notices import STUBBY, Notice
 from cutplan.physics import air_column, beam, beam_fe, timoshenko, undercut, uniform
 from cutplan.physics.undercut2d import PlaneConstants, trimmed_profile
+from cutplan.physics.width_terms import WidthConstants
 from cutplan.planning import air_calibrated, grain
 
 __all__ = [
-    "STRIKE_NOTE_MODE", "partial_notes", "cents_per_mm", "beam_constants", "beam_frequency_function",
+    "STRIKE_NOTE_MODE", "STUBBY_RATIO", "stubby_bar_warnings", "partial_notes", "cents_per_mm", "beam_constants", "beam_frequency_function",
     "air_frequency_function", "plane_constants", "undercut_frequency_function", "profile_frequency_function",
     "piece_frequency_function"
 ]
@@ -98,21 +99,28 @@ def air_frequency_function(spec):
 
 
 def plane_constants(mat, sawing="unknown"):
-    """Constants of the thickness plane for the 2-D model (E along, E across, G, Poisson, rho).
+    """Constants of the 2-D model that designs, trims and calibrates undercut (and ``elastic-2d``)
+    bars: the thickness plane (E along, E across, G, Poisson, rho) and the width axis, resolved
+    (:class:`cutplan.physics.width_terms.WidthConstants`: plane stress alone is 5 to 19 cents
+    low on a deep arch).
 
     E along is the material's true modulus. For a wood whose table gives the across-grain
     constants, E across the thickness, G of the length-thickness plane and Poisson's ratio are
     those of the bar's sawing (:func:`cutplan.planning.grain.bending_plane_constants`; a calibrated or
-    inline G is taken as that plane's G); otherwise E across is the record's ``modulus_across``
-    where it has one, else E along, and G the material's shear modulus.
+    inline G is taken as that plane's G), and the width axis takes the sawing's E across the width,
+    G of the length-width and width-thickness planes and their Poisson's ratios
+    (:func:`cutplan.planning.grain.axis_constants`); otherwise the material is isotropic: E across
+    is E along, every G the material's shear modulus and every Poisson's ratio its own.
     """
     e = mat.modulus_for("elastic-2d")
+    _, e_y, _, g_xy, _, g_yz, nu_xy, _, nu_yz = grain.axis_constants(mat, sawing, "elastic-2d")
+    width = WidthConstants(e_y, g_xy, g_yz, nu_xy, nu_yz)
     if grain.is_orthotropic(mat):
         thick = grain.bending_plane_constants(mat, sawing, "elastic-2d")[0]
         shear = mat.shear_modulus_for("elastic-2d") if mat.shear_modulus else thick.shear_modulus
-        return PlaneConstants(e, thick.modulus_across, shear, thick.poisson, mat.density)
+        return PlaneConstants(e, thick.modulus_across, shear, thick.poisson, mat.density, width)
     across = getattr(mat, "modulus_across", None) or e
-    return PlaneConstants(e, across, mat.shear_modulus_for("elastic-2d"), mat.poisson, mat.density)
+    return PlaneConstants(e, across, mat.shear_modulus_for("elastic-2d"), mat.poisson, mat.density, width)
 
 
 def undercut_frequency_function(spec, arch, length=None):
@@ -148,10 +156,13 @@ def undercut_frequency_function(spec, arch, length=None):
     return f
 
 
-def profile_frequency_function(spec, stations):
+def profile_frequency_function(spec, stations, resolved=True):
     """f(L) [Hz] of mode 1 in the 2-D model of a bar with this profile ((x, h) [m], end to end),
-    cut to length L by taking the same off each end: the arch stays where it is."""
+    cut to length L by taking the same off each end: the arch stays where it is.  The designing
+    body, the width resolved; ``resolved=False`` gives plane stress (for the slope alone, see
+    :func:`cutplan.planning.elastic._trim_rate`)."""
     plane, width = plane_constants(spec.material, spec.grain), spec.section.width
+    plane = plane if resolved else plane.plane_stress()
 
     def f(length):
         xs, hs = trimmed_profile(stations, float(length))

@@ -226,7 +226,8 @@ def _set_summary(spec: SetSpec, units="mm", den=INCH_DENOMINATOR):
                                   else ""))
         assumptions.append({"timoshenko": "shear-corrected (Timoshenko) free-free beam, Cowper shear coefficient",
                             "slender": "slender (Euler-Bernoulli) free-free beam",
-                            "elastic-2d": "2-D elastic body through the thickness (plane stress, quadratic finite "
+                            "elastic-2d": "2-D elastic body through the thickness, the width resolved (3-D "
+                                          "elasticity, polynomial terms across the width; quadratic finite "
                                           "elements), free-free"}[model])
         constants = elastic.elastic_constants(spec)
         if model == "elastic-2d":

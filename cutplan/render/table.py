@@ -90,7 +90,10 @@ def piece_dict(p):
 def _constants(pairs):
     """Elastic constants as numbers: moduli in GPa, density in kg/m3, Poisson ratio."""
     units = {"modulus_along": ("modulus_along_gpa", 1e9), "modulus_across": ("modulus_across_gpa", 1e9),
-             "shear_modulus": ("shear_modulus_gpa", 1e9), "density": ("density_kg_m3", 1.0), "poisson": ("poisson", 1.0)}
+             "shear_modulus": ("shear_modulus_gpa", 1e9), "density": ("density_kg_m3", 1.0), "poisson": ("poisson", 1.0),
+             "modulus_width": ("modulus_width_gpa", 1e9), "shear_modulus_length_width": ("shear_modulus_length_width_gpa", 1e9),
+             "shear_modulus_width_thickness": ("shear_modulus_width_thickness_gpa", 1e9),
+             "poisson_length_width": ("poisson_length_width", 1.0), "poisson_width_thickness": ("poisson_width_thickness", 1.0)}
     return {units[k][0]: _r(v / units[k][1], 4) for k, v in pairs}
 
 

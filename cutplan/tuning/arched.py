@@ -13,7 +13,7 @@ from cutplan.physics import beam_fe
 from cutplan.physics.undercut import arch_thickness
 from cutplan.render.phrases import removal_lines
 from cutplan.tuning import removal
-from cutplan.tuning.profile_model import elastic_constants, profile_modes
+from cutplan.tuning.profile_model import elastic_constants
 from cutplan.tuning.trim_service import (
     IN_TUNE_CENTS,
     TrimError,
@@ -40,17 +40,17 @@ def planned_profile(piece, length_now):
 
 
 def bar_data(spec):
-    """The model's constants of a set's material and section."""
-    e, across, g, nu = elastic_constants(spec.material)
-    return removal.BarData(spec.section.width, e, across, g, nu, spec.material.density, spec.undercut.min_thickness)
+    """The model's constants of a set's material, sawing and section (the plan's, the width resolved)."""
+    e, across, g, nu, width = elastic_constants(spec.material, getattr(spec, "grain", "unknown"))
+    return removal.BarData(spec.section.width, e, across, g, nu, spec.material.density, spec.undercut.min_thickness,
+                           width)
 
 
 def support_distances(bar, xs, hs):
     """Distances of the mode-1 nodes from the centre line [m] of the profile (the model's own
     nodes where it reports them, else the 1-D model's mode shape)."""
     length = float(xs[-1] - xs[0])
-    r = profile_modes(xs, hs, bar.width, bar.modulus_along, bar.modulus_across, bar.shear_modulus, bar.poisson,
-                      bar.density, modes=1)
+    r = bar.modes(xs, hs)  # as many modes as the advice solves: the same solve, remembered
     nodes = getattr(r, "nodes", None)
     if nodes:
         found = nodes[0]

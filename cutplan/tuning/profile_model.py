@@ -28,14 +28,16 @@ __all__ = ["elastic_constants", "profile_modes"]
 
 
 
-def elastic_constants(material):
-    """(E along, E across, G, nu) [Pa, Pa, Pa, -] of a material, the constants the plan designs
-    its undercut bars with (:func:`cutplan.planning.frequency.plane_constants`), so trim and plan agree."""
-    c = plane_constants(material)
-    return c.modulus_along, c.modulus_across, c.shear_modulus, c.poisson
+def elastic_constants(material, sawing="unknown"):
+    """(E along, E across, G, nu, width constants) [Pa, Pa, Pa, -, WidthConstants] of a material
+    sawn ``sawing``, the constants the plan designs its undercut bars with
+    (:func:`cutplan.planning.frequency.plane_constants`, the width resolved), so trim and plan agree."""
+    c = plane_constants(material, sawing)
+    return c.modulus_along, c.modulus_across, c.shear_modulus, c.poisson, c.width
 
 
-def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_modulus, poisson, density, modes=4):
+def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_modulus, poisson, density, modes=4,
+                  width_constants=None):
     """Free-free bending modes of a bar whose thickness is ``thickness`` [m] at stations ``xs`` [m].
 
     Parameters
@@ -56,6 +58,9 @@ def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_mod
         [kg/m^3].
     modes : int
         Number of modes [-].
+    width_constants : WidthConstants, optional
+        The width axis's constants: given, the 2-D model resolves the width (the 1-D fallback
+        has no use for them).
 
     Returns
     -------
@@ -66,7 +71,7 @@ def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_mod
     except ImportError:
         return _beam_fe_modes(xs, thickness, width, modulus_along, shear_modulus, poisson, density, modes)
     return modes_2d(xs, thickness, width, modulus_along, modulus_across, shear_modulus, poisson, density,
-                    modes=modes)
+                    modes=modes, width_constants=width_constants)
 
 
 def _beam_fe_modes(xs, thickness, width, modulus, shear_modulus, poisson, density, modes):

@@ -8,7 +8,10 @@ stations.  Trimming both ends by e is one more unknown.
 
 Each partial's sensitivity to each of these cuts, S_ij [cents per mm], is found by finite
 differences on the model of the current profile (:func:`profile_model.profile_modes`): nothing
-is assumed about where a cut lowers or raises which partial.  The cuts are the bounded least-
+is assumed about where a cut lowers or raises which partial.  The model is the plan's, the width
+resolved; the finite differences take its plane-stress body (a sixth of the cost, and resolving
+the width shifts the partials by a nearly constant amount), while the base and every predicted
+profile are solved with the width resolved, so the chord steps below land on that model's answer.  The cuts are the bounded least-
 squares solution of
 
 .. math:: \min_{0 \le d \le d_{max},\; e \ge 0} \| S\,[d; e] - \Delta c \|^2
@@ -27,11 +30,12 @@ from the profile the cuts left.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 # scipy.optimize is imported where used: a chime plan (0.72 s CPU) never needs it; at the top it adds 0.57 s (measured)
 import numpy as np
 
+from cutplan.physics.width_terms import WidthConstants
 from cutplan.tuning.profile_model import profile_modes
 
 __all__ = [
@@ -61,7 +65,8 @@ reachable by removal alone [cents]."""
 @dataclass(frozen=True)
 class BarData:
     """What the model needs besides the profile: width [m], moduli [Pa], Poisson's ratio [-],
-    density [kg/m^3] and the least thickness the builder will leave [m]."""
+    density [kg/m^3], the least thickness the builder will leave [m] and the width axis's
+    constants (given, the width is resolved, as the plan designs; else plane stress)."""
 
     width: float
     modulus_along: float
@@ -70,12 +75,20 @@ class BarData:
     poisson: float
     density: float
     min_thickness: float
+    width_constants: WidthConstants | None = None
+
+    def modes(self, xs, hs, modes=4):
+        """The model's solve of the profile (xs, hs): ``.frequencies`` [Hz] and, in 2-D, ``.nodes``."""
+        return profile_modes(xs, hs, self.width, self.modulus_along, self.modulus_across, self.shear_modulus,
+                             self.poisson, self.density, modes=modes, width_constants=self.width_constants)
 
     def frequencies(self, xs, hs, modes=4):
         """Model frequencies [Hz] of the profile (xs, hs)."""
-        r = profile_modes(xs, hs, self.width, self.modulus_along, self.modulus_across, self.shear_modulus,
-                          self.poisson, self.density, modes=modes)
-        return np.asarray(r.frequencies, dtype=float)[:modes]
+        return np.asarray(self.modes(xs, hs, modes).frequencies, dtype=float)[:modes]
+
+    def plane_stress(self):
+        """The same bar without the width axis: the fast plane-stress body."""
+        return replace(self, width_constants=None)
 
 
 def model_grid(length, stations=STATIONS):
@@ -196,7 +209,9 @@ def advise_removal(bar, xs, hs, measured_hz, targets_hz, modes=4):
     tuned = [i for i, t in enumerate(targets_hz[:k]) if t]
     wanted = np.array([cents(targets_hz[i], measured[i]) for i in tuned])
     xs, hs = np.asarray(xs, dtype=float), np.asarray(hs, dtype=float)
-    base, sens, solves = sensitivities(bar, xs, hs, modes)
+    base = bar.frequencies(xs, hs, modes)
+    _, sens, solves = sensitivities(bar.plane_stress(), xs, hs, modes)
+    solves += 1
     length = xs[-1] - xs[0]
     stations = station_positions(length)
     room = np.interp(stations, xs - xs[0], hs) - bar.min_thickness

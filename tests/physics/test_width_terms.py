@@ -27,11 +27,13 @@ def arch():
 
 
 @lru_cache(maxsize=8)
-def modes(order, nu=NU, resolved=True):
+def modes(order, nu=NU, resolved=True, refine=1):
     xs, hs = arch()
     width = WidthConstants.isotropic(E, nu) if resolved else None
     return elastic2d.profile_modes(xs, hs, WIDTH, E, E, E / (2 * (1 + nu)), nu, RHO, modes=3,
-                                   width_constants=width, width_order=order).frequencies
+                                   width_constants=width, width_order=order,
+                                   elements_along=refine * elastic2d.ELEMENTS_ALONG,
+                                   elements_through=refine * elastic2d.ELEMENTS_THROUGH).frequencies
 
 
 def test_without_poisson_coupling_across_the_width_it_is_plane_stress():
@@ -63,6 +65,14 @@ def test_more_terms_across_the_width_move_the_modes_by_little_and_only_down():
     # of order 3).  Measured when written: order 3 minus order 2 -0.5, -0.4, -0.4 cents.
     for low, high in zip(modes(2), modes(3), strict=True):
         assert -1.0 < cents(high, low) <= 1e-6
+
+
+def test_the_mesh_the_plan_designs_on_is_converged_with_the_width_resolved():
+    # Mesh study of the body that designs the arched bars (order 2 across the width): twice as many
+    # elements each way move modes 1-3 of the deep aluminium arch by under 0.5 cent (measured when
+    # written: -0.16, -0.20, -0.24 cent), as for plane stress (tests/physics/test_elastic2d.py).
+    for coarse, fine in zip(modes(2), modes(2, refine=2), strict=True):
+        assert abs(cents(fine, coarse)) < 0.5
 
 
 @pytest.mark.parametrize("order", [1, 2])

@@ -33,7 +33,7 @@ def _nodes(piece, spec, length):
     as fine as the default (uniform bars: a different method from the planner's closed form)."""
     from cutplan.physics.elastic2d import profile_modes
 
-    e, across, g, nu = elastic_constants(spec.material)
+    e, across, g, nu, _ = elastic_constants(spec.material)
     xs = np.linspace(0.0, length, 401)
     if piece.arch is None:
         hs = np.full(xs.size, spec.section.thickness)

@@ -19,6 +19,7 @@ import pytest
 import cutplan
 from cutplan.physics.elastic2d import profile_modes
 from cutplan.physics.undercut import arch_thickness
+from cutplan.physics.width_terms import WidthConstants
 from cutplan.tuning import trim_report
 from cutplan.tuning.profile_model import elastic_constants
 
@@ -36,20 +37,25 @@ def _cents(a, b):
 
 class Bench:
     """The real bar: its profile (xs, hs) [m] from end A and the wood it is made of.  It is
-    "recorded" with the 2-D model on a mesh twice as fine along and half again through the bar
-    as the tool's, over the bar's own 240-segment profile (the tool models 48)."""
+    "recorded" with the 2-D model, the width resolved, on a mesh twice as fine along and half
+    again through the bar as the tool's, over the bar's own 240-segment profile (the tool models
+    48)."""
 
     def __init__(self, piece, spec, stiffness=1.03, shear=0.97):
         a = piece.arch
         self.xs = np.linspace(0.0, piece.cut_length, 241)
         shift = (piece.cut_length - piece.length) / 2  # the arch centred on the rough blank
         self.hs = arch_thickness(self.xs - shift, piece.length, a.thickness, a.depth, a.arch_width, a.exponent)
-        e, across, g, nu = elastic_constants(spec.material)
+        e, across, g, nu, w = elastic_constants(spec.material)
         self.wood = (spec.section.width, e * stiffness, across * stiffness, g * shear, nu, spec.material.density)
+        self.width = WidthConstants(w.modulus_width * stiffness, w.shear_length_width * shear,
+                                    w.shear_width_thickness * shear, w.poisson_length_width,
+                                    w.poisson_width_thickness)
 
     def record(self):
         """Partials 1-3 of the bar as it is now [Hz] (the oracle)."""
-        r = profile_modes(self.xs, self.hs, *self.wood, modes=3, elements_along=120, elements_through=6)
+        r = profile_modes(self.xs, self.hs, *self.wood, modes=3, elements_along=120, elements_through=6,
+                          width_constants=self.width)
         return tuple(float(f) for f in r.frequencies[:3])
 
     def follow(self, report):
