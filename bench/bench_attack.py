@@ -174,6 +174,20 @@ def hostile(work):
     return row
 
 
+def _tally(procs, row, timeout):
+    """Wait for processes run side by side and count them into ``row`` (a hang is killed)."""
+    for p in procs:
+        try:
+            _, err = p.communicate(timeout=timeout)
+        except subprocess.TimeoutExpired:
+            p.kill()
+            row["hangs"] += 1
+            continue
+        row["runs"] += 1
+        row["tracebacks"] += "Traceback" in err
+        row["ok" if p.returncode == 0 else "refused"] += p.returncode in (0, 2)
+
+
 TWO_BARS = """title = "two bars"
 [[set]]
 name = "bars"
@@ -195,16 +209,7 @@ def trims(n, work):
         procs = [subprocess.Popen(command + [str(design), label, "--measured", measured], cwd=ROOT, text=True,
                                   stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
                  for label, measured in (("bars-1", "255.2, 1049.8"), ("bars-2", "286.0, 1180.0"))]
-        for p in procs:
-            try:
-                _, err = p.communicate(timeout=600)
-            except subprocess.TimeoutExpired:
-                p.kill()
-                row["hangs"] += 1
-                continue
-            row["runs"] += 1
-            row["tracebacks"] += "Traceback" in err
-            row["ok" if p.returncode == 0 else "refused"] += p.returncode in (0, 2)
+        _tally(procs, row, 600)
         state = work / f"bars-{k}.trim-state.json"
         kept = json.loads(state.read_text())["pieces"] if state.exists() else {}
         row["lost"] += 2 - len(set(kept) & {"bars-1", "bars-2"})
@@ -331,16 +336,7 @@ def pairs(n, work):
     for _ in range(n):
         procs = [subprocess.Popen(command + [str(d), "-o", str(out), "--force"], cwd=ROOT, text=True,
                                   stdout=subprocess.DEVNULL, stderr=subprocess.PIPE) for d in (a, b)]
-        for p in procs:
-            try:
-                _, err = p.communicate(timeout=300)
-            except subprocess.TimeoutExpired:
-                p.kill()
-                row["hangs"] += 1
-                continue
-            row["runs"] += 1
-            row["tracebacks"] += "Traceback" in err
-            row["ok" if p.returncode == 0 else "refused"] += p.returncode in (0, 2)
+        _tally(procs, row, 300)
         kept = (out / "mine.txt").is_file() and (out / "mine.txt").read_text() == "only copy"
         leftovers = [p for p in work.iterdir() if p.name.startswith(".packet")]
         row["lost"] += (not kept) + len(leftovers)

@@ -18,17 +18,7 @@ import pytest
 import cutplan.layout.columns as columns
 from cutplan.layout.master import Master
 from cutplan.layout.optimiser import Item, StockType, _Work, layout
-
-
-def partitions(n):
-    """Every way to split pieces 0..n-1 into groups (Bell(n) of them)."""
-    if n == 0:
-        yield []
-        return
-    for rest in partitions(n - 1):
-        for k in range(len(rest)):
-            yield rest[:k] + [rest[k] + [n - 1]] + rest[k + 1:]
-        yield rest + [[n - 1]]
+from tests.test_stock import partitions
 
 
 def brute_force(lengths, types, kerf, by_cost):
