@@ -45,6 +45,7 @@ sys.path.insert(0, str(ROOT))
 
 from cutplan.cli import cli  # noqa: E402
 from tests.fuzzing import bad_lengths, broken_wav, mutated_design, to_toml  # noqa: E402
+from tests.tuning.test_trim_state_lock import TWO_BARS  # noqa: E402
 
 DESIGN = ('[[set]]\nkind = "chime"\nnotes = ["D5", "E5"]\nmaterial = "{material}"\n'
           'section = {{ stock = "al-1.000x0.065" }}\n')
@@ -186,17 +187,6 @@ def _tally(procs, row, timeout):
         row["runs"] += 1
         row["tracebacks"] += "Traceback" in err
         row["ok" if p.returncode == 0 else "refused"] += p.returncode in (0, 2)
-
-
-TWO_BARS = """title = "two bars"
-[[set]]
-name = "bars"
-kind = "bar"
-notes = ["C4", "D4"]
-material = "rosewood-honduras"
-section = { shape = "bar", width = "55 mm", thickness = "24 mm" }
-undercut = { ratios = [4.0], arch_width = 0.5, min_thickness = "6 mm" }
-"""
 
 
 def trims(n, work):
