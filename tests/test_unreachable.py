@@ -84,3 +84,24 @@ def test_the_page_puts_an_unreachable_arch_beside_its_ratios():
               "set[1].undercut.ratios": "4", "set[1].undercut.min_thickness": "18 mm"}
     res = client.post("/preview", data=fields).get_json()
     assert not res["ok"] and list(res["errors"]) == ["set[1].undercut.ratios"]
+
+
+WIDE_TOP_BAR = '''[[set]]
+name = "bars"
+kind = "bar"
+notes = ["G#6"]
+material = "rosewood-honduras"
+grain = "flat"
+section = { shape = "bar", width = "55 mm", thickness = "24 mm" }
+undercut = { ratios = [4.0], min_thickness = "5 mm" }
+'''
+
+
+def test_a_wide_top_bar_is_refused_naming_the_note_and_the_cross_width_mode(tmp_path):
+    # a 95-110 mm bar 55 mm wide is a short plate: besides bending along its length it bends
+    # across its width near its second partial (Rayleigh, The Theory of Sound, 1894, vol. 1,
+    # ch. X, from memory: plates have modes with nodal lines along their length; plane stress cannot show
+    # them, the width-resolved body can); the refusal names the bar and says what to change
+    line = _one_line(tmp_path, WIDE_TOP_BAR)
+    assert "set[1].undercut.ratios: [4.0] cannot be reached" in line and "G#6" in line, line
+    assert "across its 55 mm width" in line and "narrower" in line and "only the fundamental" in line, line

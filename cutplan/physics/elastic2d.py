@@ -338,7 +338,11 @@ def _solve(xs, hs, k, m, means, top, e_along, density, modes, elements):
                 longitudinal.append(f)
         if len(bending) >= modes or count >= n - 2:
             break
-        want += modes + 2
+        # too few bending modes among those solved (a short, wide bar has many cross-width and
+        # longitudinal modes below its fourth bending mode): ask for twice as many at once, so
+        # a deep hunt takes a few solves, not dozens of ever larger ones (the lowest modes are
+        # the same either way)
+        want *= 2
     return ProfileModes(frequencies=tuple(bending[:modes]), nodes=tuple(node_sets[:modes]),
                         longitudinal=tuple(longitudinal), elements=elements)
 

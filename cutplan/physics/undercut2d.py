@@ -35,7 +35,7 @@ from cutplan.physics import elastic2d, undercut
 from cutplan.physics.width_terms import WidthConstants
 
 __all__ = [
-    "TOLERANCE_CENTS", "MAX_SOLVES", "WIDTH_TOLERANCE_CENTS", "MAX_WIDTH_SOLVES", "ARCH_STATIONS", "END_STATIONS",
+    "TOLERANCE_CENTS", "MAX_SOLVES", "CROSS_WIDTH_BAND", "WIDTH_TOLERANCE_CENTS", "MAX_WIDTH_SOLVES", "ARCH_STATIONS", "END_STATIONS",
     "PlaneConstants", "arch_stations", "Undercut2d", "design_undercut_2d", "trimmed_profile"
 ]
 
@@ -48,6 +48,9 @@ WIDTH_TOLERANCE_CENTS = 0.1
 to the targets [cents]."""
 MAX_WIDTH_SOLVES = 4
 """Most width-resolved solves one bar may take [-] (a work bound; 1-2 are used)."""
+CROSS_WIDTH_BAND = 0.25
+"""A mode that is not lengthwise bending this close to the second partial (as a fraction of it)
+is named as what keeps a refused bar off its ratio [-]."""
 ARCH_STATIONS = 48
 """Stations on each half of the arch [-] (piecewise linear between them: well under 0.01 mm
 from the smooth curve for the bars of the examples)."""
@@ -212,10 +215,17 @@ def design_undercut_2d(target, ratios, width, thickness, plane, kappa, min_thick
     length, depth = math.exp(v[0]), v[1] * max_depth
     shape = v[2] if three else start.exponent
     if abs(r[0]) > 0.5 or any(abs(x) > 2.0 for x in r[1:]):
+        tuning = ':'.join(f'{x:g}' for x in (1,) + ratios)
+        missed = (f"best leaves {(thickness - depth) * 1000:.1f} mm at the centre, min {min_thickness * 1000:.1f} mm, "
+                  f"and misses by {max(abs(x) for x in r):.1f} cents")
+        across = _cross_width_mode(modes, r) if plane.width is not None else None
+        if across is not None:
+            raise undercut.UndercutError(
+                f"the bar also bends across its {width * 1000:.0f} mm width at {across:.0f} Hz, close to its second "
+                f"partial ({modes.frequencies[1]:.0f} Hz), which pulls that partial off {tuning} ({missed}); make "
+                "the top bars narrower, or tune only the fundamental (or a lower ratio) there")
         raise undercut.UndercutError(
-            f"no arch of width {arch_fraction:g} x L reaches {':'.join(f'{x:g}' for x in (1,) + ratios)} in the "
-            f"2-D model (best leaves {(thickness - depth) * 1000:.1f} mm at the centre, min "
-            f"{min_thickness * 1000:.1f} mm, and misses by {max(abs(x) for x in r):.1f} cents); try another arch "
+            f"no arch of width {arch_fraction:g} x L reaches {tuning} in the 2-D model ({missed}); try another arch "
             "width, a thicker blank or a lower min_thickness")
     return Undercut2d(length=length, depth=depth, arch_fraction=arch_fraction, exponent=shape, thickness=thickness,
                       frequencies=tuple(float(f) for f in modes.frequencies), nodes=tuple(modes.nodes[0]),
@@ -223,6 +233,17 @@ def design_undercut_2d(target, ratios, width, thickness, plane, kappa, min_thick
                       offset_cents=tuple(float(x) for x in offset_now), jacobian=start.jacobian,
                       solves=count[0], width_offset_cents=tuple(float(x) for x in width_offset_now),
                       width_solves=width_solves)
+
+
+def _cross_width_mode(modes, r):
+    """The frequency [Hz] of a mode that is not a lengthwise bending mode (one that bends the
+    section across the width) within :data:`CROSS_WIDTH_BAND` of the second partial, when the
+    tuned ratios are what the design misses; else None."""
+    if len(modes.frequencies) < 2 or not any(abs(x) > 2.0 for x in r[1:]):
+        return None
+    f2 = modes.frequencies[1]
+    near = [f for f in modes.longitudinal if abs(math.log(f / f2)) < math.log(1 + CROSS_WIDTH_BAND)]
+    return min(near, key=lambda f: abs(math.log(f / f2))) if near else None
 
 
 def _search(evaluate, v, r, modes, jac, aim, bounds, count):

@@ -16,6 +16,7 @@ import numpy as np
 from cutplan import pitch
 from cutplan.design.notices import set_key
 from cutplan.physics import beam, beam_fe
+from cutplan.physics.undercut import UndercutError
 from cutplan.physics.undercut2d import WIDTH_TOLERANCE_CENTS, design_undercut_2d
 from cutplan.planning import uncertainty
 from cutplan.planning.allowance import allowances, risk_warning
@@ -72,9 +73,12 @@ def plan_undercut_set_2d(spec, design, stock, progress=None):
     solved, offsets = {}, []
     for i in sorted(range(len(spec.targets)), key=lambda i: spec.targets[i].frequency):
         target = spec.targets[i].frequency
-        r = design_undercut_2d(target, cut.ratios, sec.width, sec.thickness, plane, kappa,
-                               cut.min_thickness, cut.arch_width, guess=guess, jacobian=jacobian, offset=offset,
-                               width_offset=_next_offset(offsets, target))
+        try:
+            r = design_undercut_2d(target, cut.ratios, sec.width, sec.thickness, plane, kappa,
+                                   cut.min_thickness, cut.arch_width, guess=guess, jacobian=jacobian, offset=offset,
+                                   width_offset=_next_offset(offsets, target))
+        except UndercutError as exc:  # the refusal names the bar that cannot be tuned
+            raise UndercutError(f"{spec.targets[i].name} ({target:.1f} Hz): {exc}") from None
         guess, jacobian, offset = (r.length, r.depth, r.exponent), r.jacobian, r.offset_cents
         offsets.append((target, r.width_offset_cents))
         solved[i] = r
