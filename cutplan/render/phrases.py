@@ -108,10 +108,10 @@ def trim_report_lines(piece, report, advice, units="mm", den=INCH_DENOMINATOR):
     return lines
 
 
-def removal_lines(piece, report, units="mm"):
+def removal_lines(piece, report, units="mm", den=INCH_DENOMINATOR):
     """Lines of an undercut bar's trim answer: partials, cuts in work order, what they leave."""
     lines = [f"{piece.label} ({piece.note}, target {piece.target_hz:.2f} Hz), "
-             f"{format_length(report.length_now, units)} long now"]
+             f"{format_length(report.length_now, units, den)} long now"]
     lines += partial_lines(report)
     lines += [f"! {text}" for code, text in report.messages if code in ("far-off", "low-confidence", "unreachable")]
     lines += [text for code, text in report.messages if code not in ("far-off", "low-confidence", "unreachable")]
@@ -123,20 +123,20 @@ def removal_lines(piece, report, units="mm"):
         return lines
     step = 1
     if report.trim_each_end > 0.05e-3:
-        lines.append(f"{step}. trim {format_length(report.trim_each_end, units)} from each end (raises every partial)")
+        lines.append(f"{step}. trim {format_length(report.trim_each_end, units, den)} from each end (raises every partial)")
         step += 1
     if report.removal:
         lines.append(f"{step}. cut from the underside, in this order, each cut blended to nothing "
-                     f"{format_length(report.blend, units)} either side of its stations (x from end A):")
+                     f"{format_length(report.blend, units, den)} either side of its stations (x from end A):")
     pairs = {}
     for x, depth, mode, raises in report.removal:
         pairs.setdefault((depth, mode, raises), []).append(x)
     for k, ((depth, mode, raises), xs) in enumerate(pairs.items(), start=1):
-        where = " and ".join(format_length(v, units) for v in xs)
+        where = " and ".join(format_length(v, units, den) for v in xs)
         lines.append(f"  {chr(96 + k) if k <= 26 else k}) {depth * 1e3:.2f} mm deep at {where} "
                      f"(mostly {'raises' if raises else 'lowers'} partial {mode})")
     lines.append("removal cannot be undone: take each cut in two or three passes and record between them")
     lines.append("expected after: " + ", ".join(f"{f:.1f}" for f in report.predicted_after_hz) + " Hz")
     if report.supports:
-        lines.append(_supports_text(report, units))
+        lines.append(_supports_text(report, units, den))
     return lines

@@ -123,4 +123,4 @@ def arched_report(design, plan, piece, spec, partials, confidence, questions, le
                                 "trim_each_end_mm": round(advice.trim_each_end * 1e3, 3),
                                 "after": profile_entry(after_x, after_h)}
     state["pieces"][piece.label] = new_entry
-    return replace(with_lines(report, removal_lines(piece, report, plan.units)), state=state)
+    return replace(with_lines(report, removal_lines(piece, report, plan.units, plan.inch_denominator)), state=state)

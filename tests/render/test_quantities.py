@@ -234,3 +234,18 @@ def test_planning_and_trim_text_keep_the_designs_inch_fraction(tmp_path):
     assert result.exit_code == 0, result.output
     fractions = re.findall(r"(\d+)/(\d+) in", result.output)
     assert fractions and all(8 % int(d) == 0 for _n, d in fractions), fractions
+
+
+def test_an_undercut_bars_removal_lines_keep_the_designs_inch_fraction(tmp_path):
+    # the trim answer of an arched bar (trim from each end, cut stations, blend, supports) rounds
+    # inches to the design's 1/8, not to the default 1/32 (1 in = 25.4 mm exactly, NIST SP 811,
+    # 2008, B.8); a first bar read 3 % flat with its second partial 10 cents flat of 1:4
+    path, _ = _design(tmp_path, "music-room-marimba.toml", units="in", inch_denominator=8)
+    plan = cutplan.plan(cutplan.load_design(path))
+    p = next(piece for piece in plan.pieces if piece.arch is not None)
+    f1 = p.target_hz * 0.97
+    f2 = f1 * 4.0 * 2 ** (-10 / 1200)
+    result = CliRunner().invoke(cli, ["trim", str(path), p.label, "--measured", f"{f1:.2f}, {f2:.2f}"])
+    assert result.exit_code == 0, result.output
+    fractions = re.findall(r"(\d+)/(\d+) in", result.output)
+    assert fractions and all(8 % int(d) == 0 for _n, d in fractions), fractions
