@@ -305,8 +305,8 @@ def plan(design: Design, progress=None, stock_override=None, tables=None) -> Pla
                 errors.append(DesignError(design.path, set_key(spec, "undercut.ratios"), list(spec.undercut.ratios),
                                           f'cannot be reached in set "{spec.name}": {exc}', notices.UNREACHABLE))
                 continue
-            except ValueError as exc:  # the key, the value and what is allowed, in a builder's words
-                errors.append(reach.refusal(design, spec, exc))
+            except ValueError:  # the key, the value and what is allowed, in a builder's words
+                errors.append(reach.refusal(design, spec))
                 continue
         else:
             if spec.kind == "resonator":

@@ -78,8 +78,9 @@ def _unreachable(spec, f_at):
     return out
 
 
-def refusal(design, spec, exc):
-    """The one-line DesignError for a chime or bar set the solver raised ``exc`` on."""
+def refusal(design, spec):
+    """The one-line DesignError for a chime or bar set the solver could not plan (or planned off
+    target): the first target the model cannot reach, and the highest pitch it can."""
     key = set_key(spec, spec.pitch_key) if spec.pitch_key else set_key(spec)
     try:
         f_at = _frequency_function(spec)
@@ -101,8 +102,8 @@ def refusal(design, spec, exc):
     return DesignError(
         design.path, key, first.name,
         f"({first.frequency:.1f} Hz) is too high for {what}: the shortest piece the beam model covers, "
-        f"{format_length(shortest, design.units)} ({shortest / spec.section.depth:.1f} x its "
-        f"{format_length(spec.section.depth, design.units)} depth), sounds {limit}; choose notes up to that, "
+        f"{format_length(shortest, design.units, design.inch_denominator)} ({shortest / spec.section.depth:.1f} x its "
+        f"{format_length(spec.section.depth, design.units, design.inch_denominator)} depth), sounds {limit}; choose notes up to that, "
         f"or a slimmer section (a thinner bar, a smaller tube)", notices.UNREACHABLE)
 
 
@@ -117,7 +118,7 @@ def _worst_miss(f_at, pieces):
         return None
     if not (np.all(np.isfinite(f)) and np.all(f > 0)):
         return None
-    return float(np.max(np.abs(1200 * np.log2(f / targets))))
+    return float(np.max(np.abs(1200 * np.log2(f / targets))))  # pitch.cents, element by element
 
 
 def missed_target(design, spec, pieces):
@@ -129,10 +130,9 @@ def missed_target(design, spec, pieces):
         return None
     depth = spec.section.depth
     worst = _worst_miss(_frequency_function(spec), pieces)
-    printed = max(abs(1200 * math.log2(p.predicted_hz / p.target_hz)) if p.predicted_hz > 0 else math.inf
+    printed = max(abs(pitch.cents(p.predicted_hz, p.target_hz)) if p.predicted_hz > 0 else math.inf
                   for p in pieces)
     short = min(p.length for p in pieces) < SHORTEST_DEPTHS * depth
     if worst is not None and worst <= REACH_CENTS and printed <= REACH_CENTS and not short:
         return None
-    return refusal(design, spec, ValueError(f"a planned piece misses its target ({worst}, {printed} cents) "
-                                            f"or is under {SHORTEST_DEPTHS} depths long"))
+    return refusal(design, spec)
