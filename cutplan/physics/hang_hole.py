@@ -27,6 +27,7 @@ References
 
 from __future__ import annotations
 
+import functools
 import math
 
 import numpy as np
@@ -66,11 +67,14 @@ def second_moments_left(outer, inner, half_chord):
     return i0 - _strip(-half_chord, half_chord, about_x), i0 - _strip(-half_chord, half_chord, about_y)
 
 
+@functools.lru_cache(maxsize=4096)
 def compliance_integrals(outer, inner, hole):
     """(int (I0 / I - 1) dz in the hole's plane, the same across it) [m] over a round hole of
     diameter ``hole`` [m] drilled through both walls (the chord at z is 2 sqrt((d/2)^2 - z^2)).
 
     The same quadrature as :func:`second_moments_left`, for all stations along the hole at once.
+    Kept per (outer, inner, hole): a set's pieces share one section, and the largest-drill scan
+    asks for the same drills piece after piece.
     """
     if not 0 < hole < inner:
         raise ValueError("the hole must be smaller than the bore")
