@@ -10,6 +10,7 @@ import pytest
 from click.testing import CliRunner
 
 from cutplan.cli import cli
+from tests.pdf_text import page_texts
 
 ROOT = Path(__file__).resolve().parent.parent
 CHIME_EXAMPLES = sorted(p for p in (ROOT / "examples").glob("*.toml") if 'kind = "chime"' in p.read_text())
@@ -222,9 +223,7 @@ def test_no_second_hang_hole_in_any_chime_packet_or_template(tmp_path):
             assert "hang hole 2" not in svg.read_text(encoding="utf-8")
         pdf = (out / "packet.pdf").read_bytes()
         assert b"hang hole 2" not in pdf
-        from pypdf import PdfReader
-
-        text = "".join(page.extract_text() for page in PdfReader(out / "packet.pdf").pages)
+        text = "".join(page_texts(out / "packet.pdf"))
         assert "hang hole 2" not in text and "lower node (no hole)" in text
 
 

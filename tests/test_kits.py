@@ -9,6 +9,7 @@ from click.testing import CliRunner
 import cutplan
 from cutplan.cli import cli
 from cutplan.layout.kits import natural_key
+from tests.pdf_text import page_texts
 
 KITS = """
 title = "Classroom chime kits"
@@ -79,9 +80,7 @@ def test_twelve_kits_share_one_layout_and_one_shopping_list(kits, tmp_path):
     assert svgs == ["chime-1.svg", "chime-2.svg", "chime-3.svg", "chime-4.svg", "chime-5.svg",
                     "chime-plate.svg", "chime-wrap.svg"]
     assert "make 12" in (out / "templates" / "chime-1.svg").read_text(encoding="utf-8")
-    from pypdf import PdfReader
-
-    pages = [p.extract_text() for p in PdfReader(out / "packet.pdf").pages]
+    pages = page_texts(out / "packet.pdf")
     assert len(pages) < 20
     text = "\n".join(pages)
     assert "stock per kit" in text and "make 12" in text and "one drill bit serves every kit" in text
