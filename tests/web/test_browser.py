@@ -60,8 +60,8 @@ def chromium(server, porch_strike):
     the synthesized strike (Chromium's fake capture device); a test that needs the page without
     JavaScript turns scripts off through the DevTools protocol (``_no_javascript``).  It depends on
     ``server`` so that it quits first and the server's keep-alive connections close with it."""
-    chromium, driver = find_browser()
-    if chromium is None:
+    binary, driver = find_browser()
+    if binary is None:
         skip_or_fail(driver)
     from selenium import webdriver
     from selenium.webdriver.chrome.service import Service
@@ -72,7 +72,7 @@ def chromium(server, porch_strike):
         options.add_argument(flag)
     profile = tempfile.TemporaryDirectory(prefix="cutplan-chromium-")
     options.add_argument(f"--user-data-dir={profile.name}")
-    options.binary_location = chromium
+    options.binary_location = binary
     d = webdriver.Chrome(service=Service(driver), options=options)
     yield d
     d.quit()
