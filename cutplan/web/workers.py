@@ -34,11 +34,13 @@ class Stopped(Exception):
         self.reason = reason
 
 
-def _worker_main(conn):
-    """The loop each worker process runs: receive (function, args), send back its result."""
+def _worker_main(conn, warm=True):
+    """The loop each worker process runs: receive (function, args), send back its result.
+    With ``warm`` it loads the planner first, so the first plan does not wait for the imports."""
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl+C is the server's; it stops the workers
-    import cutplan.planning.planner  # noqa: F401  (warm up before the first job arrives)
-    import cutplan.web.service  # noqa: F401
+    if warm:
+        import cutplan.planning.planner  # noqa: F401  (warm up before the first job arrives)
+        import cutplan.web.service  # noqa: F401
 
     while True:
         try:
@@ -50,10 +52,10 @@ def _worker_main(conn):
 
 
 class _Worker:
-    def __init__(self, ctx):
+    def __init__(self, ctx, warm=True):
         parent, child = ctx.Pipe()
         self.conn = parent
-        self.proc = ctx.Process(target=_worker_main, args=(child,), daemon=True)
+        self.proc = ctx.Process(target=_worker_main, args=(child, warm), daemon=True)
         self.proc.start()
         child.close()
 
@@ -66,9 +68,13 @@ class _Worker:
 
 
 class WorkerPool:
-    """At most ``size`` worker processes; :meth:`run` a job in one of them."""
+    """At most ``size`` worker processes; :meth:`run` a job in one of them.
 
-    def __init__(self, size):
+    ``warm`` (the default): each worker loads the planner as it starts, before its first job; a
+    pool for light jobs that need none of it may start its workers without those imports."""
+
+    def __init__(self, size, warm=True):
+        self._warm = warm
         self._ctx = multiprocessing.get_context("spawn")
         self._slots = threading.BoundedSemaphore(size)
         self._idle = []
@@ -81,7 +87,7 @@ class WorkerPool:
                 raise Stopped("busy")
             if self._idle:
                 return self._idle.pop()
-        return _Worker(self._ctx)
+        return _Worker(self._ctx, self._warm)
 
     def _give_back(self, worker):
         with self._lock:
@@ -110,7 +116,8 @@ class WorkerPool:
                                   else "gone" if gone is not None and gone() else None)
                         if reason:
                             worker.stop()
-                            self._give_back(_Worker(self._ctx))  # its successor warms up now, not at the next job
+                            # its successor warms up now, not at the next job
+                            self._give_back(_Worker(self._ctx, self._warm))
                             raise Stopped(reason)
                     kind, result = worker.conn.recv()
                     if kind == "done":

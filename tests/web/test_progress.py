@@ -16,19 +16,13 @@ from cutplan.web.app import create_app
 from cutplan.web.progress import MAX_JOBS, ProgressBoard
 from cutplan.web.service import Planner
 from cutplan.web.workers import WorkerPool
+from tests.web.jobs import counting
 
 TWO_BARS = {"title": "garden bars", "set": [{"name": "garden", "kind": "bar", "notes": ["C4", "G4"],
                                              "material": "maple-sugar",
                                              "section": {"shape": "bar", "width": "50 mm", "thickness": "22 mm"},
                                              "undercut": {"ratios": [4.0]}}],
             "stock": {"lengths": [{"length": "2.4 m"}]}}
-
-
-def counting(n, report):
-    """A job for a worker process: reports 1..n of n, then returns n."""
-    for k in range(1, n + 1):
-        report(k, n)
-    return n
 
 
 @pytest.mark.parametrize("workers", [0, 1])
@@ -46,7 +40,7 @@ def test_a_plan_reports_each_arched_bar_solved(workers):
 
 
 def test_a_worker_job_sends_its_progress_back_before_its_answer():
-    pool = WorkerPool(1)
+    pool = WorkerPool(1, warm=False)  # counting and pow need no planner (tests/web/jobs.py imports nothing)
     seen = []
     try:
         assert pool.run(counting, (3,), progress=lambda done, total: seen.append((done, total))) == 3

@@ -50,8 +50,19 @@ def test_every_loopback_address_it_is_bound_to_is_accepted(host, header):
             assert resp.status_code == status
 
 
+def test_a_planning_worker_loads_the_planner_before_its_first_job():
+    # the oracle is the worker interpreter's own table of loaded modules (sys.modules); the light
+    # pools below (warm=False) start without those imports, which their jobs do not need
+    loaded = "'cutplan.planning.planner' in __import__('sys').modules"
+    for pool, expected in ((WorkerPool(1), True), (WorkerPool(1, warm=False), False)):
+        try:
+            assert pool.run(eval, (loaded,)) is expected
+        finally:
+            pool.close()
+
+
 def test_a_job_past_its_time_limit_is_stopped_and_the_worker_replaced():
-    pool = WorkerPool(1)
+    pool = WorkerPool(1, warm=False)  # the jobs here are sleep and pow: no planner needed
     try:
         with pytest.raises(Stopped) as caught:
             pool.run(time.sleep, (60,), limit=0.5)
@@ -62,7 +73,7 @@ def test_a_job_past_its_time_limit_is_stopped_and_the_worker_replaced():
 
 
 def test_a_job_whose_client_went_away_is_stopped():
-    pool = WorkerPool(1)
+    pool = WorkerPool(1, warm=False)  # the jobs here are getpid and sleep: no planner needed
     try:
         assert pool.run(os.getpid, ()) != os.getpid()
         first = pool.run(os.getpid, ())
@@ -75,7 +86,7 @@ def test_a_job_whose_client_went_away_is_stopped():
 
 
 def test_a_full_queue_answers_busy_instead_of_waiting_for_ever():
-    pool = WorkerPool(1)
+    pool = WorkerPool(1, warm=False)  # the jobs here are sleep and pow: no planner needed
     holder = threading.Thread(target=lambda: pytest.raises(Stopped, pool.run, time.sleep, (60,), limit=3.0))
     try:
         holder.start()
