@@ -122,7 +122,8 @@ def read_pages(data: bytes) -> list[PageFacts]:
 
 
 def _address(handle):
-    return ctypes.cast(handle, ctypes.c_void_p).value
+    """The address a pdfium handle points at (to tell page objects apart)."""
+    return ctypes.addressof(handle.contents)
 
 
 def _read_page(page):
