@@ -17,7 +17,10 @@ Where the two libraries differ, this module does what pdfminer does:
   rules, with the points in top-down page coordinates.
 
 Anything this reader cannot read faithfully (form XObjects, a font without a known descent)
-raises instead of being guessed.  The test
+raises instead of being guessed.  Checked against pdfplumber on every example's packet on both
+papers (same words, boxes within 0.01 pt, same segments, same audit) and on pages with turned,
+scaled, letter-spaced, word-spaced and narrowed text; the two readers differ in where they put
+text that follows a text rise (``Ts``), which the packet never uses.  The test
 ``test_the_fast_reader_reads_what_pdfplumber_reads`` checks it against pdfplumber.
 """
 
