@@ -228,13 +228,16 @@ def _read_text(page, index, by_object, height):
                 widths[font, size, ch] = advance.value
             adv = widths[font, size, ch]
             pdfium_c.FPDFText_GetCharOrigin(raw, k, x, y)
+            ox, oy = x.value, y.value
             low = DESCENT[font] * size / 1000
             high = low + size
-            xs = (x.value + c * low, x.value + c * high, x.value + a * adv + c * low, x.value + a * adv + c * high)
-            ys = (y.value + d * low, y.value + d * high, y.value + b * adv + d * low, y.value + b * adv + d * high)
-            by_object.setdefault(j, []).append(
-                {"text": ch, "x0": min(xs), "x1": max(xs), "top": height - max(ys), "bottom": height - min(ys),
-                 "upright": a * d > 0 and b * c <= 0})
+            if b == 0 and c == 0 and a > 0 and d > 0:  # upright text: the general corners' extremes
+                box = {"x0": ox, "x1": ox + a * adv, "top": height - (oy + d * high), "bottom": height - (oy + d * low)}
+            else:
+                xs = (ox + c * low, ox + c * high, ox + a * adv + c * low, ox + a * adv + c * high)
+                ys = (oy + d * low, oy + d * high, oy + b * adv + d * low, oy + b * adv + d * high)
+                box = {"x0": min(xs), "x1": max(xs), "top": height - max(ys), "bottom": height - min(ys)}
+            by_object.setdefault(j, []).append({"text": ch, **box, "upright": a * d > 0 and b * c <= 0})
     finally:
         textpage.close()
 
