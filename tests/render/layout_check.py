@@ -1,16 +1,17 @@
 """Layout audit of a PDF: words struck by drawn lines, words over other words, words in the margin.
 
-Text boxes come from pdfplumber (character boxes grouped into words); lines are the stroked
-segments of lines, rectangles and curves.  A box is shrunk by a small tolerance before testing,
+Text boxes come from pdfium (tests/render/pdf_reader.py: character boxes grouped into words
+the way pdfplumber groups them); lines are the stroked segments of lines, rectangles and curves.
+The reader is checked against pdfplumber (pdfminer.six underneath, a second, independent reader)
+in tests/render/test_layout.py.  A box is shrunk by a small tolerance before testing,
 so a line that only grazes a box edge (a table grid beside its cell text) does not count.
 """
 
 from __future__ import annotations
 
-import io
-
 import numpy as np
-import pdfplumber
+
+from tests.render.pdf_reader import read_pages
 
 PT_PER_MM = 72 / 25.4
 MARGIN_MM = 6.0
@@ -83,28 +84,32 @@ def _hits(box, a, b):
     return True
 
 
-def _struck(boxes, segs):
-    """Texts of the boxes that any segment crosses: :func:`_hits` for every segment at once (the
-    same comparisons in float64, so the same answer, in a fraction of the time)."""
-    if not segs:
+def _struck(boxes, segs, chunk=256):
+    """Texts of the boxes that any segment crosses: :func:`_hits` for every box and segment at
+    once (the same comparisons in float64, so the same answer, in a fraction of the time), in
+    blocks of ``chunk`` boxes to bound the memory."""
+    if not segs or not boxes:
         return []
     ends = np.array([(a[0], a[1], b[0], b[1]) for a, b in segs], dtype=float)
     ax, ay, bx, by = ends.T
     dx, dy = bx - ax, by - ay
-    struck = []
-    for text, (x0, top, x1, bottom) in boxes:
-        t0, t1 = np.zeros(len(ends)), np.ones(len(ends))
-        ok = np.ones(len(ends), dtype=bool)
+    rects = np.array([box for _, box in boxes], dtype=float).reshape(-1, 4)
+    hit = np.zeros(len(rects), dtype=bool)
+    for start in range(0, len(rects), chunk):
+        x0, top, x1, bottom = (col[:, None] for col in rects[start:start + chunk].T)
+        shape = (len(x0), len(ends))
+        t0, t1 = np.zeros(shape), np.ones(shape)
+        ok = np.ones(shape, dtype=bool)
         for p, q in ((-dx, ax - x0), (dx, x1 - ax), (-dy, ay - top), (dy, bottom - ay)):
+            p = np.broadcast_to(p, shape)
             zero = p == 0
             ok &= ~(zero & (q < 0))
-            t = np.divide(q, p, out=np.zeros(len(ends)), where=~zero)
+            t = np.divide(q, p, out=np.zeros(shape), where=~zero)
             t0 = np.where(p < 0, np.maximum(t0, t), t0)
             t1 = np.where(p > 0, np.minimum(t1, t), t1)
         # t0 only rises and t1 only falls, so t0 > t1 at the end is t0 > t1 at any step
-        if (ok & (t0 <= t1)).any():
-            struck.append(text)
-    return struck
+        hit[start:start + chunk] = (ok & (t0 <= t1)).any(axis=1)
+    return [text for (text, _), h in zip(boxes, hit, strict=True) if h]
 
 
 def _char_boxes(words):
@@ -118,19 +123,29 @@ def _char_boxes(words):
 
 
 def _overprinted_words(words):
-    """Indices of words with a character drawn over another character (of any word)."""
+    """Indices of words with a character drawn over another character (of any word).
+
+    Two boxes overlap when each starts before the other ends, on both axes (strictly).  Only
+    pairs whose tops are less than the tallest box apart can overlap, so the test runs on those
+    pairs (found on the boxes sorted by top) instead of on every pair: the same comparisons."""
     boxes, owner = _char_boxes(words)
     if len(boxes) < 2:
         return set()
     x0, top, x1, bottom = boxes.T
-    hit = ((x0[:, None] < x1[None, :]) & (x0[None, :] < x1[:, None])
-           & (top[:, None] < bottom[None, :]) & (top[None, :] < bottom[:, None]))
-    np.fill_diagonal(hit, False)
-    return set(owner[hit.any(axis=1)].tolist())
+    order = np.argsort(top, kind="stable")
+    tops = top[order]
+    lo = np.searchsorted(tops, top - (bottom - top).max(), side="left")
+    hi = np.searchsorted(tops, bottom, side="right")
+    counts = hi - lo
+    i = np.repeat(np.arange(len(boxes)), counts)
+    j = order[np.arange(counts.sum()) - np.repeat(np.cumsum(counts) - counts, counts) + np.repeat(lo, counts)]
+    hit = ((i != j) & (x0[i] < x1[j]) & (x0[j] < x1[i]) & (top[i] < bottom[j]) & (top[j] < bottom[i]))
+    return set(owner[i[hit]].tolist())
 
 
 def audit_page(page):
-    """(struck, overprinted, in_margin) lists of word texts for one pdfplumber page."""
+    """(struck, overprinted, in_margin) lists of word texts for one page (a
+    :class:`~tests.render.pdf_reader.PageFacts`, or a pdfplumber page: the same attributes)."""
     words = page.extract_words(use_text_flow=False, keep_blank_chars=False, x_tolerance=1.5, return_chars=True)
     boxes = [(w["text"], (w["x0"] + SHRINK, w["top"] + SHRINK, w["x1"] - SHRINK, w["bottom"] - SHRINK))
              for w in words]
@@ -144,14 +159,14 @@ def audit_page(page):
     return struck, over, margin
 
 
-def audit_pdf(data):
-    """{"pages": n, "struck": [(page, word)], "over": [...], "margin": [...]} for PDF bytes."""
-    out = {"pages": 0, "struck": [], "over": [], "margin": []}
-    with pdfplumber.open(io.BytesIO(data)) as pdf:
-        out["pages"] = len(pdf.pages)
-        for n, page in enumerate(pdf.pages, start=1):
-            struck, over, margin = audit_page(page)
-            out["struck"] += [(n, t) for t in struck]
-            out["over"] += [(n, t) for t in over]
-            out["margin"] += [(n, t) for t in margin]
+def audit_pdf(data, read=read_pages):
+    """{"pages": n, "struck": [(page, word)], "over": [...], "margin": [...]} for PDF bytes;
+    ``read(data)`` gives the pages (the fast reader unless a test passes another)."""
+    pages = read(data)
+    out = {"pages": len(pages), "struck": [], "over": [], "margin": []}
+    for n, page in enumerate(pages, start=1):
+        struck, over, margin = audit_page(page)
+        out["struck"] += [(n, t) for t in struck]
+        out["over"] += [(n, t) for t in over]
+        out["margin"] += [(n, t) for t in margin]
     return out

@@ -14,6 +14,7 @@ from pypdf import PdfReader
 import cutplan
 from cutplan.render.pdf import render_pdf
 from cutplan.units import format_length
+from tests.render.packets import example_packet_text
 
 ROOT = Path(__file__).resolve().parents[2]
 TRIM = "cut long, then trim to pitch (trimming raises the pitch)"
@@ -24,12 +25,13 @@ def pages(plan, paper=None):
     return [p.extract_text() or "" for p in PdfReader(io.BytesIO(render_pdf(plan, paper))).pages]
 
 
+def example_pages(example_plan, name, paper=None):
+    """Page texts of an example's packet (rendered and read once per test process)."""
+    return list(example_packet_text(example_plan, name, paper))
+
+
 def flat(text):
     return " ".join(text.split())
-
-
-def example(name):
-    return cutplan.plan(cutplan.load_design(ROOT / "examples" / f"{name}.toml"))
 
 
 def with_allowance(tmp_path, allowance):
@@ -40,9 +42,9 @@ def with_allowance(tmp_path, allowance):
     return cutplan.plan(cutplan.load_design(path))
 
 
-def test_the_shopping_list_comes_right_after_the_cover():
-    plan = example("porch-chimes")
-    text = pages(plan)
+def test_the_shopping_list_comes_right_after_the_cover(example_plan):
+    plan = example_plan("porch-chimes")
+    text = example_pages(example_plan, "porch-chimes")
     assert "Shopping list" in text[1]
     shop = flat(text[1])
     n_sticks = len(plan.cut_list.sticks)
@@ -52,14 +54,14 @@ def test_the_shopping_list_comes_right_after_the_cover():
 
 
 def test_bars_and_resonators_get_supports_mallets_and_stoppers(example_plan):
-    shop = flat(next(text for text in pages(example_plan("music-room-marimba")) if "Shopping list" in text))
+    shop = flat(next(text for text in example_pages(example_plan, "music-room-marimba") if "Shopping list" in text))
     for word in ("felt or foam strip", "pins or cord", "mallets", "sliding stoppers"):
         assert word in shop
 
 
-def test_cautions_fit_the_materials():
-    porch = flat(pages(example("porch-chimes"))[0])
-    wood = flat(pages(example("workshop-marimba"))[0])
+def test_cautions_fit_the_materials(example_plan):
+    porch = flat(example_pages(example_plan, "porch-chimes")[0])
+    wood = flat(example_pages(example_plan, "workshop-marimba")[0])
     assert "PVC" not in porch and "Wood dust" not in porch
     assert "Deburr" in porch and "overhead" in porch
     assert "PVC" in wood and "Wood dust" in wood
@@ -77,10 +79,10 @@ def test_every_caution_source_resolves(example_plan):
                                     "common practice", "from memory")
 
 
-def test_the_plan_units_come_first_on_every_page():
-    plan = example("porch-chimes")  # units = "in"
+def test_the_plan_units_come_first_on_every_page(example_plan):
+    plan = example_plan("porch-chimes")  # units = "in"
     assert plan.units == "in"
-    inch_text = flat(" ".join(pages(plan)))
+    inch_text = flat(" ".join(example_pages(example_plan, "porch-chimes")))
     # the same design planned with units = "mm" (as `plan --units mm` does: the design's choice,
     # so facts worded at planning time, such as shopping-list notes, follow it too)
     design = cutplan.load_design(ROOT / "examples" / "porch-chimes.toml")
@@ -116,7 +118,7 @@ def test_a_risk_allowance_is_stated_as_written(tmp_path):
 
 def test_stoppered_tubes_are_cut_to_length_and_tuned_with_the_stopper(example_plan):
     plan = example_plan("music-room-marimba")
-    text = pages(plan, "a4")
+    text = example_pages(example_plan, "music-room-marimba", "a4")
     for title in ("Cut list: resonators", "Tuning sheet: resonators", "Resonator stopper settings"):
         page = flat(next(t for t in text if title in t))
         assert STOPPER in page.lower() or STOPPER.capitalize() in page, title
@@ -128,7 +130,7 @@ def test_stoppered_tubes_are_cut_to_length_and_tuned_with_the_stopper(example_pl
 
 
 @pytest.mark.parametrize("name", ["porch-chimes", "workshop-marimba", "classroom-pipes"])
-def test_trimming_is_worded_the_musicians_way(name):
-    text = flat(" ".join(pages(example(name))))
+def test_trimming_is_worded_the_musicians_way(example_plan, name):
+    text = flat(" ".join(example_pages(example_plan, name)))
     assert TRIM in text
     assert "tune down" not in text.lower()

@@ -4,16 +4,14 @@ are told to tune with the stopper, plan.csv carries the stopper depths, the char
 import csv
 import io
 
-from cutplan.render.pdf import render_pdf
 from cutplan.render.pdf.charts import round_hz
 from cutplan.render.table import render_csv
+from tests.render.packets import example_packet_text
 
 
 def test_every_arched_bar_shows_its_thinnest_point_on_the_profile(example_plan):
-    from pypdf import PdfReader
-
     plan = example_plan("music-room-marimba")
-    text = "\n".join(p.extract_text() or "" for p in PdfReader(io.BytesIO(render_pdf(plan))).pages)
+    text = "\n".join(example_packet_text(example_plan, "music-room-marimba"))  # rendered once per process
     for p in plan.pieces:
         if p.arch is not None:
             thinnest = min(h for _, h in p.arch.stations)
