@@ -29,30 +29,30 @@ EXAMPLES_DIR = ROOT / "examples"
 HEAVY_FIRST = (
     "tests/render/test_layout.py",
     "tests/web/test_browser.py",
-    "tests/physics/test_stepped_bar.py",
-    "tests/test_fuzz.py",
-    "tests/test_one_truth.py",
     "tests/test_elastic_plans.py",
-    "tests/web/test_progress.py",
     "tests/tuning/test_removal_rounds.py",
     "tests/tuning/test_trim_state_lock.py",
-    "tests/physics/test_solid3d.py",
+    "tests/test_from_stock.py",
     "tests/tuning/test_trim_service.py",
-    "tests/web/test_request_limits.py",
+    "tests/physics/test_solid3d.py",
+    "tests/web/test_progress.py",
+    "tests/test_fuzz.py",
     "tests/test_unreachable.py",
-    "tests/physics/test_elastic2d_memo.py",
+    "tests/test_grain.py",
     "tests/test_calibrate_elastic.py",
+    "tests/physics/test_width_terms.py",
+    "tests/test_one_truth.py",
+    "tests/render/test_templates.py",
+    "tests/physics/test_stepped_bar.py",
+    "tests/web/test_request_limits.py",
     "tests/web/test_api.py",
     "tests/physics/test_undercut.py",
-    "tests/physics/test_width_terms.py",
-    "tests/test_grain.py",
-    "tests/test_from_stock.py",
-    "tests/audio/test_measure.py",
-    "tests/render/test_packet_content.py",
-    "tests/test_hardening.py",
-    "tests/test_hanging.py",
-    "tests/render/test_templates.py",
     "tests/render/test_quantities.py",
+    "tests/test_hanging.py",
+    "tests/render/test_packet_content.py",
+    "tests/physics/test_elastic2d_memo.py",
+    "tests/audio/test_measure.py",
+    "tests/test_hardening.py",
 )
 """Test files in the order the workers start them, heaviest first (wall seconds of each file in a
 whole-suite ``--durations=0`` run); files not named follow in collection order.  The order only
@@ -104,14 +104,15 @@ def solver_memo():
 
 
 def _with_solves(compute):
-    """``compute`` as a shareable result: its value and the 2-D solves this process then remembers.
+    """``compute`` as a shareable result: its value and the 2-D solves it added to this process's memo.
 
     A worker that reads the value also takes the solves into its own memo, so planning the same
     design again there (the command line, the page, a trim) finds them as the first worker did."""
     def run():
-        value = compute()
         memo = solver_memo()
-        return value, (dict(memo) if memo is not None else {})
+        before = set(memo) if memo is not None else set()
+        value = compute()
+        return value, ({k: v for k, v in memo.items() if k not in before} if memo is not None else {})
     return run
 
 
