@@ -175,6 +175,35 @@ def example_json(shared, example_plan):
     return lambda name: copy.deepcopy(json.loads(_shared_example(shared, ("json", name), lambda: run(name))))
 
 
+def _packet_example(name, folder):
+    """(what ``cutplan plan EXAMPLE -o FOLDER`` printed, FOLDER, the text of each packet page)."""
+    from click.testing import CliRunner
+    from pypdf import PdfReader
+
+    from cutplan.cli import cli
+
+    result = CliRunner().invoke(cli, ["plan", str(EXAMPLES_DIR / f"{name}.toml"), "-o", str(folder)])
+    assert result.exit_code == 0, result.output
+    pages = [page.extract_text() for page in PdfReader(folder / "packet.pdf").pages]
+    return result.stdout, str(folder), pages
+
+
+@pytest.fixture(scope="session")
+def example_packet(shared, example_plan, tmp_path_factory):
+    """``example_packet(name)`` -> (stdout, folder, pages): ``cutplan plan EXAMPLE -o FOLDER`` run
+    once per run, what it printed, the folder it wrote (read it, never change it) and the text of
+    each page of its packet.pdf (pypdf)."""
+    def run(name):
+        example_plan(name)  # the plan's solves first, as for example_json
+        return _packet_example(name, tmp_path_factory.mktemp(f"packet-{name}") / "packet")
+
+    def get(name):
+        stdout, folder, pages = _shared_example(shared, ("packet", name), lambda: run(name))
+        return stdout, Path(folder), list(pages)
+
+    return get
+
+
 @pytest.hookimpl(optionalhook=True)
 def pytest_xdist_make_scheduler(config, log):
     """Whole test files to each worker, the heaviest (:data:`HEAVY_FIRST`) first; only for the
