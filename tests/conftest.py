@@ -1,14 +1,25 @@
-"""Session fixtures: each bundled example is planned once per test session and shared.
+"""Session fixtures: each bundled example is planned once per test run and shared.
 
 Planning the examples (the arched-bar ones most of all) is the slowest thing the tests do;
 tests that only read a plan take it from here instead of planning again.  The fixtures return
 fresh copies of the JSON, so a test may change what it gets without affecting others.
+
+Under pytest-xdist the worker processes share these results too (:func:`shared_result`): the
+first worker to need one computes it under a file lock and leaves it, pickled, in the run's
+temporary folder; the others wait for it and read it.  The scheduler below keeps each test file
+on one worker (its module fixtures made once) and hands out the heaviest files first, so no long
+file is left to run alone at the end.
 """
 
 from __future__ import annotations
 
+import contextlib
 import copy
+import fcntl
+import hashlib
 import json
+import os
+import pickle
 from pathlib import Path
 
 import pytest
@@ -16,58 +27,210 @@ import pytest
 ROOT = Path(__file__).resolve().parent.parent
 EXAMPLES_DIR = ROOT / "examples"
 
+HEAVY_FIRST = (
+    "tests/render/test_layout.py",
+    "tests/web/test_browser.py",
+    "tests/test_elastic_plans.py",
+    "tests/tuning/test_removal_rounds.py",
+    "tests/tuning/test_trim_state_lock.py",
+    "tests/test_from_stock.py",
+    "tests/tuning/test_trim_service.py",
+    "tests/physics/test_solid3d.py",
+    "tests/web/test_progress.py",
+    "tests/test_fuzz.py",
+    "tests/test_unreachable.py",
+    "tests/test_grain.py",
+    "tests/test_calibrate_elastic.py",
+    "tests/physics/test_width_terms.py",
+    "tests/test_one_truth.py",
+    "tests/render/test_templates.py",
+    "tests/physics/test_stepped_bar.py",
+    "tests/web/test_request_limits.py",
+    "tests/web/test_api.py",
+    "tests/physics/test_undercut.py",
+    "tests/render/test_quantities.py",
+    "tests/test_hanging.py",
+    "tests/render/test_packet_content.py",
+    "tests/physics/test_elastic2d_memo.py",
+    "tests/audio/test_measure.py",
+    "tests/test_hardening.py",
+)
+"""Test files in the order the workers start them, heaviest first (wall seconds of each file in a
+whole-suite ``--durations=0`` run); files not named follow in collection order.  The order only
+changes how evenly the workers are loaded, never what runs."""
+
+_RESULTS: dict = {}
+
+
+def shared_result(key, compute, basetemp=None):
+    """``compute()``, made once per test run: kept in this process, and under pytest-xdist in a
+    pickle beside the workers' temporary folders (``basetemp``: this worker's), made by whichever
+    worker asks first while the others wait on its lock.  ``key`` (a string or tuple of plain
+    values) names the result; the value must pickle.  Treat what it returns as read-only."""
+    if key in _RESULTS:
+        return _RESULTS[key]
+    if basetemp is None or os.environ.get("PYTEST_XDIST_WORKER") is None:
+        value = compute()
+    else:
+        folder = Path(basetemp).parent / "shared-results"
+        folder.mkdir(exist_ok=True)
+        stem = hashlib.sha256(repr(key).encode()).hexdigest()[:24]
+        path = folder / f"{stem}.pickle"
+        with open(folder / f"{stem}.lock", "w") as lock:
+            fcntl.flock(lock, fcntl.LOCK_EX)  # released when the file closes (or the process dies)
+            if path.exists():
+                value = pickle.loads(path.read_bytes())
+            else:
+                value = compute()
+                part = folder / f"{stem}.part"
+                part.write_bytes(pickle.dumps(value, protocol=pickle.HIGHEST_PROTOCOL))
+                part.replace(path)
+    _RESULTS[key] = value
+    return value
+
 
 @pytest.fixture(scope="session")
-def _example_cache():
-    return {}
+def shared(tmp_path_factory):
+    """``shared(key, compute)`` -> :func:`shared_result` for this run (one result across workers)."""
+    basetemp = tmp_path_factory.getbasetemp()
+    return lambda key, compute: shared_result(key, compute, basetemp)
 
 
-def _planned(cache, name):
-    """(Plan, progress steps) of the example, planned once per session (per worker under xdist)."""
-    key = ("plan", name)
-    if key not in cache:
-        import cutplan
+def solver_memo():
+    """The 2-D solver's memo of recent solves (cutplan.physics.elastic2d), or None if it has none."""
+    from cutplan.physics import elastic2d
 
-        calls = []
-        plan = cutplan.plan(cutplan.load_design(EXAMPLES_DIR / f"{name}.toml"), progress=calls.append)
-        cache[key] = (plan, sum(calls))
-    return cache[key]
+    memo = getattr(elastic2d, "_MEMO", None)
+    return memo if isinstance(memo, dict) else None
 
 
-def _json_output(cache, name):
-    """The text ``cutplan plan EXAMPLE --format json`` prints, run once per session (lazily: a
-    test that only reads the Plan does not pay for the command line's own planning)."""
-    key = ("json", name)
-    if key not in cache:
-        from click.testing import CliRunner
+def _with_solves(compute):
+    """``compute`` as a shareable result: its value and the 2-D solves it added to this process's memo.
 
-        from cutplan.cli import cli
+    A worker that reads the value also takes the solves into its own memo, so planning the same
+    design again there (the command line, the page, a trim) finds them as the first worker did."""
+    def run():
+        memo = solver_memo()
+        before = set(memo) if memo is not None else set()
+        value = compute()
+        return value, ({k: v for k, v in memo.items() if k not in before} if memo is not None else {})
+    return run
 
-        result = CliRunner().invoke(cli, ["plan", str(EXAMPLES_DIR / f"{name}.toml"), "--format", "json"])
-        assert result.exit_code == 0, result.output
-        cache[key] = result.output
-    return cache[key]
+
+_MERGED: set = set()
+
+
+def _shared_example(shared, key, compute):
+    """The value of a :func:`_with_solves` result, its solves taken into this process's memo."""
+    value, solves = shared(key, _with_solves(compute))
+    memo = solver_memo()
+    if memo is not None and key not in _MERGED:
+        _MERGED.add(key)
+        from cutplan.physics import elastic2d
+
+        with getattr(elastic2d, "_MEMO_LOCK", contextlib.nullcontext()):  # as the solver itself adds them
+            for k, v in solves.items():
+                memo.setdefault(k, v)
+    return value
+
+
+def _plan_example(name):
+    """(Plan, progress steps) of an example."""
+    import cutplan
+
+    calls = []
+    plan = cutplan.plan(cutplan.load_design(EXAMPLES_DIR / f"{name}.toml"), progress=calls.append)
+    return plan, sum(calls)
+
+
+def _json_example(name):
+    """The text ``cutplan plan EXAMPLE --format json`` prints."""
+    from click.testing import CliRunner
+
+    from cutplan.cli import cli
+
+    result = CliRunner().invoke(cli, ["plan", str(EXAMPLES_DIR / f"{name}.toml"), "--format", "json"])
+    assert result.exit_code == 0, result.output
+    return result.output
 
 
 @pytest.fixture(scope="session")
-def example_plan(_example_cache):
+def example_plan(shared):
     """``example_plan("porch-chimes")`` -> the Plan of examples/porch-chimes.toml (planned once).
 
     The Plan is shared: read it, or derive a new one with ``dataclasses.replace``; never change it."""
-    return lambda name: _planned(_example_cache, name)[0]
+    return lambda name: _shared_example(shared, ("plan", name), lambda: _plan_example(name))[0]
 
 
 @pytest.fixture(scope="session")
-def example_progress(_example_cache):
+def example_progress(shared):
     """``example_progress(name)`` -> how many progress steps planning the example reported."""
-    return lambda name: _planned(_example_cache, name)[1]
+    return lambda name: _shared_example(shared, ("plan", name), lambda: _plan_example(name))[1]
 
 
 @pytest.fixture(scope="session")
-def example_json(_example_cache):
-    """``example_json(name)`` -> a fresh copy of ``cutplan plan EXAMPLE --format json`` (run once)."""
-    return lambda name: copy.deepcopy(json.loads(_json_output(_example_cache, name)))
+def example_json(shared, example_plan):
+    """``example_json(name)`` -> a fresh copy of ``cutplan plan EXAMPLE --format json`` (run once;
+    lazily: a test that only reads the Plan does not pay for the command line's own planning)."""
+    def run(name):
+        example_plan(name)  # the plan's solves first: the command line then finds them remembered
+        return _json_example(name)
 
+    return lambda name: copy.deepcopy(json.loads(_shared_example(shared, ("json", name), lambda: run(name))))
+
+
+def _packet_example(name, folder):
+    """(what ``cutplan plan EXAMPLE -o FOLDER`` printed, FOLDER, the text of each packet page)."""
+    from click.testing import CliRunner
+    from pypdf import PdfReader
+
+    from cutplan.cli import cli
+
+    result = CliRunner().invoke(cli, ["plan", str(EXAMPLES_DIR / f"{name}.toml"), "-o", str(folder)])
+    assert result.exit_code == 0, result.output
+    pages = [page.extract_text() for page in PdfReader(folder / "packet.pdf").pages]
+    return result.stdout, str(folder), pages
+
+
+@pytest.fixture(scope="session")
+def example_packet(shared, example_plan, tmp_path_factory):
+    """``example_packet(name)`` -> (stdout, folder, pages): ``cutplan plan EXAMPLE -o FOLDER`` run
+    once per run, what it printed, the folder it wrote (read it, never change it) and the text of
+    each page of its packet.pdf (pypdf)."""
+    def run(name):
+        example_plan(name)  # the plan's solves first, as for example_json
+        return _packet_example(name, tmp_path_factory.mktemp(f"packet-{name}") / "packet")
+
+    def get(name):
+        stdout, folder, pages = _shared_example(shared, ("packet", name), lambda: run(name))
+        return stdout, Path(folder), list(pages)
+
+    return get
+
+
+@pytest.hookimpl(optionalhook=True)
+def pytest_xdist_make_scheduler(config, log):
+    """Whole test files to each worker, the heaviest (:data:`HEAVY_FIRST`) first; only for the
+    default ``--dist load`` (an explicit ``--dist`` is left to pytest-xdist)."""
+    if config.getoption("dist") != "load":
+        return None
+    from xdist.scheduler import LoadScopeScheduling
+
+    rank = {name: i for i, name in enumerate(HEAVY_FIRST)}
+
+    class HeavyFilesFirst(LoadScopeScheduling):
+        def _split_scope(self, nodeid):
+            return nodeid.split("::", 1)[0]
+
+        def _assign_work_unit(self, node):
+            if not getattr(self, "_ordered", False):
+                units = sorted(self.workqueue.items(), key=lambda unit: rank.get(unit[0], len(rank)))
+                self.workqueue.clear()
+                self.workqueue.update(units)
+                self._ordered = True
+            super()._assign_work_unit(node)
+
+    return HeavyFilesFirst(config, log)
 
 
 def pytest_terminal_summary(terminalreporter):

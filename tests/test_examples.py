@@ -5,9 +5,6 @@ import math
 from pathlib import Path
 
 import pytest
-from click.testing import CliRunner
-
-from cutplan.cli import cli
 
 ROOT = Path(__file__).resolve().parent.parent
 EXAMPLES = sorted((ROOT / "examples").glob("*.toml"))
@@ -49,9 +46,8 @@ def test_example_plan_is_stable(path, example_json):
 
 
 @pytest.mark.parametrize("path", EXAMPLES, ids=[p.stem for p in EXAMPLES])
-def test_example_renders_every_output(path, tmp_path):
-    out = tmp_path / "out"
-    result = CliRunner().invoke(cli, ["plan", str(path), "-o", str(out)])
-    assert result.exit_code == 0, result.output
+def test_example_renders_every_output(path, example_packet):
+    # `cutplan plan EXAMPLE -o FOLDER`, run once per session (tests/conftest.py; exit code checked there)
+    _, out, _ = example_packet(path.stem)
     assert (out / "plan.csv").read_text().startswith("set,label,note")
     json.loads((out / "plan.json").read_text())

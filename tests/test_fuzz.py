@@ -13,10 +13,34 @@ from click.testing import CliRunner
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+import cutplan.cli.common
+from cutplan import materials
 from cutplan.cli import cli
 from tests.fuzzing import bad_lengths, broken_wav, mutated_design, to_toml
 
 pytestmark = pytest.mark.slow  # some 35 CPU seconds of generated designs, options and recordings
+
+
+@pytest.fixture(scope="module", autouse=True)
+def packaged_tables_read_once():
+    """The packaged material and stock tables, read once for this module instead of once per
+    generated design or command (some 17 ms each, more than half of these tests' time): every
+    example reads the same files.  A user folder (a design's ``material_dirs``, ``--materials``)
+    is still read each time, as are the tables themselves in tests/test_materials.py."""
+    real = materials.load_library
+    kept = []
+
+    def load_library(extra_dirs=(), include_packaged=True):
+        if list(extra_dirs) or not include_packaged:
+            return real(extra_dirs, include_packaged)
+        if not kept:
+            kept.append(real())
+        return kept[0]
+
+    with pytest.MonkeyPatch.context() as patch:
+        patch.setattr(materials, "load_library", load_library)
+        patch.setattr(cutplan.cli.common, "load_library", load_library)
+        yield
 
 QUICK = settings(derandomize=True, max_examples=150, deadline=None, database=None,
                  suppress_health_check=[HealthCheck.too_slow, HealthCheck.function_scoped_fixture])

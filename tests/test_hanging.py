@@ -14,7 +14,7 @@ from cutplan.cli import cli
 from cutplan.render.pdf import render_pdf
 from cutplan.render.svg import svg_files
 from tests.pdf_text import page_texts
-from tests.render.packets import example_packet, example_packet_text
+from tests.render.packets import rendered_packet, rendered_packet_text
 
 ROOT = Path(__file__).resolve().parent.parent
 EXAMPLES = ROOT / "examples"
@@ -230,8 +230,8 @@ def test_no_second_hang_hole_in_any_chime_packet_or_template(tmp_path, example_p
     for path in designs(tmp_path):
         if path.parent == EXAMPLES:
             plan = example_plan(path.stem)
-            pdf = example_packet(example_plan, path.stem)
-            text = "".join(example_packet_text(example_plan, path.stem))
+            pdf = rendered_packet(example_plan, path.stem)
+            text = "".join(rendered_packet_text(example_plan, path.stem))
         else:
             plan = cutplan.plan(cutplan.load_design(path))
             pdf = render_pdf(plan)

@@ -72,14 +72,34 @@ def _plan_outputs(design, tmp_path):
     return table.stdout, out
 
 
+@pytest.fixture(scope="module")
+def outputs(tmp_path_factory, example_packet):
+    """``outputs(example, units, allowance)`` -> (design file, terminal table, output folder, packet
+    pages or None): an example as it stands is written once per run (tests/conftest.py), a variant
+    once for this module (the variant tests below read the same packets as the parametrised one)."""
+    made = {}
+
+    def get(path, units=None, allowance=None):
+        key = (path.stem, units, allowance)
+        if key not in made:
+            if units or allowance:
+                folder = tmp_path_factory.mktemp("variant")
+                design = _variant(path, folder, units, allowance)
+                made[key] = (design, *_plan_outputs(design, folder), None)
+            else:
+                table, out, pages = example_packet(path.stem)
+                made[key] = (path, table, out, pages)
+        return made[key]
+
+    return get
+
+
 @pytest.mark.parametrize("design,units,allowance", CASES,
                          ids=[f"{p.stem}-{u or 'own'}-{a or 'own'}" for p, u, a in CASES])
-def test_every_output_states_the_same_cut_length(design, units, allowance, tmp_path, example_plan):
-    # an example as it stands is planned once per session (tests/conftest.py); a variant here
+def test_every_output_states_the_same_cut_length(design, units, allowance, outputs, example_plan):
+    # an example as it stands is planned and written once per session (tests/conftest.py); a variant here
     planned = None if units or allowance else example_plan(design.stem)
-    if units or allowance:
-        design = _variant(design, tmp_path, units, allowance)
-    table, out = _plan_outputs(design, tmp_path)
+    design, table, out, pages = outputs(design, units, allowance)
     plan = json.loads((out / "plan.json").read_text(encoding="utf-8"))
     rows = list(csv.DictReader(io.StringIO((out / "plan.csv").read_text(encoding="utf-8"))))
     cuts = {}
@@ -104,19 +124,21 @@ def test_every_output_states_the_same_cut_length(design, units, allowance, tmp_p
         # the allowance a piece is cut with is cut minus finished length everywhere
         added = piece["allowance_mm"]["added"]
         assert added == pytest.approx(piece["cut_length_mm"] - piece["length_mm"], abs=0.011)
-    _check_packet_text(design, out, planned)
+    _check_packet_text(design, out, planned, pages)
 
 
-def _check_packet_text(design, out, plan=None):
+def _check_packet_text(design, out, plan=None, pages=None):
     """The packet's cut list, tuning sheet and templates state each piece's cut length and its one
-    allowance with the same strings, the plan's units first."""
+    allowance with the same strings, the plan's units first (``pages``: the packet's page texts,
+    when already read)."""
     import pypdf
 
     import cutplan
     from cutplan.units import format_length
 
     plan = plan or cutplan.plan(cutplan.load_design(design))
-    pages = [page.extract_text() for page in pypdf.PdfReader(out / "packet.pdf").pages]
+    if pages is None:
+        pages = [page.extract_text() for page in pypdf.PdfReader(out / "packet.pdf").pages]
     cut_pages = "\n".join(t for t in pages if "Cut list: " in t)
     tuning = "\n".join(t for t in pages if "Tuning sheet: " in t)
     strips = "\n".join(t for t in pages if "Marking strips" in t)
@@ -133,9 +155,8 @@ def _check_packet_text(design, out, plan=None):
             assert f"chance sharp {p.sharp_risk * 100:.0f} %" in " ".join(row.split())
 
 
-def test_a_risk_allowance_is_stated_as_written(tmp_path):
-    design = _variant(ROOT / "examples" / "porch-chimes.toml", tmp_path, "in", "risk 20 %")
-    table, out = _plan_outputs(design, tmp_path)
+def test_a_risk_allowance_is_stated_as_written(outputs):
+    _, table, out, _ = outputs(ROOT / "examples" / "porch-chimes.toml", "in", "risk 20 %")
     plan = json.loads((out / "plan.json").read_text(encoding="utf-8"))
     assert plan["sets"][0]["allowance"] == "risk 20 %"
     assert "allowance risk 20 %" in table
@@ -143,9 +164,8 @@ def test_a_risk_allowance_is_stated_as_written(tmp_path):
     assert all(p["sharp_risk"] == pytest.approx(0.20, abs=0.005) for p in plan["pieces"])
 
 
-def test_a_fixed_allowance_states_its_own_chance_of_a_sharp_piece(tmp_path):
-    design = _variant(ROOT / "examples" / "porch-chimes.toml", tmp_path, "mm", "0.5 %")
-    table, out = _plan_outputs(design, tmp_path)
+def test_a_fixed_allowance_states_its_own_chance_of_a_sharp_piece(outputs):
+    _, table, out, _ = outputs(ROOT / "examples" / "porch-chimes.toml", "mm", "0.5 %")
     plan = json.loads((out / "plan.json").read_text(encoding="utf-8"))
     for p in plan["pieces"]:
         # a fixed 0.5 % is 0.5 % of the finished length, and its own sharp risk is reported

@@ -95,11 +95,14 @@ def _determinant(omega, segments, width, e, g, rho, kappa, eccentric):
     omega2 = mp.mpf(omega) ** 2
     t = mp.eye(6)
     previous = None
+    made = {}  # equal segments (the same length and thickness) have the same matrix: made once
     for length, thick in segments:
         if previous is not None and eccentric:
             # flat top at z = 0: the centroid sits at -h/2, so it moves by (h_prev - h) / 2 upward
             t = _joint(mp.mpf(previous - thick) / 2) * t
-        t = _segment_matrix(omega2, length, thick, width, e, g, rho, kappa) * t
+        if (length, thick) not in made:
+            made[length, thick] = _segment_matrix(omega2, length, thick, width, e, g, rho, kappa)
+        t = made[length, thick] * t
         previous = thick
     # start free: u, w, psi unknown (columns 0, 2, 3); end free: rows N, M, Q vanish
     rows, cols = (1, 4, 5), (0, 2, 3)
@@ -133,11 +136,17 @@ def stepped_frequencies(segments, width, e, g, rho, kappa, modes=3, eccentric=Tr
         def det(f):
             return _determinant(2 * mp.pi * f, segments, width, e, g, rho, kappa, eccentric)
 
+        # up the grid until the wanted bending modes are found (the roots come in rising order, so
+        # the ones above would be cut off anyway)
         found = []
-        values = [det(f) for f in grid]
-        for (fa, da), (fb, db) in zip(zip(grid, values), zip(grid[1:], values[1:])):
+        fa, da = grid[0], det(grid[0])
+        for fb in grid[1:]:
+            db = det(fb)
             if mp.sign(da) * mp.sign(db) < 0:
                 found.append(float(mp.findroot(det, (fa, fb), solver="anderson")))
+                if len(_bending_only(found, segments, e, rho)) == modes:
+                    break
+            fa, da = fb, db
         return _bending_only(found, segments, e, rho)[:modes]
 
 

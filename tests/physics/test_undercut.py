@@ -109,8 +109,10 @@ def test_too_thin_a_centre_is_a_design_error(tmp_path):
     assert "thin.toml: set[1]" in result.output and "Traceback" not in result.output
 
 
-def test_progress_is_shown_for_many_bars_on_a_terminal(monkeypatch):
+def test_progress_is_shown_for_many_bars_on_a_terminal(monkeypatch, example_plan):
     import cutplan.cli.common
+
+    example_plan("music-room-marimba")  # planned once per session: the command line finds its solves remembered
 
     monkeypatch.setattr(cutplan.cli.common, "_wants_progress", lambda: True)
     result = CliRunner().invoke(cli, ["plan", str(ROOT / "examples" / "music-room-marimba.toml")])

@@ -14,13 +14,13 @@ from pypdf import PdfReader
 
 from cutplan.render.pdf import render_pdf
 
-__all__ = ["example_packet", "example_packet_text"]
+__all__ = ["rendered_packet", "rendered_packet_text"]
 
 _PACKETS: dict[tuple[str, str], bytes] = {}
 _TEXTS: dict[tuple[str, str], tuple[str, ...]] = {}
 
 
-def example_packet(example_plan, name, paper=None):
+def rendered_packet(example_plan, name, paper=None):
     """PDF bytes of example ``name``'s packet on ``paper`` (the design's own paper if None)."""
     plan = example_plan(name)
     key = (name, paper or plan.paper)
@@ -29,11 +29,11 @@ def example_packet(example_plan, name, paper=None):
     return _PACKETS[key]
 
 
-def example_packet_text(example_plan, name, paper=None):
-    """The text of each page of :func:`example_packet`, as pypdf extracts it."""
+def rendered_packet_text(example_plan, name, paper=None):
+    """The text of each page of :func:`rendered_packet`, as pypdf extracts it."""
     plan = example_plan(name)
     key = (name, paper or plan.paper)
     if key not in _TEXTS:
-        reader = PdfReader(io.BytesIO(example_packet(example_plan, name, paper)))
+        reader = PdfReader(io.BytesIO(rendered_packet(example_plan, name, paper)))
         _TEXTS[key] = tuple(page.extract_text() or "" for page in reader.pages)
     return _TEXTS[key]

@@ -14,7 +14,7 @@ from pypdf import PdfReader
 import cutplan
 from cutplan.render.pdf import render_pdf
 from cutplan.units import format_length
-from tests.render.packets import example_packet_text
+from tests.render.packets import rendered_packet_text
 
 ROOT = Path(__file__).resolve().parents[2]
 TRIM = "cut long, then trim to pitch (trimming raises the pitch)"
@@ -27,7 +27,7 @@ def pages(plan, paper=None):
 
 def example_pages(example_plan, name, paper=None):
     """Page texts of an example's packet (rendered and read once per test process)."""
-    return list(example_packet_text(example_plan, name, paper))
+    return list(rendered_packet_text(example_plan, name, paper))
 
 
 def flat(text):

@@ -15,7 +15,7 @@ from cutplan.render import pdf as pdf_mod
 from cutplan.render import svg as svg_mod
 from cutplan.render.packet import packet_files
 from cutplan.render.pdf import templates
-from tests.render.packets import example_packet_text
+from tests.render.packets import rendered_packet_text
 
 DPI = 600
 PX_PER_MM = DPI / 25.4
@@ -155,7 +155,7 @@ def test_pdf_text_has_every_label_and_both_units(example_plan):
     from cutplan.units import format_inches
 
     p = example_plan("classroom-pipes")  # planned and rendered once per test process
-    text = "\n".join(example_packet_text(example_plan, "classroom-pipes"))
+    text = "\n".join(rendered_packet_text(example_plan, "classroom-pipes"))
     for piece in p.pieces:
         assert piece.label in text
         assert f"{piece.length * 1000:.1f} mm" in text

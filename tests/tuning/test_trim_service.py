@@ -25,7 +25,9 @@ def porch():
 
 @pytest.fixture(scope="module")
 def marimba(example_plan):
-    # the Plan of this very file, planned once per session (tests/conftest.py)
+    # the Plan of this very file, planned once per session (tests/conftest.py); a test that plans a
+    # copy of the file through the command line or the page asks for it too, so that those plans
+    # find the bars' 2-D solves remembered
     return cutplan.load_design(EXAMPLES / "music-room-marimba.toml"), example_plan("music-room-marimba")
 
 
@@ -75,7 +77,7 @@ def test_terminal_json_is_the_service_report(porch, tmp_path):
 
 
 @pytest.mark.slow
-def test_rounds_are_kept_beside_the_design_and_counted_when_done(tmp_path):
+def test_rounds_are_kept_beside_the_design_and_counted_when_done(marimba, tmp_path):
     src = (EXAMPLES / "music-room-marimba.toml").read_text()
     design = tmp_path / "marimba.toml"
     design.write_text(src)
