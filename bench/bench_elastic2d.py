@@ -128,7 +128,9 @@ def solver():
     xs = np.linspace(0.0, 0.38, 201)
     hs = undercut.arch_thickness(xs, 0.38, 0.022, 0.016, 0.6, 2.5)
     args = (xs, hs, 0.06, 14e9, 14e9, 1.5e9, 0.4, 850.0)
-    width = WidthConstants(1.4e9, 1.1e9, 0.3e9, 0.4, 0.5)
+    # nu across the width into the thickness 0.2: with E across the thickness as large as E along
+    # (these arguments), 0.5 is not a material (the solver refuses it)
+    width = WidthConstants(1.4e9, 1.1e9, 0.3e9, 0.4, 0.2)
 
     def timed(**kw):
         start = time.process_time()

@@ -272,7 +272,8 @@ def _assemble(xs, hs, width, e_along, e_across, shear, poisson, density, nx, ny,
 def _means(fields, slot_x, parts_x, slot_z, parts_z):
     """vec -> (along, through) displacements averaged across the width, each a vector of the
     model's size with them at ``slot_x`` / ``slot_z`` and zero elsewhere (``parts``: the DOFs
-    and weights that make each average); ``.fields`` the fields per node."""
+    and weights that make each average); ``.fields`` the fields per node.  ``vec`` may be a
+    block of vectors (one per column)."""
     def means(vec):
         out = []
         for slot, parts in ((slot_x, parts_x), (slot_z, parts_z)):
@@ -362,16 +363,18 @@ def _sort_modes(vals, vecs, m, means, top, omega1):
     eigenpairs given (ascending), the rigid-body modes dropped: a bending mode moves the width's
     mean across the bar more than along it and holds at least half its kinetic energy there."""
     elastic = vals > 1e-6 * omega1**2
+    vals, vecs = vals[elastic], vecs[:, elastic]
+    # kinetic energies of every mode at once (a sparse product with a block of vectors)
+    mean_x, mean_z = means(vecs)
+    total = np.einsum("ij,ij->j", vecs, m @ vecs)
+    ey = np.einsum("ij,ij->j", mean_z, m @ mean_z)
+    ex = np.einsum("ij,ij->j", mean_x, m @ mean_x)
     bending, longitudinal, node_sets = [], [], []
-    for lam, vec in zip(vals[elastic], vecs[:, elastic].T, strict=True):
-        mv = m @ vec
-        mean_x, mean_z = means(vec)
-        ey = float(mean_z @ (m @ mean_z))
-        ex = float(mean_x @ (m @ mean_x))
+    for j, lam in enumerate(vals):
         f = math.sqrt(lam) / (2 * math.pi)
-        if ey >= ex and 2 * ey >= float(vec @ mv):
+        if ey[j] >= ex[j] and 2 * ey[j] >= total[j]:
             bending.append(f)
-            node_sets.append(_zero_crossings(top[1], mean_z[top[0]]))
+            node_sets.append(_zero_crossings(top[1], mean_z[top[0], j]))
         else:
             longitudinal.append(f)
     return bending, longitudinal, node_sets
