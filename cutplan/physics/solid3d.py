@@ -228,7 +228,8 @@ def solve_side_modes(length, width, thickness, h, constants, density, arch_fract
             # shift-invert about a point below the lowest mode; minimum-degree ordering on the
             # symmetric pattern factors these 3-D stiffness matrices several times faster than
             # SuperLU's default column ordering
-            lu = splu((kf - sigma * mf).tocsc(), permc_spec="MMD_AT_PLUS_A")
+            lu = splu((kf - sigma * mf).tocsc(), permc_spec="MMD_AT_PLUS_A", diag_pivot_thresh=0.0,
+                      options={"SymmetricMode": True})
             op = LinearOperator(kf.shape, matvec=lu.solve, dtype=float)
             vals, vecs = eigsh(kf, k=want, M=mf, sigma=sigma, which="LM", OPinv=op,
                                v0=np.ones(kf.shape[0]))
