@@ -43,6 +43,15 @@ def test_no_label_is_struck_overprinted_or_in_the_margin(example_plan, path, pap
     assert result["margin"] == []
 
 
+def _first_faults(c):
+    """Draw the first faults the audit must see: a line through a word, two words on top of each other."""
+    c.setFont("Helvetica", 10)
+    c.drawString(50 * mm, 200 * mm, "struck")
+    c.line(48 * mm, 201 * mm, 70 * mm, 201 * mm)
+    c.drawString(50 * mm, 150 * mm, "first")
+    c.drawString(51 * mm, 150 * mm, "second")
+
+
 def _faults_pdf():
     """One A4 page with every fault the audit must see: a line through a word, two words on top
     of each other, one word printed twice 0.3 mm apart (pdfium's text page keeps only one copy of
@@ -50,11 +59,7 @@ def _faults_pdf():
     under a circle's outline and a word crossed by a rectangle's edge."""
     buf = io.BytesIO()
     c = Canvas(buf, pagesize=A4, invariant=1)
-    c.setFont("Helvetica", 10)
-    c.drawString(50 * mm, 200 * mm, "struck")
-    c.line(48 * mm, 201 * mm, 70 * mm, 201 * mm)
-    c.drawString(50 * mm, 150 * mm, "first")
-    c.drawString(51 * mm, 150 * mm, "second")
+    _first_faults(c)
     c.drawString(100 * mm, 150 * mm, "twice")
     c.drawString(100.3 * mm, 150 * mm, "twice")
     c.drawString(3 * mm, 100 * mm, "edge")
@@ -78,11 +83,7 @@ def test_the_audit_finds_a_struck_word_and_an_overprint():
     # on top of each other, and a word 3 mm from the edge
     buf = io.BytesIO()
     c = Canvas(buf, pagesize=A4, invariant=1)
-    c.setFont("Helvetica", 10)
-    c.drawString(50 * mm, 200 * mm, "struck")
-    c.line(48 * mm, 201 * mm, 70 * mm, 201 * mm)
-    c.drawString(50 * mm, 150 * mm, "first")
-    c.drawString(51 * mm, 150 * mm, "second")
+    _first_faults(c)
     c.drawString(3 * mm, 100 * mm, "edge")
     c.showPage()
     c.save()
