@@ -13,7 +13,6 @@ file is left to run alone at the end.
 
 from __future__ import annotations
 
-import contextlib
 import copy
 import fcntl
 import hashlib
@@ -96,24 +95,17 @@ def shared(tmp_path_factory):
     return lambda key, compute: shared_result(key, compute, basetemp)
 
 
-def solver_memo():
-    """The 2-D solver's memo of recent solves (cutplan.physics.elastic2d), or None if it has none."""
-    from cutplan.physics import elastic2d
-
-    memo = getattr(elastic2d, "_MEMO", None)
-    return memo if isinstance(memo, dict) else None
-
-
 def _with_solves(compute):
     """``compute`` as a shareable result: its value and the 2-D solves it added to this process's memo.
 
     A worker that reads the value also takes the solves into its own memo, so planning the same
     design again there (the command line, the page, a trim) finds them as the first worker did."""
     def run():
-        memo = solver_memo()
-        before = set(memo) if memo is not None else set()
+        from cutplan.physics import elastic2d
+
+        before = set(elastic2d.remembered_solves())
         value = compute()
-        return value, ({k: v for k, v in memo.items() if k not in before} if memo is not None else {})
+        return value, {k: v for k, v in elastic2d.remembered_solves().items() if k not in before}
     return run
 
 
@@ -123,14 +115,11 @@ _MERGED: set = set()
 def _shared_example(shared, key, compute):
     """The value of a :func:`_with_solves` result, its solves taken into this process's memo."""
     value, solves = shared(key, _with_solves(compute))
-    memo = solver_memo()
-    if memo is not None and key not in _MERGED:
+    if key not in _MERGED:
         _MERGED.add(key)
         from cutplan.physics import elastic2d
 
-        with getattr(elastic2d, "_MEMO_LOCK", contextlib.nullcontext()):  # as the solver itself adds them
-            for k, v in solves.items():
-                memo.setdefault(k, v)
+        elastic2d.remember_solves(solves)
     return value
 
 

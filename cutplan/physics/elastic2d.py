@@ -55,7 +55,8 @@ from cutplan.physics import mirror_modes, width_terms
 from cutplan.physics.blas import single_thread
 
 __all__ = [
-    "ELEMENTS_ALONG", "ELEMENTS_THROUGH", "RIGID_MODES", "ProfileError", "ProfileModes", "MEMO_SIZE", "forget_solves", "profile_modes"
+    "ELEMENTS_ALONG", "ELEMENTS_THROUGH", "RIGID_MODES", "ProfileError", "ProfileModes", "MEMO_SIZE", "forget_solves", "remembered_solves", "remember_solves",
+    "profile_modes"
 ]
 
 ELEMENTS_ALONG = 60
@@ -103,6 +104,23 @@ def forget_solves():
     """Empty the memo of :func:`profile_modes` (the next solves are made afresh)."""
     with _MEMO_LOCK:
         _MEMO.clear()
+
+
+def remembered_solves():
+    """A copy of the solves this process remembers ({key: ProfileModes}; the values are frozen), to
+    hand to another process planning the same designs (see :func:`remember_solves`)."""
+    with _MEMO_LOCK:
+        return dict(_MEMO)
+
+
+def remember_solves(solves):
+    """Take solves made by another process (from :func:`remembered_solves`) into this one's memo;
+    a solve it already has is kept, and the oldest drop out past :data:`MEMO_SIZE`."""
+    with _MEMO_LOCK:
+        for key, value in solves.items():
+            _MEMO.setdefault(key, value)
+        while len(_MEMO) > MEMO_SIZE:
+            _MEMO.popitem(last=False)
 
 
 def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_modulus, poisson, density,

@@ -8,7 +8,6 @@ import pytest
 import cutplan
 from cutplan.physics import elastic2d
 from cutplan.render.table import render_json
-from tests.conftest import solver_memo
 
 # a uniform aluminium bar 300 x 25 x 10 mm (E 69 GPa, G 26 GPa, nu 0.33, rho 2700 kg/m^3); the
 # values only need to be a valid bar here: the check is sameness, not accuracy
@@ -35,12 +34,9 @@ TWO_BARS = {"title": "Two bars for the classroom", "set": [{
 def memo_kept():
     """The solves this process remembered before the test, put back after it (the test empties
     the memo; later tests that plan the examples again then still find them)."""
-    memo = solver_memo()
-    kept = dict(memo) if memo is not None else {}
+    kept = elastic2d.remembered_solves()
     yield
-    if memo is not None:
-        for key, value in kept.items():
-            memo.setdefault(key, value)
+    elastic2d.remember_solves(kept)
 
 
 def test_a_design_planned_again_gives_byte_identical_output(memo_kept):
