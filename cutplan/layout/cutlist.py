@@ -10,7 +10,7 @@ number the plan table shows.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 from cutplan.layout import optimiser
 
@@ -67,7 +67,6 @@ class CutList:
     """Every stick of every group; totals over the groups."""
 
     groups: tuple[CutGroup, ...]
-    notes: tuple[str, ...] = field(default=())
 
     def __str__(self):
         """The layout in a few lines (mm), for a quick look from Python."""

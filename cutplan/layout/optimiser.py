@@ -41,7 +41,7 @@ from __future__ import annotations
 
 import math
 import time
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 from cutplan.layout.kits import natural_key
 from cutplan.units import format_length
@@ -154,7 +154,6 @@ class Layout:
     method: str
     cost: float | None = None
     cost_lower_bound: float | None = None
-    notes: tuple[str, ...] = field(default=())
     lp_solves: int = 0
 
     @property
