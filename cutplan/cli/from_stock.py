@@ -19,7 +19,8 @@ from cutplan.cli.common import (
 )
 from cutplan.design import DesignErrors, read_design_file
 from cutplan.design.contract import MAX_STOCK_COUNT
-from cutplan.fromstock.output import design_toml, result_dict
+from cutplan.design.writer import design_toml
+from cutplan.fromstock.output import result_dict
 from cutplan.fromstock.search import SearchError, search
 from cutplan.render.phrases import TRIM_RULE, caution_lines, sentence
 from cutplan.render.stock_layout import stick_lines, stick_rows

@@ -10,7 +10,7 @@ from pathlib import Path
 
 from cutplan import pitch
 
-__all__ = ["SET_NAMES", "design_mapping", "candidate_dict", "result_dict", "design_toml"]
+__all__ = ["SET_NAMES", "design_mapping", "candidate_dict", "result_dict"]
 
 SET_NAMES = {"chime": "chimes", "bar": "bars", "air-column": "pipes"}
 """Name of the written set per kind (the pieces are labelled chimes-1, bars-1, ...)."""
@@ -67,31 +67,3 @@ def result_dict(result):
     return {"format": "cutplan-fit/1", "objective": result.objective, "notes": list(result.notes),
             "candidates": [candidate_dict(c, i) for i, c in enumerate(result.candidates, start=1)],
             "chosen": chosen}
-
-
-def _toml_value(value):
-    if isinstance(value, bool):
-        return "true" if value else "false"
-    if isinstance(value, (int, float)):
-        return repr(value)
-    if isinstance(value, str):
-        return '"' + value.replace("\\", "\\\\").replace('"', '\\"') + '"'
-    if isinstance(value, (list, tuple)):
-        return "[" + ", ".join(_toml_value(v) for v in value) + "]"
-    if isinstance(value, dict):
-        return "{ " + ", ".join(f"{k} = {_toml_value(v)}" for k, v in value.items()) + " }"
-    raise TypeError(f"cannot write {value!r} to TOML")
-
-
-def design_toml(mapping, header=()):
-    """A design mapping (the design file's keys) as TOML text: scalars, then tables, then [[set]]."""
-    lines = [f"# {h}" for h in header]
-    for k, v in mapping.items():
-        if not isinstance(v, dict) and not (k == "set" and isinstance(v, list)):
-            lines.append(f"{k} = {_toml_value(v)}")
-    for k, v in mapping.items():
-        if isinstance(v, dict):
-            lines += ["", f"[{k}]"] + [f"{kk} = {_toml_value(vv)}" for kk, vv in v.items()]
-    for table in mapping.get("set", []):
-        lines += ["", "[[set]]"] + [f"{kk} = {_toml_value(vv)}" for kk, vv in table.items()]
-    return "\n".join(lines) + "\n"

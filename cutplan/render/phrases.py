@@ -23,6 +23,8 @@ CENTRE_OUT = "trim half from each end; supports from the centre line"
 """How a bar marked on a rough blank is trimmed and marked (so the supports stay on the nodes)."""
 SAFETY_HEADING = "Safety: the cautions for these pieces and materials"
 """The heading above the cautions (terminal, from-stock, the page)."""
+DESIGN_SAVED = "cutplan design, saved from the cutplan page"
+"""The comment at the top of a design file saved from the page."""
 
 
 def sentence(phrase):

@@ -19,8 +19,9 @@ from markupsafe import Markup
 from werkzeug.exceptions import HTTPException
 
 from cutplan import pitch
+from cutplan.design.writer import design_toml
 from cutplan.planning.shopping import general_cautions
-from cutplan.render.phrases import SAFETY_HEADING, TRIM_RULE
+from cutplan.render.phrases import DESIGN_SAVED, SAFETY_HEADING, TRIM_RULE
 from cutplan.render.table import plan_dict
 from cutplan.starters import CHIME, example_paths
 from cutplan.units import INCH_DENOMINATOR, INCH_DENOMINATORS, LengthParts
@@ -31,7 +32,6 @@ from cutplan.web.service import (
     MAX_DESIGN_BYTES,
     Planner,
     WebErrors,
-    design_toml,
     error,
     packet_pdf,
     packet_zip,
@@ -276,8 +276,8 @@ def create_app(materials_dirs=(), loopback_only=True, workers=0, host=None):
 
     @app.post("/design.toml")
     def save_design():
-        return _form_or_errors(lambda data, pair: _attachment(design_toml(data).encode("utf-8"),
-                                                              "application/toml", "design.toml"))
+        return _form_or_errors(lambda data, pair: _attachment(
+            design_toml(data, header=(DESIGN_SAVED,)).encode("utf-8"), "application/toml", "design.toml"))
 
     @app.post("/listen")
     def listen():

@@ -13,22 +13,22 @@ import threading
 import zipfile
 from collections import OrderedDict
 
-import tomli_w
-
 from cutplan.audio.synth import RATE, arpeggio, piece_preview
 from cutplan.audio.wav import wav_bytes
 from cutplan.design import DesignErrors, design_from_mapping
 from cutplan.design.notices import INVALID, Notice
+from cutplan.design.writer import design_toml
 from cutplan.materials import Library, MaterialError, load_library
 from cutplan.planning.planner import bars_to_solve
 from cutplan.planning.service import REFUSALS, guarded_plan, refusal_records
 from cutplan.render.packet import plan_files
 from cutplan.render.pdf import render_pdf
+from cutplan.render.phrases import DESIGN_SAVED
 from cutplan.web.workers import Stopped, WorkerPool
 
 __all__ = [
     "DESIGN_NAME", "MAX_DESIGN_BYTES", "CACHE_SIZE", "STOPPED", "ZIP_TIME", "WebErrors", "error",
-    "design_errors", "MAX_DEPTH", "plain_problem", "library", "Planner", "design_toml", "packet_zip",
+    "design_errors", "MAX_DEPTH", "plain_problem", "library", "Planner", "packet_zip",
     "packet_pdf", "piece_wav"
 ]
 
@@ -262,39 +262,10 @@ def _plan_in_worker(data, lib, report=None):
         return "errors", exc.errors
 
 
-_ORDER = {
-    "": ("title", "units", "paper", "tuning", "set", "stock"),
-    "tuning": ("a4", "temperament"),
-    "set": ("name", "kind", "notes", "scale", "root", "count", "range", "frequencies", "cents", "ratios", "material",
-            "section", "model", "grain", "target", "ends", "end_correction", "temperature", "humidity", "serves",
-            "max_length", "temperature_range", "undercut", "stock"),
-    "section": ("stock", "shape", "outer", "wall", "inner", "diameter", "width", "thickness"),
-    "stock": ("lengths", "kerf", "end_trim", "allowance"),
-    "lengths": ("length", "count", "price"),
-}
-
-
-def _ordered(value, where=""):
-    """The mapping with keys in the design contract's order (unknown keys after, as given)."""
-    if isinstance(value, list):
-        return [_ordered(v, where) for v in value]
-    if not isinstance(value, dict):
-        return value
-    order = _ORDER.get(where, ())
-    keys = [k for k in order if k in value] + [k for k in value if k not in order]
-    return {k: _ordered(value[k], k if k in _ORDER else "") for k in keys}
-
-
-def design_toml(data):
-    """The design as TOML text with the design file's keys, in the contract's order, so the same
-    design gives the same bytes however its keys arrived (``tomllib`` reads it back equal)."""
-    return "# cutplan design, saved from the cutplan page\n" + tomli_w.dumps(_ordered(data))
-
-
 def packet_zip(plan, data):
     """A zip of every file ``cutplan plan -o`` writes for this plan, plus ``design.toml``."""
     files = dict(plan_files(plan))
-    files["design.toml"] = design_toml(data)
+    files["design.toml"] = design_toml(data, header=(DESIGN_SAVED,))
     buf = io.BytesIO()
     with zipfile.ZipFile(buf, "w", zipfile.ZIP_DEFLATED) as zf:
         for name, payload in files.items():
