@@ -9,6 +9,7 @@ without the memo.  Only finite answers are kept; a call that raises is never rem
 
 from __future__ import annotations
 
+import dataclasses
 import functools
 import threading
 
@@ -42,14 +43,26 @@ def _key(args, kwargs):
     return tuple(parts), names
 
 
+def _parts(result):
+    """The numbers of an answer: a number, an array, or a tuple or dataclass of them."""
+    if isinstance(result, tuple):
+        return result
+    if dataclasses.is_dataclass(result) and not isinstance(result, type):
+        return tuple(getattr(result, f.name) for f in dataclasses.fields(result))
+    return (result,)
+
+
 def _finite(result):
-    parts = result if isinstance(result, tuple) else (result,)
-    return all(np.all(np.isfinite(p)) for p in parts)
+    return all(np.all(np.isfinite(p)) for p in _parts(result))
 
 
 def _fresh(result):
+    """A copy of an answer that shares no array with it."""
     if isinstance(result, tuple):
         return tuple(_fresh(p) for p in result)
+    if dataclasses.is_dataclass(result) and not isinstance(result, type):
+        return dataclasses.replace(result, **{f.name: _fresh(getattr(result, f.name))
+                                              for f in dataclasses.fields(result) if f.init})
     return result.copy() if isinstance(result, np.ndarray) else result
 
 

@@ -10,7 +10,7 @@ slender beam, (beta_n L)^2 = 22.3733, 61.6728, 120.9034, 199.8594); the unrememb
 import numpy as np
 import pytest
 
-from cutplan.physics import uniform
+from cutplan.physics import undercut, uniform
 from cutplan.physics.remember import remembered
 
 
@@ -59,3 +59,15 @@ def test_equal_looking_arguments_of_other_bits_are_other_questions():
 
     assert sign_of(0.0)[0] == 1.0 and sign_of(-0.0)[0] == -1.0  # IEEE 754: -0.0 keeps its sign bit
     assert len(calls) == 2
+
+
+def test_an_arched_bar_solve_is_remembered_as_a_fresh_copy():
+    # inputs only (a 450 x 50 x 22 mm wooden blank, no arch); the oracle is the unremembered solve
+    args = (0.45, 0.05, 0.022, 0.0, 0.5, 12e9, 0.8e9, 700.0, 5 / 6)
+    fresh = undercut.bar_modes.__wrapped__(*args, modes=3)
+    first = undercut.bar_modes(*args, modes=3)
+    first.frequencies[:] = 0.0
+    first.deflection[:] = 0.0
+    again = undercut.bar_modes(*args, modes=3)
+    for name in ("frequencies", "x", "deflection"):
+        assert getattr(again, name).tobytes() == getattr(fresh, name).tobytes()
