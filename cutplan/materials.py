@@ -169,12 +169,12 @@ def packaged_dir():
 _PARSED_LIMIT = 64
 """Table files whose parse :func:`load_library` keeps, most recent first [-] (the shipped folder
 holds eight; a user's folders add a few)."""
-_parsed_tables = {}
+_parsed_tables: dict[tuple[bytes, frozenset[str]], tuple[str, tuple]] = {}
 """What a table file's bytes gave: (bytes, the source keys it was checked against) -> what it
 adds, so a file is parsed once per process while its bytes stay the same (an edited file has other
 bytes and is read afresh).  Only files that loaded are kept: a broken one is parsed, and named in
 its error, every time it is loaded."""
-_parsed_sources = {}
+_parsed_sources: dict[bytes, dict] = {}
 """The same for ``sources.toml``: its bytes -> its parsed TOML (each load gets its own copy)."""
 
 
