@@ -13,6 +13,7 @@ from __future__ import annotations
 import difflib
 import functools
 import math
+import threading
 import tomllib
 from dataclasses import dataclass, field, replace
 from pathlib import Path
@@ -165,13 +166,41 @@ def packaged_dir():
     raise FileNotFoundError("cutplan's material tables are missing from this installation")
 
 
-def _read_toml(path):
-    """A table file's TOML: a regular file of at most a design file's size (never a pipe, a device,
+_PARSED_LIMIT = 64
+"""Table files whose parse :func:`load_library` keeps, most recent first [-] (the shipped folder
+holds eight; a user's folders add a few)."""
+_parsed_tables: dict[tuple[bytes, frozenset[str]], tuple[str, tuple]] = {}
+"""What a table file's bytes gave: (bytes, the source keys it was checked against) -> what it
+adds, so a file is parsed once per process while its bytes stay the same (an edited file has other
+bytes and is read afresh).  Only files that loaded are kept: a broken one is parsed, and named in
+its error, every time it is loaded."""
+_parsed_sources: dict[bytes, dict] = {}
+"""The same for ``sources.toml``: its bytes -> its parsed TOML (each load gets its own copy)."""
+
+
+_parsed_lock = threading.Lock()
+
+
+def _remember(memo, key, value):
+    """Keep ``value`` under ``key``, forgetting the oldest entries past :data:`_PARSED_LIMIT`."""
+    with _parsed_lock:
+        while len(memo) >= _PARSED_LIMIT:
+            del memo[next(iter(memo))]
+        memo[key] = value
+    return value
+
+
+def _read_bytes(path):
+    """A table file's bytes: a regular file of at most a design file's size (never a pipe, a device,
     a folder or a link loop), or MaterialError naming the file."""
     try:
-        raw = read_checked(path, MAX_FILE_BYTES, "a material or stock table")
+        return read_checked(path, MAX_FILE_BYTES, "a material or stock table")
     except FileRefused as exc:
         raise MaterialError(path, "(file)", "", exc.allowed) from None
+
+
+def _parse_toml(path, raw):
+    """The TOML of a table file's bytes, or MaterialError naming the file."""
     try:
         return tomllib.loads(raw.decode("utf-8").removeprefix("\ufeff"))
     except tomllib.TOMLDecodeError as exc:
@@ -180,6 +209,24 @@ def _read_toml(path):
         raise MaterialError(path, "(file)", "", "is not UTF-8 text") from None
     except RecursionError:
         raise MaterialError(path, "(file)", "", "is not a table file: its brackets nest too deep") from None
+
+
+def _read_sources(path):
+    """``sources.toml`` as parsed TOML, the caller's own copy (parsed once while its bytes stay the same)."""
+    raw = _read_bytes(path)
+    parsed = _parsed_sources.get(raw)
+    if parsed is None:
+        parsed = _remember(_parsed_sources, raw, _parse_toml(path, raw))
+    return _fresh(parsed)
+
+
+def _fresh(value):
+    """A copy of parsed TOML that shares no table or list with ``value`` (its other values are immutable)."""
+    if isinstance(value, dict):
+        return {k: _fresh(v) for k, v in value.items()}
+    if isinstance(value, list):
+        return [_fresh(v) for v in value]
+    return value
 
 
 def _value(path, key, entry, parse, sources, spread_default=None):
@@ -395,14 +442,15 @@ def load_library(extra_dirs=(), include_packaged=True):
             raise MaterialError(folder, "(folder)", str(folder), "is not a folder of .toml tables")
         src = folder / "sources.toml"
         if src.is_file():
-            sources.update(_read_toml(src))
+            sources.update(_read_sources(src))
+    known = frozenset(sources)
     for folder in dirs:
         for path in sorted(folder.glob("*.toml")):
             if path.name == "sources.toml":
                 continue
             files.append(path)
             try:
-                _read_table_file(path, sources, materials, stock)
+                _read_table_file(path, sources, known, materials, stock)
             except MaterialError:
                 raise
             except (TypeError, ValueError, AttributeError, KeyError, OverflowError) as exc:
@@ -412,15 +460,27 @@ def load_library(extra_dirs=(), include_packaged=True):
     return Library(materials=materials, stock=stock, sources=sources, files=tuple(files))
 
 
-def _read_table_file(path, sources, materials, stock):
-    data = _read_toml(path)
+def _read_table_file(path, sources, known, materials, stock):
+    """Add one table file's materials or stock sizes (``known``: the source keys, frozen)."""
+    raw = _read_bytes(path)
+    kind, rows = _parsed_tables.get((raw, known)) or _remember(_parsed_tables, (raw, known),
+                                                                _parse_table_file(path, raw, sources))
+    (stock if kind == "stock" else materials).update(rows)
+
+
+def _parse_table_file(path, raw, sources):
+    """("stock" or "materials", ((name, StockSize or Material), ...)) of one table file's bytes.
+    The rows are frozen, so every load may share them."""
+    data = _parse_toml(path, raw)
+    rows = {}
     if "sizes" in data or "table" in data:
-        _stock_file(path, data, sources, stock)
-        return
+        _stock_file(path, data, sources, rows)
+        return "stock", tuple(rows.items())
     for name, table in data.items():
         if not isinstance(table, dict):
             raise MaterialError(path, name, table, "must be a table of properties")
-        materials[name] = material_from_table(name, table, path, sources)
+        rows[name] = material_from_table(name, table, path, sources)
+    return "materials", tuple(rows.items())
 
 
 def closest_names(value, choices, count=3):

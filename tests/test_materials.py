@@ -132,3 +132,54 @@ def test_wheel_ships_the_tables_when_installed():
     for name in ("metals.toml", "woods.toml", "sources.toml", "astm_b88.toml", "astm_d1785.toml"):
         assert f"cutplan/_materials/{name}" in files
     assert any(f.startswith("cutplan/_examples/") for f in files)
+
+
+# Each load reads the files again; a file's parse is kept only while its bytes stay the same. The
+# oracle for these is the table text written here (the value read back is the one written).
+GARDEN = '[garden-steel]\nmodulus = "200 GPa"\ndensity = "7850 kg/m3"\n'
+
+
+def test_an_edited_table_is_read_again_even_at_the_same_size_and_moment(tmp_path):
+    table = tmp_path / "garden.toml"
+    table.write_text(GARDEN, encoding="utf-8")
+    assert load_library([tmp_path]).materials["garden-steel"].modulus == 200e9
+    edited = GARDEN.replace("200 GPa", "190 GPa")
+    assert len(edited) == len(GARDEN)  # same size, written within the same clock tick
+    table.write_text(edited, encoding="utf-8")
+    assert load_library([tmp_path]).materials["garden-steel"].modulus == 190e9
+    table.write_text(GARDEN, encoding="utf-8")
+    assert load_library([tmp_path]).materials["garden-steel"].modulus == 200e9
+
+
+def test_a_caller_changing_its_library_does_not_change_the_next_load(tmp_path):
+    (tmp_path / "garden.toml").write_text(GARDEN, encoding="utf-8")
+    first = load_library([tmp_path])
+    first.materials.clear()
+    first.stock.pop("pvc-sch40-1/2")
+    first.sources["aa-typical"]["citation"] = "changed by a caller"
+    first.sources.clear()
+    again = load_library([tmp_path])
+    assert again.materials["garden-steel"].modulus == 200e9
+    assert "aluminum-6061-t6" in again.materials and "pvc-sch40-1/2" in again.stock
+    assert again.sources["aa-typical"]["citation"] != "changed by a caller"
+    assert again.sources["aa-typical"]["citation"] == load_library().sources["aa-typical"]["citation"]
+
+
+def test_a_broken_table_is_named_on_every_load(tmp_path):
+    (tmp_path / "bad.toml").write_text('[x]\nmodulus = "70 parsecs"\ndensity = "1 kg/m3"\n', encoding="utf-8")
+    for _ in range(2):
+        with pytest.raises(MaterialError) as info:
+            load_library([tmp_path])
+        assert info.value.key == "x.modulus.value" and "bad.toml" in str(info.value)
+
+
+def test_a_table_is_checked_again_against_the_sources_it_is_loaded_with(tmp_path):
+    (tmp_path / "sources.toml").write_text('[garden-notes]\ncitation = "our own bench notes"\n', encoding="utf-8")
+    (tmp_path / "garden.toml").write_text(
+        '[garden-steel]\nmodulus = { value = "200 GPa", source = "garden-notes", kind = "measured" }\n'
+        'density = "7850 kg/m3"\n', encoding="utf-8")
+    assert load_library([tmp_path]).materials["garden-steel"].modulus == 200e9
+    (tmp_path / "sources.toml").unlink()
+    with pytest.raises(MaterialError) as info:
+        load_library([tmp_path])
+    assert info.value.key == "garden-steel.modulus.source" and "garden.toml" in str(info.value)

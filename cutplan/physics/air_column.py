@@ -14,6 +14,7 @@ import math
 import numpy as np
 
 from cutplan.physics import wall_losses
+from cutplan.physics.remember import remembered
 from cutplan.units import ROOM_TEMPERATURE, STANDARD_PRESSURE, ZERO_CELSIUS
 
 __all__ = [
@@ -296,6 +297,7 @@ def column_length(frequency, radius, speed, ends="open-open", harmonic=1, correc
     return _plain(harmonic * c / (2.0 * f) - 2.0 * delta)
 
 
+@remembered(4096)  # a plan asks again at the same lengths (allowance, checks, the page's re-plans)
 def column_frequency(length, radius, speed, ends="open-open", harmonic=1, correction="unflanged",
                      temperature=None, pressure=STANDARD_PRESSURE):
     """Resonance [Hz] of the n-th mode of an air column: the inverse of :func:`column_length`.

@@ -49,29 +49,69 @@ def bracketed_roots(fun, lo, hi, f_lo=None, f_hi=None, rtol=4e-16, max_iter=200)
     f_hi = fun(hi, everything) if f_hi is None else np.array(f_hi, dtype=float).ravel()
     x = np.where(f_lo == 0, lo, hi)
     done = (f_lo == 0) | (f_hi == 0)
-    side = np.zeros(lo.size, dtype=int)  # which end was kept last: -1 lo, +1 hi
+    if lo.size == 1 and not done[0]:
+        x[0] = _one_root(fun, float(lo[0]), float(hi[0]), float(f_lo[0]), float(f_hi[0]), float(x[0]), rtol, max_iter)
+        return x.reshape(shape)
+    # the unfinished brackets only, in order (``act`` their places): each step works on them alone
+    act = np.nonzero(~done)[0]
+    a, b, fa, fb, last = lo[act], hi[act], f_lo[act], f_hi[act], x[act]
+    side = np.zeros(act.size, dtype=int)  # which end was kept last: -1 lo, +1 hi
     for _ in range(max_iter):
-        act = np.nonzero(~done)[0]
         if act.size == 0:
             break
-        a, b, fa, fb = lo[act], hi[act], f_lo[act], f_hi[act]
         denom = fb - fa
-        xn = np.where(denom != 0, (a * fb - b * fa) / np.where(denom != 0, denom, 1.0), 0.5 * (a + b))
+        mid = 0.5 * (a + b)
+        xn = np.where(denom != 0, (a * fb - b * fa) / np.where(denom != 0, denom, 1.0), mid)
         # keep strictly inside the bracket (rounding can land on an end)
         bad = ~((xn > np.minimum(a, b)) & (xn < np.maximum(a, b)))
-        xn = np.where(bad, 0.5 * (a + b), xn)
+        xn = np.where(bad, mid, xn)
         fx = fun(xn, act)
-        step = np.abs(xn - x[act])
-        x[act] = xn
+        step = np.abs(xn - last)
         same_as_lo = np.sign(fx) == np.sign(fa)
         # replace the end whose sign fx shares; halve the other end's value if it was kept twice
         new_lo = np.where(same_as_lo, xn, a)
         new_hi = np.where(same_as_lo, b, xn)
-        new_flo = np.where(same_as_lo, fx, np.where(side[act] == -1, 0.5 * fa, fa))
-        new_fhi = np.where(same_as_lo, np.where(side[act] == 1, 0.5 * fb, fb), fx)
-        side[act] = np.where(same_as_lo, 1, -1)
-        lo[act], hi[act], f_lo[act], f_hi[act] = new_lo, new_hi, new_flo, new_fhi
+        fa = np.where(same_as_lo, fx, np.where(side == -1, 0.5 * fa, fa))
+        fb = np.where(same_as_lo, np.where(side == 1, 0.5 * fb, fb), fx)
+        side = np.where(same_as_lo, 1, -1)
+        a, b, last = new_lo, new_hi, xn
         scale = np.abs(xn) + 1e-300
         finished = (fx == 0) | (np.abs(new_hi - new_lo) <= rtol * scale) | (step <= rtol * scale)
-        done[act] = finished
+        if finished.any():
+            x[act[finished]] = xn[finished]
+            going = ~finished
+            act, a, b, fa, fb, last, side = act[going], a[going], b[going], fa[going], fb[going], last[going], side[going]
+    x[act] = last
     return x.reshape(shape)
+
+
+def _same_sign(p, q):
+    """``np.sign(p) == np.sign(q)`` for two floats (False when either is NaN)."""
+    return (p > 0 and q > 0) or (p < 0 and q < 0) or (p == 0 and q == 0)
+
+
+def _one_root(fun, a, b, fa, fb, x, rtol, max_iter):
+    """:func:`bracketed_roots` of a single bracket, in plain floats: the same steps and the same
+    arithmetic (each operation rounds as numpy's does), without the array overhead per step."""
+    act = np.zeros(1, dtype=np.intp)
+    side = 0
+    for _ in range(max_iter):
+        denom = fb - fa
+        mid = 0.5 * (a + b)
+        xn = (a * fb - b * fa) / denom if denom != 0 else mid
+        if not ((a < b and a < xn < b) or (b < a and b < xn < a)):
+            xn = mid
+        fx = float(np.asarray(fun(np.array([xn]), act), dtype=float).reshape(-1)[0])
+        step, x = abs(xn - x), xn
+        same_as_lo = _same_sign(fx, fa)
+        new_lo, new_hi = (xn, b) if same_as_lo else (a, xn)
+        if same_as_lo:
+            fa, fb = fx, (0.5 * fb if side == 1 else fb)
+        else:
+            fa, fb = (0.5 * fa if side == -1 else fa), fx
+        side = 1 if same_as_lo else -1
+        a, b = new_lo, new_hi
+        scale = abs(xn) + 1e-300
+        if fx == 0 or abs(new_hi - new_lo) <= rtol * scale or step <= rtol * scale:
+            break
+    return x

@@ -30,6 +30,7 @@ import numpy as np
 
 from cutplan.physics import beam_fe
 from cutplan.physics.blas import single_thread
+from cutplan.physics.remember import remembered
 from cutplan.physics.timoshenko import fundamental_length
 
 __all__ = [
@@ -81,6 +82,7 @@ def _breaks(length, arch_fraction):
     return np.concatenate([left, right[1:]])
 
 
+@remembered(1024)  # the design search, the planner and the checks ask again at the same blanks
 def bar_modes(length, width, thickness, depth, arch_fraction, modulus, shear_modulus, density, kappa,
               exponent=2.0, modes=3, slender=False):
     """Free-free modes of an arched bar (shear-corrected, non-uniform).

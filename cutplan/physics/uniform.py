@@ -40,6 +40,7 @@ import math
 import numpy as np
 
 from cutplan.physics.beam import free_free_length, free_free_root
+from cutplan.physics.remember import remembered
 from cutplan.physics.roots import bracketed_roots
 
 __all__ = [
@@ -49,6 +50,9 @@ __all__ = [
 
 PHASE_STEP = np.pi / 16
 """Largest step of either wave number between grid points when bracketing modes [rad]."""
+
+_REMEMBERED = 512
+"""Answers each solver below keeps for the same arguments [-] (see :mod:`cutplan.physics.remember`)."""
 
 
 def _even_odd(z, s):
@@ -161,6 +165,7 @@ def _fundamental_omega_scalar(g, s2):
     return x
 
 
+@remembered(_REMEMBERED)
 def fundamental_omegas(g, s2):
     """Omega_1 of many pieces at once [-] (mode 1 is the first symmetric root).
 
@@ -242,6 +247,7 @@ def _search_dip(fun, lo, hi, sign):
     return mid, sign * fun(mid, k) < 0
 
 
+@remembered(_REMEMBERED)
 def omegas(g, s2, modes):
     """Omega_1 .. Omega_modes of many pieces at once, in ascending order (rows) [-].
 
@@ -277,6 +283,7 @@ def _length_parameters(frequency, flexural_rigidity, mass_per_length, shear_rigi
     return target, slender, om, g, s2
 
 
+@remembered(_REMEMBERED)
 def fundamental_lengths(frequency, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia):
     """Lengths [m] whose mode 1 sounds each target frequency [Hz], all at once.
 
@@ -300,6 +307,7 @@ def fundamental_lengths(frequency, flexural_rigidity, mass_per_length, shear_rig
     return slender * bracketed_roots(fun, lo, hi, f_lo, f_hi)
 
 
+@remembered(_REMEMBERED)
 def mode_lengths(frequency, mode, flexural_rigidity, mass_per_length, shear_rigidity, rotary_inertia,
                  rtol=5e-14):
     """Lengths [m] whose mode ``mode`` sounds each target frequency [Hz] (vectorised secant).
@@ -342,6 +350,7 @@ def deflection(xi, omega, g, s2, start):
     return (c0 - b * g * c2) * start[0] + (c1 - (a + b * g) * c3) * start[1]
 
 
+@remembered(_REMEMBERED)
 def fundamental_nodes(omega, g, s2):
     """Node of mode 1 nearer the reference end, as a fraction of the length, for many pieces [-].
 

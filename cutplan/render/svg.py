@@ -92,7 +92,56 @@ class _Doc:
                                               font_family="Helvetica, Arial, sans-serif", text_anchor=anchor))
 
     def tostring(self):
-        return self.dwg.tostring()
+        return _svg_text(self.dwg)
+
+
+_ATTRIBUTE_ESCAPES = (("&", "&amp;"), ("<", "&lt;"), (">", "&gt;"), ('"', "&quot;"), ("\r", "&#13;"),
+                      ("\n", "&#10;"), ("\t", "&#09;"))
+_TEXT_ESCAPES = _ATTRIBUTE_ESCAPES[:3]
+
+
+def _escaped(text, escapes):
+    for plain, entity in escapes:
+        if plain in text:
+            text = text.replace(plain, entity)
+    return text
+
+
+def _svg_text(dwg):
+    """``dwg.tostring()`` written directly from the drawing's elements, byte for byte the same
+    (svgwrite builds an ElementTree first, which costs more than the drawing itself): attributes
+    sorted by name, empty elements closed with " />", text and attribute values escaped as
+    ElementTree escapes them.  Only a drawing made without validation (``debug=False``) in the full
+    profile, holding groups, lines, rectangles, circles, polylines and text, as :class:`_Doc` makes."""
+    dwg.attribs.update({"xmlns": "http://www.w3.org/2000/svg", "xmlns:xlink": "http://www.w3.org/1999/xlink",
+                        "xmlns:ev": "http://www.w3.org/2001/xml-events", "baseProfile": dwg.profile,
+                        "version": dwg.version})
+    out = []
+    _write_element(dwg, out)
+    # as ElementTree writes UTF-8: a character UTF-8 cannot carry (a lone surrogate) becomes a reference
+    return "".join(out).encode("utf-8", "xmlcharrefreplace").decode("utf-8")
+
+
+def _write_element(element, out):
+    name = element.elementname
+    if name == "polyline":
+        element.attribs["points"] = element.points_to_string(element.points)
+    out.append("<" + name)
+    for key, value in sorted(element.attribs.items()):
+        if value is not None:
+            value = str(value)
+            if value:
+                out.append(f' {key}="{_escaped(value, _ATTRIBUTE_ESCAPES)}"')
+    text = str(element.text) if name == "text" else ""
+    if text or element.elements:
+        out.append(">")
+        if text:
+            out.append(_escaped(text, _TEXT_ESCAPES))
+        for child in element.elements:
+            _write_element(child, out)
+        out.append(f"</{name}>")
+    else:
+        out.append(" />")
 
 
 def _rulers(doc, x, y):

@@ -7,6 +7,7 @@ every number comes from the Plan and is only formatted.
 
 from __future__ import annotations
 
+import functools
 import io
 
 from reportlab.lib import colors
@@ -73,7 +74,16 @@ def fit(text, size, width, font=FONT):
 
 def wrap(text, size, width, font=FONT):
     """Lines of ``text`` no wider than ``width`` points (long words are broken)."""
-    return simpleSplit(text, font, size, width) or [""]
+    if not isinstance(text, str):
+        return simpleSplit(text, font, size, width) or [""]
+    return list(_split(text, size, width, font)) or [""]
+
+
+@functools.lru_cache(maxsize=8192)
+def _split(text, size, width, font):
+    """:func:`wrap`'s lines, measured once per text, size, width and font (a packet's tables repeat
+    their headings, phrases and lengths from page to page and plan to plan)."""
+    return tuple(simpleSplit(text, font, size, width))
 
 
 def cell(text, size, width, font=FONT):
