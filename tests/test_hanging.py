@@ -14,7 +14,6 @@ from cutplan.cli import cli
 from cutplan.render.pdf import render_pdf
 from cutplan.render.svg import svg_files
 from tests.pdf_text import page_texts
-from tests.render.packets import rendered_packet, rendered_packet_text
 
 ROOT = Path(__file__).resolve().parent.parent
 EXAMPLES = ROOT / "examples"
@@ -223,15 +222,16 @@ def test_line_and_fixing_follow_the_load(tmp_path):
     assert tube_line["breaking_n"] > light_line["breaking_n"]  # heavier tubes, stronger line
 
 
-def test_no_second_hang_hole_in_any_chime_packet_or_template(tmp_path, example_plan):
+def test_no_second_hang_hole_in_any_chime_packet_or_template(tmp_path, example_plan, example_pdf,
+                                                            example_pdf_text):
     # the packet's files as ``plan -o`` writes them (cutplan.render.packet.packet_files: the PDF and
     # the SVG templates); a bundled example's plan and PDF come from the session (planned,
-    # rendered and read once per test process), the command line's writing is tested elsewhere
+    # rendered and read once per run), the command line's writing is tested elsewhere
     for path in designs(tmp_path):
         if path.parent == EXAMPLES:
             plan = example_plan(path.stem)
-            pdf = rendered_packet(example_plan, path.stem)
-            text = "".join(rendered_packet_text(example_plan, path.stem))
+            pdf = example_pdf(path.stem)
+            text = "".join(example_pdf_text(path.stem))
         else:
             plan = cutplan.plan(cutplan.load_design(path))
             pdf = render_pdf(plan)

@@ -14,7 +14,6 @@ import tomllib
 import xml.etree.ElementTree as ET
 from pathlib import Path
 
-import pypdf
 import pytest
 from click.testing import CliRunner
 
@@ -24,6 +23,7 @@ from cutplan.render.svg import svg_files
 from cutplan.render.table import render_cutlist_csv
 from cutplan.web.app import create_app
 from cutplan.web.form import form_from_mapping
+from tests.pdf_text import page_texts
 from tests.test_one_truth import _toml
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -98,7 +98,7 @@ def test_one_pieces_lengths_read_the_same_in_every_output(example, top, tmp_path
     assert (cuts[p.label]["length_mm"], cuts[p.label]["length_in"]) == (mm, f"{inch} in")
 
     # PDF: the cut-list table cell, the design's unit on top
-    pages = [page.extract_text() for page in pypdf.PdfReader(out / "packet.pdf").pages]
+    pages = page_texts(out / "packet.pdf")
     cut_pages = "\n".join(t for t in pages if "Cut list: " in t)
     assert f"{first}\n{second}" in cut_pages
     assert f"{l_first}\n{l_second}" in cut_pages
@@ -189,7 +189,7 @@ def test_inch_denominator_8_reaches_terminal_csv_pdf_svg_and_page(tmp_path):
     texts = {
         "terminal": table, "plan.csv": (out / "plan.csv").read_text(encoding="utf-8"),
         "cutlist.csv": (out / "cutlist.csv").read_text(encoding="utf-8"),
-        "pdf": "\n".join(page.extract_text() for page in pypdf.PdfReader(out / "packet.pdf").pages),
+        "pdf": "\n".join(page_texts(out / "packet.pdf")),
         "svg": "\n".join(t.text or "" for f in (out / "templates").glob("*.svg")
                          for t in ET.parse(f).getroot().iter("{http://www.w3.org/2000/svg}text")),
     }
@@ -210,7 +210,7 @@ def test_the_cut_list_on_stock_is_worded_once_in_terminal_pdf_and_page(tmp_path)
     status = "proven optimal" if plan.cut_list.proven_optimal else "best found, not proven optimal"
     heading = f"Cut list on stock ({status}; marks measured from the stick's factory end"
     bound = f"fewest possible {plan.cut_list.lower_bound};"
-    pdf = " ".join(" ".join(page.extract_text().split()) for page in pypdf.PdfReader(out / "packet.pdf").pages)
+    pdf = " ".join(" ".join(page.split()) for page in page_texts(out / "packet.pdf"))
     html = create_app().test_client().post("/", data=form_from_mapping(data)).get_data(as_text=True)
     outputs = {"terminal": runner.invoke(cli, ["plan", str(path)]).output, "pdf": pdf,
                "page": html.replace("&#39;", "'")}

@@ -1,12 +1,10 @@
 """Print-scale checks of the shop packet: rasterised PDF pages and parsed SVG geometry."""
 
-import io
 import xml.etree.ElementTree as ET
 
 import numpy as np
 import pypdfium2
 import pytest
-from pypdf import PdfReader
 
 from cutplan.design import load_design
 from cutplan.materials import load_library
@@ -15,7 +13,7 @@ from cutplan.render import pdf as pdf_mod
 from cutplan.render import svg as svg_mod
 from cutplan.render.packet import packet_files
 from cutplan.render.pdf import templates
-from tests.render.packets import rendered_packet_text
+from tests.pdf_text import page_texts
 
 DPI = 600
 PX_PER_MM = DPI / 25.4
@@ -59,12 +57,11 @@ def dark_runs(row):
 
 
 def template_pages(pdf_bytes):
-    reader = PdfReader(io.BytesIO(pdf_bytes))
-    return [i for i, p in enumerate(reader.pages) if "Marking strips" in (p.extract_text() or "")]
+    return [i for i, text in enumerate(page_texts(pdf_bytes)) if "Marking strips" in text]
 
 
 def pdf_text(pdf_bytes):
-    return "\n".join(page.extract_text() for page in PdfReader(io.BytesIO(pdf_bytes)).pages)
+    return "\n".join(page_texts(pdf_bytes))
 
 
 def first_template_raster(tmp_path, paper):
@@ -142,8 +139,7 @@ def test_user_text_is_escaped_in_svg_and_pdf(tmp_path):
     text = svg_mod.render_piece_svg(p, p.pieces[0])
     assert "&lt;test&gt; &amp; co" in text
     svg_tree(text)  # parses
-    reader = PdfReader(io.BytesIO(pdf_mod.render_pdf(p)))
-    assert "<test> & co" in reader.pages[0].extract_text()
+    assert "<test> & co" in page_texts(pdf_mod.render_pdf(p))[0]
 
 
 def test_pdf_is_byte_identical_on_every_run(tmp_path):
@@ -151,11 +147,11 @@ def test_pdf_is_byte_identical_on_every_run(tmp_path):
     assert pdf_mod.render_pdf(p) == pdf_mod.render_pdf(p)
 
 
-def test_pdf_text_has_every_label_and_both_units(example_plan):
+def test_pdf_text_has_every_label_and_both_units(example_plan, example_pdf_text):
     from cutplan.units import format_inches
 
-    p = example_plan("classroom-pipes")  # planned and rendered once per test process
-    text = "\n".join(rendered_packet_text(example_plan, "classroom-pipes"))
+    p = example_plan("classroom-pipes")  # planned, rendered and read once per run
+    text = "\n".join(example_pdf_text("classroom-pipes"))
     for piece in p.pieces:
         assert piece.label in text
         assert f"{piece.length * 1000:.1f} mm" in text
@@ -175,8 +171,9 @@ section = { stock = "al-1.000x0.065" }
     p = make_plan(tmp_path, text)
     assert len(p.pieces) == 60
     files = packet_files(p)
-    assert len(PdfReader(io.BytesIO(files["packet.pdf"])).pages) > 10
-    all_text = pdf_text(files["packet.pdf"])
+    pages = page_texts(files["packet.pdf"])
+    assert len(pages) > 10
+    all_text = "\n".join(pages)
     assert "big-60" in all_text and "big-1 " in all_text
     assert sum(1 for k in files if k.startswith("templates/big-")) == 60 + 2
 
