@@ -206,24 +206,30 @@ def _render_example(plan, paper):
 
 
 @pytest.fixture(scope="session")
-def example_pdf(shared, example_plan):
+def example_pdf(shared, example_plan, example_packet):
     """``example_pdf(name, paper=None)`` -> the bytes of example ``name``'s packet.pdf on ``paper``
-    (the design's own paper if None), rendered once per run from its shared Plan (the file the
-    command line writes for the design's own paper is the same: both are ``render_pdf``)."""
+    (the design's own paper if None), made once per run: on the design's own paper the file
+    ``example_packet`` wrote (the command line renders the same ``render_pdf(plan, plan.paper)``),
+    on the other paper rendered from the shared Plan."""
     def get(name, paper=None):
         plan = example_plan(name)
         paper = paper or plan.paper
+        if paper == plan.paper:
+            return shared(("pdf", name, paper), lambda: (example_packet(name)[1] / "packet.pdf").read_bytes())
         return shared(("pdf", name, paper), lambda: _render_example(plan, paper))
 
     return get
 
 
 @pytest.fixture(scope="session")
-def example_pdf_text(shared, example_plan, example_pdf):
+def example_pdf_text(shared, example_plan, example_pdf, example_packet):
     """``example_pdf_text(name, paper=None)`` -> the text of each page of :func:`example_pdf`'s
     packet (:func:`tests.pdf_text.page_texts`), read once per run; a tuple, so nobody changes it."""
     def get(name, paper=None):
-        paper = paper or example_plan(name).paper
+        plan = example_plan(name)
+        paper = paper or plan.paper
+        if paper == plan.paper:
+            return shared(("pdf-text", name, paper), lambda: tuple(example_packet(name)[2]))
         return shared(("pdf-text", name, paper), lambda: tuple(page_texts(example_pdf(name, paper))))
 
     return get

@@ -64,17 +64,40 @@ def pdf_text(pdf_bytes):
     return "\n".join(page_texts(pdf_bytes))
 
 
-def first_template_raster(tmp_path, paper):
-    """(plan, grey image of the first template page at DPI, page height [mm]) for the test bars."""
-    p = make_plan(tmp_path, GLOCK.format(paper=paper))
-    data = pdf_mod.render_pdf(p)
-    gray, height_pt = raster(data, template_pages(data)[0])
-    return p, gray, height_pt / 72 * 25.4
+@pytest.fixture(scope="module")
+def glock(tmp_path_factory):
+    """``glock(paper)`` -> the test bars' Plan, ``paper`` in the design, planned once for this
+    module (the tests only read it)."""
+    plans = {}
+
+    def get(paper):
+        if paper not in plans:
+            plans[paper] = make_plan(tmp_path_factory.mktemp(f"glock-{paper}"), GLOCK.format(paper=paper))
+        return plans[paper]
+
+    return get
+
+
+@pytest.fixture(scope="module")
+def first_template_raster(glock):
+    """``first_template_raster(paper)`` -> (plan, grey image of the first template page at DPI,
+    page height [mm]) for the test bars, rendered and rastered once for this module."""
+    made = {}
+
+    def get(paper):
+        if paper not in made:
+            p = glock(paper)
+            data = pdf_mod.render_pdf(p)
+            gray, height_pt = raster(data, template_pages(data)[0])
+            made[paper] = (p, gray, height_pt / 72 * 25.4)
+        return made[paper]
+
+    return get
 
 
 @pytest.mark.parametrize("paper", ["letter", "a4"])
-def test_calibration_rulers_print_at_true_size(tmp_path, paper):
-    _p, gray, page_h_mm = first_template_raster(tmp_path, paper)
+def test_calibration_rulers_print_at_true_size(first_template_raster, paper):
+    _p, gray, page_h_mm = first_template_raster(paper)
     # the 100 mm ruler: only its 0, 50 and 100 mm ticks reach 5 mm below its top line
     ruler_top_mm = pdf_mod.RULER_TOP / pdf_mod.mm  # from the bottom of the page
     row = int(round((page_h_mm - (ruler_top_mm - 5.0)) * PX_PER_MM))
@@ -88,8 +111,8 @@ def test_calibration_rulers_print_at_true_size(tmp_path, paper):
     assert (ticks2[-1] - ticks2[0]) / PX_PER_MM == pytest.approx(101.6, abs=0.2)
 
 
-def test_node_marks_print_where_the_plan_says(tmp_path):
-    p, gray, page_h_mm = first_template_raster(tmp_path, "letter")
+def test_node_marks_print_where_the_plan_says(first_template_raster):
+    p, gray, page_h_mm = first_template_raster("letter")
     # first strip on the page: its frame position from the template layout, its body's bottom edge
     _size, pages = templates.orientation(p, "letter")
     tile, x_mm, y_top_mm = pages[0][0]
@@ -111,8 +134,8 @@ def svg_tree(text):
     return ET.fromstring(text)
 
 
-def test_svg_is_in_millimetres_with_matching_viewbox(tmp_path):
-    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
+def test_svg_is_in_millimetres_with_matching_viewbox(glock):
+    p = glock("letter")
     root = svg_tree(svg_mod.render_piece_svg(p, p.pieces[0]))
     width, height = root.get("width"), root.get("height")
     assert width.endswith("mm") and height.endswith("mm")
@@ -121,8 +144,8 @@ def test_svg_is_in_millimetres_with_matching_viewbox(tmp_path):
     assert box[3] == pytest.approx(float(height[:-2]), abs=1e-9)
 
 
-def test_svg_node_and_ruler_marks_land_within_0_05_mm(tmp_path):
-    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
+def test_svg_node_and_ruler_marks_land_within_0_05_mm(glock):
+    p = glock("letter")
     piece = p.pieces[0]
     root = svg_tree(svg_mod.render_piece_svg(p, piece))
     ns = "{http://www.w3.org/2000/svg}"
@@ -134,16 +157,16 @@ def test_svg_node_and_ruler_marks_land_within_0_05_mm(tmp_path):
     assert min(abs(v - (svg_mod.MARGIN + 115 + 101.6)) for v in verticals) < 0.05  # 4 in ruler end
 
 
-def test_user_text_is_escaped_in_svg_and_pdf(tmp_path):
-    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
+def test_user_text_is_escaped_in_svg_and_pdf(glock):
+    p = glock("letter")
     text = svg_mod.render_piece_svg(p, p.pieces[0])
     assert "&lt;test&gt; &amp; co" in text
     svg_tree(text)  # parses
     assert "<test> & co" in page_texts(pdf_mod.render_pdf(p))[0]
 
 
-def test_pdf_is_byte_identical_on_every_run(tmp_path):
-    p = make_plan(tmp_path, GLOCK.format(paper="a4"))
+def test_pdf_is_byte_identical_on_every_run(glock):
+    p = glock("a4")
     assert pdf_mod.render_pdf(p) == pdf_mod.render_pdf(p)
 
 
