@@ -2,7 +2,9 @@
 
 Planning the examples (the arched-bar ones most of all) is the slowest thing the tests do;
 tests that only read a plan take it from here instead of planning again.  The fixtures return
-fresh copies of the JSON, so a test may change what it gets without affecting others.
+fresh copies of the JSON, so a test may change what it gets without affecting others.  So are
+the examples' packets: what ``cutplan plan EXAMPLE -o`` writes (``example_packet``) and the
+packet rendered on either paper, as bytes (``example_pdf``) and page texts (``example_pdf_text``).
 
 Under pytest-xdist the worker processes share these results too (:func:`shared_result`): the
 first worker to need one computes it under a file lock and leaves it, pickled, in the run's
@@ -22,6 +24,8 @@ import pickle
 from pathlib import Path
 
 import pytest
+
+from tests.pdf_text import page_texts
 
 ROOT = Path(__file__).resolve().parent.parent
 EXAMPLES_DIR = ROOT / "examples"
@@ -171,21 +175,19 @@ def example_json(shared, example_plan):
 def _packet_example(name, folder):
     """(what ``cutplan plan EXAMPLE -o FOLDER`` printed, FOLDER, the text of each packet page)."""
     from click.testing import CliRunner
-    from pypdf import PdfReader
 
     from cutplan.cli import cli
 
     result = CliRunner().invoke(cli, ["plan", str(EXAMPLES_DIR / f"{name}.toml"), "-o", str(folder)])
     assert result.exit_code == 0, result.output
-    pages = [page.extract_text() for page in PdfReader(folder / "packet.pdf").pages]
-    return result.stdout, str(folder), pages
+    return result.stdout, str(folder), page_texts(folder / "packet.pdf")
 
 
 @pytest.fixture(scope="session")
 def example_packet(shared, example_plan, tmp_path_factory):
     """``example_packet(name)`` -> (stdout, folder, pages): ``cutplan plan EXAMPLE -o FOLDER`` run
     once per run, what it printed, the folder it wrote (read it, never change it) and the text of
-    each page of its packet.pdf (pypdf)."""
+    each page of its packet.pdf (:func:`tests.pdf_text.page_texts`)."""
     def run(name):
         example_plan(name)  # the plan's solves first, as for example_json
         return _packet_example(name, tmp_path_factory.mktemp(f"packet-{name}") / "packet")
@@ -193,6 +195,42 @@ def example_packet(shared, example_plan, tmp_path_factory):
     def get(name):
         stdout, folder, pages = _shared_example(shared, ("packet", name), lambda: run(name))
         return stdout, Path(folder), list(pages)
+
+    return get
+
+
+def _render_example(plan, paper):
+    from cutplan.render.pdf import render_pdf
+
+    return render_pdf(plan, paper)
+
+
+@pytest.fixture(scope="session")
+def example_pdf(shared, example_plan, example_packet):
+    """``example_pdf(name, paper=None)`` -> the bytes of example ``name``'s packet.pdf on ``paper``
+    (the design's own paper if None), made once per run: on the design's own paper the file
+    ``example_packet`` wrote (the command line renders the same ``render_pdf(plan, plan.paper)``),
+    on the other paper rendered from the shared Plan."""
+    def get(name, paper=None):
+        plan = example_plan(name)
+        paper = paper or plan.paper
+        if paper == plan.paper:
+            return shared(("pdf", name, paper), lambda: (example_packet(name)[1] / "packet.pdf").read_bytes())
+        return shared(("pdf", name, paper), lambda: _render_example(plan, paper))
+
+    return get
+
+
+@pytest.fixture(scope="session")
+def example_pdf_text(shared, example_plan, example_pdf, example_packet):
+    """``example_pdf_text(name, paper=None)`` -> the text of each page of :func:`example_pdf`'s
+    packet (:func:`tests.pdf_text.page_texts`), read once per run; a tuple, so nobody changes it."""
+    def get(name, paper=None):
+        plan = example_plan(name)
+        paper = paper or plan.paper
+        if paper == plan.paper:
+            return shared(("pdf-text", name, paper), lambda: tuple(example_packet(name)[2]))
+        return shared(("pdf-text", name, paper), lambda: tuple(page_texts(example_pdf(name, paper))))
 
     return get
 

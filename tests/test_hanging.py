@@ -14,7 +14,6 @@ from cutplan.cli import cli
 from cutplan.render.pdf import render_pdf
 from cutplan.render.svg import svg_files
 from tests.pdf_text import page_texts
-from tests.render.packets import rendered_packet, rendered_packet_text
 
 ROOT = Path(__file__).resolve().parent.parent
 EXAMPLES = ROOT / "examples"
@@ -65,14 +64,22 @@ def run(*args):
     return CliRunner().invoke(cli, [str(a) for a in args])
 
 
+_PRINTED: dict[str, str] = {}
+"""What ``plan --format json`` printed for each design text planned here (once per process)."""
+
+
 def plan_json(path, example_json=None):
-    """What ``cutplan plan PATH --format json`` prints; for a bundled example, from the session
-    fixture that runs the same command once per test process (when the test passes it)."""
+    """What ``cutplan plan PATH --format json`` prints (a fresh copy); for a bundled example, from
+    the session fixture that runs the same command once per run (when the test passes it); for a
+    design of this file, run once per process for each design text."""
     if example_json is not None and path.parent == EXAMPLES:
         return example_json(path.stem)
-    result = run("plan", path, "--format", "json")
-    assert result.exit_code == 0, result.output
-    return json.loads(result.output)
+    text = Path(path).read_text(encoding="utf-8")
+    if text not in _PRINTED:
+        result = run("plan", path, "--format", "json")
+        assert result.exit_code == 0, result.output
+        _PRINTED[text] = result.output
+    return json.loads(_PRINTED[text])
 
 
 def designs(tmp_path):
@@ -167,8 +174,8 @@ def test_striker_height_is_the_best_height_by_the_mode_shapes(tmp_path, example_
             assert score(other) <= best + 1e-6
 
 
-def test_sail_matches_the_hand_calculation_of_drag_and_swing():
-    data = plan_json(ROOT / "examples" / "porch-chimes.toml")
+def test_sail_matches_the_hand_calculation_of_drag_and_swing(example_json):
+    data = plan_json(ROOT / "examples" / "porch-chimes.toml", example_json)
     h, _ = next(chime_sets(data))
     sail = h["sail"]
     rho, cd, g = 1.225, 1.17, 9.80665  # ISO 2533:1975 sea-level air (from memory); square flat plate
@@ -197,11 +204,11 @@ def test_sail_matches_the_hand_calculation_of_drag_and_swing():
                                                         abs=0.01)
 
 
-def test_line_and_fixing_follow_the_load(tmp_path):
+def test_line_and_fixing_follow_the_load(tmp_path, example_json):
     heavy_path = tmp_path / "heavy.toml"
     heavy_path.write_text(HEAVY, encoding="utf-8")
     heavy, heavy_pieces = next(chime_sets(plan_json(heavy_path)))
-    light, _ = next(chime_sets(plan_json(ROOT / "examples" / "porch-chimes.toml")))
+    light, _ = next(chime_sets(plan_json(ROOT / "examples" / "porch-chimes.toml", example_json)))
     g = 9.80665
     for h in (heavy, light):
         assert h["safety_factor"] == 5
@@ -223,20 +230,21 @@ def test_line_and_fixing_follow_the_load(tmp_path):
     assert tube_line["breaking_n"] > light_line["breaking_n"]  # heavier tubes, stronger line
 
 
-def test_no_second_hang_hole_in_any_chime_packet_or_template(tmp_path, example_plan):
+def test_no_second_hang_hole_in_any_chime_packet_or_template(tmp_path, example_packet):
     # the packet's files as ``plan -o`` writes them (cutplan.render.packet.packet_files: the PDF and
-    # the SVG templates); a bundled example's plan and PDF come from the session (planned,
-    # rendered and read once per test process), the command line's writing is tested elsewhere
+    # the SVG templates); for a bundled example, the very files of the run's one ``plan -o`` of it
+    # (tests/conftest.py: written and read once per run), for this file's designs made here
     for path in designs(tmp_path):
         if path.parent == EXAMPLES:
-            plan = example_plan(path.stem)
-            pdf = rendered_packet(example_plan, path.stem)
-            text = "".join(rendered_packet_text(example_plan, path.stem))
+            _, out, pages = example_packet(path.stem)
+            pdf = (out / "packet.pdf").read_bytes()
+            text = "".join(pages)
+            svgs = {f"templates/{f.name}": f.read_text(encoding="utf-8") for f in (out / "templates").glob("*.svg")}
         else:
             plan = cutplan.plan(cutplan.load_design(path))
             pdf = render_pdf(plan)
             text = "".join(page_texts(pdf))
-        svgs = svg_files(plan)
+            svgs = svg_files(plan)
         assert svgs
         for name, svg in svgs.items():
             assert "hang hole 2" not in svg, name

@@ -16,6 +16,7 @@ import pytest
 from click.testing import CliRunner
 
 from cutplan.cli import cli
+from tests.pdf_text import page_texts
 
 ROOT = Path(__file__).resolve().parent.parent
 EXAMPLES = sorted((ROOT / "examples").glob("*.toml"))
@@ -131,14 +132,12 @@ def _check_packet_text(design, out, plan=None, pages=None):
     """The packet's cut list, tuning sheet and templates state each piece's cut length and its one
     allowance with the same strings, the plan's units first (``pages``: the packet's page texts,
     when already read)."""
-    import pypdf
-
     import cutplan
     from cutplan.units import format_length
 
     plan = plan or cutplan.plan(cutplan.load_design(design))
     if pages is None:
-        pages = [page.extract_text() for page in pypdf.PdfReader(out / "packet.pdf").pages]
+        pages = page_texts(out / "packet.pdf")
     cut_pages = "\n".join(t for t in pages if "Cut list: " in t)
     tuning = "\n".join(t for t in pages if "Tuning sheet: " in t)
     strips = "\n".join(t for t in pages if "Marking strips" in t)

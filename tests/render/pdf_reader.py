@@ -206,38 +206,46 @@ def _read_text(page, index, by_object, height):
     widths: dict[tuple, float] = {}
     x, y = ctypes.c_double(), ctypes.c_double()
     m, advance = pdfium_c.FS_MATRIX(), ctypes.c_float()
+    text_object, generated, origin = pdfium_c.FPDFText_GetTextObject, pdfium_c.FPDFText_IsGenerated, pdfium_c.FPDFText_GetCharOrigin
     try:
-        for k in range(textpage.count_chars()):
-            obj = pdfium_c.FPDFText_GetTextObject(raw, k)
-            if not obj or pdfium_c.FPDFText_IsGenerated(raw, k):
+        count = textpage.count_chars()
+        text = textpage.get_text_range(0, count)
+        if len(text) != count:  # a character outside the BMP: read each one by its index instead
+            text = "".join(chr(pdfium_c.FPDFText_GetUnicode(raw, k)) for k in range(count))
+        for k, ch in enumerate(text):
+            obj = text_object(raw, k)
+            if not obj or generated(raw, k):
                 continue
-            j = index[_address(obj)]
+            j = index[ctypes.addressof(obj.contents)]
             if j not in per_object:
                 pdfium_c.FPDFText_GetMatrix(raw, k, m)
                 font = _font_name(textpage, k)
                 if font not in DESCENT:
                     raise NotImplementedError(f"no descent known for font {font!r}")
-                per_object[j] = (m.a, m.b, m.c, m.d, pdfium_c.FPDFText_GetFontSize(raw, k), font,
-                                 pdfium_c.FPDFTextObj_GetFont(obj))
-            a, b, c, d, size, font, handle = per_object[j]
-            ch = chr(pdfium_c.FPDFText_GetUnicode(raw, k))
-            if (font, size, ch) not in widths:
+                size = pdfium_c.FPDFText_GetFontSize(raw, k)
+                low = DESCENT[font] * size / 1000
+                a, b, c, d = m.a, m.b, m.c, m.d
+                per_object[j] = (a, b, c, d, size, font, pdfium_c.FPDFTextObj_GetFont(obj), low, low + size,
+                                 b == 0 and c == 0 and a > 0 and d > 0, a * d > 0 and b * c <= 0, [])
+                by_object[j] = per_object[j][-1]
+            a, b, c, d, size, font, handle, low, high, plain, upright, chars = per_object[j]
+            key = (font, size, ch)
+            adv = widths.get(key)
+            if adv is None:
                 # the font's own advance width (the one pdfium lays the glyphs out with; its
                 # "loose" box takes some widths from its substitute font instead)
                 pdfium_c.FPDFFont_GetGlyphWidth(handle, ord(ch), size, advance)
-                widths[font, size, ch] = advance.value
-            adv = widths[font, size, ch]
-            pdfium_c.FPDFText_GetCharOrigin(raw, k, x, y)
+                adv = widths[key] = advance.value
+            origin(raw, k, x, y)
             ox, oy = x.value, y.value
-            low = DESCENT[font] * size / 1000
-            high = low + size
-            if b == 0 and c == 0 and a > 0 and d > 0:  # upright text: the general corners' extremes
-                box = {"x0": ox, "x1": ox + a * adv, "top": height - (oy + d * high), "bottom": height - (oy + d * low)}
+            if plain:  # upright text: the general corners' extremes
+                chars.append({"text": ch, "x0": ox, "x1": ox + a * adv, "top": height - (oy + d * high),
+                              "bottom": height - (oy + d * low), "upright": upright})
             else:
                 xs = (ox + c * low, ox + c * high, ox + a * adv + c * low, ox + a * adv + c * high)
                 ys = (oy + d * low, oy + d * high, oy + b * adv + d * low, oy + b * adv + d * high)
-                box = {"x0": min(xs), "x1": max(xs), "top": height - max(ys), "bottom": height - min(ys)}
-            by_object.setdefault(j, []).append({"text": ch, **box, "upright": a * d > 0 and b * c <= 0})
+                chars.append({"text": ch, "x0": min(xs), "x1": max(xs), "top": height - max(ys),
+                              "bottom": height - min(ys), "upright": upright})
     finally:
         textpage.close()
 

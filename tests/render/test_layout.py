@@ -25,7 +25,6 @@ from tests.render.layout_check import (
     audit_page,
     audit_pdf,
 )
-from tests.render.packets import rendered_packet
 from tests.render.pdf_reader import read_pages
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -34,9 +33,9 @@ EXAMPLES = sorted((ROOT / "examples").glob("*.toml"))
 
 @pytest.mark.parametrize("paper", ["a4", "letter"])
 @pytest.mark.parametrize("path", EXAMPLES, ids=lambda p: p.stem)
-def test_no_label_is_struck_overprinted_or_in_the_margin(example_plan, path, paper):
-    # the example's Plan comes from the session fixture in tests/conftest.py (planned once)
-    result = audit_pdf(rendered_packet(example_plan, path.stem, paper))  # rendered once per process
+def test_no_label_is_struck_overprinted_or_in_the_margin(example_pdf, path, paper):
+    # the example's packet comes from the session fixture in tests/conftest.py (planned and rendered once per run)
+    result = audit_pdf(example_pdf(path.stem, paper))
     assert result["struck"] == []
     assert result["over"] == []
     assert MARGIN_MM == 6.0  # common unprintable band of office printers (common practice)
@@ -120,11 +119,11 @@ def _facts(page):
 
 
 @pytest.mark.parametrize("source", ["faults", "porch-chimes"])
-def test_the_fast_reader_reads_what_pdfplumber_reads(example_plan, source):
+def test_the_fast_reader_reads_what_pdfplumber_reads(example_pdf, source):
     # the audit reads pages with pdfium (fast); pdfplumber, a second and independent reader, must
     # find the same words at the same places and the same drawn segments (within 0.5 pt, the
     # precision of pdfium's single-precision coordinates is some 1e-4 pt) and so the same faults
-    data = _faults_pdf() if source == "faults" else rendered_packet(example_plan, source, "letter")
+    data = _faults_pdf() if source == "faults" else example_pdf(source, "letter")
     fast, slow = read_pages(data), _plumber_pages(data)
     assert len(fast) == len(slow)
     for n, (ours, theirs) in enumerate(zip(fast, slow, strict=True), start=1):

@@ -2,19 +2,17 @@
 plan's units first on every page, one allowance per piece with its chance of a sharp piece, and
 stoppered tubes cut to length and tuned with the stopper.  Every check reads the PDF text."""
 
-import io
 import re
 import tomllib
 from dataclasses import replace
 from pathlib import Path
 
 import pytest
-from pypdf import PdfReader
 
 import cutplan
 from cutplan.render.pdf import render_pdf
 from cutplan.units import format_length
-from tests.render.packets import rendered_packet_text
+from tests.pdf_text import page_texts
 
 ROOT = Path(__file__).resolve().parents[2]
 TRIM = "cut long, then trim to pitch (trimming raises the pitch)"
@@ -22,12 +20,7 @@ STOPPER = "cut the tube to its cut length, tune with the stopper"
 
 
 def pages(plan, paper=None):
-    return [p.extract_text() or "" for p in PdfReader(io.BytesIO(render_pdf(plan, paper))).pages]
-
-
-def example_pages(example_plan, name, paper=None):
-    """Page texts of an example's packet (rendered and read once per test process)."""
-    return list(rendered_packet_text(example_plan, name, paper))
+    return page_texts(render_pdf(plan, paper))
 
 
 def flat(text):
@@ -42,9 +35,9 @@ def with_allowance(tmp_path, allowance):
     return cutplan.plan(cutplan.load_design(path))
 
 
-def test_the_shopping_list_comes_right_after_the_cover(example_plan):
+def test_the_shopping_list_comes_right_after_the_cover(example_plan, example_pdf_text):
     plan = example_plan("porch-chimes")
-    text = example_pages(example_plan, "porch-chimes")
+    text = example_pdf_text("porch-chimes")
     assert "Shopping list" in text[1]
     shop = flat(text[1])
     n_sticks = len(plan.cut_list.sticks)
@@ -53,15 +46,15 @@ def test_the_shopping_list_comes_right_after_the_cover(example_plan):
         assert word in shop
 
 
-def test_bars_and_resonators_get_supports_mallets_and_stoppers(example_plan):
-    shop = flat(next(text for text in example_pages(example_plan, "music-room-marimba") if "Shopping list" in text))
+def test_bars_and_resonators_get_supports_mallets_and_stoppers(example_pdf_text):
+    shop = flat(next(text for text in example_pdf_text("music-room-marimba") if "Shopping list" in text))
     for word in ("felt or foam strip", "pins or cord", "mallets", "sliding stoppers"):
         assert word in shop
 
 
-def test_cautions_fit_the_materials(example_plan):
-    porch = flat(example_pages(example_plan, "porch-chimes")[0])
-    wood = flat(example_pages(example_plan, "workshop-marimba")[0])
+def test_cautions_fit_the_materials(example_pdf_text):
+    porch = flat(example_pdf_text("porch-chimes")[0])
+    wood = flat(example_pdf_text("workshop-marimba")[0])
     assert "PVC" not in porch and "Wood dust" not in porch
     assert "Deburr" in porch and "overhead" in porch
     assert "PVC" in wood and "Wood dust" in wood
@@ -79,10 +72,10 @@ def test_every_caution_source_resolves(example_plan):
                                     "common practice", "from memory")
 
 
-def test_the_plan_units_come_first_on_every_page(example_plan):
+def test_the_plan_units_come_first_on_every_page(example_plan, example_pdf_text):
     plan = example_plan("porch-chimes")  # units = "in"
     assert plan.units == "in"
-    inch_text = flat(" ".join(example_pages(example_plan, "porch-chimes")))
+    inch_text = flat(" ".join(example_pdf_text("porch-chimes")))
     # the same design planned with units = "mm" (as `plan --units mm` does: the design's choice,
     # so facts worded at planning time, such as shopping-list notes, follow it too)
     design = cutplan.load_design(ROOT / "examples" / "porch-chimes.toml")
@@ -116,9 +109,9 @@ def test_a_risk_allowance_is_stated_as_written(tmp_path):
     assert "chance sharp 5 %" not in sheet and "to 5 %" not in sheet
 
 
-def test_stoppered_tubes_are_cut_to_length_and_tuned_with_the_stopper(example_plan):
+def test_stoppered_tubes_are_cut_to_length_and_tuned_with_the_stopper(example_plan, example_pdf_text):
     plan = example_plan("music-room-marimba")
-    text = example_pages(example_plan, "music-room-marimba", "a4")
+    text = example_pdf_text("music-room-marimba", "a4")
     for title in ("Cut list: resonators", "Tuning sheet: resonators", "Resonator stopper settings"):
         page = flat(next(t for t in text if title in t))
         assert STOPPER in page.lower() or STOPPER.capitalize() in page, title
@@ -130,7 +123,7 @@ def test_stoppered_tubes_are_cut_to_length_and_tuned_with_the_stopper(example_pl
 
 
 @pytest.mark.parametrize("name", ["porch-chimes", "workshop-marimba", "classroom-pipes"])
-def test_trimming_is_worded_the_musicians_way(example_plan, name):
-    text = flat(" ".join(example_pages(example_plan, name)))
+def test_trimming_is_worded_the_musicians_way(example_pdf_text, name):
+    text = flat(" ".join(example_pdf_text(name)))
     assert TRIM in text
     assert "tune down" not in text.lower()

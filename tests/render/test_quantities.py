@@ -14,7 +14,6 @@ import tomllib
 import xml.etree.ElementTree as ET
 from pathlib import Path
 
-import pypdf
 import pytest
 from click.testing import CliRunner
 
@@ -24,6 +23,7 @@ from cutplan.render.svg import svg_files
 from cutplan.render.table import render_cutlist_csv
 from cutplan.web.app import create_app
 from cutplan.web.form import form_from_mapping
+from tests.pdf_text import page_texts
 from tests.test_one_truth import _toml
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -98,7 +98,7 @@ def test_one_pieces_lengths_read_the_same_in_every_output(example, top, tmp_path
     assert (cuts[p.label]["length_mm"], cuts[p.label]["length_in"]) == (mm, f"{inch} in")
 
     # PDF: the cut-list table cell, the design's unit on top
-    pages = [page.extract_text() for page in pypdf.PdfReader(out / "packet.pdf").pages]
+    pages = page_texts(out / "packet.pdf")
     cut_pages = "\n".join(t for t in pages if "Cut list: " in t)
     assert f"{first}\n{second}" in cut_pages
     assert f"{l_first}\n{l_second}" in cut_pages
@@ -189,7 +189,7 @@ def test_inch_denominator_8_reaches_terminal_csv_pdf_svg_and_page(tmp_path):
     texts = {
         "terminal": table, "plan.csv": (out / "plan.csv").read_text(encoding="utf-8"),
         "cutlist.csv": (out / "cutlist.csv").read_text(encoding="utf-8"),
-        "pdf": "\n".join(page.extract_text() for page in pypdf.PdfReader(out / "packet.pdf").pages),
+        "pdf": "\n".join(page_texts(out / "packet.pdf")),
         "svg": "\n".join(t.text or "" for f in (out / "templates").glob("*.svg")
                          for t in ET.parse(f).getroot().iter("{http://www.w3.org/2000/svg}text")),
     }
@@ -201,18 +201,18 @@ def test_inch_denominator_8_reaches_terminal_csv_pdf_svg_and_page(tmp_path):
     assert cells and {int(d) for d in cells} <= {2, 4, 8}, cells
 
 
-def test_the_cut_list_on_stock_is_worded_once_in_terminal_pdf_and_page(tmp_path):
-    path, data = _design(tmp_path, "porch-chimes.toml")
-    runner = CliRunner()
-    out = tmp_path / "packet"
-    assert runner.invoke(cli, ["plan", str(path), "-o", str(out)]).exit_code == 0
-    plan = cutplan.plan(cutplan.load_design(path))
+def test_the_cut_list_on_stock_is_worded_once_in_terminal_pdf_and_page(example_plan, example_packet):
+    # the porch example as it stands, from the run's shared fixtures (tests/conftest.py): its plan,
+    # and what `plan EXAMPLE -o` printed (the very table `plan EXAMPLE` prints) and wrote
+    data = tomllib.loads((ROOT / "examples" / "porch-chimes.toml").read_text(encoding="utf-8"))
+    table, _, pages = example_packet("porch-chimes")
+    plan = example_plan("porch-chimes")
     status = "proven optimal" if plan.cut_list.proven_optimal else "best found, not proven optimal"
     heading = f"Cut list on stock ({status}; marks measured from the stick's factory end"
     bound = f"fewest possible {plan.cut_list.lower_bound};"
-    pdf = " ".join(" ".join(page.extract_text().split()) for page in pypdf.PdfReader(out / "packet.pdf").pages)
+    pdf = " ".join(" ".join(page.split()) for page in pages)
     html = create_app().test_client().post("/", data=form_from_mapping(data)).get_data(as_text=True)
-    outputs = {"terminal": runner.invoke(cli, ["plan", str(path)]).output, "pdf": pdf,
+    outputs = {"terminal": table, "pdf": pdf,
                "page": html.replace("&#39;", "'")}
     for where, text in outputs.items():
         assert heading in text and bound in text.replace("Fewest", "fewest"), where
@@ -236,10 +236,11 @@ def test_planning_and_trim_text_keep_the_designs_inch_fraction(tmp_path):
     assert fractions and all(8 % int(d) == 0 for _n, d in fractions), fractions
 
 
-def test_an_undercut_bars_removal_lines_keep_the_designs_inch_fraction(tmp_path):
+def test_an_undercut_bars_removal_lines_keep_the_designs_inch_fraction(tmp_path, example_plan):
     # the trim answer of an arched bar (trim from each end, cut stations, blend, supports) rounds
     # inches to the design's 1/8, not to the default 1/32 (1 in = 25.4 mm exactly, NIST SP 811,
     # 2008, B.8); a first bar read 3 % flat with its second partial 10 cents flat of 1:4
+    example_plan("music-room-marimba")  # its 2-D solves (shared per run): the same bars in inches find them
     path, _ = _design(tmp_path, "music-room-marimba.toml", units="in", inch_denominator=8)
     plan = cutplan.plan(cutplan.load_design(path))
     p = next(piece for piece in plan.pieces if piece.arch is not None)

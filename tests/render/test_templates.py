@@ -1,12 +1,10 @@
 """Print-scale checks of the shop packet: rasterised PDF pages and parsed SVG geometry."""
 
-import io
 import xml.etree.ElementTree as ET
 
 import numpy as np
 import pypdfium2
 import pytest
-from pypdf import PdfReader
 
 from cutplan.design import load_design
 from cutplan.materials import load_library
@@ -15,7 +13,7 @@ from cutplan.render import pdf as pdf_mod
 from cutplan.render import svg as svg_mod
 from cutplan.render.packet import packet_files
 from cutplan.render.pdf import templates
-from tests.render.packets import rendered_packet_text
+from tests.pdf_text import page_texts
 
 DPI = 600
 PX_PER_MM = DPI / 25.4
@@ -59,25 +57,47 @@ def dark_runs(row):
 
 
 def template_pages(pdf_bytes):
-    reader = PdfReader(io.BytesIO(pdf_bytes))
-    return [i for i, p in enumerate(reader.pages) if "Marking strips" in (p.extract_text() or "")]
+    return [i for i, text in enumerate(page_texts(pdf_bytes)) if "Marking strips" in text]
 
 
 def pdf_text(pdf_bytes):
-    return "\n".join(page.extract_text() for page in PdfReader(io.BytesIO(pdf_bytes)).pages)
+    return "\n".join(page_texts(pdf_bytes))
 
 
-def first_template_raster(tmp_path, paper):
-    """(plan, grey image of the first template page at DPI, page height [mm]) for the test bars."""
-    p = make_plan(tmp_path, GLOCK.format(paper=paper))
-    data = pdf_mod.render_pdf(p)
-    gray, height_pt = raster(data, template_pages(data)[0])
-    return p, gray, height_pt / 72 * 25.4
+@pytest.fixture(scope="module")
+def glock(tmp_path_factory):
+    """``glock(paper)`` -> the test bars' Plan, ``paper`` in the design, planned once for this
+    module (the tests only read it)."""
+    plans = {}
+
+    def get(paper):
+        if paper not in plans:
+            plans[paper] = make_plan(tmp_path_factory.mktemp(f"glock-{paper}"), GLOCK.format(paper=paper))
+        return plans[paper]
+
+    return get
+
+
+@pytest.fixture(scope="module")
+def first_template_raster(glock):
+    """``first_template_raster(paper)`` -> (plan, grey image of the first template page at DPI,
+    page height [mm]) for the test bars, rendered and rastered once for this module."""
+    made = {}
+
+    def get(paper):
+        if paper not in made:
+            p = glock(paper)
+            data = pdf_mod.render_pdf(p)
+            gray, height_pt = raster(data, template_pages(data)[0])
+            made[paper] = (p, gray, height_pt / 72 * 25.4)
+        return made[paper]
+
+    return get
 
 
 @pytest.mark.parametrize("paper", ["letter", "a4"])
-def test_calibration_rulers_print_at_true_size(tmp_path, paper):
-    _p, gray, page_h_mm = first_template_raster(tmp_path, paper)
+def test_calibration_rulers_print_at_true_size(first_template_raster, paper):
+    _p, gray, page_h_mm = first_template_raster(paper)
     # the 100 mm ruler: only its 0, 50 and 100 mm ticks reach 5 mm below its top line
     ruler_top_mm = pdf_mod.RULER_TOP / pdf_mod.mm  # from the bottom of the page
     row = int(round((page_h_mm - (ruler_top_mm - 5.0)) * PX_PER_MM))
@@ -91,8 +111,8 @@ def test_calibration_rulers_print_at_true_size(tmp_path, paper):
     assert (ticks2[-1] - ticks2[0]) / PX_PER_MM == pytest.approx(101.6, abs=0.2)
 
 
-def test_node_marks_print_where_the_plan_says(tmp_path):
-    p, gray, page_h_mm = first_template_raster(tmp_path, "letter")
+def test_node_marks_print_where_the_plan_says(first_template_raster):
+    p, gray, page_h_mm = first_template_raster("letter")
     # first strip on the page: its frame position from the template layout, its body's bottom edge
     _size, pages = templates.orientation(p, "letter")
     tile, x_mm, y_top_mm = pages[0][0]
@@ -114,8 +134,8 @@ def svg_tree(text):
     return ET.fromstring(text)
 
 
-def test_svg_is_in_millimetres_with_matching_viewbox(tmp_path):
-    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
+def test_svg_is_in_millimetres_with_matching_viewbox(glock):
+    p = glock("letter")
     root = svg_tree(svg_mod.render_piece_svg(p, p.pieces[0]))
     width, height = root.get("width"), root.get("height")
     assert width.endswith("mm") and height.endswith("mm")
@@ -124,8 +144,8 @@ def test_svg_is_in_millimetres_with_matching_viewbox(tmp_path):
     assert box[3] == pytest.approx(float(height[:-2]), abs=1e-9)
 
 
-def test_svg_node_and_ruler_marks_land_within_0_05_mm(tmp_path):
-    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
+def test_svg_node_and_ruler_marks_land_within_0_05_mm(glock):
+    p = glock("letter")
     piece = p.pieces[0]
     root = svg_tree(svg_mod.render_piece_svg(p, piece))
     ns = "{http://www.w3.org/2000/svg}"
@@ -137,25 +157,24 @@ def test_svg_node_and_ruler_marks_land_within_0_05_mm(tmp_path):
     assert min(abs(v - (svg_mod.MARGIN + 115 + 101.6)) for v in verticals) < 0.05  # 4 in ruler end
 
 
-def test_user_text_is_escaped_in_svg_and_pdf(tmp_path):
-    p = make_plan(tmp_path, GLOCK.format(paper="letter"))
+def test_user_text_is_escaped_in_svg_and_pdf(glock):
+    p = glock("letter")
     text = svg_mod.render_piece_svg(p, p.pieces[0])
     assert "&lt;test&gt; &amp; co" in text
     svg_tree(text)  # parses
-    reader = PdfReader(io.BytesIO(pdf_mod.render_pdf(p)))
-    assert "<test> & co" in reader.pages[0].extract_text()
+    assert "<test> & co" in page_texts(pdf_mod.render_pdf(p))[0]
 
 
-def test_pdf_is_byte_identical_on_every_run(tmp_path):
-    p = make_plan(tmp_path, GLOCK.format(paper="a4"))
+def test_pdf_is_byte_identical_on_every_run(glock):
+    p = glock("a4")
     assert pdf_mod.render_pdf(p) == pdf_mod.render_pdf(p)
 
 
-def test_pdf_text_has_every_label_and_both_units(example_plan):
+def test_pdf_text_has_every_label_and_both_units(example_plan, example_pdf_text):
     from cutplan.units import format_inches
 
-    p = example_plan("classroom-pipes")  # planned and rendered once per test process
-    text = "\n".join(rendered_packet_text(example_plan, "classroom-pipes"))
+    p = example_plan("classroom-pipes")  # planned, rendered and read once per run
+    text = "\n".join(example_pdf_text("classroom-pipes"))
     for piece in p.pieces:
         assert piece.label in text
         assert f"{piece.length * 1000:.1f} mm" in text
@@ -175,8 +194,9 @@ section = { stock = "al-1.000x0.065" }
     p = make_plan(tmp_path, text)
     assert len(p.pieces) == 60
     files = packet_files(p)
-    assert len(PdfReader(io.BytesIO(files["packet.pdf"])).pages) > 10
-    all_text = pdf_text(files["packet.pdf"])
+    pages = page_texts(files["packet.pdf"])
+    assert len(pages) > 10
+    all_text = "\n".join(pages)
     assert "big-60" in all_text and "big-1 " in all_text
     assert sum(1 for k in files if k.startswith("templates/big-")) == 60 + 2
 
