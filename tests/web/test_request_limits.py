@@ -256,8 +256,8 @@ def test_a_client_that_dribbles_its_headers_is_cut_off_while_others_are_served()
     from cutplan.web.server import listening_socket, make_server
 
     sock = listening_socket("127.0.0.1", 0)
-    serving = _Serving(make_server(create_app(), sock, threads=2, header_timeout=1.5, idle_timeout=30,
-                                   check_interval=0.2))
+    serving = _Serving(make_server(create_app(), sock, threads=2, header_timeout=0.8, idle_timeout=30,
+                                   check_interval=0.1))
     port = sock.getsockname()[1]
     slow = socket.create_connection(("127.0.0.1", port), timeout=5)
     try:
