@@ -376,7 +376,8 @@ ARCHED = {"title": "garden bars", "set[1].name": "garden", "set[1].kind": "bar",
           "set[1].material": "maple-sugar", "set[1].section.shape": "bar", "set[1].section.width": "50 mm",
           "set[1].section.thickness": "22 mm", "set[1].undercut.ratios": "4", "set[1].undercut.arch_width": "0.5",
           "set[1].undercut.min_thickness": "6 mm", "stock.lengths": "2.4 m"}
-"""Two undercut bars, two steps to see: the web tests' arched pair (tests/web/conftest.py)."""
+"""The web tests' arched pair (tests/web/conftest.py): two undercut bars, so a plan under way has
+a count short of the whole to show."""
 
 
 def test_a_long_plan_shows_how_far_it_has_got(browser, served, monkeypatch, arched_pair_solves):
