@@ -1,13 +1,27 @@
-"""Shared fixtures for the web tests: the Flask test client and the example designs."""
+"""Shared fixtures for the web tests: the Flask test client, the example designs, and one pair of
+arched bars whose 2-D solves are made once per test run."""
 
 import tomllib
 from pathlib import Path
 
 import pytest
 
+from cutplan.physics import elastic2d
+from cutplan.web.service import Planner
+
 ROOT = Path(__file__).resolve().parents[2]
 EXAMPLES = sorted((ROOT / "examples").glob("*.toml"))
 PORCH = ROOT / "examples" / "porch-chimes.toml"
+
+ARCHED_PAIR = {"title": "garden bars", "set": [{
+    "name": "garden", "kind": "bar", "notes": ["C4", "D4"], "material": "maple-sugar",
+    "section": {"shape": "bar", "width": "50 mm", "thickness": "22 mm"},
+    "undercut": {"ratios": [4.0], "arch_width": 0.5, "min_thickness": "6 mm"}}],
+    "stock": {"lengths": [{"length": "2.4 m"}]}}
+"""Two undercut maple bars, C4 and D4: the workshop example's bar section and its first two notes.
+Every web test that needs arched bars planned plans this pair (as a mapping, on the page, or as
+the workshop file with the arch added), so the bars' 2-D solves are the same everywhere and are
+made once per run (:func:`arched_pair_solves`)."""
 
 
 def example_mapping(path):
@@ -26,3 +40,21 @@ def app():
 def client(app):
     return app.test_client()
 
+
+def _pair_solves():
+    """The 2-D solves planning :data:`ARCHED_PAIR` adds to this process's memo."""
+    before = set(elastic2d.remembered_solves())
+    Planner().compute(ARCHED_PAIR)
+    return {k: v for k, v in elastic2d.remembered_solves().items() if k not in before}
+
+
+@pytest.fixture(scope="session")
+def arched_pair_solves(shared):
+    """``arched_pair_solves()`` puts the 2-D solves of :data:`ARCHED_PAIR` into this process's memo
+    (made once per run, across pytest-xdist workers, by the ``shared`` cache of tests/conftest.py).
+
+    A plan of the pair in this process (a Planner, the page's server thread, the command line)
+    then finds them remembered instead of solving the bars again; it still goes through every
+    step of planning and reports each bar as solved.  Call it just before that plan: other
+    tests' solves may have pushed the pair's out of the memo's bounded size since."""
+    return lambda: elastic2d.remember_solves(shared(("web", "arched-pair-solves"), _pair_solves))

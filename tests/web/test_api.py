@@ -10,24 +10,20 @@ import tomllib
 import zipfile
 
 import pytest
-from click.testing import CliRunner
 
-from cutplan.cli import cli
 from cutplan.folder import MANIFEST
 from tests.web.conftest import EXAMPLES, PORCH, example_mapping
 
 
 @pytest.fixture(scope="module", params=EXAMPLES, ids=lambda p: p.stem)
-def example(request, tmp_path_factory, example_plan):
-    """(design mapping, CLI plan JSON, CLI output folder) for one example, planned once."""
-    # the session's plan of the example first (tests/conftest.py): its 2-D solves are then
-    # remembered in this process, so the command line and the API below find them instead of
-    # solving the arched bars again; both still plan the design themselves
-    example_plan(request.param.stem)
-    out = tmp_path_factory.mktemp(request.param.stem)
-    result = CliRunner().invoke(cli, ["plan", str(request.param), "--format", "json", "-o", str(out)])
-    assert result.exit_code == 0, result.output
-    return example_mapping(request.param), json.loads(result.stdout), out
+def example(request, example_json, example_packet):
+    """(design mapping, CLI plan JSON, CLI output folder) for one example: what ``cutplan plan
+    EXAMPLE --format json`` printed and the folder ``cutplan plan EXAMPLE -o FOLDER`` wrote, each
+    run once per test run and shared with the other tests that read them (tests/conftest.py).
+    The planning there leaves the example's 2-D solves remembered in this process, so the API
+    below finds them instead of solving the arched bars again; it still plans the design itself."""
+    name = request.param.stem
+    return example_mapping(request.param), example_json(name), example_packet(name)[1]
 
 
 def test_api_plan_matches_the_command_line(client, example):

@@ -25,17 +25,25 @@ WAIT = 120
 
 
 @pytest.fixture(scope="module")
-def server():
+def served():
+    """(the page's Flask app, its address): the page under waitress in a thread of this process, so
+    a test can reach its planner and the process's memo of 2-D solves serves it too."""
     from waitress import create_server
 
     from cutplan.web.app import create_app
 
-    srv = create_server(create_app(), host="127.0.0.1", port=0, threads=4)
+    app = create_app()
+    srv = create_server(app, host="127.0.0.1", port=0, threads=4)
     thread = threading.Thread(target=srv.run, daemon=True)
     thread.start()
-    yield f"http://127.0.0.1:{srv.effective_port}"
+    yield app, f"http://127.0.0.1:{srv.effective_port}"
     srv.close()
     thread.join(timeout=5)
+
+
+@pytest.fixture(scope="module")
+def server(served):
+    return served[1]
 
 
 @pytest.fixture(scope="module")
@@ -99,7 +107,7 @@ def _no_javascript(d):
 def _wait(d, check, timeout=WAIT):
     from selenium.webdriver.support.ui import WebDriverWait
 
-    return WebDriverWait(d, timeout, poll_frequency=0.2).until(lambda drv: check(drv))
+    return WebDriverWait(d, timeout, poll_frequency=0.1).until(lambda drv: check(drv))
 
 
 def _set(d, name, value):
@@ -286,16 +294,19 @@ def test_the_form_works_without_javascript(browser, server):
 
 
 @pytest.mark.slow
-def test_add_an_undercut_on_the_page_and_get_the_files_plan(browser, server, tmp_path):
+def test_add_an_undercut_on_the_page_and_get_the_files_plan(browser, server, tmp_path, arched_pair_solves):
     """Uniform maple bars (workshop-marimba, its bar set and its resonators) get an arch entered on
     the page; the preview's cut lengths must equal `cutplan plan --format json` of the same file
     with the undercut line added.
 
     The bar set's range is cut to its first two notes in the same edit: two arched bars take the
     page's whole path (the undercut fields, the 2-D solves, the resonators under arched bars, the
-    preview table) as the octave's eight do, at a quarter of the solves."""
+    preview table) as the octave's eight do, at a quarter of the solves.  Those two bars are the
+    web tests' arched pair (tests/web/conftest.py), whose 2-D solves are made once per run: the
+    page's server (in this process) and the command line both find them remembered."""
     from selenium.webdriver.common.by import By
 
+    arched_pair_solves()
     d = browser
     d.get(server + "/?example=workshop-marimba")
     uniform = _rows(d)
@@ -310,8 +321,6 @@ def test_add_an_undercut_on_the_page_and_get_the_files_plan(browser, server, tmp
         "document.getElementById('set[1].undercut.ratios').dispatchEvent(new Event('input', {bubbles: true}));",
         {"set[1].range": "C4..D4", "set[1].undercut.ratios": "4", "set[1].undercut.arch_width": "0.5",
          "set[1].undercut.min_thickness": "6 mm"})
-    # the command line plans the file once the page is done, so it re-uses the page's 2-D solves
-    # (the solver remembers them) instead of making the same solves beside it
     _wait(d, lambda drv: _settled(drv) and _rows(drv) != uniform)
     text = (ROOT / "examples" / "workshop-marimba.toml").read_text(encoding="utf-8").replace(
         'section = { shape = "bar", width = "50 mm", thickness = "22 mm" }\n',
@@ -363,16 +372,33 @@ def test_at_1280_px_the_tables_need_no_sideways_scrolling_and_labels_fit(browser
         d.set_window_size(1400, 1000)
 
 
-ARCHED = {"title": "garden bars", "set[1].name": "garden", "set[1].kind": "bar", "set[1].notes": "E4 A4",
-          "set[1].material": "maple-sugar", "set[1].section.shape": "bar", "set[1].section.width": "46 mm",
-          "set[1].section.thickness": "22 mm", "set[1].undercut.ratios": "4", "stock.lengths": "2.4 m"}
-"""Two undercut bars: each is a small optimisation (some ten 2-D solves), so the preview takes long
-enough to report, and two give more than one step to see.  The 46 mm width is this test's own:
-bars no other test solves, so the process's memo of solves cannot make this plan instant."""
+ARCHED = {"title": "garden bars", "set[1].name": "garden", "set[1].kind": "bar", "set[1].notes": "C4 D4",
+          "set[1].material": "maple-sugar", "set[1].section.shape": "bar", "set[1].section.width": "50 mm",
+          "set[1].section.thickness": "22 mm", "set[1].undercut.ratios": "4", "set[1].undercut.arch_width": "0.5",
+          "set[1].undercut.min_thickness": "6 mm", "stock.lengths": "2.4 m"}
+"""The web tests' arched pair (tests/web/conftest.py): two undercut bars, so a plan under way has
+a count short of the whole to show."""
 
 
-def test_a_long_plan_shows_how_far_it_has_got(browser, server):
-    # the oracle for the count is the design itself: two notes, each an undercut bar to solve
+def test_a_long_plan_shows_how_far_it_has_got(browser, served, monkeypatch, arched_pair_solves):
+    """The oracle for the count is the design itself: two notes, each an undercut bar to solve.
+
+    The server's planner is held after the first bar until the page has shown how far it has got,
+    so the page is seen reporting a plan under way however fast the bars are planned (their 2-D
+    solves are remembered from the run's arched pair); then it finishes and the report goes."""
+    app, server = served
+    arched_pair_solves()
+    release = threading.Event()
+    real = app.planner.compute
+
+    def held(data, lib=None, progress=None):
+        def report(done, total):
+            progress(done, total)
+            if done == 1:
+                assert release.wait(WAIT)
+        return real(data, lib, None if progress is None else report)
+
+    monkeypatch.setattr(app.planner, "compute", held)
     d = browser
     d.get(server + "/")
     _wait(d, _settled)
@@ -387,6 +413,10 @@ def test_a_long_plan_shows_how_far_it_has_got(browser, server):
         "var kind = document.getElementById('set[1].kind');"
         "kind.dispatchEvent(new Event('change', {bubbles: true}));"
         "document.getElementById('title').dispatchEvent(new Event('input', {bubbles: true}));", ARCHED)
+    try:
+        _wait(d, lambda drv: drv.execute_script("return window.cutplanSeen.length > 0;"))
+    finally:
+        release.set()
     _wait(d, lambda drv: _settled(drv) and len(_rows(drv)) == 2 and _rows(drv)[0][0] == "garden-1")
     seen = d.execute_script("return window.cutplanSeen;")
     counts = [re.fullmatch(r"planning: (\d) of 2 arched bars solved", text) for text in seen]

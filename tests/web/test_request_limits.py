@@ -19,6 +19,7 @@ from cutplan.web.app import create_app
 from cutplan.web.service import Planner, WebErrors
 from cutplan.web.workers import Stopped, WorkerPool
 from tests.web.conftest import PORCH, example_mapping
+from tests.web.jobs import holding
 
 POST_ROUTES = ["/", "/preview", "/packet.zip", "/packet.pdf", "/design.toml", "/listen", "/api/trim",
                "/api/plan", "/api/packet"]
@@ -86,15 +87,20 @@ def test_a_job_whose_client_went_away_is_stopped():
 
 
 def test_a_full_queue_answers_busy_instead_of_waiting_for_ever():
-    pool = WorkerPool(1, warm=False)  # the jobs here are sleep and pow: no planner needed
-    holder = threading.Thread(target=lambda: pytest.raises(Stopped, pool.run, time.sleep, (60,), limit=3.0))
+    pool = WorkerPool(1, warm=False)  # the jobs here are holding and pow: no planner needed
+    started, release = threading.Event(), threading.Event()
+    # the holder's job tells it has started (its one progress step), then holds the only worker
+    # until its client "goes away" at the end of the test
+    holder = threading.Thread(target=lambda: pytest.raises(Stopped, pool.run, holding, (60,), gone=release.is_set,
+                                                           progress=lambda done, total: started.set()))
     try:
         holder.start()
-        time.sleep(0.5)
+        assert started.wait(30)
         with pytest.raises(Stopped) as caught:
             pool.run(pow, (2, 3), wait=0.2)
         assert caught.value.reason == "busy"
     finally:
+        release.set()
         holder.join(timeout=30)
         pool.close()
 
@@ -250,8 +256,8 @@ def test_a_client_that_dribbles_its_headers_is_cut_off_while_others_are_served()
     from cutplan.web.server import listening_socket, make_server
 
     sock = listening_socket("127.0.0.1", 0)
-    serving = _Serving(make_server(create_app(), sock, threads=2, header_timeout=1.5, idle_timeout=30,
-                                   check_interval=0.2))
+    serving = _Serving(make_server(create_app(), sock, threads=2, header_timeout=0.8, idle_timeout=30,
+                                   check_interval=0.1))
     port = sock.getsockname()[1]
     slow = socket.create_connection(("127.0.0.1", port), timeout=5)
     try:
@@ -273,16 +279,24 @@ def test_a_quiet_keep_alive_connection_is_left_alone_within_the_idle_limit():
     from cutplan.web.server import listening_socket, make_server
 
     sock = listening_socket("127.0.0.1", 0)
-    serving = _Serving(make_server(create_app(), sock, threads=2, header_timeout=0.5, idle_timeout=30,
-                                   check_interval=0.2))
+    server = make_server(create_app(), sock, threads=2, header_timeout=0.3, idle_timeout=30, check_interval=0.1)
+    # waitress looks for overdue connections when its loop wakes, at the latest every
+    # asyncore_loop_timeout (1 s by default): waking every 0.1 s, it looks several times
+    # within the quiet spell below, each time past the header limit
+    server.adj.asyncore_loop_timeout = 0.1
+    serving = _Serving(server)
     conn = http.client.HTTPConnection("127.0.0.1", sock.getsockname()[1], timeout=10)
     try:
-        for _ in range(2):
+        for k in range(2):
+            if k:
+                time.sleep(1.0)  # longer than the header limit, on the same connection
             conn.request("GET", "/static/cutplan.css")
             resp = conn.getresponse()
             resp.read()
             assert resp.status == 200
-            time.sleep(1.5)  # longer than the header limit, on the same connection
+            if not k:
+                first = conn.sock
+        assert conn.sock is first  # the same connection served both (none was opened again)
     finally:
         conn.close()
         serving.close()
