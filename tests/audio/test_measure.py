@@ -2,7 +2,7 @@
 
 import math
 import struct
-from functools import lru_cache
+from functools import cache
 
 import numpy as np
 import pytest
@@ -52,7 +52,7 @@ CASES = [
 ]
 
 
-@lru_cache(maxsize=None)
+@cache
 def case_recording(f1, seconds, weak, snr):
     """:func:`recording` made once for both sample formats of a case (read-only: write() copies)."""
     x = recording(f1, seconds, weak, snr)

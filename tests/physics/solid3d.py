@@ -92,12 +92,16 @@ def assemble(basis, d, density):
     strain = np.concatenate([np.stack([grads[:, i, i] for i in range(3)], axis=1),
                              np.stack([grads[:, i, j] + grads[:, j, i] for i, j in SHEARS], axis=1)], axis=1)
     dx = basis.dx                                                  # (elements, points)
-    elements, local, points = basis.nelems, basis.Nbfun, dx.shape[1]
+    elements, local = basis.nelems, basis.Nbfun
     b = strain.transpose(2, 0, 3, 1)                               # (elements, local, points, 6)
     n = values.transpose(2, 0, 3, 1)                               # (elements, local, points, 3)
     w = dx[:, None, :, None]
-    ke = (b * w).reshape(elements, local, points * 6) @ (b @ d).reshape(elements, local, points * 6).transpose(0, 2, 1)
-    me = (n * (density * w)).reshape(elements, local, points * 3) @ n.reshape(elements, local, points * 3).transpose(0, 2, 1)
+
+    def pairs(left, right):  # sum over points and components of left[e, i] . right[e, j], for each element
+        return left.reshape(elements, local, -1) @ right.reshape(elements, local, -1).transpose(0, 2, 1)
+
+    ke = pairs(b * w, b @ d)
+    me = pairs(n * (density * w), n)
     dofs = basis.element_dofs                                      # (local, elements)
     rows = np.broadcast_to(dofs.T[:, :, None], ke.shape).ravel()
     cols = np.broadcast_to(dofs.T[:, None, :], ke.shape).ravel()

@@ -14,7 +14,6 @@ import cutplan
 from cutplan.cli import cli
 from cutplan.physics import elastic2d
 from cutplan.tuning import trim_report
-
 from tests.tuning.conftest import FIRST_READINGS
 
 EXAMPLES = Path(__file__).resolve().parents[2] / "examples"

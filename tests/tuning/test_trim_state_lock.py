@@ -28,7 +28,6 @@ import pytest
 
 import cutplan
 from cutplan.physics import elastic2d
-
 from tests.tuning.conftest import FIRST_READINGS
 
 ROOT = Path(__file__).resolve().parents[2]
