@@ -52,10 +52,11 @@ def test_a_note_above_the_sections_reach_names_key_value_and_limit(tmp_path):
     assert result.exit_code == 0, result.output
 
 
-def test_a_length_its_own_model_puts_off_target_is_refused():
+def test_a_length_its_own_model_puts_off_target_is_refused(example_plan):
+    # the example's Plan is the session's (tests/conftest.py), planned once for every test that reads it
     design = cutplan.load_design("examples/porch-chimes.toml")
     spec = design.sets[0]
-    pieces = [p for p in cutplan.plan(design).pieces if p.set == spec.name]
+    pieces = [p for p in example_plan("porch-chimes").pieces if p.set == spec.name]
     assert reach.missed_target(design, spec, pieces) is None  # the planned lengths reach their targets
     # 5 % too long: a free-free beam's pitch goes as 1 / L^2 (Blevins 1979, table 8-1), about
     # 169 cents flat, far outside the 5-cent window

@@ -158,13 +158,14 @@ def test_a_missing_fundamental_is_named_as_estimated_with_a_warning():
     assert any("not in the recording" in w for w in m.warnings)
 
 
-def test_the_tools_own_previews_of_planned_bars_read_at_their_fundamental():
+def test_the_tools_own_previews_of_planned_bars_read_at_their_fundamental(example_plan):
     # oracle: the preview synthesis's own partials (the plan's partials_hz); an F3 bar's preview
-    # (174.6 Hz) was once read as 63.3 Hz, its second partial over 2.76
+    # (174.6 Hz) was once read as 63.3 Hz, its second partial over 2.76.  The example's Plan is
+    # the session's (tests/conftest.py), planned once for every test that reads it.
     design = cutplan.load_design("examples/workshop-marimba.toml")
     bars = [s for s in design.sets if s.kind == "bar"]
     assert bars
-    plan = cutplan.plan(design)
+    plan = example_plan("workshop-marimba")
     low = cutplan.design_from_mapping({
         "title": "Low bar", "units": "mm",
         "set": [{"name": "low", "kind": "bar", "notes": ["F3"], "material": "maple-sugar",

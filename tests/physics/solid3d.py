@@ -16,6 +16,8 @@ import math
 
 import numpy as np
 
+from cutplan.physics.blas import single_thread
+
 
 def vertical_bending(xs, hs, width, modulus, poisson, density, modes=3, along=40, across=2, through=3,
                      constants=None):
@@ -26,6 +28,11 @@ def vertical_bending(xs, hs, width, modulus, poisson, density, modes=3, along=40
     x along, y across the width, z through the thickness) replaces the isotropic modulus and
     Poisson's ratio.
     """
+    with single_thread():  # a second BLAS thread only spins against the first on these small products
+        return _vertical_bending(xs, hs, width, modulus, poisson, density, modes, along, across, through, constants)
+
+
+def _vertical_bending(xs, hs, width, modulus, poisson, density, modes, along, across, through, constants):
     from scipy.sparse.linalg import eigsh
     from skfem import Basis, ElementHex2, ElementVector, MeshHex, MeshHex2
 
@@ -76,7 +83,8 @@ def material_matrix(modulus, poisson, constants=None):
 
 def assemble(basis, d, density):
     """Stiffness and mass matrices (scipy CSR) of a vector basis: K = sum over elements and
-    quadrature points of B^T D B dx, M = sum of density N^T N dx."""
+    quadrature points of B^T D B dx, M = sum of density N^T N dx.  Each element's sum over its
+    quadrature points and strains is one matrix product (the points and strains side by side)."""
     from scipy.sparse import coo_matrix
 
     grads = np.array([field[0].grad for field in basis.basis])     # (local, 3, 3, elements, points)
@@ -84,14 +92,16 @@ def assemble(basis, d, density):
     strain = np.concatenate([np.stack([grads[:, i, i] for i in range(3)], axis=1),
                              np.stack([grads[:, i, j] + grads[:, j, i] for i, j in SHEARS], axis=1)], axis=1)
     dx = basis.dx                                                  # (elements, points)
-    ke = np.zeros((basis.nelems, basis.Nbfun, basis.Nbfun))
-    me = np.zeros_like(ke)
-    for q in range(dx.shape[1]):
-        b = strain[:, :, :, q].transpose(2, 0, 1)                  # (elements, local, 6)
-        n = values[:, :, :, q].transpose(2, 0, 1)                  # (elements, local, 3)
-        w = dx[:, q][:, None, None]
-        ke += (b * w) @ (b @ d).transpose(0, 2, 1)
-        me += (n * (density * w)) @ n.transpose(0, 2, 1)
+    elements, local = basis.nelems, basis.Nbfun
+    b = strain.transpose(2, 0, 3, 1)                               # (elements, local, points, 6)
+    n = values.transpose(2, 0, 3, 1)                               # (elements, local, points, 3)
+    w = dx[:, None, :, None]
+
+    def pairs(left, right):  # sum over points and components of left[e, i] . right[e, j], for each element
+        return left.reshape(elements, local, -1) @ right.reshape(elements, local, -1).transpose(0, 2, 1)
+
+    ke = pairs(b * w, b @ d)
+    me = pairs(n * (density * w), n)
     dofs = basis.element_dofs                                      # (local, elements)
     rows = np.broadcast_to(dofs.T[:, :, None], ke.shape).ravel()
     cols = np.broadcast_to(dofs.T[:, None, :], ke.shape).ravel()

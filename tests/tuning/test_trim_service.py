@@ -12,7 +12,9 @@ from click.testing import CliRunner
 
 import cutplan
 from cutplan.cli import cli
+from cutplan.physics import elastic2d
 from cutplan.tuning import trim_report
+from tests.tuning.conftest import FIRST_READINGS
 
 EXAMPLES = Path(__file__).resolve().parents[2] / "examples"
 
@@ -24,10 +26,12 @@ def porch():
 
 
 @pytest.fixture(scope="module")
-def marimba(example_plan):
+def marimba(example_plan, first_advice_solves):
     # the Plan of this very file, planned once per session (tests/conftest.py); a test that plans a
     # copy of the file through the command line or the page asks for it too, so that those plans
-    # find the bars' 2-D solves remembered
+    # find the bars' 2-D solves remembered; so too the first advice on bars 1 and 2 (the readings
+    # of tests/tuning/conftest.py), which test_trim_state_lock.py asks for as well
+    elastic2d.remember_solves(first_advice_solves)
     return cutplan.load_design(EXAMPLES / "music-room-marimba.toml"), example_plan("music-room-marimba")
 
 
@@ -81,7 +85,7 @@ def test_rounds_are_kept_beside_the_design_and_counted_when_done(marimba, tmp_pa
     src = (EXAMPLES / "music-room-marimba.toml").read_text()
     design = tmp_path / "marimba.toml"
     design.write_text(src)
-    first = _cli(design, "bars-1", "--measured", "255.2, 1049.8", "--format", "json")
+    first = _cli(design, "bars-1", "--measured", FIRST_READINGS["bars-1"], "--format", "json")
     assert first.exit_code == 0, first.output
     state_file = tmp_path / "marimba.trim-state.json"
     state = json.loads(state_file.read_text())
@@ -123,12 +127,12 @@ def test_page_and_terminal_give_the_same_removal_advice(marimba, tmp_path):
     data = tomllib.loads((EXAMPLES / "music-room-marimba.toml").read_text())
     fields = form_from_mapping(data)
     client = create_app().test_client()
-    res = client.post("/api/trim", data={**fields, "trim.piece": "bars-2", "trim.measured": "290.1, 1182.0"},
+    res = client.post("/api/trim", data={**fields, "trim.piece": "bars-2", "trim.measured": FIRST_READINGS["bars-2"]},
                       content_type="multipart/form-data").get_json()
     assert res["ok"], res
     design = tmp_path / "marimba.toml"
     design.write_text((EXAMPLES / "music-room-marimba.toml").read_text())
-    cli_json = json.loads(_cli(design, "bars-2", "--measured", "290.1, 1182.0", "--format", "json").output)
+    cli_json = json.loads(_cli(design, "bars-2", "--measured", FIRST_READINGS["bars-2"], "--format", "json").output)
     assert res["trim"]["lines"][1:] == cli_json["lines"]
     assert res["trim"]["removal"] == cli_json["removal"]
     svg = ET.fromstring(res["trim"]["drawing"])
