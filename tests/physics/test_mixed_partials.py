@@ -183,3 +183,13 @@ def test_the_cross_width_mode_near_a_tuned_partial_is_in_the_3d_solid():
     solid_near = [f for f, s, a, _ in solid("F#6 wide") if s < 0.1 and abs(cents(f, near[0])) < 5.0]
     assert len(solid_near) == 1
     assert abs(cents(solid_near[0], solid_partial("F#6 wide", 2)[0])) < 30.0
+
+
+def test_the_other_modes_keep_their_kind_when_a_solve_is_handed_to_another_process():
+    # The memo's solves travel between test workers and processes by pickle (remembered_solves);
+    # a plain float would lose what kind of mode it is and the partial it splits.
+    import pickle
+
+    got = pickle.loads(pickle.dumps(planar("F#6")))
+    assert got == planar("F#6")
+    assert [(f.kind, f.partial) for f in got.longitudinal] == [(f.kind, f.partial) for f in planar("F#6").longitudinal]
