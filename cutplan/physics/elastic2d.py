@@ -378,16 +378,12 @@ def _solve(xs, hs, k, m, means, top, e_along, density, modes, elements, mirror=N
 
 def _sort_modes(vals, vecs, m, means, top, omega1):
     """(bending [Hz], other modes [Hz], nodes of each bending mode) of the eigenpairs given (the
-    lowest ones, ascending), the rigid-body modes dropped.
-
-    Bending partial n is found by its shape and its strength (:func:`_partials`): among the modes
-    that move the width's mean across the bar more than along it, those whose width-mean
-    deflection of the top has n + 1 nodes, and of these the one with the largest bending share
-    (the fraction of its kinetic energy in that motion).  On a long bar one mode holds most of it
-    (0.6 to 0.95); on a short, wide bar, bending along the bar mixes with bending across the width
-    and two or three modes near each other share it: the strongest is the partial.  Every other
-    mode is an :class:`OtherMode` (lengthwise, or across the width; a mode that holds at least
-    :data:`SPLIT_SHARE` of a partial's share names that partial as split)."""
+    lowest ones, ascending), the rigid-body modes dropped.  Bending partial n is the mode with the
+    largest bending share (kinetic energy in the width-mean motion across the bar, as a fraction of
+    the mode's) among those whose width-mean deflection of the top has n + 1 nodes (:func:`_partials`):
+    one mode holds 0.6 to 0.95 on a long bar; on a short, wide bar bending along the bar mixes with
+    bending across the width and two or three modes near each other share it.  The others are
+    :class:`OtherMode` (lengthwise or cross-width; tagged with the partial they split)."""
     elastic = vals > 1e-6 * omega1**2
     vals, vecs = vals[elastic], vecs[:, elastic]
     # kinetic energies of every mode at once (a sparse product with a block of vectors)
@@ -426,7 +422,8 @@ SPLIT_BAND = 0.25
 the arch search names (solved short bars: the modes that share a partial lie 1 to 15 % apart)."""
 CANDIDATE_SHARE = 0.1
 """Least bending share of a mode that may be a partial [-]: a mode of the width alone holds 0.01
-to 0.05 of its energy in the width's mean (solved short, wide bars), a mixed partial 0.15 or more."""
+to 0.05 of its energy in the width's mean, the strongest mode of a mixed partial 0.39 or more
+(solved short, wide bars)."""
 CLEAR_SHARE = 0.5
 """A partial whose share is at least this [-] is known before the modes above it are solved:
 the shares of one shape add up to at most one, so no other mode can hold more of it."""
@@ -458,18 +455,17 @@ class OtherMode(float):
 
 
 def _partials(freqs, share, across, node_counts):
-    """(indices of bending partials 1, 2, ... in order, {index: partial number} of the modes that
-    split one) from each mode's frequency (ascending), bending share, whether it moves the width's
-    mean more across the bar than along it, and the nodes of its width-mean deflection of the top.
+    """(indices of partials 1, 2, ... in order, {index: partial n} of the modes that split one) from
+    each mode's frequency (ascending), bending share, whether it moves the width's mean more across
+    than along, and the nodes of its width-mean deflection of the top.
 
-    The candidates (moving across, share at least :data:`CANDIDATE_SHARE`) are grouped by node
-    count; the groups in order of node count are partials 1, 2, ... (partial n has n + 1 nodes on a
-    free bar; a count with no candidate is skipped, not waited for), each the strongest member above
-    the partial before it.  A partial is reported once it is known: its share is at least
-    :data:`CLEAR_SHARE`, or a group with more nodes has been found (the modes it mixes with lie
-    near it, below the next partial), so the caller solves more modes while the last is open.  Any
-    other mode with the partial's nodes, between the partials either side and within
-    :data:`SPLIT_BAND` of it, that holds :data:`SPLIT_SHARE` of the partial's share splits it."""
+    The candidates (moving across, share at least :data:`CANDIDATE_SHARE`) grouped by node count,
+    in order of it, are partials 1, 2, ... (n + 1 nodes on a free bar; a count with no candidate is
+    skipped), each the strongest member above the partial before it.  A partial is known once its
+    share is at least :data:`CLEAR_SHARE` or a group with more nodes is found (the modes it mixes
+    with lie near it), so the caller solves more modes while the last is open.  Another mode with
+    its nodes, between the partials either side and within :data:`SPLIT_BAND` of it, that holds
+    :data:`SPLIT_SHARE` of its share splits it."""
     groups: dict[int, list[int]] = {}
     for j, (s, a, count) in enumerate(zip(share, across, node_counts, strict=True)):
         if a and s >= CANDIDATE_SHARE:
@@ -479,8 +475,6 @@ def _partials(freqs, share, across, node_counts):
         members = [j for j in groups[count] if not picks or freqs[j] > freqs[picks[-1]]]
         if members:
             picks.append(max(members, key=lambda j: (share[j], -j)))
-    if picks and share[picks[-1]] < CLEAR_SHARE:
-        picks.pop()  # the last group's stronger member may not be solved yet
     split = {}
     for n, best in enumerate(picks, start=1):
         low = freqs[picks[n - 2]] if n > 1 else 0.0
@@ -491,4 +485,7 @@ def _partials(freqs, share, across, node_counts):
         split.update({j: n for j, count in enumerate(node_counts)
                       if j != best and count == node_counts[best] and low < freqs[j] < high
                       and share[j] >= SPLIT_SHARE * share[best]})
+    if picks and share[picks[-1]] < CLEAR_SHARE:  # the last group's stronger member may not be solved yet
+        split = {j: n for j, n in split.items() if n < len(picks)}
+        picks.pop()
     return picks, split
