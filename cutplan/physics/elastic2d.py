@@ -459,16 +459,21 @@ def _partials(freqs, share, across, node_counts):
     each mode's frequency (ascending), bending share, whether it moves the width's mean more across
     than along, and the nodes of its width-mean deflection of the top.
 
-    The candidates (moving across, share at least :data:`CANDIDATE_SHARE`) grouped by node count,
-    in order of it, are partials 1, 2, ... (n + 1 nodes on a free bar; a count with no candidate is
-    skipped), each the strongest member above the partial before it.  A partial is known once its
+    The candidates (moving across, share at least :data:`CANDIDATE_SHARE`, at least two nodes, none
+    above a clear mode with more nodes) grouped by node count, in order of it, are partials 1, 2,
+    ... (n + 1 nodes on a free bar; a count with no candidate is skipped), each the strongest member
+    above the partial before it.  A partial is known once its
     share is at least :data:`CLEAR_SHARE` or a group with more nodes is found (the modes it mixes
     with lie near it), so the caller solves more modes while the last is open.  Another mode with
     its nodes, between the partials either side and within :data:`SPLIT_BAND` of it, that holds
     :data:`SPLIT_SHARE` of its share splits it."""
+    clear = [i for i, (s, a) in enumerate(zip(share, across, strict=True)) if a and s >= CLEAR_SHARE]
     groups: dict[int, list[int]] = {}
     for j, (s, a, count) in enumerate(zip(share, across, node_counts, strict=True)):
-        if a and s >= CANDIDATE_SHARE:
+        # a mode above a clear partial with more nodes is of another kind (the section's own
+        # motion through the thickness, say), not a lower partial
+        if a and s >= CANDIDATE_SHARE and count >= 2 and not any(
+                freqs[i] < freqs[j] and node_counts[i] > count for i in clear):
             groups.setdefault(count, []).append(j)
     picks: list[int] = []
     for count in sorted(groups):
