@@ -22,6 +22,7 @@ WIDE_BORE = "wide-bore"
 HANG_HOLE_BEAT = "hang-hole-beat"
 MODE_BELOW_FUNDAMENTAL = "mode-below-fundamental"
 MODE_NEAR_PARTIAL = "mode-near-partial"
+PARTIAL_SPLIT = "partial-split"
 
 # design errors (DesignError.code); any other error is INVALID
 INVALID = "invalid"

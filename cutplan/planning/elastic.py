@@ -9,6 +9,7 @@ on plane stress (see :func:`_trim_rate`).
 
 from __future__ import annotations
 
+import dataclasses
 import math
 
 import numpy as np
@@ -27,7 +28,9 @@ from cutplan.planning.frequency import (
     profile_frequency_function,
     stubby_bar_warnings,
 )
+from cutplan.planning.other_modes import CLEARANCE_CENTS, tuned_partials
 from cutplan.planning.records import PARTIAL_COUNT, Arch, Piece
+from cutplan.planning.width_modes import width_mode_warnings
 
 __all__ = [
     "LENGTH_TOLERANCE_CENTS", "TRIM_STEP", "plan_undercut_set_2d",
@@ -81,12 +84,14 @@ def plan_undercut_set_2d(spec, design, stock, progress=None):
             raise UndercutError(f"{spec.targets[i].name} ({target:.1f} Hz): {exc}") from None
         guess, jacobian, offset = (r.length, r.depth, r.exponent), r.jacobian, r.offset_cents
         offsets.append((target, r.width_offset_cents))
-        solved[i] = r
+        # the design's own solve of the profile it printed (remembered by the solver): its other modes
+        solved[i] = (r, plane.modes(*(np.array(v) for v in zip(*r.outline(), strict=True)), sec.width,
+                                    modes=PARTIAL_COUNT))
         if progress is not None:
             progress(1)
     pieces = []
     for i, t in enumerate(spec.targets):
-        r = solved[i]
+        r, modes = solved[i]
         stations = r.outline()
         half = [(x, h) for x, h in stations if x <= r.length / 2 + 1e-12]
         picks = np.linspace(0, len(half) - 1, 11).round().astype(int)
@@ -107,7 +112,16 @@ def plan_undercut_set_2d(spec, design, stock, progress=None):
             shear_correction_cents=_against_slender(f0, r.length, sec, plane, ei, mu, stations),
             warnings=tuple(risk_warning(risk, spec) + stubby_bar_warnings(r.length, sec.thickness, set_key(spec, "section"))), fundamental_hz=f0, allowance_uncalibrated=a_uncal,
             allowance_calibrated=a_cal, sharp_risk=risk, arch=arch))
+        pieces[-1] = _with_width_warnings(spec, pieces[-1], modes)
     return pieces
+
+
+def _with_width_warnings(spec, piece, modes):
+    """The piece with the warnings of its 2-D solve ``modes`` added (:mod:`cutplan.planning.width_modes`)."""
+    clearance = getattr(spec, "mode_clearance", None) or CLEARANCE_CENTS
+    extra = width_mode_warnings(piece, modes, spec.section.width, tuned_partials(spec, piece), clearance,
+                                set_key(spec, "section"))
+    return dataclasses.replace(piece, warnings=tuple(piece.warnings) + tuple(extra)) if extra else piece
 
 
 def _next_offset(offsets, target):
@@ -170,6 +184,7 @@ def plan_uniform_set_2d(spec, design, stock):
             partial_notes=partial_notes(partials, design.a4), cents_per_mm=per_mm, model="elastic-2d",
             shear_correction_cents=_against_slender(f0, length, sec, plane, ei, mu), warnings=tuple(risk_warning(risk, spec) + stubby_bar_warnings(length, sec.thickness, set_key(spec, "section"))),
             fundamental_hz=f0, allowance_uncalibrated=a_uncal, allowance_calibrated=a_cal, sharp_risk=risk))
+        pieces[-1] = _with_width_warnings(spec, pieces[-1], modes)
     return pieces
 
 
