@@ -17,8 +17,10 @@ halves, marimba 8.26 / 9.92 and the 49 bars 89.79 / 97.47; after, marimba 8.30 /
 49 bars 58.23 / 64.46 (the busy figure still over its target).  After the side modes' assembly
 pattern was cached, a half asking for more modes kept the ones it had (projected out of Lanczos),
 and the steering plane-stress solves asked only for the tuned partials: marimba 7.17 / 9.13 and
-the 49 bars 54.10 / 54.65 (the machine's load average was 6 to 9 throughout, from other work, so
-the "quiet" runs were not quiet).  Outputs identical in every run.
+the 49 bars 54.10 / 54.65 with the machine's load average at 6 to 9 from other work throughout;
+measured again back to back once the machine had gone quiet (load about 2), the round before
+marimba 5.90 / 6.24 and 49 bars 40.21 / 66.18 (its busy pair hit a burst of other work), this
+round marimba 5.59 / 6.05 and 49 bars 35.76 / 38.43.  Outputs identical in every run.
 """
 
 import hashlib
