@@ -14,7 +14,13 @@ Targets: music-room marimba example <= 10 s; 49 undercut bars + 49 resonators <=
 Measured (CPU s, best of two; quiet / beside two busy loops; on a two-core machine shared with
 other work, so "quiet" is only quieter): before the width-resolved bars were solved in mirrored
 halves, marimba 8.26 / 9.92 and the 49 bars 89.79 / 97.47; after, marimba 8.30 / 9.68 and the
-49 bars 58.23 / 64.46 (the busy figure still over its target).  Outputs identical in every run.
+49 bars 58.23 / 64.46 (the busy figure still over its target).  After the side modes' assembly
+pattern was cached, a half asking for more modes kept the ones it had (projected out of Lanczos),
+and the steering plane-stress solves asked only for the tuned partials: marimba 7.17 / 9.13 and
+the 49 bars 54.10 / 54.65 with the machine's load average at 6 to 9 from other work throughout;
+measured again back to back once the machine had gone quiet (load about 2), the round before
+marimba 5.90 / 6.24 and 49 bars 40.21 / 66.18 (its busy pair hit a burst of other work), this
+round marimba 5.59 / 6.05 and 49 bars 35.76 / 38.43.  Outputs identical in every run.
 """
 
 import hashlib

@@ -327,7 +327,7 @@ def _assemble_width(basis, hs, width, e_along, e_across, shear, poisson, density
 
 
 def _solve(xs, hs, k, m, means, top, e_along, density, modes, elements, mirror=None):
-    from scipy.sparse.linalg import LinearOperator, eigsh, splu
+    from scipy.sparse.linalg import LinearOperator, splu
 
     length = float(xs[-1])
     h_min = float(np.min(hs))
@@ -339,38 +339,49 @@ def _solve(xs, hs, k, m, means, top, e_along, density, modes, elements, mirror=N
     if mirror is not None:
         # a bar that is its own mirror image: its symmetric and antisymmetric modes apart, each a
         # problem of half the size (the same modes; the bending ones alternate between the two)
+        sorted_last: list = []
+
         def enough(vals, vecs):
-            return len(_sort_modes(vals, vecs, m, means, top, omega1)[0]) >= modes
+            sorted_last[:] = [vals, _sort_modes(vals, vecs, m, means, top, omega1)]
+            return len(sorted_last[1][0]) >= modes
 
         # each half first asks for its rigid-body modes, its share of the bending modes and one
         # more; Lanczos bases of 2 k + 4 vectors (fewest solves on the long bars of a four-octave set)
         vals, vecs, _ = mirror_modes.lowest_modes(k, m, mirror_modes.half_bases(*mirror), sigma,
                                                   (1 + (modes + 1) // 2 + 1, 2 + modes // 2 + 1), enough,
                                                   ncv=lambda count: 2 * count + 4)
-        bending, longitudinal, node_sets = _sort_modes(vals, vecs, m, means, top, omega1)
+        # the modes returned are those the last question was asked of: their sorting is reused
+        same = sorted_last and sorted_last[0].size == vals.size and np.array_equal(sorted_last[0], vals)
+        bending, longitudinal, node_sets = (sorted_last[1] if same
+                                            else _sort_modes(vals, vecs, m, means, top, omega1))
         return ProfileModes(frequencies=tuple(bending[:modes]), nodes=tuple(node_sets[:modes]),
                             longitudinal=tuple(longitudinal), elements=elements)
-    op = None
-    if means.fields > 2:
-        # the width-resolved body (several fields per node): one factorisation with minimum-degree
-        # ordering on the symmetric pattern, several times faster than SuperLU's default ordering;
-        # K - sigma M is positive definite (sigma < 0), so the diagonal pivots are taken as they
-        # come (partial pivoting filled the factors six times as much on a short uniform bar,
-        # measured: 10.8 against 1.7 million entries)
-        lu = splu((k - sigma * m).tocsc(), permc_spec="MMD_AT_PLUS_A", diag_pivot_thresh=0.0,
-                  options={"SymmetricMode": True})
-        op = LinearOperator(k.shape, matvec=lu.solve, dtype=float)
+    # one factorisation with minimum-degree ordering on the symmetric pattern, several times
+    # faster than SuperLU's default ordering on the width-resolved body; K - sigma M is positive
+    # definite (sigma < 0), so the diagonal pivots are taken as they come (partial pivoting filled
+    # the factors six times as much on a short uniform bar, measured: 10.8 against 1.7 million
+    # entries).  Plane stress takes the same factorisation, kept while more modes are asked for.
+    lu = splu((k - sigma * m).tocsc(), permc_spec="MMD_AT_PLUS_A", diag_pivot_thresh=0.0,
+              options={"SymmetricMode": True})
+    op = LinearOperator(k.shape, matvec=lu.solve, dtype=float)
+    vals = vecs = None
     while True:
         count = min(want, n - 2)
-        vals, vecs = eigsh(k, k=count, M=m, sigma=sigma, which="LM", v0=np.ones(n), OPinv=op)
-        order = np.argsort(vals)
-        bending, longitudinal, node_sets = _sort_modes(vals[order], vecs[:, order], m, means, top, omega1)
+        found = (vals, vecs) if vals is not None else None
+        new_vals, new_vecs = mirror_modes.more_modes(op, m, sigma, count - (0 if vals is None else vals.size),
+                                                     None, found)
+        if vals is None:
+            vals, vecs = new_vals, new_vecs
+        else:
+            order = np.argsort(np.concatenate([vals, new_vals]), kind="stable")
+            vals, vecs = np.concatenate([vals, new_vals])[order], np.hstack([vecs, new_vecs])[:, order]
+        bending, longitudinal, node_sets = _sort_modes(vals, vecs, m, means, top, omega1)
         if len(bending) >= modes or count >= n - 2:
             break
         # too few bending modes among those solved (a short, wide bar has many cross-width and
         # longitudinal modes below its fourth bending mode): ask for twice as many at once, so
-        # a deep hunt takes a few solves, not dozens of ever larger ones (the lowest modes are
-        # the same either way)
+        # a deep hunt takes a few solves, not dozens of ever larger ones (the modes already
+        # found are kept and only the new ones solved)
         want *= 2
     return ProfileModes(frequencies=tuple(bending[:modes]), nodes=tuple(node_sets[:modes]),
                         longitudinal=tuple(longitudinal), elements=elements)

@@ -20,7 +20,7 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["MIRROR_TOLERANCE", "TOLERANCE", "mirror_partners", "half_bases", "lowest_modes"]
+__all__ = ["MIRROR_TOLERANCE", "TOLERANCE", "mirror_partners", "half_bases", "more_modes", "lowest_modes"]
 
 MIRROR_TOLERANCE = 1e-12
 """How far (as a fraction of the bar's size) a DOF and its mirror image may be from mirroring
@@ -83,14 +83,32 @@ def half_bases(partner, along):
     return tuple(out)
 
 
-def _eigenpairs(shifted, m, sigma, count, ncv):
-    """The ``count`` eigenpairs of K x = lambda M x nearest above ``sigma`` (below every
-    eigenvalue), given ``shifted`` = (K - sigma M)^-1 as an operator and M: shift-invert Lanczos
-    needs K no further."""
-    from scipy.sparse.linalg import eigsh
+def more_modes(shifted, m, sigma, count, ncv=None, known=None):
+    """The ``count`` lowest eigenpairs of K x = lambda M x above ``sigma`` (below every
+    eigenvalue) that are not among ``known``, ascending, given ``shifted`` = (K - sigma M)^-1 as an
+    operator and M (shift-invert Lanczos needs K no further); ``ncv`` the Lanczos basis size
+    (else scipy's default).
 
-    vals, vecs = eigsh(shifted, k=count, M=m, sigma=sigma, which="LM", v0=np.ones(m.shape[0]), OPinv=shifted,
-                       ncv=ncv, tol=TOLERANCE)
+    ``known`` (values, M-orthonormal vectors) are the lowest modes already found: they are
+    projected out of every Lanczos vector (the operator restricted to the rest of the space,
+    still self-adjoint in M), so asking for more modes costs the new ones only, not a solve of
+    all of them afresh.
+    """
+    from scipy.sparse.linalg import LinearOperator, eigsh
+
+    start = np.ones(m.shape[0])
+    op = shifted
+    if known is not None and known[0].size:
+        basis = known[1]
+        weighted = m @ basis  # M X, so the projection x - X (M X)^T x is two dense products
+
+        def projected(x):
+            y = shifted.matvec(x)
+            return y - basis @ (weighted.T @ y)
+
+        op = LinearOperator(shifted.shape, matvec=projected, dtype=float)
+        start = start - basis @ (weighted.T @ start)
+    vals, vecs = eigsh(op, k=count, M=m, sigma=sigma, which="LM", v0=start, OPinv=op, ncv=ncv, tol=TOLERANCE)
     order = np.argsort(vals)
     return vals[order], vecs[:, order]
 
@@ -101,9 +119,10 @@ def lowest_modes(k, m, bases, sigma, counts, enough, ncv=None):
 
     ``counts`` are the first numbers of modes to ask of each half; ``enough(values, vectors)``
     says whether the lowest modes found so far answer the question (then the search stops); else
-    the half whose highest mode found is lower asks for twice as many.  ``complete`` is False
-    when a half ran out of modes to give (then all there are were returned).  ``ncv(count)``,
-    given, is the Lanczos basis size for ``count`` modes (else scipy's default).
+    the half whose highest mode found is lower asks for twice as many (the modes it has are kept
+    and only the new ones solved, :func:`more_modes`).  ``complete`` is False when a half ran out
+    of modes to give (then all there are were returned).  ``ncv(count)``, given, is the Lanczos
+    basis size for ``count`` new modes (else scipy's default).
     """
     from scipy.sparse.linalg import LinearOperator, splu
 
@@ -121,8 +140,16 @@ def lowest_modes(k, m, bases, sigma, counts, enough, ncv=None):
     while True:
         for i, (op, mh) in enumerate(halves):
             count = min(counts[i], mh.shape[0] - 2)
-            if found[i] is None or found[i][0].size != count:
-                found[i] = _eigenpairs(op, mh, sigma, count, None if ncv is None else min(ncv(count), mh.shape[0]))
+            have = 0 if found[i] is None else found[i][0].size
+            if have < count:
+                new = count - have
+                vals, vecs = more_modes(op, mh, sigma, new, None if ncv is None else min(ncv(new), mh.shape[0]),
+                                        found[i])
+                if found[i] is not None:
+                    vals, vecs = np.concatenate([found[i][0], vals]), np.hstack([found[i][1], vecs])
+                    order = np.argsort(vals, kind="stable")
+                    vals, vecs = vals[order], vecs[:, order]
+                found[i] = (vals, vecs)
         caps = [np.inf if found[i][0].size >= halves[i][0].shape[0] - 2 else found[i][0][-1] for i in range(2)]
         cap = min(caps)
         vals = np.concatenate([found[0][0], found[1][0]])

@@ -188,9 +188,14 @@ def design_undercut_2d(target, ratios, width, thickness, plane, kappa, min_thick
         return np.array([1200 * math.log2(f[0] / target)]
                         + [1200 * math.log2(f[k + 1] / f[0] / r) for k, r in enumerate(ratios)])
 
+    # the plane-stress body only steers when the width-resolved one designs: it is asked for the
+    # partials that are tuned (a short bar then need not hunt for a fourth bending mode among its
+    # cross-width ones); designing alone, it gives the four partials the plan shows
+    steering = size if plane.width is not None else 4
+
     def evaluate(v):
         count[0] += 1
-        m = coarse.modes(*profile(v), width, modes=4)
+        m = coarse.modes(*profile(v), width, modes=steering)
         return residuals(m), m
 
     r, modes = evaluate(v)

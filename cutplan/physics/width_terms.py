@@ -37,6 +37,7 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 
@@ -132,7 +133,7 @@ def kron_assemble(basis, coefficients, mass):
     e.g. dphi_a/dx dphi_b/dz), ``coefficients`` C the (3, 3, n, n) field-by-field constants and
     ``mass`` the (n, n) one; global DOF ``n * node + field``.
     """
-    from scipy.sparse import bsr_matrix  # here, not at the top: a plan without 2-D bars never loads scipy
+    from scipy.sparse import csc_matrix  # here, not at the top: a plan without 2-D bars never loads scipy
 
     n_f = mass.shape[0]
     values = np.stack([np.asarray(phi[0]) for phi in basis.basis])  # (a, e, q)
@@ -140,25 +141,45 @@ def kron_assemble(basis, coefficients, mass):
     shapes = (values, grads[:, 0], grads[:, 1])
     dx = basis.dx  # (e, q)
     dofs = basis.element_dofs  # (a, e)
-    # one pattern of node pairs (CSR order) for every scalar matrix
-    pair = (dofs[:, None, :] * basis.N + dofs[None, :, :]).transpose(2, 0, 1).ravel()  # (e, a, b)
-    keys, inverse = np.unique(pair, return_inverse=True)
-    scalar = np.zeros((3, 3, keys.size))
+    inverse, gather, indices, indptr = _layout(dofs.tobytes(), dofs.dtype.str, dofs.shape, basis.N, n_f)
+    pairs = inverse.max() + 1
+    scalar = np.zeros((3, 3, pairs))
     for i in range(3):
         for j in range(3):
             if np.any(coefficients[i, j]) or (i == j == 0):
                 local = np.einsum("aeq,beq,eq->eab", shapes[i], shapes[j], dx)
-                scalar[i, j] = np.bincount(inverse, weights=local.ravel(), minlength=keys.size)
-    rows, cols = keys // basis.N, keys % basis.N
-    indptr = np.searchsorted(rows, np.arange(basis.N + 1))
+                scalar[i, j] = np.bincount(inverse, weights=local.ravel(), minlength=pairs)
     size = n_f * basis.N
     k_blocks = np.einsum("ijp,ijfg->pfg", scalar, coefficients)
     m_blocks = scalar[0, 0][:, None, None] * mass[None, :, :]
-    k = bsr_matrix((k_blocks, cols, indptr), shape=(size, size)).tocsc()
-    m = bsr_matrix((m_blocks, cols, indptr), shape=(size, size)).tocsc()
-    k.eliminate_zeros()
-    m.eliminate_zeros()
-    return k, m
+    out = []
+    for blocks in (k_blocks, m_blocks):
+        matrix = csc_matrix((blocks.ravel()[gather], indices, indptr), shape=(size, size))
+        matrix.eliminate_zeros()
+        out.append(matrix)
+    return out[0], out[1]
+
+
+@lru_cache(maxsize=8)
+def _layout(dofs_bytes, dtype, shape, nodes, n_f):
+    """Where the entries go, for a scalar basis whose element DOFs (a, e) are given as bytes, dtype
+    and shape and ``n_f`` fields per node: (the node pair of each element entry (e, a, b), and
+    for the CSC matrix: the (pair, field, field) entry of each stored value, row indices, column
+    pointers).  The same mesh sizes give the same layout, so it is worked out once per process."""
+    dofs = np.frombuffer(dofs_bytes, dtype=dtype).reshape(shape).astype(np.int64)
+    pair = (dofs[:, None, :] * nodes + dofs[None, :, :]).transpose(2, 0, 1).ravel()  # (e, a, b)
+    keys, inverse = np.unique(pair, return_inverse=True)
+    first, second = keys // nodes, keys % nodes  # pairs sorted by first node, then second
+    # CSC of a symmetric pattern: column (c, g) holds the rows (r, f), r over the pairs (c, r) in
+    # order, f inner; the value there is the (r, c) pair's entry (f, g)
+    mirror = np.searchsorted(keys, second * nodes + first)
+    q, g, f = np.meshgrid(np.arange(keys.size), np.arange(n_f), np.arange(n_f), indexing="ij")  # (pair, g, f)
+    order = np.lexsort((f.ravel(), q.ravel(), g.ravel(), first[q.ravel()]))
+    q, g, f = q.ravel()[order], g.ravel()[order], f.ravel()[order]
+    gather = (mirror[q] * n_f + f) * n_f + g
+    indices = n_f * second[q] + f
+    counts = np.repeat(np.bincount(first, minlength=nodes) * n_f, n_f)
+    return inverse, gather, indices, np.concatenate([[0], np.cumsum(counts)])
 
 
 def _strain_terms(component, power, half):
