@@ -6,7 +6,7 @@ from types import SimpleNamespace
 
 import cutplan
 from cutplan.design.notices import MODE_NEAR_PARTIAL, PARTIAL_SPLIT
-from cutplan.physics.elastic2d import OtherMode
+from cutplan.physics.bending_partials import OtherMode
 from cutplan.planning.width_modes import width_mode_warnings
 
 
