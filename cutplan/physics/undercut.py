@@ -35,7 +35,7 @@ from cutplan.physics.timoshenko import fundamental_length
 
 __all__ = [
     "ELEMENTS_END", "ELEMENTS_ARCH", "ORDER", "UndercutError", "arch_thickness", "arch_area", "bar_modes",
-    "Undercut", "TOLERANCE_CENTS", "MAX_SOLVES", "design_undercut", "FD_STEPS", "MAX_STEP", "bounded_step"
+    "SolvedArch", "TOLERANCE_CENTS", "MAX_SOLVES", "design_undercut", "FD_STEPS", "MAX_STEP", "bounded_step"
 ]
 
 ELEMENTS_END = 6
@@ -129,7 +129,7 @@ def bar_modes(length, width, thickness, depth, arch_fraction, modulus, shear_mod
 
 
 @dataclass(frozen=True)
-class Undercut:
+class SolvedArch:
     """A solved arch: blank length [m], centre depth [m], arch width fraction, modes and nodes."""
 
     length: float
@@ -180,7 +180,7 @@ def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, de
     guess : (length, depth, exponent), optional
         Start values, e.g. from the neighbouring bar.
     jacobian : tuple, optional
-        The neighbouring bar's Jacobian (``Undercut.jacobian``): saves the finite differences.
+        The neighbouring bar's Jacobian (``SolvedArch.jacobian``): saves the finite differences.
 
     Raises
     ------
@@ -249,7 +249,7 @@ def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, de
             f"by {max(abs(x) for x in r[1:]):.0f} cents); try another arch width, a thicker blank or a "
             "lower min_thickness")
     nodes = tuple(beam_fe.node_positions(modes, 1))
-    return Undercut(length=length, depth=depth, arch_fraction=arch_fraction, exponent=exponent, thickness=thickness,
+    return SolvedArch(length=length, depth=depth, arch_fraction=arch_fraction, exponent=exponent, thickness=thickness,
                     frequencies=tuple(float(f) for f in modes.frequencies), nodes=nodes,
                     ratio_residuals_cents=tuple(float(x) for x in r[1:]), fundamental_residual_cents=float(r[0]),
                     jacobian=tuple(map(tuple, jac)), solves=count[0])

@@ -36,7 +36,7 @@ from cutplan.physics.width_terms import WidthConstants
 
 __all__ = [
     "TOLERANCE_CENTS", "MAX_SOLVES", "CROSS_WIDTH_BAND", "WIDTH_TOLERANCE_CENTS", "MAX_WIDTH_SOLVES", "ARCH_STATIONS", "END_STATIONS",
-    "PlaneConstants", "arch_stations", "Undercut2d", "design_undercut_2d", "trimmed_profile"
+    "PlaneConstants", "arch_stations", "SolvedArch2d", "design_undercut_2d", "trimmed_profile"
 ]
 
 TOLERANCE_CENTS = 0.02
@@ -93,7 +93,7 @@ def arch_stations(length, thickness, depth, arch_fraction, exponent):
 
 
 @dataclass(frozen=True)
-class Undercut2d(undercut.Undercut):
+class SolvedArch2d(undercut.SolvedArch):
     """A solved arch in the 2-D model: the 1-D record's fields (the frequencies, nodes and
     residuals those of the designing body's solve, ``jacobian`` the 1-D start's, ``solves`` the
     plane-stress solves), plus the plane-stress minus 1-D residuals (``offset_cents``) and the
@@ -232,7 +232,7 @@ def design_undercut_2d(target, ratios, width, thickness, plane, kappa, min_thick
         raise undercut.UndercutError(
             f"no arch of width {arch_fraction:g} x L reaches {tuning} in the 2-D model ({missed}); try another arch "
             "width, a thicker blank or a lower min_thickness")
-    return Undercut2d(length=length, depth=depth, arch_fraction=arch_fraction, exponent=shape, thickness=thickness,
+    return SolvedArch2d(length=length, depth=depth, arch_fraction=arch_fraction, exponent=shape, thickness=thickness,
                       frequencies=tuple(float(f) for f in modes.frequencies), nodes=tuple(modes.nodes[0]),
                       ratio_residuals_cents=tuple(float(x) for x in r[1:]), fundamental_residual_cents=float(r[0]),
                       offset_cents=tuple(float(x) for x in offset_now), jacobian=start.jacobian,
