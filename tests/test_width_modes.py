@@ -41,7 +41,7 @@ def test_a_cross_width_mode_near_the_tuned_second_partial_is_warned():
     near = [w for w in piece.warnings if w.code == MODE_NEAR_PARTIAL and "cross-width" in w.message]
     assert len(near) == 1
     text = near[0].message
-    assert "F#6 bar" in text and "55 mm width" in text and "tuned second partial (partial 2" in text
+    assert "F#6 bar" in text and "55.0 mm (2-5/32 in) width" in text and "tuned second partial (partial 2" in text
     assert "cents above" in text
 
 

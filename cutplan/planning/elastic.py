@@ -112,15 +112,15 @@ def plan_undercut_set_2d(spec, design, stock, progress=None):
             shear_correction_cents=_against_slender(f0, r.length, sec, plane, ei, mu, stations),
             warnings=tuple(risk_warning(risk, spec) + stubby_bar_warnings(r.length, sec.thickness, set_key(spec, "section"))), fundamental_hz=f0, allowance_uncalibrated=a_uncal,
             allowance_calibrated=a_cal, sharp_risk=risk, arch=arch))
-        pieces[-1] = _with_width_warnings(spec, pieces[-1], modes)
+        pieces[-1] = _with_width_warnings(spec, design, pieces[-1], modes)
     return pieces
 
 
-def _with_width_warnings(spec, piece, modes):
+def _with_width_warnings(spec, design, piece, modes):
     """The piece with the warnings of its 2-D solve ``modes`` added (:mod:`cutplan.planning.width_modes`)."""
     clearance = getattr(spec, "mode_clearance", None) or CLEARANCE_CENTS
     extra = width_mode_warnings(piece, modes, spec.section.width, tuned_partials(spec, piece), clearance,
-                                set_key(spec, "section"))
+                                set_key(spec, "section"), design.units, design.inch_denominator)
     return dataclasses.replace(piece, warnings=tuple(piece.warnings) + tuple(extra)) if extra else piece
 
 
@@ -184,7 +184,7 @@ def plan_uniform_set_2d(spec, design, stock):
             partial_notes=partial_notes(partials, design.a4), cents_per_mm=per_mm, model="elastic-2d",
             shear_correction_cents=_against_slender(f0, length, sec, plane, ei, mu), warnings=tuple(risk_warning(risk, spec) + stubby_bar_warnings(length, sec.thickness, set_key(spec, "section"))),
             fundamental_hz=f0, allowance_uncalibrated=a_uncal, allowance_calibrated=a_cal, sharp_risk=risk))
-        pieces[-1] = _with_width_warnings(spec, pieces[-1], modes)
+        pieces[-1] = _with_width_warnings(spec, design, pieces[-1], modes)
     return pieces
 
 

@@ -16,6 +16,7 @@ from __future__ import annotations
 import math
 
 from cutplan.design.notices import MODE_NEAR_PARTIAL, PARTIAL_SPLIT, Notice
+from cutplan.units import INCH_DENOMINATOR, format_length
 
 __all__ = ["split_partials", "width_mode_warnings"]
 
@@ -46,21 +47,23 @@ def split_partials(modes, count):
     return {n: tuple(sorted(v)) for n, v in sorted(out.items())}
 
 
-def width_mode_warnings(piece, modes, width, tuned, clearance_cents, key=None):
+def width_mode_warnings(piece, modes, width, tuned, clearance_cents, key=None, units="mm",
+                        denominator=INCH_DENOMINATOR):
     """Notices (keyed ``key``) for a bar planned on the 2-D body, from its solve ``modes``: each
     reported partial that is split (:data:`PARTIAL_SPLIT`), and each mode across the width, not
     one that splits a partial (that warning covers it), within ``clearance_cents`` of a tuned
-    partial (mode numbers ``tuned``; :data:`MODE_NEAR_PARTIAL`).  ``width`` [m] is the bar's."""
+    partial (mode numbers ``tuned``; :data:`MODE_NEAR_PARTIAL`).  ``width`` [m] is the bar's, said in
+    the design's ``units`` (inches to ``denominator``)."""
     out = []
     partials = piece.partials_hz
     bar = f"{piece.note} bar" if piece.note else "bar"
-    width_mm = f"{width * 1000:.0f} mm"
+    width_text = format_length(width, units, denominator)
     for n, others in split_partials(modes, len(partials)).items():
         p = partials[n - 1]
         near = " and ".join(f"{float(f):.0f} Hz ({_cents_words(1200 * math.log2(f / p))})" for f in others)
         across = any(getattr(f, "kind", "") == "cross-width" for f in others)
-        mixing = (f"on a bar this short and {width_mm} wide, bending along the bar mixes with bending across its width"
-                  if across else "the arch couples bending to a lengthwise mode")
+        mixing = (f"on a bar this short and {width_text} wide, bending along the bar mixes with bending "
+                  "across its width" if across else "the arch couples bending to a lengthwise mode")
         which = _partial_name(n, n in tuned and piece.arch is not None)
         if n in tuned:
             advice = ("tune it by the louder of the two, check the ratio by ear, and expect a beat"
@@ -81,7 +84,7 @@ def width_mode_warnings(piece, modes, width, tuned, clearance_cents, key=None):
             if abs(off) > clearance_cents:
                 continue
             out.append(Notice(MODE_NEAR_PARTIAL, key,
-                              f"cross-width mode: the {bar} bends across its {width_mm} width at {float(f):.0f} Hz, "
+                              f"cross-width mode: the {bar} bends across its {width_text} width at {float(f):.0f} Hz, "
                               f"{_cents_words(off)} the {_partial_name(k, piece.arch is not None)} (partial {k}, "
                               f"{partials[k - 1]:.0f} Hz): expect a buzz or a beat; a few mm more or less width "
                               "moves it away"))
