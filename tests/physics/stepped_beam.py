@@ -21,7 +21,10 @@ the forces: u_2 = u_1 - dz psi and M_2 = M_1 + dz N (the eccentric step couples 
 bending; ``eccentric=False`` drops it, the textbook stepped beam on one centre line).  Free ends
 (N = M = Q = 0) give a 3 x 3 frequency determinant whose sign changes are bracketed on a fine
 scan and refined by bisection, in mpmath at 30 digits (the matrix exponentials of the stiff
-axial and shear terms lose digits in double precision).
+axial and shear terms lose digits in double precision).  The matrices are lists of mpf, not
+mpmath's matrix class (whose indexing cost four times the arithmetic), and only the three columns
+of the free start's unknowns are carried along the chain; when this was changed, the roots of
+every test's bar came out the same to the last digit of a double as with the matrix class.
 
 This is a different method from the finite-element models it checks (elastic2d's plane-stress
 mesh and the 3-D solid): an exact solution of beam theory, which the 2-D body must approach for
@@ -45,8 +48,39 @@ import mpmath as mp
 DIGITS = 30
 
 
+def _product(a, b):
+    """a b of two matrices held as lists of rows of mpf (mpmath's matrix class costs more in
+    indexing than in arithmetic at this size)."""
+    columns = list(zip(*b))
+    return [[mp.fdot(row, col) for col in columns] for row in a]
+
+
+def _det(a):
+    """Determinant of a small square matrix (list of rows), as mpmath's det finds it: elimination
+    with scaled row pivoting, and 0 once a pivot falls to the matrix's 1-norm times the working
+    precision (numerically singular: at a root, to working precision)."""
+    a = [list(row) for row in a]
+    n, out = len(a), mp.mpf(1)
+    tol = max(mp.fsum(abs(row[j]) for row in a) for j in range(n)) * mp.eps
+    for j in range(n):
+        sums = [mp.fsum(abs(x) for x in a[k][j:]) for k in range(j, n)]
+        if min(sums) <= tol:
+            return mp.mpf(0)
+        p = max(range(j, n), key=lambda k: abs(a[k][j]) / sums[k - j])
+        if abs(a[p][j]) <= tol:
+            return mp.mpf(0)
+        if p != j:
+            a[j], a[p], out = a[p], a[j], -out
+        out *= a[j][j]
+        for i in range(j + 1, n):
+            factor = a[i][j] / a[j][j]
+            a[i] = a[i][:j + 1] + [x - factor * y for x, y in zip(a[i][j + 1:], a[j][j + 1:])]
+    return out
+
+
 def _segment_matrix(omega2, length, thick, width, e, g, rho, kappa):
-    """expm(A l) of one uniform segment, in closed form.
+    """expm(A l) of one uniform segment, in closed form: its rod block (2 x 2, on u and N) and its
+    bending block (4 x 4, on w, psi, M, Q), as lists of rows.
 
     Stretching and bending do not couple inside a segment.  The rod part is cos / sin.  The
     bending matrix B has an even characteristic polynomial (eigenvalues +-sqrt(r1), +-sqrt(r2),
@@ -57,13 +91,22 @@ def _segment_matrix(omega2, length, thick, width, e, g, rho, kappa):
     area, second = width * thick, width * thick**3 / 12
     ea, ei, kga = mp.mpf(e * area), mp.mpf(e * second), mp.mpf(kappa * g * area)
     m_a, m_i = rho * area * omega2, rho * second * omega2
-    t = mp.zeros(6, 6)
     k = mp.sqrt(m_a / ea)  # rod: u'' = -(rho A omega^2 / EA) u
-    t[0, 0], t[0, 1] = mp.cos(k * length), mp.sin(k * length) / (k * ea)
-    t[1, 0], t[1, 1] = -k * ea * mp.sin(k * length), mp.cos(k * length)
-    b = mp.matrix([[0, 1, 0, 1 / kga], [0, 0, 1 / ei, 0], [0, -m_i, 0, -1], [-m_a, 0, 0, 0]])
-    b2 = b * b
-    total, product = (b2[0, 0] + b2[1, 1] + b2[2, 2] + b2[3, 3]) / 2, mp.det(b)
+    cos, sin = mp.cos(k * length), mp.sin(k * length)
+    rod = [[cos, sin / (k * ea)], [-k * ea * sin, cos]]
+    # B = [[0, 1, 0, 1/kGA], [0, 0, 1/EI, 0], [0, -m_i, 0, -1], [-m_a, 0, 0, 0]] on (w, psi, M, Q);
+    # with so few entries its products are written out: B^2 row by row, and X B for any X by its
+    # columns (X B)[:, 0] = -m_a X[:, 3], [:, 1] = X[:, 0] - m_i X[:, 2], [:, 2] = X[:, 1] / EI,
+    # [:, 3] = X[:, 0] / kGA - X[:, 2]
+    c, d, zero = 1 / kga, 1 / ei, mp.mpf(0)
+    b2 = [[-c * m_a, zero, d, zero], [zero, -d * m_i, zero, -d], [m_a, zero, -m_i * d, zero],
+          [zero, -m_a, zero, -m_a * c]]
+
+    def times_b(x):
+        return [[-m_a * r[3], r[0] - m_i * r[2], d * r[1], c * r[0] - r[2]] for r in x]
+
+    # det B by its last row (one entry, -m_a): -m_a (1 - m_i / kGA) / EI
+    total, product = (b2[0][0] + b2[1][1] + b2[2][2] + b2[3][3]) / 2, -m_a * (1 - m_i / kga) / ei
     root = mp.sqrt(total**2 / 4 - product)
     r1, r2 = total / 2 + root, total / 2 - root
 
@@ -76,37 +119,37 @@ def _segment_matrix(omega2, length, thick, width, e, g, rho, kappa):
 
     (c1, s1), (c2, s2) = cosh_sinh(r1), cosh_sinh(r2)
     c_slope, s_slope = (c1 - c2) / (r1 - r2), (s1 - s2) / (r1 - r2)
-    eye = mp.eye(4)
-    block = (c1 - c_slope * r1) * eye + c_slope * b2 + ((s1 - s_slope * r1) * eye + s_slope * b2) * b
-    for i in range(4):
-        for j in range(4):
-            t[2 + i, 2 + j] = block[i, j]
-    return t
-
-
-def _joint(dz):
-    j = mp.eye(6)
-    j[0, 3] = -dz   # axial displacement at the new centroid
-    j[4, 1] = dz    # moment about the new centroid
-    return j
+    c0, s0 = c1 - c_slope * r1, s1 - s_slope * r1
+    s_part = [[s_slope * x + (s0 if i == j else 0) for j, x in enumerate(row)] for i, row in enumerate(b2)]
+    s_b = times_b(s_part)
+    block = [[c_slope * x + (c0 if i == j else 0) + y for j, (x, y) in enumerate(zip(row, sb))]
+             for i, (row, sb) in enumerate(zip(b2, s_b))]
+    return rod, block
 
 
 def _determinant(omega, segments, width, e, g, rho, kappa, eccentric):
     omega2 = mp.mpf(omega) ** 2
-    t = mp.eye(6)
+    # the chain's product so far, kept as its rod rows (u, N) and bending rows (w, psi, M, Q), and
+    # only the columns of the free start's unknowns u, w, psi (0, 2, 3): the product acts on them
+    # alone.  A segment acts on each group of rows alone; a joint mixes the two groups.
+    zero, one = mp.mpf(0), mp.mpf(1)
+    rows = [[one if i == j else zero for j in (0, 2, 3)] for i in range(6)]
     previous = None
     made = {}  # equal segments (the same length and thickness) have the same matrix: made once
     for length, thick in segments:
         if previous is not None and eccentric:
-            # flat top at z = 0: the centroid sits at -h/2, so it moves by (h_prev - h) / 2 upward
-            t = _joint(mp.mpf(previous - thick) / 2) * t
+            # flat top at z = 0: the centroid sits at -h/2, so it moves by (h_prev - h) / 2 upward;
+            # u_2 = u_1 - dz psi_1 (the axial displacement at the new centroid), M_2 = M_1 + dz N_1
+            dz = mp.mpf(previous - thick) / 2
+            rows[0] = [u - dz * psi for u, psi in zip(rows[0], rows[3])]
+            rows[4] = [m + dz * n for m, n in zip(rows[4], rows[1])]
         if (length, thick) not in made:
             made[length, thick] = _segment_matrix(omega2, length, thick, width, e, g, rho, kappa)
-        t = made[length, thick] * t
+        rod, block = made[length, thick]
+        rows = _product(rod, rows[:2]) + _product(block, rows[2:])
         previous = thick
-    # start free: u, w, psi unknown (columns 0, 2, 3); end free: rows N, M, Q vanish
-    rows, cols = (1, 4, 5), (0, 2, 3)
-    return mp.det(mp.matrix([[t[r, c] for c in cols] for r in rows]))
+    # end free: rows N, M, Q vanish
+    return _det([rows[1], rows[4], rows[5]])
 
 
 def stepped_frequencies(segments, width, e, g, rho, kappa, modes=3, eccentric=True, f_max=None, scan=48):
