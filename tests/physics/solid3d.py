@@ -6,10 +6,14 @@ mid-width plane, which keeps the modes symmetric about it (vertical bending and 
 modes) and leaves out twisting and sideways bending.  Vertical bending modes are those with more
 kinetic energy in z (through the thickness) than along x.  Slow (seconds per bar): tests only.
 
-The matrices are integrated over all local basis pairs at once (:func:`assemble`, each element's
-B^T D B at each quadrature point); :func:`assemble_with_forms` integrates the same body with
-scikit-fem's bilinear forms, one basis pair at a time, several times slower, and
-tests/physics/test_solid_reference.py checks that the two agree.
+The matrices are integrated over all local basis pairs at once (:func:`assemble`) from the
+scalar quadratic basis: the nine products of its gradients, H_ij = sum over the quadrature points
+of dphi_a/dx_i dphi_b/dx_j dx, are contracted with the stiffness tensor C_cidj (the 6 x 6 D of
+engineering strains written out), so the displacement's three components share one scalar basis
+and its products.  The unknowns are numbered component by component (u_x of every node, then u_y,
+then u_z: :func:`components`).  :func:`assemble_with_forms` integrates the same body with
+scikit-fem's bilinear forms on the vector basis, one basis pair at a time, several times slower,
+and tests/physics/test_solid_reference.py checks that the two agree.
 """
 
 import math
@@ -34,22 +38,17 @@ def vertical_bending(xs, hs, width, modulus, poisson, density, modes=3, along=40
 
 def _vertical_bending(xs, hs, width, modulus, poisson, density, modes, along, across, through, constants):
     from scipy.sparse.linalg import eigsh
-    from skfem import Basis, ElementHex2, ElementVector, MeshHex, MeshHex2
 
     xs, hs = np.asarray(xs, float), np.asarray(hs, float)
     length = xs[-1]
     edges = np.asarray(along, float) if np.ndim(along) else np.linspace(0, length, along + 1)
-    box = MeshHex.init_tensor(edges, np.linspace(0, width / 2, across + 1),
-                              np.linspace(0, 1, through + 1))
-    straight = MeshHex2.from_mesh(box)
-    x, y, eta = straight.doflocs
-    basis = Basis(MeshHex2(np.array([x, y, -eta * np.interp(x, xs, hs)]), straight.t),
-                  ElementVector(ElementHex2()), intorder=4)
+    basis = bar_basis(xs, hs, width, edges, across, through)
     k, m = assemble(basis, material_matrix(modulus, poisson, constants), density)
-    fixed = basis.get_dofs(lambda p: np.isclose(p[1], 0.0)).all(["u^2"])
+    along_x, along_y, along_z = components(basis)
+    fixed = along_y[np.isclose(basis.doflocs[1], 0.0)]  # u_y = 0 on the mid-width plane
     free = np.setdiff1d(np.arange(k.shape[0]), fixed)
     k, m = k[free][:, free].tocsc(), m[free][:, free].tocsc()
-    along_x, _, along_z = (np.searchsorted(free, np.intersect1d(free, s)) for s in basis.split_indices())
+    along_x, along_z = (np.searchsorted(free, np.intersect1d(free, s)) for s in (along_x, along_z))
     omega1 = 22.373 / length**2 * math.sqrt(modulus * hs.min() ** 2 / 12 / density)
     vals, vecs = eigsh(k, k=3 + modes + 4, M=m, sigma=-0.25 * omega1**2, v0=np.ones(k.shape[0]))
     out = []
@@ -60,6 +59,23 @@ def _vertical_bending(xs, hs, width, modulus, poisson, density, modes, along, ac
         if vec[along_z] @ mv[along_z] > vec[along_x] @ mv[along_x]:
             out.append(math.sqrt(lam_i) / (2 * math.pi))
     return out[:modes]
+
+
+def bar_basis(xs, hs, width, edges, across, through):
+    """The scalar 27-node basis of the half-width bar: ``edges`` along [m], ``across`` elements over
+    the half width, ``through`` over the thickness; the top flat at z = 0, the underside at -h(x)."""
+    from skfem import Basis, ElementHex2, MeshHex, MeshHex2
+
+    box = MeshHex.init_tensor(np.asarray(edges, float), np.linspace(0, width / 2, across + 1),
+                              np.linspace(0, 1, through + 1))
+    straight = MeshHex2.from_mesh(box)
+    x, y, eta = straight.doflocs
+    return Basis(MeshHex2(np.array([x, y, -eta * np.interp(x, xs, hs)]), straight.t), ElementHex2(), intorder=4)
+
+
+def components(basis):
+    """The unknowns of u_x, u_y and u_z, each in the scalar basis's order of its nodes."""
+    return tuple(np.arange(basis.N) + c * basis.N for c in range(3))
 
 
 SHEARS = ((0, 1), (0, 2), (1, 2))
@@ -81,33 +97,47 @@ def material_matrix(modulus, poisson, constants=None):
     return d
 
 
+def stiffness_tensor(d):
+    """C_cidj of the 6 x 6 D: the strain of the displacement phi e_c has the engineering strain
+    k = sum over i of P[k, c, i] dphi/dx_i (normal strains e_mm: P = 1 at c = i = m; shears
+    gamma_pq: P = 1 at (c, i) = (p, q) and (q, p)), so C = P^T D P."""
+    p = np.zeros((6, 3, 3))
+    for m in range(3):
+        p[m, m, m] = 1.0
+    for k, (a, b) in enumerate(SHEARS, start=3):
+        p[k, a, b] = p[k, b, a] = 1.0
+    return np.einsum("kci,kl,ldj->cidj", p, d, p)
+
+
 def assemble(basis, d, density):
-    """Stiffness and mass matrices (scipy CSR) of a vector basis: K = sum over elements and
-    quadrature points of B^T D B dx, M = sum of density N^T N dx.  Each element's sum over its
-    quadrature points and strains is one matrix product (the points and strains side by side)."""
+    """Stiffness and mass matrices (scipy CSR) of the displacement on a scalar basis, its unknowns
+    numbered as :func:`components` says: K = sum over elements and quadrature points of
+    B^T D B dx, M = sum of density N^T N dx.  Each element's gradient products H_ij (all nine,
+    the points side by side) are one matrix product; K's element matrix is then C_cidj H_ij, and
+    M's the scalar mass on each component."""
     from scipy.sparse import coo_matrix
 
-    grads = np.array([field[0].grad for field in basis.basis])     # (local, 3, 3, elements, points)
-    values = np.array([np.asarray(field[0]) for field in basis.basis])  # (local, 3, elements, points)
-    strain = np.concatenate([np.stack([grads[:, i, i] for i in range(3)], axis=1),
-                             np.stack([grads[:, i, j] + grads[:, j, i] for i, j in SHEARS], axis=1)], axis=1)
+    grads = np.array([field[0].grad for field in basis.basis])     # (local, 3, elements, points)
+    values = np.array([np.asarray(field[0]) for field in basis.basis])  # (local, elements, points)
     dx = basis.dx                                                  # (elements, points)
     elements, local = basis.nelems, basis.Nbfun
-    b = strain.transpose(2, 0, 3, 1)                               # (elements, local, points, 6)
-    n = values.transpose(2, 0, 3, 1)                               # (elements, local, points, 3)
-    w = dx[:, None, :, None]
-
-    def pairs(left, right):  # sum over points and components of left[e, i] . right[e, j], for each element
-        return left.reshape(elements, local, -1) @ right.reshape(elements, local, -1).transpose(0, 2, 1)
-
-    ke = pairs(b * w, b @ d)
-    me = pairs(n * (density * w), n)
-    dofs = basis.element_dofs                                      # (local, elements)
-    rows = np.broadcast_to(dofs.T[:, :, None], ke.shape).ravel()
-    cols = np.broadcast_to(dofs.T[:, None, :], ke.shape).ravel()
-    shape = (basis.N, basis.N)
+    g = grads.transpose(2, 1, 0, 3).reshape(elements, 3 * local, -1)   # (elements, (i, a), points)
+    h = (g * dx[:, None, :]) @ g.transpose(0, 2, 1)                # (elements, (i, a), (j, b))
+    h = h.reshape(elements, 3, local, 3, local).transpose(1, 3, 0, 2, 4).reshape(9, -1)
+    c = stiffness_tensor(d).transpose(0, 2, 1, 3).reshape(9, 9)    # ((c, d), (i, j))
+    ke = (c @ h).reshape(3, 3, elements, local, local).transpose(2, 0, 3, 1, 4).reshape(
+        elements, 3 * local, 3 * local)                            # (elements, (c, a), (d, b))
+    n = values.transpose(1, 0, 2)                                  # (elements, local, points)
+    me = (n * (density * dx)[:, None, :]) @ n.transpose(0, 2, 1)   # (elements, a, b)
+    dofs = np.concatenate([basis.element_dofs.T + c * basis.N for c in range(3)], axis=1)  # (elements, (c, a))
+    rows = np.broadcast_to(dofs[:, :, None], ke.shape).ravel()
+    cols = np.broadcast_to(dofs[:, None, :], ke.shape).ravel()
+    shape = (3 * basis.N, 3 * basis.N)
+    scalar = basis.element_dofs.T                                  # (elements, a)
+    m_rows = np.concatenate([np.broadcast_to(scalar[:, :, None] + c * basis.N, me.shape).ravel() for c in range(3)])
+    m_cols = np.concatenate([np.broadcast_to(scalar[:, None, :] + c * basis.N, me.shape).ravel() for c in range(3)])
     return (coo_matrix((ke.ravel(), (rows, cols)), shape=shape).tocsr(),
-            coo_matrix((me.ravel(), (rows, cols)), shape=shape).tocsr())
+            coo_matrix((np.tile(me.ravel(), 3), (m_rows, m_cols)), shape=shape).tocsr())
 
 
 def assemble_with_forms(basis, modulus, poisson, density, constants=None):

@@ -57,22 +57,17 @@ def solid(note):
     are the kinetic energy of the width-mean u_z (u_x) over the mode's, the nodes the sign changes
     of the width-mean u_z along the top."""
     from scipy.sparse.linalg import eigsh
-    from skfem import Basis, ElementHex2, ElementVector, MeshHex, MeshHex2
 
-    from tests.physics.solid3d import assemble, material_matrix
+    from tests.physics.solid3d import assemble, bar_basis, components, material_matrix
 
     xs, hs, width = profile(note)
     along, across, through = MESH
     mat = rosewood()
     constants = grain.solid_constants(mat, "flat", "elastic-2d")
-    box = MeshHex.init_tensor(np.linspace(0, xs[-1], along + 1), np.linspace(0, width / 2, across + 1),
-                              np.linspace(0, 1, through + 1))
-    straight = MeshHex2.from_mesh(box)
-    x, y, eta = straight.doflocs
-    basis = Basis(MeshHex2(np.array([x, y, -eta * np.interp(x, xs, hs)]), straight.t), ElementVector(ElementHex2()),
-                  intorder=4)
+    basis = bar_basis(xs, hs, width, np.linspace(0, xs[-1], along + 1), across, through)
     k, m = assemble(basis, material_matrix(None, None, constants), mat.density)
-    fixed = basis.get_dofs(lambda p: np.isclose(p[1], 0.0)).all(["u^2"])
+    comps = components(basis)
+    fixed = comps[1][np.isclose(basis.doflocs[1], 0.0)]
     free = np.setdiff1d(np.arange(k.shape[0]), fixed)
     omega1 = 22.373 / xs[-1] ** 2 * math.sqrt(constants.e_x * hs.min() ** 2 / 12 / mat.density)
     vals, vecs = eigsh(k[free][:, free].tocsc(), k=24, M=m[free][:, free].tocsc(), sigma=-0.25 * omega1**2,
@@ -80,8 +75,7 @@ def solid(note):
     order = np.argsort(vals)
     full = np.zeros((k.shape[0], vals.size))
     full[free] = vecs[:, order]
-    comps = basis.split_indices()
-    px, py, pz = basis.doflocs[:, comps[0]]
+    px, py, pz = basis.doflocs
     # the width mean of a quadratic field: Simpson's rule on each element across (exact for it)
     ys = np.unique(py.round(12))
     weights = np.zeros(ys.size)
