@@ -115,7 +115,7 @@ def assemble(basis, d, density):
     B^T D B dx, M = sum of density N^T N dx.  Each element's gradient products H_ij (all nine,
     the points side by side) are one matrix product; K's element matrix is then C_cidj H_ij, and
     M's the scalar mass on each component."""
-    from scipy.sparse import coo_matrix
+    from scipy.sparse import block_diag, coo_matrix
 
     grads = np.array([field[0].grad for field in basis.basis])     # (local, 3, elements, points)
     values = np.array([np.asarray(field[0]) for field in basis.basis])  # (local, elements, points)
@@ -134,10 +134,10 @@ def assemble(basis, d, density):
     cols = np.broadcast_to(dofs[:, None, :], ke.shape).ravel()
     shape = (3 * basis.N, 3 * basis.N)
     scalar = basis.element_dofs.T                                  # (elements, a)
-    m_rows = np.concatenate([np.broadcast_to(scalar[:, :, None] + c * basis.N, me.shape).ravel() for c in range(3)])
-    m_cols = np.concatenate([np.broadcast_to(scalar[:, None, :] + c * basis.N, me.shape).ravel() for c in range(3)])
-    return (coo_matrix((ke.ravel(), (rows, cols)), shape=shape).tocsr(),
-            coo_matrix((np.tile(me.ravel(), 3), (m_rows, m_cols)), shape=shape).tocsr())
+    s_rows = np.broadcast_to(scalar[:, :, None], me.shape).ravel()
+    s_cols = np.broadcast_to(scalar[:, None, :], me.shape).ravel()
+    mass = coo_matrix((me.ravel(), (s_rows, s_cols)), shape=(basis.N, basis.N)).tocsr()
+    return coo_matrix((ke.ravel(), (rows, cols)), shape=shape).tocsr(), block_diag([mass] * 3, format="csr")
 
 
 def assemble_with_forms(basis, modulus, poisson, density, constants=None):

@@ -22,7 +22,7 @@ bending; ``eccentric=False`` drops it, the textbook stepped beam on one centre l
 (N = M = Q = 0) give a 3 x 3 frequency determinant whose sign changes are bracketed on a fine
 scan and refined by bisection, in mpmath at 30 digits (the matrix exponentials of the stiff
 axial and shear terms lose digits in double precision).  The matrices are lists of mpf, not
-mpmath's matrix class (whose indexing cost four times the arithmetic), and only the three columns
+mpmath's matrix class (whose indexing cost more than the arithmetic), and only the three columns
 of the free start's unknowns are carried along the chain; when this was changed, the roots of
 every test's bar came out the same to the last digit of a double as with the matrix class.
 
