@@ -173,12 +173,20 @@ def _layout(dofs_bytes, dtype, shape, nodes, n_f):
     # CSC of a symmetric pattern: column (c, g) holds the rows (r, f), r over the pairs (c, r) in
     # order, f inner; the value there is the (r, c) pair's entry (f, g)
     mirror = np.searchsorted(keys, second * nodes + first)
-    q, g, f = np.meshgrid(np.arange(keys.size), np.arange(n_f), np.arange(n_f), indexing="ij")  # (pair, g, f)
-    order = np.lexsort((f.ravel(), q.ravel(), g.ravel(), first[q.ravel()]))
-    q, g, f = q.ravel()[order], g.ravel()[order], f.ravel()[order]
-    gather = (mirror[q] * n_f + f) * n_f + g
-    indices = n_f * second[q] + f
-    counts = np.repeat(np.bincount(first, minlength=nodes) * n_f, n_f)
+    # stored entry (pair q, column field g, row field f) sits at the start of its column node's
+    # block, then g (a column each), then q's place among that node's pairs, then f: computed and
+    # scattered, not sorted (the same order as a lexsort on those keys, at a fraction of the cost)
+    per_node = np.bincount(first, minlength=nodes)
+    start = np.concatenate([[0], np.cumsum(per_node)[:-1]])
+    rank = np.arange(keys.size) - start[first]
+    g, f = np.arange(n_f)[None, :, None], np.arange(n_f)[None, None, :]  # (pair, g, f) by broadcasting
+    place = ((n_f * n_f * start[first] + n_f * rank)[:, None, None] + g * (n_f * per_node[first])[:, None, None]
+             + f).ravel()
+    gather = np.empty(place.size, dtype=np.int64)
+    gather[place] = (((n_f * mirror)[:, None, None] + f) * n_f + g).ravel()
+    indices = np.empty(place.size, dtype=np.int64)
+    indices[place] = np.broadcast_to((n_f * second)[:, None, None] + f, (keys.size, n_f, n_f)).ravel()
+    counts = np.repeat(per_node * n_f, n_f)
     return inverse, gather, indices, np.concatenate([[0], np.cumsum(counts)])
 
 
