@@ -93,7 +93,7 @@ class _Doc:
                                                      "stroke-dasharray": _spaced(dash) if dash else None}))
 
     def polyline(self, points, role="cut"):
-        self.groups[role].append(_element("polyline", {"points": " ".join("%s,%s" % (x, y) for x, y in points)}))
+        self.groups[role].append(_element("polyline", {"points": " ".join(f"{x},{y}" for x, y in points)}))
 
     def text(self, text, at, size=TEXT, anchor="start"):
         self.groups["text"].append(_element("text", {"x": at[0], "y": at[1], "font-size": size,
