@@ -192,18 +192,38 @@ def draw_table(c, data, col_widths, x, y_top, font_size=9):
 
 
 def table_pages(header, rows, col_widths, font_size, room):
-    """Split table rows into page-sized chunks: each chunk, under the header, fits ``room`` points."""
-    pages, current = [], []
-    for row in rows:
-        trial = current + [row]
-        _, height = styled_table([header] + trial, col_widths, font_size).wrap(sum(col_widths), 10_000)
-        if height > room and current:
-            pages.append(current)
-            current = [row]
-        else:
-            current = trial
-    pages.append(current)
-    return pages
+    """Split table rows into page-sized chunks: each chunk, under the header, fits ``room`` points
+    (a row too tall for a page alone gets a page of its own).
+
+    Each chunk takes rows while the table so far fits, as filling a page row by row does; the
+    table's height only grows with each row added (every row is points tall), so the last row
+    that fits is found by doubling the rows tried and then halving between the last fit and the
+    first miss: the same chunks from a few trial tables a page instead of one per row."""
+    width = sum(col_widths)
+
+    def fits(start, end):
+        _, height = styled_table([header] + rows[start:end], col_widths, font_size).wrap(width, 10_000)
+        return height <= room
+
+    pages, start = [], 0
+    while start < len(rows):
+        good, step = start + 1, 1  # the first row of a page is taken whatever its height
+        bad = None
+        while bad is None and good < len(rows):
+            trial = min(len(rows), good + step)
+            if fits(start, trial):
+                good, step = trial, 2 * step
+            else:
+                bad = trial
+        while bad is not None and bad - good > 1:
+            mid = (good + bad) // 2
+            if fits(start, mid):
+                good = mid
+            else:
+                bad = mid
+        pages.append(rows[start:good])
+        start = good
+    return pages or [[]]
 
 
 def paragraph_height(text, size, width, leading=None, font=FONT):
