@@ -131,7 +131,12 @@ _VOID, _INT = ctypes.c_void_p, ctypes.c_int
 _TEXT_OBJECT = c_function(pdfium_c.FPDFText_GetTextObject, _VOID, _VOID, _INT)
 _IS_GENERATED = c_function(pdfium_c.FPDFText_IsGenerated, _INT, _VOID, _INT)
 _CHAR_ORIGIN = c_function(pdfium_c.FPDFText_GetCharOrigin, _INT, _VOID, _INT, _VOID, _VOID)
-"""The pdfium calls made for every character, on plain handles (:func:`tests.pdf_text.c_function`)."""
+_SEGMENT = c_function(pdfium_c.FPDFPath_GetPathSegment, _VOID, _VOID, _INT)
+_SEGMENT_POINT = c_function(pdfium_c.FPDFPathSegment_GetPoint, _INT, _VOID, _VOID, _VOID)
+_SEGMENT_TYPE = c_function(pdfium_c.FPDFPathSegment_GetType, _INT, _VOID)
+_SEGMENT_CLOSE = c_function(pdfium_c.FPDFPathSegment_GetClose, _INT, _VOID)
+"""The pdfium calls made for every character and every path segment, on plain handles
+(:func:`tests.pdf_text.c_function`)."""
 
 
 def _read_page(page):
@@ -263,29 +268,33 @@ def _sort_path(obj, height, lines, rects, curves):
     fill_mode, stroke = ctypes.c_int(), ctypes.c_int()
     pdfium_c.FPDFPath_GetDrawMode(obj, fill_mode, stroke)
     px, py = ctypes.c_float(), ctypes.c_float()
+    at_x, at_y = ctypes.addressof(px), ctypes.addressof(py)
+    handle = address(obj)
+    move, line, bezier = pdfium_c.FPDF_SEGMENT_MOVETO, pdfium_c.FPDF_SEGMENT_LINETO, pdfium_c.FPDF_SEGMENT_BEZIERTO
     pieces: list[list] = []
     pending: list = []
     for k in range(pdfium_c.FPDFPath_CountSegments(obj)):
-        seg = pdfium_c.FPDFPath_GetPathSegment(obj, k)
-        pdfium_c.FPDFPathSegment_GetPoint(seg, px, py)
+        seg = _SEGMENT(handle, k)
+        _SEGMENT_POINT(seg, at_x, at_y)
         pt = (a * px.value + c * py.value + e, height - (b * px.value + d * py.value + f))
-        kind = pdfium_c.FPDFPathSegment_GetType(seg)
-        if kind == pdfium_c.FPDF_SEGMENT_MOVETO:
+        kind = _SEGMENT_TYPE(seg)
+        closes = _SEGMENT_CLOSE(seg)
+        if kind == move:
             pieces.append([("m", pt)])
-        elif kind == pdfium_c.FPDF_SEGMENT_LINETO:
-            if pdfium_c.FPDFPathSegment_GetClose(seg) and pt == pieces[-1][0][1]:
+        elif kind == line:
+            if closes and pt == pieces[-1][0][1]:
                 # pdfium turns "h" away from the start into a line back to it, closed
                 pieces[-1].append(("h",))
                 continue
             pieces[-1].append(("l", pt))
-        elif kind == pdfium_c.FPDF_SEGMENT_BEZIERTO:
+        elif kind == bezier:
             pending.append(pt)
             if len(pending) == 3:
                 pieces[-1].append(("c", *pending))
                 pending = []
         else:
             raise NotImplementedError(f"path segment type {kind}")
-        if pdfium_c.FPDFPathSegment_GetClose(seg):
+        if closes:
             pieces[-1].append(("h",))
     for path in pieces:
         if len(path) > 1:
