@@ -237,6 +237,10 @@ def text_box(x, y, text, size, font=FONT, anchor="start"):
     return (x0, y - 0.25 * size, x0 + wd, y + 0.78 * size)
 
 
+NEAR_PT = 1e-3
+"""Points a label's box is widened by when telling which lines lie clear of it."""
+
+
 def _seg_hits_box(a, b, box):
     (ax, ay), (bx, by) = a, b
     x0, y0, x1, y1 = box
@@ -284,7 +288,16 @@ class Placer:
             return False
         if any(bx[0] < o[2] and o[0] < bx[2] and bx[1] < o[3] and o[1] < bx[3] for o in self.boxes):
             return False
-        return not any(_seg_hits_box(a, b, bx) for a, b in self.segs)
+        # a line whose own extent stays NEAR_PT clear of the box cannot cross it (the clip's
+        # rounding is some 1e-13 pt): only the others go through the clip, with the same answer
+        left, bottom, right, top = bx[0] - NEAR_PT, bx[1] - NEAR_PT, bx[2] + NEAR_PT, bx[3] + NEAR_PT
+        for a, b in self.segs:
+            if ((a[0] < left and b[0] < left) or (a[0] > right and b[0] > right)
+                    or (a[1] < bottom and b[1] < bottom) or (a[1] > top and b[1] > top)):
+                continue
+            if _seg_hits_box(a, b, bx):
+                return False
+        return True
 
     def _leader_free(self, a, b):
         return not any(_seg_hits_box(a, b, o) for o in self.boxes)
