@@ -8,6 +8,7 @@ mm; labels take the plan's own length formatter so the plan's units come first.
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass
 
@@ -58,8 +59,13 @@ class Mark:
     label: str
 
 
+@functools.lru_cache(maxsize=4096)
 def length_text(mm, units="mm", den=INCH_DENOMINATOR):
-    """"113.1 mm (4-7/16 in)": both units, the plan's first, inches to 1/``den``, as the shop reads them."""
+    """"113.1 mm (4-7/16 in)": both units, the plan's first, inches to 1/``den``, as the shop reads them.
+
+    Remembered per (length, units, denominator): a packet states each mark's length on every tile,
+    in both orientations tried and in the SVG template, and the inch fraction is worked out in
+    exact fractions."""
     return format_length(mm * MM, units, den)
 
 

@@ -13,14 +13,13 @@ stroke colour per role, so a laser cutter can be told what to do with each:
 These defaults follow common laser-cutter practice (red cut, blue score, black engrave); pass
 ``colours={"cut": ..., "mark": ..., "text": ...}`` to change them.  Cut and mark strokes are
 hairlines (0.1 mm).  Line styles and ruler ticks come from :mod:`cutplan.render.marks`, as in the
-PDF.  svgwrite stays inside this module.
+PDF.  The files are written as text directly, byte for byte as svgwrite would write them
+(tests/render/test_svg_text.py compares the two).
 """
 
 from __future__ import annotations
 
 import math
-
-import svgwrite
 
 from cutplan.render import marks as mk
 from cutplan.render.phrases import CENTRE_OUT, STOPPER_RULE, TRIM_RULE, sentence
@@ -49,50 +48,68 @@ CHAR_WIDTH = 0.56
 
 
 class _Doc:
-    """An SVG drawing with the three role groups."""
+    """An SVG drawing with the three role groups, written as text as it is drawn.
+
+    The text is byte for byte what svgwrite (``svgwrite.Drawing(..., profile="full",
+    debug=False)`` with the same groups and elements) writes with ``tostring()``: attributes
+    sorted by name, values as ``str`` gives them (a list joined by spaces, points as "x,y"),
+    values that are None or empty left out, empty elements closed with " />", text and attribute
+    values escaped as ElementTree escapes them (tests/render/test_svg_text.py draws every template
+    with svgwrite too and compares).  svgwrite builds an element object per line and an
+    ElementTree to write them, which cost some ten times what the text itself does."""
 
     def __init__(self, width, height, colours=None):
         width, height = round(width, 3), round(height, 3)
         self.colours = {**COLOURS, **(colours or {})}
-        self.dwg = svgwrite.Drawing(size=(f"{width:.3f}mm", f"{height:.3f}mm"), profile="full", debug=False)
-        self.dwg.viewbox(0, 0, width, height)
+        self.root = {"baseProfile": "full", "height": f"{height:.3f}mm", "version": "1.1",
+                     "viewBox": f"{0},{0},{width},{height}", "width": f"{width:.3f}mm",
+                     "xmlns": "http://www.w3.org/2000/svg", "xmlns:ev": "http://www.w3.org/2001/xml-events",
+                     "xmlns:xlink": "http://www.w3.org/1999/xlink"}
+        self.group_attribs = {}
         self.groups = {}
         for role in ("cut", "mark", "text"):
             if role == "text":
-                g = self.dwg.g(id=role, fill=self.colours[role], stroke="none")
+                self.group_attribs[role] = {"id": role, "fill": self.colours[role], "stroke": "none"}
             else:
-                g = self.dwg.g(id=role, fill="none", stroke=self.colours[role], stroke_width=HAIRLINE)
-            self.groups[role] = g
-            self.dwg.add(g)
+                self.group_attribs[role] = {"id": role, "fill": "none", "stroke": self.colours[role],
+                                            "stroke-width": HAIRLINE}
+            self.groups[role] = []
 
     def line(self, a, b, role="mark", kind=None):
-        line = self.dwg.line(a, b)
         style = mk.STYLES.get(kind) if kind else None
         if style and style.dash:
-            line.dasharray(list(style.dash))
-        self.groups[role].add(line)
+            self.groups[role].append(_element("line", {"x1": a[0], "y1": a[1], "x2": b[0], "y2": b[1],
+                                                       "stroke-dasharray": _spaced(style.dash)}))
+        else:
+            self.groups[role].append(f'<line x1="{_number(a[0])}" x2="{_number(b[0])}" y1="{_number(a[1])}" '
+                                     f'y2="{_number(b[1])}" />')
 
     def rect(self, at, size, role="cut", dash=None):
-        r = self.dwg.rect(at, size)
-        if dash:
-            r.dasharray(dash)
-        self.groups[role].add(r)
+        self.groups[role].append(_element("rect", {"x": at[0], "y": at[1], "width": size[0], "height": size[1],
+                                                   "stroke-dasharray": _spaced(dash) if dash else None}))
 
     def circle(self, at, r, role="cut", dash=None):
-        c = self.dwg.circle(at, r)
-        if dash:
-            c.dasharray(dash)
-        self.groups[role].add(c)
+        self.groups[role].append(_element("circle", {"cx": at[0], "cy": at[1], "r": r,
+                                                     "stroke-dasharray": _spaced(dash) if dash else None}))
 
     def polyline(self, points, role="cut"):
-        self.groups[role].add(self.dwg.polyline(points))
+        self.groups[role].append(_element("polyline", {"points": " ".join(f"{x},{y}" for x, y in points)}))
 
     def text(self, text, at, size=TEXT, anchor="start"):
-        self.groups["text"].add(self.dwg.text(text, insert=at, font_size=size,
-                                              font_family="Helvetica, Arial, sans-serif", text_anchor=anchor))
+        self.groups["text"].append(_element("text", {"x": at[0], "y": at[1], "font-size": size,
+                                                     "font-family": "Helvetica, Arial, sans-serif",
+                                                     "text-anchor": anchor}, text))
 
     def tostring(self):
-        return _svg_text(self.dwg)
+        out = [_element("svg", self.root, body=True), "<defs />"]
+        for role in ("cut", "mark", "text"):
+            out.append(_element("g", self.group_attribs[role], body=bool(self.groups[role])))
+            if self.groups[role]:
+                out += self.groups[role]
+                out.append("</g>")
+        out.append("</svg>")
+        # as ElementTree writes UTF-8: a character UTF-8 cannot carry (a lone surrogate) becomes a reference
+        return "".join(out).encode("utf-8", "xmlcharrefreplace").decode("utf-8")
 
 
 _ATTRIBUTE_ESCAPES = (("&", "&amp;"), ("<", "&lt;"), (">", "&gt;"), ('"', "&quot;"), ("\r", "&#13;"),
@@ -107,41 +124,34 @@ def _escaped(text, escapes):
     return text
 
 
-def _svg_text(dwg):
-    """``dwg.tostring()`` written directly from the drawing's elements, byte for byte the same
-    (svgwrite builds an ElementTree first, which costs more than the drawing itself): attributes
-    sorted by name, empty elements closed with " />", text and attribute values escaped as
-    ElementTree escapes them.  Only a drawing made without validation (``debug=False``) in the full
-    profile, holding groups, lines, rectangles, circles, polylines and text, as :class:`_Doc` makes."""
-    dwg.attribs.update({"xmlns": "http://www.w3.org/2000/svg", "xmlns:xlink": "http://www.w3.org/1999/xlink",
-                        "xmlns:ev": "http://www.w3.org/2001/xml-events", "baseProfile": dwg.profile,
-                        "version": dwg.version})
-    out = []
-    _write_element(dwg, out)
-    # as ElementTree writes UTF-8: a character UTF-8 cannot carry (a lone surrogate) becomes a reference
-    return "".join(out).encode("utf-8", "xmlcharrefreplace").decode("utf-8")
+def _number(value):
+    """A coordinate as svgwrite writes it (``str``); a string is escaped as an attribute value."""
+    return _escaped(value, _ATTRIBUTE_ESCAPES) if isinstance(value, str) else str(value)
 
 
-def _write_element(element, out):
-    name = element.elementname
-    if name == "polyline":
-        element.attribs["points"] = element.points_to_string(element.points)
-    out.append("<" + name)
-    for key, value in sorted(element.attribs.items()):
+def _spaced(values):
+    """A list attribute (a dash pattern) as svgwrite writes it: the values joined by spaces."""
+    return " ".join(str(v) for v in values if v is not None) if not isinstance(values, str) else values
+
+
+def _element(name, attribs, text=None, body=False):
+    """One element's text: ``<name a="..." ... />``, ``<name ...>text</name>`` when it has
+    text, or only the opening tag when ``body`` (its children and closing tag follow)."""
+    out = ["<" + name]
+    for key in sorted(attribs):
+        value = attribs[key]
         if value is not None:
             value = str(value)
             if value:
                 out.append(f' {key}="{_escaped(value, _ATTRIBUTE_ESCAPES)}"')
-    text = str(element.text) if name == "text" else ""
-    if text or element.elements:
+    text = "" if text is None else str(text)
+    if body:
         out.append(">")
-        if text:
-            out.append(_escaped(text, _TEXT_ESCAPES))
-        for child in element.elements:
-            _write_element(child, out)
-        out.append(f"</{name}>")
+    elif text:
+        out.append(f">{_escaped(text, _TEXT_ESCAPES)}</{name}>")
     else:
         out.append(" />")
+    return "".join(out)
 
 
 def _rulers(doc, x, y):

@@ -14,10 +14,21 @@ import math
 import numpy as np
 import pytest
 
+from cutplan.audio import partials
 from cutplan.audio.analysis import measure
 from cutplan.audio.hum import hum_lines
-from cutplan.audio.partials import find_partials, find_partials_and_hum, strike_segment
+from cutplan.audio.partials import find_partials, strike_segment
 from cutplan.audio.synth import mains_hum, tone
+from tests.audio.memo import analyses_remembered
+
+
+@pytest.fixture(scope="module", autouse=True)
+def one_analysis_per_recording():
+    """Each distinct recording analysed once in this module (tests/audio/memo.py):
+    the same recordings are read by measure and by find_partials."""
+    with analyses_remembered():
+        yield
+
 
 RATE = 44100
 FREE_FREE = (1.0, 2.7565, 5.4039)
@@ -46,7 +57,7 @@ def test_hum_is_left_out_and_the_struck_bar_is_found(mains):
     x = recording(f1, mains, (0.1, 0.06, 0.04))
     start = len(x) - len(strike_segment(x, RATE))
     assert [round(h) for h in hum_lines(x - x.mean(), RATE, start)] == [mains, 2 * mains, 3 * mains]
-    found, hum = find_partials_and_hum(x, RATE)
+    found, hum = partials.find_partials_and_hum(x, RATE)
     assert len(found) == 3
     for p, r, a, tau in zip(found, FREE_FREE, AMPS, TAUS, strict=True):
         assert abs(cents(p.hz, f1 * r)) < 0.5
@@ -61,7 +72,7 @@ def test_hum_is_left_out_and_the_struck_bar_is_found(mains):
 
 def test_without_hum_there_is_no_note():
     x = recording(174.61, None, ())
-    found, hum = find_partials_and_hum(x, RATE)
+    found, hum = partials.find_partials_and_hum(x, RATE)
     assert len(found) == 3 and hum == ()
     assert measure(x, RATE).warnings == ()
 
@@ -71,7 +82,7 @@ def test_a_partial_on_a_supply_harmonic_stays_a_partial():
     # before the strike: it decays (tau 1.2 s), so it is the bar's, and stays listed; the 50 Hz
     # line goes
     x = recording(100.0, 50.0, (0.1, 0.02))
-    found, hum = find_partials_and_hum(x, RATE)
+    found, hum = partials.find_partials_and_hum(x, RATE)
     assert [round(h) for h in hum] == [50]
     assert abs(cents(found[0].hz, 100.0)) < 1.0  # the hum under it pulls the reading by a fraction of a cent
     assert found[0].decay_s == pytest.approx(1.2, rel=0.1)
@@ -83,7 +94,7 @@ def test_a_steady_tone_off_the_supply_harmonics_is_not_hum():
     # taken for hum: it stays among the partials, ringing on
     x = recording(174.61, None, ())
     x = x + 0.1 * np.sin(2 * np.pi * 440.0 * np.arange(x.size) / RATE)
-    found, hum = find_partials_and_hum(x, RATE)
+    found, hum = partials.find_partials_and_hum(x, RATE)
     assert hum == ()
     assert any(abs(cents(p.hz, 440.0)) < 0.5 and p.decay_s is None for p in found)
 

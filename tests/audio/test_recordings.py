@@ -25,6 +25,16 @@ from cutplan.audio.partials import find_partials
 from cutplan.audio.synth import piece_preview, tone
 from cutplan.audio.wav import RecordingError, wav_bytes
 from cutplan.cli import cli
+from tests.audio.memo import analyses_remembered
+
+
+@pytest.fixture(scope="module", autouse=True)
+def one_analysis_per_recording():
+    """Each distinct recording analysed once in this module (tests/audio/memo.py):
+    one recording is measured with and without --near and --kind."""
+    with analyses_remembered():
+        yield
+
 
 RATE = 44100
 D5, A3 = 587.3295, 220.0  # ISO 16:1975 tuning, 12-TET

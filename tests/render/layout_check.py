@@ -17,6 +17,8 @@ PT_PER_MM = 72 / 25.4
 MARGIN_MM = 6.0
 SHRINK = 0.6
 """Points taken off each side of a word box before testing it against lines and other words."""
+NEAR = 1e-3
+"""Points a segment's bounding box is widened by when picking the pairs the clip tests."""
 
 
 def _segments(page):
@@ -86,29 +88,40 @@ def _hits(box, a, b):
 
 def _struck(boxes, segs, chunk=256):
     """Texts of the boxes that any segment crosses: :func:`_hits` for every box and segment at
-    once (the same comparisons in float64, so the same answer, in a fraction of the time), in
-    blocks of ``chunk`` boxes to bound the memory."""
+    once (the same comparisons in float64, so the same answer, in a fraction of the time).
+
+    Only the pairs whose bounding boxes come within :data:`NEAR` of each other go through the
+    clip: a segment whose own box stays clear of a word box cannot cross it, and the margin is
+    far above the clip's rounding (some 1e-13 pt on a page), so no pair the clip would call a hit
+    is left out.  The pairs are found in blocks of ``chunk`` boxes to bound the memory."""
     if not segs or not boxes:
         return []
     ends = np.array([(a[0], a[1], b[0], b[1]) for a, b in segs], dtype=float)
     ax, ay, bx, by = ends.T
     dx, dy = bx - ax, by - ay
+    left, right = np.minimum(ax, bx) - NEAR, np.maximum(ax, bx) + NEAR
+    low, high = np.minimum(ay, by) - NEAR, np.maximum(ay, by) + NEAR
     rects = np.array([box for _, box in boxes], dtype=float).reshape(-1, 4)
     hit = np.zeros(len(rects), dtype=bool)
     for start in range(0, len(rects), chunk):
-        x0, top, x1, bottom = (col[:, None] for col in rects[start:start + chunk].T)
-        shape = (len(x0), len(ends))
-        t0, t1 = np.zeros(shape), np.ones(shape)
-        ok = np.ones(shape, dtype=bool)
-        for p, q in ((-dx, ax - x0), (dx, x1 - ax), (-dy, ay - top), (dy, bottom - ay)):
-            p = np.broadcast_to(p, shape)
+        block = rects[start:start + chunk]
+        x0, top, x1, bottom = (col[:, None] for col in block.T)
+        near = (left <= x1) & (right >= x0) & (low <= bottom) & (high >= top)
+        bi, si = np.nonzero(near)
+        if bi.size == 0:
+            continue
+        x0, top, x1, bottom = block[bi].T
+        sax, say, sdx, sdy = ax[si], ay[si], dx[si], dy[si]
+        t0, t1 = np.zeros(bi.size), np.ones(bi.size)
+        ok = np.ones(bi.size, dtype=bool)
+        for p, q in ((-sdx, sax - x0), (sdx, x1 - sax), (-sdy, say - top), (sdy, bottom - say)):
             zero = p == 0
             ok &= ~(zero & (q < 0))
-            t = np.divide(q, p, out=np.zeros(shape), where=~zero)
+            t = np.divide(q, p, out=np.zeros(bi.size), where=~zero)
             t0 = np.where(p < 0, np.maximum(t0, t), t0)
             t1 = np.where(p > 0, np.minimum(t1, t), t1)
         # t0 only rises and t1 only falls, so t0 > t1 at the end is t0 > t1 at any step
-        hit[start:start + chunk] = (ok & (t0 <= t1)).any(axis=1)
+        hit[start + bi[ok & (t0 <= t1)]] = True
     return [text for (text, _), h in zip(boxes, hit, strict=True) if h]
 
 
@@ -125,22 +138,24 @@ def _char_boxes(words):
 def _overprinted_words(words):
     """Indices of words with a character drawn over another character (of any word).
 
-    Two boxes overlap when each starts before the other ends, on both axes (strictly).  Only
-    pairs whose tops are less than the tallest box apart can overlap, so the test runs on those
-    pairs (found on the boxes sorted by top) instead of on every pair: the same comparisons."""
+    Two boxes overlap when each starts before the other ends, on both axes (strictly).  Of two
+    overlapping boxes, the one whose top is higher (or either, on a tie) has the other's top at or
+    below its own top and above its own bottom; so each box is tested only against the boxes
+    whose tops lie in that band (found on the boxes sorted by top), and a hit marks both: the same
+    comparisons as testing every pair, on a fraction of the pairs."""
     boxes, owner = _char_boxes(words)
     if len(boxes) < 2:
         return set()
     x0, top, x1, bottom = boxes.T
     order = np.argsort(top, kind="stable")
     tops = top[order]
-    lo = np.searchsorted(tops, top - (bottom - top).max(), side="left")
-    hi = np.searchsorted(tops, bottom, side="right")
+    lo = np.searchsorted(tops, top, side="left")
+    hi = np.maximum(lo, np.searchsorted(tops, bottom, side="left"))
     counts = hi - lo
     i = np.repeat(np.arange(len(boxes)), counts)
     j = order[np.arange(counts.sum()) - np.repeat(np.cumsum(counts) - counts, counts) + np.repeat(lo, counts)]
     hit = ((i != j) & (x0[i] < x1[j]) & (x0[j] < x1[i]) & (top[i] < bottom[j]) & (top[j] < bottom[i]))
-    return set(owner[i[hit]].tolist())
+    return set(owner[i[hit]].tolist()) | set(owner[j[hit]].tolist())
 
 
 def audit_page(page):

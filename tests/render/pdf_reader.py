@@ -33,6 +33,8 @@ import itertools
 import pypdfium2
 import pypdfium2.raw as pdfium_c
 
+from tests.pdf_text import address, c_function
+
 __all__ = ["PageFacts", "read_pages"]
 
 DESCENT = {"Helvetica": -207.0, "Helvetica-Bold": -207.0}
@@ -125,9 +127,16 @@ def read_pages(data: bytes) -> list[PageFacts]:
         doc.close()
 
 
-def _address(handle):
-    """The address a pdfium handle points at (to tell page objects apart)."""
-    return ctypes.addressof(handle.contents)
+_VOID, _INT = ctypes.c_void_p, ctypes.c_int
+_TEXT_OBJECT = c_function(pdfium_c.FPDFText_GetTextObject, _VOID, _VOID, _INT)
+_IS_GENERATED = c_function(pdfium_c.FPDFText_IsGenerated, _INT, _VOID, _INT)
+_CHAR_ORIGIN = c_function(pdfium_c.FPDFText_GetCharOrigin, _INT, _VOID, _INT, _VOID, _VOID)
+_SEGMENT = c_function(pdfium_c.FPDFPath_GetPathSegment, _VOID, _VOID, _INT)
+_SEGMENT_POINT = c_function(pdfium_c.FPDFPathSegment_GetPoint, _INT, _VOID, _VOID, _VOID)
+_SEGMENT_TYPE = c_function(pdfium_c.FPDFPathSegment_GetType, _INT, _VOID)
+_SEGMENT_CLOSE = c_function(pdfium_c.FPDFPathSegment_GetClose, _INT, _VOID)
+"""The pdfium calls made for every character and every path segment, on plain handles
+(:func:`tests.pdf_text.c_function`)."""
 
 
 def _read_page(page):
@@ -166,9 +175,9 @@ def _chars(page, objects, kinds, height):
     place (its guard against "fake bold"), which is just the overprint the audit looks for.
     Such objects are moved up off the page, each by its own offset, read from a fresh text page
     and moved back by the same offset in the numbers."""
-    index = {_address(o): j for j, o in enumerate(objects)}
+    index = {address(o): j for j, o in enumerate(objects)}
     by_object: dict[int, list[dict]] = {}
-    _read_text(page, index, by_object, height)
+    _read_text(page, objects, index, by_object, height)
     texts = [j for j, kind in enumerate(kinds) if kind == pdfium_c.FPDF_PAGEOBJ_TEXT]
     left_out = [j for j in texts if j not in by_object]
     if left_out:
@@ -177,7 +186,7 @@ def _chars(page, objects, kinds, height):
             offsets[j] = REPEAT_SHIFT * n
             pdfium_c.FPDFPageObj_Transform(objects[j], 1, 0, 0, 1, 0, offsets[j])
         moved: dict[int, list[dict]] = {}
-        _read_text(page, index, moved, height)
+        _read_text(page, objects, index, moved, height)
         for j in left_out:
             if j in moved:
                 by_object[j] = [dict(ch, top=ch["top"] + offsets[j], bottom=ch["bottom"] + offsets[j])
@@ -197,35 +206,36 @@ def _has_area(obj):
     return right.value > left.value and top.value > bottom.value
 
 
-def _read_text(page, index, by_object, height):
+def _read_text(page, objects, index, by_object, height):
     """Add the characters of a fresh text page of ``page`` to ``by_object`` (object index ->
     characters in the object's order)."""
     textpage = page.get_textpage()
-    raw = textpage.raw
+    raw, handle_now = address(textpage.raw), textpage.raw
     per_object: dict[int, tuple] = {}
     widths: dict[tuple, float] = {}
     x, y = ctypes.c_double(), ctypes.c_double()
+    at_x, at_y = ctypes.addressof(x), ctypes.addressof(y)
     m, advance = pdfium_c.FS_MATRIX(), ctypes.c_float()
-    text_object, generated, origin = pdfium_c.FPDFText_GetTextObject, pdfium_c.FPDFText_IsGenerated, pdfium_c.FPDFText_GetCharOrigin
+    text_object, generated, origin = _TEXT_OBJECT, _IS_GENERATED, _CHAR_ORIGIN
     try:
         count = textpage.count_chars()
         text = textpage.get_text_range(0, count)
         if len(text) != count:  # a character outside the BMP: read each one by its index instead
-            text = "".join(chr(pdfium_c.FPDFText_GetUnicode(raw, k)) for k in range(count))
+            text = "".join(chr(pdfium_c.FPDFText_GetUnicode(handle_now, k)) for k in range(count))
         for k, ch in enumerate(text):
             obj = text_object(raw, k)
-            if not obj or generated(raw, k):
-                continue
-            j = index[ctypes.addressof(obj.contents)]
+            if not obj or (ch.isspace() and generated(raw, k)):
+                continue  # pdfium generates only spaces and line breaks (between strings)
+            j = index[obj]
             if j not in per_object:
-                pdfium_c.FPDFText_GetMatrix(raw, k, m)
+                pdfium_c.FPDFText_GetMatrix(handle_now, k, m)
                 font = _font_name(textpage, k)
                 if font not in DESCENT:
                     raise NotImplementedError(f"no descent known for font {font!r}")
-                size = pdfium_c.FPDFText_GetFontSize(raw, k)
+                size = pdfium_c.FPDFText_GetFontSize(handle_now, k)
                 low = DESCENT[font] * size / 1000
                 a, b, c, d = m.a, m.b, m.c, m.d
-                per_object[j] = (a, b, c, d, size, font, pdfium_c.FPDFTextObj_GetFont(obj), low, low + size,
+                per_object[j] = (a, b, c, d, size, font, pdfium_c.FPDFTextObj_GetFont(objects[j]), low, low + size,
                                  b == 0 and c == 0 and a > 0 and d > 0, a * d > 0 and b * c <= 0, [])
                 by_object[j] = per_object[j][-1]
             a, b, c, d, size, font, handle, low, high, plain, upright, chars = per_object[j]
@@ -236,7 +246,7 @@ def _read_text(page, index, by_object, height):
                 # "loose" box takes some widths from its substitute font instead)
                 pdfium_c.FPDFFont_GetGlyphWidth(handle, ord(ch), size, advance)
                 adv = widths[key] = advance.value
-            origin(raw, k, x, y)
+            origin(raw, k, at_x, at_y)
             ox, oy = x.value, y.value
             if plain:  # upright text: the general corners' extremes
                 chars.append({"text": ch, "x0": ox, "x1": ox + a * adv, "top": height - (oy + d * high),
@@ -258,29 +268,33 @@ def _sort_path(obj, height, lines, rects, curves):
     fill_mode, stroke = ctypes.c_int(), ctypes.c_int()
     pdfium_c.FPDFPath_GetDrawMode(obj, fill_mode, stroke)
     px, py = ctypes.c_float(), ctypes.c_float()
+    at_x, at_y = ctypes.addressof(px), ctypes.addressof(py)
+    handle = address(obj)
+    move, line, bezier = pdfium_c.FPDF_SEGMENT_MOVETO, pdfium_c.FPDF_SEGMENT_LINETO, pdfium_c.FPDF_SEGMENT_BEZIERTO
     pieces: list[list] = []
     pending: list = []
     for k in range(pdfium_c.FPDFPath_CountSegments(obj)):
-        seg = pdfium_c.FPDFPath_GetPathSegment(obj, k)
-        pdfium_c.FPDFPathSegment_GetPoint(seg, px, py)
+        seg = _SEGMENT(handle, k)
+        _SEGMENT_POINT(seg, at_x, at_y)
         pt = (a * px.value + c * py.value + e, height - (b * px.value + d * py.value + f))
-        kind = pdfium_c.FPDFPathSegment_GetType(seg)
-        if kind == pdfium_c.FPDF_SEGMENT_MOVETO:
+        kind = _SEGMENT_TYPE(seg)
+        closes = _SEGMENT_CLOSE(seg)
+        if kind == move:
             pieces.append([("m", pt)])
-        elif kind == pdfium_c.FPDF_SEGMENT_LINETO:
-            if pdfium_c.FPDFPathSegment_GetClose(seg) and pt == pieces[-1][0][1]:
+        elif kind == line:
+            if closes and pt == pieces[-1][0][1]:
                 # pdfium turns "h" away from the start into a line back to it, closed
                 pieces[-1].append(("h",))
                 continue
             pieces[-1].append(("l", pt))
-        elif kind == pdfium_c.FPDF_SEGMENT_BEZIERTO:
+        elif kind == bezier:
             pending.append(pt)
             if len(pending) == 3:
                 pieces[-1].append(("c", *pending))
                 pending = []
         else:
             raise NotImplementedError(f"path segment type {kind}")
-        if pdfium_c.FPDFPathSegment_GetClose(seg):
+        if closes:
             pieces[-1].append(("h",))
     for path in pieces:
         if len(path) > 1:

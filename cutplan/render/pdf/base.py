@@ -192,18 +192,38 @@ def draw_table(c, data, col_widths, x, y_top, font_size=9):
 
 
 def table_pages(header, rows, col_widths, font_size, room):
-    """Split table rows into page-sized chunks: each chunk, under the header, fits ``room`` points."""
-    pages, current = [], []
-    for row in rows:
-        trial = current + [row]
-        _, height = styled_table([header] + trial, col_widths, font_size).wrap(sum(col_widths), 10_000)
-        if height > room and current:
-            pages.append(current)
-            current = [row]
-        else:
-            current = trial
-    pages.append(current)
-    return pages
+    """Split table rows into page-sized chunks: each chunk, under the header, fits ``room`` points
+    (a row too tall for a page alone gets a page of its own).
+
+    Each chunk takes rows while the table so far fits, as filling a page row by row does; the
+    table's height only grows with each row added (every row is points tall), so the last row
+    that fits is found by doubling the rows tried and then halving between the last fit and the
+    first miss: the same chunks from a few trial tables a page instead of one per row."""
+    width = sum(col_widths)
+
+    def fits(start, end):
+        _, height = styled_table([header] + rows[start:end], col_widths, font_size).wrap(width, 10_000)
+        return height <= room
+
+    pages, start = [], 0
+    while start < len(rows):
+        good, step = start + 1, 1  # the first row of a page is taken whatever its height
+        bad = None
+        while bad is None and good < len(rows):
+            trial = min(len(rows), good + step)
+            if fits(start, trial):
+                good, step = trial, 2 * step
+            else:
+                bad = trial
+        while bad is not None and bad - good > 1:
+            mid = (good + bad) // 2
+            if fits(start, mid):
+                good = mid
+            else:
+                bad = mid
+        pages.append(rows[start:good])
+        start = good
+    return pages or [[]]
 
 
 def paragraph_height(text, size, width, leading=None, font=FONT):
@@ -215,6 +235,10 @@ def text_box(x, y, text, size, font=FONT, anchor="start"):
     wd = text_width(text, size, font)
     x0 = x - wd if anchor == "end" else x - wd / 2 if anchor == "middle" else x
     return (x0, y - 0.25 * size, x0 + wd, y + 0.78 * size)
+
+
+NEAR_PT = 1e-3
+"""Points a label's box is widened by when telling which lines lie clear of it."""
 
 
 def _seg_hits_box(a, b, box):
@@ -264,7 +288,16 @@ class Placer:
             return False
         if any(bx[0] < o[2] and o[0] < bx[2] and bx[1] < o[3] and o[1] < bx[3] for o in self.boxes):
             return False
-        return not any(_seg_hits_box(a, b, bx) for a, b in self.segs)
+        # a line whose own extent stays NEAR_PT clear of the box cannot cross it (the clip's
+        # rounding is some 1e-13 pt): only the others go through the clip, with the same answer
+        left, bottom, right, top = bx[0] - NEAR_PT, bx[1] - NEAR_PT, bx[2] + NEAR_PT, bx[3] + NEAR_PT
+        for a, b in self.segs:
+            if ((a[0] < left and b[0] < left) or (a[0] > right and b[0] > right)
+                    or (a[1] < bottom and b[1] < bottom) or (a[1] > top and b[1] > top)):
+                continue
+            if _seg_hits_box(a, b, bx):
+                return False
+        return True
 
     def _leader_free(self, a, b):
         return not any(_seg_hits_box(a, b, o) for o in self.boxes)
