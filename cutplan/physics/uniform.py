@@ -41,7 +41,7 @@ import numpy as np
 
 from cutplan.physics.beam import free_free_length, free_free_root
 from cutplan.physics.remember import remembered
-from cutplan.physics.roots import bracketed_roots
+from cutplan.physics.roots import bracketed_roots, bracketed_roots_each
 
 __all__ = [
     "PHASE_STEP", "coefficients", "half_determinants", "fundamental_omegas", "omegas",
@@ -50,6 +50,11 @@ __all__ = [
 
 PHASE_STEP = np.pi / 16
 """Largest step of either wave number between grid points when bracketing modes [rad]."""
+
+FEW_IN_FLOATS = 16
+"""Up to this many brackets (or dips) of one family are solved one at a time in plain floats, the
+same steps and the same roundings as the arrays (so the same roots bit for bit), without the array
+overhead per step; more are solved as arrays [-] (the floats win below about 20, measured)."""
 
 _REMEMBERED = 512
 """Answers each solver below keeps for the same arguments [-] (see :mod:`cutplan.physics.remember`)."""
@@ -103,6 +108,44 @@ def half_determinants(omega, g, s2):
     sym = (-b * c2 * c3 - (c0 - a * c2) * (b * g * c3 - c1)) * scale
     anti = ((c0 - b * g * c2) * (c3 * (a * a + b) - a * c1) - b * c2 * (c1 - (a + b * g) * c3)) * scale
     return sym, anti
+
+
+def _even_odd_half(z):
+    """:func:`_even_odd` at s = 1/2 for one float (the same operations, so the same roundings)."""
+    r = math.sqrt(abs(z))
+    if z >= 0:
+        return math.cosh(0.5 * r), (0.5 if r == 0 else math.sinh(0.5 * r) / r)
+    return math.cos(0.5 * r), math.sin(0.5 * r) / r
+
+
+def _half_determinant_float(omega, g, s2, family):
+    """One family (0 symmetric, 1 antisymmetric) of :func:`half_determinants` for one piece, in
+    plain floats: every operation as the array code does it, in the same order, so the value is
+    the same bit for bit.  Raises where the arrays would give inf or nan (overflow, 0 / 0); the
+    caller then solves with the arrays."""
+    b = omega * omega
+    a = b * s2
+    p = a + b * g
+    d = a - b * g
+    disc = math.sqrt(d * d + 4.0 * b)
+    z2 = -0.5 * (p + disc)
+    if z2 != 0:
+        q = p + disc
+        z1 = 2.0 * b * (1.0 - a * g) / (q if q != 0 else 1.0)
+    else:
+        z1 = 0.0
+    e1, o1 = _even_odd_half(z1)
+    e2, o2 = _even_odd_half(z2)
+    spread = disc if disc > 0 else 1.0
+    c0 = (e2 * z1 - e1 * z2) / spread
+    c1 = (o2 * z1 - o1 * z2) / spread
+    c2 = (e1 - e2) / spread
+    c3 = (o1 - o2) / spread
+    m = max(abs(e1), 1.0)
+    scale = 1.0 / (m * m)
+    if family == 0:
+        return (-b * c2 * c3 - (c0 - a * c2) * (b * g * c3 - c1)) * scale
+    return ((c0 - b * g * c2) * (c3 * (a * a + b) - a * c1) - b * c2 * (c1 - (a + b * g) * c3)) * scale
 
 
 def _symmetric(omega, g, s2):
@@ -202,39 +245,93 @@ def _grid(g, s2, top, floor=0.5):
     return t * t
 
 
-def _family_roots(grid, det, g, s2, family):
-    """(row, root) of one family's determinant along each row of the grid.
-
-    Sign changes bracket roots; a dip of |det| between two samples of one sign is searched
-    (golden section) for a hidden pair of roots.
-    """
-    def fun_of(rows):
-        return lambda x, k: half_determinants(x, g[rows[k]], s2[rows[k]])[family]
-
+def _crossings(grid, det):
+    """(rows, lo, hi) of the grid intervals where ``det`` changes sign, and (rows, lo, hi, sign) of
+    its dips: |det| lower at a sample than at both neighbours, all three of one sign."""
     sign = np.sign(det)
     rows, cols = np.nonzero(sign[:, :-1] * sign[:, 1:] < 0)
-    all_rows, all_lo, all_hi = [rows], [grid[rows, cols]], [grid[rows, cols + 1]]
     mag = np.abs(det)
     dip = ((sign[:, :-2] == sign[:, 1:-1]) & (sign[:, 1:-1] == sign[:, 2:]) & (mag[:, 1:-1] < mag[:, :-2])
            & (mag[:, 1:-1] < mag[:, 2:]))
     drow, dcol = np.nonzero(dip)
+    return ((rows, grid[rows, cols], grid[rows, cols + 1]),
+            (drow, grid[drow, dcol], grid[drow, dcol + 2], sign[drow, dcol + 1]))
+
+
+def _needed_below(crossings, count, modes):
+    """Per row, the ``modes``-th lowest upper end of the sign changes of both families (inf where a
+    row has fewer): a bracket or dip starting at or above it holds no root among the lowest
+    ``modes`` (at least ``modes`` roots lie below its start), so it need not be solved."""
+    rows = np.concatenate([c[0] for c in crossings])
+    his = np.concatenate([c[2] for c in crossings])
+    order = np.lexsort((his, rows))
+    rows, his = rows[order], his[order]
+    counts = np.bincount(rows, minlength=count)
+    first = np.concatenate([[0], np.cumsum(counts)[:-1]]).astype(int)
+    limit = np.full(count, np.inf)
+    enough = counts >= modes
+    limit[enough] = his[first[enough] + modes - 1]
+    return limit
+
+
+def _family_roots(crossing, dips, g, s2, family):
+    """(row, root) of one family's determinant: each sign change's root, and the two roots a dip
+    of |det| hides when a golden-section search of it finds that it crosses zero.  A few brackets
+    are solved in plain floats (:data:`FEW_IN_FLOATS`), the same roots bit for bit.
+    """
+    def fun_of(rows):
+        return lambda x, k: half_determinants(x, g[rows[k]], s2[rows[k]])[family]
+
+    def float_fun_of(rows):
+        gs, ss = g[rows].tolist(), s2[rows].tolist()
+        return lambda x, k: _half_determinant_float(x, gs[k], ss[k], family)
+
+    rows, lo, hi = crossing
+    all_rows, all_lo, all_hi = [rows], [lo], [hi]
+    drow, dlo, dhi, dsign = dips
     if drow.size:
-        lo, hi = grid[drow, dcol], grid[drow, dcol + 2]
-        mid, crossed = _search_dip(fun_of(drow), lo, hi, sign[drow, dcol + 1])
-        for a, b in ((lo, mid), (mid, hi)):
+        mid, crossed = _search_dips(fun_of(drow), float_fun_of(drow), dlo, dhi, dsign)
+        for a, b in ((dlo, mid), (mid, dhi)):
             all_rows.append(drow[crossed])
             all_lo.append(a[crossed])
             all_hi.append(b[crossed])
     rows = np.concatenate(all_rows)
     if rows.size == 0:
         return rows, np.zeros(0)
-    return rows, bracketed_roots(fun_of(rows), np.concatenate(all_lo), np.concatenate(all_hi))
+    lo, hi = np.concatenate(all_lo), np.concatenate(all_hi)
+    if rows.size <= FEW_IN_FLOATS:
+        try:
+            return rows, bracketed_roots_each(float_fun_of(rows), lo, hi)
+        except (ArithmeticError, ValueError):  # overflow or 0 / 0: the arrays give inf or nan there
+            pass
+    return rows, bracketed_roots(fun_of(rows), lo, hi)
+
+
+def _below(brackets, limit):
+    """The brackets (rows, lo, ...) that start below their row's ``limit``."""
+    keep = brackets[1] < limit[brackets[0]]
+    return tuple(part[keep] for part in brackets)
+
+
+def _search_dips(fun, float_fun, lo, hi, sign):
+    """:func:`_search_dip`, in plain floats one dip at a time when there are a few (the same
+    steps, the same result bit for bit)."""
+    if lo.size <= FEW_IN_FLOATS:
+        try:
+            return _search_dip_floats(float_fun, lo, hi, sign)
+        except (ArithmeticError, ValueError):  # overflow or 0 / 0: the arrays give inf or nan there
+            pass
+    return _search_dip(fun, lo, hi, sign)
+
+
+_GOLDEN = (np.sqrt(5.0) - 1.0) / 2.0
+"""The golden-section ratio [-]."""
 
 
 def _search_dip(fun, lo, hi, sign):
     """Golden-section search of ``sign * fun`` for its minimum in each [lo, hi]: (argmin, whether
     the minimum crosses zero, i.e. two roots hide there)."""
-    ratio = (np.sqrt(5.0) - 1.0) / 2.0
+    ratio = _GOLDEN
     k = np.arange(lo.size)
     a, b = lo.copy(), hi.copy()
     for _ in range(80):
@@ -245,6 +342,24 @@ def _search_dip(fun, lo, hi, sign):
         a = np.where(left, a, x1)
     mid = 0.5 * (a + b)
     return mid, sign * fun(mid, k) < 0
+
+
+def _search_dip_floats(float_fun, lo, hi, sign):
+    """:func:`_search_dip` with ``float_fun(x, k)`` of one float, one dip at a time."""
+    ratio = float(_GOLDEN)
+    mids, crossed = [], []
+    for k, (a, b, s) in enumerate(zip(lo.tolist(), hi.tolist(), sign.tolist(), strict=True)):
+        for _ in range(80):
+            x1 = b - ratio * (b - a)
+            x2 = a + ratio * (b - a)
+            if s * float_fun(x1, k) < s * float_fun(x2, k):
+                b = x2
+            else:
+                a = x1
+        mid = 0.5 * (a + b)
+        mids.append(mid)
+        crossed.append(s * float_fun(mid, k) < 0)
+    return np.array(mids, dtype=float), np.array(crossed, dtype=bool)
 
 
 @remembered(_REMEMBERED)
@@ -261,7 +376,12 @@ def omegas(g, s2, modes):
     top = free_free_root(modes) ** 2 * 1.001
     grid = _grid(g, s2, top)
     dets = half_determinants(grid, g[:, None], s2[:, None])
-    found = [_family_roots(grid, dets[family], g, s2, family) for family in (0, 1)]
+    found = [_crossings(grid, dets[family]) for family in (0, 1)]
+    # only the lowest ``modes`` roots of each row are wanted: brackets and dips above them are
+    # left unsolved (the answer is the same; a stubby piece has many roots below ``top``)
+    limit = _needed_below([c for c, _ in found], g.size, modes)
+    found = [_family_roots(_below(crossing, limit), _below(dips, limit), g, s2, family)
+             for family, (crossing, dips) in enumerate(found)]
     rows = np.concatenate([r for r, _ in found])
     roots = np.concatenate([x for _, x in found])
     order = np.lexsort((roots, rows))
