@@ -110,19 +110,18 @@ def half_determinants(omega, g, s2):
     return sym, anti
 
 
-def _even_odd_half(z):
-    """:func:`_even_odd` at s = 1/2 for one float (the same operations, so the same roundings)."""
+def _even_odd_float(z, s):
+    """:func:`_even_odd` for one float (the same operations, so the same roundings)."""
     r = math.sqrt(abs(z))
     if z >= 0:
-        return math.cosh(0.5 * r), (0.5 if r == 0 else math.sinh(0.5 * r) / r)
-    return math.cos(0.5 * r), math.sin(0.5 * r) / r
+        return math.cosh(s * r), (s if r == 0 else math.sinh(s * r) / r)
+    return math.cos(s * r), math.sin(s * r) / r
 
 
-def _half_determinant_float(omega, g, s2, family):
-    """One family (0 symmetric, 1 antisymmetric) of :func:`half_determinants` for one piece, in
-    plain floats: every operation as the array code does it, in the same order, so the value is
-    the same bit for bit.  Raises where the arrays would give inf or nan (overflow, 0 / 0); the
-    caller then solves with the arrays."""
+def _coefficients_float(omega, g, s2, s):
+    """:func:`coefficients` for one piece and one ``s``, in plain floats: every operation as the
+    array code does it, in the same order, so the values are the same bit for bit.  Raises where
+    the arrays would give inf or nan (overflow, 0 / 0); the callers then solve with the arrays."""
     b = omega * omega
     a = b * s2
     p = a + b * g
@@ -134,18 +133,49 @@ def _half_determinant_float(omega, g, s2, family):
         z1 = 2.0 * b * (1.0 - a * g) / (q if q != 0 else 1.0)
     else:
         z1 = 0.0
-    e1, o1 = _even_odd_half(z1)
-    e2, o2 = _even_odd_half(z2)
+    e1, o1 = _even_odd_float(z1, s)
+    e2, o2 = _even_odd_float(z2, s)
     spread = disc if disc > 0 else 1.0
     c0 = (e2 * z1 - e1 * z2) / spread
     c1 = (o2 * z1 - o1 * z2) / spread
     c2 = (e1 - e2) / spread
     c3 = (o1 - o2) / spread
+    return c0, c1, c2, c3, a, b, e1
+
+
+def _half_determinant_float(omega, g, s2, family):
+    """One family (0 symmetric, 1 antisymmetric) of :func:`half_determinants` for one piece, in
+    plain floats (the same value bit for bit; see :func:`_coefficients_float`)."""
+    c0, c1, c2, c3, a, b, e1 = _coefficients_float(omega, g, s2, 0.5)
     m = max(abs(e1), 1.0)
     scale = 1.0 / (m * m)
     if family == 0:
         return (-b * c2 * c3 - (c0 - a * c2) * (b * g * c3 - c1)) * scale
     return ((c0 - b * g * c2) * (c3 * (a * a + b) - a * c1) - b * c2 * (c1 - (a + b * g) * c3)) * scale
+
+
+def _symmetric_float(omega, g, s2):
+    """:func:`_symmetric` for one piece in plain floats (the same value bit for bit)."""
+    c0, c1, c2, c3, a, b, e1 = _coefficients_float(omega, g, s2, 0.5)
+    m = max(abs(e1), 1.0)
+    return (-b * c2 * c3 - (c0 - a * c2) * (b * g * c3 - c1)) / (m * m)
+
+
+def _deflection_float(xi, omega, g, s2, start0, start1):
+    """:func:`deflection` for one piece and one ``xi`` in plain floats (the same value bit for bit)."""
+    c0, c1, c2, c3, a, b, _ = _coefficients_float(omega, g, s2, xi)
+    return (c0 - b * g * c2) * start0 + (c1 - (a + b * g) * c3) * start1
+
+
+def _roots_few_in_floats(float_fun, fun, lo, hi, f_lo=None, f_hi=None):
+    """:func:`bracketed_roots` of ``fun``, through its plain-float twin ``float_fun(x, k)`` when
+    there are at most :data:`FEW_IN_FLOATS` brackets (the same roots bit for bit)."""
+    if np.size(lo) <= FEW_IN_FLOATS:
+        try:
+            return bracketed_roots_each(float_fun, lo, hi, f_lo, f_hi)
+        except (ArithmeticError, ValueError):  # overflow or 0 / 0: the arrays give inf or nan there
+            pass
+    return bracketed_roots(fun, lo, hi, f_lo, f_hi)
 
 
 def _symmetric(omega, g, s2):
@@ -227,7 +257,9 @@ def fundamental_omegas(g, s2):
     f_lo, f_hi = _symmetric(lo, g, s2), _symmetric(hi, g, s2)
     if np.any(np.sign(f_lo) == np.sign(f_hi)):
         raise ValueError("piece too stubby for the beam model (length under about twice its depth)")
-    return bracketed_roots(lambda x, k: _symmetric(x, g[k], s2[k]), lo, hi, f_lo, f_hi)
+    gs, ss = g.tolist(), s2.tolist()
+    return _roots_few_in_floats(lambda x, k: _symmetric_float(x, gs[k], ss[k]),
+                                lambda x, k: _symmetric(x, g[k], s2[k]), lo, hi, f_lo, f_hi)
 
 
 def _grid(g, s2, top, floor=0.5):
@@ -298,13 +330,7 @@ def _family_roots(crossing, dips, g, s2, family):
     rows = np.concatenate(all_rows)
     if rows.size == 0:
         return rows, np.zeros(0)
-    lo, hi = np.concatenate(all_lo), np.concatenate(all_hi)
-    if rows.size <= FEW_IN_FLOATS:
-        try:
-            return rows, bracketed_roots_each(float_fun_of(rows), lo, hi)
-        except (ArithmeticError, ValueError):  # overflow or 0 / 0: the arrays give inf or nan there
-            pass
-    return rows, bracketed_roots(fun_of(rows), lo, hi)
+    return rows, _roots_few_in_floats(float_fun_of(rows), fun_of(rows), np.concatenate(all_lo), np.concatenate(all_hi))
 
 
 def _below(brackets, limit):
@@ -424,7 +450,13 @@ def fundamental_lengths(frequency, flexural_rigidity, mass_per_length, shear_rig
     f_lo, f_hi = fun(lo, everything), fun(hi, everything)
     if np.any(np.sign(f_lo) == np.sign(f_hi)):
         raise ValueError("piece too stubby for the beam model (length under about twice its depth)")
-    return slender * bracketed_roots(fun, lo, hi, f_lo, f_hi)
+    oms, gs, ss = om.tolist(), g.tolist(), s2.tolist()
+
+    def float_fun(x, k):
+        x2 = x * x
+        return _symmetric_float(oms[k] * x2, gs[k] / x2, ss[k] / x2)
+
+    return slender * _roots_few_in_floats(float_fun, fun, lo, hi, f_lo, f_hi)
 
 
 @remembered(_REMEMBERED)
@@ -493,4 +525,9 @@ def fundamental_nodes(omega, g, s2):
     def fun(x, k):
         return deflection(x, omega[k], g[k], s2[k], (start[0][k], start[1][k]))
 
-    return bracketed_roots(fun, np.zeros(omega.shape), np.full(omega.shape, 0.5))
+    args = [v.tolist() for v in (omega, g, s2, start[0], start[1])]
+
+    def float_fun(x, k):
+        return _deflection_float(x, *(v[k] for v in args))
+
+    return _roots_few_in_floats(float_fun, fun, np.zeros(omega.shape), np.full(omega.shape, 0.5))
