@@ -13,8 +13,6 @@ from pathlib import Path
 
 import pytest
 
-from tests.source_trees import tree
-
 PACKAGE = Path(__file__).resolve().parent.parent / "cutplan"
 
 LAZY_PACKAGES = {"scipy", "skfem", "threadpoolctl", "fcntl"}
@@ -61,9 +59,8 @@ def _is_package(name):
 
 @functools.cache
 def _tree(name):
-    """The module's syntax tree, parsed once per test process (the tests only read it; shared
-    with the other tests that read the source, :mod:`tests.source_trees`)."""
-    return tree(MODULES[name])
+    """The module's syntax tree, parsed once per test process (the tests only read it)."""
+    return ast.parse(MODULES[name].read_text(encoding="utf-8"))
 
 
 @functools.cache

@@ -13,7 +13,6 @@ from cutplan.cli import cli
 from cutplan.cli.common import OPTION_HELP
 from cutplan.planning.shopping import CODES, general_cautions
 from cutplan.render import phrases
-from tests.source_trees import tree
 
 PACKAGE = Path(__file__).resolve().parents[1] / "cutplan"
 SOURCES = sorted(p for p in PACKAGE.rglob("*") if p.suffix in (".py", ".html", ".js", ".css"))
@@ -35,13 +34,13 @@ def _text_hits(phrase):
 def _constants():
     """(file, line, value) of every numeric literal in the package's Python code, and (file, text)
     of every string literal but docstrings (they may quote examples): each file parsed once per
-    test process, not once per parameter (the trees shared with the other source-reading tests,
-    :mod:`tests.source_trees`).  One walk: it meets a statement before the expression in it, so a
+    test process, not once per parameter, and let go (a tree kept alive would be walked by every
+    later garbage collection).  One walk: it meets a statement before the expression in it, so a
     docstring's statement comes before its string."""
     numbers, strings = [], []
     for path in PACKAGE.rglob("*.py"):
         name, docs = path.relative_to(PACKAGE).as_posix(), set()
-        for node in ast.walk(tree(path)):
+        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
             if isinstance(node, ast.Expr) and isinstance(node.value, ast.Constant):
                 docs.add(id(node.value))
             if isinstance(node, ast.Constant) and type(node.value) in (int, float):

@@ -39,6 +39,7 @@ import math
 
 import numpy as np
 
+from cutplan.physics import uniform_floats
 from cutplan.physics.beam import free_free_length, free_free_root
 from cutplan.physics.remember import remembered
 from cutplan.physics.roots import bracketed_roots, bracketed_roots_each
@@ -52,9 +53,10 @@ PHASE_STEP = np.pi / 16
 """Largest step of either wave number between grid points when bracketing modes [rad]."""
 
 FEW_IN_FLOATS = 16
-"""Up to this many brackets (or dips) of one family are solved one at a time in plain floats, the
-same steps and the same roundings as the arrays (so the same roots bit for bit), without the array
-overhead per step; more are solved as arrays [-] (the floats win below about 20, measured)."""
+"""Up to this many brackets (or dips) of one family are solved one at a time in plain floats
+(:mod:`cutplan.physics.uniform_floats`), the same steps and the same roundings as the arrays (so
+the same roots bit for bit), without the array overhead per step; more are solved as arrays [-]
+(the floats win below about 20, measured)."""
 
 _REMEMBERED = 512
 """Answers each solver below keeps for the same arguments [-] (see :mod:`cutplan.physics.remember`)."""
@@ -108,63 +110,6 @@ def half_determinants(omega, g, s2):
     sym = (-b * c2 * c3 - (c0 - a * c2) * (b * g * c3 - c1)) * scale
     anti = ((c0 - b * g * c2) * (c3 * (a * a + b) - a * c1) - b * c2 * (c1 - (a + b * g) * c3)) * scale
     return sym, anti
-
-
-def _even_odd_float(z, s):
-    """:func:`_even_odd` for one float (the same operations, so the same roundings)."""
-    r = math.sqrt(abs(z))
-    if z >= 0:
-        return math.cosh(s * r), (s if r == 0 else math.sinh(s * r) / r)
-    return math.cos(s * r), math.sin(s * r) / r
-
-
-def _coefficients_float(omega, g, s2, s):
-    """:func:`coefficients` for one piece and one ``s``, in plain floats: every operation as the
-    array code does it, in the same order, so the values are the same bit for bit.  Raises where
-    the arrays would give inf or nan (overflow, 0 / 0); the callers then solve with the arrays."""
-    b = omega * omega
-    a = b * s2
-    p = a + b * g
-    d = a - b * g
-    disc = math.sqrt(d * d + 4.0 * b)
-    z2 = -0.5 * (p + disc)
-    if z2 != 0:
-        q = p + disc
-        z1 = 2.0 * b * (1.0 - a * g) / (q if q != 0 else 1.0)
-    else:
-        z1 = 0.0
-    e1, o1 = _even_odd_float(z1, s)
-    e2, o2 = _even_odd_float(z2, s)
-    spread = disc if disc > 0 else 1.0
-    c0 = (e2 * z1 - e1 * z2) / spread
-    c1 = (o2 * z1 - o1 * z2) / spread
-    c2 = (e1 - e2) / spread
-    c3 = (o1 - o2) / spread
-    return c0, c1, c2, c3, a, b, e1
-
-
-def _half_determinant_float(omega, g, s2, family):
-    """One family (0 symmetric, 1 antisymmetric) of :func:`half_determinants` for one piece, in
-    plain floats (the same value bit for bit; see :func:`_coefficients_float`)."""
-    c0, c1, c2, c3, a, b, e1 = _coefficients_float(omega, g, s2, 0.5)
-    m = max(abs(e1), 1.0)
-    scale = 1.0 / (m * m)
-    if family == 0:
-        return (-b * c2 * c3 - (c0 - a * c2) * (b * g * c3 - c1)) * scale
-    return ((c0 - b * g * c2) * (c3 * (a * a + b) - a * c1) - b * c2 * (c1 - (a + b * g) * c3)) * scale
-
-
-def _symmetric_float(omega, g, s2):
-    """:func:`_symmetric` for one piece in plain floats (the same value bit for bit)."""
-    c0, c1, c2, c3, a, b, e1 = _coefficients_float(omega, g, s2, 0.5)
-    m = max(abs(e1), 1.0)
-    return (-b * c2 * c3 - (c0 - a * c2) * (b * g * c3 - c1)) / (m * m)
-
-
-def _deflection_float(xi, omega, g, s2, start0, start1):
-    """:func:`deflection` for one piece and one ``xi`` in plain floats (the same value bit for bit)."""
-    c0, c1, c2, c3, a, b, _ = _coefficients_float(omega, g, s2, xi)
-    return (c0 - b * g * c2) * start0 + (c1 - (a + b * g) * c3) * start1
 
 
 def _roots_few_in_floats(float_fun, fun, lo, hi, f_lo=None, f_hi=None):
@@ -258,7 +203,7 @@ def fundamental_omegas(g, s2):
     if np.any(np.sign(f_lo) == np.sign(f_hi)):
         raise ValueError("piece too stubby for the beam model (length under about twice its depth)")
     gs, ss = g.tolist(), s2.tolist()
-    return _roots_few_in_floats(lambda x, k: _symmetric_float(x, gs[k], ss[k]),
+    return _roots_few_in_floats(lambda x, k: uniform_floats.symmetric(x, gs[k], ss[k]),
                                 lambda x, k: _symmetric(x, g[k], s2[k]), lo, hi, f_lo, f_hi)
 
 
@@ -316,7 +261,7 @@ def _family_roots(crossing, dips, g, s2, family):
 
     def float_fun_of(rows):
         gs, ss = g[rows].tolist(), s2[rows].tolist()
-        return lambda x, k: _half_determinant_float(x, gs[k], ss[k], family)
+        return lambda x, k: uniform_floats.half_determinant(x, gs[k], ss[k], family)
 
     rows, lo, hi = crossing
     all_rows, all_lo, all_hi = [rows], [lo], [hi]
@@ -352,6 +297,8 @@ def _search_dips(fun, float_fun, lo, hi, sign):
 
 _GOLDEN = (np.sqrt(5.0) - 1.0) / 2.0
 """The golden-section ratio [-]."""
+_GOLDEN_STEPS = 80
+"""Golden-section steps of a dip search [-] (the bracket shrinks to 1e-17 of its width)."""
 
 
 def _search_dip(fun, lo, hi, sign):
@@ -360,7 +307,7 @@ def _search_dip(fun, lo, hi, sign):
     ratio = _GOLDEN
     k = np.arange(lo.size)
     a, b = lo.copy(), hi.copy()
-    for _ in range(80):
+    for _ in range(_GOLDEN_STEPS):
         x1 = b - ratio * (b - a)
         x2 = a + ratio * (b - a)
         left = sign * fun(x1, k) < sign * fun(x2, k)
@@ -372,20 +319,9 @@ def _search_dip(fun, lo, hi, sign):
 
 def _search_dip_floats(float_fun, lo, hi, sign):
     """:func:`_search_dip` with ``float_fun(x, k)`` of one float, one dip at a time."""
-    ratio = float(_GOLDEN)
-    mids, crossed = [], []
-    for k, (a, b, s) in enumerate(zip(lo.tolist(), hi.tolist(), sign.tolist(), strict=True)):
-        for _ in range(80):
-            x1 = b - ratio * (b - a)
-            x2 = a + ratio * (b - a)
-            if s * float_fun(x1, k) < s * float_fun(x2, k):
-                b = x2
-            else:
-                a = x1
-        mid = 0.5 * (a + b)
-        mids.append(mid)
-        crossed.append(s * float_fun(mid, k) < 0)
-    return np.array(mids, dtype=float), np.array(crossed, dtype=bool)
+    found = [uniform_floats.search_dip(lambda x, k=k: float_fun(x, k), a, b, s, float(_GOLDEN), _GOLDEN_STEPS)
+             for k, (a, b, s) in enumerate(zip(lo.tolist(), hi.tolist(), sign.tolist(), strict=True))]
+    return np.array([m for m, _ in found], dtype=float), np.array([c for _, c in found], dtype=bool)
 
 
 @remembered(_REMEMBERED)
@@ -454,7 +390,7 @@ def fundamental_lengths(frequency, flexural_rigidity, mass_per_length, shear_rig
 
     def float_fun(x, k):
         x2 = x * x
-        return _symmetric_float(oms[k] * x2, gs[k] / x2, ss[k] / x2)
+        return uniform_floats.symmetric(oms[k] * x2, gs[k] / x2, ss[k] / x2)
 
     return slender * _roots_few_in_floats(float_fun, fun, lo, hi, f_lo, f_hi)
 
@@ -528,6 +464,6 @@ def fundamental_nodes(omega, g, s2):
     args = [v.tolist() for v in (omega, g, s2, start[0], start[1])]
 
     def float_fun(x, k):
-        return _deflection_float(x, *(v[k] for v in args))
+        return uniform_floats.deflection(x, *(v[k] for v in args))
 
     return _roots_few_in_floats(float_fun, fun, np.zeros(omega.shape), np.full(omega.shape, 0.5))
