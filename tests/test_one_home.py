@@ -34,12 +34,15 @@ def _text_hits(phrase):
 def _constants():
     """(file, line, value) of every numeric literal in the package's Python code, and (file, text)
     of every string literal but docstrings (they may quote examples): each file parsed once per
-    test process, not once per parameter."""
+    test process, not once per parameter, and let go (a tree kept alive would be walked by every
+    later garbage collection).  One walk: it meets a statement before the expression in it, so a
+    docstring's statement comes before its string."""
     numbers, strings = [], []
     for path in PACKAGE.rglob("*.py"):
-        name, tree = path.relative_to(PACKAGE).as_posix(), ast.parse(path.read_text(encoding="utf-8"))
-        docs = {id(n.value) for n in ast.walk(tree) if isinstance(n, ast.Expr) and isinstance(n.value, ast.Constant)}
-        for node in ast.walk(tree):
+        name, docs = path.relative_to(PACKAGE).as_posix(), set()
+        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+            if isinstance(node, ast.Expr) and isinstance(node.value, ast.Constant):
+                docs.add(id(node.value))
             if isinstance(node, ast.Constant) and type(node.value) in (int, float):
                 numbers.append((name, node.lineno, node.value))
             elif isinstance(node, ast.Constant) and isinstance(node.value, str) and id(node) not in docs:

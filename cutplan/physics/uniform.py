@@ -39,9 +39,10 @@ import math
 
 import numpy as np
 
+from cutplan.physics import uniform_floats
 from cutplan.physics.beam import free_free_length, free_free_root
 from cutplan.physics.remember import remembered
-from cutplan.physics.roots import bracketed_roots
+from cutplan.physics.roots import bracketed_roots, bracketed_roots_each
 
 __all__ = [
     "PHASE_STEP", "coefficients", "half_determinants", "fundamental_omegas", "omegas",
@@ -50,6 +51,12 @@ __all__ = [
 
 PHASE_STEP = np.pi / 16
 """Largest step of either wave number between grid points when bracketing modes [rad]."""
+
+FEW_IN_FLOATS = 16
+"""Up to this many brackets (or dips) of one family are solved one at a time in plain floats
+(:mod:`cutplan.physics.uniform_floats`), the same steps and the same roundings as the arrays (so
+the same roots bit for bit), without the array overhead per step; more are solved as arrays [-]
+(the floats win below about 20, measured)."""
 
 _REMEMBERED = 512
 """Answers each solver below keeps for the same arguments [-] (see :mod:`cutplan.physics.remember`)."""
@@ -103,6 +110,17 @@ def half_determinants(omega, g, s2):
     sym = (-b * c2 * c3 - (c0 - a * c2) * (b * g * c3 - c1)) * scale
     anti = ((c0 - b * g * c2) * (c3 * (a * a + b) - a * c1) - b * c2 * (c1 - (a + b * g) * c3)) * scale
     return sym, anti
+
+
+def _roots_few_in_floats(float_fun, fun, lo, hi, f_lo=None, f_hi=None):
+    """:func:`bracketed_roots` of ``fun``, through its plain-float twin ``float_fun(x, k)`` when
+    there are at most :data:`FEW_IN_FLOATS` brackets (the same roots bit for bit)."""
+    if np.size(lo) <= FEW_IN_FLOATS:
+        try:
+            return bracketed_roots_each(float_fun, lo, hi, f_lo, f_hi)
+        except (ArithmeticError, ValueError):  # overflow or 0 / 0: the arrays give inf or nan there
+            pass
+    return bracketed_roots(fun, lo, hi, f_lo, f_hi)
 
 
 def _symmetric(omega, g, s2):
@@ -184,7 +202,9 @@ def fundamental_omegas(g, s2):
     f_lo, f_hi = _symmetric(lo, g, s2), _symmetric(hi, g, s2)
     if np.any(np.sign(f_lo) == np.sign(f_hi)):
         raise ValueError("piece too stubby for the beam model (length under about twice its depth)")
-    return bracketed_roots(lambda x, k: _symmetric(x, g[k], s2[k]), lo, hi, f_lo, f_hi)
+    gs, ss = g.tolist(), s2.tolist()
+    return _roots_few_in_floats(lambda x, k: uniform_floats.symmetric(x, gs[k], ss[k]),
+                                lambda x, k: _symmetric(x, g[k], s2[k]), lo, hi, f_lo, f_hi)
 
 
 def _grid(g, s2, top, floor=0.5):
@@ -202,42 +222,92 @@ def _grid(g, s2, top, floor=0.5):
     return t * t
 
 
-def _family_roots(grid, det, g, s2, family):
-    """(row, root) of one family's determinant along each row of the grid.
-
-    Sign changes bracket roots; a dip of |det| between two samples of one sign is searched
-    (golden section) for a hidden pair of roots.
-    """
-    def fun_of(rows):
-        return lambda x, k: half_determinants(x, g[rows[k]], s2[rows[k]])[family]
-
+def _crossings(grid, det):
+    """(rows, lo, hi) of the grid intervals where ``det`` changes sign, and (rows, lo, hi, sign) of
+    its dips: |det| lower at a sample than at both neighbours, all three of one sign."""
     sign = np.sign(det)
     rows, cols = np.nonzero(sign[:, :-1] * sign[:, 1:] < 0)
-    all_rows, all_lo, all_hi = [rows], [grid[rows, cols]], [grid[rows, cols + 1]]
     mag = np.abs(det)
     dip = ((sign[:, :-2] == sign[:, 1:-1]) & (sign[:, 1:-1] == sign[:, 2:]) & (mag[:, 1:-1] < mag[:, :-2])
            & (mag[:, 1:-1] < mag[:, 2:]))
     drow, dcol = np.nonzero(dip)
+    return ((rows, grid[rows, cols], grid[rows, cols + 1]),
+            (drow, grid[drow, dcol], grid[drow, dcol + 2], sign[drow, dcol + 1]))
+
+
+def _needed_below(crossings, count, modes):
+    """Per row, the ``modes``-th lowest upper end of the sign changes of both families (inf where a
+    row has fewer): a bracket or dip starting at or above it holds no root among the lowest
+    ``modes`` (at least ``modes`` roots lie below its start), so it need not be solved."""
+    rows = np.concatenate([c[0] for c in crossings])
+    his = np.concatenate([c[2] for c in crossings])
+    order = np.lexsort((his, rows))
+    rows, his = rows[order], his[order]
+    counts = np.bincount(rows, minlength=count)
+    first = np.concatenate([[0], np.cumsum(counts)[:-1]]).astype(int)
+    limit = np.full(count, np.inf)
+    enough = counts >= modes
+    limit[enough] = his[first[enough] + modes - 1]
+    return limit
+
+
+def _family_roots(crossing, dips, g, s2, family):
+    """(row, root) of one family's determinant: each sign change's root, and the two roots a dip
+    of |det| hides when a golden-section search of it finds that it crosses zero.  A few brackets
+    are solved in plain floats (:data:`FEW_IN_FLOATS`), the same roots bit for bit.
+    """
+    def fun_of(rows):
+        return lambda x, k: half_determinants(x, g[rows[k]], s2[rows[k]])[family]
+
+    def float_fun_of(rows):
+        gs, ss = g[rows].tolist(), s2[rows].tolist()
+        return lambda x, k: uniform_floats.half_determinant(x, gs[k], ss[k], family)
+
+    rows, lo, hi = crossing
+    all_rows, all_lo, all_hi = [rows], [lo], [hi]
+    drow, dlo, dhi, dsign = dips
     if drow.size:
-        lo, hi = grid[drow, dcol], grid[drow, dcol + 2]
-        mid, crossed = _search_dip(fun_of(drow), lo, hi, sign[drow, dcol + 1])
-        for a, b in ((lo, mid), (mid, hi)):
+        mid, crossed = _search_dips(fun_of(drow), float_fun_of(drow), dlo, dhi, dsign)
+        for a, b in ((dlo, mid), (mid, dhi)):
             all_rows.append(drow[crossed])
             all_lo.append(a[crossed])
             all_hi.append(b[crossed])
     rows = np.concatenate(all_rows)
     if rows.size == 0:
         return rows, np.zeros(0)
-    return rows, bracketed_roots(fun_of(rows), np.concatenate(all_lo), np.concatenate(all_hi))
+    return rows, _roots_few_in_floats(float_fun_of(rows), fun_of(rows), np.concatenate(all_lo), np.concatenate(all_hi))
+
+
+def _below(brackets, limit):
+    """The brackets (rows, lo, ...) that start below their row's ``limit``."""
+    keep = brackets[1] < limit[brackets[0]]
+    return tuple(part[keep] for part in brackets)
+
+
+def _search_dips(fun, float_fun, lo, hi, sign):
+    """:func:`_search_dip`, in plain floats one dip at a time when there are a few (the same
+    steps, the same result bit for bit)."""
+    if lo.size <= FEW_IN_FLOATS:
+        try:
+            return _search_dip_floats(float_fun, lo, hi, sign)
+        except (ArithmeticError, ValueError):  # overflow or 0 / 0: the arrays give inf or nan there
+            pass
+    return _search_dip(fun, lo, hi, sign)
+
+
+_GOLDEN = (np.sqrt(5.0) - 1.0) / 2.0
+"""The golden-section ratio [-]."""
+_GOLDEN_STEPS = 80
+"""Golden-section steps of a dip search [-] (the bracket shrinks to 1e-17 of its width)."""
 
 
 def _search_dip(fun, lo, hi, sign):
     """Golden-section search of ``sign * fun`` for its minimum in each [lo, hi]: (argmin, whether
     the minimum crosses zero, i.e. two roots hide there)."""
-    ratio = (np.sqrt(5.0) - 1.0) / 2.0
+    ratio = _GOLDEN
     k = np.arange(lo.size)
     a, b = lo.copy(), hi.copy()
-    for _ in range(80):
+    for _ in range(_GOLDEN_STEPS):
         x1 = b - ratio * (b - a)
         x2 = a + ratio * (b - a)
         left = sign * fun(x1, k) < sign * fun(x2, k)
@@ -245,6 +315,13 @@ def _search_dip(fun, lo, hi, sign):
         a = np.where(left, a, x1)
     mid = 0.5 * (a + b)
     return mid, sign * fun(mid, k) < 0
+
+
+def _search_dip_floats(float_fun, lo, hi, sign):
+    """:func:`_search_dip` with ``float_fun(x, k)`` of one float, one dip at a time."""
+    found = [uniform_floats.search_dip(lambda x, k=k: float_fun(x, k), a, b, s, float(_GOLDEN), _GOLDEN_STEPS)
+             for k, (a, b, s) in enumerate(zip(lo.tolist(), hi.tolist(), sign.tolist(), strict=True))]
+    return np.array([m for m, _ in found], dtype=float), np.array([c for _, c in found], dtype=bool)
 
 
 @remembered(_REMEMBERED)
@@ -261,7 +338,12 @@ def omegas(g, s2, modes):
     top = free_free_root(modes) ** 2 * 1.001
     grid = _grid(g, s2, top)
     dets = half_determinants(grid, g[:, None], s2[:, None])
-    found = [_family_roots(grid, dets[family], g, s2, family) for family in (0, 1)]
+    found = [_crossings(grid, dets[family]) for family in (0, 1)]
+    # only the lowest ``modes`` roots of each row are wanted: brackets and dips above them are
+    # left unsolved (the answer is the same; a stubby piece has many roots below ``top``)
+    limit = _needed_below([c for c, _ in found], g.size, modes)
+    found = [_family_roots(_below(crossing, limit), _below(dips, limit), g, s2, family)
+             for family, (crossing, dips) in enumerate(found)]
     rows = np.concatenate([r for r, _ in found])
     roots = np.concatenate([x for _, x in found])
     order = np.lexsort((roots, rows))
@@ -304,7 +386,13 @@ def fundamental_lengths(frequency, flexural_rigidity, mass_per_length, shear_rig
     f_lo, f_hi = fun(lo, everything), fun(hi, everything)
     if np.any(np.sign(f_lo) == np.sign(f_hi)):
         raise ValueError("piece too stubby for the beam model (length under about twice its depth)")
-    return slender * bracketed_roots(fun, lo, hi, f_lo, f_hi)
+    oms, gs, ss = om.tolist(), g.tolist(), s2.tolist()
+
+    def float_fun(x, k):
+        x2 = x * x
+        return uniform_floats.symmetric(oms[k] * x2, gs[k] / x2, ss[k] / x2)
+
+    return slender * _roots_few_in_floats(float_fun, fun, lo, hi, f_lo, f_hi)
 
 
 @remembered(_REMEMBERED)
@@ -373,4 +461,9 @@ def fundamental_nodes(omega, g, s2):
     def fun(x, k):
         return deflection(x, omega[k], g[k], s2[k], (start[0][k], start[1][k]))
 
-    return bracketed_roots(fun, np.zeros(omega.shape), np.full(omega.shape, 0.5))
+    args = [v.tolist() for v in (omega, g, s2, start[0], start[1])]
+
+    def float_fun(x, k):
+        return uniform_floats.deflection(x, *(v[k] for v in args))
+
+    return _roots_few_in_floats(float_fun, fun, np.zeros(omega.shape), np.full(omega.shape, 0.5))

@@ -11,6 +11,7 @@ the drill that would keep it under.
 from __future__ import annotations
 
 import dataclasses
+import functools
 import math
 from fractions import Fraction
 
@@ -56,16 +57,18 @@ def split_for(spec, piece, drill):
     in_plane, across = hang_hole_shifts(piece.length, sec.outer, inner, drill, position, mode)
     heard = piece.partials_hz[mode - 1] if len(piece.partials_hz) >= mode else piece.predicted_hz
     beat = heard * (across - in_plane)
-    largest = _largest_drill(piece, sec.outer, inner, position, mode, heard)
+    largest = _largest_drill(piece.length, sec.outer, inner, position, mode, heard)
     return HangHoleSplit(drill=drill, mode=mode, in_plane_cents=1200 * math.log2(1 + in_plane),
                          across_cents=1200 * math.log2(1 + across), beat_hz=beat, largest_drill=largest)
 
 
-def _largest_drill(piece, outer, inner, position, mode, heard):
-    """Largest drill in 1/64 in steps whose beat stays under the limit [m] (0 if none does)."""
+@functools.lru_cache(maxsize=4096)
+def _largest_drill(length, outer, inner, position, mode, heard):
+    """Largest drill in 1/64 in steps whose beat stays under the limit [m] (0 if none does).
+    Kept per piece (a scan of up to 64 drills; the same design is planned again and again)."""
     best, d = 0.0, SMALLEST_DRILL
     while d < min(inner, 0.0254) - 1e-12:
-        in_plane, across = hang_hole_shifts(piece.length, outer, inner, d, position, mode)
+        in_plane, across = hang_hole_shifts(length, outer, inner, d, position, mode)
         if heard * (across - in_plane) > BEAT_LIMIT_HZ:
             break
         best, d = d, d + DRILL_STEP
