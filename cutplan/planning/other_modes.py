@@ -23,7 +23,7 @@ from cutplan.planning import grain
 
 __all__ = [
     "CLEARANCE_CENTS", "REPORT_ABOVE", "MAX_MODES", "piece_other_modes", "RING_FIRST_LOBES",
-    "tuned_partials", "mode_warnings", "with_other_modes"
+    "tuned_partials", "mode_warnings", "with_other_modes", "resize_advice",
 ]
 
 CLEARANCE_CENTS = 30.0
@@ -34,6 +34,11 @@ REPORT_ABOVE = 1.06
 MAX_MODES = 6
 """Most modes of each kind computed [-]."""
 
+
+def resize_advice(what):
+    """How to move a mode off a partial, in words that hold in an inch design and an mm one
+    (``what``: "width", "width or thickness")."""
+    return f"a few mm (about 1/8 in) more or less {what} moves it away"
 
 def _cents(a, b):
     return 1200 * math.log2(a / b)
@@ -150,7 +155,7 @@ def mode_warnings(piece, other, clearance_cents=CLEARANCE_CENTS, tuned=(1, 2), s
             cents = f"{abs(off):.0f} cent{'' if round(abs(off)) == 1 else 's'} {'above' if off > 0 else 'below'}"
             move = ("a tube of another wall or diameter moves it away (ring modes do not change with length)"
                     if kind == "ring" else
-                    f"a few mm more or less {'width' if kind == 'sideways' else 'width or thickness'} moves it away")
+                    resize_advice('width' if kind == 'sideways' else 'width or thickness'))
             text = (f"{kind} mode {n}: {name} lies {cents} the {partial}, {p:.0f} Hz): "
                     f"expect a buzz or a beat; {move}")
             if extra:

@@ -16,6 +16,7 @@ from __future__ import annotations
 import math
 
 from cutplan.design.notices import MODE_NEAR_PARTIAL, PARTIAL_SPLIT, Notice
+from cutplan.planning.other_modes import resize_advice
 from cutplan.units import INCH_DENOMINATOR, format_length
 
 __all__ = ["split_partials", "width_mode_warnings"]
@@ -86,6 +87,6 @@ def width_mode_warnings(piece, modes, width, tuned, clearance_cents, key=None, u
             out.append(Notice(MODE_NEAR_PARTIAL, key,
                               f"cross-width mode: the {bar} bends across its {width_text} width at {float(f):.0f} Hz, "
                               f"{_cents_words(off)} the {_partial_name(k, piece.arch is not None)} (partial {k}, "
-                              f"{partials[k - 1]:.0f} Hz): expect a buzz or a beat; a few mm more or less width "
-                              "moves it away"))
+                              f"{partials[k - 1]:.0f} Hz): expect a buzz or a beat; "
+                              f"{resize_advice('width')}"))
     return out
