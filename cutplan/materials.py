@@ -10,7 +10,6 @@ Nothing is read at import time; :func:`load_library` is given the folders to rea
 
 from __future__ import annotations
 
-import difflib
 import functools
 import math
 import threading
@@ -27,7 +26,7 @@ from cutplan.plausibility import CLASS_RANGES
 
 __all__ = [
     "SOURCE_KINDS", "WOOD_BENDING_TO_TRUE_MODULUS", "GRAIN_KEYS", "MaterialError", "Provenance", "Material",
-    "StockSize", "Library", "packaged_dir", "material_from_table", "load_library", "closest_names"
+    "StockSize", "Library", "packaged_dir", "material_from_table", "load_library"
 ]
 
 SOURCE_KINDS = (
@@ -482,19 +481,3 @@ def _parse_table_file(path, raw, sources):
         rows[name] = material_from_table(name, table, path, sources)
     return "materials", tuple(rows.items())
 
-
-def closest_names(value, choices, count=3):
-    """Names in ``choices`` nearest to a mistyped ``value`` (British spellings and part-names too).
-
-    >>> closest_names("aluminium-6063-t5", ["aluminum-6061-t6", "aluminum-6063-t5", "maple-sugar"])
-    ['aluminum-6063-t5']
-    >>> closest_names("aluminium", ["aluminum-6061-t6", "aluminum-6063-t5", "maple-sugar"])
-    ['aluminum-6063-t5', 'aluminum-6061-t6']
-    """
-    text = str(value).strip().lower().replace("aluminium", "aluminum").replace("colour", "color")
-    choices = sorted(choices)
-    if text in choices:
-        return [text]
-    within = [c for c in choices if text and text in c]
-    close = difflib.get_close_matches(text, choices, n=count, cutoff=0.6)
-    return (close + [c for c in within if c not in close])[:count] or choices[:count]

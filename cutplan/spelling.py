@@ -16,7 +16,7 @@ import difflib
 import re
 from fractions import Fraction
 
-__all__ = ["SIZE_TOLERANCE", "stock_size_names", "scale_names", "did_you_mean"]
+__all__ = ["SIZE_TOLERANCE", "stock_size_names", "scale_names", "did_you_mean", "closest_names"]
 
 _NAME = re.compile(r"(?P<family>[a-z][a-z0-9-]*?)-(?P<size>\d+-\d+/\d+|\d+/\d+|\d*\.\d+|\d+)(?:x(?P<wall>\d*\.\d+))?")
 _WORDS = {"aluminum": "al", "aluminium": "al", "alu": "al", "conduit": "emt", "cu": "copper"}
@@ -124,3 +124,20 @@ def did_you_mean(names):
         return ""
     shown = names[0] if len(names) == 1 else ", ".join(names[:-1]) + " or " + names[-1]
     return f"; did you mean {shown}?"
+
+
+def closest_names(value, choices, count=3):
+    """Names in ``choices`` nearest to a mistyped ``value`` (British spellings and part-names too).
+
+    >>> closest_names("aluminium-6063-t5", ["aluminum-6061-t6", "aluminum-6063-t5", "maple-sugar"])
+    ['aluminum-6063-t5']
+    >>> closest_names("aluminium", ["aluminum-6061-t6", "aluminum-6063-t5", "maple-sugar"])
+    ['aluminum-6063-t5', 'aluminum-6061-t6']
+    """
+    text = str(value).strip().lower().replace("aluminium", "aluminum").replace("colour", "color")
+    choices = sorted(choices)
+    if text in choices:
+        return [text]
+    within = [c for c in choices if text and text in c]
+    close = difflib.get_close_matches(text, choices, n=count, cutoff=0.6)
+    return (close + [c for c in within if c not in close])[:count] or choices[:count]

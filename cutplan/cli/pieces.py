@@ -22,9 +22,10 @@ from cutplan.cli.common import (
 )
 from cutplan.cli.examples import example_text
 from cutplan.limits import A4_ALLOWED, a4_ok
-from cutplan.materials import MaterialError, closest_names, load_library
+from cutplan.materials import MaterialError, load_library
 from cutplan.render.phrases import TRIM_RULE
 from cutplan.render.terminal import other_modes_text, render_library, render_library_entry
+from cutplan.spelling import closest_names
 from cutplan.starters import STARTERS
 from cutplan.units import format_length
 

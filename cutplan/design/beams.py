@@ -5,8 +5,9 @@ from __future__ import annotations
 
 from cutplan import plausibility, units
 from cutplan.design.contract import Undercut, is_number
-from cutplan.materials import MaterialError, closest_names, material_from_table
+from cutplan.materials import MaterialError, material_from_table
 from cutplan.planning.grain import GRAINS
+from cutplan.spelling import closest_names
 
 __all__ = ["UNDERCUT_KEYS", "AIR_ONLY", "material", "undercut", "grain", "beam_fields"]
 

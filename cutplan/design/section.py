@@ -3,9 +3,8 @@
 from __future__ import annotations
 
 from cutplan import units
-from cutplan.materials import closest_names
 from cutplan.physics.sections import Section, bar, rod, tube
-from cutplan.spelling import stock_size_names
+from cutplan.spelling import closest_names, stock_size_names
 
 __all__ = ["SECTION_KEYS", "MAX_SIZE", "MIN_SIZE", "section"]
 
