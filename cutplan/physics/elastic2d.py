@@ -82,7 +82,9 @@ class ProfileModes:
         For each bending mode, the places along the flat top where it does not move up or
         down [m from end A].
     longitudinal : tuple of float
-        Lengthwise modes found on the way [Hz] (for information).
+        The other modes found on the way [Hz]: lengthwise ones and, with the width resolved,
+        cross-width ones; each an ``OtherMode`` (a float with ``kind`` and, where it splits a
+        partial, ``partial``) from :mod:`cutplan.physics.bending_partials`.
     elements : (int, int)
         Quadratic elements along and through the bar [-].
     """
