@@ -99,17 +99,38 @@ def shared(tmp_path_factory):
     return lambda key, compute: shared_result(key, compute, basetemp)
 
 
-def _with_solves(compute):
-    """``compute`` as a shareable result: its value and the 2-D solves it added to this process's memo.
+def process_solves():
+    """The solves this process remembers: the 2-D ones (:mod:`cutplan.physics.elastic2d`) and the
+    3-D side-mode ones (:mod:`cutplan.physics.side_modes`), as ``(2-D, 3-D)`` dicts."""
+    from cutplan.physics import elastic2d, side_modes
 
-    A worker that reads the value also takes the solves into its own memo, so planning the same
+    return elastic2d.remembered_solves(), side_modes.remembered_side_modes()
+
+
+def solves_added(before):
+    """What this process has remembered since ``before`` (a :func:`process_solves`), in its form."""
+    return tuple({k: v for k, v in now.items() if k not in old} for now, old in zip(process_solves(), before))
+
+
+def take_solves(solves):
+    """Take solves made by another process (from :func:`solves_added`) into this one's memos."""
+    from cutplan.physics import elastic2d, side_modes
+
+    flat, solid = solves
+    elastic2d.remember_solves(flat)
+    side_modes.remember_side_modes(solid)
+
+
+def _with_solves(compute):
+    """``compute`` as a shareable result: its value and the solves (2-D and 3-D side modes) it
+    added to this process's memos.
+
+    A worker that reads the value also takes the solves into its own memos, so planning the same
     design again there (the command line, the page, a trim) finds them as the first worker did."""
     def run():
-        from cutplan.physics import elastic2d
-
-        before = set(elastic2d.remembered_solves())
+        before = process_solves()
         value = compute()
-        return value, {k: v for k, v in elastic2d.remembered_solves().items() if k not in before}
+        return value, solves_added(before)
     return run
 
 
@@ -117,13 +138,11 @@ _MERGED: set = set()
 
 
 def _shared_example(shared, key, compute):
-    """The value of a :func:`_with_solves` result, its solves taken into this process's memo."""
+    """The value of a :func:`_with_solves` result, its solves taken into this process's memos."""
     value, solves = shared(key, _with_solves(compute))
     if key not in _MERGED:
         _MERGED.add(key)
-        from cutplan.physics import elastic2d
-
-        elastic2d.remember_solves(solves)
+        take_solves(solves)
     return value
 
 
