@@ -25,6 +25,7 @@ from pathlib import Path
 
 import pytest
 
+from tests.bytecode import start_warming
 from tests.pdf_text import page_texts
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -277,6 +278,22 @@ def pytest_xdist_make_scheduler(config, log):
             super()._assign_work_unit(node)
 
     return HeavyFilesFirst(config, log)
+
+
+_WARMING: list = []
+
+
+@pytest.hookimpl(trylast=True)  # after pytest-xdist's, which says whether workers will run
+def pytest_configure(config):
+    """Under pytest-xdist, compile the test modules and the package once for all workers while they
+    start (:mod:`tests.bytecode`; only where bytecode may be written, as ``.ci/run`` allows)."""
+    _WARMING.append(start_warming(config, ROOT / "cutplan", ROOT / "tests"))
+
+
+def pytest_unconfigure(config):
+    for thread in filter(None, _WARMING):
+        thread.join()
+    _WARMING.clear()
 
 
 def pytest_terminal_summary(terminalreporter):
