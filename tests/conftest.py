@@ -25,6 +25,7 @@ from pathlib import Path
 
 import pytest
 
+from tests.bytecode import start_warming
 from tests.pdf_text import page_texts
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -35,32 +36,36 @@ HEAVY_FIRST = (
     "tests/web/test_browser.py",
     "tests/test_elastic_plans.py",
     "tests/tuning/test_removal_rounds.py",
-    "tests/tuning/test_trim_state_lock.py",
-    "tests/test_from_stock.py",
-    "tests/tuning/test_trim_service.py",
-    "tests/physics/test_solid3d.py",
-    "tests/web/test_progress.py",
-    "tests/test_fuzz.py",
-    "tests/test_unreachable.py",
-    "tests/test_grain.py",
-    "tests/test_calibrate_elastic.py",
+    "tests/physics/test_mixed_partials.py",
     "tests/physics/test_width_terms.py",
-    "tests/test_one_truth.py",
-    "tests/render/test_templates.py",
-    "tests/physics/test_stepped_bar.py",
-    "tests/web/test_request_limits.py",
-    "tests/web/test_api.py",
-    "tests/physics/test_undercut.py",
-    "tests/render/test_quantities.py",
-    "tests/test_hanging.py",
-    "tests/render/test_packet_content.py",
-    "tests/physics/test_elastic2d_memo.py",
+    "tests/tuning/test_trim_state_lock.py",
+    "tests/physics/test_solid3d.py",
     "tests/audio/test_measure.py",
+    "tests/test_calibrate_elastic.py",
+    "tests/test_unreachable.py",
+    "tests/test_fuzz.py",
+    "tests/audio/test_recordings.py",
+    "tests/physics/test_stepped_bar.py",
+    "tests/test_width_modes.py",
+    "tests/test_grain.py",
+    "tests/test_one_truth.py",
+    "tests/web/test_request_limits.py",
+    "tests/render/test_templates.py",
+    "tests/tuning/test_trim_service.py",
+    "tests/render/test_quantities.py",
     "tests/test_hardening.py",
+    "tests/audio/test_hum.py",
+    "tests/web/test_progress.py",
+    "tests/test_imports.py",
+    "tests/test_output_folders.py",
+    "tests/physics/test_elastic2d_memo.py",
+    "tests/test_from_stock.py",
 )
 """Test files in the order the workers start them, heaviest first (wall seconds of each file in a
-whole-suite ``--durations=0`` run); files not named follow in collection order.  The order only
-changes how evenly the workers are loaded, never what runs."""
+whole-suite run beside other busy programs, the case the suite's time target is set for; the web
+page's browser tests second, so that the first two files do not wait on the same shared plan);
+files not named follow in collection order.  The order only changes how evenly the workers are
+loaded, never what runs."""
 
 _RESULTS: dict = {}
 
@@ -99,17 +104,38 @@ def shared(tmp_path_factory):
     return lambda key, compute: shared_result(key, compute, basetemp)
 
 
-def _with_solves(compute):
-    """``compute`` as a shareable result: its value and the 2-D solves it added to this process's memo.
+def process_solves():
+    """The solves this process remembers: the 2-D ones (:mod:`cutplan.physics.elastic2d`) and the
+    3-D side-mode ones (:mod:`cutplan.physics.side_modes`), as ``(2-D, 3-D)`` dicts."""
+    from cutplan.physics import elastic2d, side_modes
 
-    A worker that reads the value also takes the solves into its own memo, so planning the same
+    return elastic2d.remembered_solves(), side_modes.remembered_side_modes()
+
+
+def solves_added(before):
+    """What this process has remembered since ``before`` (a :func:`process_solves`), in its form."""
+    return tuple({k: v for k, v in now.items() if k not in old} for now, old in zip(process_solves(), before))
+
+
+def take_solves(solves):
+    """Take solves made by another process (from :func:`solves_added`) into this one's memos."""
+    from cutplan.physics import elastic2d, side_modes
+
+    flat, solid = solves
+    elastic2d.remember_solves(flat)
+    side_modes.remember_side_modes(solid)
+
+
+def _with_solves(compute):
+    """``compute`` as a shareable result: its value and the solves (2-D and 3-D side modes) it
+    added to this process's memos.
+
+    A worker that reads the value also takes the solves into its own memos, so planning the same
     design again there (the command line, the page, a trim) finds them as the first worker did."""
     def run():
-        from cutplan.physics import elastic2d
-
-        before = set(elastic2d.remembered_solves())
+        before = process_solves()
         value = compute()
-        return value, {k: v for k, v in elastic2d.remembered_solves().items() if k not in before}
+        return value, solves_added(before)
     return run
 
 
@@ -117,13 +143,11 @@ _MERGED: set = set()
 
 
 def _shared_example(shared, key, compute):
-    """The value of a :func:`_with_solves` result, its solves taken into this process's memo."""
+    """The value of a :func:`_with_solves` result, its solves taken into this process's memos."""
     value, solves = shared(key, _with_solves(compute))
     if key not in _MERGED:
         _MERGED.add(key)
-        from cutplan.physics import elastic2d
-
-        elastic2d.remember_solves(solves)
+        take_solves(solves)
     return value
 
 
@@ -258,6 +282,22 @@ def pytest_xdist_make_scheduler(config, log):
             super()._assign_work_unit(node)
 
     return HeavyFilesFirst(config, log)
+
+
+_WARMING: list = []
+
+
+@pytest.hookimpl(trylast=True)  # after pytest-xdist's, which says whether workers will run
+def pytest_configure(config):
+    """Under pytest-xdist, compile the test modules and the package once for all workers while they
+    start (:mod:`tests.bytecode`; only where bytecode may be written, as ``.ci/run`` allows)."""
+    _WARMING.append(start_warming(config, ROOT / "cutplan", ROOT / "tests"))
+
+
+def pytest_unconfigure(config):
+    for thread in filter(None, _WARMING):
+        thread.join()
+    _WARMING.clear()
 
 
 def pytest_terminal_summary(terminalreporter):

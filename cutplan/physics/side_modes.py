@@ -22,7 +22,8 @@ References
 
 from __future__ import annotations
 
-from functools import lru_cache
+import threading
+from collections import OrderedDict
 
 import numpy as np
 
@@ -31,7 +32,8 @@ from cutplan.physics import beam_fe, solid3d, timoshenko, torsion, undercut
 __all__ = [
     "sideways_frequencies", "twisting_frequencies_bar", "twisting_frequencies_tube",
     "sideways_frequencies_arched", "twisting_frequencies_arched", "twisting_frequencies_bar_orthotropic",
-    "solid_side_modes", "twisting_stiffening", "twisting_frequencies_bar_solid"
+    "solid_side_modes", "twisting_stiffening", "twisting_frequencies_bar_solid", "MEMO_SIZE",
+    "remembered_side_modes", "remember_side_modes", "forget_side_modes"
 ]
 
 
@@ -149,16 +151,78 @@ def twisting_frequencies_bar_orthotropic(length, width, thickness, g_width, g_th
     return torsion.free_free_twisting_frequency(np.arange(1, modes + 1), length, gj, rho_ip)
 
 
-@lru_cache(maxsize=512)
+MEMO_SIZE = 512
+"""3-D solves each process remembers (:func:`solid_side_modes` and :func:`twisting_stiffening`
+together), the least recently used dropped first."""
+
+_MEMO: OrderedDict[tuple, object] = OrderedDict()
+_MEMO_LOCK = threading.Lock()
+
+
+def _remembered(key, solve):
+    """``solve()`` under ``key``, made once per process while it stays among the last :data:`MEMO_SIZE`."""
+    with _MEMO_LOCK:
+        if key in _MEMO:
+            _MEMO.move_to_end(key)
+            return _MEMO[key]
+    result = solve()
+    with _MEMO_LOCK:
+        _MEMO[key] = result
+        while len(_MEMO) > MEMO_SIZE:
+            _MEMO.popitem(last=False)
+    return result
+
+
+def forget_side_modes():
+    """Empty this process's memo of 3-D solves (as a fresh process has it)."""
+    with _MEMO_LOCK:
+        _MEMO.clear()
+
+
+def remembered_side_modes():
+    """A copy of the 3-D solves this process remembers ({key: value}; the values are frozen), to
+    hand to another process planning the same designs (see :func:`remember_side_modes`)."""
+    with _MEMO_LOCK:
+        return dict(_MEMO)
+
+
+def remember_side_modes(solves):
+    """Take 3-D solves made by another process (from :func:`remembered_side_modes`) into this one's
+    memo; a solve it already has is kept, and the oldest drop out past :data:`MEMO_SIZE`.
+
+    The values are the very answers the other process computed, so a plan here is bit for bit
+    the plan it would have made by solving.
+
+    >>> kept = remembered_side_modes(); remember_side_modes(kept); remembered_side_modes() == kept
+    True
+    """
+    with _MEMO_LOCK:
+        for key, value in solves.items():
+            _MEMO.setdefault(key, value)
+        while len(_MEMO) > MEMO_SIZE:
+            _MEMO.popitem(last=False)
+
+
+def _number(value):
+    """A float's bits as a memo-key part (bit for bit: -0.0 is not 0.0)."""
+    return np.float64(value).tobytes()
+
+
 def solid_side_modes(length, width, thickness, depth, arch_fraction, exponent, constants, density, modes=6):
     """Sideways and twisting frequencies [Hz] of an arched bar from the 3-D model
-    (:func:`cutplan.physics.solid3d.solve_side_modes`), cached: the same bar is solved once per
-    process.  ``constants`` is a :class:`cutplan.physics.solid3d.Orthotropic`."""
-    h = _thickness(length, thickness, depth, arch_fraction, exponent)
-    return solid3d.solve_side_modes(length, width, thickness, h, constants, density, arch_fraction, modes=modes)
+    (:func:`cutplan.physics.solid3d.solve_side_modes`), remembered: the same bar is solved once per
+    process (and, handed on by :func:`remember_side_modes`, once for several).  ``constants`` is a
+    :class:`cutplan.physics.solid3d.Orthotropic`."""
+    key = ("solid", *map(_number, (length, width, thickness, depth, arch_fraction, exponent)), constants,
+           _number(density), int(modes))
+
+    def solve():
+        h = _thickness(length, thickness, depth, arch_fraction, exponent)
+        return solid3d.solve_side_modes(length, width, thickness, h, constants, density, arch_fraction, modes=modes)
+
+    return _remembered(key, solve)
 
 
-@lru_cache(maxsize=64)
 def twisting_stiffening(width, thickness, constants, density):
     """c [m^2] in f_n^2 = f_n,SV^2 (1 + c k_n^2), k_n = n pi / L: how much a uniform bar of this
     section twists above Saint-Venant, fitted once per section to the 3-D model of a bar 8 times
@@ -167,9 +231,15 @@ def twisting_stiffening(width, thickness, constants, density):
     Twisting of a wood bar is stiffened by the restrained warping of its section, the more so the
     softer its shear against E along the grain (flat-sawn maple: about 15 cents on mode 1 and 125
     cents on mode 3 at 400 x 50 x 22 mm); the k^2 law is that of warping torsion (Vlasov, V. Z.,
-    Thin-Walled Elastic Beams, 2nd ed., 1961), its size here comes from the 3-D model.  Cached:
-    one 3-D solve per section and material.
+    Thin-Walled Elastic Beams, 2nd ed., 1961), its size here comes from the 3-D model.  Remembered
+    as :func:`solid_side_modes` is: one 3-D solve per section and material.
     """
+    key = ("stiffening", _number(width), _number(thickness), constants, _number(density))
+    return _remembered(key, lambda: _stiffening(width, thickness, constants, density))
+
+
+def _stiffening(width, thickness, constants, density):
+    """:func:`twisting_stiffening`, solved."""
     length = 8 * max(width, thickness)
     modes = solid3d.solve_side_modes(length, width, thickness, lambda x: thickness + 0 * x, constants, density,
                                      0.0, modes=3)

@@ -6,8 +6,8 @@ from pathlib import Path
 
 import pytest
 
-from cutplan.physics import elastic2d
 from cutplan.web.service import Planner
+from tests.conftest import process_solves, solves_added, take_solves
 
 ROOT = Path(__file__).resolve().parents[2]
 EXAMPLES = sorted((ROOT / "examples").glob("*.toml"))
@@ -42,19 +42,20 @@ def client(app):
 
 
 def _pair_solves():
-    """The 2-D solves planning :data:`ARCHED_PAIR` adds to this process's memo."""
-    before = set(elastic2d.remembered_solves())
+    """The solves (2-D, and the 3-D side modes) planning :data:`ARCHED_PAIR` adds to this process's memos."""
+    before = process_solves()
     Planner().compute(ARCHED_PAIR)
-    return {k: v for k, v in elastic2d.remembered_solves().items() if k not in before}
+    return solves_added(before)
 
 
 @pytest.fixture(scope="session")
 def arched_pair_solves(shared):
-    """``arched_pair_solves()`` puts the 2-D solves of :data:`ARCHED_PAIR` into this process's memo
-    (made once per run, across pytest-xdist workers, by the ``shared`` cache of tests/conftest.py).
+    """``arched_pair_solves()`` puts the solves of :data:`ARCHED_PAIR` (2-D, and the 3-D side modes)
+    into this process's memos (made once per run, across pytest-xdist workers, by the ``shared``
+    cache of tests/conftest.py).
 
     A plan of the pair in this process (a Planner, the page's server thread, the command line)
     then finds them remembered instead of solving the bars again; it still goes through every
     step of planning and reports each bar as solved.  Call it just before that plan: other
     tests' solves may have pushed the pair's out of the memo's bounded size since."""
-    return lambda: elastic2d.remember_solves(shared(("web", "arched-pair-solves"), _pair_solves))
+    return lambda: take_solves(shared(("web", "arched-pair-solves"), _pair_solves))
