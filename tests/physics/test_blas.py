@@ -19,17 +19,22 @@ def blas_threads():
 def test_single_thread_inside_and_restored_after(monkeypatch):
     for name in blas.USER_THREAD_VARIABLES:
         monkeypatch.delenv(name, raising=False)
-    before = blas_threads()
-    with blas.single_thread():
-        assert all(n == 1 for n in blas_threads())
-    assert blas_threads() == before
+    # the tests run with one BLAS thread (tests/conftest.py): raise it to two first, so the limit
+    # has something to do and the count it restores is not already one
+    with ThreadpoolController().limit(limits=2, user_api="blas"):
+        before = blas_threads()
+        assert before and all(n == 2 for n in before)
+        with blas.single_thread():
+            assert all(n == 1 for n in blas_threads())
+        assert blas_threads() == before
 
 
 def test_a_thread_count_the_user_chose_is_respected(monkeypatch):
     monkeypatch.setenv("OPENBLAS_NUM_THREADS", "2")
-    before = blas_threads()
-    with blas.single_thread():
-        assert blas_threads() == before
+    with ThreadpoolController().limit(limits=2, user_api="blas"):
+        before = blas_threads()
+        with blas.single_thread():
+            assert blas_threads() == before
 
 
 def test_planning_uniform_pieces_loads_no_scipy():
