@@ -10,10 +10,10 @@ import time
 
 import numpy as np
 
-from cutplan.tuning.calibrate_moduli import _partial_frequencies, fit_moduli
 from cutplan.materials import load_library
 from cutplan.physics import side_modes, timoshenko
 from cutplan.physics.sections import bar
+from cutplan.tuning.calibrate_moduli import _partial_frequencies, fit_moduli
 
 
 def cpu(fn, repeat=5):

@@ -12,9 +12,9 @@ import subprocess
 import sys
 import time
 
-from cutplan.planning import grain
 from cutplan.materials import load_library
 from cutplan.physics import side_modes, solid3d, undercut
+from cutplan.planning import grain
 
 L, B, T, DEPTH, FRACTION, EXPONENT = 0.40, 0.055, 0.024, 0.014, 0.5, 2.0
 
