@@ -18,14 +18,14 @@ PACKAGE = Path(__file__).resolve().parent.parent / "cutplan"
 LAZY_PACKAGES = {"scipy", "skfem", "threadpoolctl", "fcntl"}
 """Third-party modules imported inside functions: a chime plan never needs them and they cost
 start-up time (figures beside the imports; median CPU of 9 runs: scipy.fft with scipy.ndimage
-0.38 s, scipy.optimize 0.65 s, on top of 0.41 s for ``import cutplan.cli``), or a platform may
+0.32 s, scipy.optimize 0.47 s, on top of 0.52 s for ``import cutplan.cli``), or a platform may
 lack them (fcntl)."""
 
 LAZY_MODULES = {"cutplan"}
 """Modules whose in-function imports keep ``import cutplan`` light (figures in its comment)."""
 
 HEAVY_IMPORTS = {
-    ("cutplan.cli.plans", "cutplan.render.packet"),  # reportlab and svgwrite: only for -o
+    ("cutplan.cli.plans", "cutplan.render.packet"),  # reportlab: only for -o
     ("cutplan.cli.serve", "cutplan.web.server"),  # flask and waitress: only for the page
 }
 """(module, imported) pairs imported inside a command so that ``cutplan --help`` starts fast

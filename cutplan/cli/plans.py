@@ -21,8 +21,8 @@ from cutplan.render.terminal import render_stock, render_table
 
 __all__ = ["plan_command", "cutlist_command"]
 
-# the shop packet's PDF and SVG writers (reportlab, svgwrite) load only when -o asks for a packet:
-# start-up is 0.41 s CPU, 0.68 s with them at the top (measured; see cutplan.cli)
+# the shop packet's writers (reportlab for the PDF) load only when -o asks for a packet:
+# start-up is 0.52 s CPU, 0.62 s with them at the top (measured; see cutplan.cli)
 
 
 @click.command("plan")

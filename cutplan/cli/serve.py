@@ -12,7 +12,7 @@ from cutplan.materials import MaterialError, load_library
 __all__ = ["serve_command"]
 
 # the page's server (flask, waitress, and the packet writers) loads only when the command runs:
-# start-up is 0.41 s CPU, 0.82 s with it and the packet writers at the top (measured; see cutplan.cli)
+# start-up is 0.52 s CPU, 0.78 s with it and the packet writers at the top (measured; see cutplan.cli)
 
 
 @click.command("serve")
