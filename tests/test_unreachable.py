@@ -1,6 +1,8 @@
 """Targets a piece cannot reach are errors (exit 2, one line naming the key, the value and what
 would be allowed), never warnings on a plan that is printed anyway."""
 
+import re
+
 import pytest
 from click.testing import CliRunner
 
@@ -69,6 +71,7 @@ def test_the_same_resonator_within_its_max_length_plans_without_a_warning():
 def test_an_arch_that_cannot_reach_its_ratio_is_an_unreachable_error_on_the_ratios(tmp_path):
     line = _one_line(tmp_path, ARCH)
     assert "set[1].undercut.ratios: [4.0] cannot be reached" in line and "min_thickness" in line
+    assert "C6 (1046.5 Hz)" in line and "min 18.0 mm (23/32 in)" in line, line  # the bar, both units
     with pytest.raises(DesignErrors) as info:
         cutplan.plan(cutplan.load_design(tmp_path / "d.toml"))
     assert [(e.code, e.key) for e in info.value.errors] == [("unreachable", "set[1].undercut.ratios")]
@@ -104,4 +107,14 @@ def test_a_wide_top_bar_is_refused_naming_the_note_and_the_cross_width_mode(tmp_
     # them, the width-resolved body can); the refusal names the bar and says what to change
     line = _one_line(tmp_path, WIDE_TOP_BAR)
     assert "set[1].undercut.ratios: [4.0] cannot be reached" in line and "G#6" in line, line
-    assert "across its 55 mm width" in line and "narrower" in line and "only the fundamental" in line, line
+    assert "across its 55.0 mm (2-5/32 in) width" in line and "narrower" in line and "only the fundamental" in line, line
+
+
+def test_the_refusal_of_an_inch_design_gives_its_lengths_in_inches_first(tmp_path):
+    # the same bar in an inch design with sixteenths: every length in the refusal reads inches
+    # first, to the nearest 1/16 in, millimetres after (25.4 mm to the inch exactly: NIST SP 811,
+    # 2008, appendix B.8); 55 mm is 2.165 in, nearest sixteenth 2-3/16 in
+    line = _one_line(tmp_path, 'units = "in"\ninch_denominator = 16\n' + WIDE_TOP_BAR)
+    assert "G#6" in line and "across its 2-3/16 in (55.0 mm) width" in line, line
+    assert "min 3/16 in (5.0 mm)" in line, line  # 5 mm is 0.197 in: 3/16 in is the nearest sixteenth
+    assert not re.findall(r"\d mm(?!\))", line), line  # millimetres only ever in brackets, after inches

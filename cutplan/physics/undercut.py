@@ -32,6 +32,7 @@ from cutplan.physics import beam_fe
 from cutplan.physics.blas import single_thread
 from cutplan.physics.remember import remembered
 from cutplan.physics.timoshenko import fundamental_length
+from cutplan.units import format_length
 
 __all__ = [
     "ELEMENTS_END", "ELEMENTS_ARCH", "ORDER", "UndercutError", "arch_thickness", "arch_area", "bar_modes",
@@ -47,7 +48,24 @@ ORDER = 3
 
 
 class UndercutError(ValueError):
-    """No arch within the limits reaches the asked-for tuning."""
+    """No arch within the limits reaches the asked-for tuning.
+
+    The lengths in the message stay numbers [m] until it is shown: ``template`` names them
+    (``{left}``, ``{width}``, ...) and :meth:`text` writes them with the caller's length formatter,
+    so a design in inches reads inches first; ``str()`` writes millimetres first, both units shown.
+    """
+
+    def __init__(self, template, prefix="", **lengths):
+        self.template, self.prefix, self.lengths = template, prefix, lengths
+        super().__init__(self.text())
+
+    def text(self, length=format_length):
+        """The message, each length written by ``length(metres)``."""
+        return self.prefix + self.template.format(**{k: length(v) for k, v in self.lengths.items()})
+
+    def named(self, prefix):
+        """The same refusal with ``prefix`` (which bar) in front."""
+        return UndercutError(self.template, prefix + self.prefix, **self.lengths)
 
 
 def arch_thickness(x, length, thickness, depth, arch_fraction, exponent=2.0):
@@ -242,12 +260,11 @@ def design_undercut(target, ratios, width, thickness, modulus, shear_modulus, de
     length, depth = math.exp(v[0]), v[1] * max_depth
     exponent = v[2] if three else exponent
     if abs(r[0]) > 0.5 or any(abs(x) > 5.0 for x in r[1:]):
-        thin = thickness - depth
         raise UndercutError(
             f"no arch of width {arch_fraction:g} x L reaches {':'.join(f'{x:g}' for x in (1,) + ratios)} "
-            f"(best leaves {thin * 1000:.1f} mm at the centre, min {min_thickness * 1000:.1f} mm, and misses "
+            f"(best leaves {{left}} at the centre, min {{least}}, and misses "
             f"by {max(abs(x) for x in r[1:]):.0f} cents); try another arch width, a thicker blank or a "
-            "lower min_thickness")
+            "lower min_thickness", left=thickness - depth, least=min_thickness)
     nodes = tuple(beam_fe.node_positions(modes, 1))
     return SolvedArch(length=length, depth=depth, arch_fraction=arch_fraction, exponent=exponent, thickness=thickness,
                     frequencies=tuple(float(f) for f in modes.frequencies), nodes=nodes,

@@ -221,17 +221,18 @@ def design_undercut_2d(target, ratios, width, thickness, plane, kappa, min_thick
     shape = v[2] if three else start.exponent
     if abs(r[0]) > 0.5 or any(abs(x) > 2.0 for x in r[1:]):
         tuning = ':'.join(f'{x:g}' for x in (1,) + ratios)
-        missed = (f"best leaves {(thickness - depth) * 1000:.1f} mm at the centre, min {min_thickness * 1000:.1f} mm, "
+        missed = (f"best leaves {{left}} at the centre, min {{least}}, "
                   f"and misses by {max(abs(x) for x in r):.1f} cents")
+        lengths = {"left": thickness - depth, "least": min_thickness}
         across = _cross_width_mode(modes, r) if plane.width is not None else None
         if across is not None:
             raise undercut.UndercutError(
-                f"the bar also bends across its {width * 1000:.0f} mm width at {across:.0f} Hz, close to its second "
+                f"the bar also bends across its {{width}} width at {across:.0f} Hz, close to its second "
                 f"partial ({modes.frequencies[1]:.0f} Hz), which pulls that partial off {tuning} ({missed}); make "
-                "the top bars narrower, or tune only the fundamental (or a lower ratio) there")
+                "the top bars narrower, or tune only the fundamental (or a lower ratio) there", width=width, **lengths)
         raise undercut.UndercutError(
             f"no arch of width {arch_fraction:g} x L reaches {tuning} in the 2-D model ({missed}); try another arch "
-            "width, a thicker blank or a lower min_thickness")
+            "width, a thicker blank or a lower min_thickness", **lengths)
     return SolvedArch2d(length=length, depth=depth, arch_fraction=arch_fraction, exponent=shape, thickness=thickness,
                       frequencies=tuple(float(f) for f in modes.frequencies), nodes=tuple(modes.nodes[0]),
                       ratio_residuals_cents=tuple(float(x) for x in r[1:]), fundamental_residual_cents=float(r[0]),

@@ -81,7 +81,7 @@ def plan_undercut_set_2d(spec, design, stock, progress=None):
                                    cut.min_thickness, cut.arch_width, guess=guess, jacobian=jacobian, offset=offset,
                                    width_offset=_next_offset(offsets, target))
         except UndercutError as exc:  # the refusal names the bar that cannot be tuned
-            raise UndercutError(f"{spec.targets[i].name} ({target:.1f} Hz): {exc}") from None
+            raise exc.named(f"{spec.targets[i].name} ({target:.1f} Hz): ") from None
         guess, jacobian, offset = (r.length, r.depth, r.exponent), r.jacobian, r.offset_cents
         offsets.append((target, r.width_offset_cents))
         # the design's own solve of the profile it printed (remembered by the solver): its other modes

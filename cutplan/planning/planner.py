@@ -134,8 +134,11 @@ def _plan_undercut_set(spec: SetSpec, design: Design, stock, progress=None):
         # lowest note first; each bar starts from its neighbour's arch and Jacobian (the first
         # Newton step then does the length scaling)
         t = spec.targets[i]
-        result = undercut.design_undercut(t.frequency, cut.ratios, sec.width, sec.thickness, e, g, mat.density,
-                                          kappa, cut.min_thickness, cut.arch_width, guess=guess, jacobian=jacobian)
+        try:
+            result = undercut.design_undercut(t.frequency, cut.ratios, sec.width, sec.thickness, e, g, mat.density,
+                                              kappa, cut.min_thickness, cut.arch_width, guess=guess, jacobian=jacobian)
+        except UndercutError as exc:  # the refusal names the bar that cannot be tuned
+            raise exc.named(f"{t.name} ({t.frequency:.1f} Hz): ") from None
         guess, jacobian = (result.length, result.depth, result.exponent), result.jacobian
         solved[i] = result
         if progress is not None:
@@ -301,9 +304,10 @@ def plan(design: Design, progress=None, stock_override=None, tables=None) -> Pla
                         continue
                 pieces = other_modes.with_other_modes(spec, pieces)
                 pieces = hang_holes.with_hang_holes(spec, pieces, tables.hang_holes, design.units)
-            except UndercutError as exc:  # the arch cannot reach the ratios asked for
+            except UndercutError as exc:  # the arch cannot reach the ratios asked for (lengths in the design's units)
+                why = exc.text(lambda m: format_length(m, design.units, design.inch_denominator))
                 errors.append(DesignError(design.path, set_key(spec, "undercut.ratios"), list(spec.undercut.ratios),
-                                          f'cannot be reached in set "{spec.name}": {exc}', notices.UNREACHABLE))
+                                          f'cannot be reached in set "{spec.name}": {why}', notices.UNREACHABLE))
                 continue
             except ValueError:  # the key, the value and what is allowed, in a builder's words
                 errors.append(reach.refusal(design, spec))
