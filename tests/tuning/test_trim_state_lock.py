@@ -10,7 +10,7 @@ the later write would drop the other's round.
 
 The design is the music-room marimba's two lowest bars, planned as in the example (the second
 started from the first), with the readings of tests/tuning/conftest.py.  Each run is handed the
-2-D solves of the example's plan and of that advice, as a process that planned the example
+2-D solves of the example's plan and of that advice, and the 3-D side-mode solves, as a process that planned the example
 before would have them, so the runs spend their time on the command and the lock rather than on
 the arches.
 """
@@ -27,7 +27,7 @@ from pathlib import Path
 import pytest
 
 import cutplan
-from cutplan.physics import elastic2d
+from cutplan.physics import elastic2d, side_modes
 from tests.tuning.conftest import FIRST_READINGS
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -48,10 +48,12 @@ from pathlib import Path
 
 import cutplan.cli.shop as shop
 from cutplan.cli import cli
-from cutplan.physics import elastic2d
+from cutplan.physics import elastic2d, side_modes
 
 signals, label = Path(sys.argv[1]), sys.argv[2]
-elastic2d.remember_solves(pickle.loads((signals / "solves.pickle").read_bytes()))
+solves, sideways = pickle.loads((signals / "solves.pickle").read_bytes())
+elastic2d.remember_solves(solves)
+side_modes.remember_side_modes(sideways)
 lock, advise = shop.locked, shop.trim_reading
 
 
@@ -91,7 +93,8 @@ def test_two_trims_at_once_lose_no_round(tmp_path, example_plan, first_advice_so
     cutplan.plan(cutplan.load_design(design))  # its solves remembered here (made again if dropped since)
     signals = tmp_path / "signals"
     signals.mkdir()
-    (signals / "solves.pickle").write_bytes(pickle.dumps(elastic2d.remembered_solves()))
+    (signals / "solves.pickle").write_bytes(pickle.dumps((elastic2d.remembered_solves(),
+                                                          side_modes.remembered_side_modes())))
     runs = {label: subprocess.Popen([sys.executable, "-c", RUN, str(signals), label, str(design), label,
                                      "--measured", measured], cwd=ROOT, text=True,
                                     stdout=subprocess.PIPE, stderr=subprocess.PIPE)
