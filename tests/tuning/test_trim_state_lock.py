@@ -10,9 +10,9 @@ the later write would drop the other's round.
 
 The design is the music-room marimba's two lowest bars, planned as in the example (the second
 started from the first), with the readings of tests/tuning/conftest.py.  Each run is handed the
-2-D solves of the example's plan and of that advice, and the 3-D side-mode solves, as a process that planned the example
-before would have them, so the runs spend their time on the command and the lock rather than on
-the arches.
+2-D solves of the example's plan and of that advice, and the 3-D side-mode solves, as a process
+that planned the example before would have them, so the runs spend their time on the command and
+the lock rather than on the arches.
 """
 
 from __future__ import annotations
