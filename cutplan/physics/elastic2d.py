@@ -44,8 +44,6 @@ References
 from __future__ import annotations
 
 import math
-import threading
-from collections import OrderedDict
 from dataclasses import dataclass
 
 # scikit-fem and scipy.sparse.linalg are imported where used: a chime plan (0.72 s CPU) never needs them; at the top they add 0.9 s (measured)
@@ -54,6 +52,7 @@ import numpy as np
 from cutplan.physics import mirror_modes, width_terms
 from cutplan.physics.bending_partials import sort_modes
 from cutplan.physics.blas import single_thread
+from cutplan.physics.remember import SharedMemo
 
 __all__ = [
     "ELEMENTS_ALONG", "ELEMENTS_THROUGH", "RIGID_MODES", "ProfileError", "ProfileModes", "MEMO_SIZE", "forget_solves",
@@ -99,31 +98,24 @@ MEMO_SIZE = 512
 """Solves remembered per process [-]: a design planned again (the page after each edit, ``trim``
 after ``plan``, a packet's several outputs) re-uses its bars' solves instead of repeating them."""
 
-_MEMO: OrderedDict[tuple, ProfileModes] = OrderedDict()
-_MEMO_LOCK = threading.Lock()
+_MEMO = SharedMemo(MEMO_SIZE)
 
 
 def forget_solves():
     """Empty the memo of :func:`profile_modes` (the next solves are made afresh)."""
-    with _MEMO_LOCK:
-        _MEMO.clear()
+    _MEMO.clear()
 
 
 def remembered_solves():
     """A copy of the solves this process remembers ({key: ProfileModes}; the values are frozen), to
     hand to another process planning the same designs (see :func:`remember_solves`)."""
-    with _MEMO_LOCK:
-        return dict(_MEMO)
+    return _MEMO.copy()
 
 
 def remember_solves(solves):
     """Take solves made by another process (from :func:`remembered_solves`) into this one's memo;
     a solve it already has is kept, and the oldest drop out past :data:`MEMO_SIZE`."""
-    with _MEMO_LOCK:
-        for key, value in solves.items():
-            _MEMO.setdefault(key, value)
-        while len(_MEMO) > MEMO_SIZE:
-            _MEMO.popitem(last=False)
+    _MEMO.take(solves)
 
 
 def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_modulus, poisson, density,
@@ -176,17 +168,9 @@ def profile_modes(xs, thickness, width, modulus_along, modulus_across, shear_mod
     key = (np.asarray(xs, dtype=float).tobytes(), np.asarray(thickness, dtype=float).tobytes(), float(width),
            float(modulus_along), float(modulus_across), float(shear_modulus), float(poisson), float(density),
            int(modes), int(elements_along), int(elements_through), width_constants, int(width_order))
-    with _MEMO_LOCK:
-        if key in _MEMO:
-            _MEMO.move_to_end(key)
-            return _MEMO[key]
-    result = _solve_profile(xs, thickness, width, modulus_along, modulus_across, shear_modulus, poisson, density,
-                            modes, elements_along, elements_through, width_constants, width_order)
-    with _MEMO_LOCK:
-        _MEMO[key] = result
-        while len(_MEMO) > MEMO_SIZE:
-            _MEMO.popitem(last=False)
-    return result
+    return _MEMO.get(key, lambda: _solve_profile(xs, thickness, width, modulus_along, modulus_across, shear_modulus,
+                                                 poisson, density, modes, elements_along, elements_through,
+                                                 width_constants, width_order))
 
 
 def _solve_profile(xs, thickness, width, modulus_along, modulus_across, shear_modulus, poisson, density,

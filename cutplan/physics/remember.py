@@ -5,6 +5,9 @@ anew at every edit with most sets unchanged, and a plan asks for a set's modes f
 the other-modes check and the allowance alike.  A remembered answer is the very array the first
 call returned (copied out, so a caller may change its copy), so results are identical with or
 without the memo.  Only finite answers are kept; a call that raises is never remembered.
+
+The finite-element solves (2-D profiles, 3-D side modes) keep theirs in a :class:`SharedMemo`
+instead: keyed by the caller, and able to hand its answers to another process.
 """
 
 from __future__ import annotations
@@ -12,10 +15,11 @@ from __future__ import annotations
 import dataclasses
 import functools
 import threading
+from collections import OrderedDict
 
 import numpy as np
 
-__all__ = ["remembered"]
+__all__ = ["remembered", "SharedMemo"]
 
 
 def _key_part(value):
@@ -99,3 +103,60 @@ def remembered(maxsize):
         return wrapper
 
     return decorate
+
+
+class SharedMemo:
+    """The last ``size`` answers of an expensive solve, by a key the caller makes, least recently
+    used dropped first; the answers can be copied out and handed to another process.
+
+    For the finite-element solves, whose answers are frozen values: a process that plans a design
+    hands its solves to another planning the same design (the test workers, a command run after a
+    plan), which then gives bit for bit the plan it would have made by solving.
+
+    >>> memo = SharedMemo(2); memo.get("a", lambda: 1), memo.get("a", lambda: 2)
+    (1, 1)
+    >>> other = SharedMemo(2); other.take(memo.copy()); other.get("a", lambda: 3)
+    1
+    """
+
+    def __init__(self, size):
+        self.size = size
+        self._answers: OrderedDict = OrderedDict()
+        self._lock = threading.Lock()
+
+    def get(self, key, solve):
+        """The answer under ``key``, from ``solve()`` the first time (while it stays among the last ``size``)."""
+        with self._lock:
+            if key in self._answers:
+                self._answers.move_to_end(key)
+                return self._answers[key]
+        result = solve()
+        with self._lock:
+            self._answers[key] = result
+            self._trim()
+        return result
+
+    def clear(self):
+        """Forget every answer (as a fresh process has it)."""
+        with self._lock:
+            self._answers.clear()
+
+    def copy(self):
+        """A copy of the answers ({key: answer}) to hand to another process (see :meth:`take`)."""
+        with self._lock:
+            return dict(self._answers)
+
+    def take(self, answers):
+        """Take answers made by another process (from :meth:`copy`); an answer already here is kept."""
+        with self._lock:
+            for key, value in answers.items():
+                self._answers.setdefault(key, value)
+            self._trim()
+
+    def __len__(self):
+        with self._lock:
+            return len(self._answers)
+
+    def _trim(self):
+        while len(self._answers) > self.size:
+            self._answers.popitem(last=False)

@@ -22,12 +22,10 @@ References
 
 from __future__ import annotations
 
-import threading
-from collections import OrderedDict
-
 import numpy as np
 
 from cutplan.physics import beam_fe, solid3d, timoshenko, torsion, undercut
+from cutplan.physics.remember import SharedMemo
 
 __all__ = [
     "sideways_frequencies", "twisting_frequencies_bar", "twisting_frequencies_tube",
@@ -155,35 +153,18 @@ MEMO_SIZE = 512
 """3-D solves each process remembers (:func:`solid_side_modes` and :func:`twisting_stiffening`
 together), the least recently used dropped first."""
 
-_MEMO: OrderedDict[tuple, object] = OrderedDict()
-_MEMO_LOCK = threading.Lock()
-
-
-def _remembered(key, solve):
-    """``solve()`` under ``key``, made once per process while it stays among the last :data:`MEMO_SIZE`."""
-    with _MEMO_LOCK:
-        if key in _MEMO:
-            _MEMO.move_to_end(key)
-            return _MEMO[key]
-    result = solve()
-    with _MEMO_LOCK:
-        _MEMO[key] = result
-        while len(_MEMO) > MEMO_SIZE:
-            _MEMO.popitem(last=False)
-    return result
+_MEMO = SharedMemo(MEMO_SIZE)
 
 
 def forget_side_modes():
     """Empty this process's memo of 3-D solves (as a fresh process has it)."""
-    with _MEMO_LOCK:
-        _MEMO.clear()
+    _MEMO.clear()
 
 
 def remembered_side_modes():
     """A copy of the 3-D solves this process remembers ({key: value}; the values are frozen), to
     hand to another process planning the same designs (see :func:`remember_side_modes`)."""
-    with _MEMO_LOCK:
-        return dict(_MEMO)
+    return _MEMO.copy()
 
 
 def remember_side_modes(solves):
@@ -196,11 +177,7 @@ def remember_side_modes(solves):
     >>> kept = remembered_side_modes(); remember_side_modes(kept); remembered_side_modes() == kept
     True
     """
-    with _MEMO_LOCK:
-        for key, value in solves.items():
-            _MEMO.setdefault(key, value)
-        while len(_MEMO) > MEMO_SIZE:
-            _MEMO.popitem(last=False)
+    _MEMO.take(solves)
 
 
 def _number(value):
@@ -220,7 +197,7 @@ def solid_side_modes(length, width, thickness, depth, arch_fraction, exponent, c
         h = _thickness(length, thickness, depth, arch_fraction, exponent)
         return solid3d.solve_side_modes(length, width, thickness, h, constants, density, arch_fraction, modes=modes)
 
-    return _remembered(key, solve)
+    return _MEMO.get(key, solve)
 
 
 def twisting_stiffening(width, thickness, constants, density):
@@ -235,7 +212,7 @@ def twisting_stiffening(width, thickness, constants, density):
     as :func:`solid_side_modes` is: one 3-D solve per section and material.
     """
     key = ("stiffening", _number(width), _number(thickness), constants, _number(density))
-    return _remembered(key, lambda: _stiffening(width, thickness, constants, density))
+    return _MEMO.get(key, lambda: _stiffening(width, thickness, constants, density))
 
 
 def _stiffening(width, thickness, constants, density):
