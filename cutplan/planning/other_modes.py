@@ -40,6 +40,7 @@ def resize_advice(what):
     (``what``: "width", "width or thickness")."""
     return f"a few mm (about 1/8 in) more or less {what} moves it away"
 
+
 def _cents(a, b):
     return 1200 * math.log2(a / b)
 
