@@ -2,9 +2,9 @@
 
 Commands live in :mod:`cutplan.cli.plans`, :mod:`cutplan.cli.pieces` and :mod:`cutplan.cli.shop`;
 what they share is in :mod:`cutplan.cli.common`. Imports are at the top except the two heavy ones,
-imported inside the commands that use them so that ``cutplan --help`` starts fast: the packet's writers
-(reportlab for the PDF; the SVG templates are written as plain text) and the page's server (flask,
-waitress). Measured (median CPU time of 9 runs, one machine): ``import cutplan.cli`` takes 0.52 s,
+imported inside the commands that use them so that ``cutplan --help`` starts fast: the packet's
+writers (reportlab for the PDF; the SVG templates are written as plain text) and the page's server
+(flask, waitress). Measured (median CPU time of 9 runs, one machine): ``import cutplan.cli`` takes 0.52 s,
 0.62 s with the packet writers at the top, 0.78 s with the server too.
 """
 
