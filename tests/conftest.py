@@ -105,6 +105,16 @@ def shared_result(key, compute, basetemp=None):
     return value
 
 
+@pytest.fixture(scope="module")
+def one_analysis_per_recording():
+    """Each distinct recording analysed once in the module that asks (tests/audio/memo.py), with
+    ``pytestmark = pytest.mark.usefixtures("one_analysis_per_recording")`` and its reason beside it."""
+    from tests.audio.memo import analyses_remembered
+
+    with analyses_remembered():
+        yield
+
+
 @pytest.fixture(scope="session")
 def shared(tmp_path_factory):
     """``shared(key, compute)`` -> :func:`shared_result` for this run (one result across workers)."""

@@ -20,7 +20,7 @@ import ctypes
 import pypdfium2 as pdfium
 import pypdfium2.raw as pdfium_c
 
-__all__ = ["page_texts", "c_function", "address"]
+__all__ = ["page_texts", "c_function", "address", "TEXT_OBJECT", "IS_GENERATED"]
 
 
 def c_function(func, restype, *argtypes):
@@ -36,8 +36,9 @@ def address(handle) -> int:
     return ctypes.cast(handle, ctypes.c_void_p).value
 
 
-_TEXT_OBJECT = c_function(pdfium_c.FPDFText_GetTextObject, ctypes.c_void_p, ctypes.c_void_p, ctypes.c_int)
-_IS_GENERATED = c_function(pdfium_c.FPDFText_IsGenerated, ctypes.c_int, ctypes.c_void_p, ctypes.c_int)
+TEXT_OBJECT = c_function(pdfium_c.FPDFText_GetTextObject, ctypes.c_void_p, ctypes.c_void_p, ctypes.c_int)
+"""FPDFText_GetTextObject as a plain-handle prototype (shared with tests/render/pdf_reader.py)."""
+IS_GENERATED = c_function(pdfium_c.FPDFText_IsGenerated, ctypes.c_int, ctypes.c_void_p, ctypes.c_int)
 
 
 def page_texts(source) -> list[str]:
@@ -55,7 +56,7 @@ def _page_text(page) -> str:
              if pdfium_c.FPDFPageObj_GetType(o) == pdfium_c.FPDF_PAGEOBJ_TEXT}
     textpage = page.get_textpage()
     raw = address(textpage.raw)
-    get_object, generated = _TEXT_OBJECT, _IS_GENERATED
+    get_object, generated = TEXT_OBJECT, IS_GENERATED
     strings: dict[int, list[str]] = {}
     try:
         count = textpage.count_chars()

@@ -16,19 +16,11 @@ from hypothesis import strategies as st
 import cutplan.cli.common
 from cutplan import materials
 from cutplan.cli import cli
-from tests.audio.memo import analyses_remembered
 from tests.fuzzing import bad_lengths, broken_wav, mutated_design, to_toml
 
-
-@pytest.fixture(scope="module", autouse=True)
-def one_analysis_per_recording():
-    """Each distinct recording analysed once in this module (tests/audio/memo.py):
-    the damaged WAVs that still ring hold one of a few tones."""
-    with analyses_remembered():
-        yield
-
-
-pytestmark = pytest.mark.slow  # some 35 CPU seconds of generated designs, options and recordings
+# slow: some 35 CPU seconds of generated designs, options and recordings; each distinct recording
+# analysed once (tests/audio/memo.py): the damaged WAVs that still ring hold one of a few tones.
+pytestmark = [pytest.mark.slow, pytest.mark.usefixtures("one_analysis_per_recording")]
 
 
 @pytest.fixture(scope="module", autouse=True)

@@ -23,15 +23,10 @@ from click.testing import CliRunner
 
 from cutplan import folder, numeric
 from cutplan.cli import cli
-from tests.audio.memo import analyses_remembered
 
-
-@pytest.fixture(scope="module", autouse=True)
-def one_analysis_per_recording():
-    """Each distinct recording analysed once in this module (tests/audio/memo.py):
-    the click and near checks measure the same recordings."""
-    with analyses_remembered():
-        yield
+# each distinct recording analysed once (tests/audio/memo.py): the header tests measure the same
+# ringing tone.
+pytestmark = pytest.mark.usefixtures("one_analysis_per_recording")
 
 
 CHIMES = '''title = "Garden chimes"

@@ -19,15 +19,10 @@ from cutplan.audio.analysis import measure
 from cutplan.audio.hum import hum_lines
 from cutplan.audio.partials import find_partials, strike_segment
 from cutplan.audio.synth import mains_hum, tone
-from tests.audio.memo import analyses_remembered
 
-
-@pytest.fixture(scope="module", autouse=True)
-def one_analysis_per_recording():
-    """Each distinct recording analysed once in this module (tests/audio/memo.py):
-    the same recordings are read by measure and by find_partials."""
-    with analyses_remembered():
-        yield
+# each distinct recording analysed once (tests/audio/memo.py): the same recordings are read by
+# measure and by find_partials.
+pytestmark = pytest.mark.usefixtures("one_analysis_per_recording")
 
 
 RATE = 44100

@@ -25,15 +25,10 @@ from cutplan.audio.partials import find_partials
 from cutplan.audio.synth import piece_preview, tone
 from cutplan.audio.wav import RecordingError, wav_bytes
 from cutplan.cli import cli
-from tests.audio.memo import analyses_remembered
 
-
-@pytest.fixture(scope="module", autouse=True)
-def one_analysis_per_recording():
-    """Each distinct recording analysed once in this module (tests/audio/memo.py):
-    one recording is measured with and without --near and --kind."""
-    with analyses_remembered():
-        yield
+# each distinct recording analysed once (tests/audio/memo.py): one recording is measured with and
+# without --near and --kind.
+pytestmark = pytest.mark.usefixtures("one_analysis_per_recording")
 
 
 RATE = 44100

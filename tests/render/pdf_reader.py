@@ -33,7 +33,7 @@ import itertools
 import pypdfium2
 import pypdfium2.raw as pdfium_c
 
-from tests.pdf_text import address, c_function
+from tests.pdf_text import IS_GENERATED, TEXT_OBJECT, address, c_function
 
 __all__ = ["PageFacts", "read_pages"]
 
@@ -128,8 +128,6 @@ def read_pages(data: bytes) -> list[PageFacts]:
 
 
 _VOID, _INT = ctypes.c_void_p, ctypes.c_int
-_TEXT_OBJECT = c_function(pdfium_c.FPDFText_GetTextObject, _VOID, _VOID, _INT)
-_IS_GENERATED = c_function(pdfium_c.FPDFText_IsGenerated, _INT, _VOID, _INT)
 _CHAR_ORIGIN = c_function(pdfium_c.FPDFText_GetCharOrigin, _INT, _VOID, _INT, _VOID, _VOID)
 _SEGMENT = c_function(pdfium_c.FPDFPath_GetPathSegment, _VOID, _VOID, _INT)
 _SEGMENT_POINT = c_function(pdfium_c.FPDFPathSegment_GetPoint, _INT, _VOID, _VOID, _VOID)
@@ -216,7 +214,7 @@ def _read_text(page, objects, index, by_object, height):
     x, y = ctypes.c_double(), ctypes.c_double()
     at_x, at_y = ctypes.addressof(x), ctypes.addressof(y)
     m, advance = pdfium_c.FS_MATRIX(), ctypes.c_float()
-    text_object, generated, origin = _TEXT_OBJECT, _IS_GENERATED, _CHAR_ORIGIN
+    text_object, generated, origin = TEXT_OBJECT, IS_GENERATED, _CHAR_ORIGIN
     try:
         count = textpage.count_chars()
         text = textpage.get_text_range(0, count)

@@ -27,7 +27,8 @@ from pathlib import Path
 import pytest
 
 import cutplan
-from cutplan.physics import elastic2d, side_modes
+from cutplan.physics import elastic2d
+from tests.conftest import process_solves
 from tests.tuning.conftest import FIRST_READINGS
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -93,8 +94,7 @@ def test_two_trims_at_once_lose_no_round(tmp_path, example_plan, first_advice_so
     cutplan.plan(cutplan.load_design(design))  # its solves remembered here (made again if dropped since)
     signals = tmp_path / "signals"
     signals.mkdir()
-    (signals / "solves.pickle").write_bytes(pickle.dumps((elastic2d.remembered_solves(),
-                                                          side_modes.remembered_side_modes())))
+    (signals / "solves.pickle").write_bytes(pickle.dumps(process_solves()))  # (2-D, 3-D)
     runs = {label: subprocess.Popen([sys.executable, "-c", RUN, str(signals), label, str(design), label,
                                      "--measured", measured], cwd=ROOT, text=True,
                                     stdout=subprocess.PIPE, stderr=subprocess.PIPE)
