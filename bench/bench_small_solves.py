@@ -27,7 +27,7 @@ from cutplan.planning.service import guarded_plan  # noqa: E402
 
 _RNG = np.random.default_rng(7)
 SECTIONS = [(10 ** _RNG.uniform(-6, -0.7), 10 ** _RNG.uniform(-1.3, 0)) for _ in range(40)]
-TUBE = (68.9e9 * 1.14e-8, 0.333, 0.53 * 26e9 * 1.23e-4, 2700 * 1.14e-8)  # 1 in x 0.065 in aluminium, SI
+TUBE = (68.9e9 * 8.73e-9, 0.333, 0.53 * 26e9 * 1.23e-4, 2700 * 8.73e-9)  # 1 in x 0.065 in aluminium, SI
 EXAMPLES = ["porch-chimes", "garden-conduit-chime", "just-copper", "classroom-pipes", "workshop-marimba"]
 
 

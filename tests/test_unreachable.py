@@ -71,7 +71,10 @@ def test_the_same_resonator_within_its_max_length_plans_without_a_warning():
 def test_an_arch_that_cannot_reach_its_ratio_is_an_unreachable_error_on_the_ratios(tmp_path):
     line = _one_line(tmp_path, ARCH)
     assert "set[1].undercut.ratios: [4.0] cannot be reached" in line and "min_thickness" in line
-    assert "C6 (1046.5 Hz)" in line and "min 18.0 mm (23/32 in)" in line, line  # the bar, both units
+    # the bar by name and pitch (C6 = 1046.50 Hz at A4 = 440 Hz, equal temperament: ISO 16:1975),
+    # lengths in both units (18 mm = 0.709 in, nearest 1/32 in 23/32; 25.4 mm to the inch exactly:
+    # NIST SP 811, 2008, appendix B.8)
+    assert "C6 (1046.5 Hz)" in line and "min 18.0 mm (23/32 in)" in line, line
     with pytest.raises(DesignErrors) as info:
         cutplan.plan(cutplan.load_design(tmp_path / "d.toml"))
     assert [(e.code, e.key) for e in info.value.errors] == [("unreachable", "set[1].undercut.ratios")]
@@ -107,6 +110,7 @@ def test_a_wide_top_bar_is_refused_naming_the_note_and_the_cross_width_mode(tmp_
     # them, the width-resolved body can); the refusal names the bar and says what to change
     line = _one_line(tmp_path, WIDE_TOP_BAR)
     assert "set[1].undercut.ratios: [4.0] cannot be reached" in line and "G#6" in line, line
+    # 55 mm = 2.165 in, nearest 1/32 in 2-5/32 (25.4 mm to the inch exactly: NIST SP 811, 2008, B.8)
     assert "across its 55.0 mm (2-5/32 in) width" in line and "narrower" in line and "only the fundamental" in line, line
 
 

@@ -35,7 +35,7 @@ def test_solves_handed_to_a_fresh_memo_are_the_same_and_not_solved_again(memo_ke
     stiffening = side_modes.twisting_stiffening(0.055, 0.024, constants, maple.density)
     assert side_modes.solid_side_modes(*ARCHED, constants, maple.density, 3) is arched  # remembered here
     handed = pickle.loads(pickle.dumps(side_modes.remembered_side_modes()))  # as the workers hand them on
-    assert len(handed) == 2
+    assert len(handed) == 2  # the arched bar's solve and its section's stiffening fit
 
     side_modes.forget_side_modes()  # a fresh process
 
